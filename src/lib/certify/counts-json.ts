@@ -1,0 +1,101 @@
+/**
+ * JSON counts form (product.md): `{"dimension": d, "tables": [{"basis": t, "counts": [[…d×d…]]}]}`,
+ * optionally with `accidentals` and `duration_s` matrices of the same shape in a table.
+ * Errors name the JSON path and the line and column where the offending value starts.
+ */
+import { parseTree, printParseErrorCode, type Node, type ParseError } from 'jsonc-parser';
+import { checkBasis, checkDimension, InputError, decodeCountsText, emptyTable, type CountsDataset, type CountTable } from './counts';
+
+const TABLE_KEYS = new Set(['basis', 'counts', 'accidentals', 'duration_s']);
+
+function locator(text: string) {
+	return (offset: number) => {
+		const before = text.slice(0, offset);
+		const line = before.split('\n').length;
+		return { line, column: offset - before.lastIndexOf('\n') };
+	};
+}
+
+export function parseCountsJson(input: Uint8Array | string, dimension?: number): CountsDataset {
+	const text = decodeCountsText(input);
+	const where = locator(text);
+	const fail = (node: Node | undefined, path: string, message: string): never => {
+		const at = node ? where(node.offset) : undefined;
+		throw new InputError(`${path}: ${message}`, at?.line, at?.column);
+	};
+	const errors: ParseError[] = [];
+	const root = parseTree(text, errors, { disallowComments: true, allowTrailingComma: false });
+	if (errors.length || !root) {
+		const first = errors[0];
+		const at = first ? where(first.offset) : undefined;
+		throw new InputError(`not valid JSON (${first ? printParseErrorCode(first.error) : 'no value'})`, at?.line, at?.column);
+	}
+	if (root.type !== 'object') fail(root, '$', 'expected an object with "dimension" and "tables"');
+	const member = (node: Node, key: string) => node.children?.find((p) => p.children?.[0].value === key)?.children?.[1];
+	for (const property of root.children ?? []) {
+		const key = property.children?.[0].value;
+		if (key !== 'dimension' && key !== 'tables') fail(property, `$.${key}`, 'unknown field');
+	}
+	const dimNode = member(root, 'dimension');
+	if (!dimNode) fail(root, '$', 'missing field "dimension"');
+	let d: number;
+	try {
+		d = checkDimension(dimNode!.value, '$.dimension');
+	} catch (error) {
+		return fail(dimNode, '$.dimension', (error as Error).message.replace(/^\$\.dimension /, ''));
+	}
+	if (dimension !== undefined && dimension !== d) {
+		fail(dimNode, '$.dimension', `the file says ${d} but dimension ${dimension} was requested`);
+	}
+	const tablesNode = member(root, 'tables');
+	if (!tablesNode || tablesNode.type !== 'array' || !tablesNode.children?.length) {
+		fail(tablesNode ?? root, '$.tables', 'expected a non-empty array of tables');
+	}
+	const tables = new Map<number, CountTable>();
+	tablesNode!.children!.forEach((tableNode, i) => {
+		const path = `$.tables[${i}]`;
+		if (tableNode.type !== 'object') fail(tableNode, path, 'expected an object with "basis" and "counts"');
+		for (const property of tableNode.children ?? []) {
+			const key = property.children?.[0].value;
+			if (!TABLE_KEYS.has(key)) fail(property, `${path}.${key}`, 'unknown field');
+		}
+		const basisNode = member(tableNode, 'basis');
+		const basis = basisNode?.value;
+		if (typeof basis !== 'number' || !Number.isInteger(basis) || basis < 0) {
+			fail(basisNode ?? tableNode, `${path}.basis`, 'expected a non-negative whole number');
+		}
+		const at = where(basisNode!.offset);
+		checkBasis(d, basis, `${path}.basis`, at.line, at.column);
+		if (tables.has(basis)) fail(basisNode, `${path}.basis`, `basis ${basis} appears twice`);
+		const accNode = member(tableNode, 'accidentals');
+		const durNode = member(tableNode, 'duration_s');
+		const table = emptyTable(d, basis, { accidentals: !!accNode, durations: !!durNode });
+		const countsNode = member(tableNode, 'counts');
+		if (!countsNode) fail(tableNode, path, 'missing field "counts"');
+		readMatrix(countsNode!, `${path}.counts`, d, fail, (cell, v) => (table.counts[cell] = v), 'whole');
+		table.present.fill(1);
+		if (accNode) readMatrix(accNode, `${path}.accidentals`, d, fail, (c, v) => (table.accidentals![c] = v), 'nonnegative');
+		if (durNode) readMatrix(durNode, `${path}.duration_s`, d, fail, (c, v) => (table.durations![c] = v), 'positive');
+		tables.set(basis, table);
+	});
+	return { dimension: d, tables: [...tables.values()].sort((x, y) => x.basis - y.basis) };
+}
+
+type Fail = (node: Node | undefined, path: string, message: string) => never;
+
+function readMatrix(node: Node, path: string, d: number, fail: Fail, store: (cell: number, v: number) => void, kind: 'whole' | 'nonnegative' | 'positive') {
+	if (node.type !== 'array' || node.children?.length !== d) fail(node, path, `expected ${d} rows`);
+	node.children!.forEach((row, a) => {
+		if (row.type !== 'array' || row.children?.length !== d) fail(row, `${path}[${a}]`, `expected ${d} entries`);
+		row.children!.forEach((entry, b) => {
+			const v = entry.value;
+			const ok =
+				entry.type === 'number' &&
+				Number.isFinite(v) &&
+				(kind === 'whole' ? Number.isSafeInteger(v) && v >= 0 : kind === 'positive' ? v > 0 : v >= 0);
+			const expected = kind === 'whole' ? 'a non-negative whole number' : kind === 'positive' ? 'a positive number' : 'a non-negative number';
+			if (!ok) fail(entry, `${path}[${a}][${b}]`, `expected ${expected}, got ${JSON.stringify(entry.value ?? null)}`);
+			store(a * d + b, v);
+		});
+	});
+}

@@ -1,0 +1,100 @@
+/**
+ * Count tables: one d×d table of coincidence counts per measurement basis, as read from a
+ * counts file (product.md, "Counts file format"). Cells are indexed `a * d + b`.
+ */
+import { basisExists, MAX_DIMENSION, MIN_DIMENSION } from './bases';
+
+export interface CountTable {
+	basis: number;
+	counts: Float64Array;
+	/** Estimated accidental (background) counts per cell, when the file gives them. */
+	accidentals: Float64Array | null;
+	/** Integration time of each cell in seconds, when the file gives it. */
+	durations: Float64Array | null;
+	/** 1 where the file has a row for the cell. */
+	present: Uint8Array;
+}
+
+export interface CountsDataset {
+	dimension: number;
+	/** Tables in ascending basis order. */
+	tables: CountTable[];
+}
+
+/** Bad input (a file, an option): the message names the line and column, or the field, where it can. */
+export class InputError extends Error {
+	constructor(
+		message: string,
+		readonly line?: number,
+		readonly column?: number
+	) {
+		super(line === undefined ? message : `line ${line}${column ? `, column ${column}` : ''}: ${message}`);
+		this.name = 'InputError';
+	}
+}
+
+export const MAX_COUNTS_FILE_BYTES = 20 * 1024 * 1024;
+
+export function checkDimension(d: unknown, where = 'dimension'): number {
+	if (typeof d !== 'number' || !Number.isInteger(d) || d < MIN_DIMENSION || d > MAX_DIMENSION) {
+		throw new InputError(
+			`${where} must be a whole number from ${MIN_DIMENSION} to ${MAX_DIMENSION}, got ${String(d)}`
+		);
+	}
+	return d;
+}
+
+export function emptyTable(d: number, basis: number, extras: { accidentals: boolean; durations: boolean }): CountTable {
+	return {
+		basis,
+		counts: new Float64Array(d * d),
+		accidentals: extras.accidentals ? new Float64Array(d * d) : null,
+		durations: extras.durations ? new Float64Array(d * d).fill(1) : null,
+		present: new Uint8Array(d * d)
+	};
+}
+
+export function checkBasis(d: number, basis: number, where: string, line?: number, column?: number): void {
+	if (!basisExists(d, basis)) {
+		const hint = d > 2 ? `0 and 1 exist in every dimension; 2..${d} only when ${d} is a prime power` : '0, 1 and 2 exist';
+		throw new InputError(`${where}: basis ${basis} does not exist in dimension ${d} (${hint})`, line, column);
+	}
+}
+
+/**
+ * Throws unless every cell of every listed basis is present: the normalisation T_t of
+ * witnesses.md §3 sums all d² cells, so a missing cell cannot be told from an unmeasured one.
+ */
+export function requireCompleteTables(dataset: CountsDataset, bases: number[], method: string): void {
+	const d = dataset.dimension;
+	for (const t of bases) {
+		const table = dataset.tables.find((x) => x.basis === t);
+		if (!table) throw new InputError(`method ${method} needs basis ${t}, which the file does not contain`);
+		const missing = table.present.indexOf(0);
+		if (missing >= 0) {
+			throw new InputError(
+				`basis ${t} is incomplete: no row for outcome_a=${Math.floor(missing / d)}, outcome_b=${missing % d} ` +
+					`(method ${method} needs all ${d * d} cells of each basis it uses)`
+			);
+		}
+		const total = table.counts.reduce((s, c) => s + c, 0);
+		if (total <= 0) throw new InputError(`basis ${t} has no counts at all`);
+	}
+}
+
+/** Decodes bytes as UTF-8 (rejecting invalid sequences) and drops a leading byte-order mark. */
+export function decodeCountsText(input: Uint8Array | string): string {
+	const size = typeof input === 'string' ? new TextEncoder().encode(input).length : input.byteLength;
+	if (size > MAX_COUNTS_FILE_BYTES) {
+		throw new InputError(`the file is ${size} bytes; the limit is ${MAX_COUNTS_FILE_BYTES} bytes (20 MiB)`);
+	}
+	let text: string;
+	try {
+		text = typeof input === 'string' ? input : new TextDecoder('utf-8', { fatal: true }).decode(input);
+	} catch {
+		throw new InputError('the file is not valid UTF-8 text');
+	}
+	if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
+	if (text.trim() === '') throw new InputError('the file is empty');
+	return text;
+}

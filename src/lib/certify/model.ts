@@ -1,0 +1,33 @@
+/**
+ * A statistic as a function of independent Poisson means: the observed counts (or sums of
+ * counts) x_i, each modelled as Poisson with mean x_i (witnesses.md §6). The bootstrap draws
+ * every x_i afresh and re-evaluates the statistic; the delta method uses the same function.
+ */
+export interface PoissonModel {
+	/** Observed values of the Poisson variables, in draw order. */
+	means: Float64Array;
+	/** The statistic for values x (x may be a replicate; the function must not keep it). */
+	statistic(x: Float64Array): number;
+}
+
+/**
+ * Delta-method standard error: sqrt(Σ (∂f/∂x_i)² x_i), with Poisson variance x_i and the
+ * partial derivatives by central differences (variables with zero mean have zero variance).
+ */
+export function deltaMethodStandardError(model: PoissonModel): number {
+	const x = Float64Array.from(model.means);
+	let variance = 0;
+	for (let i = 0; i < x.length; i++) {
+		const mean = model.means[i];
+		if (mean <= 0) continue;
+		const h = 1e-4 * mean;
+		x[i] = mean + h;
+		const up = model.statistic(x);
+		x[i] = mean - h;
+		const down = model.statistic(x);
+		x[i] = mean;
+		const slope = (up - down) / (2 * h);
+		variance += slope * slope * mean;
+	}
+	return Math.sqrt(variance);
+}

@@ -1,0 +1,75 @@
+/**
+ * Two-basis fidelity bound, device-dependent (witnesses.md §4.3): a lower bound F̃ on
+ * F = ⟨Φ_d|ρ|Φ_d⟩ from the full computational table and the Fourier matching probabilities,
+ *   F̃ = (1/d)[Σ_m p_0(m,m) + d·Σ_j p_1(j,j) − 1 − Γ],
+ *   Γ = Σ_{δ≠0} [(Σ_m √p_0(m, m−δ))² − Σ_m p_0(m, m−δ)],
+ * with m − δ taken in the label group of basis 1 (bases.ts). Bavaresco et al., Nat. Phys. 14,
+ * 1032 (2018); bound SN ≤ r ⇒ F ≤ r/d from Terhal & Horodecki, Phys. Rev. A 61, 040301(R) (2000).
+ */
+import { labelDifference } from '../bases';
+import type { PoissonModel } from '../model';
+import type { WitnessFamily } from './types';
+
+/** For each cell a·d + b of the computational table, the group difference a − b. */
+function differenceOfCells(d: number): Int32Array {
+	const minus = labelDifference(d);
+	const out = new Int32Array(d * d);
+	for (let a = 0; a < d; a++) for (let b = 0; b < d; b++) out[a * d + b] = minus(a, b);
+	return out;
+}
+
+/** F̃ from the computational weights w0 (any scale, total t0) and the Fourier matching fraction. */
+function fidelityLowerBound(w0: ArrayLike<number>, t0: number, fourierMatching: number, d: number, delta: Int32Array, sqrtSums: Float64Array, sums: Float64Array): number {
+	sqrtSums.fill(0);
+	sums.fill(0);
+	for (let c = 0; c < d * d; c++) {
+		sqrtSums[delta[c]] += Math.sqrt(w0[c]);
+		sums[delta[c]] += w0[c];
+	}
+	let gamma = 0;
+	for (let k = 1; k < d; k++) gamma += sqrtSums[k] * sqrtSums[k] - sums[k];
+	return (sums[0] / t0 + d * fourierMatching - 1 - gamma / t0) / d;
+}
+
+export const fidelityTwoBasis: WitnessFamily = {
+	id: 'fidelity-two-basis',
+	title: 'Two-basis fidelity bound',
+	trust: 'device-dependent',
+	reference:
+		'Bavaresco et al., Nat. Phys. 14, 1032 (2018); Terhal & Horodecki, Phys. Rev. A 61, 040301(R) (2000)',
+	defaultBases: () => [0, 1],
+	checkBases(bases) {
+		if (bases.length !== 2 || bases[0] !== 0 || bases[1] !== 1) {
+			throw new RangeError(`this method uses bases 0,1 (computational, then Fourier), got ${bases.join(',')}`);
+		}
+	},
+	bounds: (d) => Array.from({ length: d - 1 }, (_, i) => (i + 1) / d),
+	statistic(p, d) {
+		let matching = 0;
+		for (let j = 0; j < d; j++) matching += p[1][j * d + j];
+		return fidelityLowerBound(p[0], 1, matching, d, differenceOfCells(d), new Float64Array(d), new Float64Array(d));
+	},
+	/** Draws the d² computational cells, then the Fourier diagonal and off-diagonal totals (§6). */
+	sufficientModel(tables, d): PoissonModel {
+		const [computational, fourier] = tables;
+		const means = new Float64Array(d * d + 2);
+		means.set(computational.counts);
+		for (let c = 0; c < d * d; c++) {
+			if (c % (d + 1) === 0) means[d * d] += fourier.counts[c];
+			else means[d * d + 1] += fourier.counts[c];
+		}
+		const delta = differenceOfCells(d);
+		const sqrtSums = new Float64Array(d);
+		const sums = new Float64Array(d);
+		return {
+			means,
+			statistic(x) {
+				let t0 = 0;
+				for (let c = 0; c < d * d; c++) t0 += x[c];
+				const t1 = x[d * d] + x[d * d + 1];
+				const matching = t1 > 0 ? x[d * d] / t1 : 0;
+				return t0 > 0 ? fidelityLowerBound(x, t0, matching, d, delta, sqrtSums, sums) : 0;
+			}
+		};
+	}
+};

@@ -1,0 +1,26 @@
+/**
+ * MUB correlation sum, device-dependent (witnesses.md §4.1). SN ≤ r ⇒ S ≤ 1 + (m − 1)·r/d.
+ * r = 1: Spengler et al., Phys. Rev. A 86, 022311 (2012); general r: Morelli, Huber &
+ * Tavakoli, Phys. Rev. Lett. 131, 170201 (2023).
+ */
+import { availableBases } from '../bases';
+import { checkDistinctAvailable, matchingSum, matchingSumModel } from './correlation-sum';
+import type { WitnessFamily } from './types';
+
+export const mubCorrelation: WitnessFamily = {
+	id: 'mub-correlation',
+	title: 'MUB correlation sum',
+	trust: 'device-dependent',
+	reference:
+		'Spengler et al., Phys. Rev. A 86, 022311 (2012); Morelli, Huber & Tavakoli, Phys. Rev. Lett. 131, 170201 (2023)',
+	defaultBases: (present) => present,
+	checkBases(bases, d) {
+		checkDistinctAvailable(bases, d, { min: 2, max: availableBases(d).length });
+	},
+	bounds(d, bases) {
+		const m = bases.length;
+		return Array.from({ length: d - 1 }, (_, i) => 1 + ((m - 1) * (i + 1)) / d);
+	},
+	statistic: (p, d) => matchingSum(p, d),
+	sufficientModel: (tables, d) => matchingSumModel(tables, d)
+};
