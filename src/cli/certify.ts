@@ -1,0 +1,89 @@
+/**
+ * rankseal certify: check a counts file against a witness family from the command line.
+ *   npm run --silent certify -- --counts FILE --dimension D --method METHOD
+ *       [--bases 0,1] [--confidence 0.99865] [--resamples 10000] [--seed 1] [--claim K] [--json]
+ * Exit status: 0 success, 2 bad input (one line on stderr), 1 internal error.
+ */
+import { readFileSync } from 'node:fs';
+import { parseArgs } from 'node:util';
+import { certify, DEFAULTS, InputError, isMethodId, METHOD_IDS, parseCounts } from '../lib/certify';
+import { sha256Hex } from '../lib/evidence/hash';
+import { readableReport } from './report';
+
+const USAGE = `usage: npm run --silent certify -- --counts FILE --dimension D --method ${METHOD_IDS.join('|')}
+       [--bases 0,1] [--confidence ${DEFAULTS.confidence}] [--resamples ${DEFAULTS.resamples}] [--seed ${DEFAULTS.seed}] [--claim K] [--json]
+       [--subtract-accidentals]`;
+
+function wholeNumber(name: string, text: string | undefined): number | undefined {
+	if (text === undefined) return undefined;
+	if (!/^\d+$/.test(text.trim())) throw new InputError(`--${name} must be a whole number, got '${text}'`);
+	return Number(text);
+}
+
+function decimal(name: string, text: string | undefined): number | undefined {
+	if (text === undefined) return undefined;
+	const value = Number(text);
+	if (text.trim() === '' || !Number.isFinite(value)) throw new InputError(`--${name} must be a number, got '${text}'`);
+	return value;
+}
+
+function run(argv: string[]): number {
+	const { values } = parseArgs({
+		args: argv,
+		options: {
+			counts: { type: 'string' },
+			dimension: { type: 'string' },
+			method: { type: 'string' },
+			bases: { type: 'string' },
+			confidence: { type: 'string' },
+			resamples: { type: 'string' },
+			seed: { type: 'string' },
+			claim: { type: 'string' },
+			json: { type: 'boolean', default: false },
+			'subtract-accidentals': { type: 'boolean', default: false },
+			help: { type: 'boolean', default: false }
+		},
+		strict: true,
+		allowPositionals: false
+	});
+	if (values.help) {
+		process.stdout.write(USAGE + '\n');
+		return 0;
+	}
+	for (const required of ['counts', 'dimension', 'method'] as const) {
+		if (!values[required]) throw new InputError(`--${required} is required`);
+	}
+	if (!isMethodId(values.method!)) {
+		throw new InputError(`--method must be one of ${METHOD_IDS.join(', ')}, got '${values.method}'`);
+	}
+	const dimension = wholeNumber('dimension', values.dimension)!;
+	const bases = values.bases?.split(',').map((b) => wholeNumber('bases', b)!);
+	let bytes: Uint8Array;
+	try {
+		bytes = readFileSync(values.counts!);
+	} catch (error) {
+		throw new InputError(`cannot read --counts ${values.counts}: ${(error as NodeJS.ErrnoException).code ?? 'error'}`);
+	}
+	const dataset = parseCounts(bytes, dimension);
+	const result = certify(dataset, {
+		method: values.method!,
+		bases,
+		confidence: decimal('confidence', values.confidence),
+		resamples: wholeNumber('resamples', values.resamples),
+		seed: wholeNumber('seed', values.seed),
+		claim: wholeNumber('claim', values.claim),
+		subtractAccidentals: values['subtract-accidentals'],
+		inputSha256: sha256Hex(bytes)
+	});
+	process.stdout.write((values.json ? JSON.stringify(result) : readableReport(result, values.counts!)) + '\n');
+	return 0;
+}
+
+try {
+	process.exitCode = run(process.argv.slice(2));
+} catch (error) {
+	const badInput = error instanceof InputError || (error as { code?: string }).code?.startsWith('ERR_PARSE_ARGS');
+	process.stderr.write(`rankseal: ${(error as Error).message.split('\n')[0]}${badInput ? '' : ' (internal error)'}\n`);
+	if (!badInput) process.stderr.write(`${USAGE.split('\n')[0]}\n`);
+	process.exitCode = badInput ? 2 : 1;
+}

@@ -1,0 +1,39 @@
+/** The readable (non-JSON) report of the command line. */
+import type { CertificationResult } from '../lib/certify';
+
+const fmt = (x: number, digits = 5) => (Number.isFinite(x) ? x.toFixed(digits) : String(x));
+
+export function readableReport(r: CertificationResult, file: string): string {
+	const s = r.statistic;
+	const lines = [
+		`Rankseal check of ${file}`,
+		`  method            ${r.method} (${r.trust}); bases ${r.bases.join(', ')}; dimension ${r.dimension}`,
+		`  statistic         ${fmt(s.value)} ± ${fmt(s.standardError)} (bootstrap SE; delta method ${fmt(s.deltaMethodStandardError)})`,
+		`  lower bound       ${fmt(s.lower)} at one-sided confidence ${r.confidence}`,
+		`  95 % interval     [${fmt(s.interval95[0])}, ${fmt(s.interval95[1])}]`,
+		`  effective visibility (white noise) ${fmt(r.effectiveVisibility, 4)}`,
+		'',
+		'  rung  bound      margin (SE)  critical visibility'
+	];
+	for (const b of r.bounds) {
+		const margin = b.marginInStandardErrors === null ? 'n/a' : b.marginInStandardErrors.toFixed(1);
+		const mark = s.lower > b.bound ? 'cleared' : '';
+		lines.push(`  r=${String(b.upToSchmidtNumber).padEnd(3)} ${fmt(b.bound).padEnd(10)} ${margin.padStart(11)}  ${fmt(b.criticalVisibility, 4)}  ${mark}`);
+	}
+	lines.push('', `  Schmidt number at the point value  ≥ ${r.pointSchmidtNumber}`);
+	lines.push(`  certified Schmidt number           ≥ ${r.certifiedSchmidtNumber}  (${r.resamples} resamples, seed ${r.seed})`);
+	if (r.steeringRobustness) lines.push(`  steering robustness                ≥ ${fmt(r.steeringRobustness.lower, 4)} (at the lower bound)`);
+	if (r.claim) {
+		lines.push(`  claim: Schmidt number ≥ ${r.claim.schmidtNumber} is ${r.claim.verdict.toUpperCase()}`);
+		if (r.claim.shortfall) lines.push(`    ${r.claim.shortfall}`);
+	}
+	lines.push(`  input SHA-256 ${r.inputSha256}`);
+	for (const w of r.warnings) lines.push(`  note: ${w}`);
+	lines.push(
+		'',
+		'  A statistical statement under stated assumptions (i.i.d. trials, fair sampling',
+		r.trust === 'device-dependent' ? '  of detected pairs, calibrated measurements in the declared bases); not a' : '  of detected pairs, a trusted measurement on side B); not a',
+		'  substitute for peer review.'
+	);
+	return lines.join('\n');
+}

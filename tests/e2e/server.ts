@@ -1,0 +1,89 @@
+/**
+ * Runs the built app (`node build/index.js`, adapter-node) on a free local port for page tests.
+ * The test script builds first; here a missing build is an error that says so.
+ */
+import { spawn, type ChildProcess } from 'node:child_process';
+import { existsSync } from 'node:fs';
+import { createServer } from 'node:net';
+import { resolve } from 'node:path';
+
+const ENTRY = resolve('build/index.js');
+
+export interface AppServer {
+	origin: string;
+	port: number;
+	/** Everything the server printed, for failure messages. */
+	output(): string;
+	stop(): Promise<void>;
+}
+
+function freePort(): Promise<number> {
+	return new Promise((done, fail) => {
+		const probe = createServer();
+		probe.once('error', fail);
+		probe.listen(0, '127.0.0.1', () => {
+			const address = probe.address();
+			const port = typeof address === 'object' && address ? address.port : 0;
+			probe.close(() => done(port));
+		});
+	});
+}
+
+async function waitUntilAnswering(
+	origin: string,
+	child: ChildProcess,
+	log: () => string,
+	timeoutMs: number
+) {
+	const deadline = Date.now() + timeoutMs;
+	while (Date.now() < deadline) {
+		if (child.exitCode !== null) {
+			throw new Error(`the app exited with code ${child.exitCode} before answering:\n${log()}`);
+		}
+		try {
+			const response = await fetch(origin, { signal: AbortSignal.timeout(1000) });
+			await response.arrayBuffer();
+			return;
+		} catch {
+			await new Promise((wait) => setTimeout(wait, 150));
+		}
+	}
+	throw new Error(`the app did not answer at ${origin} within ${timeoutMs} ms:\n${log()}`);
+}
+
+export async function startApp(
+	env: Record<string, string> = {},
+	timeoutMs = 20_000
+): Promise<AppServer> {
+	if (!existsSync(ENTRY)) {
+		throw new Error(`${ENTRY} is missing: build the app first (npx vite build, or npm test)`);
+	}
+	const port = await freePort();
+	const origin = `http://127.0.0.1:${port}`;
+	const child = spawn(process.execPath, [ENTRY], {
+		env: { ...process.env, ...env, PORT: String(port), HOST: '127.0.0.1', ORIGIN: origin },
+		stdio: ['ignore', 'pipe', 'pipe']
+	});
+	let log = '';
+	child.stdout?.on('data', (chunk) => (log += chunk));
+	child.stderr?.on('data', (chunk) => (log += chunk));
+	const output = () => log;
+	const stop = () =>
+		new Promise<void>((done) => {
+			if (child.exitCode !== null || child.signalCode !== null) return done();
+			// adapter-node drains open connections on SIGTERM; do not wait on them for long.
+			const force = setTimeout(() => child.kill('SIGKILL'), 5000);
+			child.once('exit', () => {
+				clearTimeout(force);
+				done();
+			});
+			child.kill('SIGTERM');
+		});
+	try {
+		await waitUntilAnswering(origin, child, output, timeoutMs);
+	} catch (error) {
+		await stop();
+		throw error;
+	}
+	return { origin, port, output, stop };
+}
