@@ -1,5 +1,5 @@
 /** The landing page in a real Chromium against the built app: the live example runs in the page. */
-import { mkdtemp, rm, stat } from 'node:fs/promises';
+import { copyFile, mkdtemp, rm, stat } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { Page } from 'playwright-core';
@@ -12,6 +12,7 @@ let browser: TestBrowser;
 let page: Page;
 let shots: string;
 const requested: string[] = [];
+const pageErrors: string[] = [];
 
 /** Waits until the result panel shows a finished check of `method`. */
 async function waitForResult(method: string) {
@@ -31,6 +32,7 @@ beforeAll(async () => {
 	shots = await mkdtemp(join(tmpdir(), 'rankseal-shots-'));
 	browser.context.on('request', (request) => requested.push(request.url()));
 	page = await browser.context.newPage();
+	page.on('pageerror', (error) => pageErrors.push(error.message));
 	await page.goto(app.origin + '/');
 });
 
@@ -80,8 +82,9 @@ describe('landing page', () => {
 		const file = join(shots, 'landing.png');
 		await page.screenshot({ path: file, fullPage: true });
 		expect((await stat(file)).size).toBeGreaterThan(10_000);
+		// Set RANKSEAL_KEEP_SCREENSHOT=/some/file.png to look at the page after the run.
 		if (process.env.RANKSEAL_KEEP_SCREENSHOT)
-			await page.screenshot({ path: process.env.RANKSEAL_KEEP_SCREENSHOT, fullPage: true });
+			await copyFile(file, process.env.RANKSEAL_KEEP_SCREENSHOT);
 	});
 
 	it('asks nothing of any host but the app itself, fonts included', async () => {
@@ -92,5 +95,9 @@ describe('landing page', () => {
 		});
 		expect(outside).toEqual([]);
 		expect(requested.some((url) => /noto-serif.*\.woff2/.test(url))).toBe(true);
+	});
+
+	it('throws no errors in the page', () => {
+		expect(pageErrors).toEqual([]);
 	});
 });

@@ -2,7 +2,14 @@
  * The landing page's live example: an invented source, simulated with the engine's own
  * simulator so that visitors can watch a check run in their browser. No real group or data.
  */
-import { sampledCounts, states, toCountsCsv, type CountsDataset } from '$lib/certify';
+import {
+	certify,
+	sampledCounts,
+	states,
+	toCountsCsv,
+	type CountsDataset,
+	type MethodId
+} from '$lib/certify';
 
 export const halvorsenLake = {
 	group: 'Halvorsen Lake photonics group',
@@ -17,23 +24,34 @@ export const halvorsenLake = {
 	dataSeed: 20_250_611
 } as const;
 
-/** Poisson-sampled counts of a white-noise isotropic state with the scenario's visibility. */
+let drawn: CountsDataset | null = null;
+
+/** Poisson-sampled counts of a white-noise isotropic state; fixed by the data seed, so drawn once. */
 export function halvorsenLakeCounts(): CountsDataset {
 	const s = halvorsenLake;
-	return sampledCounts(
+	drawn ??= sampledCounts(
 		states.isotropic(s.dimension, s.visibility),
 		[...s.bases],
 		s.pairsPerBasis,
 		s.dataSeed
 	);
+	return drawn;
 }
 
 /** The same counts as our long-form CSV, labelled as simulated in its comment lines. */
-export function halvorsenLakeCsv(dataset: CountsDataset): string {
+export function halvorsenLakeCsv(): string {
 	const s = halvorsenLake;
-	return toCountsCsv(dataset, [
+	return toCountsCsv(halvorsenLakeCounts(), [
 		`SIMULATED data: the ${s.group} is fictional.`,
 		`Isotropic state, d = ${s.dimension}, visibility ${s.visibility}, ${s.pairsPerBasis} pairs per basis.`,
 		`Simulator seed ${s.dataSeed} (Rankseal engine, sampledCounts).`
 	]);
+}
+
+/** Runs the engine on the demo counts against the group's claim, timed in this runtime. */
+export function checkHalvorsenLake(options: { method: MethodId; resamples: number; seed: number }) {
+	const counts = halvorsenLakeCounts();
+	const started = performance.now();
+	const result = certify(counts, { ...options, claim: halvorsenLake.claimedSchmidtNumber });
+	return { result, elapsedMs: performance.now() - started };
 }
