@@ -1,14 +1,16 @@
 import normalQuantile from '@stdlib/stats-base-dists-normal-quantile';
 import { jStat } from 'jstat';
 import { describe, expect, it } from 'vitest';
-import { bootstrapReplicates, empiricalQuantile } from '../../src/lib/certify/bootstrap';
+import { bootstrapReplicates, empiricalQuantile, standardDeviation } from '../../src/lib/certify/bootstrap';
+import { perCellModel } from '../../src/lib/certify/cell-model';
 import { certify, expectedCounts, outcomeProbabilities, sampledCounts, states, witnessFamilies } from '../../src/lib/certify';
+import { deltaMethodStandardError } from '../../src/lib/certify/model';
 import { poissonSource } from '../../src/lib/certify/poisson';
 
 describe('the seeded Poisson sampler', () => {
 	// Pearson's χ² goodness-of-fit against jstat's Poisson pmf (an independent library), fixed seed;
-	// means below 30 exercise Knuth's method, the others PTRS (jstat's pmf overflows for k past ~140).
-	for (const mean of [0.7, 3.7, 29.5, 45.2, 90]) {
+	// means below 10 exercise inversion, the others PTRS (jstat's pmf overflows for k past ~140).
+	for (const mean of [0.7, 3.7, 9.99, 10, 45.2, 90]) {
 		it(`matches the Poisson(${mean}) distribution`, () => {
 			const draw = poissonSource(12345);
 			const n = 40_000;
@@ -73,14 +75,34 @@ describe('bootstrap (witnesses.md §6)', () => {
 	});
 
 	it('the sufficient totals give the same distribution as drawing every cell (§6)', () => {
-		const r1 = certify(data, { method: 'mub-correlation', resamples: 10_000 });
-		// Unequal-looking but equal durations keep the fast path; rates force the per-cell path.
-		const perCell = { ...data, tables: data.tables.map((t) => ({ ...t, durations: new Float64Array(25).map((_, i) => (i === 0 ? 2 : 1)) })) };
-		const r2 = certify(perCell, { method: 'mub-correlation', resamples: 10_000 });
-		expect(r2.resampling).toBe('per-cell');
-		expect(r2.normalisation).toBe('rates');
-		expect(r2.statistic.standardError / r1.statistic.standardError).toBeGreaterThan(0.9);
-		expect(r2.statistic.standardError / r1.statistic.standardError).toBeLessThan(1.1);
+		// A sum of independent Poisson variables is Poisson: both bootstraps must agree in mean and spread.
+		for (const method of ['mub-correlation', 'fidelity-two-basis'] as const) {
+			const family = witnessFamilies[method];
+			const bases = method === 'mub-correlation' ? [0, 1, 2] : [0, 1];
+			const tables = bases.map((t) => data.tables[t]);
+			const fast = bootstrapReplicates(family.sufficientModel(tables, 5, bases), { resamples: 10_000, seed: 5 });
+			const naive = bootstrapReplicates(perCellModel(tables, 5, (p) => family.statistic(p, 5, bases), { subtractAccidentals: false }), { resamples: 10_000, seed: 6 });
+			const mean = (x: Float64Array) => x.reduce((s, v) => s + v, 0) / x.length;
+			const se = standardDeviation(fast);
+			expect(Math.abs(mean(fast) - mean(naive))).toBeLessThan(0.05 * se);
+			expect(standardDeviation(naive) / se).toBeGreaterThan(0.97);
+			expect(standardDeviation(naive) / se).toBeLessThan(1.03);
+		}
+	});
+
+	it('cells with different integration times are normalised as rates and drawn cell by cell (§3)', () => {
+		// Basis 0's cell (0, 0) integrated twice as long as the rest: its rate is N/2.
+		const timed = { ...data, tables: data.tables.map((t) => (t.basis === 0 ? { ...t, durations: new Float64Array(25).map((_, i) => (i === 0 ? 2 : 1)) } : t)) };
+		const r = certify(timed, { method: 'mub-correlation', resamples: 1000 });
+		expect(r.resampling).toBe('per-cell');
+		expect(r.normalisation).toBe('rates');
+		const t0 = data.tables[0].counts;
+		const rates = Array.from(t0, (c, i) => (i === 0 ? c / 2 : c));
+		const total = rates.reduce((s, v) => s + v, 0);
+		const plain = certify(data, { method: 'mub-correlation', resamples: 1000 });
+		const diagonal = (t: Float64Array) => [0, 6, 12, 18, 24].reduce((s, i) => s + t[i], 0) / t.reduce((s, v) => s + v, 0);
+		const expected = plain.statistic.value - diagonal(t0) + [0, 6, 12, 18, 24].reduce((s, i) => s + rates[i], 0) / total;
+		expect(r.statistic.value).toBeCloseTo(expected, 12);
 	});
 
 	it('takes the empirical quantile as the order statistic x_(⌈qB⌉)', () => {
@@ -138,5 +160,17 @@ describe('the benchmark reference is the same statistic', () => {
 		const r = certify(data, { method: 'steering-2mub', resamples: 500, seed: 3 });
 		const sorted = Float64Array.from(reps).sort();
 		expect(empiricalQuantile(sorted, 1 - 0.99865)).toBe(r.statistic.lower);
+	});
+});
+
+describe('closed-form gradients for the delta method', () => {
+	it('agree with central differences of the same statistic', () => {
+		const data = sampledCounts(states.dephased(4, 0.7, 0.9), [0, 1, 2], 30_000, 4);
+		for (const [method, bases] of [['mub-correlation', [0, 1, 2]], ['fidelity-two-basis', [0, 1]]] as const) {
+			const model = witnessFamilies[method].sufficientModel(bases.map((t) => data.tables[t]), 4, [...bases]);
+			const closed = deltaMethodStandardError(model);
+			const numeric = deltaMethodStandardError({ means: model.means, statistic: model.statistic });
+			expect(closed / numeric).toBeCloseTo(1, 5);
+		}
 	});
 });

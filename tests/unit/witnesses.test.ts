@@ -39,7 +39,9 @@ describe('steering ladder (witnesses.md §4.2)', () => {
 		for (const d of [2, 3, 7, 31]) {
 			// Independent check: eigenvalues by mathjs of |e_0⟩⟨e_0| + |f⟩⟨f| with |⟨e_0|f⟩|² = 1/d.
 			const f = Array.from({ length: d }, () => 1 / Math.sqrt(d));
-			const sum = math.add(math.identity(d).map((_v: number, [i, j]: number[]) => (i === 0 && j === 0 ? 1 : 0)), math.multiply(math.matrix(f.map((x) => [x])), math.matrix([f]))) as math.Matrix;
+			const e0 = math.matrix(Array.from({ length: d }, (_, i) => [i === 0 ? 1 : 0]));
+			const fColumn = math.matrix(f.map((x) => [x]));
+			const sum = math.add(math.multiply(e0, math.transpose(e0)), math.multiply(fColumn, math.transpose(fColumn))) as math.Matrix;
 			const values = (math.eigs(sum).values as math.Matrix).toArray() as number[];
 			const largest = Math.max(...values);
 			expect(steeringBound(1, d)).toBeCloseTo(1 + 1 / Math.sqrt(d), 14);
@@ -110,7 +112,8 @@ function ket(d: number, t: number, j: number, conjugate: boolean): math.Matrix {
 }
 
 function expectation(rho: math.Matrix, psi: math.Matrix): number {
-	return math.re(math.multiply(math.ctranspose(psi), rho, psi).get([0, 0]) as math.Complex) as number;
+	const value = (math.multiply(math.multiply(math.ctranspose(psi), rho), psi) as math.Matrix).get([0, 0]) as math.Complex | number;
+	return typeof value === 'number' ? value : value.re;
 }
 
 describe('two-basis fidelity bound (witnesses.md §4.3)', () => {

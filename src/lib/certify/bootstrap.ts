@@ -4,7 +4,7 @@
  * reproducibility contract.
  */
 import type { PoissonModel } from './model';
-import { poissonSource } from './poisson';
+import { PoissonSampler, prepareMeans } from './poisson';
 
 export interface BootstrapOptions {
 	resamples: number;
@@ -14,13 +14,13 @@ export interface BootstrapOptions {
 }
 
 export function bootstrapReplicates(model: PoissonModel, options: BootstrapOptions): Float64Array {
-	const draw = poissonSource(options.seed);
-	const { means } = model;
-	const x = new Float64Array(means.length);
+	const sampler = new PoissonSampler(options.seed);
+	const prepared = prepareMeans(model.means);
+	const x = new Float64Array(model.means.length);
 	const replicates = new Float64Array(options.resamples);
 	const step = Math.max(1, Math.floor(options.resamples / 100));
 	for (let r = 0; r < options.resamples; r++) {
-		for (let i = 0; i < means.length; i++) x[i] = draw(means[i]);
+		sampler.drawAll(prepared, x);
 		replicates[r] = model.statistic(x);
 		if (options.onProgress && (r + 1) % step === 0) options.onProgress((r + 1) / options.resamples);
 	}

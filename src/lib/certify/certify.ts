@@ -162,8 +162,8 @@ export function certify(dataset: CountsDataset, options: CertifyOptions): Certif
 		warnings: warningsFor({ subtract, rates, resamples, confidence }),
 		engine: {
 			version: ENGINE_VERSION,
-			generator: 'MT19937, init_genrand(seed) (@stdlib/random-base-mt19937)',
-			poisson: 'Knuth multiplication below mean 30, PTRS above (@stdlib/random-base-poisson)'
+			generator: 'xoroshiro128+ (pure-rand), 32-bit uniforms',
+			poisson: 'inversion by sequential search below mean 10, PTRS (Hörmann 1993) from 10'
 		}
 	};
 }

@@ -8,13 +8,19 @@ export interface PoissonModel {
 	means: Float64Array;
 	/** The statistic for values x (x may be a replicate; the function must not keep it). */
 	statistic(x: Float64Array): number;
+	/** ∂statistic/∂x_i at x, when the model knows it in closed form (else central differences). */
+	gradient?(x: Float64Array): Float64Array;
 }
 
 /**
  * Delta-method standard error: sqrt(Σ (∂f/∂x_i)² x_i), with Poisson variance x_i and the
- * partial derivatives by central differences (variables with zero mean have zero variance).
+ * model's own partial derivatives or central differences (a zero mean has zero variance).
  */
 export function deltaMethodStandardError(model: PoissonModel): number {
+	if (model.gradient) {
+		const slopes = model.gradient(model.means);
+		return Math.sqrt(model.means.reduce((sum, mean, i) => sum + slopes[i] * slopes[i] * mean, 0));
+	}
 	const x = Float64Array.from(model.means);
 	let variance = 0;
 	for (let i = 0; i < x.length; i++) {

@@ -1,12 +1,15 @@
 /**
  * The one seeded Poisson source of the engine, so that the same inputs and seed give
- * bit-identical results on any machine: stdlib's `@stdlib/random-base-poisson`, driven by
- * its default generator MT19937 (Matsumoto & Nishimura, ACM TOMACS 8, 3 (1998)) seeded with
- * `init_genrand(seed)`, drawing by Knuth's multiplication method for means below 30 and by
- * Hörmann's transformed rejection with squeeze (PTRS; Insurance Math. Econom. 12, 39 (1993))
- * above. Draws happen in a documented order (see bootstrap.ts).
+ * bit-identical results on any machine:
+ * - generator: xoroshiro128+ (Blackman & Vigna) from `pure-rand`, seeded by its 32-bit seed
+ *   function; uniforms in [0, 1) as one 32-bit output times 2^-32 (the resolution of the
+ *   generators these algorithms were published with);
+ * - Poisson variates: inversion by sequential search for means below 10 (one uniform per draw;
+ *   Devroye, Non-Uniform Random Variate Generation (1986), §X.3) and Hörmann's transformed
+ *   rejection with squeeze PTRS for means of 10 and more (Insurance Math. Econom. 12, 39 (1993)).
+ * Hand-written because the packaged samplers measured 5–15× slower here (see DEVELOPERS.md).
  */
-import poissonFactory from '@stdlib/random-base-poisson';
+import { xoroshiro128plus } from 'pure-rand/generator/xoroshiro128plus';
 
 export type PoissonDraw = (mean: number) => number;
 
@@ -19,8 +22,110 @@ export function checkSeed(seed: number): number {
 	return seed;
 }
 
+const LOG_FACTORIAL = [0, 0, 0.6931471805599453, 1.791759469228055, 3.1780538303479458, 4.787491742782046, 6.579251212010101, 8.525161361065415, 10.60460290274525, 12.801827480081469];
+
+/** ln k! for the PTRS acceptance test: a table below 10, Stirling's series with two corrections above. */
+function logFactorial(k: number): number {
+	if (k < 10) return LOG_FACTORIAL[k];
+	return (k + 0.5) * Math.log(k) - k + 0.9189385332046728 + (1 / 12 - 1 / (360 * k * k)) / k;
+}
+
+/** Per-mean constants of the two algorithms, computed once for a whole bootstrap run. */
+export interface PreparedMeans {
+	means: Float64Array;
+	expMinus: Float64Array;
+	logMean: Float64Array;
+	a: Float64Array;
+	b: Float64Array;
+	invAlpha: Float64Array;
+	vr: Float64Array;
+}
+
+export function prepareMeans(means: Float64Array): PreparedMeans {
+	const n = means.length;
+	const p: PreparedMeans = {
+		means,
+		expMinus: new Float64Array(n),
+		logMean: new Float64Array(n),
+		a: new Float64Array(n),
+		b: new Float64Array(n),
+		invAlpha: new Float64Array(n),
+		vr: new Float64Array(n)
+	};
+	for (let i = 0; i < n; i++) {
+		const mean = means[i];
+		if (!(mean > 0)) continue;
+		p.expMinus[i] = Math.exp(-mean);
+		p.logMean[i] = Math.log(mean);
+		const b = 0.931 + 2.53 * Math.sqrt(mean);
+		p.b[i] = b;
+		p.a[i] = -0.059 + 0.02483 * b;
+		p.invAlpha[i] = 1.1239 + 1.1328 / (b - 3.4);
+		p.vr[i] = 0.9277 - 3.6224 / (b - 2);
+	}
+	return p;
+}
+
+type Generator = ReturnType<typeof xoroshiro128plus>;
+
+const TWO_TO_MINUS_32 = 2.3283064365386963e-10;
+
+/** Inversion by sequential search, for means below 10. */
+function inversion(rng: Generator, mean: number, expMinus: number): number {
+	const u = (rng.next() >>> 0) * TWO_TO_MINUS_32;
+	let k = 0;
+	let term = expMinus;
+	let cumulative = term;
+	while (u > cumulative && k < 1000) {
+		k++;
+		term *= mean / k;
+		cumulative += term;
+	}
+	return k;
+}
+
+/** PTRS, for means of 10 and more; a, b, invAlpha, vr as in Hörmann's paper. */
+function ptrs(rng: Generator, mean: number, logMean: number, a: number, b: number, invAlpha: number, vr: number): number {
+	for (;;) {
+		const u = (rng.next() >>> 0) * TWO_TO_MINUS_32 - 0.5;
+		const v = (rng.next() >>> 0) * TWO_TO_MINUS_32;
+		const us = 0.5 - Math.abs(u);
+		const k = Math.floor(((2 * a) / us + b) * u + mean + 0.43);
+		if (us >= 0.07 && v <= vr) return k;
+		if (k < 0 || (us < 0.013 && v > us)) continue;
+		const accept = Math.log((v * invAlpha) / (a / (us * us) + b));
+		if (accept <= -mean + k * logMean - logFactorial(k)) return k;
+	}
+}
+
+export class PoissonSampler {
+	private readonly rng: Generator;
+
+	constructor(seed: number) {
+		this.rng = xoroshiro128plus(checkSeed(seed) | 0);
+	}
+
+	/** One variate for entry i of prepared means. */
+	drawPrepared(p: PreparedMeans, i: number): number {
+		const mean = p.means[i];
+		if (!(mean > 0)) return 0;
+		if (mean < 10) return inversion(this.rng, mean, p.expMinus[i]);
+		return ptrs(this.rng, mean, p.logMean[i], p.a[i], p.b[i], p.invAlpha[i], p.vr[i]);
+	}
+
+	/** Fills `out` with one variate per prepared mean, in index order. */
+	drawAll(p: PreparedMeans, out: Float64Array): void {
+		for (let i = 0; i < out.length; i++) out[i] = this.drawPrepared(p, i);
+	}
+}
+
+/** A single-mean convenience over the sampler (tests, the simulator). */
 export function poissonSource(seed: number): PoissonDraw {
-	const draw = poissonFactory.factory({ seed: checkSeed(seed) });
-	// A mean of zero always gives zero (stdlib returns NaN there); no random number is used.
-	return (mean) => (mean > 0 ? draw(mean) : 0);
+	const sampler = new PoissonSampler(seed);
+	const one = new Float64Array(1);
+	let prepared = prepareMeans(one);
+	return (mean) => {
+		if (mean !== prepared.means[0]) prepared = prepareMeans(Float64Array.of(mean));
+		return sampler.drawPrepared(prepared, 0);
+	};
 }

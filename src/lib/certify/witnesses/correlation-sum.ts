@@ -35,6 +35,17 @@ export function matchingSumModel(tables: CountTable[], d: number): PoissonModel 
 				if (total > 0) s += x[i] / total;
 			}
 			return s;
+		},
+		gradient(x) {
+			// ∂(D/T)/∂D = O/T², ∂(D/T)/∂O = −D/T².
+			const g = new Float64Array(x.length);
+			for (let i = 0; i < x.length; i += 2) {
+				const total = x[i] + x[i + 1];
+				if (total <= 0) continue;
+				g[i] = x[i + 1] / (total * total);
+				g[i + 1] = -x[i] / (total * total);
+			}
+			return g;
 		}
 	};
 }

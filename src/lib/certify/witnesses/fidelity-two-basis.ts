@@ -31,6 +31,33 @@ function fidelityLowerBound(w0: ArrayLike<number>, t0: number, fourierMatching: 
 	return (sums[0] / t0 + d * fourierMatching - 1 - gamma / t0) / d;
 }
 
+/**
+ * ∂F̃/∂x for the model's variables: with p = N/T_0 and g_c = ∂F̃/∂p_c (1/d on the diagonal,
+ * −(Σ_group √p/√p_c − 1)/d off it), ∂F̃/∂N_c = (g_c − Σ_k g_k p_k)/T_0; the Fourier totals give
+ * ∂/∂D_1 = O_1/T_1² and ∂/∂O_1 = −D_1/T_1². Cells with no counts get slope 0 (zero variance).
+ */
+function fidelityGradient(x: Float64Array, d: number, delta: Int32Array): Float64Array {
+	const cells = d * d;
+	let t0 = 0;
+	for (let c = 0; c < cells; c++) t0 += x[c];
+	const sqrtSums = new Float64Array(d);
+	for (let c = 0; c < cells; c++) sqrtSums[delta[c]] += Math.sqrt(x[c] / t0);
+	const g = new Float64Array(x.length);
+	let mean = 0;
+	for (let c = 0; c < cells; c++) {
+		const p = x[c] / t0;
+		if (delta[c] === 0) g[c] = 1 / d;
+		else if (p > 0) g[c] = -(sqrtSums[delta[c]] / Math.sqrt(p) - 1) / d;
+		mean += g[c] * p;
+	}
+	for (let c = 0; c < cells; c++) g[c] = x[c] > 0 ? (g[c] - mean) / t0 : 0;
+	const [diagonal, off] = [x[cells], x[cells + 1]];
+	const t1 = diagonal + off;
+	g[cells] = off / (t1 * t1);
+	g[cells + 1] = -diagonal / (t1 * t1);
+	return g;
+}
+
 export const fidelityTwoBasis: WitnessFamily = {
 	id: 'fidelity-two-basis',
 	title: 'Two-basis fidelity bound',
@@ -69,7 +96,8 @@ export const fidelityTwoBasis: WitnessFamily = {
 				const t1 = x[d * d] + x[d * d + 1];
 				const matching = t1 > 0 ? x[d * d] / t1 : 0;
 				return t0 > 0 ? fidelityLowerBound(x, t0, matching, d, delta, sqrtSums, sums) : 0;
-			}
+			},
+			gradient: (x) => fidelityGradient(x, d, delta)
 		};
 	}
 };
