@@ -1,0 +1,27 @@
+import type { Handle } from '@sveltejs/kit';
+import { sequence } from '@sveltejs/kit/hooks';
+import { app } from '$lib/server/app';
+
+/** Reads the session cookie, renews it when lucia says so, and sets locals.user / locals.session. */
+const session: Handle = async ({ event, resolve }) => {
+	const { lucia } = await app();
+	const sessionId = event.cookies.get(lucia.sessionCookieName);
+	event.locals.user = null;
+	event.locals.session = null;
+	if (sessionId) {
+		const { session, user } = await lucia.validateSession(sessionId);
+		if (session?.fresh) {
+			const cookie = lucia.createSessionCookie(session.id);
+			event.cookies.set(cookie.name, cookie.value, { path: '.', ...cookie.attributes });
+		}
+		if (!session) {
+			const blank = lucia.createBlankSessionCookie();
+			event.cookies.set(blank.name, blank.value, { path: '.', ...blank.attributes });
+		}
+		event.locals.user = user;
+		event.locals.session = session;
+	}
+	return resolve(event);
+};
+
+export const handle: Handle = sequence(session);

@@ -1,0 +1,44 @@
+import { DataTypes, type Model, type ModelStatic, type Sequelize } from 'sequelize';
+import type { CertificationResult } from '$lib/certify';
+
+export type CheckStatus = 'queued' | 'running' | 'done' | 'failed';
+
+/** One run of the engine on a dataset, with its recorded settings and result. */
+export interface CheckAttributes {
+	id: string;
+	claimId: string;
+	datasetId: string;
+	createdBy: string | null;
+	status: CheckStatus;
+	progress: number;
+	resamples: number;
+	confidence: number;
+	seed: number;
+	result: CertificationResult | null;
+	error: string | null;
+	startedAt: Date | null;
+	finishedAt: Date | null;
+	createdAt?: Date;
+	updatedAt?: Date;
+}
+
+type Optional = 'status' | 'progress' | 'result' | 'error' | 'startedAt' | 'finishedAt';
+export type CheckModel = ModelStatic<Model<CheckAttributes, Omit<CheckAttributes, Optional> & Partial<CheckAttributes>>>;
+
+export function defineCheck(sequelize: Sequelize): CheckModel {
+	return sequelize.define('Check', {
+		id: { type: DataTypes.STRING, primaryKey: true },
+		claimId: { type: DataTypes.STRING, allowNull: false },
+		datasetId: { type: DataTypes.STRING, allowNull: false },
+		createdBy: { type: DataTypes.STRING, allowNull: true },
+		status: { type: DataTypes.STRING, allowNull: false, defaultValue: 'queued' },
+		progress: { type: DataTypes.FLOAT, allowNull: false, defaultValue: 0 },
+		resamples: { type: DataTypes.INTEGER, allowNull: false },
+		confidence: { type: DataTypes.FLOAT, allowNull: false },
+		seed: { type: DataTypes.BIGINT, allowNull: false },
+		result: { type: DataTypes.JSON, allowNull: true },
+		error: { type: DataTypes.TEXT, allowNull: true },
+		startedAt: { type: DataTypes.DATE, allowNull: true },
+		finishedAt: { type: DataTypes.DATE, allowNull: true }
+	}, { tableName: 'checks', underscored: true });
+}

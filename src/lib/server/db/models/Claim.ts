@@ -1,0 +1,48 @@
+import { DataTypes, type Model, type ModelStatic, type Sequelize } from 'sequelize';
+import type { MethodId } from '$lib/certify';
+
+export type ClaimState = 'draft' | 'checked' | 'certified' | 'shared' | 'withdrawn' | 'superseded';
+
+export interface ClaimAttributes {
+	id: string;
+	groupId: string;
+	createdBy: string;
+	title: string;
+	sourceDescription: string;
+	dimension: number;
+	method: MethodId;
+	/** Bases used by the method, e.g. [0, 1]; stored as JSON text. */
+	bases: number[];
+	claimedSchmidtNumber: number;
+	manuscriptReference: string | null;
+	state: ClaimState;
+	createdAt?: Date;
+	updatedAt?: Date;
+}
+
+export type ClaimModel = ModelStatic<Model<ClaimAttributes, Omit<ClaimAttributes, 'state' | 'manuscriptReference'> & Partial<ClaimAttributes>>>;
+
+export function defineClaim(sequelize: Sequelize): ClaimModel {
+	return sequelize.define('Claim', {
+		id: { type: DataTypes.STRING, primaryKey: true },
+		groupId: { type: DataTypes.STRING, allowNull: false },
+		createdBy: { type: DataTypes.STRING, allowNull: false },
+		title: { type: DataTypes.STRING, allowNull: false },
+		sourceDescription: { type: DataTypes.TEXT, allowNull: false },
+		dimension: { type: DataTypes.INTEGER, allowNull: false },
+		method: { type: DataTypes.STRING, allowNull: false },
+		bases: {
+			type: DataTypes.TEXT,
+			allowNull: false,
+			get() {
+				return JSON.parse(this.getDataValue('bases') as unknown as string);
+			},
+			set(value: number[]) {
+				this.setDataValue('bases', JSON.stringify(value) as unknown as number[]);
+			}
+		},
+		claimedSchmidtNumber: { type: DataTypes.INTEGER, allowNull: false },
+		manuscriptReference: { type: DataTypes.STRING, allowNull: true },
+		state: { type: DataTypes.STRING, allowNull: false, defaultValue: 'draft' }
+	}, { tableName: 'claims', underscored: true });
+}

@@ -1,0 +1,40 @@
+import { DataTypes, type Model, type ModelStatic, type Sequelize } from 'sequelize';
+
+/** What the upload held, for previews and the claim page (the bytes themselves are on disk). */
+export interface DatasetSummary {
+	dimension: number;
+	bases: number[];
+	totals: Record<string, number>;
+	hasAccidentals: boolean;
+	hasDurations: boolean;
+	/** Methods whose table requirements the file meets. */
+	allows: string[];
+}
+
+export interface DatasetAttributes {
+	id: string;
+	claimId: string;
+	createdBy: string;
+	sha256: string;
+	byteSize: number;
+	format: 'csv' | 'json';
+	originalName: string;
+	summary: DatasetSummary;
+	createdAt?: Date;
+	updatedAt?: Date;
+}
+
+export type DatasetModel = ModelStatic<Model<DatasetAttributes>>;
+
+export function defineDataset(sequelize: Sequelize): DatasetModel {
+	return sequelize.define('Dataset', {
+		id: { type: DataTypes.STRING, primaryKey: true },
+		claimId: { type: DataTypes.STRING, allowNull: false },
+		createdBy: { type: DataTypes.STRING, allowNull: false },
+		sha256: { type: DataTypes.STRING(64), allowNull: false },
+		byteSize: { type: DataTypes.INTEGER, allowNull: false },
+		format: { type: DataTypes.STRING, allowNull: false },
+		originalName: { type: DataTypes.STRING, allowNull: false },
+		summary: { type: DataTypes.JSON, allowNull: false }
+	}, { tableName: 'datasets', underscored: true });
+}

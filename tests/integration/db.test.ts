@@ -1,0 +1,23 @@
+import { QueryTypes } from 'sequelize';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { temporaryDatabase } from './db';
+
+describe('database', () => {
+	let ctx: Awaited<ReturnType<typeof temporaryDatabase>>;
+	beforeAll(async () => (ctx = await temporaryDatabase()));
+	afterAll(async () => ctx.close());
+
+	it('runs the migrations on a new file, in WAL mode with foreign keys on', async () => {
+		const select = (sql: string) => ctx.database.sequelize.query(sql, { type: QueryTypes.SELECT });
+		expect(await select('PRAGMA journal_mode;')).toEqual([{ journal_mode: 'wal' }]);
+		expect(await select('PRAGMA foreign_keys;')).toEqual([{ foreign_keys: 1 }]);
+		const applied = await select('SELECT name FROM schema_migrations');
+		expect(applied).toEqual([{ name: '0001-initial' }]);
+	});
+
+	it('rejects a membership that points at no user (foreign keys enforced)', async () => {
+		const { Group, Membership } = ctx.database.models;
+		await Group.create({ id: 'g1', name: 'Test group' });
+		await expect(Membership.create({ id: 'm1', groupId: 'g1', userId: 'nobody', role: 'author' })).rejects.toThrow(/FOREIGN KEY/);
+	});
+});
