@@ -70,62 +70,72 @@ type Generator = ReturnType<typeof xoroshiro128plus>;
 
 const TWO_TO_MINUS_32 = 2.3283064365386963e-10;
 
-/** Inversion by sequential search, for means below 10. */
-function inversion(rng: Generator, mean: number, expMinus: number): number {
-	const u = (rng.next() >>> 0) * TWO_TO_MINUS_32;
-	let k = 0;
-	let term = expMinus;
-	let cumulative = term;
-	while (u > cumulative && k < 1000) {
-		k++;
-		term *= mean / k;
-		cumulative += term;
-	}
-	return k;
-}
-
-/** PTRS, for means of 10 and more; a, b, invAlpha, vr as in Hörmann's paper. */
-function ptrs(rng: Generator, mean: number, logMean: number, a: number, b: number, invAlpha: number, vr: number): number {
-	for (;;) {
-		const u = (rng.next() >>> 0) * TWO_TO_MINUS_32 - 0.5;
-		const v = (rng.next() >>> 0) * TWO_TO_MINUS_32;
-		const us = 0.5 - Math.abs(u);
-		const k = Math.floor(((2 * a) / us + b) * u + mean + 0.43);
-		if (us >= 0.07 && v <= vr) return k;
-		if (k < 0 || (us < 0.013 && v > us)) continue;
-		const accept = Math.log((v * invAlpha) / (a / (us * us) + b));
-		if (accept <= -mean + k * logMean - logFactorial(k)) return k;
+/**
+ * Draws out[i] for i in [from, to): inversion by sequential search below mean 10, PTRS from 10
+ * (a, b, invAlpha, vr as in Hörmann's paper). One loop, inlined, because this is the engine's
+ * hot path.
+ */
+function drawRange(rng: Generator, p: PreparedMeans, out: Float64Array, from: number, to: number): void {
+	const { means, expMinus, logMean, a: as, b: bs, invAlpha, vr: vrs } = p;
+	for (let i = from; i < to; i++) {
+		const mean = means[i];
+		let k = 0;
+		if (!(mean > 0)) {
+			k = 0;
+		} else if (mean < 10) {
+			const u = (rng.next() >>> 0) * TWO_TO_MINUS_32;
+			let term = expMinus[i];
+			let cumulative = term;
+			while (u > cumulative && k < 1000) {
+				k++;
+				term *= mean / k;
+				cumulative += term;
+			}
+		} else {
+			const a = as[i];
+			const b = bs[i];
+			const vr = vrs[i];
+			for (;;) {
+				const u = (rng.next() >>> 0) * TWO_TO_MINUS_32 - 0.5;
+				const v = (rng.next() >>> 0) * TWO_TO_MINUS_32;
+				const us = 0.5 - Math.abs(u);
+				k = Math.floor(((2 * a) / us + b) * u + mean + 0.43);
+				if (us >= 0.07 && v <= vr) break;
+				if (k < 0 || (us < 0.013 && v > us)) continue;
+				const accept = Math.log((v * invAlpha[i]) / (a / (us * us) + b));
+				if (accept <= -mean + k * logMean[i] - logFactorial(k)) break;
+			}
+		}
+		out[i] = k;
 	}
 }
 
 export class PoissonSampler {
 	private readonly rng: Generator;
+	private readonly one = new Float64Array(1);
 
 	constructor(seed: number) {
 		this.rng = xoroshiro128plus(checkSeed(seed) | 0);
 	}
 
-	/** One variate for entry i of prepared means. */
-	drawPrepared(p: PreparedMeans, i: number): number {
-		const mean = p.means[i];
-		if (!(mean > 0)) return 0;
-		if (mean < 10) return inversion(this.rng, mean, p.expMinus[i]);
-		return ptrs(this.rng, mean, p.logMean[i], p.a[i], p.b[i], p.invAlpha[i], p.vr[i]);
-	}
-
 	/** Fills `out` with one variate per prepared mean, in index order. */
 	drawAll(p: PreparedMeans, out: Float64Array): void {
-		for (let i = 0; i < out.length; i++) out[i] = this.drawPrepared(p, i);
+		drawRange(this.rng, p, out, 0, out.length);
+	}
+
+	/** One variate for a single prepared mean (p.means of length 1). */
+	drawOne(p: PreparedMeans): number {
+		drawRange(this.rng, p, this.one, 0, 1);
+		return this.one[0];
 	}
 }
 
 /** A single-mean convenience over the sampler (tests, the simulator). */
 export function poissonSource(seed: number): PoissonDraw {
 	const sampler = new PoissonSampler(seed);
-	const one = new Float64Array(1);
-	let prepared = prepareMeans(one);
+	let prepared = prepareMeans(new Float64Array(1));
 	return (mean) => {
 		if (mean !== prepared.means[0]) prepared = prepareMeans(Float64Array.of(mean));
-		return sampler.drawPrepared(prepared, 0);
+		return sampler.drawOne(prepared);
 	};
 }
