@@ -29,11 +29,12 @@ export function readableReport(r: CertificationResult, file: string): string {
 	}
 	lines.push(`  input SHA-256 ${r.inputSha256}`);
 	for (const w of r.warnings) lines.push(`  note: ${w}`);
+	const trusted = r.trust === 'device-dependent' ? 'calibrated measurements in the declared bases' : 'a trusted measurement on side B';
 	lines.push(
 		'',
-		'  A statistical statement under stated assumptions (i.i.d. trials, fair sampling',
-		r.trust === 'device-dependent' ? '  of detected pairs, calibrated measurements in the declared bases); not a' : '  of detected pairs, a trusted measurement on side B); not a',
-		'  substitute for peer review.'
+		'  A statistical statement under stated assumptions: i.i.d. trials, fair sampling of',
+		`  detected pairs, ${trusted}.`,
+		'  It is not a substitute for peer review.'
 	);
 	return lines.join('\n');
 }
