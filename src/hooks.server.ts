@@ -1,6 +1,7 @@
 import type { Handle } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
 import { app } from '$lib/server/app';
+import { authenticate } from '$lib/server/services/tokens';
 
 /** Reads the session cookie, renews it when lucia says so, and sets locals.user / locals.session. */
 const session: Handle = async ({ event, resolve }) => {
@@ -24,4 +25,19 @@ const session: Handle = async ({ event, resolve }) => {
 	return resolve(event);
 };
 
-export const handle: Handle = sequence(session);
+/**
+ * For /api/ requests with `Authorization: Bearer <token>`: the token's user, or nobody for an
+ * unknown or revoked token (a bad token is refused even when a session cookie comes along).
+ */
+const bearer: Handle = async ({ event, resolve }) => {
+	const header = event.request.headers.get('authorization');
+	const token = header?.match(/^Bearer\s+(\S+)\s*$/i)?.[1];
+	if (event.url.pathname.startsWith('/api/') && header) {
+		const { database } = await app();
+		event.locals.user = token ? await authenticate(database, token) : null;
+		event.locals.session = null;
+	}
+	return resolve(event);
+};
+
+export const handle: Handle = sequence(session, bearer);

@@ -6,19 +6,34 @@ import { dev } from '$app/environment';
 import { createLucia, type AppLucia } from './auth';
 import { config } from './config';
 import { db, type Database } from './db';
+import { catcherTransport, createMailer, type Mailer } from './mail';
+import { startMailCatcher, type MailCatcher } from './mail-catcher';
 
 export interface AppServices {
 	database: Database;
 	lucia: AppLucia;
+	mailer: Mailer;
+	/** The local SMTP catcher, running only when no SMTP_URL is configured. */
+	mailCatcher: MailCatcher | null;
 }
 
 let services: Promise<AppServices> | null = null;
+
+async function startMail(
+	database: Database
+): Promise<{ mailer: Mailer; mailCatcher: MailCatcher | null }> {
+	const { smtpUrl, mailFrom, origin, mailCatcherPort } = config();
+	const mailCatcher = smtpUrl ? null : await startMailCatcher(database, mailCatcherPort);
+	const transport = mailCatcher ? catcherTransport(mailCatcher.port) : smtpUrl;
+	return { mailer: createMailer({ transport, from: mailFrom, origin }), mailCatcher };
+}
 
 export function app(): Promise<AppServices> {
 	services ??= (async () => {
 		const database = await db();
 		const lucia = createLucia(database, !dev && config().origin.startsWith('https:'));
-		return { database, lucia };
+		const mail = await startMail(database);
+		return { database, lucia, ...mail };
 	})();
 	return services;
 }

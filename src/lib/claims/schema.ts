@@ -1,0 +1,153 @@
+/**
+ * What a claim, a claim listing and a check request may contain: validated with zod at every
+ * boundary (forms, API bodies) and shared with the browser for early, plain-worded errors.
+ */
+import { z } from 'zod';
+import { availableBases, METHOD_IDS, witnessFamilies, type MethodId } from '$lib/certify';
+import { MAX_SEED } from '$lib/certify/poisson';
+
+export const CLAIM_STATES = [
+	'draft',
+	'checked',
+	'certified',
+	'shared',
+	'withdrawn',
+	'superseded'
+] as const;
+export const CLAIM_SORTS = [
+	'createdAt',
+	'title',
+	'dimension',
+	'claimedSchmidtNumber',
+	'state',
+	'updatedAt'
+] as const;
+
+const blankToUndefined = (value: unknown) =>
+	typeof value === 'string' && value.trim() === '' ? undefined : value;
+
+const wholeNumber = (label: string, min: number, max: number) =>
+	z.coerce
+		.number({ error: `${label} must be a number.` })
+		.int(`${label} must be a whole number.`)
+		.min(min, `${label} must be at least ${min}.`)
+		.max(max, `${label} must be at most ${max}.`);
+
+/** "0,1,2", "0 1", ["0", "1"] or [0, 1] → [0, 1, …]; blank → undefined (the method's default). */
+const basesField = z.preprocess(
+	(value) => {
+		if (typeof value === 'string') value = value.split(/[\s,]+/).filter((part) => part !== '');
+		if (Array.isArray(value)) return value.length ? value : undefined;
+		return value;
+	},
+	z
+		.array(wholeNumber('Each basis', 0, 256), { error: 'Bases must be a list of basis numbers.' })
+		.optional()
+);
+
+/** The bases a method uses when a claim names none: 0 and 1 exist in every dimension. */
+export function defaultBasesFor(method: MethodId, dimension: number): number[] {
+	return witnessFamilies[method].defaultBases([0, 1], dimension);
+}
+
+export const claimInputSchema = z
+	.object({
+		groupId: z.preprocess(blankToUndefined, z.string().max(100).optional()),
+		title: z
+			.string({ error: 'Give the claim a title.' })
+			.trim()
+			.min(1, 'Give the claim a title.')
+			.max(200, 'Keep the title under 200 characters.'),
+		sourceDescription: z
+			.string({ error: 'Describe the source.' })
+			.trim()
+			.min(1, 'Describe the source.')
+			.max(5000, 'Keep the source description under 5000 characters.'),
+		dimension: wholeNumber('The dimension', 2, 256),
+		method: z.enum(METHOD_IDS, { error: `Choose a method: ${METHOD_IDS.join(', ')}.` }),
+		bases: basesField,
+		claimedSchmidtNumber: wholeNumber('The claimed Schmidt number', 1, 256),
+		manuscriptReference: z
+			.string()
+			.trim()
+			.max(300, 'Keep the manuscript reference under 300 characters.')
+			.nullish()
+			.transform((value) => value || null)
+	})
+	.superRefine((claim, ctx) => {
+		const d = claim.dimension;
+		if (claim.claimedSchmidtNumber > d) {
+			ctx.addIssue({
+				code: 'custom',
+				path: ['claimedSchmidtNumber'],
+				message: `The claimed Schmidt number cannot exceed the dimension (${d}).`
+			});
+		}
+		if (!claim.bases) return;
+		const available = availableBases(d);
+		const missing = claim.bases.filter((b) => !available.includes(b));
+		if (missing.length) {
+			ctx.addIssue({
+				code: 'custom',
+				path: ['bases'],
+				message: `Basis ${missing.join(', ')} does not exist in dimension ${d}; available: ${available.join(', ')}.`
+			});
+			return;
+		}
+		try {
+			witnessFamilies[claim.method].checkBases(claim.bases, d);
+		} catch (error) {
+			const reason = (error as Error).message;
+			const message = reason.charAt(0).toUpperCase() + reason.slice(1) + '.';
+			ctx.addIssue({ code: 'custom', path: ['bases'], message });
+		}
+	})
+	.transform((claim) => ({
+		...claim,
+		bases: claim.bases ?? defaultBasesFor(claim.method, claim.dimension)
+	}));
+
+/** A valid claim, with its bases filled in. */
+export type ClaimInput = z.output<typeof claimInputSchema>;
+/** What a form or an API body may send before validation. */
+export type ClaimInputValues = z.input<typeof claimInputSchema>;
+
+export const claimQuerySchema = z.object({
+	q: z.preprocess(blankToUndefined, z.string().trim().max(200).optional()),
+	state: z.preprocess(
+		blankToUndefined,
+		z.enum(CLAIM_STATES, { error: `State must be one of ${CLAIM_STATES.join(', ')}.` }).optional()
+	),
+	method: z.preprocess(
+		blankToUndefined,
+		z.enum(METHOD_IDS, { error: `Method must be one of ${METHOD_IDS.join(', ')}.` }).optional()
+	),
+	sort: z.preprocess(
+		blankToUndefined,
+		z.enum(CLAIM_SORTS, { error: `Sort must be one of ${CLAIM_SORTS.join(', ')}.` }).optional()
+	),
+	order: z.preprocess(
+		blankToUndefined,
+		z.enum(['asc', 'desc'], { error: 'Order must be asc or desc.' }).optional()
+	),
+	page: z.preprocess(blankToUndefined, wholeNumber('The page', 1, 1_000_000).optional()),
+	pageSize: z.preprocess(blankToUndefined, wholeNumber('The page size', 1, 100).optional())
+});
+
+export type ClaimQuery = z.output<typeof claimQuerySchema>;
+
+export const checkRequestSchema = z.object({
+	datasetId: z.preprocess(blankToUndefined, z.string().max(100).optional()),
+	resamples: z.preprocess(blankToUndefined, wholeNumber('Resamples', 100, 1_000_000).optional()),
+	confidence: z.preprocess(
+		blankToUndefined,
+		z.coerce
+			.number({ error: 'Confidence must be a number.' })
+			.gt(0.5, 'Confidence must lie strictly between 0.5 and 1.')
+			.lt(1, 'Confidence must lie strictly between 0.5 and 1.')
+			.optional()
+	),
+	seed: z.preprocess(blankToUndefined, wholeNumber('The seed', 1, MAX_SEED).optional())
+});
+
+export type CheckRequest = z.output<typeof checkRequestSchema>;

@@ -1,0 +1,158 @@
+/**
+ * Helpers for the JSON API (routes/api/v1): the `{ error: { code, message } }` shape, the
+ * sign-in requirement (session cookie or bearer token, both land in locals.user), bounded
+ * body reading, and the translation of service errors into statuses.
+ */
+import { json, type RequestEvent, type RequestHandler } from '@sveltejs/kit';
+import { ZodError, type ZodType } from 'zod';
+import { InputError, MAX_COUNTS_FILE_BYTES } from '$lib/certify';
+import { app } from './app';
+import type { SessionUser } from './auth';
+import type { Database } from './db';
+import { ForbiddenError, NotFoundError } from './services/errors';
+
+export class ApiError extends Error {
+	constructor(
+		readonly status: number,
+		readonly code: string,
+		message: string,
+		readonly extra: Record<string, unknown> = {}
+	) {
+		super(message);
+	}
+}
+
+export const apiError = (
+	status: number,
+	code: string,
+	message: string,
+	extra: Record<string, unknown> = {}
+) => json({ error: { code, message, ...extra } }, { status });
+
+/** "title: Give the claim a title.; dimension: …" — every issue with the field it concerns. */
+export function describeIssues(error: ZodError): string {
+	return error.issues
+		.map((i) => (i.path.length ? `${i.path.join('.')}: ${i.message}` : i.message))
+		.join('; ');
+}
+
+function errorResponse(error: unknown): Response {
+	if (error instanceof ApiError)
+		return apiError(error.status, error.code, error.message, error.extra);
+	if (error instanceof NotFoundError) return apiError(404, 'not_found', error.message);
+	if (error instanceof ForbiddenError) return apiError(403, 'forbidden', error.message);
+	if (error instanceof ZodError) return apiError(400, 'bad_request', describeIssues(error));
+	if (error instanceof InputError) return apiError(400, 'bad_request', error.message);
+	throw error;
+}
+
+interface Context {
+	event: RequestEvent;
+	user: SessionUser;
+	database: Database;
+}
+
+/** An endpoint for signed-in callers: 401 without a user, service errors as JSON. */
+export function apiEndpoint(handler: (context: Context) => Promise<Response>): RequestHandler {
+	return async (event) => {
+		const user = event.locals.user;
+		if (!user) {
+			return apiError(
+				401,
+				'unauthorised',
+				'Sign in, or send an API token as "Authorization: Bearer rks_…".'
+			);
+		}
+		try {
+			return await handler({ event, user, database: (await app()).database });
+		} catch (error) {
+			return errorResponse(error);
+		}
+	};
+}
+
+/** The request body, refusing more than `limit` bytes (413) whatever Content-Length says. */
+export async function readBody(request: Request, limit: number): Promise<Uint8Array> {
+	const tooLarge = () =>
+		new ApiError(413, 'too_large', `The body is larger than the limit of ${limit} bytes.`);
+	if (Number(request.headers.get('content-length') ?? 0) > limit) throw tooLarge();
+	if (!request.body) return new Uint8Array(0);
+	const chunks: Uint8Array[] = [];
+	let size = 0;
+	const reader = request.body.getReader();
+	for (;;) {
+		const { done, value } = await reader.read();
+		if (done) break;
+		size += value.byteLength;
+		if (size > limit) {
+			await reader.cancel();
+			throw tooLarge();
+		}
+		chunks.push(value);
+	}
+	return Buffer.concat(chunks);
+}
+
+/** A JSON body (blank counts as `{}`) validated by the schema; 400 with field names otherwise. */
+export async function readJson<T>(request: Request, schema: ZodType<T>): Promise<T> {
+	const text = new TextDecoder().decode(await readBody(request, 1024 * 1024)).trim();
+	let value: unknown = {};
+	if (text) {
+		try {
+			value = JSON.parse(text);
+		} catch {
+			throw new ApiError(400, 'bad_json', 'The body is not valid JSON.');
+		}
+	}
+	return schema.parse(value);
+}
+
+const MULTIPART_OVERHEAD = 64 * 1024;
+
+/**
+ * A counts file sent as the multipart field `counts`, or as a raw text/csv or application/json
+ * body (name from ?name= or "counts.csv"/"counts.json"). 413 above MAX_COUNTS_FILE_BYTES.
+ */
+export async function readCountsUpload(
+	request: Request,
+	url: URL
+): Promise<{ bytes: Uint8Array; originalName: string }> {
+	const type = (request.headers.get('content-type') ?? '').split(';')[0].trim().toLowerCase();
+	const tooLarge = new ApiError(
+		413,
+		'too_large',
+		`The counts file is larger than the limit of ${MAX_COUNTS_FILE_BYTES} bytes.`
+	);
+	if (type === 'multipart/form-data') {
+		const body = await readBody(request, MAX_COUNTS_FILE_BYTES + MULTIPART_OVERHEAD);
+		const form = await new Response(body, {
+			headers: { 'content-type': request.headers.get('content-type')! }
+		})
+			.formData()
+			.catch(() => {
+				throw new ApiError(400, 'bad_request', 'The multipart body cannot be read.');
+			});
+		const file = form.get('counts');
+		if (!(file instanceof File))
+			throw new ApiError(
+				400,
+				'bad_counts',
+				'Send the counts file in the multipart field "counts".',
+				{ line: null }
+			);
+		if (file.size > MAX_COUNTS_FILE_BYTES) throw tooLarge;
+		return { bytes: new Uint8Array(await file.arrayBuffer()), originalName: file.name || 'counts' };
+	}
+	if (type === 'text/csv' || type === 'application/json') {
+		const bytes = await readBody(request, MAX_COUNTS_FILE_BYTES).catch((error) => {
+			throw error instanceof ApiError && error.status === 413 ? tooLarge : error;
+		});
+		const fallback = type === 'text/csv' ? 'counts.csv' : 'counts.json';
+		return { bytes, originalName: url.searchParams.get('name')?.trim() || fallback };
+	}
+	throw new ApiError(
+		415,
+		'unsupported_media_type',
+		'Send the counts as multipart/form-data (field "counts"), text/csv or application/json.'
+	);
+}

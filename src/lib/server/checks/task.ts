@@ -1,0 +1,22 @@
+/** What the check runner hands a worker thread, and what the worker reports back on its port. */
+import type { MessagePort } from 'node:worker_threads';
+import type { MethodId } from '../../certify';
+
+export interface CheckTask {
+	/** The stored counts file; or `bytes` when the caller holds them already. */
+	datasetPath?: string;
+	bytes?: Uint8Array;
+	/** The SHA-256 the bytes must have: the worker refuses a file that changed on disk. */
+	sha256?: string;
+	dimension: number;
+	method: MethodId;
+	bases: number[];
+	resamples: number;
+	confidence: number;
+	seed: number;
+	/** The claimed Schmidt number, for the verdict. */
+	claim?: number;
+	port?: MessagePort;
+}
+
+export type CheckMessage = { type: 'started' } | { type: 'progress'; fraction: number };

@@ -1,0 +1,73 @@
+/**
+ * Account-level roles (researcher, editor, admin), which only admins may see and change. Every
+ * function re-reads the actor's role from the database rather than trusting the caller.
+ */
+import type { Database } from '../db';
+import type { AccountRole } from '../db/models/User';
+import { audit } from './audit';
+import { ForbiddenError, NotFoundError } from './errors';
+import { FieldError } from './field-error';
+
+export const ACCOUNT_ROLES: readonly AccountRole[] = ['researcher', 'editor', 'admin'];
+
+export interface UserListItem {
+	id: string;
+	email: string;
+	name: string;
+	accountRole: AccountRole;
+	emailVerified: boolean;
+	createdAt: string;
+}
+
+export async function requireAdmin(database: Database, actorId: string): Promise<void> {
+	const actor = await database.models.User.findByPk(actorId);
+	if (actor?.get('accountRole') !== 'admin') throw new ForbiddenError('Only admins may do this.');
+}
+
+export async function listUsers(database: Database, actorId: string): Promise<UserListItem[]> {
+	await requireAdmin(database, actorId);
+	const rows = await database.models.User.findAll({ order: [['createdAt', 'ASC']] });
+	return rows.map((row) => {
+		const u = row.get({ plain: true });
+		return {
+			id: u.id,
+			email: u.email,
+			name: u.name,
+			accountRole: u.accountRole,
+			emailVerified: u.emailVerifiedAt !== null,
+			createdAt: new Date(u.createdAt!).toISOString()
+		};
+	});
+}
+
+/** Changes a user's account role; the last admin cannot be demoted, so the service stays run. */
+export async function setAccountRole(
+	database: Database,
+	actorId: string,
+	userId: string,
+	role: AccountRole
+): Promise<void> {
+	if (!ACCOUNT_ROLES.includes(role))
+		throw new FieldError('role', 'Choose researcher, editor or admin.');
+	await requireAdmin(database, actorId);
+	const { User } = database.models;
+	await database.sequelize.transaction(async (transaction) => {
+		const user = await User.findByPk(userId, { transaction });
+		if (!user) throw new NotFoundError('No such user.');
+		const previous = user.get('accountRole') as AccountRole;
+		if (previous === role) return;
+		if (
+			previous === 'admin' &&
+			(await User.count({ where: { accountRole: 'admin' }, transaction })) <= 1
+		) {
+			throw new FieldError('role', 'The last admin cannot be given another role.');
+		}
+		await user.update({ accountRole: role }, { transaction });
+		const details = { from: previous, to: role };
+		await audit(
+			database,
+			{ actorId, action: 'account.role-changed', subjectType: 'user', subjectId: userId, details },
+			transaction
+		);
+	});
+}

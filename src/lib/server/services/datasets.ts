@@ -1,0 +1,229 @@
+/**
+ * Datasets: uploaded counts files, parsed before anything is stored, kept content-addressed on
+ * disk (files/<sha[0:2]>/<sha>) with their row and audit event written in one transaction.
+ */
+import { randomBytes } from 'node:crypto';
+import { mkdir, readFile, rename, rm, stat, writeFile } from 'node:fs/promises';
+import path from 'node:path';
+import { col } from 'sequelize';
+import { METHOD_IDS, parseCounts, witnessFamilies, type CountsDataset } from '$lib/certify';
+import { requireCompleteTables } from '$lib/certify/counts';
+import { sha256Hex } from '$lib/evidence/hash';
+import { config } from '../config';
+import type { Database } from '../db';
+import type { DatasetAttributes, DatasetSummary } from '../db/models/Dataset';
+import { visibleClaim } from './access';
+import { audit } from './audit';
+import { requireVisibleClaim } from './claims';
+import { newId } from './ids';
+
+export type { DatasetSummary } from '../db/models/Dataset';
+
+export interface DatasetView {
+	id: string;
+	claimId: string;
+	sha256: string;
+	byteSize: number;
+	format: 'csv' | 'json';
+	originalName: string;
+	createdAt: string;
+	summary: DatasetSummary;
+}
+
+export interface DatasetTables {
+	dimension: number;
+	/** One d×d table per basis: counts[a][b]. */
+	tables: { basis: number; total: number; counts: number[][] }[];
+}
+
+/** Where the bytes with this SHA-256 live. */
+export function datasetFilePath(sha256: string): string {
+	return path.join(config().filesDir, sha256.slice(0, 2), sha256);
+}
+
+function formatOf(bytes: Uint8Array): 'csv' | 'json' {
+	const head = new TextDecoder()
+		.decode(bytes.subarray(0, 64))
+		.replace(/^\uFEFF/, '')
+		.trimStart();
+	return head.startsWith('{') ? 'json' : 'csv';
+}
+
+export function summarise(dataset: CountsDataset): DatasetSummary {
+	const d = dataset.dimension;
+	const present = dataset.tables.map((t) => t.basis);
+	const allows = METHOD_IDS.filter((method) => {
+		const family = witnessFamilies[method];
+		try {
+			const bases = family.defaultBases(present, d);
+			family.checkBases(bases, d);
+			requireCompleteTables(dataset, bases, method);
+			return true;
+		} catch {
+			return false;
+		}
+	});
+	return {
+		dimension: d,
+		bases: present,
+		totals: Object.fromEntries(
+			dataset.tables.map((t) => [String(t.basis), t.counts.reduce((s, c) => s + c, 0)])
+		),
+		hasAccidentals: dataset.tables.some((t) => t.accidentals !== null),
+		hasDurations: dataset.tables.some((t) => t.durations !== null),
+		allows
+	};
+}
+
+const view = (row: DatasetAttributes): DatasetView => ({
+	id: row.id,
+	claimId: row.claimId,
+	sha256: row.sha256,
+	byteSize: row.byteSize,
+	format: row.format,
+	originalName: row.originalName,
+	createdAt: new Date(row.createdAt ?? 0).toISOString(),
+	summary: row.summary
+});
+
+/** Writes the bytes under their hash unless they are there already; true when this call wrote them. */
+async function storeBytes(sha256: string, bytes: Uint8Array): Promise<boolean> {
+	const file = datasetFilePath(sha256);
+	if (
+		await stat(file).then(
+			() => true,
+			() => false
+		)
+	)
+		return false;
+	await mkdir(path.dirname(file), { recursive: true });
+	const temporary = `${file}.${randomBytes(6).toString('hex')}.part`;
+	try {
+		await writeFile(temporary, bytes);
+		await rename(temporary, file);
+	} catch (error) {
+		await rm(temporary, { force: true });
+		throw error;
+	}
+	return true;
+}
+
+/**
+ * Validates a counts file against the claim (dimension, and the tables its method and bases
+ * need), then stores it. Throws InputError naming the line for a bad file and NotFoundError
+ * when the claim is not visible; on any failure no row and no new file remain.
+ */
+export async function addDataset(
+	database: Database,
+	userId: string,
+	claimId: string,
+	upload: { bytes: Uint8Array; originalName: string }
+): Promise<DatasetView> {
+	const claim = await requireVisibleClaim(database, userId, claimId);
+	const { bytes } = upload;
+	const parsed = parseCounts(bytes, claim.dimension);
+	requireCompleteTables(parsed, claim.bases, claim.method);
+	const sha256 = sha256Hex(bytes);
+	const originalName = (upload.originalName.trim() || 'counts').slice(0, 200);
+	const id = newId();
+	let wrote = false;
+	try {
+		await database.sequelize.transaction(async (transaction) => {
+			await database.models.Dataset.create(
+				{
+					id,
+					claimId,
+					createdBy: userId,
+					sha256,
+					byteSize: bytes.byteLength,
+					format: formatOf(bytes),
+					originalName,
+					summary: summarise(parsed)
+				},
+				{ transaction }
+			);
+			wrote = await storeBytes(sha256, bytes);
+			const details = { sha256, byteSize: bytes.byteLength, originalName };
+			await audit(
+				database,
+				{
+					actorId: userId,
+					groupId: claim.groupId,
+					action: 'dataset.added',
+					subjectType: 'dataset',
+					subjectId: id,
+					details
+				},
+				transaction
+			);
+		});
+	} catch (error) {
+		// Another upload may have stored the same bytes meanwhile; remove them only when unused.
+		if (wrote && (await database.models.Dataset.count({ where: { sha256 } })) === 0) {
+			await rm(datasetFilePath(sha256), { force: true });
+		}
+		throw error;
+	}
+	return view((await database.models.Dataset.findByPk(id))!.get({ plain: true }));
+}
+
+/** The claim's datasets, newest first; NotFoundError when the claim is not visible. */
+export async function listDatasets(
+	database: Database,
+	userId: string,
+	claimId: string
+): Promise<DatasetView[]> {
+	await requireVisibleClaim(database, userId, claimId);
+	const rows = await database.models.Dataset.findAll({
+		where: { claimId },
+		order: [
+			['createdAt', 'DESC'],
+			[col('rowid'), 'DESC']
+		]
+	});
+	return rows.map((r) => view(r.get({ plain: true })));
+}
+
+async function visibleDataset(
+	database: Database,
+	userId: string,
+	datasetId: string
+): Promise<DatasetAttributes | null> {
+	const row = await database.models.Dataset.findByPk(datasetId);
+	if (!row) return null;
+	const dataset = row.get({ plain: true });
+	return (await visibleClaim(database, userId, dataset.claimId)) ? dataset : null;
+}
+
+/** The dataset, or null when it does not exist or its claim belongs to another group. */
+export async function getDataset(
+	database: Database,
+	userId: string,
+	datasetId: string
+): Promise<DatasetView | null> {
+	const dataset = await visibleDataset(database, userId, datasetId);
+	return dataset ? view(dataset) : null;
+}
+
+/** Per-basis d×d count tables of a stored dataset (for heat maps), or null when not visible. */
+export async function datasetTables(
+	database: Database,
+	userId: string,
+	datasetId: string
+): Promise<DatasetTables | null> {
+	const dataset = await visibleDataset(database, userId, datasetId);
+	if (!dataset) return null;
+	const parsed = parseCounts(
+		await readFile(datasetFilePath(dataset.sha256)),
+		dataset.summary.dimension
+	);
+	const d = parsed.dimension;
+	return {
+		dimension: d,
+		tables: parsed.tables.map((t) => ({
+			basis: t.basis,
+			total: t.counts.reduce((s, c) => s + c, 0),
+			counts: Array.from({ length: d }, (_, a) => Array.from(t.counts.subarray(a * d, a * d + d)))
+		}))
+	};
+}

@@ -1,0 +1,29 @@
+import { redirect } from '@sveltejs/kit';
+import { app } from '$lib/server/app';
+import { clearSessionCookie, requireUser } from '$lib/server/auth-web';
+import { resendVerification, signOut, signOutEverywhere } from '$lib/server/services/accounts';
+import type { Actions, PageServerLoad } from './$types';
+
+export const load: PageServerLoad = ({ url }) => ({ sent: url.searchParams.has('sent') });
+
+export const actions: Actions = {
+	resend: async ({ locals, url }) => {
+		const user = requireUser(locals, url);
+		const { database, mailer } = await app();
+		await resendVerification(database, mailer, user.id);
+		redirect(303, '/account?sent=1');
+	},
+	signout: async ({ locals, cookies }) => {
+		const { lucia } = await app();
+		if (locals.session) await signOut(lucia, locals.session.id);
+		clearSessionCookie(lucia, cookies);
+		redirect(303, '/login');
+	},
+	signoutEverywhere: async ({ locals, cookies, url }) => {
+		const user = requireUser(locals, url);
+		const { lucia } = await app();
+		await signOutEverywhere(lucia, user.id);
+		clearSessionCookie(lucia, cookies);
+		redirect(303, '/login');
+	}
+};

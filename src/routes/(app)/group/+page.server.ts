@@ -1,0 +1,26 @@
+import { fail, redirect } from '@sveltejs/kit';
+import { formFields, groupNameForm } from '$lib/server/account-forms';
+import { app } from '$lib/server/app';
+import { echoValues, fieldErrors, requireUser, serviceProblem } from '$lib/server/auth-web';
+import { createGroup } from '$lib/server/services/groups';
+import type { Actions, PageServerLoad } from './$types';
+
+export const load: PageServerLoad = ({ url }) => ({ verified: url.searchParams.has('verified') });
+
+export const actions: Actions = {
+	create: async ({ locals, request, url }) => {
+		const user = requireUser(locals, url);
+		const form = await request.formData();
+		const values = echoValues(form, ['name']);
+		const parsed = groupNameForm.safeParse(formFields(form));
+		if (!parsed.success) return fail(400, { errors: fieldErrors(parsed.error), values });
+		const { database } = await app();
+		let groupId: string;
+		try {
+			({ id: groupId } = await createGroup(database, user.id, parsed.data.name));
+		} catch (problem) {
+			return fail(400, { errors: serviceProblem(problem), values });
+		}
+		redirect(303, `/group/${groupId}`);
+	}
+};

@@ -1,0 +1,40 @@
+import { error, fail, redirect } from '@sveltejs/kit';
+import { app } from '$lib/server/app';
+import { clearSessionCookie, loginPath, serviceProblem } from '$lib/server/auth-web';
+import { signOut } from '$lib/server/services/accounts';
+import { acceptInvitation, findInvitation } from '$lib/server/services/invitation-links';
+import type { Actions, PageServerLoad } from './$types';
+
+export const load: PageServerLoad = async ({ params, locals }) => {
+	const { database } = await app();
+	const invitation = await findInvitation(database, params.token);
+	if (!invitation) error(404, 'This invitation does not exist or was withdrawn.');
+	const here = `/invite/${params.token}`;
+	return {
+		invitation,
+		signedInAs: locals.user?.email ?? null,
+		loginHref: `/login?next=${encodeURIComponent(here)}&email=${encodeURIComponent(invitation.email)}`,
+		signupHref: `/signup?next=${encodeURIComponent(here)}&email=${encodeURIComponent(invitation.email)}`
+	};
+};
+
+export const actions: Actions = {
+	accept: async ({ params, locals, url }) => {
+		if (!locals.user) redirect(303, loginPath(url));
+		const { database } = await app();
+		let groupId: string;
+		try {
+			({ groupId } = await acceptInvitation(database, locals.user.id, params.token));
+		} catch (problem) {
+			return fail(400, { errors: serviceProblem(problem) });
+		}
+		redirect(303, `/group/${groupId}`);
+	},
+	/** Signed in with another address: sign out, then sign in as the invited one. */
+	switch: async ({ params, locals, cookies }) => {
+		const { lucia } = await app();
+		if (locals.session) await signOut(lucia, locals.session.id);
+		clearSessionCookie(lucia, cookies);
+		redirect(303, `/login?next=${encodeURIComponent(`/invite/${params.token}`)}`);
+	}
+};

@@ -1,0 +1,36 @@
+import { fail, redirect } from '@sveltejs/kit';
+import { formFields, signUpForm } from '$lib/server/account-forms';
+import { app } from '$lib/server/app';
+import {
+	echoValues,
+	fieldErrors,
+	safeNext,
+	serviceProblem,
+	startSession
+} from '$lib/server/auth-web';
+import { signUp } from '$lib/server/services/accounts';
+import type { Actions, PageServerLoad } from './$types';
+
+export const load: PageServerLoad = ({ locals, url }) => {
+	const next = safeNext(url.searchParams.get('next'), '/group');
+	if (locals.user) redirect(303, next);
+	return { next, email: url.searchParams.get('email') ?? '' };
+};
+
+export const actions: Actions = {
+	signup: async ({ request, cookies }) => {
+		const form = await request.formData();
+		const values = echoValues(form, ['name', 'email']);
+		const parsed = signUpForm.safeParse(formFields(form));
+		if (!parsed.success) return fail(400, { errors: fieldErrors(parsed.error), values });
+		const { database, lucia, mailer } = await app();
+		let userId: string;
+		try {
+			({ userId } = await signUp(database, mailer, parsed.data));
+		} catch (problem) {
+			return fail(400, { errors: serviceProblem(problem), values });
+		}
+		await startSession(lucia, cookies, userId);
+		redirect(303, safeNext(form.get('next') as string | null, '/group'));
+	}
+};

@@ -1,0 +1,20 @@
+import { fail, redirect } from '@sveltejs/kit';
+import { app } from '$lib/server/app';
+import { verificationLinkState, verifyEmail } from '$lib/server/services/accounts';
+import type { Actions, PageServerLoad } from './$types';
+
+// The link only shows a button: mail scanners that open links must not use up the token.
+export const load: PageServerLoad = async ({ params }) => {
+	const { database } = await app();
+	const { state } = await verificationLinkState(database, params.token);
+	return { state };
+};
+
+export const actions: Actions = {
+	confirm: async ({ params, locals }) => {
+		const { database } = await app();
+		const result = await verifyEmail(database, params.token);
+		if (!result.ok) return fail(400, { reason: result.reason });
+		redirect(303, locals.user ? '/group?verified=1' : '/login?verified=1');
+	}
+};

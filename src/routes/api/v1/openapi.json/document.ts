@@ -1,0 +1,193 @@
+/** The OpenAPI 3.1 description of /api/v1: exactly the endpoints under src/routes/api/v1. */
+import { MAX_COUNTS_FILE_BYTES, METHOD_IDS } from '$lib/certify';
+import { CLAIM_SORTS, CLAIM_STATES } from '$lib/claims/schema';
+import { schemas } from './schemas';
+
+const ref = (name: string) => ({ $ref: `#/components/schemas/${name}` });
+const body = (name: string) => ({ 'application/json': { schema: ref(name) } });
+const reply = (description: string, name: string) => ({ description, content: body(name) });
+const failure = (description: string) => reply(description, 'Error');
+const idParameter = (what: string) => ({
+	name: 'id',
+	in: 'path',
+	required: true,
+	description: `The ${what}’s id.`,
+	schema: { type: 'string' }
+});
+const query = (name: string, schema: object, description: string) => ({
+	name,
+	in: 'query',
+	required: false,
+	description,
+	schema
+});
+
+const unauthorised = failure('Neither a session cookie nor a valid bearer token.');
+const notFound = failure(
+	'No such thing in the caller’s groups (another group’s ids answer the same).'
+);
+const badRequest = failure('The body or the query fails validation; the message names the fields.');
+
+export const openApiDocument = {
+	openapi: '3.1.0',
+	info: {
+		title: 'Rankseal API',
+		version: '1.0.0',
+		description:
+			'Claims, counts files and checks of the caller’s groups. Errors are `{ "error": { "code", "message" } }`. ' +
+			`Counts files are limited to ${MAX_COUNTS_FILE_BYTES} bytes.`
+	},
+	servers: [{ url: '/' }],
+	security: [{ bearerToken: [] }, { sessionCookie: [] }],
+	paths: {
+		'/api/v1/claims': {
+			get: {
+				operationId: 'listClaims',
+				summary: 'List claims, searched, filtered, sorted and paged',
+				parameters: [
+					query(
+						'q',
+						{ type: 'string' },
+						'Text found in the title, source description or manuscript reference.'
+					),
+					query('state', { type: 'string', enum: CLAIM_STATES }, 'Only claims in this state.'),
+					query('method', { type: 'string', enum: METHOD_IDS }, 'Only claims of this method.'),
+					query('sort', { type: 'string', enum: CLAIM_SORTS, default: 'createdAt' }, 'Sort key.'),
+					query('order', { type: 'string', enum: ['asc', 'desc'], default: 'desc' }, 'Sort order.'),
+					query('page', { type: 'integer', minimum: 1, default: 1 }, 'Page number, from 1.'),
+					query(
+						'pageSize',
+						{ type: 'integer', minimum: 1, maximum: 100, default: 20 },
+						'Claims per page.'
+					)
+				],
+				responses: {
+					'200': reply('One page of claims.', 'ClaimPage'),
+					'400': badRequest,
+					'401': unauthorised
+				}
+			},
+			post: {
+				operationId: 'createClaim',
+				summary: 'Create a draft claim',
+				requestBody: { required: true, content: body('ClaimInput') },
+				responses: {
+					'201': reply('The new claim.', 'Claim'),
+					'400': badRequest,
+					'401': unauthorised,
+					'403': failure('The caller belongs to no group.'),
+					'404': notFound
+				}
+			}
+		},
+		'/api/v1/claims/{id}': {
+			get: {
+				operationId: 'getClaim',
+				summary: 'Read a claim',
+				parameters: [idParameter('claim')],
+				responses: { '200': reply('The claim.', 'Claim'), '401': unauthorised, '404': notFound }
+			}
+		},
+		'/api/v1/claims/{id}/datasets': {
+			get: {
+				operationId: 'listDatasets',
+				summary: 'List the claim’s counts files, newest first',
+				parameters: [idParameter('claim')],
+				responses: {
+					'200': {
+						description: 'The datasets.',
+						content: { 'application/json': { schema: { type: 'array', items: ref('Dataset') } } }
+					},
+					'401': unauthorised,
+					'404': notFound
+				}
+			},
+			post: {
+				operationId: 'addDataset',
+				summary: 'Upload a counts file (CSV or JSON form)',
+				parameters: [
+					idParameter('claim'),
+					query('name', { type: 'string' }, 'File name to record for a raw body.')
+				],
+				requestBody: {
+					required: true,
+					content: {
+						'multipart/form-data': {
+							schema: {
+								type: 'object',
+								required: ['counts'],
+								properties: { counts: { type: 'string', format: 'binary' } }
+							}
+						},
+						'text/csv': { schema: { type: 'string' } },
+						'application/json': {
+							schema: {
+								type: 'object',
+								description: '{"dimension": d, "tables": [{"basis": t, "counts": [[…]]}]}'
+							}
+						}
+					}
+				},
+				responses: {
+					'201': reply('The stored dataset.', 'Dataset'),
+					'400': failure('A bad counts file: code bad_counts, with the line at fault.'),
+					'401': unauthorised,
+					'404': notFound,
+					'413': failure(`The file exceeds ${MAX_COUNTS_FILE_BYTES} bytes.`),
+					'415': failure('Neither multipart/form-data, text/csv nor application/json.')
+				}
+			}
+		},
+		'/api/v1/claims/{id}/checks': {
+			post: {
+				operationId: 'startCheck',
+				summary: 'Queue a check of the claim on one of its datasets',
+				parameters: [idParameter('claim')],
+				requestBody: { required: false, content: body('CheckRequest') },
+				responses: {
+					'202': reply('The queued check; poll its URL (Location header).', 'Check'),
+					'400': badRequest,
+					'401': unauthorised,
+					'404': notFound
+				}
+			}
+		},
+		'/api/v1/checks/{id}': {
+			get: {
+				operationId: 'getCheck',
+				summary: 'Read a check: status, progress and, when done, the result',
+				parameters: [idParameter('check')],
+				responses: { '200': reply('The check.', 'Check'), '401': unauthorised, '404': notFound }
+			}
+		},
+		'/api/v1/openapi.json': {
+			get: {
+				operationId: 'openApiDocument',
+				summary: 'This document',
+				security: [],
+				responses: {
+					'200': {
+						description: 'The OpenAPI 3.1 document.',
+						content: { 'application/json': { schema: { type: 'object' } } }
+					}
+				}
+			}
+		}
+	},
+	components: {
+		securitySchemes: {
+			bearerToken: {
+				type: 'http',
+				scheme: 'bearer',
+				description: 'An API token (rks_…) from Settings → API tokens.'
+			},
+			sessionCookie: {
+				type: 'apiKey',
+				in: 'cookie',
+				name: 'rankseal_session',
+				description: 'The session cookie of a signed-in browser.'
+			}
+		},
+		schemas
+	}
+};

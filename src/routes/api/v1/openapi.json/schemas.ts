@@ -1,0 +1,273 @@
+/** JSON Schemas (OpenAPI 3.1 components) of the API's bodies, kept beside the document. */
+import { DEFAULTS, METHOD_IDS } from '$lib/certify';
+import { CLAIM_STATES } from '$lib/claims/schema';
+
+const ref = (name: string) => ({ $ref: `#/components/schemas/${name}` });
+const text = { type: 'string' };
+const whole = { type: 'integer' };
+const number = { type: 'number' };
+const timestamp = { type: 'string', format: 'date-time' };
+const nullable = (schema: object) => ({ anyOf: [schema, { type: 'null' }] });
+const method = { type: 'string', enum: METHOD_IDS };
+
+export const schemas = {
+	Error: {
+		type: 'object',
+		required: ['error'],
+		properties: {
+			error: {
+				type: 'object',
+				required: ['code', 'message'],
+				properties: {
+					code: {
+						type: 'string',
+						examples: ['unauthorised', 'not_found', 'bad_request', 'bad_counts', 'too_large']
+					},
+					message: {
+						type: 'string',
+						description: 'Plain words; for bad input it names the fields or the line.'
+					},
+					line: {
+						...nullable(whole),
+						description: 'bad_counts only: the line of the counts file at fault, when known.'
+					},
+					column: { ...nullable(whole), description: 'bad_counts only: the column, when known.' }
+				}
+			}
+		}
+	},
+	ClaimInput: {
+		type: 'object',
+		required: ['title', 'sourceDescription', 'dimension', 'method', 'claimedSchmidtNumber'],
+		properties: {
+			groupId: { ...text, description: 'Default: the caller’s first group.' },
+			title: { ...text, minLength: 1, maxLength: 200 },
+			sourceDescription: { ...text, minLength: 1, maxLength: 5000 },
+			dimension: { ...whole, minimum: 2, maximum: 256, description: 'Local dimension d.' },
+			method,
+			bases: {
+				type: 'array',
+				items: { ...whole, minimum: 0 },
+				description:
+					'Basis indices the method uses; they must exist in dimension d. Default: [0, 1].'
+			},
+			claimedSchmidtNumber: { ...whole, minimum: 1, description: 'At most the dimension.' },
+			manuscriptReference: nullable({ ...text, maxLength: 300 })
+		}
+	},
+	Claim: {
+		type: 'object',
+		required: [
+			'id',
+			'groupId',
+			'groupName',
+			'title',
+			'dimension',
+			'method',
+			'bases',
+			'claimedSchmidtNumber',
+			'state',
+			'createdAt',
+			'updatedAt',
+			'latestCheck'
+		],
+		properties: {
+			id: text,
+			groupId: text,
+			groupName: text,
+			title: text,
+			sourceDescription: text,
+			dimension: whole,
+			method,
+			bases: { type: 'array', items: whole },
+			claimedSchmidtNumber: whole,
+			manuscriptReference: nullable(text),
+			state: { type: 'string', enum: CLAIM_STATES },
+			createdBy: { type: 'object', properties: { id: text, name: text } },
+			createdAt: timestamp,
+			updatedAt: timestamp,
+			latestCheck: nullable({
+				type: 'object',
+				properties: {
+					id: text,
+					status: ref('CheckStatus'),
+					certifiedSchmidtNumber: nullable(whole),
+					verdict: nullable({ type: 'string', enum: ['supported', 'not supported'] })
+				}
+			})
+		}
+	},
+	ClaimPage: {
+		type: 'object',
+		required: ['items', 'total', 'page', 'pageSize'],
+		properties: {
+			items: { type: 'array', items: ref('Claim') },
+			total: whole,
+			page: whole,
+			pageSize: whole
+		}
+	},
+	Dataset: {
+		type: 'object',
+		required: [
+			'id',
+			'claimId',
+			'sha256',
+			'byteSize',
+			'format',
+			'originalName',
+			'createdAt',
+			'summary'
+		],
+		properties: {
+			id: text,
+			claimId: text,
+			sha256: {
+				type: 'string',
+				pattern: '^[0-9a-f]{64}$',
+				description: 'SHA-256 of the stored bytes.'
+			},
+			byteSize: whole,
+			format: { type: 'string', enum: ['csv', 'json'] },
+			originalName: text,
+			createdAt: timestamp,
+			summary: {
+				type: 'object',
+				properties: {
+					dimension: whole,
+					bases: { type: 'array', items: whole },
+					totals: {
+						type: 'object',
+						additionalProperties: number,
+						description: 'Total counts per basis.'
+					},
+					hasAccidentals: { type: 'boolean' },
+					hasDurations: { type: 'boolean' },
+					allows: {
+						type: 'array',
+						items: method,
+						description: 'Methods whose tables the file completes.'
+					}
+				}
+			}
+		}
+	},
+	CheckRequest: {
+		type: 'object',
+		properties: {
+			datasetId: { ...text, description: 'Default: the claim’s newest dataset.' },
+			resamples: { ...whole, minimum: 100, maximum: 1_000_000, default: DEFAULTS.resamples },
+			confidence: {
+				...number,
+				exclusiveMinimum: 0.5,
+				exclusiveMaximum: 1,
+				default: DEFAULTS.confidence
+			},
+			seed: { ...whole, minimum: 1, maximum: 4294967295, default: DEFAULTS.seed }
+		}
+	},
+	CheckStatus: { type: 'string', enum: ['queued', 'running', 'done', 'failed'] },
+	Check: {
+		type: 'object',
+		required: [
+			'id',
+			'claimId',
+			'datasetId',
+			'status',
+			'progress',
+			'resamples',
+			'confidence',
+			'seed',
+			'createdAt',
+			'result'
+		],
+		properties: {
+			id: text,
+			claimId: text,
+			datasetId: text,
+			status: ref('CheckStatus'),
+			progress: { ...number, minimum: 0, maximum: 1 },
+			resamples: whole,
+			confidence: number,
+			seed: whole,
+			createdAt: timestamp,
+			startedAt: nullable(timestamp),
+			finishedAt: nullable(timestamp),
+			error: nullable(text),
+			result: nullable(ref('CertificationResult'))
+		}
+	},
+	CertificationResult: {
+		type: 'object',
+		description: 'The fields of the command line’s --json output.',
+		required: [
+			'method',
+			'dimension',
+			'bases',
+			'statistic',
+			'bounds',
+			'certifiedSchmidtNumber',
+			'confidence',
+			'resamples',
+			'seed',
+			'inputSha256'
+		],
+		properties: {
+			method,
+			dimension: whole,
+			bases: { type: 'array', items: whole },
+			statistic: {
+				type: 'object',
+				properties: {
+					value: number,
+					standardError: number,
+					lower: { ...number, description: 'One-sided lower confidence bound.' },
+					interval95: { type: 'array', items: number, minItems: 2, maxItems: 2 },
+					deltaMethodStandardError: number
+				}
+			},
+			bounds: {
+				type: 'array',
+				items: {
+					type: 'object',
+					properties: {
+						upToSchmidtNumber: whole,
+						bound: number,
+						marginInStandardErrors: nullable(number),
+						criticalVisibility: number
+					}
+				}
+			},
+			pointSchmidtNumber: whole,
+			certifiedSchmidtNumber: whole,
+			confidence: number,
+			resamples: whole,
+			seed: whole,
+			inputSha256: nullable(text),
+			claim: nullable({
+				type: 'object',
+				properties: {
+					schmidtNumber: whole,
+					verdict: { type: 'string', enum: ['supported', 'not supported'] },
+					boundToBeat: number,
+					visibilityNeeded: number,
+					countsNeeded: whole,
+					shortfall: text
+				}
+			}),
+			effectiveVisibility: number,
+			steeringRobustness: nullable({
+				type: 'object',
+				properties: { value: number, lower: number }
+			}),
+			trust: { type: 'string', enum: ['device-dependent', 'one-sided device-independent'] },
+			reference: text,
+			normalisation: { type: 'string', enum: ['counts', 'rates'] },
+			backgroundSubtracted: { type: 'boolean' },
+			resampling: { type: 'string', enum: ['sufficient-totals', 'per-cell'] },
+			totalCounts: number,
+			warnings: { type: 'array', items: text },
+			engine: { type: 'object', properties: { version: text, generator: text, poisson: text } }
+		}
+	}
+};

@@ -1,0 +1,205 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { safeNext } from '../../src/lib/server/auth-web';
+import {
+	requestPasswordReset,
+	resendVerification,
+	resetPassword,
+	signIn,
+	signOutEverywhere,
+	signUp,
+	verifyEmail
+} from '../../src/lib/server/services/accounts';
+import { FieldError } from '../../src/lib/server/services/field-error';
+import { hashSecret } from '../../src/lib/server/services/ids';
+import { linkToken, mailTo, mailWorld, type MailWorld } from './mail-world';
+
+const PASSWORD = 'lantern-fjord-quartz';
+
+describe('accounts', () => {
+	let world: MailWorld;
+	beforeAll(async () => (world = await mailWorld()));
+	afterAll(async () => world?.close());
+
+	const user = async (email: string) =>
+		(await world.database.models.User.findOne({ where: { email } }))!.get({ plain: true });
+	const auditActions = async (subjectId: string) =>
+		(await world.database.models.AuditEvent.findAll({ where: { subjectId } })).map((e) =>
+			e.get('action')
+		);
+
+	it('signs up, mails a confirmation link, and the link works once only', async () => {
+		const { userId } = await signUp(world.database, world.mailer, {
+			email: '  Liv.Aasen@Fjordlight.TEST ',
+			name: 'Liv Aasen',
+			password: PASSWORD
+		});
+		const stored = await user('liv.aasen@fjordlight.test');
+		expect(stored.id).toBe(userId);
+		expect(stored.passwordHash).toMatch(/^\$argon2id\$/);
+		expect(stored.emailVerifiedAt).toBeNull();
+
+		const [mail] = await mailTo(world, 'liv.aasen@fjordlight.test');
+		expect(mail.subject).toBe('Confirm your address for Rankseal');
+		const token = await linkToken(world, 'liv.aasen@fjordlight.test', '/verify/');
+		const row = await world.database.models.EmailToken.findOne({ where: { userId } });
+		expect(row!.get('tokenHash')).toBe(hashSecret(token));
+		const ttl = new Date(row!.get('expiresAt') as Date).getTime() - Date.now();
+		expect(ttl).toBeGreaterThan(23.9 * 3600e3);
+		expect(ttl).toBeLessThanOrEqual(24 * 3600e3);
+
+		expect(await verifyEmail(world.database, token)).toEqual({ ok: true, userId });
+		expect((await user('liv.aasen@fjordlight.test')).emailVerifiedAt).not.toBeNull();
+		expect(await verifyEmail(world.database, token)).toEqual({ ok: false, reason: 'used' });
+		expect(await verifyEmail(world.database, 'not-a-token')).toEqual({
+			ok: false,
+			reason: 'unknown'
+		});
+		expect(await auditActions(userId)).toEqual(
+			expect.arrayContaining(['account.signed-up', 'account.email-verified'])
+		);
+	});
+
+	it('refuses a taken address (in any case) and a short password, beside the field', async () => {
+		const taken = signUp(world.database, world.mailer, {
+			email: 'LIV.AASEN@fjordlight.test',
+			name: 'Other',
+			password: PASSWORD
+		});
+		await expect(taken).rejects.toMatchObject({ field: 'email' });
+		const short = signUp(world.database, world.mailer, {
+			email: 'short@fjordlight.test',
+			name: 'Short',
+			password: '123456789'
+		});
+		await expect(short).rejects.toBeInstanceOf(FieldError);
+		await expect(short).rejects.toMatchObject({ field: 'password' });
+		expect(
+			await world.database.models.User.count({ where: { email: 'short@fjordlight.test' } })
+		).toBe(0);
+	});
+
+	it('rejects an expired confirmation link, and a re-sent link replaces the old one', async () => {
+		const { userId } = await signUp(world.database, world.mailer, {
+			email: 'tor@fjordlight.test',
+			name: 'Tor Lunde',
+			password: PASSWORD
+		});
+		const first = await linkToken(world, 'tor@fjordlight.test', '/verify/');
+		await world.database.models.EmailToken.update(
+			{ expiresAt: new Date(Date.now() - 1000) },
+			{ where: { tokenHash: hashSecret(first) } }
+		);
+		expect(await verifyEmail(world.database, first)).toEqual({ ok: false, reason: 'expired' });
+		expect((await user('tor@fjordlight.test')).emailVerifiedAt).toBeNull();
+
+		expect(await resendVerification(world.database, world.mailer, userId)).toBe(true);
+		const second = await linkToken(world, 'tor@fjordlight.test', '/verify/');
+		expect(second).not.toBe(first);
+		expect(await verifyEmail(world.database, second)).toEqual({ ok: true, userId });
+		expect(await resendVerification(world.database, world.mailer, userId)).toBe(false);
+	});
+
+	it('signs in with the right password only; an unknown address looks the same', async () => {
+		const { userId } = await signUp(world.database, world.mailer, {
+			email: 'ines@fjordlight.test',
+			name: 'Ines Brekke',
+			password: PASSWORD
+		});
+		expect(await signIn(world.database, 'Ines@Fjordlight.test', PASSWORD)).toEqual({ userId });
+		expect(await signIn(world.database, 'ines@fjordlight.test', 'lantern-fjord-quartZ')).toBeNull();
+		expect(await signIn(world.database, 'nobody@fjordlight.test', PASSWORD)).toBeNull();
+	});
+
+	it('resets a password by a one-hour, single-use link and ends every session', async () => {
+		const { userId } = await signUp(world.database, world.mailer, {
+			email: 'eirik@fjordlight.test',
+			name: 'Eirik Moen',
+			password: PASSWORD
+		});
+		const laptop = await world.lucia.createSession(userId, {});
+		const phone = await world.lucia.createSession(userId, {});
+
+		await requestPasswordReset(world.database, world.mailer, ' EIRIK@fjordlight.test');
+		const token = await linkToken(world, 'eirik@fjordlight.test', '/reset/');
+		const row = await world.database.models.EmailToken.findOne({
+			where: { tokenHash: hashSecret(token) }
+		});
+		expect(row!.get('purpose')).toBe('reset-password');
+		expect(new Date(row!.get('expiresAt') as Date).getTime() - Date.now()).toBeLessThanOrEqual(
+			3600e3
+		);
+
+		const tooShort = resetPassword(world.database, world.lucia, world.mailer, token, 'short');
+		await expect(tooShort).rejects.toMatchObject({ field: 'password' });
+		const newPassword = 'harbour-willow-signal';
+		expect(
+			await resetPassword(world.database, world.lucia, world.mailer, token, newPassword)
+		).toEqual({ ok: true, userId });
+		expect((await world.lucia.validateSession(laptop.id)).session).toBeNull();
+		expect((await world.lucia.validateSession(phone.id)).session).toBeNull();
+		expect(await signIn(world.database, 'eirik@fjordlight.test', PASSWORD)).toBeNull();
+		expect(await signIn(world.database, 'eirik@fjordlight.test', newPassword)).toEqual({ userId });
+		expect(
+			await resetPassword(world.database, world.lucia, world.mailer, token, 'another-long-password')
+		).toEqual({ ok: false, reason: 'used' });
+		expect((await mailTo(world, 'eirik@fjordlight.test')).at(-1)!.subject).toBe(
+			'Your Rankseal password was changed'
+		);
+		expect(await auditActions(userId)).toContain('account.password-reset');
+	});
+
+	it('rejects an expired reset link, and says nothing for an unknown address', async () => {
+		await signUp(world.database, world.mailer, {
+			email: 'sol@fjordlight.test',
+			name: 'Sol Haug',
+			password: PASSWORD
+		});
+		await requestPasswordReset(world.database, world.mailer, 'sol@fjordlight.test');
+		const token = await linkToken(world, 'sol@fjordlight.test', '/reset/');
+		await world.database.models.EmailToken.update(
+			{ expiresAt: new Date(Date.now() - 1) },
+			{ where: { tokenHash: hashSecret(token) } }
+		);
+		expect(
+			await resetPassword(world.database, world.lucia, world.mailer, token, 'harbour-willow-signal')
+		).toEqual({ ok: false, reason: 'expired' });
+
+		const before = await world.database.models.MailMessage.count();
+		await expect(
+			requestPasswordReset(world.database, world.mailer, 'ghost@fjordlight.test')
+		).resolves.toBeUndefined();
+		expect(await world.database.models.MailMessage.count()).toBe(before);
+	});
+
+	it('signs out everywhere', async () => {
+		const { userId } = await signUp(world.database, world.mailer, {
+			email: 'kai@fjordlight.test',
+			name: 'Kai Rud',
+			password: PASSWORD
+		});
+		const sessions = await Promise.all([
+			world.lucia.createSession(userId, {}),
+			world.lucia.createSession(userId, {})
+		]);
+		await signOutEverywhere(world.lucia, userId);
+		for (const s of sessions) expect((await world.lucia.validateSession(s.id)).session).toBeNull();
+	});
+});
+
+describe('safeNext', () => {
+	it('keeps same-origin relative paths and drops everything else', () => {
+		expect(safeNext('/claims/abc?tab=checks')).toBe('/claims/abc?tab=checks');
+		expect(safeNext('/invite/tok_-1')).toBe('/invite/tok_-1');
+		for (const bad of [
+			'https://evil.test/',
+			'//evil.test',
+			'/\\evil.test',
+			'claims',
+			'/\tevil',
+			'',
+			null
+		]) {
+			expect(safeNext(bad)).toBe('/claims');
+		}
+	});
+});

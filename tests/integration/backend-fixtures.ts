@@ -1,0 +1,49 @@
+/** People, groups and counts files for the claims, datasets, checks and tokens service tests. */
+import { sampledCounts, states, toCountsCsv } from '../../src/lib/certify';
+import type { Database } from '../../src/lib/server/db';
+import type { GroupRole } from '../../src/lib/server/db/models/Membership';
+import { newId } from '../../src/lib/server/services/ids';
+
+export async function addGroup(database: Database, name: string): Promise<string> {
+	const id = newId();
+	await database.models.Group.create({ id, name });
+	return id;
+}
+
+/** A verified researcher, member of the given groups; no real password hash is needed here. */
+export async function addUser(
+	database: Database,
+	name: string,
+	groups: [string, GroupRole][] = []
+): Promise<string> {
+	const id = newId();
+	const email = `${name.toLowerCase().replace(/\W+/g, '.')}.${id.slice(0, 6)}@example.test`;
+	await database.models.User.create({
+		id,
+		email,
+		name,
+		passwordHash: 'x',
+		accountRole: 'researcher',
+		emailVerifiedAt: new Date()
+	});
+	for (const [groupId, role] of groups)
+		await database.models.Membership.create({ id: newId(), groupId, userId: id, role });
+	return id;
+}
+
+/** Long-form CSV of Poisson counts from an isotropic state with visibility 0.9. */
+export function countsCsv(d = 5, bases = [0, 1], pairs = 50_000, seed = 7): string {
+	return toCountsCsv(sampledCounts(states.isotropic(d, 0.9), bases, pairs, seed), [
+		'simulated test source'
+	]);
+}
+
+export const bytesOf = (text: string) => new TextEncoder().encode(text);
+
+export const claimFields = {
+	title: 'Time-bin pairs, run 3',
+	sourceDescription: 'Simulated isotropic source with visibility 0.9',
+	dimension: 5,
+	method: 'mub-correlation' as const,
+	claimedSchmidtNumber: 3
+};

@@ -1,0 +1,209 @@
+/** The check runner end to end: real worker threads (piscina) running the bundled engine. */
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { certify, parseCounts } from '../../src/lib/certify';
+import { bundleCheckWorker } from '../../src/lib/server/checks/locate';
+import { startCheckRunner, stopCheckRunner } from '../../src/lib/server/checks/runner';
+import {
+	getCheck,
+	listChecks,
+	startCheck,
+	type CheckView
+} from '../../src/lib/server/services/checks';
+import { createClaim, getClaim } from '../../src/lib/server/services/claims';
+import { addDataset, datasetFilePath } from '../../src/lib/server/services/datasets';
+import { NotFoundError } from '../../src/lib/server/services/errors';
+import { newId } from '../../src/lib/server/services/ids';
+import { addGroup, addUser, bytesOf, claimFields, countsCsv } from './backend-fixtures';
+import { temporaryDatabase } from './db';
+
+let ctx: Awaited<ReturnType<typeof temporaryDatabase>>;
+let workerFolder: string;
+let ada: string, cyd: string, claimId: string, datasetId: string;
+/** Unequal integration times make the engine resample every cell: slow enough to watch. */
+const slowCsv = countsCsv(7, [0, 1], 100_000, 5)
+	.replace('counts\n', 'counts,duration_s\n')
+	.replace(
+		/^(\d+),(\d+),(\d+),(\d+)$/gm,
+		(row, t, a, b) => `${row},${t === '0' && a === '0' && b === '0' ? 2 : 1}`
+	);
+
+/** Polls the check until it is done or failed, recording every status and progress seen. */
+async function follow(userId: string, id: string) {
+	const seen: { status: string; progress: number }[] = [];
+	for (let i = 0; i < 3000; i++) {
+		const check = (await getCheck(ctx.database, userId, id))!;
+		seen.push({ status: check.status, progress: check.progress });
+		if (check.status === 'done' || check.status === 'failed') return { check, seen };
+		await new Promise((wait) => setTimeout(wait, 10));
+	}
+	throw new Error(`check ${id} did not finish`);
+}
+
+beforeAll(async () => {
+	ctx = await temporaryDatabase();
+	workerFolder = mkdtempSync(path.join(tmpdir(), 'rankseal-worker-test-'));
+	process.env.RANKSEAL_DATA_DIR = ctx.folder;
+	process.env.RANKSEAL_CHECK_WORKERS = '2';
+	process.env.RANKSEAL_CHECK_WORKER = await bundleCheckWorker(
+		path.join(workerFolder, 'check-worker.mjs')
+	);
+	const lake = await addGroup(ctx.database, 'Lake optics');
+	const ridge = await addGroup(ctx.database, 'Ridge qudits');
+	ada = await addUser(ctx.database, 'Ada Lind', [[lake, 'author']]);
+	cyd = await addUser(ctx.database, 'Cyd Marsh', [[ridge, 'lead']]);
+	claimId = (
+		await createClaim(ctx.database, ada, { ...claimFields, dimension: 7, claimedSchmidtNumber: 4 })
+	).id;
+	datasetId = (
+		await addDataset(ctx.database, ada, claimId, {
+			bytes: bytesOf(slowCsv),
+			originalName: 'slow.csv'
+		})
+	).id;
+});
+afterAll(async () => {
+	await stopCheckRunner(ctx.database);
+	await ctx.close();
+	rmSync(workerFolder, { recursive: true, force: true });
+});
+
+describe('check runner', () => {
+	it('runs a check queued → running → done, progress reaching 1, with the engine’s exact result', async () => {
+		const queued = await startCheck(ctx.database, ada, claimId, { resamples: 100_000, seed: 42 });
+		expect(queued).toMatchObject({
+			status: 'queued',
+			progress: 0,
+			datasetId,
+			resamples: 100_000,
+			seed: 42,
+			result: null
+		});
+		const { check, seen } = await follow(ada, queued.id);
+		expect(check.status).toBe('done');
+		expect(check.progress).toBe(1);
+		expect(check.startedAt && check.finishedAt && check.startedAt <= check.finishedAt).toBe(true);
+		expect(seen.some((s) => s.status === 'running' && s.progress > 0 && s.progress < 1)).toBe(true);
+		const progress = seen.map((s) => s.progress);
+		expect(progress).toEqual([...progress].sort((a, b) => a - b));
+
+		const dataset = await ctx.database.models.Dataset.findByPk(datasetId);
+		const sha256 = dataset!.get('sha256') as string;
+		const direct = certify(parseCounts(bytesOf(slowCsv), 7), {
+			method: 'mub-correlation',
+			bases: [0, 1],
+			resamples: 100_000,
+			confidence: check.confidence,
+			seed: 42,
+			claim: 4,
+			inputSha256: sha256
+		});
+		expect(check.result).toEqual(JSON.parse(JSON.stringify(direct)));
+		expect(check.result!.inputSha256).toBe(sha256);
+		expect((await getClaim(ctx.database, ada, claimId))?.state).toBe('checked');
+		expect((await getClaim(ctx.database, ada, claimId))?.latestCheck).toEqual({
+			id: check.id,
+			status: 'done',
+			certifiedSchmidtNumber: direct.certifiedSchmidtNumber,
+			verdict: direct.claim!.verdict
+		});
+	});
+
+	it('runs two checks at once off the event loop, and both finish', async () => {
+		let last = performance.now();
+		let worstGap = 0;
+		const ticker = setInterval(() => {
+			const now = performance.now();
+			worstGap = Math.max(worstGap, now - last);
+			last = now;
+		}, 5);
+		const started = performance.now();
+		const [a, b] = await Promise.all([
+			startCheck(ctx.database, ada, claimId, { resamples: 150_000, seed: 1 }),
+			startCheck(ctx.database, ada, claimId, { resamples: 150_000, seed: 2 })
+		]);
+		const [ra, rb] = await Promise.all([follow(ada, a.id), follow(ada, b.id)]);
+		clearInterval(ticker);
+		expect([ra.check.status, rb.check.status]).toEqual(['done', 'done']);
+		expect(ra.check.result!.statistic.lower).not.toBe(rb.check.result!.statistic.lower);
+		// Both ran at the same time: their running spans overlap.
+		expect(
+			ra.check.startedAt! < rb.check.finishedAt! && rb.check.startedAt! < ra.check.finishedAt!
+		).toBe(true);
+		expect(worstGap).toBeLessThan(250);
+		expect(performance.now() - started).toBeGreaterThan(0);
+	});
+
+	it('records a failure in words when the stored file has gone', async () => {
+		const other = countsCsv(7, [0, 1], 20_000, 77);
+		const dataset = await addDataset(ctx.database, ada, claimId, {
+			bytes: bytesOf(other),
+			originalName: 'gone.csv'
+		});
+		rmSync(datasetFilePath(dataset.sha256));
+		const queued = await startCheck(ctx.database, ada, claimId, {
+			datasetId: dataset.id,
+			resamples: 1000
+		});
+		const { check } = await follow(ada, queued.id);
+		expect(check.status).toBe('failed');
+		expect(check.error).toBe('the stored counts file cannot be read');
+		expect(check.result).toBeNull();
+	});
+
+	it('re-queues checks that an earlier process left running', async () => {
+		await stopCheckRunner(ctx.database);
+		const id = newId();
+		await ctx.database.models.Check.create({
+			id,
+			claimId,
+			datasetId,
+			createdBy: ada,
+			status: 'running',
+			progress: 0.4,
+			resamples: 1000,
+			confidence: 0.99865,
+			seed: 3,
+			startedAt: new Date()
+		});
+		const runner = await startCheckRunner(ctx.database);
+		await runner.idle();
+		const check = (await getCheck(ctx.database, ada, id)) as CheckView;
+		expect(check).toMatchObject({ status: 'done', progress: 1 });
+		expect(check.result!.seed).toBe(3);
+	});
+
+	it('fails the check, rather than waiting forever, when the worker cannot start', async () => {
+		await stopCheckRunner(ctx.database);
+		const good = process.env.RANKSEAL_CHECK_WORKER;
+		const broken = path.join(workerFolder, 'broken.mjs');
+		writeFileSync(broken, "throw new Error('no engine here');\nexport default () => null;\n");
+		process.env.RANKSEAL_CHECK_WORKER = broken;
+		try {
+			const queued = await startCheck(ctx.database, ada, claimId, { resamples: 1000 });
+			const { check } = await follow(ada, queued.id);
+			expect(check).toMatchObject({
+				status: 'failed',
+				error: 'the check worker stopped: no engine here'
+			});
+		} finally {
+			await stopCheckRunner(ctx.database);
+			process.env.RANKSEAL_CHECK_WORKER = good;
+		}
+	});
+
+	it('checks settings and hides checks of another group', async () => {
+		await expect(startCheck(ctx.database, ada, claimId, { resamples: 5 })).rejects.toThrow(
+			/Resamples must be at least 100/
+		);
+		await expect(
+			startCheck(ctx.database, ada, claimId, { datasetId: 'nope' })
+		).rejects.toBeInstanceOf(NotFoundError);
+		await expect(startCheck(ctx.database, cyd, claimId)).rejects.toBeInstanceOf(NotFoundError);
+		await expect(listChecks(ctx.database, cyd, claimId)).rejects.toBeInstanceOf(NotFoundError);
+		const [newest] = await listChecks(ctx.database, ada, claimId);
+		expect(await getCheck(ctx.database, cyd, newest.id)).toBeNull();
+	});
+});

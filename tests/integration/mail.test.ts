@@ -1,0 +1,116 @@
+import { createServer, type Server } from 'node:net';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { createMailer } from '../../src/lib/server/mail';
+import { startMailCatcher } from '../../src/lib/server/mail-catcher';
+import { ForbiddenError, NotFoundError } from '../../src/lib/server/services/errors';
+import { getOutboxMessage, listOutbox } from '../../src/lib/server/services/mail-outbox';
+import { fillPlaceholders, renderTemplate } from '../../src/lib/server/templates';
+import { newId } from '../../src/lib/server/services/ids';
+import { mailTo, mailWorld, type MailWorld } from './mail-world';
+
+describe('mail: nodemailer to the local SMTP catcher', () => {
+	let world: MailWorld;
+	beforeAll(async () => (world = await mailWorld()));
+	afterAll(async () => world?.close());
+
+	it('stores a message sent over SMTP as a MailMessage row, text and headers intact', async () => {
+		expect(world.catcher.port).toBeGreaterThan(0);
+		await world.mailer.send({
+			to: 'reader@lab.test',
+			subject: 'Schmidt number ≥ 9 in d = 17',
+			text: 'Line one\nhttp://rankseal.test/claims/abc\n'
+		});
+		const [message] = await mailTo(world, 'reader@lab.test');
+		expect(message.subject).toBe('Schmidt number ≥ 9 in d = 17');
+		expect(message.from).toContain('no-reply@rankseal.invalid');
+		expect(message.text).toContain('http://rankseal.test/claims/abc');
+		expect(message.raw).toMatch(/^Subject: /m);
+		expect(message.html).toBeNull();
+	});
+
+	it('works with an smtp:// URL as well, as SMTP_URL would give it', async () => {
+		const byUrl = createMailer({
+			transport: `smtp://127.0.0.1:${world.catcher.port}`,
+			from: 'Rankseal <x@rankseal.invalid>',
+			origin: 'http://rankseal.test'
+		});
+		try {
+			await byUrl.send({ to: 'url@lab.test', subject: 'By URL', text: 'Hello' });
+		} finally {
+			byUrl.close();
+		}
+		expect((await mailTo(world, 'url@lab.test')).map((m) => m.subject)).toEqual(['By URL']);
+	});
+
+	it('moves to a free port, rather than failing, when its port is taken', async () => {
+		const blocker: Server = createServer();
+		await new Promise<void>((done) => blocker.listen(0, '127.0.0.1', done));
+		const taken = (blocker.address() as { port: number }).port;
+		const second = await startMailCatcher(world.database, taken);
+		try {
+			expect(second.port).not.toBe(taken);
+			const mailer = createMailer({
+				transport: { host: '127.0.0.1', port: second.port, ignoreTLS: true },
+				from: 'a@rankseal.invalid',
+				origin: 'http://rankseal.test'
+			});
+			await mailer.send({ to: 'moved@lab.test', subject: 'Moved', text: 'ok' });
+			mailer.close();
+			expect(await mailTo(world, 'moved@lab.test')).toHaveLength(1);
+		} finally {
+			await second.close();
+			await new Promise((done) => blocker.close(done));
+		}
+	});
+
+	it('shows the outbox to admins only', async () => {
+		const { User } = world.database.models;
+		const admin = newId();
+		const researcher = newId();
+		await User.create({
+			id: admin,
+			email: 'admin@lab.test',
+			name: 'Ada Admin',
+			passwordHash: 'x',
+			accountRole: 'admin'
+		});
+		await User.create({
+			id: researcher,
+			email: 'r@lab.test',
+			name: 'Rui Research',
+			passwordHash: 'x',
+			accountRole: 'researcher'
+		});
+		const outbox = await listOutbox(world.database, admin);
+		expect(outbox.total).toBeGreaterThanOrEqual(3);
+		expect(outbox.items[0]).toMatchObject({ to: expect.any(String), subject: expect.any(String) });
+		const message = await getOutboxMessage(world.database, admin, outbox.items[0].id);
+		expect(message.text.length).toBeGreaterThan(0);
+		await expect(listOutbox(world.database, researcher)).rejects.toBeInstanceOf(ForbiddenError);
+		await expect(getOutboxMessage(world.database, researcher, message.id)).rejects.toBeInstanceOf(
+			ForbiddenError
+		);
+		await expect(getOutboxMessage(world.database, admin, 'missing')).rejects.toBeInstanceOf(
+			NotFoundError
+		);
+	});
+});
+
+describe('mail templates', () => {
+	it('renders the subject line and fills every placeholder', () => {
+		const mail = renderTemplate('invitation', {
+			inviter: 'Maren Oksvik',
+			group: 'Fjordlight Qudit Lab',
+			email: 'new@lab.test',
+			role: 'author',
+			link: 'http://rankseal.test/invite/tok'
+		});
+		expect(mail.subject).toBe('Maren Oksvik invites you to Fjordlight Qudit Lab on Rankseal');
+		expect(mail.text).toContain('http://rankseal.test/invite/tok');
+		expect(mail.text).not.toMatch(/\{\{|Subject:/);
+	});
+
+	it('refuses to send a placeholder without a value', () => {
+		expect(() => fillPlaceholders('Hello {{name}}', {})).toThrow(/name/);
+	});
+});
