@@ -34,5 +34,5 @@ if (!existsSync('node_modules/.package-lock.json')) step('install', 'npm', ['ci'
 console.log(`node ${process.version}, chromium: ${execFileSync('/usr/bin/chromium', ['--version']).toString().trim()}`);
 step('sync', 'npx', ['svelte-kit', 'sync']);
 step('type check', 'npx', ['svelte-check', '--tsconfig', './tsconfig.json', '--fail-on-warnings']);
-step('build', 'npx', ['vite', 'build', '--logLevel', 'warn']);
+step('build', 'npm', ['run', '--silent', 'build']);
 step('tests', 'npx', ['vitest', 'run']);

@@ -1,6 +1,7 @@
-import type { Handle } from '@sveltejs/kit';
+import type { Handle, ServerInit } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
 import { app } from '$lib/server/app';
+import { formOriginCheck } from '$lib/server/api';
 import { authenticate } from '$lib/server/services/tokens';
 
 /** Reads the session cookie, renews it when lucia says so, and sets locals.user / locals.session. */
@@ -40,4 +41,9 @@ const bearer: Handle = async ({ event, resolve }) => {
 	return resolve(event);
 };
 
-export const handle: Handle = sequence(session, bearer);
+/** Start the database, mail, check runner (and demo) with the server, not on the first request. */
+export const init: ServerInit = async () => {
+	await app();
+};
+
+export const handle: Handle = sequence(formOriginCheck, session, bearer);

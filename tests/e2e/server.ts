@@ -61,7 +61,7 @@ export async function startApp(
 	const port = await freePort();
 	const origin = `http://127.0.0.1:${port}`;
 	const child = spawn(process.execPath, [ENTRY], {
-		env: { ...process.env, ...env, PORT: String(port), HOST: '127.0.0.1', ORIGIN: origin },
+		env: { BODY_SIZE_LIMIT: '25M', ...process.env, ...env, PORT: String(port), HOST: '127.0.0.1', ORIGIN: origin },
 		stdio: ['ignore', 'pipe', 'pipe']
 	});
 	let log = '';

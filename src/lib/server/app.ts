@@ -8,6 +8,8 @@ import { config } from './config';
 import { db, type Database } from './db';
 import { catcherTransport, createMailer, type Mailer } from './mail';
 import { startMailCatcher, type MailCatcher } from './mail-catcher';
+import { startCheckRunner } from './checks/runner';
+import { seedDemo } from './demo/seed';
 
 export interface AppServices {
 	database: Database;
@@ -33,6 +35,9 @@ export function app(): Promise<AppServices> {
 		const database = await db();
 		const lucia = createLucia(database, !dev && config().origin.startsWith('https:'));
 		const mail = await startMail(database);
+		// Checks left queued or running by an earlier process resume now.
+		await startCheckRunner(database);
+		if (config().demo) console.log(`Demo scenario: ${await seedDemo(database)}`);
 		return { database, lucia, ...mail };
 	})();
 	return services;

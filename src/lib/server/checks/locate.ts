@@ -4,9 +4,10 @@
  * source with esbuild into a temporary folder, so that `vite dev` and tests need no build step.
  */
 import { existsSync, mkdtempSync, rmSync } from 'node:fs';
+import { createRequire } from 'node:module';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
-import { fileURLToPath } from 'node:url';
+import { fileURLToPath, pathToFileURL } from 'node:url';
 import { workerBuildOptions } from './bundle.js';
 
 export const BUILT_WORKER = 'build/workers/check-worker.mjs';
@@ -20,7 +21,10 @@ function workerSource(): string | null {
 	return existsSync(fromRoot) ? fromRoot : null;
 }
 
-/** Bundles the worker source into `outfile` with esbuild (found at run time, not bundled). */
+/**
+ * Bundles the worker source into `outfile` with esbuild, loaded from node_modules at run time:
+ * bundled into the server it would lose track of its own binary.
+ */
 export async function bundleCheckWorker(outfile: string): Promise<string> {
 	const entry = workerSource();
 	if (!entry) {
@@ -28,8 +32,11 @@ export async function bundleCheckWorker(outfile: string): Promise<string> {
 			`the check worker is missing: run \`node scripts/build-worker.mjs\` to write ${BUILT_WORKER}`
 		);
 	}
-	const esbuild = 'esbuild';
-	const { build } = (await import(/* @vite-ignore */ esbuild)) as typeof import('esbuild');
+	const resolved = createRequire(import.meta.url).resolve('esbuild');
+	const esbuild = (await import(
+		/* @vite-ignore */ pathToFileURL(resolved).href
+	)) as typeof import('esbuild') & { default?: typeof import('esbuild') };
+	const build = esbuild.build ?? esbuild.default!.build;
 	await build(workerBuildOptions(entry, outfile));
 	return outfile;
 }

@@ -45,9 +45,9 @@ const view = (t: ApiTokenAttributes): TokenView => ({
 	revokedAt: isoOrNull(t.revokedAt)
 });
 
-/** Whether the user may issue tokens: a lead of at least one group. */
+/** Whether the user may issue tokens: a lead or author of at least one group (issue 3). */
 export async function mayIssueTokens(database: Database, userId: string): Promise<boolean> {
-	return [...(await membershipsOf(database, userId)).values()].includes('lead');
+	return (await membershipsOf(database, userId)).size > 0;
 }
 
 /** Issues a token; the returned `token` is the only time the secret is seen. */
@@ -57,7 +57,7 @@ export async function createToken(
 	name: string
 ): Promise<TokenView & { token: string }> {
 	if (!(await mayIssueTokens(database, userId)))
-		throw new ForbiddenError('Only group leads issue API tokens.');
+		throw new ForbiddenError('Only members of a group issue API tokens.');
 	const { name: cleanName } = tokenNameSchema.parse({ name });
 	const { token, hash } = newSecret(TOKEN_PREFIX);
 	const id = newId();

@@ -1,0 +1,77 @@
+/**
+ * Seeds the demo scenario (scenario.ts) once: people with documented passwords, a group, claims
+ * across the three methods with their counts files, a check of each, and an API token for one
+ * author written to data/demo/api-token.txt. Running it again changes nothing, except that a
+ * missing token file gets a fresh token.
+ */
+import { existsSync, mkdirSync, writeFileSync } from 'node:fs';
+import path from 'node:path';
+import { hashPassword } from '../auth';
+import { config } from '../config';
+import type { Database } from '../db';
+import { startCheck } from '../services/checks';
+import { createClaim } from '../services/claims';
+import { addDataset } from '../services/datasets';
+import { newId } from '../services/ids';
+import { createToken } from '../services/tokens';
+import { DEMO_CLAIMS, DEMO_GROUP, DEMO_PEOPLE, demoCountsCsv } from './scenario';
+
+export const demoTokenFile = () => path.join(config().dataDir, 'demo', 'api-token.txt');
+
+async function seedPeople(database: Database): Promise<Map<string, string>> {
+	const { User, Group, Membership } = database.models;
+	const ids = new Map<string, string>();
+	const groupId = newId();
+	await database.sequelize.transaction(async (transaction) => {
+		await Group.create({ id: groupId, name: DEMO_GROUP }, { transaction });
+		for (const person of DEMO_PEOPLE) {
+			const id = newId();
+			ids.set(person.key, id);
+			const passwordHash = await hashPassword(person.password);
+			const { name, email, accountRole } = person;
+			await User.create({ id, name, email, passwordHash, accountRole, emailVerifiedAt: new Date() }, { transaction });
+			if (person.groupRole) await Membership.create({ id: newId(), groupId, userId: id, role: person.groupRole }, { transaction });
+		}
+	});
+	return ids;
+}
+
+async function seedClaims(database: Database, ids: Map<string, string>): Promise<void> {
+	for (const demo of DEMO_CLAIMS) {
+		const userId = ids.get(demo.author)!;
+		const claim = await createClaim(database, userId, {
+			title: demo.title,
+			sourceDescription: demo.sourceDescription,
+			dimension: demo.state.dimension,
+			method: demo.method,
+			bases: demo.bases,
+			claimedSchmidtNumber: demo.claimedSchmidtNumber,
+			manuscriptReference: demo.manuscriptReference
+		});
+		const file = new TextEncoder().encode(demoCountsCsv(demo));
+		await addDataset(database, userId, claim.id, { bytes: file, originalName: `${demo.title.split(':')[0]}.csv` });
+		await startCheck(database, userId, claim.id, {});
+	}
+}
+
+async function writeDemoToken(database: Database, userId: string): Promise<void> {
+	const { token } = await createToken(database, userId, 'demo pipeline');
+	mkdirSync(path.dirname(demoTokenFile()), { recursive: true });
+	writeFileSync(demoTokenFile(), token + '\n', { mode: 0o600 });
+}
+
+export async function seedDemo(database: Database): Promise<'seeded' | 'present'> {
+	const lead = DEMO_PEOPLE.find((p) => p.key === 'lead')!;
+	const existing = await database.models.User.findOne({ where: { email: lead.email } });
+	if (existing) {
+		if (!existsSync(demoTokenFile())) {
+			const author = await database.models.User.findOne({ where: { email: DEMO_PEOPLE[1].email } });
+			if (author) await writeDemoToken(database, author.get('id') as string);
+		}
+		return 'present';
+	}
+	const ids = await seedPeople(database);
+	await seedClaims(database, ids);
+	await writeDemoToken(database, ids.get('author1')!);
+	return 'seeded';
+}
