@@ -1,0 +1,69 @@
+/** The demo seed: once, complete (people, group, claims, datasets, checks, token), and idempotent. */
+import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { signIn } from '../../src/lib/server/services/accounts';
+import { bundleCheckWorker } from '../../src/lib/server/checks/locate';
+import { stopCheckRunner } from '../../src/lib/server/checks/runner';
+import { listChecks } from '../../src/lib/server/services/checks';
+import { listClaims } from '../../src/lib/server/services/claims';
+import { authenticate } from '../../src/lib/server/services/tokens';
+import { demoTokenFile, seedDemo } from '../../src/lib/server/demo/seed';
+import { DEMO_CLAIMS, DEMO_PEOPLE } from '../../src/lib/server/demo/scenario';
+import { temporaryDatabase } from './db';
+
+let ctx: Awaited<ReturnType<typeof temporaryDatabase>>;
+let workerFolder: string;
+
+beforeAll(async () => {
+	ctx = await temporaryDatabase();
+	workerFolder = mkdtempSync(path.join(tmpdir(), 'rankseal-demo-worker-'));
+	process.env.RANKSEAL_DATA_DIR = ctx.folder;
+	process.env.RANKSEAL_CHECK_WORKER = await bundleCheckWorker(path.join(workerFolder, 'w.mjs'));
+});
+afterAll(async () => {
+	await stopCheckRunner(ctx.database);
+	await ctx.close();
+	rmSync(workerFolder, { recursive: true, force: true });
+});
+
+async function settled(userId: string, claimId: string) {
+	for (let i = 0; i < 600; i++) {
+		const checks = await listChecks(ctx.database, userId, claimId);
+		if (checks.every((c) => c.status === 'done' || c.status === 'failed')) return checks;
+		await new Promise((wait) => setTimeout(wait, 50));
+	}
+	throw new Error('demo checks did not finish');
+}
+
+describe('demo scenario', () => {
+	it('seeds people with the documented passwords, the claims with counts and checks, and a token', async () => {
+		expect(await seedDemo(ctx.database)).toBe('seeded');
+		for (const person of DEMO_PEOPLE) expect(await signIn(ctx.database, person.email, person.password)).not.toBeNull();
+		const author = (await signIn(ctx.database, DEMO_PEOPLE[1].email, DEMO_PEOPLE[1].password))!.userId;
+		const { items } = await listClaims(ctx.database, author, {});
+		expect(items).toHaveLength(DEMO_CLAIMS.length);
+		expect(new Set(items.map((c) => c.method))).toEqual(new Set(['mub-correlation', 'steering-2mub', 'fidelity-two-basis']));
+		const verdicts: string[] = [];
+		for (const claim of items) {
+			const checks = await settled(author, claim.id);
+			expect(checks.map((c) => c.status)).toEqual(['done']);
+			verdicts.push(checks[0].result!.claim!.verdict);
+		}
+		expect(verdicts).toContain('supported');
+		expect(verdicts).toContain('not supported');
+		const token = readFileSync(demoTokenFile(), 'utf8').trim();
+		expect((await authenticate(ctx.database, token))?.email).toBe(DEMO_PEOPLE[1].email);
+	});
+
+	it('changes nothing when run again, and writes a fresh token when the file is gone', async () => {
+		const count = await ctx.database.models.Claim.count();
+		expect(await seedDemo(ctx.database)).toBe('present');
+		expect(await ctx.database.models.Claim.count()).toBe(count);
+		rmSync(demoTokenFile());
+		expect(await seedDemo(ctx.database)).toBe('present');
+		expect(existsSync(demoTokenFile())).toBe(true);
+		expect(await authenticate(ctx.database, readFileSync(demoTokenFile(), 'utf8').trim())).not.toBeNull();
+	});
+});
