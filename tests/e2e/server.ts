@@ -3,9 +3,10 @@
  * The test script builds first; here a missing build is an error that says so.
  */
 import { spawn, type ChildProcess } from 'node:child_process';
-import { existsSync } from 'node:fs';
+import { existsSync, mkdtempSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import { createServer } from 'node:net';
-import { resolve } from 'node:path';
+import path, { resolve } from 'node:path';
 
 const ENTRY = resolve('build/index.js');
 
@@ -61,7 +62,17 @@ export async function startApp(
 	const port = await freePort();
 	const origin = `http://127.0.0.1:${port}`;
 	const child = spawn(process.execPath, [ENTRY], {
-		env: { BODY_SIZE_LIMIT: '25M', ...process.env, ...env, PORT: String(port), HOST: '127.0.0.1', ORIGIN: origin },
+		env: {
+			...process.env,
+			// A fresh data folder and any free port for the mail catcher, unless the test names them.
+			BODY_SIZE_LIMIT: '25M',
+			RANKSEAL_DATA_DIR: mkdtempSync(path.join(tmpdir(), 'rankseal-app-')),
+			MAIL_CATCHER_PORT: '0',
+			...env,
+			PORT: String(port),
+			HOST: '127.0.0.1',
+			ORIGIN: origin
+		},
 		stdio: ['ignore', 'pipe', 'pipe']
 	});
 	let log = '';

@@ -33,6 +33,14 @@ const wholeNumber = (label: string, min: number, max: number) =>
 		.min(min, `${label} must be at least ${min}.`)
 		.max(max, `${label} must be at most ${max}.`);
 
+/** A whole number a claim needs: blank or missing reads as "not given", not as 0 (too small). */
+const requiredWholeNumber = (label: string, missing: string, min: number, max: number) =>
+	z.preprocess((value, ctx) => {
+		const blank = value == null || (typeof value === 'string' && value.trim() === '');
+		if (blank) ctx.addIssue({ code: 'custom', message: missing, input: value });
+		return value;
+	}, wholeNumber(label, min, max));
+
 /** "0,1,2", "0 1", ["0", "1"] or [0, 1] → [0, 1, …]; blank → undefined (the method's default). */
 const basesField = z.preprocess(
 	(value) => {
@@ -63,10 +71,15 @@ export const claimInputSchema = z
 			.trim()
 			.min(1, 'Describe the source.')
 			.max(5000, 'Keep the source description under 5000 characters.'),
-		dimension: wholeNumber('The dimension', 2, 256),
+		dimension: requiredWholeNumber('The dimension', 'Give the local dimension d.', 2, 256),
 		method: z.enum(METHOD_IDS, { error: `Choose a method: ${METHOD_IDS.join(', ')}.` }),
 		bases: basesField,
-		claimedSchmidtNumber: wholeNumber('The claimed Schmidt number', 1, 256),
+		claimedSchmidtNumber: requiredWholeNumber(
+			'The claimed Schmidt number',
+			'Give the claimed Schmidt number.',
+			1,
+			256
+		),
 		manuscriptReference: z
 			.string()
 			.trim()

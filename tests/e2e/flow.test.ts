@@ -1,0 +1,156 @@
+/**
+ * The main flow in a real browser against the built app (issue 3): sign up, read the
+ * verification e-mail from the mail catcher in the admin outbox, verify, start a group, create a
+ * claim, upload counts, watch the progress bar, see the verdict and the ladder chart. Then
+ * another group's member gets 404 for that claim, its check and its datasets, pages and API alike.
+ */
+import { mkdtempSync, statSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+import type { Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { launchBrowser, type TestBrowser } from './browser';
+import { seedFlowWorld, type FlowWorld } from './flow-world';
+import { startApp, type AppServer } from './server';
+
+const EXAMPLE = path.resolve('../shared/examples/example-d5-three-bases.csv');
+let app: AppServer;
+let world: FlowWorld;
+let browser: TestBrowser;
+let page: Page;
+let claimUrl = '';
+let checkUrl = '';
+const shots = mkdtempSync(path.join(tmpdir(), 'rankseal-flow-shots-'));
+
+beforeAll(async () => {
+	world = await seedFlowWorld();
+	app = await startApp({ RANKSEAL_DATA_DIR: world.dataDir });
+	browser = await launchBrowser();
+	page = await browser.context.newPage();
+});
+afterAll(async () => {
+	await browser?.close();
+	await app?.stop();
+});
+
+/** Pixels of a PNG that differ from its most common colour, counted by the browser's canvas. */
+async function drawnPixels(png: Buffer): Promise<{ drawn: number; total: number; colours: number }> {
+	return page.evaluate(async (base64) => {
+		const image = new Image();
+		image.src = `data:image/png;base64,${base64}`;
+		await image.decode();
+		const canvas = document.createElement('canvas');
+		canvas.width = image.width;
+		canvas.height = image.height;
+		const context = canvas.getContext('2d')!;
+		context.drawImage(image, 0, 0);
+		const { data } = context.getImageData(0, 0, image.width, image.height);
+		const counts = new Map<number, number>();
+		for (let i = 0; i < data.length; i += 4) {
+			const key = (data[i] << 16) | (data[i + 1] << 8) | data[i + 2];
+			counts.set(key, (counts.get(key) ?? 0) + 1);
+		}
+		const background = Math.max(...counts.values());
+		return { drawn: data.length / 4 - background, total: data.length / 4, colours: counts.size };
+	}, png.toString('base64'));
+}
+
+describe('the main flow in Chromium', () => {
+	const email = 'wren.ashdown@example.test';
+
+	it('signs up and confirms the address through the e-mail caught by the local catcher', async () => {
+		await page.goto(`${app.origin}/signup`);
+		await page.fill('input[name=name]', 'Wren Ashdown');
+		await page.fill('input[name=email]', email);
+		await page.fill('input[name=password]', 'a long enough passphrase');
+		await Promise.all([page.waitForURL((url) => !url.pathname.startsWith('/signup')), page.click('form[action="?/signup"] button')]);
+		// The admin reads the outbox in a browser of their own, as a person would.
+		const admin = await launchBrowser();
+		await admin.context.addCookies([{ name: 'rankseal_session', value: world.adminSession, url: app.origin }]);
+		const adminPage = await admin.context.newPage();
+		await adminPage.goto(`${app.origin}/admin/outbox`);
+		await adminPage.locator('[data-testid=outbox] tr', { hasText: email }).locator('a').first().click();
+		const text = await adminPage.textContent('[data-testid=message-text]');
+		const link = text?.match(/https?:\/\/\S+\/verify\/\S+/)?.[0];
+		expect(link, `no verification link in: ${text}`).toBeTruthy();
+		await admin.close();
+		await page.goto(link!);
+		await Promise.all([page.waitForURL(/verified=1/), page.click('form[action="?/confirm"] button')]);
+	});
+
+	it('starts a group and creates a claim', async () => {
+		await page.goto(`${app.origin}/group`);
+		await page.fill('form[action="?/create"] input[name=name]', 'Ashdown Fibre Lab (fictional)');
+		await page.click('form[action="?/create"] button');
+		await page.waitForLoadState('networkidle');
+		await page.goto(`${app.origin}/claims/new`);
+		await page.fill('input[name=title]', 'Frequency bins at d = 5');
+		await page.fill('textarea[name=sourceDescription]', 'Simulated frequency-bin pairs, five bins.');
+		await page.fill('input[name=dimension]', '5');
+		await page.check('input[name=method][value=fidelity-two-basis]');
+		await page.fill('input[name=bases]', '0,1');
+		await page.fill('input[name=claimedSchmidtNumber]', '4');
+		await Promise.all([page.waitForURL(/\/claims\/[0-9a-f-]{36}$/), page.click('form[action="?/create"] button')]);
+		claimUrl = page.url();
+		expect(await page.textContent('[data-testid=claim-title]')).toContain('Frequency bins at d = 5');
+	});
+
+	it('rejects a bad file with its line number, then previews a good one as heat maps', async () => {
+		const bad = path.join(shots, 'bad.csv');
+		(await import('node:fs')).writeFileSync(bad, 'basis,outcome_a,outcome_b,counts\n0,0,0,5\n0,0,1,-2\n');
+		await page.setInputFiles('[data-testid=upload-form] input[type=file]', bad);
+		await page.click('[data-testid=upload-form] button');
+		await expect(page.locator('[data-testid=upload-error]').textContent()).resolves.toMatch(/line 3/i);
+		await page.setInputFiles('[data-testid=upload-form] input[type=file]', EXAMPLE);
+		await page.click('[data-testid=upload-form] button');
+		await page.waitForSelector('[data-testid=heat-map]');
+		expect(await page.locator('[data-testid=heat-map]').count()).toBe(3);
+	});
+
+	it('runs a check with a progress bar that moves without a reload, then shows the verdict and ladder', async () => {
+		await page.fill('[data-testid=check-form] input[name=resamples]', '1000000');
+		await Promise.all([page.waitForURL(/\/checks\//), page.click('[data-testid=check-form] button')]);
+		checkUrl = page.url();
+		await page.evaluate(() => ((window as unknown as { marker: number }).marker = 42));
+		const seen = new Set<number>();
+		for (let i = 0; i < 1200; i++) {
+			const status = await page.getAttribute('[data-testid=check]', 'data-status');
+			if (status === 'done' || status === 'failed') break;
+			const value = await page.locator('[data-testid=progress]').getAttribute('aria-valuenow').catch(() => null);
+			if (value !== null) seen.add(Number(value));
+			await page.waitForTimeout(100);
+		}
+		expect(await page.getAttribute('[data-testid=check]', 'data-status')).toBe('done');
+		expect([...seen].filter((v) => v > 0 && v < 100).length).toBeGreaterThanOrEqual(2);
+		expect(await page.evaluate(() => (window as unknown as { marker?: number }).marker)).toBe(42);
+		expect(page.url()).toBe(checkUrl);
+		await expect(page.textContent('[data-testid=verdict]')).resolves.toMatch(/supported/i);
+		const certified = Number(await page.textContent('[data-testid=certified-schmidt-number]'));
+		expect(certified).toBeGreaterThanOrEqual(1);
+		expect(certified).toBeLessThanOrEqual(5);
+		const chart = page.locator('[data-testid=ladder-chart]');
+		expect(await chart.locator('[data-rung]').count()).toBe(4);
+		const png = await chart.screenshot({ path: path.join(shots, 'ladder.png') });
+		expect(statSync(path.join(shots, 'ladder.png')).size).toBeGreaterThan(2000);
+		const pixels = await drawnPixels(png);
+		expect(pixels.drawn / pixels.total).toBeGreaterThan(0.02);
+		expect(pixels.colours).toBeGreaterThan(8);
+		await page.screenshot({ path: path.join(shots, 'result.png'), fullPage: true });
+	});
+
+	it('gives a member of another group 404 for the claim, its check and datasets, in pages and API', async () => {
+		const cookie = `rankseal_session=${world.outsiderSession}`;
+		const get = (url: string) => fetch(url, { headers: { cookie }, redirect: 'manual' });
+		const claimId = claimUrl.split('/').pop()!;
+		const checkId = checkUrl.split('/').pop()!;
+		for (const url of [claimUrl, checkUrl]) expect((await get(url)).status, url).toBe(404);
+		for (const api of [`/api/v1/claims/${claimId}`, `/api/v1/claims/${claimId}/datasets`, `/api/v1/checks/${checkId}`]) {
+			const response = await get(`${app.origin}${api}`);
+			expect(response.status, api).toBe(404);
+			expect((await response.json()).error.code).toBeTruthy();
+		}
+		expect((await (await get(`${app.origin}/api/v1/claims`)).json()).items).toEqual([]);
+		// The same outsider does reach pages of their own, so the 404s are not a broken session.
+		expect((await get(`${app.origin}/claims`)).status).toBe(200);
+	});
+});
