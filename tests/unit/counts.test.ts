@@ -128,3 +128,29 @@ describe('counts JSON (product.md format)', () => {
 		expect(errorOf(() => parseCounts(JSON.stringify(fractional), 2)).message).toMatch(/got 1.5/);
 	});
 });
+
+describe('accidental subtraction (witnesses.md §3)', () => {
+	// Common practice in photonics; the default certificate uses the raw counts.
+	const rows = ['basis,outcome_a,outcome_b,counts,accidentals'];
+	for (const t of [0, 1]) for (let a = 0; a < 3; a++) for (let b = 0; b < 3; b++) rows.push(`${t},${a},${b},${a === b ? 1000 : 60},${a === b ? 10 : 40}`);
+	const data = parseCounts(rows.join('\n'), 3);
+
+	it('is off by default: raw counts, no label', () => {
+		const raw = certify(data, { method: 'steering-2mub', resamples: 500 });
+		expect(raw.backgroundSubtracted).toBe(false);
+		expect(raw.statistic.value).toBeCloseTo(2 * (3000 / (3000 + 360)), 12);
+	});
+
+	it('subtracts the estimates cell by cell when asked, and says so on the result', () => {
+		const subtracted = certify(data, { method: 'steering-2mub', resamples: 500, subtractAccidentals: true });
+		expect(subtracted.backgroundSubtracted).toBe(true);
+		expect(subtracted.resampling).toBe('per-cell');
+		expect(subtracted.warnings.join(' ')).toMatch(/Background-subtracted/);
+		expect(subtracted.statistic.value).toBeCloseTo(2 * (2970 / (2970 + 120)), 12);
+	});
+
+	it('refuses to subtract when the file has no accidentals column', () => {
+		const plain = parseCounts(fullCsv(3, [0, 1]), 3);
+		expect(errorOf(() => certify(plain, { method: 'steering-2mub', subtractAccidentals: true })).message).toMatch(/accidentals column/);
+	});
+});
