@@ -35,11 +35,14 @@ const wholeNumber = (label: string, min: number, max: number) =>
 
 /** A whole number a claim needs: blank or missing reads as "not given", not as 0 (too small). */
 const requiredWholeNumber = (label: string, missing: string, min: number, max: number) =>
-	z.preprocess((value, ctx) => {
-		const blank = value == null || (typeof value === 'string' && value.trim() === '');
-		if (blank) ctx.addIssue({ code: 'custom', message: missing, input: value });
-		return value;
-	}, wholeNumber(label, min, max));
+	z.preprocess(
+		(value, ctx) => {
+			const blank = value == null || (typeof value === 'string' && value.trim() === '');
+			if (blank) ctx.addIssue({ code: 'custom', message: missing, input: value });
+			return value;
+		},
+		wholeNumber(label, min, max)
+	);
 
 /** "0,1,2", "0 1", ["0", "1"] or [0, 1] → [0, 1, …]; blank → undefined (the method's default). */
 const basesField = z.preprocess(
