@@ -6,7 +6,13 @@
 import { performance } from 'node:perf_hooks';
 import { bootstrapReplicates } from '../src/lib/certify/bootstrap';
 import { perCellModel } from '../src/lib/certify/cell-model';
-import { certify, expectedCounts, states, witnessFamilies, type MethodId } from '../src/lib/certify';
+import {
+	certify,
+	expectedCounts,
+	states,
+	witnessFamilies,
+	type MethodId
+} from '../src/lib/certify';
 
 const RESAMPLES = 10_000;
 const NAIVE_BUDGET_CELLS = 2e7; // per-cell draws allowed for one naive run before it is scaled down
@@ -33,10 +39,18 @@ for (const d of dimensions) {
 		together += full;
 		const tables = bases.map((t) => data.tables.find((x) => x.basis === t)!);
 		const fast = family.sufficientModel(tables, d, bases);
-		const naive = perCellModel(tables, d, (p) => family.statistic(p, d, bases), { subtractAccidentals: false });
+		const naive = perCellModel(tables, d, (p) => family.statistic(p, d, bases), {
+			subtractAccidentals: false
+		});
 		const tFast = seconds(() => bootstrapReplicates(fast, { resamples: RESAMPLES, seed: 1 }));
-		const naiveResamples = Math.min(RESAMPLES, Math.max(200, Math.floor(NAIVE_BUDGET_CELLS / naive.means.length / 10) * 10));
-		const tNaive = (seconds(() => bootstrapReplicates(naive, { resamples: naiveResamples, seed: 1 })) * RESAMPLES) / naiveResamples;
+		const naiveResamples = Math.min(
+			RESAMPLES,
+			Math.max(200, Math.floor(NAIVE_BUDGET_CELLS / naive.means.length / 10) * 10)
+		);
+		const tNaive =
+			(seconds(() => bootstrapReplicates(naive, { resamples: naiveResamples, seed: 1 })) *
+				RESAMPLES) /
+			naiveResamples;
 		rows.push([
 			String(d),
 			id,
@@ -51,10 +65,21 @@ for (const d of dimensions) {
 	rows.push([String(d), 'all three (certify)', '', '', together.toFixed(3), '', '', '']);
 }
 
-const head = ['d', 'method', 'draws/resample', 'naive draws', 'certify s', 'bootstrap s', 'naive s', 'speed-up'];
+const head = [
+	'd',
+	'method',
+	'draws/resample',
+	'naive draws',
+	'certify s',
+	'bootstrap s',
+	'naive s',
+	'speed-up'
+];
 const widths = head.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
 const line = (r: string[]) => r.map((c, i) => c.padEnd(widths[i])).join('  ');
-console.log(`Rankseal bench: ${RESAMPLES} resamples, node ${process.version}, one run (naive times scaled per resample where marked)`);
+console.log(
+	`Rankseal bench: ${RESAMPLES} resamples, node ${process.version}, one run (naive times scaled per resample where marked)`
+);
 console.log(line(head));
 console.log(widths.map((w) => '-'.repeat(w)).join('  '));
 for (const r of rows) console.log(line(r));

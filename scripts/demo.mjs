@@ -10,7 +10,14 @@ console.log('Building Rankseal …');
 const build = spawnSync('npm', ['run', '--silent', 'build'], { stdio: 'inherit' });
 if (build.status !== 0) process.exit(build.status ?? 1);
 
-const env = { ...process.env, PORT: port, HOST: host, ORIGIN: process.env.ORIGIN ?? `http://${host === '0.0.0.0' ? 'localhost' : host}:${port}`, RANKSEAL_DEMO: '1', BODY_SIZE_LIMIT: process.env.BODY_SIZE_LIMIT ?? '25M' };
+const env = {
+	...process.env,
+	PORT: port,
+	HOST: host,
+	ORIGIN: process.env.ORIGIN ?? `http://${host === '0.0.0.0' ? 'localhost' : host}:${port}`,
+	RANKSEAL_DEMO: '1',
+	BODY_SIZE_LIMIT: process.env.BODY_SIZE_LIMIT ?? '25M'
+};
 console.log(`Rankseal runs at ${env.ORIGIN} (Ctrl-C stops it)`);
 const app = spawn('node', ['build/index.js'], { stdio: 'inherit', env });
 for (const signal of ['SIGINT', 'SIGTERM']) process.on(signal, () => app.kill(signal));

@@ -22,16 +22,23 @@ if (missing.length) {
 	const root = process.getuid?.() === 0;
 	const sudo = root ? [] : ['sudo'];
 	if (!root && spawnSync('sudo', ['-n', 'true']).status !== 0) {
-		console.error(`Missing Debian packages: ${missing.join(' ')}. Install them with: sudo apt-get install -y ${missing.join(' ')}`);
+		console.error(
+			`Missing Debian packages: ${missing.join(' ')}. Install them with: sudo apt-get install -y ${missing.join(' ')}`
+		);
 		process.exit(1);
 	}
-	const run = (args) => step('system packages', sudo[0] ?? args[0], sudo.length ? args : args.slice(1), { env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' } });
+	const run = (args) =>
+		step('system packages', sudo[0] ?? args[0], sudo.length ? args : args.slice(1), {
+			env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' }
+		});
 	run(['apt-get', 'update', '-q']);
 	run(['apt-get', 'install', '-y', '-q', ...missing]);
 }
 if (!existsSync('node_modules/.package-lock.json')) step('install', 'npm', ['ci']);
 
-console.log(`node ${process.version}, chromium: ${execFileSync('/usr/bin/chromium', ['--version']).toString().trim()}`);
+console.log(
+	`node ${process.version}, chromium: ${execFileSync('/usr/bin/chromium', ['--version']).toString().trim()}`
+);
 step('sync', 'npx', ['svelte-kit', 'sync']);
 step('type check', 'npx', ['svelte-check', '--tsconfig', './tsconfig.json', '--fail-on-warnings']);
 step('build', 'npm', ['run', '--silent', 'build']);

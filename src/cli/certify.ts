@@ -16,14 +16,16 @@ const USAGE = `usage: npm run --silent certify -- --counts FILE --dimension D --
 
 function wholeNumber(name: string, text: string | undefined): number | undefined {
 	if (text === undefined) return undefined;
-	if (!/^\d+$/.test(text.trim())) throw new InputError(`--${name} must be a whole number, got '${text}'`);
+	if (!/^\d+$/.test(text.trim()))
+		throw new InputError(`--${name} must be a whole number, got '${text}'`);
 	return Number(text);
 }
 
 function decimal(name: string, text: string | undefined): number | undefined {
 	if (text === undefined) return undefined;
 	const value = Number(text);
-	if (text.trim() === '' || !Number.isFinite(value)) throw new InputError(`--${name} must be a number, got '${text}'`);
+	if (text.trim() === '' || !Number.isFinite(value))
+		throw new InputError(`--${name} must be a number, got '${text}'`);
 	return value;
 }
 
@@ -54,7 +56,9 @@ function run(argv: string[]): number {
 		if (!values[required]) throw new InputError(`--${required} is required`);
 	}
 	if (!isMethodId(values.method!)) {
-		throw new InputError(`--method must be one of ${METHOD_IDS.join(', ')}, got '${values.method}'`);
+		throw new InputError(
+			`--method must be one of ${METHOD_IDS.join(', ')}, got '${values.method}'`
+		);
 	}
 	const dimension = wholeNumber('dimension', values.dimension)!;
 	const bases = values.bases?.split(',').map((b) => wholeNumber('bases', b)!);
@@ -62,7 +66,9 @@ function run(argv: string[]): number {
 	try {
 		bytes = readFileSync(values.counts!);
 	} catch (error) {
-		throw new InputError(`cannot read --counts ${values.counts}: ${(error as NodeJS.ErrnoException).code ?? 'error'}`);
+		throw new InputError(
+			`cannot read --counts ${values.counts}: ${(error as NodeJS.ErrnoException).code ?? 'error'}`
+		);
 	}
 	const dataset = parseCounts(bytes, dimension);
 	const result = certify(dataset, {
@@ -75,15 +81,20 @@ function run(argv: string[]): number {
 		subtractAccidentals: values['subtract-accidentals'],
 		inputSha256: sha256Hex(bytes)
 	});
-	process.stdout.write((values.json ? JSON.stringify(result) : readableReport(result, values.counts!)) + '\n');
+	process.stdout.write(
+		(values.json ? JSON.stringify(result) : readableReport(result, values.counts!)) + '\n'
+	);
 	return 0;
 }
 
 try {
 	process.exitCode = run(process.argv.slice(2));
 } catch (error) {
-	const badInput = error instanceof InputError || (error as { code?: string }).code?.startsWith('ERR_PARSE_ARGS');
-	process.stderr.write(`rankseal: ${(error as Error).message.split('\n')[0]}${badInput ? '' : ' (internal error)'}\n`);
+	const badInput =
+		error instanceof InputError || (error as { code?: string }).code?.startsWith('ERR_PARSE_ARGS');
+	process.stderr.write(
+		`rankseal: ${(error as Error).message.split('\n')[0]}${badInput ? '' : ' (internal error)'}\n`
+	);
 	if (!badInput) process.stderr.write(`${USAGE.split('\n')[0]}\n`);
 	process.exitCode = badInput ? 2 : 1;
 }

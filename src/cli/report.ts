@@ -18,18 +18,30 @@ export function readableReport(r: CertificationResult, file: string): string {
 	for (const b of r.bounds) {
 		const margin = b.marginInStandardErrors === null ? 'n/a' : b.marginInStandardErrors.toFixed(1);
 		const mark = s.lower > b.bound ? 'cleared' : '';
-		lines.push(`  r=${String(b.upToSchmidtNumber).padEnd(3)} ${fmt(b.bound).padEnd(10)} ${margin.padStart(11)}  ${fmt(b.criticalVisibility, 4)}  ${mark}`);
+		lines.push(
+			`  r=${String(b.upToSchmidtNumber).padEnd(3)} ${fmt(b.bound).padEnd(10)} ${margin.padStart(11)}  ${fmt(b.criticalVisibility, 4)}  ${mark}`
+		);
 	}
 	lines.push('', `  Schmidt number at the point value  ≥ ${r.pointSchmidtNumber}`);
-	lines.push(`  certified Schmidt number           ≥ ${r.certifiedSchmidtNumber}  (${r.resamples} resamples, seed ${r.seed})`);
-	if (r.steeringRobustness) lines.push(`  steering robustness                ≥ ${fmt(r.steeringRobustness.lower, 4)} (at the lower bound)`);
+	lines.push(
+		`  certified Schmidt number           ≥ ${r.certifiedSchmidtNumber}  (${r.resamples} resamples, seed ${r.seed})`
+	);
+	if (r.steeringRobustness)
+		lines.push(
+			`  steering robustness                ≥ ${fmt(r.steeringRobustness.lower, 4)} (at the lower bound)`
+		);
 	if (r.claim) {
-		lines.push(`  claim: Schmidt number ≥ ${r.claim.schmidtNumber} is ${r.claim.verdict.toUpperCase()}`);
+		lines.push(
+			`  claim: Schmidt number ≥ ${r.claim.schmidtNumber} is ${r.claim.verdict.toUpperCase()}`
+		);
 		if (r.claim.shortfall) lines.push(`    ${r.claim.shortfall}`);
 	}
 	lines.push(`  input SHA-256 ${r.inputSha256}`);
 	for (const w of r.warnings) lines.push(`  note: ${w}`);
-	const trusted = r.trust === 'device-dependent' ? 'calibrated measurements in the declared bases' : 'a trusted measurement on side B';
+	const trusted =
+		r.trust === 'device-dependent'
+			? 'calibrated measurements in the declared bases'
+			: 'a trusted measurement on side B';
 	lines.push(
 		'',
 		'  A statistical statement under stated assumptions: i.i.d. trials, fair sampling of',

@@ -21,7 +21,14 @@ export async function seedFlowWorld(): Promise<FlowWorld> {
 	const person = async (name: string, accountRole: 'admin' | 'researcher') => {
 		const id = newId();
 		const email = `${name.split(' ')[0].toLowerCase()}@example.test`;
-		await User.create({ id, email, name, passwordHash: 'unused', accountRole, emailVerifiedAt: new Date() });
+		await User.create({
+			id,
+			email,
+			name,
+			passwordHash: 'unused',
+			accountRole,
+			emailVerifiedAt: new Date()
+		});
 		const session = newId().replaceAll('-', '');
 		await Session.create({ id: session, userId: id, expiresAt: new Date(Date.now() + 86_400_000) });
 		return { id, session };

@@ -34,7 +34,9 @@ afterAll(async () => {
 });
 
 /** Pixels of a PNG that differ from its most common colour, counted by the browser's canvas. */
-async function drawnPixels(png: Buffer): Promise<{ drawn: number; total: number; colours: number }> {
+async function drawnPixels(
+	png: Buffer
+): Promise<{ drawn: number; total: number; colours: number }> {
 	return page.evaluate(async (base64) => {
 		const image = new Image();
 		image.src = `data:image/png;base64,${base64}`;
@@ -63,19 +65,31 @@ describe('the main flow in Chromium', () => {
 		await page.fill('input[name=name]', 'Wren Ashdown');
 		await page.fill('input[name=email]', email);
 		await page.fill('input[name=password]', 'a long enough passphrase');
-		await Promise.all([page.waitForURL((url) => !url.pathname.startsWith('/signup')), page.click('form[action="?/signup"] button')]);
+		await Promise.all([
+			page.waitForURL((url) => !url.pathname.startsWith('/signup')),
+			page.click('form[action="?/signup"] button')
+		]);
 		// The admin reads the outbox in a browser of their own, as a person would.
 		const admin = await launchBrowser();
-		await admin.context.addCookies([{ name: 'rankseal_session', value: world.adminSession, url: app.origin }]);
+		await admin.context.addCookies([
+			{ name: 'rankseal_session', value: world.adminSession, url: app.origin }
+		]);
 		const adminPage = await admin.context.newPage();
 		await adminPage.goto(`${app.origin}/admin/outbox`);
-		await adminPage.locator('[data-testid=outbox] tr', { hasText: email }).locator('a').first().click();
+		await adminPage
+			.locator('[data-testid=outbox] tr', { hasText: email })
+			.locator('a')
+			.first()
+			.click();
 		const text = await adminPage.textContent('[data-testid=message-text]');
 		const link = text?.match(/https?:\/\/\S+\/verify\/\S+/)?.[0];
 		expect(link, `no verification link in: ${text}`).toBeTruthy();
 		await admin.close();
 		await page.goto(link!);
-		await Promise.all([page.waitForURL(/verified=1/), page.click('form[action="?/confirm"] button')]);
+		await Promise.all([
+			page.waitForURL(/verified=1/),
+			page.click('form[action="?/confirm"] button')
+		]);
 	});
 
 	it('starts a group and creates a claim', async () => {
@@ -85,22 +99,35 @@ describe('the main flow in Chromium', () => {
 		await page.waitForLoadState('networkidle');
 		await page.goto(`${app.origin}/claims/new`);
 		await page.fill('input[name=title]', 'Frequency bins at d = 5');
-		await page.fill('textarea[name=sourceDescription]', 'Simulated frequency-bin pairs, five bins.');
+		await page.fill(
+			'textarea[name=sourceDescription]',
+			'Simulated frequency-bin pairs, five bins.'
+		);
 		await page.fill('input[name=dimension]', '5');
 		await page.check('input[name=method][value=fidelity-two-basis]');
 		await page.fill('input[name=bases]', '0,1');
 		await page.fill('input[name=claimedSchmidtNumber]', '4');
-		await Promise.all([page.waitForURL(/\/claims\/[0-9a-f-]{36}$/), page.click('form[action="?/create"] button')]);
+		await Promise.all([
+			page.waitForURL(/\/claims\/[0-9a-f-]{36}$/),
+			page.click('form[action="?/create"] button')
+		]);
 		claimUrl = page.url();
-		expect(await page.textContent('[data-testid=claim-title]')).toContain('Frequency bins at d = 5');
+		expect(await page.textContent('[data-testid=claim-title]')).toContain(
+			'Frequency bins at d = 5'
+		);
 	});
 
 	it('rejects a bad file with its line number, then previews a good one as heat maps', async () => {
 		const bad = path.join(shots, 'bad.csv');
-		(await import('node:fs')).writeFileSync(bad, 'basis,outcome_a,outcome_b,counts\n0,0,0,5\n0,0,1,-2\n');
+		(await import('node:fs')).writeFileSync(
+			bad,
+			'basis,outcome_a,outcome_b,counts\n0,0,0,5\n0,0,1,-2\n'
+		);
 		await page.setInputFiles('[data-testid=upload-form] input[type=file]', bad);
 		await page.click('[data-testid=upload-form] button');
-		await expect(page.locator('[data-testid=upload-error]').textContent()).resolves.toMatch(/line 3/i);
+		await expect(page.locator('[data-testid=upload-error]').textContent()).resolves.toMatch(
+			/line 3/i
+		);
 		await page.setInputFiles('[data-testid=upload-form] input[type=file]', EXAMPLE);
 		await page.click('[data-testid=upload-form] button');
 		await page.waitForSelector('[data-testid=heat-map]');
@@ -109,14 +136,20 @@ describe('the main flow in Chromium', () => {
 
 	it('runs a check with a progress bar that moves without a reload, then shows the verdict and ladder', async () => {
 		await page.fill('[data-testid=check-form] input[name=resamples]', '1000000');
-		await Promise.all([page.waitForURL(/\/checks\//), page.click('[data-testid=check-form] button')]);
+		await Promise.all([
+			page.waitForURL(/\/checks\//),
+			page.click('[data-testid=check-form] button')
+		]);
 		checkUrl = page.url();
 		await page.evaluate(() => ((window as unknown as { marker: number }).marker = 42));
 		const seen = new Set<number>();
 		for (let i = 0; i < 1200; i++) {
 			const status = await page.getAttribute('[data-testid=check]', 'data-status');
 			if (status === 'done' || status === 'failed') break;
-			const value = await page.locator('[data-testid=progress]').getAttribute('aria-valuenow').catch(() => null);
+			const value = await page
+				.locator('[data-testid=progress]')
+				.getAttribute('aria-valuenow')
+				.catch(() => null);
 			if (value !== null) seen.add(Number(value));
 			await page.waitForTimeout(100);
 		}
@@ -144,7 +177,11 @@ describe('the main flow in Chromium', () => {
 		const claimId = claimUrl.split('/').pop()!;
 		const checkId = checkUrl.split('/').pop()!;
 		for (const url of [claimUrl, checkUrl]) expect((await get(url)).status, url).toBe(404);
-		for (const api of [`/api/v1/claims/${claimId}`, `/api/v1/claims/${claimId}/datasets`, `/api/v1/checks/${checkId}`]) {
+		for (const api of [
+			`/api/v1/claims/${claimId}`,
+			`/api/v1/claims/${claimId}/datasets`,
+			`/api/v1/checks/${checkId}`
+		]) {
 			const response = await get(`${app.origin}${api}`);
 			expect(response.status, api).toBe(404);
 			expect((await response.json()).error.code).toBeTruthy();

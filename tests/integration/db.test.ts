@@ -18,6 +18,8 @@ describe('database', () => {
 	it('rejects a membership that points at no user (foreign keys enforced)', async () => {
 		const { Group, Membership } = ctx.database.models;
 		await Group.create({ id: 'g1', name: 'Test group' });
-		await expect(Membership.create({ id: 'm1', groupId: 'g1', userId: 'nobody', role: 'author' })).rejects.toThrow(/FOREIGN KEY/);
+		await expect(
+			Membership.create({ id: 'm1', groupId: 'g1', userId: 'nobody', role: 'author' })
+		).rejects.toThrow(/FOREIGN KEY/);
 	});
 });

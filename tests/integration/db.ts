@@ -4,7 +4,11 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { openDatabase, type Database } from '../../src/lib/server/db';
 
-export async function temporaryDatabase(): Promise<{ database: Database; folder: string; close: () => Promise<void> }> {
+export async function temporaryDatabase(): Promise<{
+	database: Database;
+	folder: string;
+	close: () => Promise<void>;
+}> {
 	const folder = mkdtempSync(path.join(tmpdir(), 'rankseal-test-'));
 	const database = await openDatabase(path.join(folder, 'rankseal.sqlite'));
 	return {

@@ -40,11 +40,15 @@ async function settled(userId: string, claimId: string) {
 describe('demo scenario', () => {
 	it('seeds people with the documented passwords, the claims with counts and checks, and a token', async () => {
 		expect(await seedDemo(ctx.database)).toBe('seeded');
-		for (const person of DEMO_PEOPLE) expect(await signIn(ctx.database, person.email, person.password)).not.toBeNull();
-		const author = (await signIn(ctx.database, DEMO_PEOPLE[1].email, DEMO_PEOPLE[1].password))!.userId;
+		for (const person of DEMO_PEOPLE)
+			expect(await signIn(ctx.database, person.email, person.password)).not.toBeNull();
+		const author = (await signIn(ctx.database, DEMO_PEOPLE[1].email, DEMO_PEOPLE[1].password))!
+			.userId;
 		const { items } = await listClaims(ctx.database, author, {});
 		expect(items).toHaveLength(DEMO_CLAIMS.length);
-		expect(new Set(items.map((c) => c.method))).toEqual(new Set(['mub-correlation', 'steering-2mub', 'fidelity-two-basis']));
+		expect(new Set(items.map((c) => c.method))).toEqual(
+			new Set(['mub-correlation', 'steering-2mub', 'fidelity-two-basis'])
+		);
 		const verdicts: string[] = [];
 		for (const claim of items) {
 			const checks = await settled(author, claim.id);
@@ -64,6 +68,8 @@ describe('demo scenario', () => {
 		rmSync(demoTokenFile());
 		expect(await seedDemo(ctx.database)).toBe('present');
 		expect(existsSync(demoTokenFile())).toBe(true);
-		expect(await authenticate(ctx.database, readFileSync(demoTokenFile(), 'utf8').trim())).not.toBeNull();
+		expect(
+			await authenticate(ctx.database, readFileSync(demoTokenFile(), 'utf8').trim())
+		).not.toBeNull();
 	});
 });

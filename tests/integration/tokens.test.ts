@@ -65,7 +65,9 @@ describe('API tokens', () => {
 	it('lets group leads and authors issue tokens, nobody outside a group, and wants a name', async () => {
 		expect((await createToken(ctx.database, author, 'mine')).token).toMatch(/^rks_/);
 		const outsider = await addUser(ctx.database, 'Nobody', []);
-		await expect(createToken(ctx.database, outsider, 'mine')).rejects.toBeInstanceOf(ForbiddenError);
+		await expect(createToken(ctx.database, outsider, 'mine')).rejects.toBeInstanceOf(
+			ForbiddenError
+		);
 		await expect(createToken(ctx.database, lead, '   ')).rejects.toThrow(/Name the token/);
 	});
 });

@@ -1,9 +1,20 @@
 import normalQuantile from '@stdlib/stats-base-dists-normal-quantile';
 import { jStat } from 'jstat';
 import { describe, expect, it } from 'vitest';
-import { bootstrapReplicates, empiricalQuantile, standardDeviation } from '../../src/lib/certify/bootstrap';
+import {
+	bootstrapReplicates,
+	empiricalQuantile,
+	standardDeviation
+} from '../../src/lib/certify/bootstrap';
 import { perCellModel } from '../../src/lib/certify/cell-model';
-import { certify, expectedCounts, outcomeProbabilities, sampledCounts, states, witnessFamilies } from '../../src/lib/certify';
+import {
+	certify,
+	expectedCounts,
+	outcomeProbabilities,
+	sampledCounts,
+	states,
+	witnessFamilies
+} from '../../src/lib/certify';
 import { deltaMethodStandardError } from '../../src/lib/certify/model';
 import { poissonSource } from '../../src/lib/certify/poisson';
 
@@ -29,7 +40,7 @@ describe('the seeded Poisson sampler', () => {
 			const expectBelow = lo > 0 ? n * jStat.poisson.cdf(lo - 1, mean) : 0;
 			let above = n - below;
 			let expectAbove = n - expectBelow;
-			if (expectBelow >= 5) (chi2 += (below - expectBelow) ** 2 / expectBelow), bins++;
+			if (expectBelow >= 5) ((chi2 += (below - expectBelow) ** 2 / expectBelow), bins++);
 			for (let k = lo; k <= hi; k++) {
 				const expected = n * jStat.poisson.pdf(k, mean);
 				if (expected < 5) continue;
@@ -39,7 +50,7 @@ describe('the seeded Poisson sampler', () => {
 				above -= count;
 				expectAbove -= expected;
 			}
-			if (expectAbove >= 5) (chi2 += (above - expectAbove) ** 2 / expectAbove), bins++;
+			if (expectAbove >= 5) ((chi2 += (above - expectAbove) ** 2 / expectAbove), bins++);
 			const pValue = 1 - jStat.chisquare.cdf(chi2, bins - 1);
 			expect(bins).toBeGreaterThan(3);
 			expect(pValue).toBeGreaterThan(0.001);
@@ -80,8 +91,16 @@ describe('bootstrap (witnesses.md §6)', () => {
 			const family = witnessFamilies[method];
 			const bases = method === 'mub-correlation' ? [0, 1, 2] : [0, 1];
 			const tables = bases.map((t) => data.tables[t]);
-			const fast = bootstrapReplicates(family.sufficientModel(tables, 5, bases), { resamples: 10_000, seed: 5 });
-			const naive = bootstrapReplicates(perCellModel(tables, 5, (p) => family.statistic(p, 5, bases), { subtractAccidentals: false }), { resamples: 10_000, seed: 6 });
+			const fast = bootstrapReplicates(family.sufficientModel(tables, 5, bases), {
+				resamples: 10_000,
+				seed: 5
+			});
+			const naive = bootstrapReplicates(
+				perCellModel(tables, 5, (p) => family.statistic(p, 5, bases), {
+					subtractAccidentals: false
+				}),
+				{ resamples: 10_000, seed: 6 }
+			);
 			const mean = (x: Float64Array) => x.reduce((s, v) => s + v, 0) / x.length;
 			const se = standardDeviation(fast);
 			expect(Math.abs(mean(fast) - mean(naive))).toBeLessThan(0.05 * se);
@@ -92,7 +111,14 @@ describe('bootstrap (witnesses.md §6)', () => {
 
 	it('cells with different integration times are normalised as rates and drawn cell by cell (§3)', () => {
 		// Basis 0's cell (0, 0) integrated twice as long as the rest: its rate is N/2.
-		const timed = { ...data, tables: data.tables.map((t) => (t.basis === 0 ? { ...t, durations: new Float64Array(25).map((_, i) => (i === 0 ? 2 : 1)) } : t)) };
+		const timed = {
+			...data,
+			tables: data.tables.map((t) =>
+				t.basis === 0
+					? { ...t, durations: new Float64Array(25).map((_, i) => (i === 0 ? 2 : 1)) }
+					: t
+			)
+		};
 		const r = certify(timed, { method: 'mub-correlation', resamples: 1000 });
 		expect(r.resampling).toBe('per-cell');
 		expect(r.normalisation).toBe('rates');
@@ -100,8 +126,12 @@ describe('bootstrap (witnesses.md §6)', () => {
 		const rates = Array.from(t0, (c, i) => (i === 0 ? c / 2 : c));
 		const total = rates.reduce((s, v) => s + v, 0);
 		const plain = certify(data, { method: 'mub-correlation', resamples: 1000 });
-		const diagonal = (t: Float64Array) => [0, 6, 12, 18, 24].reduce((s, i) => s + t[i], 0) / t.reduce((s, v) => s + v, 0);
-		const expected = plain.statistic.value - diagonal(t0) + [0, 6, 12, 18, 24].reduce((s, i) => s + rates[i], 0) / total;
+		const diagonal = (t: Float64Array) =>
+			[0, 6, 12, 18, 24].reduce((s, i) => s + t[i], 0) / t.reduce((s, v) => s + v, 0);
+		const expected =
+			plain.statistic.value -
+			diagonal(t0) +
+			[0, 6, 12, 18, 24].reduce((s, i) => s + rates[i], 0) / total;
 		expect(r.statistic.value).toBeCloseTo(expected, 12);
 	});
 
@@ -121,14 +151,29 @@ describe('bootstrap (witnesses.md §6)', () => {
 describe('coverage of the one-sided bound (witnesses.md §6)', () => {
 	const experiments = 400;
 
-	function coverage(method: 'mub-correlation' | 'fidelity-two-basis', confidence: number, stateOf: () => ReturnType<typeof states.isotropic>, bases: number[]) {
+	function coverage(
+		method: 'mub-correlation' | 'fidelity-two-basis',
+		confidence: number,
+		stateOf: () => ReturnType<typeof states.isotropic>,
+		bases: number[]
+	) {
 		const state = stateOf();
 		const d = state.dimension;
-		const truth = witnessFamilies[method].statistic(bases.map((t) => outcomeProbabilities(state, t)), d, bases);
+		const truth = witnessFamilies[method].statistic(
+			bases.map((t) => outcomeProbabilities(state, t)),
+			d,
+			bases
+		);
 		let covered = 0;
 		let certifiedAbove: number[] = [];
 		for (let e = 0; e < experiments; e++) {
-			const result = certify(sampledCounts(state, bases, 20_000, 1000 + e), { method, bases, confidence, resamples: 2000, seed: 1 + e });
+			const result = certify(sampledCounts(state, bases, 20_000, 1000 + e), {
+				method,
+				bases,
+				confidence,
+				resamples: 2000,
+				seed: 1 + e
+			});
 			if (result.statistic.lower < truth) covered++;
 			certifiedAbove.push(result.certifiedSchmidtNumber);
 		}
@@ -166,8 +211,15 @@ describe('the benchmark reference is the same statistic', () => {
 describe('closed-form gradients for the delta method', () => {
 	it('agree with central differences of the same statistic', () => {
 		const data = sampledCounts(states.dephased(4, 0.7, 0.9), [0, 1, 2], 30_000, 4);
-		for (const [method, bases] of [['mub-correlation', [0, 1, 2]], ['fidelity-two-basis', [0, 1]]] as const) {
-			const model = witnessFamilies[method].sufficientModel(bases.map((t) => data.tables[t]), 4, [...bases]);
+		for (const [method, bases] of [
+			['mub-correlation', [0, 1, 2]],
+			['fidelity-two-basis', [0, 1]]
+		] as const) {
+			const model = witnessFamilies[method].sufficientModel(
+				bases.map((t) => data.tables[t]),
+				4,
+				[...bases]
+			);
 			const closed = deltaMethodStandardError(model);
 			const numeric = deltaMethodStandardError({ means: model.means, statistic: model.statistic });
 			expect(closed / numeric).toBeCloseTo(1, 5);

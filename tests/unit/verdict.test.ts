@@ -3,7 +3,11 @@ import { certify, expectedCounts, states } from '../../src/lib/certify';
 
 describe('verdict on a claim (witnesses.md §5)', () => {
 	it('supports a claim at or below the certified Schmidt number', () => {
-		const r = certify(expectedCounts(states.isotropic(7, 0.95), [0, 1], 1e7), { method: 'steering-2mub', claim: 3, resamples: 2000 });
+		const r = certify(expectedCounts(states.isotropic(7, 0.95), [0, 1], 1e7), {
+			method: 'steering-2mub',
+			claim: 3,
+			resamples: 2000
+		});
 		expect(r.certifiedSchmidtNumber).toBeGreaterThanOrEqual(3);
 		expect(r.claim).toEqual({ schmidtNumber: 3, verdict: 'supported' });
 	});
@@ -14,35 +18,63 @@ describe('verdict on a claim (witnesses.md §5)', () => {
 			const counts = new Float64Array(d * d);
 			counts[0] = Math.round(p * total);
 			counts[1] = total - counts[0];
-			return { basis, counts, accidentals: null, durations: null, present: new Uint8Array(d * d).fill(1) };
+			return {
+				basis,
+				counts,
+				accidentals: null,
+				durations: null,
+				present: new Uint8Array(d * d).fill(1)
+			};
 		});
 		return { dimension: d, tables };
 	}
 
 	it('when only statistics fall short, the counts it names are enough (checked by re-running)', () => {
 		// W = 2 × 0.9191 = 1.8382 clears β_4 = 1.83729 in d = 7 at the point value by 9.1e-4.
-		const few = certify(matchingFraction(7, 0.9191, 200_000), { method: 'steering-2mub', claim: 5, resamples: 4000 });
+		const few = certify(matchingFraction(7, 0.9191, 200_000), {
+			method: 'steering-2mub',
+			claim: 5,
+			resamples: 4000
+		});
 		expect(few.pointSchmidtNumber).toBe(5);
 		expect(few.claim!.verdict).toBe('not supported');
 		const needed = few.claim!.countsNeeded!;
 		expect(needed).toBeGreaterThan(few.totalCounts);
 		const perBasis = (factor: number) => Math.round((factor * needed) / 2 / 10_000) * 10_000;
-		const enough = certify(matchingFraction(7, 0.9191, perBasis(1.3)), { method: 'steering-2mub', claim: 5, resamples: 4000 });
+		const enough = certify(matchingFraction(7, 0.9191, perBasis(1.3)), {
+			method: 'steering-2mub',
+			claim: 5,
+			resamples: 4000
+		});
 		expect(enough.claim!.verdict).toBe('supported');
-		const short = certify(matchingFraction(7, 0.9191, perBasis(0.6)), { method: 'steering-2mub', claim: 5, resamples: 4000 });
+		const short = certify(matchingFraction(7, 0.9191, perBasis(0.6)), {
+			method: 'steering-2mub',
+			claim: 5,
+			resamples: 4000
+		});
 		expect(short.claim!.verdict).toBe('not supported');
 	});
 
 	it('when the point value is below the bound, it names the visibility needed and no counts', () => {
-		const r = certify(expectedCounts(states.isotropic(5, 0.8), [0, 1, 2], 1e8), { method: 'mub-correlation', claim: 5, resamples: 1000 });
+		const r = certify(expectedCounts(states.isotropic(5, 0.8), [0, 1, 2], 1e8), {
+			method: 'mub-correlation',
+			claim: 5,
+			resamples: 1000
+		});
 		expect(r.claim!.verdict).toBe('not supported');
 		expect(r.claim!.countsNeeded).toBeUndefined();
 		expect(r.claim!.visibilityNeeded).toBe(r.bounds[3].criticalVisibility);
 		// §7: η*_r = (B_r/m − 1/d)/(1 − 1/d) with B_4 = 1 + 2·4/5, m = 3.
-		expect(r.claim!.visibilityNeeded).toBeCloseTo(((1 + (2 * 4) / 5) / 3 - 1 / 5) / (1 - 1 / 5), 12);
+		expect(r.claim!.visibilityNeeded).toBeCloseTo(
+			((1 + (2 * 4) / 5) / 3 - 1 / 5) / (1 - 1 / 5),
+			12
+		);
 		expect(r.effectiveVisibility).toBeCloseTo(0.8, 6);
 		// The same visibility just above the critical one certifies the claim.
-		const above = certify(expectedCounts(states.isotropic(5, r.claim!.visibilityNeeded! + 0.01), [0, 1, 2], 1e10), { method: 'mub-correlation', claim: 5, resamples: 1000 });
+		const above = certify(
+			expectedCounts(states.isotropic(5, r.claim!.visibilityNeeded! + 0.01), [0, 1, 2], 1e10),
+			{ method: 'mub-correlation', claim: 5, resamples: 1000 }
+		);
 		expect(above.claim!.verdict).toBe('supported');
 	});
 });

@@ -1,7 +1,13 @@
 import * as math from 'mathjs';
 import { describe, expect, it } from 'vitest';
 import { availableBases, basisVectors } from '../../src/lib/certify/bases';
-import { certify, expectedCounts, outcomeProbabilities, states, witnessFamilies } from '../../src/lib/certify';
+import {
+	certify,
+	expectedCounts,
+	outcomeProbabilities,
+	states,
+	witnessFamilies
+} from '../../src/lib/certify';
 import { steeringBound } from '../../src/lib/certify/witnesses/steering-2mub';
 
 const isotropicFidelity = (d: number, eta: number) => eta + (1 - eta) / (d * d);
@@ -41,7 +47,10 @@ describe('steering ladder (witnesses.md §4.2)', () => {
 			const f = Array.from({ length: d }, () => 1 / Math.sqrt(d));
 			const e0 = math.matrix(Array.from({ length: d }, (_, i) => [i === 0 ? 1 : 0]));
 			const fColumn = math.matrix(f.map((x) => [x]));
-			const sum = math.add(math.multiply(e0, math.transpose(e0)), math.multiply(fColumn, math.transpose(fColumn))) as math.Matrix;
+			const sum = math.add(
+				math.multiply(e0, math.transpose(e0)),
+				math.multiply(fColumn, math.transpose(fColumn))
+			) as math.Matrix;
 			const values = (math.eigs(sum).values as math.Matrix).toArray() as number[];
 			const largest = Math.max(...values);
 			expect(steeringBound(1, d)).toBeCloseTo(1 + 1 / Math.sqrt(d), 14);
@@ -61,35 +70,51 @@ describe('steering ladder (witnesses.md §4.2)', () => {
 
 	it('reports the steering-robustness lower bound SR ≥ W/(1 + 1/√d) − 1', () => {
 		const d = 7;
-		const result = certify(expectedCounts(states.isotropic(d, 0.9), [0, 1], 1e9), { method: 'steering-2mub', resamples: 500 });
+		const result = certify(expectedCounts(states.isotropic(d, 0.9), [0, 1], 1e9), {
+			method: 'steering-2mub',
+			resamples: 500
+		});
 		const w = result.statistic.value;
 		expect(result.steeringRobustness!.value).toBeCloseTo(w / (1 + 1 / Math.sqrt(d)) - 1, 12);
 	});
 
 	// Facts of the trade from the seed talk (common practice; no published source beside them).
 	it('d = 31 with white noise: visibility 0.93 is enough to certify Schmidt number 15', () => {
-		const result = certify(expectedCounts(states.isotropic(31, 0.93), [0, 1], 1e12), { method: 'steering-2mub', resamples: 1000 });
+		const result = certify(expectedCounts(states.isotropic(31, 0.93), [0, 1], 1e12), {
+			method: 'steering-2mub',
+			resamples: 1000
+		});
 		expect(result.certifiedSchmidtNumber).toBe(15);
 		expect(result.bounds[13].criticalVisibility).toBeLessThan(0.93);
 		expect(result.bounds[13].criticalVisibility).toBeGreaterThan(0.92);
 	});
 
 	it('d = 4: certifying Schmidt number 4 needs a visibility of roughly 0.93–0.95', () => {
-		const ladder = certify(expectedCounts(states.isotropic(4, 0.99), [0, 1], 1e9), { method: 'steering-2mub', resamples: 500 }).bounds;
+		const ladder = certify(expectedCounts(states.isotropic(4, 0.99), [0, 1], 1e9), {
+			method: 'steering-2mub',
+			resamples: 500
+		}).bounds;
 		expect(ladder[2].criticalVisibility).toBeGreaterThan(0.93);
 		expect(ladder[2].criticalVisibility).toBeLessThan(0.95);
 	});
 });
 
 describe('MUB correlation bound is tight at Φ_r (witnesses.md §4.1)', () => {
-	for (const [d, r] of [[5, 2], [7, 3], [6, 4]]) {
+	for (const [d, r] of [
+		[5, 2],
+		[7, 3],
+		[6, 4]
+	]) {
 		it(`Φ_${r} in d = ${d} gives S = 1 + r/d on bases 0 and 1, exactly the bound B_${r}`, () => {
 			const p = [0, 1].map((t) => outcomeProbabilities(states.rankLimited(d, r), t));
 			const family = witnessFamilies['mub-correlation'];
 			const s = family.statistic(p, d, [0, 1]);
 			expect(s).toBeCloseTo(1 + r / d, 12);
 			expect(s).toBeCloseTo(family.bounds(d, [0, 1])[r - 1], 12);
-			const result = certify(expectedCounts(states.rankLimited(d, r), [0, 1], 1e12), { method: 'mub-correlation', resamples: 2000 });
+			const result = certify(expectedCounts(states.rankLimited(d, r), [0, 1], 1e12), {
+				method: 'mub-correlation',
+				resamples: 2000
+			});
 			expect(result.certifiedSchmidtNumber).toBeLessThanOrEqual(r);
 		});
 	}
@@ -101,18 +126,26 @@ function randomDensityMatrix(d: number, seed: number): math.Matrix {
 	const uniform = () => ((state = (state * 1103515245 + 12345) % 2147483648) + 0.5) / 2147483648;
 	const gauss = () => Math.sqrt(-2 * Math.log(uniform())) * Math.cos(2 * Math.PI * uniform());
 	const n = d * d;
-	const g = math.matrix(Array.from({ length: n }, () => Array.from({ length: n }, () => math.complex(gauss(), gauss()))));
+	const g = math.matrix(
+		Array.from({ length: n }, () => Array.from({ length: n }, () => math.complex(gauss(), gauss())))
+	);
 	const rho = math.multiply(g, math.ctranspose(g)) as math.Matrix;
 	return math.divide(rho, math.trace(rho)) as math.Matrix;
 }
 
 function ket(d: number, t: number, j: number, conjugate: boolean): math.Matrix {
 	const { re, im } = basisVectors(d, t);
-	return math.matrix(Array.from({ length: d }, (_, m) => [math.complex(re[j * d + m], conjugate ? -im[j * d + m] : im[j * d + m])]));
+	return math.matrix(
+		Array.from({ length: d }, (_, m) => [
+			math.complex(re[j * d + m], conjugate ? -im[j * d + m] : im[j * d + m])
+		])
+	);
 }
 
 function expectation(rho: math.Matrix, psi: math.Matrix): number {
-	const value = (math.multiply(math.multiply(math.ctranspose(psi), rho), psi) as math.Matrix).get([0, 0]) as math.Complex | number;
+	const value = (math.multiply(math.multiply(math.ctranspose(psi), rho), psi) as math.Matrix).get([
+		0, 0
+	]) as math.Complex | number;
 	return typeof value === 'number' ? value : value.re;
 }
 
@@ -132,15 +165,26 @@ describe('two-basis fidelity bound (witnesses.md §4.3)', () => {
 	// Nat. Phys. 14, 1032 (2018), from memory). ρ and the probabilities are computed with mathjs.
 	for (const d of [2, 3, 4, 5, 6]) {
 		it(`F̃ ≤ F on random two-qudit states, d = ${d}`, () => {
-			const phi = math.divide(math.matrix(Array.from({ length: d * d }, (_, i) => [i % (d + 1) === 0 ? 1 : 0])), Math.sqrt(d)) as math.Matrix;
+			const phi = math.divide(
+				math.matrix(Array.from({ length: d * d }, (_, i) => [i % (d + 1) === 0 ? 1 : 0])),
+				Math.sqrt(d)
+			) as math.Matrix;
 			const projector = math.multiply(phi, math.ctranspose(phi)) as math.Matrix;
 			for (let seed = 1; seed <= 12; seed++) {
 				// Mixed towards Φ_d so that F̃ comes close to F and a wrong Γ would show.
 				const weight = [0, 0.5, 0.9, 0.99][seed % 4];
-				const rho = math.add(math.multiply(projector, weight), math.multiply(randomDensityMatrix(d, seed * 7919), 1 - weight)) as math.Matrix;
+				const rho = math.add(
+					math.multiply(projector, weight),
+					math.multiply(randomDensityMatrix(d, seed * 7919), 1 - weight)
+				) as math.Matrix;
 				const p = [0, 1].map((t) => {
 					const table = new Float64Array(d * d);
-					for (let a = 0; a < d; a++) for (let b = 0; b < d; b++) table[a * d + b] = expectation(rho, math.kron(ket(d, t, a, false), ket(d, t, b, true)) as math.Matrix);
+					for (let a = 0; a < d; a++)
+						for (let b = 0; b < d; b++)
+							table[a * d + b] = expectation(
+								rho,
+								math.kron(ket(d, t, a, false), ket(d, t, b, true)) as math.Matrix
+							);
 					return table;
 				});
 				const fidelity = expectation(rho, phi);
@@ -151,7 +195,9 @@ describe('two-basis fidelity bound (witnesses.md §4.3)', () => {
 
 	function permutations(items: number[]): number[][] {
 		if (items.length <= 1) return [items];
-		return items.flatMap((x, i) => permutations([...items.slice(0, i), ...items.slice(i + 1)]).map((rest) => [x, ...rest]));
+		return items.flatMap((x, i) =>
+			permutations([...items.slice(0, i), ...items.slice(i + 1)]).map((rest) => [x, ...rest])
+		);
 	}
 
 	// Every permutation state d^{-1/2} Σ_m |m, π(m)⟩ has F = (fixed points of π / d)²; the bound must
@@ -159,11 +205,20 @@ describe('two-basis fidelity bound (witnesses.md §4.3)', () => {
 	for (const d of [3, 4, 5]) {
 		it(`F̃ ≤ F on every permutation state, d = ${d}`, () => {
 			for (const pi of permutations(Array.from({ length: d }, (_, m) => m))) {
-				const psi = math.matrix(Array.from({ length: d * d }, (_, i) => [pi[Math.floor(i / d)] === i % d ? 1 / Math.sqrt(d) : 0]));
+				const psi = math.matrix(
+					Array.from({ length: d * d }, (_, i) => [
+						pi[Math.floor(i / d)] === i % d ? 1 / Math.sqrt(d) : 0
+					])
+				);
 				const rho = math.multiply(psi, math.ctranspose(psi)) as math.Matrix;
 				const p = [0, 1].map((t) => {
 					const table = new Float64Array(d * d);
-					for (let a = 0; a < d; a++) for (let b = 0; b < d; b++) table[a * d + b] = expectation(rho, math.kron(ket(d, t, a, false), ket(d, t, b, true)) as math.Matrix);
+					for (let a = 0; a < d; a++)
+						for (let b = 0; b < d; b++)
+							table[a * d + b] = expectation(
+								rho,
+								math.kron(ket(d, t, a, false), ket(d, t, b, true)) as math.Matrix
+							);
 					return table;
 				});
 				const fixed = pi.filter((x, m) => x === m).length;
@@ -176,7 +231,10 @@ describe('two-basis fidelity bound (witnesses.md §4.3)', () => {
 		const d = 7;
 		const eta = 0.8;
 		const tilde = eta + ((1 - eta) * (2 - d)) / d;
-		const result = certify(expectedCounts(states.isotropic(d, eta), [0, 1], 1e12), { method: 'fidelity-two-basis', resamples: 1000 });
+		const result = certify(expectedCounts(states.isotropic(d, eta), [0, 1], 1e12), {
+			method: 'fidelity-two-basis',
+			resamples: 1000
+		});
 		expect(result.statistic.value).toBeCloseTo(tilde, 9);
 		expect(result.certifiedSchmidtNumber).toBe(Math.ceil(d * tilde));
 		expect(result.effectiveVisibility).toBeCloseTo(eta, 9);

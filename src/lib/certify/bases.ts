@@ -41,7 +41,7 @@ export function labelDifference(d: number): (m: number, n: number) => number {
 		let result = 0;
 		let place = 1;
 		for (let i = 0; i < s; i++) {
-			const digit = (((Math.floor(m / place) % p) - (Math.floor(n / place) % p)) % p + p) % p;
+			const digit = ((((Math.floor(m / place) % p) - (Math.floor(n / place) % p)) % p) + p) % p;
 			result += digit * place;
 			place *= p;
 		}
@@ -62,7 +62,10 @@ function fieldFor(d: number): FieldTables | Int32Array {
 }
 
 /** Phase exponent k (in units of 2π/n) and n for component m of vector j of basis t ≥ 1. */
-function phaseFunction(d: number, t: number): { n: number; phase: (j: number, m: number) => number } {
+function phaseFunction(
+	d: number,
+	t: number
+): { n: number; phase: (j: number, m: number) => number } {
 	const pp = primePower(d);
 	if (!pp) return { n: d, phase: (j, m) => (j * m) % d };
 	const tables = fieldFor(d);
@@ -75,7 +78,8 @@ function phaseFunction(d: number, t: number): { n: number; phase: (j: number, m:
 	const { multiply, trace, prime } = tables;
 	return {
 		n: prime,
-		phase: (j, m) => (trace[multiply[a * d + multiply[m * d + m]]] + trace[multiply[j * d + m]]) % prime
+		phase: (j, m) =>
+			(trace[multiply[a * d + multiply[m * d + m]]] + trace[multiply[j * d + m]]) % prime
 	};
 }
 

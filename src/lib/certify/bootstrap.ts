@@ -49,7 +49,10 @@ export interface BootstrapSummary {
 	interval95: [number, number];
 }
 
-export function summariseReplicates(replicates: Float64Array, confidence: number): BootstrapSummary {
+export function summariseReplicates(
+	replicates: Float64Array,
+	confidence: number
+): BootstrapSummary {
 	const sorted = Float64Array.from(replicates).sort();
 	return {
 		standardError: standardDeviation(replicates),

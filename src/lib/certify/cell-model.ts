@@ -28,7 +28,8 @@ export function perCellModel(
 				let total = 0;
 				for (let c = 0; c < cells; c++) {
 					let w = x[i * cells + c];
-					if (options.subtractAccidentals && table.accidentals) w = Math.max(0, w - table.accidentals[c]);
+					if (options.subtractAccidentals && table.accidentals)
+						w = Math.max(0, w - table.accidentals[c]);
 					if (table.durations) w /= table.durations[c];
 					p[c] = w;
 					total += w;

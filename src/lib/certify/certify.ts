@@ -68,10 +68,13 @@ export interface CertificationResult {
 
 function checkOptions(options: CertifyOptions, d: number) {
 	if (!isMethodId(options.method)) {
-		throw new InputError(`method must be one of ${Object.keys(witnessFamilies).join(', ')}, got '${options.method}'`);
+		throw new InputError(
+			`method must be one of ${Object.keys(witnessFamilies).join(', ')}, got '${options.method}'`
+		);
 	}
 	const confidence = options.confidence ?? DEFAULTS.confidence;
-	if (!(confidence > 0.5 && confidence < 1)) throw new InputError(`confidence must lie strictly between 0.5 and 1, got ${confidence}`);
+	if (!(confidence > 0.5 && confidence < 1))
+		throw new InputError(`confidence must lie strictly between 0.5 and 1, got ${confidence}`);
 	const resamples = options.resamples ?? DEFAULTS.resamples;
 	if (!Number.isInteger(resamples) || resamples < 100 || resamples > 1_000_000) {
 		throw new InputError(`resamples must be a whole number from 100 to 1000000, got ${resamples}`);
@@ -84,7 +87,9 @@ function checkOptions(options: CertifyOptions, d: number) {
 	}
 	const claim = options.claim;
 	if (claim !== undefined && (!Number.isInteger(claim) || claim < 1 || claim > d)) {
-		throw new InputError(`claim must be a Schmidt number from 1 to the dimension ${d}, got ${claim}`);
+		throw new InputError(
+			`claim must be a Schmidt number from 1 to the dimension ${d}, got ${claim}`
+		);
 	}
 	return { method: options.method, confidence, resamples, seed, claim };
 }
@@ -103,14 +108,21 @@ export function certify(dataset: CountsDataset, options: CertifyOptions): Certif
 	requireCompleteTables(dataset, bases, method);
 	const tables = bases.map((t) => dataset.tables.find((x) => x.basis === t)!);
 	const subtract = !!options.subtractAccidentals && tables.some((t) => t.accidentals !== null);
-	if (options.subtractAccidentals && !subtract) throw new InputError('subtracting accidentals needs an accidentals column');
+	if (options.subtractAccidentals && !subtract)
+		throw new InputError('subtracting accidentals needs an accidentals column');
 	const rates = hasUnequalDurations(tables);
 	const model =
 		subtract || rates
-			? perCellModel(tables, d, (p) => family.statistic(p, d, bases), { subtractAccidentals: subtract })
+			? perCellModel(tables, d, (p) => family.statistic(p, d, bases), {
+					subtractAccidentals: subtract
+				})
 			: family.sufficientModel(tables, d, bases);
 	const value = model.statistic(model.means);
-	const replicates = bootstrapReplicates(model, { resamples, seed, onProgress: options.onProgress });
+	const replicates = bootstrapReplicates(model, {
+		resamples,
+		seed,
+		onProgress: options.onProgress
+	});
 	const summary = summariseReplicates(replicates, confidence);
 	const bounds = family.bounds(d, bases);
 	const scale = noiseScale(family, d, bases);
@@ -152,7 +164,9 @@ export function certify(dataset: CountsDataset, options: CertifyOptions): Certif
 						z: normalQuantile(confidence, 0, 1)
 					}),
 		effectiveVisibility,
-		steeringRobustness: extras ? { value: extras.steeringRobustness, lower: extras.steeringRobustnessLower } : null,
+		steeringRobustness: extras
+			? { value: extras.steeringRobustness, lower: extras.steeringRobustnessLower }
+			: null,
 		trust: family.trust,
 		reference: family.reference,
 		normalisation: rates ? 'rates' : 'counts',
@@ -168,11 +182,23 @@ export function certify(dataset: CountsDataset, options: CertifyOptions): Certif
 	};
 }
 
-function warningsFor(o: { subtract: boolean; rates: boolean; resamples: number; confidence: number }): string[] {
+function warningsFor(o: {
+	subtract: boolean;
+	rates: boolean;
+	resamples: number;
+	confidence: number;
+}): string[] {
 	const out: string[] = [];
-	if (o.subtract) out.push('Background-subtracted: accidental estimates were removed before normalising; the raw-count certificate is the default.');
-	if (o.rates) out.push('Cells have different integration times: probabilities are normalised rates N/τ.');
+	if (o.subtract)
+		out.push(
+			'Background-subtracted: accidental estimates were removed before normalising; the raw-count certificate is the default.'
+		);
+	if (o.rates)
+		out.push('Cells have different integration times: probabilities are normalised rates N/τ.');
 	const tail = o.resamples * (1 - o.confidence);
-	if (tail < 10) out.push(`Only ${tail.toFixed(1)} bootstrap replicates lie below the lower bound; use more resamples for a stable bound.`);
+	if (tail < 10)
+		out.push(
+			`Only ${tail.toFixed(1)} bootstrap replicates lie below the lower bound; use more resamples for a stable bound.`
+		);
 	return out;
 }

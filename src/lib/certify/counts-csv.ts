@@ -2,7 +2,15 @@
  * Long-form counts CSV (product.md): header `basis,outcome_a,outcome_b,counts` plus optional
  * `accidentals` and `duration_s` columns in any order; `#` comment lines, LF or CRLF, UTF-8 BOM.
  */
-import { checkBasis, checkDimension, InputError, decodeCountsText, emptyTable, type CountsDataset, type CountTable } from './counts';
+import {
+	checkBasis,
+	checkDimension,
+	InputError,
+	decodeCountsText,
+	emptyTable,
+	type CountsDataset,
+	type CountTable
+} from './counts';
 
 const REQUIRED = ['basis', 'outcome_a', 'outcome_b', 'counts'] as const;
 const OPTIONAL = ['accidentals', 'duration_s'] as const;
@@ -12,13 +20,25 @@ const WHOLE = /^\d+$/;
 const DECIMAL = /^(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
 
 function wholeNumber(text: string, what: string, line: number, column: number): number {
-	if (!WHOLE.test(text)) throw new InputError(`${what} must be a non-negative whole number, got '${text}'`, line, column);
+	if (!WHOLE.test(text))
+		throw new InputError(
+			`${what} must be a non-negative whole number, got '${text}'`,
+			line,
+			column
+		);
 	const value = Number(text);
-	if (!Number.isSafeInteger(value)) throw new InputError(`${what} ${text} is too large`, line, column);
+	if (!Number.isSafeInteger(value))
+		throw new InputError(`${what} ${text} is too large`, line, column);
 	return value;
 }
 
-function decimal(text: string, what: string, line: number, column: number, positive: boolean): number {
+function decimal(
+	text: string,
+	what: string,
+	line: number,
+	column: number,
+	positive: boolean
+): number {
 	const value = Number(text);
 	if (!DECIMAL.test(text) || !Number.isFinite(value) || (positive && value <= 0)) {
 		const kind = positive ? 'a positive number' : 'a non-negative number';
@@ -32,13 +52,19 @@ function readHeader(fields: string[], line: number): Map<Column, number> {
 	const columns = new Map<Column, number>();
 	fields.forEach((name, i) => {
 		if (!known.has(name)) {
-			throw new InputError(`unknown column '${name}' (expected ${[...REQUIRED, ...OPTIONAL].join(', ')})`, line, i + 1);
+			throw new InputError(
+				`unknown column '${name}' (expected ${[...REQUIRED, ...OPTIONAL].join(', ')})`,
+				line,
+				i + 1
+			);
 		}
-		if (columns.has(name as Column)) throw new InputError(`column '${name}' appears twice`, line, i + 1);
+		if (columns.has(name as Column))
+			throw new InputError(`column '${name}' appears twice`, line, i + 1);
 		columns.set(name as Column, i);
 	});
 	const missing = REQUIRED.filter((name) => !columns.has(name));
-	if (missing.length) throw new InputError(`the header lacks column(s) ${missing.join(', ')}`, line);
+	if (missing.length)
+		throw new InputError(`the header lacks column(s) ${missing.join(', ')}`, line);
 	return columns;
 }
 
@@ -65,28 +91,50 @@ export function parseCountsCsv(input: Uint8Array | string, dimension: number): C
 		checkBasis(d, basis, 'basis', lineNo, at('basis') + 1);
 		const a = wholeNumber(fields[at('outcome_a')], 'outcome_a', lineNo, at('outcome_a') + 1);
 		const b = wholeNumber(fields[at('outcome_b')], 'outcome_b', lineNo, at('outcome_b') + 1);
-		for (const [value, name] of [[a, 'outcome_a'], [b, 'outcome_b']] as const) {
-			if (value >= d) throw new InputError(`${name} ${value} is outside 0..${d - 1}`, lineNo, at(name) + 1);
+		for (const [value, name] of [
+			[a, 'outcome_a'],
+			[b, 'outcome_b']
+		] as const) {
+			if (value >= d)
+				throw new InputError(`${name} ${value} is outside 0..${d - 1}`, lineNo, at(name) + 1);
 		}
 		const key = `${basis},${a},${b}`;
 		const earlier = firstLine.get(key);
 		if (earlier !== undefined) {
-			throw new InputError(`duplicate cell basis=${basis}, outcome_a=${a}, outcome_b=${b} (first on line ${earlier})`, lineNo);
+			throw new InputError(
+				`duplicate cell basis=${basis}, outcome_a=${a}, outcome_b=${b} (first on line ${earlier})`,
+				lineNo
+			);
 		}
 		firstLine.set(key, lineNo);
 		let table = tables.get(basis);
 		if (!table) {
-			table = emptyTable(d, basis, { accidentals: columns.has('accidentals'), durations: columns.has('duration_s') });
+			table = emptyTable(d, basis, {
+				accidentals: columns.has('accidentals'),
+				durations: columns.has('duration_s')
+			});
 			tables.set(basis, table);
 		}
 		const cell = a * d + b;
 		table.present[cell] = 1;
 		table.counts[cell] = wholeNumber(fields[at('counts')], 'counts', lineNo, at('counts') + 1);
 		if (table.accidentals) {
-			table.accidentals[cell] = decimal(fields[at('accidentals')], 'accidentals', lineNo, at('accidentals') + 1, false);
+			table.accidentals[cell] = decimal(
+				fields[at('accidentals')],
+				'accidentals',
+				lineNo,
+				at('accidentals') + 1,
+				false
+			);
 		}
 		if (table.durations) {
-			table.durations[cell] = decimal(fields[at('duration_s')], 'duration_s', lineNo, at('duration_s') + 1, true);
+			table.durations[cell] = decimal(
+				fields[at('duration_s')],
+				'duration_s',
+				lineNo,
+				at('duration_s') + 1,
+				true
+			);
 		}
 	}
 	if (!columns) throw new InputError('the file has no header line');

@@ -4,7 +4,15 @@
  * Errors name the JSON path and the line and column where the offending value starts.
  */
 import { parseTree, printParseErrorCode, type Node, type ParseError } from 'jsonc-parser';
-import { checkBasis, checkDimension, InputError, decodeCountsText, emptyTable, type CountsDataset, type CountTable } from './counts';
+import {
+	checkBasis,
+	checkDimension,
+	InputError,
+	decodeCountsText,
+	emptyTable,
+	type CountsDataset,
+	type CountTable
+} from './counts';
 
 const TABLE_KEYS = new Set(['basis', 'counts', 'accidentals', 'duration_s']);
 
@@ -28,10 +36,15 @@ export function parseCountsJson(input: Uint8Array | string, dimension?: number):
 	if (errors.length || !root) {
 		const first = errors[0];
 		const at = first ? where(first.offset) : undefined;
-		throw new InputError(`not valid JSON (${first ? printParseErrorCode(first.error) : 'no value'})`, at?.line, at?.column);
+		throw new InputError(
+			`not valid JSON (${first ? printParseErrorCode(first.error) : 'no value'})`,
+			at?.line,
+			at?.column
+		);
 	}
 	if (root.type !== 'object') fail(root, '$', 'expected an object with "dimension" and "tables"');
-	const member = (node: Node, key: string) => node.children?.find((p) => p.children?.[0].value === key)?.children?.[1];
+	const member = (node: Node, key: string) =>
+		node.children?.find((p) => p.children?.[0].value === key)?.children?.[1];
 	for (const property of root.children ?? []) {
 		const key = property.children?.[0].value;
 		if (key !== 'dimension' && key !== 'tables') fail(property, `$.${key}`, 'unknown field');
@@ -54,7 +67,8 @@ export function parseCountsJson(input: Uint8Array | string, dimension?: number):
 	const tables = new Map<number, CountTable>();
 	tablesNode!.children!.forEach((tableNode, i) => {
 		const path = `$.tables[${i}]`;
-		if (tableNode.type !== 'object') fail(tableNode, path, 'expected an object with "basis" and "counts"');
+		if (tableNode.type !== 'object')
+			fail(tableNode, path, 'expected an object with "basis" and "counts"');
 		for (const property of tableNode.children ?? []) {
 			const key = property.children?.[0].value;
 			if (!TABLE_KEYS.has(key)) fail(property, `${path}.${key}`, 'unknown field');
@@ -72,10 +86,33 @@ export function parseCountsJson(input: Uint8Array | string, dimension?: number):
 		const table = emptyTable(d, basis, { accidentals: !!accNode, durations: !!durNode });
 		const countsNode = member(tableNode, 'counts');
 		if (!countsNode) fail(tableNode, path, 'missing field "counts"');
-		readMatrix(countsNode!, `${path}.counts`, d, fail, (cell, v) => (table.counts[cell] = v), 'whole');
+		readMatrix(
+			countsNode!,
+			`${path}.counts`,
+			d,
+			fail,
+			(cell, v) => (table.counts[cell] = v),
+			'whole'
+		);
 		table.present.fill(1);
-		if (accNode) readMatrix(accNode, `${path}.accidentals`, d, fail, (c, v) => (table.accidentals![c] = v), 'nonnegative');
-		if (durNode) readMatrix(durNode, `${path}.duration_s`, d, fail, (c, v) => (table.durations![c] = v), 'positive');
+		if (accNode)
+			readMatrix(
+				accNode,
+				`${path}.accidentals`,
+				d,
+				fail,
+				(c, v) => (table.accidentals![c] = v),
+				'nonnegative'
+			);
+		if (durNode)
+			readMatrix(
+				durNode,
+				`${path}.duration_s`,
+				d,
+				fail,
+				(c, v) => (table.durations![c] = v),
+				'positive'
+			);
 		tables.set(basis, table);
 	});
 	return { dimension: d, tables: [...tables.values()].sort((x, y) => x.basis - y.basis) };
@@ -83,18 +120,40 @@ export function parseCountsJson(input: Uint8Array | string, dimension?: number):
 
 type Fail = (node: Node | undefined, path: string, message: string) => never;
 
-function readMatrix(node: Node, path: string, d: number, fail: Fail, store: (cell: number, v: number) => void, kind: 'whole' | 'nonnegative' | 'positive') {
+function readMatrix(
+	node: Node,
+	path: string,
+	d: number,
+	fail: Fail,
+	store: (cell: number, v: number) => void,
+	kind: 'whole' | 'nonnegative' | 'positive'
+) {
 	if (node.type !== 'array' || node.children?.length !== d) fail(node, path, `expected ${d} rows`);
 	node.children!.forEach((row, a) => {
-		if (row.type !== 'array' || row.children?.length !== d) fail(row, `${path}[${a}]`, `expected ${d} entries`);
+		if (row.type !== 'array' || row.children?.length !== d)
+			fail(row, `${path}[${a}]`, `expected ${d} entries`);
 		row.children!.forEach((entry, b) => {
 			const v = entry.value;
 			const ok =
 				entry.type === 'number' &&
 				Number.isFinite(v) &&
-				(kind === 'whole' ? Number.isSafeInteger(v) && v >= 0 : kind === 'positive' ? v > 0 : v >= 0);
-			const expected = kind === 'whole' ? 'a non-negative whole number' : kind === 'positive' ? 'a positive number' : 'a non-negative number';
-			if (!ok) fail(entry, `${path}[${a}][${b}]`, `expected ${expected}, got ${JSON.stringify(entry.value ?? null)}`);
+				(kind === 'whole'
+					? Number.isSafeInteger(v) && v >= 0
+					: kind === 'positive'
+						? v > 0
+						: v >= 0);
+			const expected =
+				kind === 'whole'
+					? 'a non-negative whole number'
+					: kind === 'positive'
+						? 'a positive number'
+						: 'a non-negative number';
+			if (!ok)
+				fail(
+					entry,
+					`${path}[${a}][${b}]`,
+					`expected ${expected}, got ${JSON.stringify(entry.value ?? null)}`
+				);
 			store(a * d + b, v);
 		});
 	});

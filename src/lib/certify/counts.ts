@@ -28,7 +28,9 @@ export class InputError extends Error {
 		readonly line?: number,
 		readonly column?: number
 	) {
-		super(line === undefined ? message : `line ${line}${column ? `, column ${column}` : ''}: ${message}`);
+		super(
+			line === undefined ? message : `line ${line}${column ? `, column ${column}` : ''}: ${message}`
+		);
 		this.name = 'InputError';
 	}
 }
@@ -44,7 +46,11 @@ export function checkDimension(d: unknown, where = 'dimension'): number {
 	return d;
 }
 
-export function emptyTable(d: number, basis: number, extras: { accidentals: boolean; durations: boolean }): CountTable {
+export function emptyTable(
+	d: number,
+	basis: number,
+	extras: { accidentals: boolean; durations: boolean }
+): CountTable {
 	return {
 		basis,
 		counts: new Float64Array(d * d),
@@ -54,10 +60,23 @@ export function emptyTable(d: number, basis: number, extras: { accidentals: bool
 	};
 }
 
-export function checkBasis(d: number, basis: number, where: string, line?: number, column?: number): void {
+export function checkBasis(
+	d: number,
+	basis: number,
+	where: string,
+	line?: number,
+	column?: number
+): void {
 	if (!basisExists(d, basis)) {
-		const hint = d > 2 ? `0 and 1 exist in every dimension; 2..${d} only when ${d} is a prime power` : '0, 1 and 2 exist';
-		throw new InputError(`${where}: basis ${basis} does not exist in dimension ${d} (${hint})`, line, column);
+		const hint =
+			d > 2
+				? `0 and 1 exist in every dimension; 2..${d} only when ${d} is a prime power`
+				: '0, 1 and 2 exist';
+		throw new InputError(
+			`${where}: basis ${basis} does not exist in dimension ${d} (${hint})`,
+			line,
+			column
+		);
 	}
 }
 
@@ -65,11 +84,16 @@ export function checkBasis(d: number, basis: number, where: string, line?: numbe
  * Throws unless every cell of every listed basis is present: the normalisation T_t of
  * witnesses.md §3 sums all d² cells, so a missing cell cannot be told from an unmeasured one.
  */
-export function requireCompleteTables(dataset: CountsDataset, bases: number[], method: string): void {
+export function requireCompleteTables(
+	dataset: CountsDataset,
+	bases: number[],
+	method: string
+): void {
 	const d = dataset.dimension;
 	for (const t of bases) {
 		const table = dataset.tables.find((x) => x.basis === t);
-		if (!table) throw new InputError(`method ${method} needs basis ${t}, which the file does not contain`);
+		if (!table)
+			throw new InputError(`method ${method} needs basis ${t}, which the file does not contain`);
 		const missing = table.present.indexOf(0);
 		if (missing >= 0) {
 			throw new InputError(
@@ -84,13 +108,17 @@ export function requireCompleteTables(dataset: CountsDataset, bases: number[], m
 
 /** Decodes bytes as UTF-8 (rejecting invalid sequences) and drops a leading byte-order mark. */
 export function decodeCountsText(input: Uint8Array | string): string {
-	const size = typeof input === 'string' ? new TextEncoder().encode(input).length : input.byteLength;
+	const size =
+		typeof input === 'string' ? new TextEncoder().encode(input).length : input.byteLength;
 	if (size > MAX_COUNTS_FILE_BYTES) {
-		throw new InputError(`the file is ${size} bytes; the limit is ${MAX_COUNTS_FILE_BYTES} bytes (20 MiB)`);
+		throw new InputError(
+			`the file is ${size} bytes; the limit is ${MAX_COUNTS_FILE_BYTES} bytes (20 MiB)`
+		);
 	}
 	let text: string;
 	try {
-		text = typeof input === 'string' ? input : new TextDecoder('utf-8', { fatal: true }).decode(input);
+		text =
+			typeof input === 'string' ? input : new TextDecoder('utf-8', { fatal: true }).decode(input);
 	} catch {
 		throw new InputError('the file is not valid UTF-8 text');
 	}

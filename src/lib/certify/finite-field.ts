@@ -125,7 +125,8 @@ export function galoisField(p: number, s: number): FieldTables {
 	const trace = new Int32Array(d);
 	for (let x = 0; x < d; x++) {
 		trace[x] = traceOf(elements[x], f, p);
-		for (let y = 0; y < d; y++) multiply[x * d + y] = fromDigits(mulMod(elements[x], elements[y], f, p), p);
+		for (let y = 0; y < d; y++)
+			multiply[x * d + y] = fromDigits(mulMod(elements[x], elements[y], f, p), p);
 	}
 	return { prime: p, exponent: s, multiply, trace };
 }

@@ -1,9 +1,36 @@
 /** The certification engine: pure TypeScript, shared by the server, the browser and the CLI. */
-export { availableBases, basisExists, basisVectors, largestOverlapError, MAX_DIMENSION, MIN_DIMENSION } from './bases';
-export { certify, DEFAULTS, ENGINE_VERSION, type CertificationResult, type CertifyOptions, type BoundRung } from './certify';
+export {
+	availableBases,
+	basisExists,
+	basisVectors,
+	largestOverlapError,
+	MAX_DIMENSION,
+	MIN_DIMENSION
+} from './bases';
+export {
+	certify,
+	DEFAULTS,
+	ENGINE_VERSION,
+	type CertificationResult,
+	type CertifyOptions,
+	type BoundRung
+} from './certify';
 export { InputError, MAX_COUNTS_FILE_BYTES, type CountsDataset, type CountTable } from './counts';
 export { parseCountsCsv } from './counts-csv';
 export { parseCountsJson } from './counts-json';
 export { parseCounts } from './parse';
-export { expectedCounts, outcomeProbabilities, sampledCounts, states, toCountsCsv, type SimulatedState } from './simulate';
-export { METHOD_IDS, isMethodId, witnessFamilies, type MethodId, type WitnessFamily } from './witnesses';
+export {
+	expectedCounts,
+	outcomeProbabilities,
+	sampledCounts,
+	states,
+	toCountsCsv,
+	type SimulatedState
+} from './simulate';
+export {
+	METHOD_IDS,
+	isMethodId,
+	witnessFamilies,
+	type MethodId,
+	type WitnessFamily
+} from './witnesses';

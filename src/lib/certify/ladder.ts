@@ -6,7 +6,11 @@ export function ladderPosition(x: number, bounds: number[]): number {
 }
 
 /** Violation of each bound in bootstrap standard errors; null when the error is zero. */
-export function marginsInStandardErrors(value: number, bounds: number[], standardError: number): (number | null)[] {
+export function marginsInStandardErrors(
+	value: number,
+	bounds: number[],
+	standardError: number
+): (number | null)[] {
 	return bounds.map((b) => (standardError > 0 ? (value - b) / standardError : null));
 }
 
@@ -41,7 +45,12 @@ export function claimVerdict(v: VerdictInputs): ClaimVerdict {
 	if (v.certified >= k) return { schmidtNumber: k, verdict: 'supported' };
 	const bound = v.bounds[k - 2];
 	const visibilityNeeded = v.criticalVisibilities[k - 2];
-	const verdict: ClaimVerdict = { schmidtNumber: k, verdict: 'not supported', boundToBeat: bound, visibilityNeeded };
+	const verdict: ClaimVerdict = {
+		schmidtNumber: k,
+		verdict: 'not supported',
+		boundToBeat: bound,
+		visibilityNeeded
+	};
 	if (v.value > bound && v.standardError > 0) {
 		// SE falls as 1/√N, so the bound is cleared by z standard errors at N·(z·SE/(value − B))².
 		const factor = ((v.z * v.standardError) / (v.value - bound)) ** 2;

@@ -22,7 +22,10 @@ export function checkSeed(seed: number): number {
 	return seed;
 }
 
-const LOG_FACTORIAL = [0, 0, 0.6931471805599453, 1.791759469228055, 3.1780538303479458, 4.787491742782046, 6.579251212010101, 8.525161361065415, 10.60460290274525, 12.801827480081469];
+const LOG_FACTORIAL = [
+	0, 0, 0.6931471805599453, 1.791759469228055, 3.1780538303479458, 4.787491742782046,
+	6.579251212010101, 8.525161361065415, 10.60460290274525, 12.801827480081469
+];
 
 /** ln k! for the PTRS acceptance test: a table below 10, Stirling's series with two corrections above. */
 function logFactorial(k: number): number {
@@ -75,7 +78,13 @@ const TWO_TO_MINUS_32 = 2.3283064365386963e-10;
  * (a, b, invAlpha, vr as in Hörmann's paper). One loop, inlined, because this is the engine's
  * hot path.
  */
-function drawRange(rng: Generator, p: PreparedMeans, out: Float64Array, from: number, to: number): void {
+function drawRange(
+	rng: Generator,
+	p: PreparedMeans,
+	out: Float64Array,
+	from: number,
+	to: number
+): void {
 	const { means, expMinus, logMean, a: as, b: bs, invAlpha, vr: vrs } = p;
 	for (let i = from; i < to; i++) {
 		const mean = means[i];

@@ -60,8 +60,10 @@ export function outcomeProbabilities(state: SimulatedState, t: number): Float64A
 			let ampIm = 0;
 			let dephased = 0;
 			for (let m = 0; m < c.length; m++) {
-				const ar = re[a * d + m], ai = -im[a * d + m];
-				const br = re[b * d + m], bi = im[b * d + m];
+				const ar = re[a * d + m],
+					ai = -im[a * d + m];
+				const br = re[b * d + m],
+					bi = im[b * d + m];
 				ampRe += c[m] * (ar * br - ai * bi);
 				ampIm += c[m] * (ar * bi + ai * br);
 				dephased += c[m] * c[m] * (ar * ar + ai * ai) * (br * br + bi * bi);
@@ -74,23 +76,48 @@ export function outcomeProbabilities(state: SimulatedState, t: number): Float64A
 }
 
 function tableFrom(basis: number, counts: Float64Array): CountTable {
-	return { basis, counts, accidentals: null, durations: null, present: new Uint8Array(counts.length).fill(1) };
+	return {
+		basis,
+		counts,
+		accidentals: null,
+		durations: null,
+		present: new Uint8Array(counts.length).fill(1)
+	};
 }
 
 /** Expected counts, rounded to whole numbers, with `countsPerBasis` pairs in each basis. */
-export function expectedCounts(state: SimulatedState, bases: number[], countsPerBasis: number): CountsDataset {
+export function expectedCounts(
+	state: SimulatedState,
+	bases: number[],
+	countsPerBasis: number
+): CountsDataset {
 	return {
 		dimension: state.dimension,
-		tables: bases.map((t) => tableFrom(t, outcomeProbabilities(state, t).map((p) => Math.round(p * countsPerBasis))))
+		tables: bases.map((t) =>
+			tableFrom(
+				t,
+				outcomeProbabilities(state, t).map((p) => Math.round(p * countsPerBasis))
+			)
+		)
 	};
 }
 
 /** Poisson-distributed counts around the expected ones, from a seed. */
-export function sampledCounts(state: SimulatedState, bases: number[], countsPerBasis: number, seed: number): CountsDataset {
+export function sampledCounts(
+	state: SimulatedState,
+	bases: number[],
+	countsPerBasis: number,
+	seed: number
+): CountsDataset {
 	const draw = poissonSource(seed);
 	return {
 		dimension: state.dimension,
-		tables: bases.map((t) => tableFrom(t, outcomeProbabilities(state, t).map((p) => draw(p * countsPerBasis))))
+		tables: bases.map((t) =>
+			tableFrom(
+				t,
+				outcomeProbabilities(state, t).map((p) => draw(p * countsPerBasis))
+			)
+		)
 	};
 }
 
@@ -99,7 +126,8 @@ export function toCountsCsv(dataset: CountsDataset, comments: string[] = []): st
 	const d = dataset.dimension;
 	const lines = [...comments.map((c) => `# ${c}`), 'basis,outcome_a,outcome_b,counts'];
 	for (const table of dataset.tables) {
-		for (let a = 0; a < d; a++) for (let b = 0; b < d; b++) lines.push(`${table.basis},${a},${b},${table.counts[a * d + b]}`);
+		for (let a = 0; a < d; a++)
+			for (let b = 0; b < d; b++) lines.push(`${table.basis},${a},${b},${table.counts[a * d + b]}`);
 	}
 	return lines.join('\n') + '\n';
 }

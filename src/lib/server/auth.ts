@@ -33,7 +33,12 @@ function sequelizeAdapter(database: Database): Adapter {
 			const u = user.get({ plain: true });
 			const databaseUser: DatabaseUser = {
 				id: u.id,
-				attributes: { email: u.email, name: u.name, accountRole: u.accountRole, emailVerifiedAt: u.emailVerifiedAt }
+				attributes: {
+					email: u.email,
+					name: u.name,
+					accountRole: u.accountRole,
+					emailVerifiedAt: u.emailVerifiedAt
+				}
 			};
 			return [toSession(session.get({ plain: true })), databaseUser];
 		},
@@ -42,7 +47,11 @@ function sequelizeAdapter(database: Database): Adapter {
 			return rows.map((r) => toSession(r.get({ plain: true })));
 		},
 		async setSession(session) {
-			await Session.create({ id: session.id, userId: session.userId, expiresAt: session.expiresAt });
+			await Session.create({
+				id: session.id,
+				userId: session.userId,
+				expiresAt: session.expiresAt
+			});
 		},
 		async updateSessionExpiration(sessionId, expiresAt) {
 			await Session.update({ expiresAt }, { where: { id: sessionId } });
@@ -86,5 +95,7 @@ declare module 'lucia' {
 	}
 }
 
-export const hashPassword = (password: string) => hash(password, { memoryCost: 19456, timeCost: 2, parallelism: 1 });
-export const verifyPassword = (passwordHash: string, password: string) => verify(passwordHash, password);
+export const hashPassword = (password: string) =>
+	hash(password, { memoryCost: 19456, timeCost: 2, parallelism: 1 });
+export const verifyPassword = (passwordHash: string, password: string) =>
+	verify(passwordHash, password);

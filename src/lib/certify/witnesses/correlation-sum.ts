@@ -51,10 +51,16 @@ export function matchingSumModel(tables: CountTable[], d: number): PoissonModel 
 	};
 }
 
-export function checkDistinctAvailable(bases: number[], d: number, count: { min: number; max: number }): void {
-	if (new Set(bases).size !== bases.length) throw new RangeError(`bases must be distinct, got ${bases.join(',')}`);
+export function checkDistinctAvailable(
+	bases: number[],
+	d: number,
+	count: { min: number; max: number }
+): void {
+	if (new Set(bases).size !== bases.length)
+		throw new RangeError(`bases must be distinct, got ${bases.join(',')}`);
 	const missing = bases.filter((t) => !basisExists(d, t));
-	if (missing.length) throw new RangeError(`basis ${missing.join(', ')} does not exist in dimension ${d}`);
+	if (missing.length)
+		throw new RangeError(`basis ${missing.join(', ')} does not exist in dimension ${d}`);
 	if (bases.length < count.min || bases.length > count.max) {
 		const wanted = count.min === count.max ? `exactly ${count.min}` : `at least ${count.min}`;
 		throw new RangeError(`this method uses ${wanted} bases, got ${bases.length}`);

@@ -19,7 +19,15 @@ function differenceOfCells(d: number): Int32Array {
 }
 
 /** F̃ from the computational weights w0 (any scale, total t0) and the Fourier matching fraction. */
-function fidelityLowerBound(w0: ArrayLike<number>, t0: number, fourierMatching: number, d: number, delta: Int32Array, sqrtSums: Float64Array, sums: Float64Array): number {
+function fidelityLowerBound(
+	w0: ArrayLike<number>,
+	t0: number,
+	fourierMatching: number,
+	d: number,
+	delta: Int32Array,
+	sqrtSums: Float64Array,
+	sums: Float64Array
+): number {
 	sqrtSums.fill(0);
 	sums.fill(0);
 	for (let c = 0; c < d * d; c++) {
@@ -67,14 +75,24 @@ export const fidelityTwoBasis: WitnessFamily = {
 	defaultBases: () => [0, 1],
 	checkBases(bases) {
 		if (bases.length !== 2 || bases[0] !== 0 || bases[1] !== 1) {
-			throw new RangeError(`this method uses bases 0,1 (computational, then Fourier), got ${bases.join(',')}`);
+			throw new RangeError(
+				`this method uses bases 0,1 (computational, then Fourier), got ${bases.join(',')}`
+			);
 		}
 	},
 	bounds: (d) => Array.from({ length: d - 1 }, (_, i) => (i + 1) / d),
 	statistic(p, d) {
 		let matching = 0;
 		for (let j = 0; j < d; j++) matching += p[1][j * d + j];
-		return fidelityLowerBound(p[0], 1, matching, d, differenceOfCells(d), new Float64Array(d), new Float64Array(d));
+		return fidelityLowerBound(
+			p[0],
+			1,
+			matching,
+			d,
+			differenceOfCells(d),
+			new Float64Array(d),
+			new Float64Array(d)
+		);
 	},
 	/** Draws the d² computational cells, then the Fourier diagonal and off-diagonal totals (§6). */
 	sufficientModel(tables, d): PoissonModel {

@@ -21,7 +21,8 @@ export const steering2Mub: WitnessFamily = {
 	title: 'Two-setting steering test',
 	trust: 'one-sided device-independent',
 	reference: 'Genuine high-dimensional quantum steering, Phys. Rev. Lett. 126, 200404 (2021)',
-	defaultBases: (present) => (present.includes(0) && present.includes(1) ? [0, 1] : present.slice(0, 2)),
+	defaultBases: (present) =>
+		present.includes(0) && present.includes(1) ? [0, 1] : present.slice(0, 2),
 	checkBases(bases, d) {
 		checkDistinctAvailable(bases, d, { min: 2, max: 2 });
 	},

@@ -2,7 +2,13 @@
  * The demo scenario: invented people, groups and sources (no real lab, person or data). Counts
  * are simulated by the engine's simulator from fixed seeds, so every demo install is identical.
  */
-import { sampledCounts, states, toCountsCsv, type MethodId, type SimulatedState } from '$lib/certify';
+import {
+	sampledCounts,
+	states,
+	toCountsCsv,
+	type MethodId,
+	type SimulatedState
+} from '$lib/certify';
 import type { AccountRole } from '../db/models/User';
 import type { GroupRole } from '../db/models/Membership';
 
@@ -17,11 +23,46 @@ export interface DemoPerson {
 
 /** Documented in the README; demo passwords only. */
 export const DEMO_PEOPLE: DemoPerson[] = [
-	{ key: 'lead', name: 'Tove Arnesdal', email: 'tove@halvorsen-lake.example', password: 'demo-lead-2026', accountRole: 'researcher', groupRole: 'lead' },
-	{ key: 'author1', name: 'Eliot Brann', email: 'eliot@halvorsen-lake.example', password: 'demo-author-2026', accountRole: 'researcher', groupRole: 'author' },
-	{ key: 'author2', name: 'Sunniva Kjerr', email: 'sunniva@halvorsen-lake.example', password: 'demo-author-2026', accountRole: 'researcher', groupRole: 'author' },
-	{ key: 'editor', name: 'Osric Lamb', email: 'editor@quarterly-optics.example', password: 'demo-editor-2026', accountRole: 'editor', groupRole: null },
-	{ key: 'admin', name: 'Rankseal Admin', email: 'admin@rankseal.example', password: 'demo-admin-2026', accountRole: 'admin', groupRole: null }
+	{
+		key: 'lead',
+		name: 'Tove Arnesdal',
+		email: 'tove@halvorsen-lake.example',
+		password: 'demo-lead-2026',
+		accountRole: 'researcher',
+		groupRole: 'lead'
+	},
+	{
+		key: 'author1',
+		name: 'Eliot Brann',
+		email: 'eliot@halvorsen-lake.example',
+		password: 'demo-author-2026',
+		accountRole: 'researcher',
+		groupRole: 'author'
+	},
+	{
+		key: 'author2',
+		name: 'Sunniva Kjerr',
+		email: 'sunniva@halvorsen-lake.example',
+		password: 'demo-author-2026',
+		accountRole: 'researcher',
+		groupRole: 'author'
+	},
+	{
+		key: 'editor',
+		name: 'Osric Lamb',
+		email: 'editor@quarterly-optics.example',
+		password: 'demo-editor-2026',
+		accountRole: 'editor',
+		groupRole: null
+	},
+	{
+		key: 'admin',
+		name: 'Rankseal Admin',
+		email: 'admin@rankseal.example',
+		password: 'demo-admin-2026',
+		accountRole: 'admin',
+		groupRole: null
+	}
 ];
 
 export const DEMO_GROUP = 'Halvorsen Lake Photonics (fictional)';
@@ -43,7 +84,8 @@ export const DEMO_CLAIMS: DemoClaim[] = [
 	{
 		author: 'author1',
 		title: 'Time-bin source TB-7: Schmidt number ≥ 5, steering test',
-		sourceDescription: 'Time-bin entangled pairs from a pulsed type-II source, seven bins per frame (simulated).',
+		sourceDescription:
+			'Time-bin entangled pairs from a pulsed type-II source, seven bins per frame (simulated).',
 		method: 'steering-2mub',
 		bases: [0, 1],
 		claimedSchmidtNumber: 5,
@@ -55,7 +97,8 @@ export const DEMO_CLAIMS: DemoClaim[] = [
 	{
 		author: 'author1',
 		title: 'Time-bin source TB-7: full Schmidt number 7, steering test',
-		sourceDescription: 'The same TB-7 run, claiming the full dimension one-sided device-independently (simulated).',
+		sourceDescription:
+			'The same TB-7 run, claiming the full dimension one-sided device-independently (simulated).',
 		method: 'steering-2mub',
 		bases: [0, 1],
 		claimedSchmidtNumber: 7,
@@ -67,7 +110,8 @@ export const DEMO_CLAIMS: DemoClaim[] = [
 	{
 		author: 'author2',
 		title: 'Spatial-mode source SM-11: Schmidt number ≥ 9 from four MUBs',
-		sourceDescription: 'Orbital-angular-momentum modes of a down-conversion source, eleven modes, four mutually unbiased bases (simulated).',
+		sourceDescription:
+			'Orbital-angular-momentum modes of a down-conversion source, eleven modes, four mutually unbiased bases (simulated).',
 		method: 'mub-correlation',
 		bases: [0, 1, 2, 3],
 		claimedSchmidtNumber: 9,
@@ -79,7 +123,8 @@ export const DEMO_CLAIMS: DemoClaim[] = [
 	{
 		author: 'lead',
 		title: 'Frequency-bin comb FB-5: fidelity bound, Schmidt number ≥ 4',
-		sourceDescription: 'Frequency-bin pairs from an on-chip microring comb, five bins, slightly dephased (simulated).',
+		sourceDescription:
+			'Frequency-bin pairs from an on-chip microring comb, five bins, slightly dephased (simulated).',
 		method: 'fidelity-two-basis',
 		bases: [0, 1],
 		claimedSchmidtNumber: 4,
@@ -95,5 +140,7 @@ export function demoCountsCsv(claim: DemoClaim): string {
 	const d = claim.state.dimension;
 	const bases = claim.method === 'mub-correlation' ? claim.bases : [0, 1];
 	const data = sampledCounts(claim.state, bases, claim.pairsPerBasis, claim.dataSeed);
-	return toCountsCsv(data, [`Simulated demo data for "${claim.title}" (d = ${d}); not a measurement.`]);
+	return toCountsCsv(data, [
+		`Simulated demo data for "${claim.title}" (d = ${d}); not a measurement.`
+	]);
 }

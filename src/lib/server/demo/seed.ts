@@ -29,8 +29,15 @@ async function seedPeople(database: Database): Promise<Map<string, string>> {
 			ids.set(person.key, id);
 			const passwordHash = await hashPassword(person.password);
 			const { name, email, accountRole } = person;
-			await User.create({ id, name, email, passwordHash, accountRole, emailVerifiedAt: new Date() }, { transaction });
-			if (person.groupRole) await Membership.create({ id: newId(), groupId, userId: id, role: person.groupRole }, { transaction });
+			await User.create(
+				{ id, name, email, passwordHash, accountRole, emailVerifiedAt: new Date() },
+				{ transaction }
+			);
+			if (person.groupRole)
+				await Membership.create(
+					{ id: newId(), groupId, userId: id, role: person.groupRole },
+					{ transaction }
+				);
 		}
 	});
 	return ids;
@@ -49,7 +56,10 @@ async function seedClaims(database: Database, ids: Map<string, string>): Promise
 			manuscriptReference: demo.manuscriptReference
 		});
 		const file = new TextEncoder().encode(demoCountsCsv(demo));
-		await addDataset(database, userId, claim.id, { bytes: file, originalName: `${demo.title.split(':')[0]}.csv` });
+		await addDataset(database, userId, claim.id, {
+			bytes: file,
+			originalName: `${demo.title.split(':')[0]}.csv`
+		});
 		await startCheck(database, userId, claim.id, {});
 	}
 }

@@ -12,7 +12,11 @@ export interface AuditEntry {
 }
 
 /** Appends one audit event, inside the caller's transaction when given. */
-export async function audit(database: Database, entry: AuditEntry, transaction?: Transaction): Promise<void> {
+export async function audit(
+	database: Database,
+	entry: AuditEntry,
+	transaction?: Transaction
+): Promise<void> {
 	await database.models.AuditEvent.create(
 		{ id: newId(), groupId: null, subjectId: null, details: {}, ...entry },
 		{ transaction }

@@ -28,7 +28,11 @@ export async function up({ context: q }: { context: QueryInterface }) {
 		user_id: ref('users'),
 		expires_at: { type: DataTypes.DATE, allowNull: false }
 	});
-	await q.createTable('groups', { id, name: { type: DataTypes.STRING, allowNull: false }, ...stamps });
+	await q.createTable('groups', {
+		id,
+		name: { type: DataTypes.STRING, allowNull: false },
+		...stamps
+	});
 	await q.createTable('memberships', {
 		id,
 		group_id: ref('groups'),
@@ -132,7 +136,20 @@ export async function up({ context: q }: { context: QueryInterface }) {
 }
 
 export async function down({ context: q }: { context: QueryInterface }) {
-	for (const table of ['mail_messages', 'audit_events', 'api_tokens', 'checks', 'datasets', 'claims', 'email_tokens', 'invitations', 'memberships', 'groups', 'sessions', 'users']) {
+	for (const table of [
+		'mail_messages',
+		'audit_events',
+		'api_tokens',
+		'checks',
+		'datasets',
+		'claims',
+		'email_tokens',
+		'invitations',
+		'memberships',
+		'groups',
+		'sessions',
+		'users'
+	]) {
 		await q.dropTable(table);
 	}
 }

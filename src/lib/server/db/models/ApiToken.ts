@@ -14,16 +14,25 @@ export interface ApiTokenAttributes {
 	updatedAt?: Date;
 }
 
-export type ApiTokenModel = ModelStatic<Model<ApiTokenAttributes, Omit<ApiTokenAttributes, 'lastUsedAt' | 'revokedAt'> & Partial<ApiTokenAttributes>>>;
+export type ApiTokenModel = ModelStatic<
+	Model<
+		ApiTokenAttributes,
+		Omit<ApiTokenAttributes, 'lastUsedAt' | 'revokedAt'> & Partial<ApiTokenAttributes>
+	>
+>;
 
 export function defineApiToken(sequelize: Sequelize): ApiTokenModel {
-	return sequelize.define('ApiToken', {
-		id: { type: DataTypes.STRING, primaryKey: true },
-		userId: { type: DataTypes.STRING, allowNull: false },
-		name: { type: DataTypes.STRING, allowNull: false },
-		prefix: { type: DataTypes.STRING, allowNull: false },
-		tokenHash: { type: DataTypes.STRING, allowNull: false, unique: true },
-		lastUsedAt: { type: DataTypes.DATE, allowNull: true },
-		revokedAt: { type: DataTypes.DATE, allowNull: true }
-	}, { tableName: 'api_tokens', underscored: true });
+	return sequelize.define(
+		'ApiToken',
+		{
+			id: { type: DataTypes.STRING, primaryKey: true },
+			userId: { type: DataTypes.STRING, allowNull: false },
+			name: { type: DataTypes.STRING, allowNull: false },
+			prefix: { type: DataTypes.STRING, allowNull: false },
+			tokenHash: { type: DataTypes.STRING, allowNull: false, unique: true },
+			lastUsedAt: { type: DataTypes.DATE, allowNull: true },
+			revokedAt: { type: DataTypes.DATE, allowNull: true }
+		},
+		{ tableName: 'api_tokens', underscored: true }
+	);
 }

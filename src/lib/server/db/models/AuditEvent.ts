@@ -14,13 +14,17 @@ export interface AuditEventAttributes {
 export type AuditEventModel = ModelStatic<Model<AuditEventAttributes>>;
 
 export function defineAuditEvent(sequelize: Sequelize): AuditEventModel {
-	return sequelize.define('AuditEvent', {
-		id: { type: DataTypes.STRING, primaryKey: true },
-		actorId: { type: DataTypes.STRING, allowNull: true },
-		groupId: { type: DataTypes.STRING, allowNull: true },
-		action: { type: DataTypes.STRING, allowNull: false },
-		subjectType: { type: DataTypes.STRING, allowNull: false },
-		subjectId: { type: DataTypes.STRING, allowNull: true },
-		details: { type: DataTypes.JSON, allowNull: false, defaultValue: {} }
-	}, { tableName: 'audit_events', underscored: true, updatedAt: false });
+	return sequelize.define(
+		'AuditEvent',
+		{
+			id: { type: DataTypes.STRING, primaryKey: true },
+			actorId: { type: DataTypes.STRING, allowNull: true },
+			groupId: { type: DataTypes.STRING, allowNull: true },
+			action: { type: DataTypes.STRING, allowNull: false },
+			subjectType: { type: DataTypes.STRING, allowNull: false },
+			subjectId: { type: DataTypes.STRING, allowNull: true },
+			details: { type: DataTypes.JSON, allowNull: false, defaultValue: {} }
+		},
+		{ tableName: 'audit_events', underscored: true, updatedAt: false }
+	);
 }

@@ -23,22 +23,28 @@ export interface CheckAttributes {
 }
 
 type Optional = 'status' | 'progress' | 'result' | 'error' | 'startedAt' | 'finishedAt';
-export type CheckModel = ModelStatic<Model<CheckAttributes, Omit<CheckAttributes, Optional> & Partial<CheckAttributes>>>;
+export type CheckModel = ModelStatic<
+	Model<CheckAttributes, Omit<CheckAttributes, Optional> & Partial<CheckAttributes>>
+>;
 
 export function defineCheck(sequelize: Sequelize): CheckModel {
-	return sequelize.define('Check', {
-		id: { type: DataTypes.STRING, primaryKey: true },
-		claimId: { type: DataTypes.STRING, allowNull: false },
-		datasetId: { type: DataTypes.STRING, allowNull: false },
-		createdBy: { type: DataTypes.STRING, allowNull: true },
-		status: { type: DataTypes.STRING, allowNull: false, defaultValue: 'queued' },
-		progress: { type: DataTypes.FLOAT, allowNull: false, defaultValue: 0 },
-		resamples: { type: DataTypes.INTEGER, allowNull: false },
-		confidence: { type: DataTypes.FLOAT, allowNull: false },
-		seed: { type: DataTypes.BIGINT, allowNull: false },
-		result: { type: DataTypes.JSON, allowNull: true },
-		error: { type: DataTypes.TEXT, allowNull: true },
-		startedAt: { type: DataTypes.DATE, allowNull: true },
-		finishedAt: { type: DataTypes.DATE, allowNull: true }
-	}, { tableName: 'checks', underscored: true });
+	return sequelize.define(
+		'Check',
+		{
+			id: { type: DataTypes.STRING, primaryKey: true },
+			claimId: { type: DataTypes.STRING, allowNull: false },
+			datasetId: { type: DataTypes.STRING, allowNull: false },
+			createdBy: { type: DataTypes.STRING, allowNull: true },
+			status: { type: DataTypes.STRING, allowNull: false, defaultValue: 'queued' },
+			progress: { type: DataTypes.FLOAT, allowNull: false, defaultValue: 0 },
+			resamples: { type: DataTypes.INTEGER, allowNull: false },
+			confidence: { type: DataTypes.FLOAT, allowNull: false },
+			seed: { type: DataTypes.BIGINT, allowNull: false },
+			result: { type: DataTypes.JSON, allowNull: true },
+			error: { type: DataTypes.TEXT, allowNull: true },
+			startedAt: { type: DataTypes.DATE, allowNull: true },
+			finishedAt: { type: DataTypes.DATE, allowNull: true }
+		},
+		{ tableName: 'checks', underscored: true }
+	);
 }

@@ -20,29 +20,38 @@ export interface ClaimAttributes {
 	updatedAt?: Date;
 }
 
-export type ClaimModel = ModelStatic<Model<ClaimAttributes, Omit<ClaimAttributes, 'state' | 'manuscriptReference'> & Partial<ClaimAttributes>>>;
+export type ClaimModel = ModelStatic<
+	Model<
+		ClaimAttributes,
+		Omit<ClaimAttributes, 'state' | 'manuscriptReference'> & Partial<ClaimAttributes>
+	>
+>;
 
 export function defineClaim(sequelize: Sequelize): ClaimModel {
-	return sequelize.define('Claim', {
-		id: { type: DataTypes.STRING, primaryKey: true },
-		groupId: { type: DataTypes.STRING, allowNull: false },
-		createdBy: { type: DataTypes.STRING, allowNull: false },
-		title: { type: DataTypes.STRING, allowNull: false },
-		sourceDescription: { type: DataTypes.TEXT, allowNull: false },
-		dimension: { type: DataTypes.INTEGER, allowNull: false },
-		method: { type: DataTypes.STRING, allowNull: false },
-		bases: {
-			type: DataTypes.TEXT,
-			allowNull: false,
-			get() {
-				return JSON.parse(this.getDataValue('bases') as unknown as string);
+	return sequelize.define(
+		'Claim',
+		{
+			id: { type: DataTypes.STRING, primaryKey: true },
+			groupId: { type: DataTypes.STRING, allowNull: false },
+			createdBy: { type: DataTypes.STRING, allowNull: false },
+			title: { type: DataTypes.STRING, allowNull: false },
+			sourceDescription: { type: DataTypes.TEXT, allowNull: false },
+			dimension: { type: DataTypes.INTEGER, allowNull: false },
+			method: { type: DataTypes.STRING, allowNull: false },
+			bases: {
+				type: DataTypes.TEXT,
+				allowNull: false,
+				get() {
+					return JSON.parse(this.getDataValue('bases') as unknown as string);
+				},
+				set(value: number[]) {
+					this.setDataValue('bases', JSON.stringify(value) as unknown as number[]);
+				}
 			},
-			set(value: number[]) {
-				this.setDataValue('bases', JSON.stringify(value) as unknown as number[]);
-			}
+			claimedSchmidtNumber: { type: DataTypes.INTEGER, allowNull: false },
+			manuscriptReference: { type: DataTypes.STRING, allowNull: true },
+			state: { type: DataTypes.STRING, allowNull: false, defaultValue: 'draft' }
 		},
-		claimedSchmidtNumber: { type: DataTypes.INTEGER, allowNull: false },
-		manuscriptReference: { type: DataTypes.STRING, allowNull: true },
-		state: { type: DataTypes.STRING, allowNull: false, defaultValue: 'draft' }
-	}, { tableName: 'claims', underscored: true });
+		{ tableName: 'claims', underscored: true }
+	);
 }

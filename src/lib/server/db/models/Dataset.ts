@@ -27,14 +27,18 @@ export interface DatasetAttributes {
 export type DatasetModel = ModelStatic<Model<DatasetAttributes>>;
 
 export function defineDataset(sequelize: Sequelize): DatasetModel {
-	return sequelize.define('Dataset', {
-		id: { type: DataTypes.STRING, primaryKey: true },
-		claimId: { type: DataTypes.STRING, allowNull: false },
-		createdBy: { type: DataTypes.STRING, allowNull: false },
-		sha256: { type: DataTypes.STRING(64), allowNull: false },
-		byteSize: { type: DataTypes.INTEGER, allowNull: false },
-		format: { type: DataTypes.STRING, allowNull: false },
-		originalName: { type: DataTypes.STRING, allowNull: false },
-		summary: { type: DataTypes.JSON, allowNull: false }
-	}, { tableName: 'datasets', underscored: true });
+	return sequelize.define(
+		'Dataset',
+		{
+			id: { type: DataTypes.STRING, primaryKey: true },
+			claimId: { type: DataTypes.STRING, allowNull: false },
+			createdBy: { type: DataTypes.STRING, allowNull: false },
+			sha256: { type: DataTypes.STRING(64), allowNull: false },
+			byteSize: { type: DataTypes.INTEGER, allowNull: false },
+			format: { type: DataTypes.STRING, allowNull: false },
+			originalName: { type: DataTypes.STRING, allowNull: false },
+			summary: { type: DataTypes.JSON, allowNull: false }
+		},
+		{ tableName: 'datasets', underscored: true }
+	);
 }

@@ -14,15 +14,21 @@ export interface EmailTokenAttributes {
 	updatedAt?: Date;
 }
 
-export type EmailTokenModel = ModelStatic<Model<EmailTokenAttributes, Omit<EmailTokenAttributes, 'usedAt'> & Partial<EmailTokenAttributes>>>;
+export type EmailTokenModel = ModelStatic<
+	Model<EmailTokenAttributes, Omit<EmailTokenAttributes, 'usedAt'> & Partial<EmailTokenAttributes>>
+>;
 
 export function defineEmailToken(sequelize: Sequelize): EmailTokenModel {
-	return sequelize.define('EmailToken', {
-		id: { type: DataTypes.STRING, primaryKey: true },
-		userId: { type: DataTypes.STRING, allowNull: false },
-		purpose: { type: DataTypes.STRING, allowNull: false },
-		tokenHash: { type: DataTypes.STRING, allowNull: false, unique: true },
-		expiresAt: { type: DataTypes.DATE, allowNull: false },
-		usedAt: { type: DataTypes.DATE, allowNull: true }
-	}, { tableName: 'email_tokens', underscored: true });
+	return sequelize.define(
+		'EmailToken',
+		{
+			id: { type: DataTypes.STRING, primaryKey: true },
+			userId: { type: DataTypes.STRING, allowNull: false },
+			purpose: { type: DataTypes.STRING, allowNull: false },
+			tokenHash: { type: DataTypes.STRING, allowNull: false, unique: true },
+			expiresAt: { type: DataTypes.DATE, allowNull: false },
+			usedAt: { type: DataTypes.DATE, allowNull: true }
+		},
+		{ tableName: 'email_tokens', underscored: true }
+	);
 }

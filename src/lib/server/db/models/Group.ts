@@ -10,8 +10,12 @@ export interface GroupAttributes {
 export type GroupModel = ModelStatic<Model<GroupAttributes>>;
 
 export function defineGroup(sequelize: Sequelize): GroupModel {
-	return sequelize.define('Group', {
-		id: { type: DataTypes.STRING, primaryKey: true },
-		name: { type: DataTypes.STRING, allowNull: false }
-	}, { tableName: 'groups', underscored: true });
+	return sequelize.define(
+		'Group',
+		{
+			id: { type: DataTypes.STRING, primaryKey: true },
+			name: { type: DataTypes.STRING, allowNull: false }
+		},
+		{ tableName: 'groups', underscored: true }
+	);
 }

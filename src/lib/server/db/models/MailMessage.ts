@@ -15,13 +15,17 @@ export interface MailMessageAttributes {
 export type MailMessageModel = ModelStatic<Model<MailMessageAttributes>>;
 
 export function defineMailMessage(sequelize: Sequelize): MailMessageModel {
-	return sequelize.define('MailMessage', {
-		id: { type: DataTypes.STRING, primaryKey: true },
-		from: { type: DataTypes.STRING, allowNull: false },
-		to: { type: DataTypes.TEXT, allowNull: false },
-		subject: { type: DataTypes.STRING, allowNull: false },
-		text: { type: DataTypes.TEXT, allowNull: false },
-		html: { type: DataTypes.TEXT, allowNull: true },
-		raw: { type: DataTypes.TEXT, allowNull: false }
-	}, { tableName: 'mail_messages', underscored: true, updatedAt: false });
+	return sequelize.define(
+		'MailMessage',
+		{
+			id: { type: DataTypes.STRING, primaryKey: true },
+			from: { type: DataTypes.STRING, allowNull: false },
+			to: { type: DataTypes.TEXT, allowNull: false },
+			subject: { type: DataTypes.STRING, allowNull: false },
+			text: { type: DataTypes.TEXT, allowNull: false },
+			html: { type: DataTypes.TEXT, allowNull: true },
+			raw: { type: DataTypes.TEXT, allowNull: false }
+		},
+		{ tableName: 'mail_messages', underscored: true, updatedAt: false }
+	);
 }

@@ -14,10 +14,14 @@ export interface MembershipAttributes {
 export type MembershipModel = ModelStatic<Model<MembershipAttributes>>;
 
 export function defineMembership(sequelize: Sequelize): MembershipModel {
-	return sequelize.define('Membership', {
-		id: { type: DataTypes.STRING, primaryKey: true },
-		groupId: { type: DataTypes.STRING, allowNull: false },
-		userId: { type: DataTypes.STRING, allowNull: false },
-		role: { type: DataTypes.STRING, allowNull: false }
-	}, { tableName: 'memberships', underscored: true });
+	return sequelize.define(
+		'Membership',
+		{
+			id: { type: DataTypes.STRING, primaryKey: true },
+			groupId: { type: DataTypes.STRING, allowNull: false },
+			userId: { type: DataTypes.STRING, allowNull: false },
+			role: { type: DataTypes.STRING, allowNull: false }
+		},
+		{ tableName: 'memberships', underscored: true }
+	);
 }

@@ -14,15 +14,21 @@ export interface UserAttributes {
 	updatedAt?: Date;
 }
 
-export type UserModel = ModelStatic<Model<UserAttributes, Omit<UserAttributes, 'emailVerifiedAt'> & Partial<UserAttributes>>>;
+export type UserModel = ModelStatic<
+	Model<UserAttributes, Omit<UserAttributes, 'emailVerifiedAt'> & Partial<UserAttributes>>
+>;
 
 export function defineUser(sequelize: Sequelize): UserModel {
-	return sequelize.define('User', {
-		id: { type: DataTypes.STRING, primaryKey: true },
-		email: { type: DataTypes.STRING, allowNull: false, unique: true },
-		name: { type: DataTypes.STRING, allowNull: false },
-		passwordHash: { type: DataTypes.STRING, allowNull: false },
-		accountRole: { type: DataTypes.STRING, allowNull: false, defaultValue: 'researcher' },
-		emailVerifiedAt: { type: DataTypes.DATE, allowNull: true }
-	}, { tableName: 'users', underscored: true });
+	return sequelize.define(
+		'User',
+		{
+			id: { type: DataTypes.STRING, primaryKey: true },
+			email: { type: DataTypes.STRING, allowNull: false, unique: true },
+			name: { type: DataTypes.STRING, allowNull: false },
+			passwordHash: { type: DataTypes.STRING, allowNull: false },
+			accountRole: { type: DataTypes.STRING, allowNull: false, defaultValue: 'researcher' },
+			emailVerifiedAt: { type: DataTypes.DATE, allowNull: true }
+		},
+		{ tableName: 'users', underscored: true }
+	);
 }

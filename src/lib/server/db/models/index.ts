@@ -28,7 +28,18 @@ export function defineModels(sequelize: Sequelize) {
 		AuditEvent: defineAuditEvent(sequelize),
 		MailMessage: defineMailMessage(sequelize)
 	};
-	const { User, Session, Group, Membership, Invitation, EmailToken, Claim, Dataset, Check, ApiToken } = models;
+	const {
+		User,
+		Session,
+		Group,
+		Membership,
+		Invitation,
+		EmailToken,
+		Claim,
+		Dataset,
+		Check,
+		ApiToken
+	} = models;
 	User.hasMany(Session, { foreignKey: 'userId' });
 	Session.belongsTo(User, { foreignKey: 'userId' });
 	User.hasMany(Membership, { foreignKey: 'userId' });
