@@ -78,3 +78,17 @@ describe('verdict on a claim (witnesses.md §5)', () => {
 		expect(above.claim!.verdict).toBe('supported');
 	});
 });
+
+describe('warnings on the result', () => {
+	it('say when the fidelity method relies on the field Fourier basis (d = p^s, s ≥ 2)', () => {
+		const at = (d: number) =>
+			certify(expectedCounts(states.isotropic(d, 0.9), [0, 1], 1e6), {
+				method: 'fidelity-two-basis',
+				resamples: 500
+			}).warnings.join(' ');
+		expect(at(4)).toMatch(/Fourier basis of the finite field/);
+		expect(at(9)).toMatch(/Fourier basis of the finite field/);
+		expect(at(5)).not.toMatch(/finite field/);
+		expect(at(6)).not.toMatch(/finite field/);
+	});
+});

@@ -7,6 +7,7 @@ import { hasUnequalDurations, perCellModel } from './cell-model';
 import { InputError, requireCompleteTables, type CountsDataset } from './counts';
 import { claimVerdict, ladderPosition, marginsInStandardErrors, type ClaimVerdict } from './ladder';
 import { deltaMethodStandardError } from './model';
+import { primePower } from './finite-field';
 import { checkSeed } from './poisson';
 import { noiseScale, visibilityOf } from './visibility';
 import { isMethodId, witnessFamilies, type MethodId, type Trust } from './witnesses';
@@ -173,7 +174,13 @@ export function certify(dataset: CountsDataset, options: CertifyOptions): Certif
 		backgroundSubtracted: subtract,
 		resampling: subtract || rates ? 'per-cell' : 'sufficient-totals',
 		totalCounts,
-		warnings: warningsFor({ subtract, rates, resamples, confidence }),
+		warnings: warningsFor({
+			subtract,
+			rates,
+			resamples,
+			confidence,
+			fieldFourier: fieldFourierMatters(method, d)
+		}),
 		engine: {
 			version: ENGINE_VERSION,
 			generator: 'xoroshiro128+ (pure-rand), 32-bit uniforms',
@@ -182,13 +189,24 @@ export function certify(dataset: CountsDataset, options: CertifyOptions): Certif
 	};
 }
 
+/** Where basis 1 is the Fourier basis of GF(p^s), not the cyclic one, and the method depends on it. */
+function fieldFourierMatters(method: MethodId, d: number): boolean {
+	const pp = primePower(d);
+	return method === 'fidelity-two-basis' && pp !== null && pp.exponent > 1;
+}
+
 function warningsFor(o: {
 	subtract: boolean;
 	rates: boolean;
 	resamples: number;
 	confidence: number;
+	fieldFourier: boolean;
 }): string[] {
 	const out: string[] = [];
+	if (o.fieldFourier)
+		out.push(
+			'In this dimension basis 1 is the Fourier basis of the finite field GF(p^s) (outcomes labelled by base-p digits), not the cyclic Fourier basis; data measured in the cyclic basis do not fit this method.'
+		);
 	if (o.subtract)
 		out.push(
 			'Background-subtracted: accidental estimates were removed before normalising; the raw-count certificate is the default.'
