@@ -13,7 +13,7 @@ import { launchBrowser, type TestBrowser } from './browser';
 import { seedFlowWorld, type FlowWorld } from './flow-world';
 import { startApp, type AppServer } from './server';
 
-const EXAMPLE = path.resolve('../shared/examples/example-d5-three-bases.csv');
+const EXAMPLE = path.resolve('tests/fixtures/example-d5-three-bases.csv');
 let app: AppServer;
 let world: FlowWorld;
 let browser: TestBrowser;

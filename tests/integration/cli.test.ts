@@ -9,7 +9,7 @@ import { sha256Hex } from '../../src/lib/evidence/hash';
 
 const run = promisify(execFile);
 const folder = mkdtempSync(path.join(tmpdir(), 'rankseal-cli-'));
-const example = path.resolve('../shared/examples/example-d5-three-bases.csv');
+const example = path.resolve('tests/fixtures/example-d5-three-bases.csv');
 
 async function cli(args: string[]): Promise<{ code: number; stdout: string; stderr: string }> {
 	try {
