@@ -10,6 +10,7 @@ import { audit } from './audit';
 import {
 	RESET_PASSWORD_TTL_MS,
 	VERIFY_EMAIL_TTL_MS,
+	confirmAddress,
 	emailTokenState,
 	issueEmailToken,
 	useEmailToken,
@@ -106,11 +107,7 @@ export async function verifyEmail(database: Database, token: string): Promise<Li
 	return database.sequelize.transaction(async (transaction) => {
 		const used = await useEmailToken(database, token, 'verify-email', transaction);
 		if (!used.ok) return used;
-		const { User } = database.models;
-		await User.update(
-			{ emailVerifiedAt: new Date() },
-			{ where: { id: used.userId, emailVerifiedAt: null }, transaction }
-		);
+		await confirmAddress(database, used.userId, transaction);
 		const entry = {
 			actorId: used.userId,
 			action: 'account.email-verified',
@@ -182,10 +179,7 @@ export async function resetPassword(
 		if (!used.ok) return used;
 		const { User } = database.models;
 		await User.update({ passwordHash }, { where: { id: used.userId }, transaction });
-		await User.update(
-			{ emailVerifiedAt: new Date() },
-			{ where: { id: used.userId, emailVerifiedAt: null }, transaction }
-		);
+		await confirmAddress(database, used.userId, transaction);
 		const entry = {
 			actorId: used.userId,
 			action: 'account.password-reset',

@@ -74,3 +74,19 @@ export async function useEmailToken(
 		reason: state === 'valid' ? 'used' : state === 'unknown' ? 'unknown' : state
 	};
 }
+
+/**
+ * Marks the user's address as confirmed unless it already is; true when this call confirmed it.
+ * Any proof of reading the mailbox counts: the confirmation link, a reset link, an invitation.
+ */
+export async function confirmAddress(
+	database: Database,
+	userId: string,
+	transaction: Transaction
+): Promise<boolean> {
+	const [changed] = await database.models.User.update(
+		{ emailVerifiedAt: new Date() },
+		{ where: { id: userId, emailVerifiedAt: null }, transaction }
+	);
+	return changed === 1;
+}

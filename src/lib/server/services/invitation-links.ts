@@ -5,6 +5,7 @@
 import type { Database } from '../db';
 import type { GroupRole } from '../db/models/Membership';
 import { audit } from './audit';
+import { confirmAddress } from './email-tokens';
 import { NotFoundError } from './errors';
 import { FieldError } from './field-error';
 import { hashSecret, newId } from './ids';
@@ -87,8 +88,7 @@ export async function acceptInvitation(
 		if (!existing)
 			await Membership.create({ id: newId(), groupId: i.groupId, userId, role }, { transaction });
 		else if (existing.get('role') !== role) await existing.update({ role }, { transaction });
-		if (!user.emailVerifiedAt) {
-			await User.update({ emailVerifiedAt: now }, { where: { id: userId }, transaction });
+		if (await confirmAddress(database, userId, transaction)) {
 			await audit(
 				database,
 				{
