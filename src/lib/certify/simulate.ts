@@ -7,7 +7,7 @@
  */
 import { basisVectors } from './bases';
 import type { CountsDataset, CountTable } from './counts';
-import { poissonSource } from './poisson';
+import { PoissonSampler, prepareMeans } from './poisson';
 
 export interface SimulatedState {
 	dimension: number;
@@ -109,15 +109,15 @@ export function sampledCounts(
 	countsPerBasis: number,
 	seed: number
 ): CountsDataset {
-	const draw = poissonSource(seed);
+	const sampler = new PoissonSampler(seed);
 	return {
 		dimension: state.dimension,
-		tables: bases.map((t) =>
-			tableFrom(
-				t,
-				outcomeProbabilities(state, t).map((p) => draw(p * countsPerBasis))
-			)
-		)
+		tables: bases.map((t) => {
+			const means = outcomeProbabilities(state, t).map((p) => p * countsPerBasis);
+			const counts = new Float64Array(means.length);
+			sampler.drawAll(prepareMeans(means), counts);
+			return tableFrom(t, counts);
+		})
 	};
 }
 
