@@ -1,0 +1,83 @@
+/**
+ * The ladder of bounds as vector graphics: one row per rung k with the region a state of Schmidt
+ * number at most k can reach, and the statistic with its 95 % interval and lower bound drawn
+ * against it.
+ */
+import type { CertificationResult } from '../../certify';
+
+type Doc = PDFKit.PDFDocument;
+
+const INK = '#1d2430';
+const REACH = '#d9dee6';
+const MARK = '#0b6e4f';
+
+function scaleFor(result: CertificationResult, x: number, width: number) {
+	const { statistic, bounds } = result;
+	const values = [0, statistic.interval95[0], statistic.interval95[1], statistic.lower];
+	values.push(...bounds.map((b) => b.bound), statistic.value);
+	const lo = Math.min(...values);
+	const hi = Math.max(...values);
+	const pad = (hi - lo) * 0.05 || 1;
+	return (v: number) => x + ((v - (lo - pad)) / (hi - lo + 2 * pad)) * width;
+}
+
+/** Draws the ladder at (x, y) and returns the height used. */
+export function drawLadder(
+	doc: Doc,
+	result: CertificationResult,
+	x: number,
+	y: number,
+	width: number
+) {
+	const labelWidth = 70;
+	const plotX = x + labelWidth;
+	const plotWidth = width - labelWidth;
+	const at = scaleFor(result, plotX, plotWidth);
+	const rowHeight = 16;
+	const { statistic } = result;
+	result.bounds.forEach((rung, i) => {
+		const top = y + i * rowHeight;
+		const certified = statistic.lower > rung.bound;
+		doc
+			.fillColor(INK)
+			.fontSize(8)
+			.text(`k = ${rung.upToSchmidtNumber}`, x, top + 3, {
+				width: labelWidth - 6,
+				lineBreak: false
+			});
+		doc.rect(plotX, top + 3, at(rung.bound) - plotX, rowHeight - 6).fill(REACH);
+		doc
+			.moveTo(at(rung.bound), top + 1)
+			.lineTo(at(rung.bound), top + rowHeight - 1)
+			.lineWidth(1)
+			.stroke(INK);
+		const mid = top + rowHeight / 2;
+		doc
+			.moveTo(at(statistic.interval95[0]), mid)
+			.lineTo(at(statistic.interval95[1]), mid)
+			.lineWidth(1.2)
+			.stroke(MARK);
+		doc.circle(at(statistic.value), mid, 2.4).fill(MARK);
+		doc
+			.moveTo(at(statistic.lower), mid - 4)
+			.lineTo(at(statistic.lower), mid + 4)
+			.lineWidth(1.5)
+			.stroke(certified ? MARK : '#a33a1f');
+	});
+	const axisY = y + result.bounds.length * rowHeight + 4;
+	doc
+		.moveTo(plotX, axisY)
+		.lineTo(plotX + plotWidth, axisY)
+		.lineWidth(0.5)
+		.stroke(INK);
+	doc
+		.fillColor(INK)
+		.fontSize(7.5)
+		.text(
+			'Grey: values reachable with Schmidt number at most k (bar ends at the bound). Green dot: the statistic; line: its 95 % interval; tick: the one-sided lower bound (green when it exceeds the rung).',
+			x,
+			axisY + 4,
+			{ width }
+		);
+	return doc.y - y;
+}

@@ -1,0 +1,212 @@
+/**
+ * Certificates: issued from a finished check in one transaction (row, files and ledger entries
+ * together or not at all); a later issue for the same claim supersedes the earlier one.
+ */
+import { readFile } from 'node:fs/promises';
+import type { Transaction } from 'sequelize';
+import { InputError } from '../../certify';
+import { sha256Hex } from '../../evidence/hash';
+import type { EvidenceManifest } from '../../evidence/manifest';
+import { config } from '../config';
+import type { Database } from '../db';
+import type { CertificateAttributes } from '../db/models/Certificate';
+import { makeEvidence, selfCheck, type Evidence } from '../evidence/artifacts';
+import { publishedKeys, serviceKey } from '../evidence/keys';
+import type { SigningKey } from '../../evidence/signing';
+import { audit } from './audit';
+import { certificatePaths, placeFiles, removeFiles } from './certificate-files';
+import { certificateView, evidenceUrls, type CertificateView } from './certificate-views';
+import { requireVisibleClaim } from './claims';
+import { datasetFilePath } from './datasets';
+import { NotFoundError } from './errors';
+import { newId } from './ids';
+import { appendLedger } from './ledger';
+
+export type { CertificateView } from './certificate-views';
+
+/** Thrown when another certificate was issued for the claim while this one was being made. */
+export class IssueConflictError extends Error {
+	constructor(message: string) {
+		super(message);
+		this.name = 'IssueConflictError';
+	}
+}
+
+async function finishedCheck(database: Database, claimId: string, checkId: string) {
+	const row = await database.models.Check.findOne({ where: { id: checkId, claimId } });
+	if (!row) throw new NotFoundError('No such check on this claim.');
+	const check = row.get({ plain: true });
+	if (check.status !== 'done' || !check.result)
+		throw new InputError('checkId: only a finished check can be certified');
+	const dataset = (await database.models.Dataset.findByPk(check.datasetId))!.get({ plain: true });
+	const uploaded = await readFile(datasetFilePath(dataset.sha256));
+	if (sha256Hex(uploaded) !== dataset.sha256)
+		throw new Error(`stored counts file ${dataset.sha256} no longer matches its SHA-256`);
+	return { check, dataset, uploaded };
+}
+
+async function currentCertificate(database: Database, claimId: string, transaction?: Transaction) {
+	const row = await database.models.Certificate.findOne({
+		where: { claimId, status: 'valid' },
+		order: [['issuedAt', 'DESC']],
+		transaction
+	});
+	return (row?.get('id') as string | undefined) ?? null;
+}
+
+async function prepare(
+	database: Database,
+	userId: string,
+	claimId: string,
+	checkId: string,
+	key: SigningKey
+) {
+	const claim = await requireVisibleClaim(database, userId, claimId);
+	const { check, dataset, uploaded } = await finishedCheck(database, claimId, checkId);
+	const id = newId();
+	const supersedes = await currentCertificate(database, claimId);
+	const result = check.result!;
+	const evidence = await makeEvidence(
+		{
+			certificateId: id,
+			issuedAt: new Date().toISOString(),
+			claimId,
+			checkId,
+			supersedes,
+			claim: {
+				title: claim.title,
+				dimension: claim.dimension,
+				method: claim.method,
+				bases: claim.bases,
+				fourier: (claim as { fourier?: string | null }).fourier ?? null,
+				claimedSchmidtNumber: claim.claimedSchmidtNumber,
+				manuscriptReference: claim.manuscriptReference ?? null
+			},
+			parameters: {
+				resamples: check.resamples,
+				confidence: check.confidence,
+				seed: Number(check.seed),
+				subtractAccidentals: result.backgroundSubtracted
+			},
+			result,
+			uploaded,
+			uploadedFormat: dataset.format
+		},
+		key,
+		evidenceUrls(config().origin, id),
+		{ keys: publishedKeys() }
+	);
+	const verdict = selfCheck(evidence);
+	if (!verdict.valid)
+		throw new InputError(
+			`checkId: this check cannot be certified (${verdict.failedItem}: ${verdict.message}); run the check again`
+		);
+	return { claim, evidence, supersedes };
+}
+
+async function store(
+	database: Database,
+	userId: string,
+	evidence: Evidence,
+	groupId: string,
+	key: SigningKey,
+	transaction: Transaction
+) {
+	const m: EvidenceManifest = evidence.manifest;
+	const id = m.certificateId;
+	const paths = certificatePaths(id);
+	const row: CertificateAttributes = {
+		id,
+		claimId: m.claimId,
+		checkId: m.checkId,
+		fingerprint: evidence.fingerprint,
+		manifest: evidence.manifestText,
+		signature: evidence.signature,
+		keyId: key.id,
+		status: 'valid',
+		supersedes: m.supersedes,
+		supersededBy: null,
+		...paths,
+		pdfSha256: sha256Hex(evidence.pdf),
+		bundleSha256: sha256Hex(evidence.zip),
+		issuedBy: userId,
+		issuedAt: new Date(m.issuedAt)
+	};
+	await database.models.Certificate.create(row, { transaction });
+	const { fingerprint, pdfPath, pdfSha256, bundlePath, bundleSha256, supersedes } = row;
+	const details = {
+		fingerprint,
+		claimId: m.claimId,
+		checkId: m.checkId,
+		supersedes,
+		pdfPath,
+		pdfSha256,
+		bundlePath,
+		bundleSha256,
+		issuedBy: userId
+	};
+	await appendLedger(database, { event: 'issue', certificateId: id, details }, key, transaction);
+	if (supersedes) {
+		await database.models.Certificate.update(
+			{ status: 'superseded', supersededBy: id },
+			{ where: { id: supersedes }, transaction }
+		);
+		await appendLedger(
+			database,
+			{ event: 'supersede', certificateId: supersedes, details: { supersededBy: id } },
+			key,
+			transaction
+		);
+	}
+	await database.models.Claim.update(
+		{ state: 'certified' },
+		{ where: { id: m.claimId }, transaction }
+	);
+	await audit(
+		database,
+		{
+			actorId: userId,
+			groupId,
+			action: 'certificate.issued',
+			subjectType: 'certificate',
+			subjectId: id,
+			details: { fingerprint, supersedes }
+		},
+		transaction
+	);
+	return row;
+}
+
+/**
+ * Issues a certificate for a finished check of the claim. NotFoundError when the claim or check
+ * is out of sight; InputError when the check cannot be certified; on any failure nothing stays.
+ */
+export async function issueCertificate(
+	database: Database,
+	userId: string,
+	claimId: string,
+	checkId: string
+): Promise<CertificateView> {
+	const key = serviceKey();
+	const { claim, evidence, supersedes } = await prepare(database, userId, claimId, checkId, key);
+	const paths = certificatePaths(evidence.manifest.certificateId);
+	let placed: string[] = [];
+	try {
+		const row = await database.sequelize.transaction(async (transaction) => {
+			if ((await currentCertificate(database, claimId, transaction)) !== supersedes)
+				throw new IssueConflictError(
+					'Another certificate was issued for this claim meanwhile; try again.'
+				);
+			const stored = await store(database, userId, evidence, claim.groupId, key, transaction);
+			placed = await placeFiles([
+				[paths.pdfPath, evidence.pdf],
+				[paths.bundlePath, evidence.zip]
+			]);
+			return stored;
+		});
+		return certificateView(row);
+	} catch (error) {
+		await removeFiles(placed);
+		throw error;
+	}
+}
