@@ -18,7 +18,8 @@ function scaleFor(result: CertificationResult, x: number, width: number) {
 	const lo = Math.min(...values);
 	const hi = Math.max(...values);
 	const pad = (hi - lo) * 0.05 || 1;
-	return (v: number) => x + ((v - (lo - pad)) / (hi - lo + 2 * pad)) * width;
+	const at = (v: number) => x + ((v - (lo - pad)) / (hi - lo + 2 * pad)) * width;
+	return { at, lo, hi };
 }
 
 /** Draws the ladder at (x, y) and returns the height used. */
@@ -32,7 +33,7 @@ export function drawLadder(
 	const labelWidth = 70;
 	const plotX = x + labelWidth;
 	const plotWidth = width - labelWidth;
-	const at = scaleFor(result, plotX, plotWidth);
+	const { at, lo, hi } = scaleFor(result, plotX, plotWidth);
 	const rowHeight = 16;
 	const { statistic } = result;
 	result.bounds.forEach((rung, i) => {

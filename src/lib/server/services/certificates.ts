@@ -158,10 +158,8 @@ async function store(
 			transaction
 		);
 	}
-	await database.models.Claim.update(
-		{ state: 'certified' },
-		{ where: { id: m.claimId }, transaction }
-	);
+	const claim = await database.models.Claim.findByPk(m.claimId, { transaction });
+	await claim!.update({ state: 'certified' }, { transaction });
 	await audit(
 		database,
 		{

@@ -21,18 +21,19 @@ export interface LedgerEntryAttributes {
 export type LedgerEntryModel = ModelStatic<Model<LedgerEntryAttributes>>;
 
 export function defineLedgerEntry(sequelize: Sequelize): LedgerEntryModel {
-	const string = { type: DataTypes.STRING, allowNull: false };
+	// A fresh object per column: Sequelize writes the column name into each definition.
+	const string = () => ({ type: DataTypes.STRING, allowNull: false });
 	return sequelize.define(
 		'LedgerEntry',
 		{
 			seq: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: false },
-			event: string,
-			certificateId: string,
+			event: string(),
+			certificateId: string(),
 			payload: { type: DataTypes.TEXT, allowNull: false },
-			prevHash: string,
-			hash: string,
-			keyId: string,
-			signature: string
+			prevHash: string(),
+			hash: string(),
+			keyId: string(),
+			signature: string()
 		},
 		{ tableName: 'ledger_entries', underscored: true, updatedAt: false }
 	);
