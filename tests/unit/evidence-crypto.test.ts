@@ -135,8 +135,6 @@ describe('canonical JSON against RFC 8785', () => {
 				' "1": "One", "\\ud83d\\ude00": "Emoji: Grinning Face", "\\u0080": "Control",' +
 				' "\\u00f6": "Latin Small Letter O With Diaeresis"}'
 		);
-		const order = Object.values(JSON.parse(canonicalJson(input)) as Record<string, string>);
-		// Object.values would reorder "1" (an array index) first anyway; compare the text instead.
 		const text = canonicalJson(input);
 		const positions = [
 			'Carriage Return',
@@ -147,7 +145,7 @@ describe('canonical JSON against RFC 8785', () => {
 			'Emoji: Grinning Face',
 			'Hebrew Letter Dalet With Dagesh'
 		].map((name) => text.indexOf(name));
-		expect(order).toHaveLength(7);
+		expect(positions.every((p) => p >= 0)).toBe(true);
 		expect([...positions].sort((a, b) => a - b)).toEqual(positions);
 	});
 

@@ -196,8 +196,8 @@ export function verifyEvidence(
 		valid: failedItem === null,
 		failedItem,
 		message,
-		certificateId: s.manifest?.certificateId ?? null,
-		fingerprint: s.fingerprint ?? null,
+		certificateId: s.manifest?.certificateId ?? s.contents?.certificateId ?? null,
+		fingerprint: s.fingerprint ?? s.contents?.fingerprint ?? null,
 		keyId: s.keyId ?? null,
 		passed: s.passed
 	});

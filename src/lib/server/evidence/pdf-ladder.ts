@@ -71,13 +71,22 @@ export function drawLadder(
 		.lineTo(plotX + plotWidth, axisY)
 		.lineWidth(0.5)
 		.stroke(INK);
+	for (const v of [lo, hi]) {
+		doc
+			.moveTo(at(v), axisY)
+			.lineTo(at(v), axisY + 3)
+			.stroke(INK);
+		const label = String(Number(v.toPrecision(4)));
+		doc.fillColor(INK).fontSize(7);
+		doc.text(label, at(v) - 30, axisY + 4, { width: 60, align: 'center', lineBreak: false });
+	}
 	doc
 		.fillColor(INK)
 		.fontSize(7.5)
 		.text(
 			'Grey: values reachable with Schmidt number at most k (bar ends at the bound). Green dot: the statistic; line: its 95 % interval; tick: the one-sided lower bound (green when it exceeds the rung).',
 			x,
-			axisY + 4,
+			axisY + 14,
 			{ width }
 		);
 	return doc.y - y;
