@@ -70,6 +70,29 @@ function countsParts(input: EvidenceInput) {
 	return { canonical, counts };
 }
 
+function readmeText(manifest: EvidenceManifest, fingerprint: string, urls: EvidenceUrls) {
+	return fillPlaceholders(readmeSource, {
+		certificateId: manifest.certificateId,
+		fingerprint,
+		keyId: manifest.signingKeyId,
+		keysUrl: urls.keys,
+		verifyUrl: urls.verify,
+		uploadedName: uploadedCountsName(manifest.counts.uploadedFormat).padEnd(22)
+	});
+}
+
+/** Adds the signed list of every file's SHA-256 (contents.json, contents.sig). */
+function signContents(
+	files: EvidenceFiles,
+	fingerprint: string,
+	certificateId: string,
+	key: SigningKey
+) {
+	const listed = contentsText(certificateId, fingerprint, files);
+	files[BUNDLE_FILES.contents] = utf8(listed);
+	files[BUNDLE_FILES.contentsSignature] = utf8(signText(listed, key.secretKey) + '\n');
+}
+
 export async function makeEvidence(
 	input: EvidenceInput,
 	key: SigningKey,
@@ -78,24 +101,12 @@ export async function makeEvidence(
 ): Promise<Evidence> {
 	const { canonical, counts } = countsParts(input);
 	const { uploaded, uploadedFormat, ...rest } = input;
-	const manifest = buildManifest({
-		...rest,
-		counts,
-		signingKeyId: key.id,
-		engineVersion: input.result.engine.version
-	});
+	const engineVersion = input.result.engine.version;
+	const manifest = buildManifest({ ...rest, counts, signingKeyId: key.id, engineVersion });
 	const text = manifestText(manifest);
 	const fingerprint = fingerprintOf(text);
 	const signature = signText(text, key.secretKey);
 	const pdf = await certificatePdf({ manifest, fingerprint, signature, verifyUrl: urls.verify });
-	const readme = fillPlaceholders(readmeSource, {
-		certificateId: manifest.certificateId,
-		fingerprint,
-		keyId: key.id,
-		keysUrl: urls.keys,
-		verifyUrl: urls.verify,
-		uploadedName: uploadedCountsName(uploadedFormat).padEnd(22)
-	});
 	const files: EvidenceFiles = {
 		[uploadedCountsName(uploadedFormat)]: uploaded,
 		[BUNDLE_FILES.canonicalCounts]: utf8(canonical),
@@ -105,17 +116,12 @@ export async function makeEvidence(
 		[BUNDLE_FILES.signingKeys]: utf8(JSON.stringify(published, null, '\t') + '\n'),
 		[BUNDLE_FILES.result]: utf8(canonicalJson(manifest.result)),
 		[BUNDLE_FILES.pdf]: pdf,
-		[BUNDLE_FILES.readme]: utf8(readme),
+		[BUNDLE_FILES.readme]: utf8(readmeText(manifest, fingerprint, urls)),
 		[BUNDLE_FILES.verifier]: await verifierBytes()
 	};
-	const listed = contentsText(manifest.certificateId, fingerprint, files);
-	files[BUNDLE_FILES.contents] = utf8(listed);
-	files[BUNDLE_FILES.contentsSignature] = utf8(signText(listed, key.secretKey) + '\n');
-	const zip = await zipFiles(
-		files,
-		new Date(manifest.issuedAt),
-		`rankseal-${manifest.certificateId}`
-	);
+	signContents(files, fingerprint, manifest.certificateId, key);
+	const folder = `rankseal-${manifest.certificateId}`;
+	const zip = await zipFiles(files, new Date(manifest.issuedAt), folder);
 	return { manifest, manifestText: text, fingerprint, signature, pdf, files, zip };
 }
 

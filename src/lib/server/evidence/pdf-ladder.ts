@@ -22,50 +22,47 @@ function scaleFor(result: CertificationResult, x: number, width: number) {
 	return { at, lo, hi };
 }
 
-/** Draws the ladder at (x, y) and returns the height used. */
-export function drawLadder(
+const LABEL_WIDTH = 70;
+const ROW_HEIGHT = 16;
+
+type Scale = ReturnType<typeof scaleFor>;
+
+/** One rung: the reachable region up to its bound, and the statistic drawn against it. */
+function drawRung(
 	doc: Doc,
 	result: CertificationResult,
+	i: number,
+	at: Scale['at'],
 	x: number,
-	y: number,
-	width: number
+	top: number
 ) {
-	const labelWidth = 70;
-	const plotX = x + labelWidth;
-	const plotWidth = width - labelWidth;
-	const { at, lo, hi } = scaleFor(result, plotX, plotWidth);
-	const rowHeight = 16;
+	const rung = result.bounds[i];
 	const { statistic } = result;
-	result.bounds.forEach((rung, i) => {
-		const top = y + i * rowHeight;
-		const certified = statistic.lower > rung.bound;
-		doc
-			.fillColor(INK)
-			.fontSize(8)
-			.text(`k = ${rung.upToSchmidtNumber}`, x, top + 3, {
-				width: labelWidth - 6,
-				lineBreak: false
-			});
-		doc.rect(plotX, top + 3, at(rung.bound) - plotX, rowHeight - 6).fill(REACH);
-		doc
-			.moveTo(at(rung.bound), top + 1)
-			.lineTo(at(rung.bound), top + rowHeight - 1)
-			.lineWidth(1)
-			.stroke(INK);
-		const mid = top + rowHeight / 2;
-		doc
-			.moveTo(at(statistic.interval95[0]), mid)
-			.lineTo(at(statistic.interval95[1]), mid)
-			.lineWidth(1.2)
-			.stroke(MARK);
-		doc.circle(at(statistic.value), mid, 2.4).fill(MARK);
-		doc
-			.moveTo(at(statistic.lower), mid - 4)
-			.lineTo(at(statistic.lower), mid + 4)
-			.lineWidth(1.5)
-			.stroke(certified ? MARK : '#a33a1f');
+	const plotX = x + LABEL_WIDTH;
+	doc.fillColor(INK).fontSize(8);
+	doc.text(`k = ${rung.upToSchmidtNumber}`, x, top + 3, {
+		width: LABEL_WIDTH - 6,
+		lineBreak: false
 	});
-	const axisY = y + result.bounds.length * rowHeight + 4;
+	doc.rect(plotX, top + 3, at(rung.bound) - plotX, ROW_HEIGHT - 6).fill(REACH);
+	doc.moveTo(at(rung.bound), top + 1).lineTo(at(rung.bound), top + ROW_HEIGHT - 1);
+	doc.lineWidth(1).stroke(INK);
+	const mid = top + ROW_HEIGHT / 2;
+	doc.moveTo(at(statistic.interval95[0]), mid).lineTo(at(statistic.interval95[1]), mid);
+	doc.lineWidth(1.2).stroke(MARK);
+	doc.circle(at(statistic.value), mid, 2.4).fill(MARK);
+	doc.moveTo(at(statistic.lower), mid - 4).lineTo(at(statistic.lower), mid + 4);
+	doc.lineWidth(1.5).stroke(statistic.lower > rung.bound ? MARK : '#a33a1f');
+}
+
+/** The value axis under the rungs with its two end labels. */
+function drawAxis(
+	doc: Doc,
+	{ at, lo, hi }: Scale,
+	plotX: number,
+	plotWidth: number,
+	axisY: number
+) {
 	doc
 		.moveTo(plotX, axisY)
 		.lineTo(plotX + plotWidth, axisY)
@@ -80,14 +77,28 @@ export function drawLadder(
 		doc.fillColor(INK).fontSize(7);
 		doc.text(label, at(v) - 30, axisY + 4, { width: 60, align: 'center', lineBreak: false });
 	}
+}
+
+const LEGEND =
+	'Grey: values reachable with Schmidt number at most k (bar ends at the bound). Green dot: the statistic; line: its 95 % interval; tick: the one-sided lower bound (green when it exceeds the rung).';
+
+/** Draws the ladder at (x, y) and returns the height used. */
+export function drawLadder(
+	doc: Doc,
+	result: CertificationResult,
+	x: number,
+	y: number,
+	width: number
+) {
+	const plotX = x + LABEL_WIDTH;
+	const plotWidth = width - LABEL_WIDTH;
+	const scale = scaleFor(result, plotX, plotWidth);
+	result.bounds.forEach((_, i) => drawRung(doc, result, i, scale.at, x, y + i * ROW_HEIGHT));
+	const axisY = y + result.bounds.length * ROW_HEIGHT + 4;
+	drawAxis(doc, scale, plotX, plotWidth, axisY);
 	doc
 		.fillColor(INK)
 		.fontSize(7.5)
-		.text(
-			'Grey: values reachable with Schmidt number at most k (bar ends at the bound). Green dot: the statistic; line: its 95 % interval; tick: the one-sided lower bound (green when it exceeds the rung).',
-			x,
-			axisY + 14,
-			{ width }
-		);
+		.text(LEGEND, x, axisY + 14, { width });
 	return doc.y - y;
 }

@@ -6,15 +6,15 @@ import { readFile } from 'node:fs/promises';
 import type { Transaction } from 'sequelize';
 import { InputError } from '../../certify';
 import { sha256Hex } from '../../evidence/hash';
-import type { EvidenceManifest } from '../../evidence/manifest';
 import { config } from '../config';
 import type { Database } from '../db';
-import type { CertificateAttributes } from '../db/models/Certificate';
-import { makeEvidence, selfCheck, type Evidence } from '../evidence/artifacts';
+import type { ClaimAttributes } from '../db/models/Claim';
+import { makeEvidence, selfCheck, type Evidence, type EvidenceInput } from '../evidence/artifacts';
 import { publishedKeys, serviceKey } from '../evidence/keys';
 import type { SigningKey } from '../../evidence/signing';
 import { audit } from './audit';
 import { certificatePaths, placeFiles, removeFiles } from './certificate-files';
+import { certificateRow, issueDetails } from './certificate-rows';
 import { certificateView, evidenceUrls, type CertificateView } from './certificate-views';
 import { requireVisibleClaim } from './claims';
 import { datasetFilePath } from './datasets';
@@ -54,6 +54,43 @@ async function currentCertificate(database: Database, claimId: string, transacti
 	return (row?.get('id') as string | undefined) ?? null;
 }
 
+type CheckSource = Awaited<ReturnType<typeof finishedCheck>>;
+
+/** What the manifest records: the claim as it stands, the check's settings and its result. */
+function evidenceInput(
+	claim: ClaimAttributes,
+	{ check, dataset, uploaded }: CheckSource,
+	certificateId: string,
+	supersedes: string | null
+): EvidenceInput {
+	const result = check.result!;
+	return {
+		certificateId,
+		issuedAt: new Date().toISOString(),
+		claimId: claim.id,
+		checkId: check.id,
+		supersedes,
+		claim: {
+			title: claim.title,
+			dimension: claim.dimension,
+			method: claim.method,
+			bases: claim.bases,
+			fourier: (claim as { fourier?: string | null }).fourier ?? null,
+			claimedSchmidtNumber: claim.claimedSchmidtNumber,
+			manuscriptReference: claim.manuscriptReference ?? null
+		},
+		parameters: {
+			resamples: check.resamples,
+			confidence: check.confidence,
+			seed: Number(check.seed),
+			subtractAccidentals: result.backgroundSubtracted
+		},
+		result,
+		uploaded,
+		uploadedFormat: dataset.format
+	};
+}
+
 async function prepare(
 	database: Database,
 	userId: string,
@@ -62,40 +99,12 @@ async function prepare(
 	key: SigningKey
 ) {
 	const claim = await requireVisibleClaim(database, userId, claimId);
-	const { check, dataset, uploaded } = await finishedCheck(database, claimId, checkId);
+	const source = await finishedCheck(database, claimId, checkId);
 	const id = newId();
 	const supersedes = await currentCertificate(database, claimId);
-	const result = check.result!;
-	const evidence = await makeEvidence(
-		{
-			certificateId: id,
-			issuedAt: new Date().toISOString(),
-			claimId,
-			checkId,
-			supersedes,
-			claim: {
-				title: claim.title,
-				dimension: claim.dimension,
-				method: claim.method,
-				bases: claim.bases,
-				fourier: (claim as { fourier?: string | null }).fourier ?? null,
-				claimedSchmidtNumber: claim.claimedSchmidtNumber,
-				manuscriptReference: claim.manuscriptReference ?? null
-			},
-			parameters: {
-				resamples: check.resamples,
-				confidence: check.confidence,
-				seed: Number(check.seed),
-				subtractAccidentals: result.backgroundSubtracted
-			},
-			result,
-			uploaded,
-			uploadedFormat: dataset.format
-		},
-		key,
-		evidenceUrls(config().origin, id),
-		{ keys: publishedKeys() }
-	);
+	const input = evidenceInput(claim, source, id, supersedes);
+	const urls = evidenceUrls(config().origin, id);
+	const evidence = await makeEvidence(input, key, urls, { keys: publishedKeys() });
 	const verdict = selfCheck(evidence);
 	if (!verdict.valid)
 		throw new InputError(
@@ -112,66 +121,24 @@ async function store(
 	key: SigningKey,
 	transaction: Transaction
 ) {
-	const m: EvidenceManifest = evidence.manifest;
-	const id = m.certificateId;
-	const paths = certificatePaths(id);
-	const row: CertificateAttributes = {
-		id,
-		claimId: m.claimId,
-		checkId: m.checkId,
-		fingerprint: evidence.fingerprint,
-		manifest: evidence.manifestText,
-		signature: evidence.signature,
-		keyId: key.id,
-		status: 'valid',
-		supersedes: m.supersedes,
-		supersededBy: null,
-		...paths,
-		pdfSha256: sha256Hex(evidence.pdf),
-		bundleSha256: sha256Hex(evidence.zip),
-		issuedBy: userId,
-		issuedAt: new Date(m.issuedAt)
-	};
+	const row = certificateRow(evidence, key.id, userId);
+	const { id, supersedes, fingerprint } = row;
 	await database.models.Certificate.create(row, { transaction });
-	const { fingerprint, pdfPath, pdfSha256, bundlePath, bundleSha256, supersedes } = row;
-	const details = {
-		fingerprint,
-		claimId: m.claimId,
-		checkId: m.checkId,
-		supersedes,
-		pdfPath,
-		pdfSha256,
-		bundlePath,
-		bundleSha256,
-		issuedBy: userId
-	};
+	const details = issueDetails(row);
 	await appendLedger(database, { event: 'issue', certificateId: id, details }, key, transaction);
 	if (supersedes) {
 		await database.models.Certificate.update(
 			{ status: 'superseded', supersededBy: id },
 			{ where: { id: supersedes }, transaction }
 		);
-		await appendLedger(
-			database,
-			{ event: 'supersede', certificateId: supersedes, details: { supersededBy: id } },
-			key,
-			transaction
-		);
+		const event = { event: 'supersede' as const, certificateId: supersedes };
+		await appendLedger(database, { ...event, details: { supersededBy: id } }, key, transaction);
 	}
-	const claim = await database.models.Claim.findByPk(m.claimId, { transaction });
+	const claim = await database.models.Claim.findByPk(row.claimId, { transaction });
 	await claim!.update({ state: 'certified' }, { transaction });
-	await audit(
-		database,
-		{
-			actorId: userId,
-			groupId,
-			action: 'certificate.issued',
-			subjectType: 'certificate',
-			subjectId: id,
-			details: { fingerprint, supersedes }
-		},
-		transaction
-	);
+	const entry = { actorId: userId, groupId, subjectType: 'certificate', subjectId: id };
+	const action = 'certificate.issued';
+	await audit(database, { ...entry, action, details: { fingerprint, supersedes } }, transaction);
 	return row;
 }
 
