@@ -17,7 +17,7 @@ import { verifyEvidence } from '../../src/lib/evidence/verify';
 import { makeEvidence } from '../../src/lib/server/evidence/artifacts';
 import { publishedKeys, rotateServiceKey, serviceKey } from '../../src/lib/server/evidence/keys';
 import { bundleVerifier } from '../../src/lib/server/evidence/verifier-file';
-import { readZip } from '../../src/lib/server/evidence/zip-read';
+import { readZip, ZipError } from '../../src/lib/server/evidence/zip-read';
 import { zipFiles } from '../../src/lib/server/evidence/zip-write';
 import { issueCertificate } from '../../src/lib/server/services/certificates';
 import { certificateFile } from '../../src/lib/server/services/certificate-reads';
@@ -91,6 +91,8 @@ describe('a genuine bundle', () => {
 		);
 		for (const [name, bytes] of Object.entries(files))
 			expect(Buffer.compare(readFileSync(path.join(folder, name)), Buffer.from(bytes))).toBe(0);
+		expect(() => readZip(Buffer.from('not a zip at all'))).toThrow(ZipError);
+		expect(() => readZip(zip.subarray(0, zip.length - 30))).toThrow(ZipError);
 	});
 
 	it('passes verify.mjs in the unzipped folder and npm run verify on the zip, with the same report', () => {

@@ -7,6 +7,9 @@ import type { EvidenceFiles } from '../../evidence/layout';
 
 export class ZipError extends Error {}
 
+/** No bundle file comes near this; a larger entry is refused rather than inflated. */
+const MAX_ENTRY_BYTES = 64 * 1024 * 1024;
+
 function endOfCentralDirectory(zip: Buffer): number {
 	for (let i = zip.length - 22; i >= Math.max(0, zip.length - 22 - 0xffff); i--)
 		if (zip.readUInt32LE(i) === 0x06054b50) return i;
@@ -18,11 +21,17 @@ function entryBytes(zip: Buffer, local: number, method: number, size: number): B
 	const start = local + 30 + zip.readUInt16LE(local + 26) + zip.readUInt16LE(local + 28);
 	const raw = zip.subarray(start, start + size);
 	if (method === 0) return Buffer.from(raw);
-	if (method === 8) return inflateRawSync(raw);
+	if (method === 8) {
+		try {
+			return inflateRawSync(raw, { maxOutputLength: MAX_ENTRY_BYTES });
+		} catch (error) {
+			throw new ZipError(`an entry cannot be inflated: ${(error as Error).message}`);
+		}
+	}
 	throw new ZipError(`unsupported compression method ${method}`);
 }
 
-export function readZip(zip: Buffer): EvidenceFiles {
+function readEntries(zip: Buffer): EvidenceFiles {
 	const end = endOfCentralDirectory(zip);
 	const count = zip.readUInt16LE(end + 10);
 	let at = zip.readUInt32LE(end + 16);
@@ -42,4 +51,14 @@ export function readZip(zip: Buffer): EvidenceFiles {
 		files[base] = entryBytes(zip, local, method, compressed);
 	}
 	return files;
+}
+
+export function readZip(zip: Buffer): EvidenceFiles {
+	try {
+		return readEntries(zip);
+	} catch (error) {
+		// Offsets pointing past the end surface as RangeError: the archive is damaged.
+		if (error instanceof ZipError) throw error;
+		throw new ZipError('not a readable zip archive');
+	}
 }
