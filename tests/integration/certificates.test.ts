@@ -12,7 +12,7 @@ import {
 } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { InputError } from '../../src/lib/certify';
 import { bundleVerifier } from '../../src/lib/server/evidence/verifier-file';
 import { publishedKeys, serviceKey } from '../../src/lib/server/evidence/keys';
@@ -28,6 +28,9 @@ import { ForbiddenError, NotFoundError } from '../../src/lib/server/services/err
 import { listLedger } from '../../src/lib/server/services/ledger';
 import { verifyLedger } from '../../src/lib/server/services/ledger-verify';
 import { evidenceWorld, finishedCheck, type EvidenceWorld } from './evidence-world';
+
+// Safety limits for bundling, issuing and Node child processes on a busy machine, not speed checks.
+vi.setConfig({ testTimeout: 900_000, hookTimeout: 600_000 });
 
 let world: EvidenceWorld;
 let verifierFolder: string;

@@ -8,7 +8,7 @@ import { createHash } from 'node:crypto';
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { canonicalJson } from '../../src/lib/evidence/canonical';
 import { BUNDLE_FILES, contentsText, type EvidenceFiles } from '../../src/lib/evidence/layout';
 import type { EvidenceManifest } from '../../src/lib/evidence/manifest';
@@ -23,6 +23,9 @@ import { issueCertificate } from '../../src/lib/server/services/certificates';
 import { certificateFile } from '../../src/lib/server/services/certificate-reads';
 import { verifyLedger } from '../../src/lib/server/services/ledger-verify';
 import { evidenceWorld, finishedCheck, type EvidenceWorld } from './evidence-world';
+
+// Safety limits for bundling, issuing and Node child processes on a busy machine, not speed checks.
+vi.setConfig({ testTimeout: 900_000, hookTimeout: 600_000 });
 
 let world: EvidenceWorld;
 let scratch: string;
@@ -146,7 +149,7 @@ describe('tampering', () => {
 		expect(reports).toHaveLength(100);
 		reports.forEach((report, i) => expect(report, zips[i]).toMatch(/^FAIL at /m));
 		expect(cli.out).not.toMatch(/^PASS/m);
-	}, 900_000); // a safety limit for 100 Node runs on a busy machine, not a speed check
+	});
 
 	it('gives the same report and status from npm run verify as from verify.mjs', async () => {
 		const zipPath = path.join(scratch, 'tampered.zip');

@@ -4,12 +4,15 @@ import { mkdirSync, mkdtempSync, readdirSync, rmSync, writeFileSync } from 'node
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { QueryTypes } from 'sequelize';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { bundleVerifier } from '../../src/lib/server/evidence/verifier-file';
 import { sweepOrphanFiles } from '../../src/lib/server/services/certificate-files';
 import { issueCertificate, type CertificateView } from '../../src/lib/server/services/certificates';
 import { verifyLedger } from '../../src/lib/server/services/ledger-verify';
 import { evidenceWorld, finishedCheck, type EvidenceWorld } from './evidence-world';
+
+// Safety limits for bundling, issuing and Node child processes on a busy machine, not speed checks.
+vi.setConfig({ testTimeout: 900_000, hookTimeout: 600_000 });
 
 let world: EvidenceWorld;
 let scratch: string;
