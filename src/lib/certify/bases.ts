@@ -78,6 +78,19 @@ export function basisProblem(d: number, t: number, fourier: FourierConvention): 
 	return `basis ${t} does not exist in dimension ${d}`;
 }
 
+/**
+ * How outcomes are named on charts: 0..d−1 under cyclic; under field in d = p^s, s ≥ 2 the
+ * base-p digits of the field element (most significant first), e.g. "12" for 1·3 + 2 in d = 9.
+ */
+export function outcomeLabels(d: number, fourier: FourierConvention = DEFAULT_FOURIER): string[] {
+	const pp = primePower(d);
+	if (fourier === 'cyclic' || !pp || pp.exponent === 1)
+		return Array.from({ length: d }, (_, m) => String(m));
+	return Array.from({ length: d }, (_, m) =>
+		m.toString(pp.prime).padStart(pp.exponent, '0').toUpperCase()
+	);
+}
+
 /** (m − n) in the convention's label group: mod d for cyclic, digit-wise mod p for field. */
 export function labelDifference(
 	d: number,

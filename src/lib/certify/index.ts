@@ -8,6 +8,7 @@ export {
 	fourierProblem,
 	isFourierConvention,
 	largestOverlapError,
+	outcomeLabels,
 	MAX_DIMENSION,
 	MIN_DIMENSION,
 	type FourierConvention
