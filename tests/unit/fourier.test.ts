@@ -8,7 +8,8 @@ import {
 	availableBases,
 	basisVectors,
 	largestOverlapError,
-	labelDifference
+	labelDifference,
+	outcomeLabels
 } from '../../src/lib/certify/bases';
 import {
 	certify,
@@ -83,6 +84,24 @@ describe('cyclic Fourier basis in every dimension (witnesses.md §2)', () => {
 	it('field exists only for prime powers', () => {
 		expect(availableBases(6, 'field')).toEqual([]);
 		expect(() => basisVectors(6, 1, 'field')).toThrow(/prime-power dimension/);
+	});
+
+	it('names outcomes by base-p digits under field (heat-map labels), 0..d−1 otherwise', () => {
+		// 9 = 3²: 5 = 1·3 + 2 → "12"; 8 = 2³: 6 = 1·4 + 1·2 + 0 → "110" (positional base p).
+		expect(outcomeLabels(9, 'field')).toEqual([
+			'00',
+			'01',
+			'02',
+			'10',
+			'11',
+			'12',
+			'20',
+			'21',
+			'22'
+		]);
+		expect(outcomeLabels(8, 'field')[6]).toBe('110');
+		expect(outcomeLabels(9, 'cyclic')).toEqual(['0', '1', '2', '3', '4', '5', '6', '7', '8']);
+		expect(outcomeLabels(7, 'field')).toEqual(outcomeLabels(7, 'cyclic'));
 	});
 
 	it('pairs cells mod d (cyclic) or digit-wise mod p (field)', () => {
