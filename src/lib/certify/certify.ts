@@ -212,7 +212,7 @@ function fourierOf(dataset: CountsDataset, requested: unknown): FourierConventio
 	const fourier = requested ?? dataset.declaredFourier?.convention ?? DEFAULT_FOURIER;
 	const problem = fourierProblem(dataset.dimension, fourier);
 	if (problem) throw new InputError(problem);
-	checkDeclaredFourier(dataset, fourier, `the check (fourier=${fourier})`);
+	checkDeclaredFourier(dataset, fourier, 'the check');
 	return fourier;
 }
 
