@@ -220,6 +220,13 @@ describe('the convention in certify() and in JSON counts files', () => {
 		expect(ok.fourier).toBe('field');
 	});
 
+	it('d = 4: the cyclic transform cannot be combined with bases 2, 3, 4 (issue 6 §5)', () => {
+		const all = expectedCounts(states.spectrum(4, [1]), [0, 1, 2, 3, 4], 1e6, 'field');
+		expect(() => certify(all, { method: 'mub-correlation' })).toThrow(
+			/bases: basis 2 in d = 4 exists only with fourier=field/
+		);
+	});
+
 	it('fourier=field in d = 6 is refused', () => {
 		const d6 = expectedCounts(states.isotropic(6, 0.9), [0, 1], 1e6);
 		expect(() => certify(d6, { method: 'fidelity-two-basis', fourier: 'field' })).toThrow(
