@@ -2,7 +2,14 @@
  * The evidence manifest: what was certified, from which bytes, with which settings, and the full
  * result. Its canonical JSON text is what gets signed; the SHA-256 of that text is the fingerprint.
  */
-import type { CertificationResult, CertifyOptions, CountsDataset, MethodId } from '../certify';
+import {
+	DEFAULT_FOURIER,
+	type CertificationResult,
+	type CertifyOptions,
+	type CountsDataset,
+	type FourierConvention,
+	type MethodId
+} from '../certify';
 import { canonicalJson, jsonRoundTrip } from './canonical';
 import { sha256Hex } from './hash';
 
@@ -14,7 +21,7 @@ export interface EvidenceClaim {
 	method: MethodId;
 	bases: number[];
 	/** Which Fourier basis basis 1 denotes: the cyclic one unless the claim says otherwise. */
-	fourier: string;
+	fourier: FourierConvention;
 	claimedSchmidtNumber: number;
 	manuscriptReference: string | null;
 }
@@ -51,7 +58,7 @@ export interface EvidenceManifest {
 }
 
 export type ManifestInput = Omit<EvidenceManifest, 'format' | 'result' | 'claim'> & {
-	claim: Omit<EvidenceClaim, 'fourier'> & { fourier?: string | null };
+	claim: Omit<EvidenceClaim, 'fourier'> & { fourier?: FourierConvention | null };
 	result: CertificationResult;
 };
 
@@ -60,7 +67,7 @@ export function buildManifest(input: ManifestInput): EvidenceManifest {
 	return jsonRoundTrip({
 		format: MANIFEST_FORMAT,
 		...input,
-		claim: { ...input.claim, fourier: input.claim.fourier ?? 'cyclic' }
+		claim: { ...input.claim, fourier: input.claim.fourier ?? DEFAULT_FOURIER }
 	});
 }
 
@@ -75,6 +82,7 @@ export function certifyOptionsOf(manifest: EvidenceManifest): CertifyOptions {
 	return {
 		method: claim.method,
 		bases: claim.bases,
+		fourier: claim.fourier,
 		resamples: parameters.resamples,
 		confidence: parameters.confidence,
 		seed: parameters.seed,
@@ -91,12 +99,13 @@ const matrix = (values: Float64Array, present: Uint8Array, d: number) =>
 
 /**
  * The counts as parsed, in the JSON counts form written canonically (cells the file left out are
- * null): two files with the same numbers give the same text whatever their layout.
+ * null; a declared Fourier convention kept): the same numbers give the same text whatever the layout.
  */
 export function canonicalCountsText(dataset: CountsDataset): string {
 	const d = dataset.dimension;
 	return canonicalJson({
 		dimension: d,
+		...(dataset.declaredFourier ? { fourier: dataset.declaredFourier.convention } : {}),
 		tables: dataset.tables.map((t) => ({
 			basis: t.basis,
 			counts: matrix(t.counts, t.present, d),

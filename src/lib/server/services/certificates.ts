@@ -75,7 +75,7 @@ function evidenceInput(
 			dimension: claim.dimension,
 			method: claim.method,
 			bases: claim.bases,
-			fourier: (claim as { fourier?: string | null }).fourier ?? null,
+			fourier: claim.fourier,
 			claimedSchmidtNumber: claim.claimedSchmidtNumber,
 			manuscriptReference: claim.manuscriptReference ?? null
 		},
