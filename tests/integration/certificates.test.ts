@@ -27,6 +27,12 @@ import {
 import { ForbiddenError, NotFoundError } from '../../src/lib/server/services/errors';
 import { listLedger } from '../../src/lib/server/services/ledger';
 import { verifyLedger } from '../../src/lib/server/services/ledger-verify';
+import { sampledCounts, states, toCountsCsv } from '../../src/lib/certify';
+import { verifyEvidence } from '../../src/lib/evidence/verify';
+import { readZip } from '../../src/lib/server/evidence/zip-read';
+import { createClaim } from '../../src/lib/server/services/claims';
+import { addDataset } from '../../src/lib/server/services/datasets';
+import { bytesOf, claimFields } from './backend-fixtures';
 import { evidenceWorld, finishedCheck, type EvidenceWorld } from './evidence-world';
 
 // Safety limits for bundling, issuing and Node child processes on a busy machine, not speed checks.
@@ -194,6 +200,31 @@ describe('issuing a certificate', () => {
 			supersededBy: null
 		});
 		expect(await verifyLedger(world.database)).toMatchObject({ valid: true });
+	});
+});
+
+describe('the Fourier convention', () => {
+	it('records a field-convention claim in d = 4 and reproduces it with that convention', async () => {
+		const claim = await createClaim(world.database, world.author, {
+			...claimFields,
+			title: 'Field Fourier basis, d = 4',
+			dimension: 4,
+			fourier: 'field'
+		});
+		const counts = sampledCounts(states.isotropic(4, 0.9), [0, 1], 40_000, 5, 'field');
+		const dataset = await addDataset(world.database, world.author, claim.id, {
+			bytes: bytesOf(toCountsCsv(counts)),
+			originalName: 'field.csv'
+		});
+		const on = { claimId: claim.id, datasetId: dataset.id };
+		const check = await finishedCheck(world, 41, 400, on);
+		expect(check.result.fourier).toBe('field');
+		const cert = await issueCertificate(world.database, world.author, claim.id, check.id);
+		const bundle = await certificateFile(world.database, world.author, cert.id, 'bundle');
+		const files = readZip(bundle.bytes);
+		const manifest = JSON.parse(new TextDecoder().decode(files['manifest.json']));
+		expect(manifest.claim.fourier).toBe('field');
+		expect(verifyEvidence(files)).toMatchObject({ valid: true });
 	});
 });
 

@@ -43,14 +43,21 @@ export async function evidenceWorld(): Promise<EvidenceWorld> {
 }
 
 /** A done check with the engine's result for these settings (what the runner stores). */
-export async function finishedCheck(world: EvidenceWorld, seed: number, resamples = 400) {
-	const { database, claimId, datasetId, author } = world;
+export async function finishedCheck(
+	world: EvidenceWorld,
+	seed: number,
+	resamples = 400,
+	on = { claimId: world.claimId, datasetId: world.datasetId }
+) {
+	const { database, author } = world;
+	const { claimId, datasetId } = on;
 	const claim = (await database.models.Claim.findByPk(claimId))!.get({ plain: true });
 	const dataset = (await database.models.Dataset.findByPk(datasetId))!.get({ plain: true });
 	const bytes = readFileSync(datasetFilePath(dataset.sha256));
 	const result = certify(parseCounts(bytes, claim.dimension), {
 		method: claim.method,
 		bases: claim.bases,
+		fourier: claim.fourier,
 		resamples,
 		confidence: 0.99,
 		seed,
