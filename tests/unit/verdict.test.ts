@@ -15,9 +15,22 @@ describe('verdict on a claim (witnesses.md §5)', () => {
 	/** Tables whose matching fraction is exactly p in bases 0 and 1 (the statistic needs only the totals). */
 	function matchingFraction(d: number, p: number, total: number) {
 		const tables = [0, 1].map((basis) => {
+			// Spread over the cells so that no marginal is impossible for a quantum state (physical.ts).
 			const counts = new Float64Array(d * d);
-			counts[0] = Math.round(p * total);
-			counts[1] = total - counts[0];
+			const diagonal = Math.round(p * total);
+			const spread = (sum: number, cells: number[]) =>
+				cells.forEach(
+					(c, i) => (counts[c] = Math.floor(sum / cells.length) + (i < sum % cells.length ? 1 : 0))
+				);
+			const cells = Array.from({ length: d * d }, (_, c) => c);
+			spread(
+				diagonal,
+				cells.filter((c) => c % (d + 1) === 0)
+			);
+			spread(
+				total - diagonal,
+				cells.filter((c) => c % (d + 1) !== 0)
+			);
 			return {
 				basis,
 				counts,

@@ -2,17 +2,17 @@
  * From count tables and a method to a Schmidt-number certificate (witnesses.md §3–§7).
  */
 import normalQuantile from '@stdlib/stats-base-dists-normal-quantile';
-import { bootstrapReplicates, summariseReplicates } from './bootstrap';
-import { hasUnequalDurations, perCellModel } from './cell-model';
+import { hasUnequalDurations } from './cell-model';
 import { InputError, requireCompleteTables, type CountsDataset } from './counts';
 import { claimVerdict, ladderPosition, marginsInStandardErrors, type ClaimVerdict } from './ladder';
-import { deltaMethodStandardError } from './model';
-import { primePower } from './finite-field';
+import { checkQuantumMarginals, type EntropicSum } from './physical';
 import { checkSeed } from './poisson';
+import { correlationSumBound, fidelityBound, type StatisticBound } from './statistic-bound';
+import { warningsFor } from './warnings';
 import { noiseScale, visibilityOf } from './visibility';
 import { isMethodId, witnessFamilies, type MethodId, type Trust } from './witnesses';
 
-export const ENGINE_VERSION = '1.0.0';
+export const ENGINE_VERSION = '2.0.0';
 
 export const DEFAULTS = { confidence: 0.99865, resamples: 10_000, seed: 1 } as const;
 
@@ -40,13 +40,7 @@ export interface CertificationResult {
 	method: MethodId;
 	dimension: number;
 	bases: number[];
-	statistic: {
-		value: number;
-		standardError: number;
-		lower: number;
-		interval95: [number, number];
-		deltaMethodStandardError: number;
-	};
+	statistic: StatisticBound;
 	bounds: BoundRung[];
 	pointSchmidtNumber: number;
 	certifiedSchmidtNumber: number;
@@ -63,8 +57,10 @@ export interface CertificationResult {
 	backgroundSubtracted: boolean;
 	resampling: 'sufficient-totals' | 'per-cell';
 	totalCounts: number;
+	/** Plug-in Maassen–Uffink sums on each trusted side (information; the refusal test is exact). */
+	entropicSums: EntropicSum[];
 	warnings: string[];
-	engine: { version: string; generator: string; poisson: string };
+	engine: { version: string; generator: string; poisson: string; gamma: string };
 }
 
 function checkOptions(options: CertifyOptions, d: number) {
@@ -112,32 +108,36 @@ export function certify(dataset: CountsDataset, options: CertifyOptions): Certif
 	if (options.subtractAccidentals && !subtract)
 		throw new InputError('subtracting accidentals needs an accidentals column');
 	const rates = hasUnequalDurations(tables);
-	const model =
-		subtract || rates
-			? perCellModel(tables, d, (p) => family.statistic(p, d, bases), {
-					subtractAccidentals: subtract
-				})
-			: family.sufficientModel(tables, d, bases);
-	const value = model.statistic(model.means);
-	const replicates = bootstrapReplicates(model, {
+	const entropicSums = rates
+		? []
+		: checkQuantumMarginals(tables, d, family.trust === 'device-dependent' ? ['A', 'B'] : ['B']);
+	const fidelity = method === 'fidelity-two-basis';
+	const statistic = (fidelity ? fidelityBound : correlationSumBound)({
+		family,
+		tables,
+		d,
+		bases,
+		confidence,
 		resamples,
 		seed,
-		onProgress: options.onProgress
+		onProgress: options.onProgress,
+		perCell: subtract || rates,
+		subtractAccidentals: subtract
 	});
-	const summary = summariseReplicates(replicates, confidence);
+	const { value, lower, standardError } = statistic;
 	const bounds = family.bounds(d, bases);
 	const scale = noiseScale(family, d, bases);
-	const margins = marginsInStandardErrors(value, bounds, summary.standardError);
+	const margins = marginsInStandardErrors(value, bounds, standardError);
 	const criticalVisibilities = bounds.map((b) => visibilityOf(b, scale));
-	const certified = ladderPosition(summary.lower, bounds);
+	const certified = ladderPosition(lower, bounds);
 	const effectiveVisibility = visibilityOf(value, scale);
 	const totalCounts = tables.reduce((s, t) => s + t.counts.reduce((a, c) => a + c, 0), 0);
-	const extras = family.extras?.(value, summary.lower, d);
+	const extras = family.extras?.(value, lower, d);
 	return {
 		method,
 		dimension: d,
 		bases,
-		statistic: { value, ...summary, deltaMethodStandardError: deltaMethodStandardError(model) },
+		statistic,
 		bounds: bounds.map((bound, i) => ({
 			upToSchmidtNumber: i + 1,
 			bound,
@@ -157,12 +157,14 @@ export function certify(dataset: CountsDataset, options: CertifyOptions): Certif
 						claim,
 						certified,
 						value,
-						standardError: summary.standardError,
+						boundBasisValue: statistic.floorValue ?? value,
+						boundBasisName: fidelity ? 'the floor P₀ + P₁ − 1' : 'the statistic',
+						standardError,
 						bounds,
 						criticalVisibilities,
 						effectiveVisibility,
 						totalCounts,
-						z: normalQuantile(confidence, 0, 1)
+						z: normalQuantile(fidelity ? 1 - (1 - confidence) / 2 : confidence, 0, 1)
 					}),
 		effectiveVisibility,
 		steeringRobustness: extras
@@ -174,49 +176,15 @@ export function certify(dataset: CountsDataset, options: CertifyOptions): Certif
 		backgroundSubtracted: subtract,
 		resampling: subtract || rates ? 'per-cell' : 'sufficient-totals',
 		totalCounts,
-		warnings: warningsFor({
-			subtract,
-			rates,
-			resamples,
-			confidence,
-			fieldFourier: fieldFourierMatters(method, d)
-		}),
+		entropicSums,
+		warnings: warningsFor({ method, d, subtract, rates, resamples, confidence }),
 		engine: {
 			version: ENGINE_VERSION,
 			generator: 'xoroshiro128+ (pure-rand), 32-bit uniforms',
-			poisson: 'inversion by sequential search below mean 10, PTRS (Hörmann 1993) from 10'
+			poisson:
+				'inversion by sequential search below mean 10, PTRS (Hörmann 1993) from 10 (simulator)',
+			gamma:
+				'Marsaglia–Tsang (2000) with Box–Muller normals; bounds from Beta/Gamma confidence-distribution draws'
 		}
 	};
-}
-
-/** Where basis 1 is the Fourier basis of GF(p^s), not the cyclic one, and the method depends on it. */
-function fieldFourierMatters(method: MethodId, d: number): boolean {
-	const pp = primePower(d);
-	return method === 'fidelity-two-basis' && pp !== null && pp.exponent > 1;
-}
-
-function warningsFor(o: {
-	subtract: boolean;
-	rates: boolean;
-	resamples: number;
-	confidence: number;
-	fieldFourier: boolean;
-}): string[] {
-	const out: string[] = [];
-	if (o.fieldFourier)
-		out.push(
-			'In this dimension basis 1 is the Fourier basis of the finite field GF(p^s) (outcomes labelled by base-p digits), not the cyclic Fourier basis; data measured in the cyclic basis do not fit this method.'
-		);
-	if (o.subtract)
-		out.push(
-			'Background-subtracted: accidental estimates were removed before normalising; the raw-count certificate is the default.'
-		);
-	if (o.rates)
-		out.push('Cells have different integration times: probabilities are normalised rates N/τ.');
-	const tail = o.resamples * (1 - o.confidence);
-	if (tail < 10)
-		out.push(
-			`Only ${tail.toFixed(1)} bootstrap replicates lie below the lower bound; use more resamples for a stable bound.`
-		);
-	return out;
 }
