@@ -1,16 +1,14 @@
 /**
  * The seeded Gamma source of the confidence bounds (reproducibility contract, DEVELOPERS.md):
- * - generator: the same xoroshiro128+ (pure-rand) as poisson.ts, seeded by its 32-bit seed
- *   function; a uniform is (one 32-bit output + ½) × 2⁻³², so it is never 0 or 1 (logs stay finite);
+ * - generator: the same seeded xoroshiro128+ as poisson.ts (seededGenerator); a uniform is (one 32-bit output + ½) × 2⁻³², so it is never 0 or 1 (logs stay finite);
  * - normal variates: Box–Muller, cosine branch only (two uniforms per normal, no cached pair);
  * - Gamma(a, 1) for a ≥ 1: Marsaglia & Tsang, ACM Trans. Math. Softw. 26, 363 (2000), with their
  *   squeeze; every shape here is a whole number of counts, and Gamma(0) is the point mass at 0.
  * Hand-written because no installed package draws a Gamma variate from this generator.
  */
-import { xoroshiro128plus } from 'pure-rand/generator/xoroshiro128plus';
-import { checkSeed } from './poisson';
+import { seededGenerator } from './poisson';
 
-type Generator = ReturnType<typeof xoroshiro128plus>;
+type Generator = ReturnType<typeof seededGenerator>;
 
 const TWO_TO_MINUS_32 = 2.3283064365386963e-10;
 const TWO_PI = 6.283185307179586;
@@ -19,7 +17,7 @@ export class GammaSampler {
 	private readonly rng: Generator;
 
 	constructor(seed: number) {
-		this.rng = xoroshiro128plus(checkSeed(seed) | 0);
+		this.rng = seededGenerator(seed);
 	}
 
 	/** A uniform in (0, 1), never exactly 0 or 1. */

@@ -4,7 +4,7 @@
  * and its lower bound is the better of the floor P_0 + P_1 − 1 (draws) and the cell limits
  * (exact), each at error α/2.
  */
-import { empiricalQuantile, standardDeviation } from './bootstrap';
+import { lowerOrderStatistic as below, standardDeviation, upperOrderStatistic as above } from './bootstrap';
 import { perCellModel } from './cell-model';
 import {
 	drawReplicates,
@@ -68,8 +68,8 @@ export function correlationSumBound(o: BoundInputs): StatisticBound {
 	return {
 		value: model.statistic(model.means),
 		standardError: standardDeviation(reps.lower),
-		lower: empiricalQuantile(lower, 1 - o.confidence),
-		interval95: [empiricalQuantile(lower, 0.025), empiricalQuantile(upper, 0.975)],
+		lower: below(lower, 1 - o.confidence),
+		interval95: [below(lower, 0.025), above(upper, 0.975)],
 		deltaMethodStandardError: deltaMethodStandardError(model),
 		boundMethod: exact ? 'clopper-pearson-sum' : 'garwood-cells-sum',
 		boundNote: exact
@@ -85,7 +85,7 @@ export function fidelityBound(o: BoundInputs): StatisticBound {
 	// Lower replicates of P_0 + P_1 (the floor + 1), upper replicates of P_0 + d·P_1 (F̃·d + 1 + Γ).
 	const reps = drawReplicates(draws(o, { lower: [1, 1], upper: [1, d] }), o);
 	const [lower, upper] = [sorted(reps.lower), sorted(reps.upper)];
-	const floorLower = empiricalQuantile(lower, alpha / 2) - 1;
+	const floorLower = below(lower, alpha / 2) - 1;
 	const cells = (error: number) =>
 		o.perCell
 			? -Infinity
@@ -100,8 +100,8 @@ export function fidelityBound(o: BoundInputs): StatisticBound {
 		standardError: standardDeviation(reps.lower),
 		lower: Math.max(floorLower, cellsLower),
 		interval95: [
-			Math.max(empiricalQuantile(lower, 0.0125) - 1, cells(0.0125)),
-			(empiricalQuantile(upper, 0.975) - 1) / d
+			Math.max(below(lower, 0.0125) - 1, cells(0.0125)),
+			(above(upper, 0.975) - 1) / d
 		],
 		deltaMethodStandardError: deltaMethodStandardError(model),
 		boundMethod: byCells ? 'fidelity-cell-limits' : 'fidelity-floor',
