@@ -88,7 +88,7 @@ export function seededGenerator(seed: number): Generator {
 		return (t ^ (t >>> 15)) | 0;
 	};
 	const state = [next(), next(), next(), next()];
-	if (state.every((w) => w === 0)) state[0] = 1; // the all-zero state is the generator's fixed point
+	if (!state.some((w) => w !== 0)) state[0] = 1; // the all-zero state is the generator's fixed point
 	return xoroshiro128plusFromState(state);
 }
 

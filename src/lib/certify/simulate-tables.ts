@@ -26,7 +26,8 @@ export function simulatedState(label: string, s: SimulatedState): TableState {
 	const norm = Math.sqrt(s.schmidtCoefficients.reduce((a, c) => a + c * c, 0));
 	const sumC = s.schmidtCoefficients.reduce((a, c) => a + c / norm, 0);
 	const eta = s.visibility;
-	const fidelity = eta * ((s.coherence * sumC * sumC) / d + (1 - s.coherence) / d) + (1 - eta) / (d * d);
+	const fidelity =
+		eta * ((s.coherence * sumC * sumC) / d + (1 - s.coherence) / d) + (1 - eta) / (d * d);
 	const rank = s.schmidtCoefficients.filter((c) => c !== 0).length;
 	const isotropic = rank === d && s.coherence === 1;
 	// Isotropic: SN = ⌈dF⌉ for F > 1/d (Terhal & Horodecki, Phys. Rev. A 61, 040301(R) (2000)).
@@ -121,7 +122,13 @@ export function sampleTables(
 		tables: bases.map((basis) => {
 			const counts = new Float64Array(cells);
 			sampler.drawAll(prepareMeans(state.table(basis).map((p) => p * countsPerBasis)), counts);
-			return { basis, counts, accidentals: null, durations: null, present: new Uint8Array(cells).fill(1) };
+			return {
+				basis,
+				counts,
+				accidentals: null,
+				durations: null,
+				present: new Uint8Array(cells).fill(1)
+			};
 		})
 	};
 }

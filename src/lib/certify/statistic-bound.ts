@@ -4,7 +4,11 @@
  * and its lower bound is the better of the floor P_0 + P_1 − 1 (draws) and the cell limits
  * (exact), each at error α/2.
  */
-import { lowerOrderStatistic as below, standardDeviation, upperOrderStatistic as above } from './bootstrap';
+import {
+	lowerOrderStatistic as below,
+	standardDeviation,
+	upperOrderStatistic as above
+} from './bootstrap';
 import { perCellModel } from './cell-model';
 import {
 	drawReplicates,
@@ -99,10 +103,7 @@ export function fidelityBound(o: BoundInputs): StatisticBound {
 		value: model.statistic(model.means),
 		standardError: standardDeviation(reps.lower),
 		lower: Math.max(floorLower, cellsLower),
-		interval95: [
-			Math.max(below(lower, 0.0125) - 1, cells(0.0125)),
-			(above(upper, 0.975) - 1) / d
-		],
+		interval95: [Math.max(below(lower, 0.0125) - 1, cells(0.0125)), (above(upper, 0.975) - 1) / d],
 		deltaMethodStandardError: deltaMethodStandardError(model),
 		boundMethod: byCells ? 'fidelity-cell-limits' : 'fidelity-floor',
 		boundNote: byCells
