@@ -105,3 +105,39 @@ describe('warnings on the result', () => {
 		expect(at(6)).not.toMatch(/finite field/);
 	});
 });
+
+describe('words on the result (issue 6, §6)', () => {
+	it('offers no counts when only F̃, not the floor P₀ + P₁ − 1 it is bounded through, clears the rung', () => {
+		// d = 5; basis 0: 0.9 on the diagonal, 0.1 in the single cell (0, 1), so Γ = 0 and
+		// F̃ = (P₀ + d·P₁ − 1)/d = 0.88 > B₄ = 0.8 while the floor is P₀ + P₁ − 1 = 0.8 (witnesses.md §4.3).
+		const d = 5;
+		const n = 2000;
+		const c0 = new Float64Array(25);
+		for (let a = 0; a < d; a++) c0[a * d + a] = (0.9 * n) / d;
+		c0[1] = 0.1 * n;
+		const c1 = new Float64Array(25).map((_, c) => (c % 6 === 0 ? (0.9 * n) / d : (0.1 * n) / 20));
+		const tables = [c0, c1].map((counts, basis) => ({
+			basis,
+			counts,
+			accidentals: null,
+			durations: null,
+			present: new Uint8Array(25).fill(1)
+		}));
+		const r = certify({ dimension: d, tables }, { method: 'fidelity-two-basis', claim: 5 });
+		expect(r.statistic.value).toBeCloseTo(0.88, 12);
+		expect(r.statistic.floorValue).toBeCloseTo(0.8, 12);
+		expect(r.claim!.verdict).toBe('not supported');
+		expect(r.claim!.countsNeeded).toBeUndefined();
+		expect(r.claim!.shortfall).toMatch(/cannot be shown to help/);
+		expect(r.claim!.shortfall).toMatch(/white-noise threshold visibility/);
+	});
+
+	it('says when accidentals are subtracted that their estimates are taken as exact', () => {
+		const data = expectedCounts(states.isotropic(5, 0.9), [0, 1], 1e5);
+		for (const t of data.tables) t.accidentals = new Float64Array(25).fill(10);
+		const r = certify(data, { method: 'steering-2mub', subtractAccidentals: true, resamples: 500 });
+		expect(r.backgroundSubtracted).toBe(true);
+		expect(r.statistic.boundMethod).toBe('garwood-cells-sum');
+		expect(r.warnings.join(' ')).toMatch(/taken as exact/);
+	});
+});
