@@ -174,3 +174,15 @@ describe('marginals a quantum state can give (docs/statistics.md)', () => {
 		expect(r.entropicSums[0].bits).toBeGreaterThanOrEqual(Math.log2(7) - 1e-3);
 	});
 });
+
+describe('rates (unequal integration times, witnesses.md §3)', () => {
+	it('the fidelity method then uses the floor alone, drawn cell by cell, and says so', () => {
+		const data = expectedCounts(states.isotropic(5, 0.9), [0, 1], 1e5);
+		data.tables[0].durations = new Float64Array(25).map((_, c) => (c === 0 ? 2 : 1));
+		const r = certify(data, { method: 'fidelity-two-basis', resamples: 1000 });
+		expect(r.resampling).toBe('per-cell');
+		expect(r.statistic.boundMethod).toBe('fidelity-floor');
+		expect(r.warnings.join(' ')).toMatch(/floor P₀ \+ P₁ − 1 alone/);
+		expect(r.statistic.lower).toBeLessThan(r.statistic.floorValue!);
+	});
+});
