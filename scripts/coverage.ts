@@ -4,7 +4,8 @@
  * basis and at confidence 0.9 and 0.99865: the miss rate (lower bound above the witness's true
  * value), the false-certification rate (certified above the true Schmidt number), each with its
  * binomial standard error at the nominal rate, and the mean certified Schmidt number.
- * Not a test: it prints a Markdown table. `--scale 0.1` runs a tenth of the experiments.
+ * Not a test: it prints a Markdown table. `--scale 0.1` runs a tenth of the experiments;
+ * `--cases 7-9` only those cases.
  */
 import { parseArgs } from 'node:util';
 import { states, type MethodId } from '../src/lib/certify';
@@ -16,8 +17,12 @@ import {
 } from '../src/lib/certify/simulate-tables';
 import { missAllowance, runCoverage, type CoverageCase } from './coverage-run';
 
-const { values } = parseArgs({ options: { scale: { type: 'string', default: '1' } } });
+const { values } = parseArgs({
+	options: { scale: { type: 'string', default: '1' }, cases: { type: 'string' } }
+});
 const scale = Number(values.scale);
+// `--cases 7-9` runs only those rows of coverageCases (0-based), e.g. to split a run over processes.
+const [firstCase, lastCase] = (values.cases ?? '0-99').split('-').map(Number);
 
 const phi = (d: number, r: number) => simulatedState(`Φ${r}, d=${d}`, states.rankLimited(d, r));
 const isotropic = (d: number, eta: number) =>
@@ -63,7 +68,7 @@ console.log(
 );
 console.log('|---|---|---|---|---|---|---|---|---|---|---|');
 let flagged = 0;
-for (const c of coverageCases) {
+for (const c of coverageCases.slice(firstCase, lastCase + 1)) {
 	for (const n of countLevels) {
 		for (const s of settings) {
 			const experiments = Math.max(10, Math.round(s.experiments * scale));

@@ -180,7 +180,7 @@ export function certify(dataset: CountsDataset, options: CertifyOptions): Certif
 		warnings: warningsFor({ method, d, subtract, rates, resamples, confidence }),
 		engine: {
 			version: ENGINE_VERSION,
-			generator: 'xoroshiro128+ (pure-rand), 32-bit uniforms',
+			generator: 'xoroshiro128+ (pure-rand) seeded through SplitMix32, 32-bit uniforms',
 			poisson:
 				'inversion by sequential search below mean 10, PTRS (Hörmann 1993) from 10 (simulator)',
 			gamma:
