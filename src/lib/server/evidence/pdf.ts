@@ -96,6 +96,7 @@ function statisticAndLadder(doc: Doc, m: EvidenceManifest) {
 	heading(doc, 'The statistic');
 	field(doc, 'Value', `${num(s.value, 6)} (bootstrap standard error ${num(s.standardError)})`);
 	field(doc, `One-sided lower bound at confidence ${m.result.confidence}`, num(s.lower, 6));
+	field(doc, 'How the bound is made', s.boundNote);
 	field(doc, '95 % interval', `${num(s.interval95[0], 6)} to ${num(s.interval95[1], 6)}`);
 	heading(doc, 'The ladder of bounds');
 	const x = doc.page.margins.left;

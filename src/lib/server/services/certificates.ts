@@ -70,13 +70,14 @@ function evidenceInput(
 		claimId: claim.id,
 		checkId: check.id,
 		supersedes,
+		// What the check ran with (a claim edited since then must not change the record).
 		claim: {
 			title: claim.title,
-			dimension: claim.dimension,
-			method: claim.method,
-			bases: claim.bases,
-			fourier: claim.fourier,
-			claimedSchmidtNumber: claim.claimedSchmidtNumber,
+			dimension: result.dimension,
+			method: result.method,
+			bases: result.bases,
+			fourier: result.fourier,
+			claimedSchmidtNumber: result.claim?.schmidtNumber ?? claim.claimedSchmidtNumber,
 			manuscriptReference: claim.manuscriptReference ?? null
 		},
 		parameters: {
