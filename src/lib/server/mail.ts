@@ -10,6 +10,7 @@ export interface OutgoingMail {
 	to: string;
 	subject: string;
 	text: string;
+	html?: string;
 }
 
 export interface Mailer {

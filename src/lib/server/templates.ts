@@ -8,7 +8,17 @@ const sources = import.meta.glob('/templates/mail/*.txt', {
 	eager: true
 }) as Record<string, string>;
 
-export type MailTemplate = 'verify-email' | 'reset-password' | 'invitation' | 'password-changed';
+export type NoticeTemplate =
+	| 'notice-claim-shared'
+	| 'notice-report-filed'
+	| 'notice-report-released';
+
+export type MailTemplate =
+	| 'verify-email'
+	| 'reset-password'
+	| 'invitation'
+	| 'password-changed'
+	| NoticeTemplate;
 
 export interface RenderedMail {
 	subject: string;

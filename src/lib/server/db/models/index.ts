@@ -12,7 +12,10 @@ import { defineInvitation } from './Invitation';
 import { defineLedgerEntry } from './LedgerEntry';
 import { defineMailMessage } from './MailMessage';
 import { defineMembership } from './Membership';
+import { defineReport } from './Report';
+import { defineReviewLink } from './ReviewLink';
 import { defineSession } from './Session';
+import { defineShare } from './Share';
 import { defineUser } from './User';
 
 export function defineModels(sequelize: Sequelize) {
@@ -30,7 +33,10 @@ export function defineModels(sequelize: Sequelize) {
 		AuditEvent: defineAuditEvent(sequelize),
 		MailMessage: defineMailMessage(sequelize),
 		Certificate: defineCertificate(sequelize),
-		LedgerEntry: defineLedgerEntry(sequelize)
+		LedgerEntry: defineLedgerEntry(sequelize),
+		Share: defineShare(sequelize),
+		ReviewLink: defineReviewLink(sequelize),
+		Report: defineReport(sequelize)
 	};
 	const {
 		User,
