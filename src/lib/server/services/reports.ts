@@ -60,7 +60,7 @@ export async function saveReport(
 	database: Database,
 	mailer: Mailer,
 	actor: Actor,
-	input: ReportInput
+	input: ReportInput | Record<string, unknown>
 ): Promise<ReportView> {
 	if (actor.kind !== 'referee') throw new NotFoundError('No such claim.');
 	const claim = await requireClaim(database, actor, actor.claimId, 'file-report');
