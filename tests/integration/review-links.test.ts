@@ -156,7 +156,7 @@ describe('review links', () => {
 			where: { action: 'review-link.used', subjectId: [expired.id, revoked.id, valid.id] }
 		});
 		expect(logged.map((e) => (e.get('details') as { state: string }).state).sort()).toEqual(
-			['active', 'active', 'active', 'expired', 'expired', 'revoked', 'revoked'].sort()
+			['active', 'active', 'active', 'active', 'expired', 'revoked'].sort()
 		);
 	});
 
@@ -191,8 +191,16 @@ describe('a referee with a valid link', () => {
 	it('reaches no other claim, and writes nothing beyond its own check and report', async () => {
 		const { database, mailer } = w.mail;
 		const count = async () => {
-			const m = database.models;
-			return [m.Claim, m.Dataset, m.Certificate, m.Share, m.ReviewLink, m.Membership, m.ApiToken].map((x) => x.count());
+			const { Claim, Dataset, Certificate, Share, ReviewLink, Membership, ApiToken } = database.models;
+			return [
+				Claim.count(),
+				Dataset.count(),
+				Certificate.count(),
+				Share.count(),
+				ReviewLink.count(),
+				Membership.count(),
+				ApiToken.count()
+			];
 		};
 		const before = await Promise.all(await count());
 		await expect(getClaim(database, referee, w.otherClaimId)).rejects.toThrow(NotFoundError);

@@ -5,5 +5,5 @@ import type { RequestHandler } from './$types';
 
 /** Revokes a review link at once. */
 export const DELETE: RequestHandler = apiEndpoint(async ({ event, database, actor }) =>
-	json(await revokeReviewLink(database, actor, event.params.id))
+	json(await revokeReviewLink(database, actor, event.params.id!))
 );

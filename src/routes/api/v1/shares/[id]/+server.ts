@@ -5,5 +5,5 @@ import type { RequestHandler } from './$types';
 
 /** Withdraws a share; its review links stop working at once. */
 export const DELETE: RequestHandler = apiEndpoint(async ({ event, database, actor }) =>
-	json(await withdrawShare(database, actor, event.params.id))
+	json(await withdrawShare(database, actor, event.params.id!))
 );

@@ -6,5 +6,5 @@ import type { RequestHandler } from './$types';
 /** An editor's new review link: `{ label?, expiresInDays? }` → 201 `{ id, url, expiresAt }`. */
 export const POST: RequestHandler = apiEndpoint(async ({ event, database, actor }) => {
 	const input = await readJson(event.request, reviewLinkInputSchema);
-	return json(await createReviewLink(database, actor, event.params.id, input), { status: 201 });
+	return json(await createReviewLink(database, actor, event.params.id!, input), { status: 201 });
 });

@@ -5,12 +5,12 @@ import { listShares, shareClaim, shareInputSchema } from '$lib/server/services/s
 import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = apiEndpoint(async ({ event, database, actor }) =>
-	json({ shares: await listShares(database, actor, event.params.id) })
+	json({ shares: await listShares(database, actor, event.params.id!) })
 );
 
 /** Shares a certified claim with an editor: `{ email, journal, manuscript }` → 201. */
 export const POST: RequestHandler = apiEndpoint(async ({ event, database, actor }) => {
 	const input = await readJson(event.request, shareInputSchema);
 	const { mailer } = await app();
-	return json(await shareClaim(database, mailer, actor, event.params.id, input), { status: 201 });
+	return json(await shareClaim(database, mailer, actor, event.params.id!, input), { status: 201 });
 });

@@ -5,5 +5,5 @@ import type { RequestHandler } from './$types';
 
 /** A re-run started through this link: the shape of any check, plus how it compares. */
 export const GET: RequestHandler = reviewEndpoint(async ({ event, database, actor }) =>
-	json(await refereeCheck(database, actor, event.params.checkId))
+	json(await refereeCheck(database, actor, event.params.checkId!))
 );
