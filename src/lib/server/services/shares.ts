@@ -73,8 +73,9 @@ export async function shareClaim(
 			{ id, claimId, editorEmail: email, editorId, journal, manuscript, tokenHash: hash, sharedBy },
 			{ transaction }
 		);
-		if (claim.state === 'certified')
-			await Claim.update({ state: 'shared' }, { where: { id: claimId }, transaction });
+		// Through the row: a static update trips over the JSON getter of `bases`.
+		const row = await Claim.findByPk(claimId, { transaction });
+		if (row?.get('state') === 'certified') await row.update({ state: 'shared' }, { transaction });
 		const details = { email, journal, manuscript };
 		const entry = { actorId: sharedBy, groupId: claim.groupId, details };
 		await audit(
@@ -130,8 +131,9 @@ export async function withdrawShare(
 			{ where: { shareId, revokedAt: null }, transaction }
 		);
 		const open = await Share.count({ where: { claimId: claim.id, withdrawnAt: null }, transaction });
-		if (!open && claim.state === 'shared')
-			await Claim.update({ state: 'certified' }, { where: { id: claim.id }, transaction });
+		const row = await Claim.findByPk(claim.id, { transaction });
+		if (!open && row?.get('state') === 'shared')
+			await row.update({ state: 'certified' }, { transaction });
 		await audit(
 			database,
 			{
