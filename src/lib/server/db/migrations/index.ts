@@ -1,4 +1,8 @@
 /** Numbered migrations in order; listed by hand so that bundling keeps them. */
 import * as initial from './0001-initial';
+import * as tokenExpiry from './0003-token-expiry';
 
-export const migrations = [{ name: '0001-initial', ...initial }];
+export const migrations = [
+	{ name: '0001-initial', ...initial },
+	{ name: '0003-token-expiry', ...tokenExpiry }
+];
