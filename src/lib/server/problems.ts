@@ -14,16 +14,20 @@ import {
 	RateLimitedError
 } from './services/errors';
 
-export type ProblemCode =
-	| 'not_found'
-	| 'forbidden'
-	| 'bad_input'
-	| 'bad_counts'
-	| 'conflict'
-	| 'rate_limited'
-	| 'unauthorised'
-	| 'too_large'
-	| 'unsupported_media_type';
+/** One code per kind of problem, the same on every endpoint (and in the OpenAPI document). */
+export const PROBLEM_CODES = [
+	'bad_input',
+	'bad_counts',
+	'unauthorised',
+	'forbidden',
+	'not_found',
+	'conflict',
+	'too_large',
+	'unsupported_media_type',
+	'rate_limited'
+] as const;
+
+export type ProblemCode = (typeof PROBLEM_CODES)[number];
 
 export interface Problem {
 	status: number;

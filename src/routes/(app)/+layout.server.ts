@@ -11,5 +11,5 @@ import type { LayoutServerLoad } from './$types';
 export const load: LayoutServerLoad = async ({ locals, url }) => {
 	if (!locals.user) redirect(303, loginPath(url));
 	const { database } = await app();
-	return { user: locals.user, groups: await groupsOf(database, locals.user.id) };
+	return { user: locals.user, groups: await groupsOf(database, locals.actor) };
 };

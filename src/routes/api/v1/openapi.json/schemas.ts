@@ -1,6 +1,7 @@
 /** JSON Schemas (OpenAPI 3.1 components) of the API's bodies, kept beside the document. */
 import { DEFAULTS, METHOD_IDS } from '$lib/certify';
 import { CLAIM_STATES } from '$lib/claims/schema';
+import { PROBLEM_CODES } from '$lib/server/problems';
 
 const ref = (name: string) => ({ $ref: `#/components/schemas/${name}` });
 const text = { type: 'string' };
@@ -21,17 +22,23 @@ export const schemas = {
 				properties: {
 					code: {
 						type: 'string',
-						examples: ['unauthorised', 'not_found', 'bad_request', 'bad_counts', 'too_large']
+						enum: PROBLEM_CODES,
+						description:
+							'bad_input 400 (a field of the body or query), bad_counts 400 (the counts file), ' +
+							'unauthorised 401, forbidden 403 (visible but not yours to do), not_found 404, ' +
+							'conflict 409 (not in a state that allows it, e.g. no counts file yet), too_large 413, ' +
+							'unsupported_media_type 415, rate_limited 429 (see Retry-After).'
 					},
 					message: {
 						type: 'string',
 						description: 'Plain words; for bad input it names the fields or the line.'
 					},
+					field: { ...text, description: 'bad_input only: the field at fault, when one is.' },
 					line: {
-						...nullable(whole),
+						...whole,
 						description: 'bad_counts only: the line of the counts file at fault, when known.'
 					},
-					column: { ...nullable(whole), description: 'bad_counts only: the column, when known.' }
+					column: { ...whole, description: 'bad_counts only: the column, when known.' }
 				}
 			}
 		}
