@@ -63,7 +63,8 @@ export function describeIssues(problem: ZodError): string {
 
 /** The Problem for a known service error; null for anything else (a bug: let it be a 500). */
 export function problemOf(e: unknown): Problem | null {
-	if (e instanceof ApiError) return { status: e.status, code: e.code, message: e.message, field: e.field };
+	if (e instanceof ApiError)
+		return { status: e.status, code: e.code, message: e.message, field: e.field };
 	if (e instanceof NotFoundError) return { status: 404, code: 'not_found', message: e.message };
 	if (e instanceof ForbiddenError) return { status: 403, code: 'forbidden', message: e.message };
 	if (e instanceof FieldError)

@@ -89,7 +89,8 @@ export async function decideClaim(
 	action: ClaimAction,
 	transaction?: Transaction
 ): Promise<Decision> {
-	const allows = (rules: ClaimAction[]): Decision => (rules.includes(action) ? 'allowed' : 'denied');
+	const allows = (rules: ClaimAction[]): Decision =>
+		rules.includes(action) ? 'allowed' : 'denied';
 	if (actor.kind === 'anonymous') return 'hidden';
 	if (actor.kind === 'referee')
 		return actor.claimId === claim.id ? allows(CLAIM_RULES.referee) : 'hidden';
@@ -109,7 +110,9 @@ export async function requireClaim(
 ): Promise<ClaimAttributes> {
 	const row = await database.models.Claim.findByPk(claimId, { transaction });
 	const claim = row?.get({ plain: true }) as ClaimAttributes | undefined;
-	const decision = claim ? await decideClaim(database, actor, claim, action, transaction) : 'hidden';
+	const decision = claim
+		? await decideClaim(database, actor, claim, action, transaction)
+		: 'hidden';
 	if (decision === 'hidden') throw new NotFoundError('No such claim.');
 	if (decision === 'denied') throw new ForbiddenError(CLAIM_DENIALS[action]);
 	return claim!;
@@ -133,7 +136,8 @@ export async function decideGroup(
 	action: GroupAction,
 	transaction?: Transaction
 ): Promise<{ decision: Decision; role: GroupRole | null }> {
-	if (actor.kind === 'anonymous' || actor.kind === 'referee') return { decision: 'hidden', role: null };
+	if (actor.kind === 'anonymous' || actor.kind === 'referee')
+		return { decision: 'hidden', role: null };
 	const role = await roleIn(database, actor, groupId, transaction);
 	if (!role) return { decision: 'hidden', role };
 	const mayManage = actor.kind === 'user' && role === 'lead';
@@ -152,7 +156,9 @@ export async function requireGroup(
 	if (decision === 'hidden') throw new NotFoundError('No such group.');
 	if (decision === 'denied')
 		throw new ForbiddenError(
-			actor.kind === 'token' ? 'An API token cannot manage a group.' : 'Only a group lead may do this.'
+			actor.kind === 'token'
+				? 'An API token cannot manage a group.'
+				: 'Only a group lead may do this.'
 		);
 	return role!;
 }

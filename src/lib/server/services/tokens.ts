@@ -39,7 +39,11 @@ export const tokenInputSchema = z.object({
 		.default(TOKEN_DEFAULT_DAYS)
 });
 
-export type TokenInput = z.input<typeof tokenInputSchema>;
+/** A name, and the days until it expires (a number or its text, or 'never'; default 90). */
+export interface TokenInput {
+	name: string;
+	expiresInDays?: number | string;
+}
 
 export interface TokenView {
 	id: string;
@@ -116,7 +120,11 @@ export async function listTokens(database: Database, actor: Actor): Promise<Toke
 }
 
 /** Revokes one of the actor's own tokens (again: no-op); NotFoundError for anyone else's. */
-export async function revokeToken(database: Database, actor: Actor, tokenId: string): Promise<void> {
+export async function revokeToken(
+	database: Database,
+	actor: Actor,
+	tokenId: string
+): Promise<void> {
 	const { userId } = await requireService(database, actor, 'manage-tokens');
 	const row = await database.models.ApiToken.findByPk(tokenId);
 	if (!row || decideToken(actor, row.get({ plain: true })) !== 'allowed')
@@ -148,7 +156,11 @@ export async function revokeAllTokens(
 	);
 	if (revoked > 0) {
 		const entry = { actorId: userId, action: 'token.revoked-all', subjectType: 'user' };
-		await audit(database, { ...entry, subjectId: userId, details: { reason, revoked } }, transaction);
+		await audit(
+			database,
+			{ ...entry, subjectId: userId, details: { reason, revoked } },
+			transaction
+		);
 	}
 	return revoked;
 }

@@ -43,7 +43,7 @@ export const actions: Actions = {
 		const actor = requireSignedIn(locals, url);
 		const file = (await request.formData()).get('counts');
 		// The file's name is the one value worth echoing: the page says which file was refused.
-		const values = file instanceof File ? { counts: file.name } : {};
+		const values: Record<string, string> = file instanceof File ? { counts: file.name } : {};
 		if (!(file instanceof File) || file.size === 0) {
 			const missing = new FieldError('counts', 'Choose a counts file (CSV or JSON) to upload.');
 			return formFailure('upload', missing, values);
