@@ -14,7 +14,7 @@ import {
 } from '../../src/lib/server/services/checks';
 import { createClaim, getClaim } from '../../src/lib/server/services/claims';
 import { addDataset, datasetFilePath } from '../../src/lib/server/services/datasets';
-import { NotFoundError } from '../../src/lib/server/services/errors';
+import { ConflictError, NotFoundError } from '../../src/lib/server/services/errors';
 import { newId } from '../../src/lib/server/services/ids';
 import { addGroup, addUser, bytesOf, claimFields, countsCsv } from './backend-fixtures';
 import { asUser } from './actors';
@@ -216,6 +216,18 @@ describe('check runner', () => {
 			NotFoundError
 		);
 		const [newest] = await listChecks(ctx.database, asUser(ada), claimId);
-		expect(await getCheck(ctx.database, asUser(cyd), newest.id)).toBeNull();
+		await expect(getCheck(ctx.database, asUser(cyd), newest.id)).rejects.toBeInstanceOf(
+			NotFoundError
+		);
+	});
+
+	it('answers a conflict, not bad input, for a claim without counts', async () => {
+		const bare = await createClaim(ctx.database, asUser(ada), {
+			...claimFields,
+			title: 'No counts'
+		});
+		const attempt = startCheck(ctx.database, asUser(ada), bare.id);
+		await expect(attempt).rejects.toBeInstanceOf(ConflictError);
+		await expect(attempt).rejects.toThrow(/no counts file yet/);
 	});
 });

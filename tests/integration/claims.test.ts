@@ -133,8 +133,12 @@ describe('claims service', () => {
 
 	it('hides a claim of another group (null, as for a missing one)', async () => {
 		const ridgeClaim = (await listClaims(ctx.database, asUser(cyd))).items[0];
-		expect(await getClaim(ctx.database, asUser(ada), ridgeClaim.id)).toBeNull();
-		expect(await getClaim(ctx.database, asUser(ada), 'no-such-claim')).toBeNull();
+		await expect(getClaim(ctx.database, asUser(ada), ridgeClaim.id)).rejects.toBeInstanceOf(
+			NotFoundError
+		);
+		await expect(getClaim(ctx.database, asUser(ada), 'no-such-claim')).rejects.toBeInstanceOf(
+			NotFoundError
+		);
 		expect((await getClaim(ctx.database, asUser(ben), ridgeClaim.id))?.title).toBe(
 			'Ridge frequency bins'
 		);

@@ -172,8 +172,12 @@ describe('datasets service', () => {
 		await expect(listDatasets(ctx.database, asUser(cyd), claimId)).rejects.toBeInstanceOf(
 			NotFoundError
 		);
-		expect(await getDataset(ctx.database, asUser(cyd), dataset.id)).toBeNull();
-		expect(await datasetTables(ctx.database, asUser(cyd), dataset.id)).toBeNull();
+		await expect(getDataset(ctx.database, asUser(cyd), dataset.id)).rejects.toBeInstanceOf(
+			NotFoundError
+		);
+		await expect(datasetTables(ctx.database, asUser(cyd), dataset.id)).rejects.toBeInstanceOf(
+			NotFoundError
+		);
 		expect((await getDataset(ctx.database, asUser(ada), dataset.id))?.id).toBe(dataset.id);
 	});
 
