@@ -178,9 +178,9 @@ describe('claim page', () => {
 			claimPage.actions.check(event(ada, at('?/check'), { params: { id: claimId }, request }))
 		);
 		expect(isActionFailure(result) && result.status).toBe(400);
-		expect(
-			(result as { data: { errors: Record<string, string> } }).data.errors.resamples
-		).toMatch(/at least 100/);
+		expect((result as { data: { errors: Record<string, string> } }).data.errors.resamples).toMatch(
+			/at least 100/
+		);
 	});
 
 	it('is not found for someone outside the group, in the load and in the actions', async () => {
