@@ -168,6 +168,47 @@ export const openApiDocument = {
 				responses: { '200': reply('The check.', 'Check'), '401': unauthorised, '404': notFound }
 			}
 		},
+		'/api/v1/tokens': {
+			get: {
+				operationId: 'listTokens',
+				summary: 'List your API tokens, newest first (with a session; tokens do not manage tokens)',
+				security: [{ sessionCookie: [] }],
+				responses: {
+					'200': {
+						description: 'Your tokens, revoked and expired ones included.',
+						content: { 'application/json': { schema: { type: 'array', items: ref('Token') } } }
+					},
+					'401': unauthorised,
+					'403': forbidden
+				}
+			},
+			post: {
+				operationId: 'createToken',
+				summary: 'Issue an API token; its secret is in this answer only',
+				security: [{ sessionCookie: [] }],
+				requestBody: { required: true, content: body('TokenInput') },
+				responses: {
+					'201': reply('The new token with its secret.', 'CreatedToken'),
+					'400': badRequest,
+					'401': unauthorised,
+					'403': forbidden
+				}
+			}
+		},
+		'/api/v1/tokens/{id}': {
+			delete: {
+				operationId: 'revokeToken',
+				summary: 'Revoke one of your tokens',
+				security: [{ sessionCookie: [] }],
+				parameters: [idParameter('token')],
+				responses: {
+					'204': { description: 'Revoked (or already revoked).' },
+					'401': unauthorised,
+					'403': forbidden,
+					'404': notFound
+				}
+			}
+		},
 		'/api/v1/openapi.json': {
 			get: {
 				operationId: 'openApiDocument',

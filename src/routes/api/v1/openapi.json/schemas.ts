@@ -2,6 +2,7 @@
 import { DEFAULTS, METHOD_IDS } from '$lib/certify';
 import { CLAIM_STATES } from '$lib/claims/schema';
 import { PROBLEM_CODES } from '$lib/server/problems';
+import { TOKEN_DEFAULT_DAYS, TOKEN_MAX_DAYS } from '$lib/server/services/tokens';
 
 const ref = (name: string) => ({ $ref: `#/components/schemas/${name}` });
 const text = { type: 'string' };
@@ -42,6 +43,44 @@ export const schemas = {
 				}
 			}
 		}
+	},
+	TokenInput: {
+		type: 'object',
+		required: ['name'],
+		properties: {
+			name: { type: 'string', minLength: 1, maxLength: 80 },
+			expiresInDays: {
+				anyOf: [
+					{ type: 'integer', minimum: 1, maximum: TOKEN_MAX_DAYS },
+					{ type: 'string', const: 'never' }
+				],
+				default: TOKEN_DEFAULT_DAYS,
+				description: 'Days until the token is refused, or "never".'
+			}
+		}
+	},
+	Token: {
+		type: 'object',
+		required: ['id', 'name', 'prefix', 'createdAt', 'lastUsedAt', 'revokedAt', 'expiresAt'],
+		properties: {
+			id: text,
+			name: text,
+			prefix: { ...text, description: 'The first characters, to tell tokens apart.' },
+			createdAt: timestamp,
+			lastUsedAt: nullable(timestamp),
+			revokedAt: nullable(timestamp),
+			expiresAt: { ...nullable(timestamp), description: 'null: it never expires.' }
+		}
+	},
+	CreatedToken: {
+		allOf: [
+			ref('Token'),
+			{
+				type: 'object',
+				required: ['token'],
+				properties: { token: { ...text, description: 'rks_…, shown this once.' } }
+			}
+		]
 	},
 	ClaimInput: {
 		type: 'object',
