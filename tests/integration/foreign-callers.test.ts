@@ -6,14 +6,14 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ANONYMOUS, type Actor, type TokenActor } from '../../src/lib/server/access/actor';
 import { getCheck, listChecks, startCheck } from '../../src/lib/server/services/checks';
-import { createClaim, getClaim } from '../../src/lib/server/services/claims';
+import { createClaim, getClaim, listClaims } from '../../src/lib/server/services/claims';
 import {
 	addDataset,
 	datasetTables,
 	getDataset,
 	listDatasets
 } from '../../src/lib/server/services/datasets';
-import { NotFoundError } from '../../src/lib/server/services/errors';
+import { ForbiddenError, NotFoundError } from '../../src/lib/server/services/errors';
 import { changeMemberRole, getGroup, removeMember } from '../../src/lib/server/services/groups';
 import { newId } from '../../src/lib/server/services/ids';
 import {
@@ -114,5 +114,28 @@ describe('a caller from outside the group', () => {
 		});
 		expect(await Invitation.count({ where: { id: invitationId } })).toBe(1);
 		expect((await ApiToken.findByPk(tokenId))?.get('revokedAt')).toBeNull();
+	});
+});
+
+describe('a referee of this claim (the review-link caller of issue 9, built by hand)', () => {
+	const referee = () => asReferee(claimId);
+
+	it('reads the claim and its checks, and lists that claim only', async () => {
+		expect((await getClaim(world.database, referee(), claimId)).id).toBe(claimId);
+		expect((await listChecks(world.database, referee(), claimId)).map((c) => c.id)).toEqual([
+			checkId
+		]);
+		expect((await getCheck(world.database, referee(), checkId)).id).toBe(checkId);
+		const listing = await listClaims(world.database, referee());
+		expect(listing.items.map((c) => c.id)).toEqual([claimId]);
+	});
+
+	it('may not read or add counts files (403), nor see the group (404)', async () => {
+		await expect(listDatasets(world.database, referee(), claimId)).rejects.toBeInstanceOf(
+			ForbiddenError
+		);
+		await expect(calls.addDataset(referee())).rejects.toBeInstanceOf(ForbiddenError);
+		await expect(calls.getGroup(referee())).rejects.toBeInstanceOf(NotFoundError);
+		await expect(calls.createClaim(referee())).rejects.toBeInstanceOf(NotFoundError);
 	});
 });
