@@ -14,6 +14,7 @@ const FIELDS = [
 	'dimension',
 	'method',
 	'bases',
+	'fourier',
 	'claimedSchmidtNumber',
 	'manuscriptReference'
 ];
