@@ -13,7 +13,7 @@ import { getClaim } from '../../src/lib/server/services/claims';
 import { addDataset, listDatasets } from '../../src/lib/server/services/datasets';
 import { editorHome } from '../../src/lib/server/services/editor-home';
 import { ConflictError, ForbiddenError, NotFoundError } from '../../src/lib/server/services/errors';
-import { hashSecret, newSecret } from '../../src/lib/server/services/ids';
+import { hashSecret, newId, newSecret } from '../../src/lib/server/services/ids';
 import {
 	refereeBundle,
 	refereeCheck,
@@ -103,6 +103,13 @@ describe('sharing with an editor', () => {
 		await expect(shareClaim(database, mailer, asUser(w.outsider), w.claimId, input)).rejects.toThrow(NotFoundError);
 		await expect(shareClaim(database, mailer, editor, w.claimId, input)).rejects.toThrow(ForbiddenError);
 		await expect(shareClaim(database, mailer, author, w.claimId, { ...input, email: 'nope' })).rejects.toThrow(ZodError);
+		const group = (await database.models.Claim.findByPk(w.claimId))!.get('groupId') as string;
+		const draft = await database.models.Claim.create({
+			...{ id: newId(), groupId: group, createdBy: w.author, title: 'Uncertified' },
+			...{ sourceDescription: 's', dimension: 5, method: 'mub-correlation', bases: [0, 1] },
+			claimedSchmidtNumber: 3
+		});
+		await expect(shareClaim(database, mailer, author, draft.get('id') as string, input)).rejects.toThrow(ConflictError);
 	});
 
 	it('keeps user words from becoming links in the notice (journal named like an address)', async () => {

@@ -42,7 +42,7 @@ export function app(): Promise<AppServices> {
 		const mail = await startMail(database);
 		// Checks left queued or running by an earlier process resume now.
 		await startCheckRunner(database);
-		if (config().demo) console.log(`Demo scenario: ${await seedDemo(database)}`);
+		if (config().demo) console.log(`Demo scenario: ${await seedDemo(database, mail.mailer)}`);
 		return { database, lucia, ...mail };
 	})();
 	return services;

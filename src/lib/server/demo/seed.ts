@@ -1,7 +1,7 @@
 /**
  * Seeds the demo scenario (scenario.ts) once: people with documented passwords, a group, claims
  * across the three methods with their counts files, a check of each, and an API token for one
- * author written to data/demo/api-token.txt. Running it again changes nothing, except that a
+ * author written to data/demo/api-token.txt; then the review scene (review-seed.ts). Running it again changes nothing, except that a
  * missing token file gets a fresh token.
  */
 import { existsSync, mkdirSync, writeFileSync } from 'node:fs';
@@ -9,12 +9,14 @@ import path from 'node:path';
 import { hashPassword } from '../auth';
 import { config } from '../config';
 import type { Database } from '../db';
+import type { Mailer } from '../mail';
 import { userActor } from '../access/actor';
 import { startCheck } from '../services/checks';
 import { createClaim } from '../services/claims';
 import { addDataset } from '../services/datasets';
 import { newId } from '../services/ids';
 import { createToken } from '../services/tokens';
+import { seedReview } from './review-seed';
 import { DEMO_CLAIMS, DEMO_GROUP, DEMO_PEOPLE, demoCountsCsv } from './scenario';
 
 export const demoTokenFile = () => path.join(config().dataDir, 'demo', 'api-token.txt');
@@ -44,7 +46,8 @@ async function seedPeople(database: Database): Promise<Map<string, string>> {
 	return ids;
 }
 
-async function seedClaims(database: Database, ids: Map<string, string>): Promise<void> {
+async function seedClaims(database: Database, ids: Map<string, string>): Promise<string[]> {
+	const claimIds: string[] = [];
 	for (const demo of DEMO_CLAIMS) {
 		const author = (await userActor(database, ids.get(demo.author)!))!;
 		const claim = await createClaim(database, author, {
@@ -62,7 +65,9 @@ async function seedClaims(database: Database, ids: Map<string, string>): Promise
 			originalName: `${demo.title.split(':')[0]}.csv`
 		});
 		await startCheck(database, author, claim.id, {});
+		claimIds.push(claim.id);
 	}
+	return claimIds;
 }
 
 async function writeDemoToken(database: Database, userId: string): Promise<void> {
@@ -72,7 +77,7 @@ async function writeDemoToken(database: Database, userId: string): Promise<void>
 	writeFileSync(demoTokenFile(), token + '\n', { mode: 0o600 });
 }
 
-export async function seedDemo(database: Database): Promise<'seeded' | 'present'> {
+export async function seedDemo(database: Database, mailer: Mailer): Promise<'seeded' | 'present'> {
 	const lead = DEMO_PEOPLE.find((p) => p.key === 'lead')!;
 	const existing = await database.models.User.findOne({ where: { email: lead.email } });
 	if (existing) {
@@ -83,7 +88,9 @@ export async function seedDemo(database: Database): Promise<'seeded' | 'present'
 		return 'present';
 	}
 	const ids = await seedPeople(database);
-	await seedClaims(database, ids);
+	const claimIds = await seedClaims(database, ids);
 	await writeDemoToken(database, ids.get('author1')!);
+	const people = { author: ids.get(DEMO_CLAIMS[0].author)!, editor: ids.get('editor')! };
+	await seedReview(database, mailer, people, claimIds[0]);
 	return 'seeded';
 }
