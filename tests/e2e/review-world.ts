@@ -29,7 +29,14 @@ async function person(database: Database, name: string, accountRole: 'admin' | '
 	const id = newId();
 	const email = `${name.split(' ')[0].toLowerCase()}@example.test`;
 	const { User, Session } = database.models;
-	await User.create({ id, email, name, passwordHash: 'unused', accountRole, emailVerifiedAt: new Date() });
+	await User.create({
+		id,
+		email,
+		name,
+		passwordHash: 'unused',
+		accountRole,
+		emailVerifiedAt: new Date()
+	});
 	const session = newId().replaceAll('-', '');
 	await Session.create({ id: session, userId: id, expiresAt: new Date(Date.now() + 86_400_000) });
 	const actor: UserActor = { kind: 'user', userId: id, accountRole, emailVerified: true };
@@ -37,18 +44,26 @@ async function person(database: Database, name: string, accountRole: 'admin' | '
 }
 
 /** A done check with the engine's own result, as the check runner stores it. */
-async function finishedCheck(database: Database, claimId: string, datasetId: string, userId: string) {
+async function finishedCheck(
+	database: Database,
+	claimId: string,
+	datasetId: string,
+	userId: string
+) {
 	const claim = (await database.models.Claim.findByPk(claimId))!.get({ plain: true });
 	const dataset = (await database.models.Dataset.findByPk(datasetId))!.get({ plain: true });
 	const settings = { resamples: 400, confidence: 0.99, seed: 31 };
-	const result = certify(parseCounts(readFileSync(datasetFilePath(dataset.sha256)), claim.dimension), {
-		method: claim.method,
-		bases: claim.bases,
-		fourier: claim.fourier,
-		...settings,
-		claim: claim.claimedSchmidtNumber,
-		inputSha256: dataset.sha256
-	});
+	const result = certify(
+		parseCounts(readFileSync(datasetFilePath(dataset.sha256)), claim.dimension),
+		{
+			method: claim.method,
+			bases: claim.bases,
+			fourier: claim.fourier,
+			...settings,
+			claim: claim.claimedSchmidtNumber,
+			inputSha256: dataset.sha256
+		}
+	);
 	const id = newId();
 	const now = new Date();
 	await database.models.Check.create({
@@ -66,7 +81,12 @@ export async function seedReviewFlow(): Promise<ReviewFlowWorld> {
 	const author = await person(database, 'Ines Marlow', 'researcher');
 	const groupId = newId();
 	await database.models.Group.create({ id: groupId, name: 'Marlow Fibre Lab (fictional)' });
-	await database.models.Membership.create({ id: newId(), groupId, userId: author.id, role: 'lead' });
+	await database.models.Membership.create({
+		id: newId(),
+		groupId,
+		userId: author.id,
+		role: 'lead'
+	});
 	const claim = await createClaim(database, author.actor, {
 		title: 'Fibre pairs at d = 5 (review flow)',
 		sourceDescription: 'Simulated isotropic pairs, visibility 0.9.',

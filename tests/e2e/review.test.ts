@@ -27,14 +27,22 @@ async function pageAs(session: string | null): Promise<Page> {
 	const browser = await launchBrowser();
 	browsers.push(browser);
 	if (session)
-		await browser.context.addCookies([{ name: 'rankseal_session', value: session, url: app.origin }]);
+		await browser.context.addCookies([
+			{ name: 'rankseal_session', value: session, url: app.origin }
+		]);
 	return browser.context.newPage();
 }
 
 /** The text of the newest outbox message to `to` whose subject matches, read as the admin. */
 async function newestMail(admin: Page, to: string, subject: RegExp): Promise<string> {
 	await admin.goto(`${app.origin}/admin/outbox`);
-	await admin.locator('[data-testid=outbox] tr', { hasText: to }).filter({ hasText: subject }).first().locator('a').first().click();
+	await admin
+		.locator('[data-testid=outbox] tr', { hasText: to })
+		.filter({ hasText: subject })
+		.first()
+		.locator('a')
+		.first()
+		.click();
 	return (await admin.textContent('[data-testid=message-text]')) ?? '';
 }
 
@@ -72,7 +80,9 @@ describe('sharing and review in Chromium', () => {
 		await editor.fill('input[name=password]', 'an editor passphrase');
 		await editor.click('[data-testid=editor-signup] button');
 		await editor.waitForURL(/\/editor#claim-/);
-		await expect(editor.locator('[data-testid=shared-claim]').textContent()).resolves.toContain('JIO-2026-042');
+		await expect(editor.locator('[data-testid=shared-claim]').textContent()).resolves.toContain(
+			'JIO-2026-042'
+		);
 	});
 
 	it('the editor makes a review link', async () => {
@@ -95,7 +105,9 @@ describe('sharing and review in Chromium', () => {
 		await expect(done.textContent()).resolves.toContain(`Seed ${seed} (the recorded seed)`);
 		const lower = await done.locator('[data-testid=rerun-lower]').textContent();
 		expect(lower).toBe(world.certifiedLower.toFixed(6));
-		await expect(done.locator('[data-testid=rerun-verdict]').textContent()).resolves.toContain('Identical to the certificate');
+		await expect(done.locator('[data-testid=rerun-verdict]').textContent()).resolves.toContain(
+			'Identical to the certificate'
+		);
 
 		const [download] = await Promise.all([
 			referee.waitForEvent('download'),

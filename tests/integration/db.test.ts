@@ -15,7 +15,13 @@ describe('database', () => {
 		const applied = await select('SELECT name FROM schema_migrations ORDER BY name');
 		expect(applied).toEqual(migrations.map(({ name }) => ({ name })));
 		expect(migrations.map((m) => m.name)).toEqual(
-			expect.arrayContaining(['0001-initial', '0002-fourier-convention', '0003-token-expiry', '0005-certificates', '0006-sharing-review'])
+			expect.arrayContaining([
+				'0001-initial',
+				'0002-fourier-convention',
+				'0003-token-expiry',
+				'0005-certificates',
+				'0006-sharing-review'
+			])
 		);
 	});
 

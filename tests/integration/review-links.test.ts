@@ -90,7 +90,9 @@ describe('sharing with an editor', () => {
 
 	it('lets only the editor it was shared with see the claim; others get 404', async () => {
 		expect((await getClaim(w.mail.database, editor, w.claimId)).id).toBe(w.claimId);
-		await expect(getClaim(w.mail.database, asUser(w.otherEditor, 'editor'), w.claimId)).rejects.toThrow(NotFoundError);
+		await expect(
+			getClaim(w.mail.database, asUser(w.otherEditor, 'editor'), w.claimId)
+		).rejects.toThrow(NotFoundError);
 		await expect(getClaim(w.mail.database, editor, w.otherClaimId)).rejects.toThrow(NotFoundError);
 		const home = await editorHome(w.mail.database, editor);
 		expect(home.map((h) => h.claim.id)).toEqual([w.claimId]);
@@ -100,16 +102,24 @@ describe('sharing with an editor', () => {
 	it('refuses a claim without a certificate, and callers outside the group', async () => {
 		const { database, mailer } = w.mail;
 		const input = { email: 'x@example.test', journal: 'J', manuscript: 'M' };
-		await expect(shareClaim(database, mailer, asUser(w.outsider), w.claimId, input)).rejects.toThrow(NotFoundError);
-		await expect(shareClaim(database, mailer, editor, w.claimId, input)).rejects.toThrow(ForbiddenError);
-		await expect(shareClaim(database, mailer, author, w.claimId, { ...input, email: 'nope' })).rejects.toThrow(ZodError);
+		await expect(
+			shareClaim(database, mailer, asUser(w.outsider), w.claimId, input)
+		).rejects.toThrow(NotFoundError);
+		await expect(shareClaim(database, mailer, editor, w.claimId, input)).rejects.toThrow(
+			ForbiddenError
+		);
+		await expect(
+			shareClaim(database, mailer, author, w.claimId, { ...input, email: 'nope' })
+		).rejects.toThrow(ZodError);
 		const group = (await database.models.Claim.findByPk(w.claimId))!.get('groupId') as string;
 		const draft = await database.models.Claim.create({
 			...{ id: newId(), groupId: group, createdBy: w.author, title: 'Uncertified' },
 			...{ sourceDescription: 's', dimension: 5, method: 'mub-correlation', bases: [0, 1] },
 			claimedSchmidtNumber: 3
 		});
-		await expect(shareClaim(database, mailer, author, draft.get('id') as string, input)).rejects.toThrow(ConflictError);
+		await expect(
+			shareClaim(database, mailer, author, draft.get('id') as string, input)
+		).rejects.toThrow(ConflictError);
 	});
 
 	it('keeps user words from becoming links in the notice (journal named like an address)', async () => {
@@ -141,15 +151,22 @@ describe('review links', () => {
 	});
 
 	it('last at most 180 days', async () => {
-		await expect(createReviewLink(w.mail.database, editor, w.claimId, { expiresInDays: 181 })).rejects.toThrow(ZodError);
-		const longest = await createReviewLink(w.mail.database, editor, w.claimId, { expiresInDays: 180 });
+		await expect(
+			createReviewLink(w.mail.database, editor, w.claimId, { expiresInDays: 181 })
+		).rejects.toThrow(ZodError);
+		const longest = await createReviewLink(w.mail.database, editor, w.claimId, {
+			expiresInDays: 180
+		});
 		expect(longest.expiresAt > new Date(Date.now() + 179 * 86_400_000).toISOString()).toBe(true);
 	});
 
 	it('refuse expired, revoked, tampered, guessed and malformed tokens, and log every use', async () => {
 		const { database } = w.mail;
 		const expired = await newLink();
-		await database.models.ReviewLink.update({ expiresAt: new Date(Date.now() - 1000) }, { where: { id: expired.id } });
+		await database.models.ReviewLink.update(
+			{ expiresAt: new Date(Date.now() - 1000) },
+			{ where: { id: expired.id } }
+		);
 		const revoked = await newLink();
 		await revokeReviewLink(database, editor, revoked.id);
 		const valid = await newLink();
@@ -170,10 +187,14 @@ describe('review links', () => {
 	it('are made and revoked only by the editor the claim is shared with', async () => {
 		const { database } = w.mail;
 		await expect(createReviewLink(database, author, w.claimId)).rejects.toThrow(ForbiddenError);
-		await expect(createReviewLink(database, asUser(w.otherEditor, 'editor'), w.claimId)).rejects.toThrow(NotFoundError);
+		await expect(
+			createReviewLink(database, asUser(w.otherEditor, 'editor'), w.claimId)
+		).rejects.toThrow(NotFoundError);
 		const link = await newLink();
 		await expect(revokeReviewLink(database, author, link.id)).rejects.toThrow(ForbiddenError);
-		await expect(revokeReviewLink(database, asUser(w.otherEditor, 'editor'), link.id)).rejects.toThrow(NotFoundError);
+		await expect(
+			revokeReviewLink(database, asUser(w.otherEditor, 'editor'), link.id)
+		).rejects.toThrow(NotFoundError);
 	});
 });
 
@@ -198,7 +219,8 @@ describe('a referee with a valid link', () => {
 	it('reaches no other claim, and writes nothing beyond its own check and report', async () => {
 		const { database, mailer } = w.mail;
 		const count = async () => {
-			const { Claim, Dataset, Certificate, Share, ReviewLink, Membership, ApiToken } = database.models;
+			const { Claim, Dataset, Certificate, Share, ReviewLink, Membership, ApiToken } =
+				database.models;
 			return [
 				Claim.count(),
 				Dataset.count(),
@@ -211,10 +233,14 @@ describe('a referee with a valid link', () => {
 		};
 		const before = await Promise.all(await count());
 		await expect(getClaim(database, referee, w.otherClaimId)).rejects.toThrow(NotFoundError);
-		await expect(requireClaim(database, referee, w.otherClaimId, 'read')).rejects.toThrow(NotFoundError);
+		await expect(requireClaim(database, referee, w.otherClaimId, 'read')).rejects.toThrow(
+			NotFoundError
+		);
 		await expect(listChecks(database, referee, w.otherClaimId)).rejects.toThrow(NotFoundError);
 		await expect(listDatasets(database, referee, w.otherClaimId)).rejects.toThrow(NotFoundError);
-		await expect(refereeCheck(database, referee, w.certifiedCheckId)).rejects.toThrow(NotFoundError);
+		await expect(refereeCheck(database, referee, w.certifiedCheckId)).rejects.toThrow(
+			NotFoundError
+		);
 		const upload = { bytes: bytesOf(countsCsv(5, [0, 1], 1000, 3)), originalName: 'x.csv' };
 		await expect(addDataset(database, referee, w.claimId, upload)).rejects.toThrow(ForbiddenError);
 		const input = { email: 'x@example.test', journal: 'J', manuscript: 'M' };
@@ -236,7 +262,11 @@ describe('a referee with a valid link', () => {
 		const certified = await getCheck(database, asUser(w.author), w.certifiedCheckId);
 		expect(done.seed).toBe(certified.seed);
 		expect(done.result).toEqual(certified.result);
-		expect(done.comparison).toMatchObject({ sameSeed: true, identical: true, firstDifference: null });
+		expect(done.comparison).toMatchObject({
+			sameSeed: true,
+			identical: true,
+			firstDifference: null
+		});
 	});
 
 	it('re-runs with a fresh seed and says whether the bound agrees within the stated error', async () => {
@@ -253,18 +283,31 @@ describe('a referee with a valid link', () => {
 
 	it('files one report, editable until submitted; the editor is told and releases it', async () => {
 		const { database, mailer } = w.mail;
-		await expect(saveReport(database, mailer, referee, { recommendation: 'great', comments: '' })).rejects.toThrow(ZodError);
-		const draft = await saveReport(database, mailer, referee, { recommendation: 'sound', comments: 'first', submit: false });
+		await expect(
+			saveReport(database, mailer, referee, { recommendation: 'great', comments: '' })
+		).rejects.toThrow(ZodError);
+		const draft = await saveReport(database, mailer, referee, {
+			recommendation: 'sound',
+			comments: 'first',
+			submit: false
+		});
 		expect(draft.state).toBe('draft');
 		expect(await releasedReports(database, author, w.claimId)).toEqual([]);
 		await expect(releaseReport(database, mailer, editor, draft.id)).rejects.toThrow(ConflictError);
-		const filed = await saveReport(database, mailer, referee, { recommendation: 'needs-revision', comments: 'second' });
+		const filed = await saveReport(database, mailer, referee, {
+			recommendation: 'needs-revision',
+			comments: 'second'
+		});
 		expect(filed).toMatchObject({ id: draft.id, state: 'submitted', comments: 'second' });
-		await expect(saveReport(database, mailer, referee, { recommendation: 'sound', comments: 'third' })).rejects.toThrow(ConflictError);
+		await expect(
+			saveReport(database, mailer, referee, { recommendation: 'sound', comments: 'third' })
+		).rejects.toThrow(ConflictError);
 		const toEditor = await mailTo(w.mail, w.editorEmail);
 		expect(toEditor.at(-1)!.subject).toMatch(/filed a report/);
 		expect(await releasedReports(database, author, w.claimId)).toEqual([]);
-		await expect(releaseReport(database, mailer, asUser(w.otherEditor, 'editor'), draft.id)).rejects.toThrow(NotFoundError);
+		await expect(
+			releaseReport(database, mailer, asUser(w.otherEditor, 'editor'), draft.id)
+		).rejects.toThrow(NotFoundError);
 		await expect(releaseReport(database, mailer, author, draft.id)).rejects.toThrow();
 		await releaseReport(database, mailer, editor, draft.id);
 		const released = await releasedReports(database, author, w.claimId);
@@ -276,7 +319,9 @@ describe('a referee with a valid link', () => {
 
 	it('loses everything when the author withdraws the share', async () => {
 		const { database } = w.mail;
-		const shareId = (await database.models.Share.findOne({ where: { editorEmail: w.editorEmail } }))!.get('id') as string;
+		const shareId = (await database.models.Share.findOne({
+			where: { editorEmail: w.editorEmail }
+		}))!.get('id') as string;
 		await withdrawShare(database, author, shareId);
 		expect(await resolveReviewToken(database, link.token, use)).toBeNull();
 		await expect(getClaim(database, editor, w.claimId)).rejects.toThrow(NotFoundError);

@@ -33,7 +33,10 @@ export interface ReviewWorld {
 
 async function certifiedClaim(mail: MailWorld, groupId: string, author: string, seed: number) {
 	const { database } = mail;
-	const claim = await createClaim(database, asUser(author), { ...claimFields, manuscriptReference: null });
+	const claim = await createClaim(database, asUser(author), {
+		...claimFields,
+		manuscriptReference: null
+	});
 	const dataset = await addDataset(database, asUser(author), claim.id, {
 		bytes: bytesOf(countsCsv(5, [0, 1, 2], 40_000, seed)),
 		originalName: `run-${seed}.csv`
@@ -60,7 +63,10 @@ export async function reviewWorld(): Promise<ReviewWorld> {
 	const outsider = await addUser(database, 'Cyd Marsh', [[ridge, 'lead']]);
 	const editor = await addUser(database, 'Eda Kern');
 	const otherEditor = await addUser(database, 'Fen Olde');
-	await database.models.User.update({ accountRole: 'editor' }, { where: { id: [editor, otherEditor] } });
+	await database.models.User.update(
+		{ accountRole: 'editor' },
+		{ where: { id: [editor, otherEditor] } }
+	);
 	const editorEmail = (await database.models.User.findByPk(editor))!.get('email') as string;
 	const main = await certifiedClaim(mail, lake, author, 11);
 	const other = await certifiedClaim(mail, ridge, outsider, 12);

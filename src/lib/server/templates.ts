@@ -9,16 +9,10 @@ const sources = import.meta.glob('/templates/mail/*.txt', {
 }) as Record<string, string>;
 
 export type NoticeTemplate =
-	| 'notice-claim-shared'
-	| 'notice-report-filed'
-	| 'notice-report-released';
+	'notice-claim-shared' | 'notice-report-filed' | 'notice-report-released';
 
 export type MailTemplate =
-	| 'verify-email'
-	| 'reset-password'
-	| 'invitation'
-	| 'password-changed'
-	| NoticeTemplate;
+	'verify-email' | 'reset-password' | 'invitation' | 'password-changed' | NoticeTemplate;
 
 export interface RenderedMail {
 	subject: string;

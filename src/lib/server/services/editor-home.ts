@@ -34,10 +34,15 @@ async function linksOf(database: Database, shareId: string) {
 			submittedAt: { [Op.ne]: null }
 		}
 	});
-	const byLink = new Map(reports.map((r) => [r.get('reviewLinkId') as string, r.get({ plain: true })]));
+	const byLink = new Map(
+		reports.map((r) => [r.get('reviewLinkId') as string, r.get({ plain: true })])
+	);
 	return links.map((l) => {
 		const report = byLink.get(l.get('id') as string);
-		return { ...reviewLinkView(l.get({ plain: true })), report: report ? reportView(report) : null };
+		return {
+			...reviewLinkView(l.get({ plain: true })),
+			report: report ? reportView(report) : null
+		};
 	});
 }
 

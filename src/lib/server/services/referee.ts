@@ -84,8 +84,7 @@ export function compareRuns(certified: CheckView, rerun: CheckView): Comparison 
 	const b = rerun.result;
 	if (!b) return { sameSeed, identical: null, withinError: null, firstDifference: null };
 	const difference = firstDifference(a, b);
-	const withinError =
-		Math.abs(a.statistic.lower - b.statistic.lower) <= a.statistic.standardError;
+	const withinError = Math.abs(a.statistic.lower - b.statistic.lower) <= a.statistic.standardError;
 	return { sameSeed, identical: difference === null, withinError, firstDifference: difference };
 }
 
@@ -98,10 +97,20 @@ export async function refereeView(database: Database, actor: Actor): Promise<Ref
 	const dataset = await getDataset(database, referee, certified.datasetId);
 	const { tables } = await datasetTables(database, referee, certified.datasetId);
 	const checks = [];
-	for (const id of await ownCheckIds(database, referee)) checks.push(await refereeCheck(database, referee, id));
+	for (const id of await ownCheckIds(database, referee))
+		checks.push(await refereeCheck(database, referee, id));
 	const { id, title, sourceDescription, dimension, method, bases, fourier } = c;
 	return {
-		claim: { id, title, sourceDescription, dimension, method, bases, fourier, claimedSchmidtNumber: c.claimedSchmidtNumber },
+		claim: {
+			id,
+			title,
+			sourceDescription,
+			dimension,
+			method,
+			bases,
+			fourier,
+			claimedSchmidtNumber: c.claimedSchmidtNumber
+		},
 		certificate: certificateView(certificate),
 		certified,
 		dataset,
@@ -146,7 +155,12 @@ export async function startRefereeCheck(
 	const settings = { datasetId, resamples, confidence, seed: freshSeed ?? certified.seed };
 	const check = await startCheck(database, referee, referee.claimId, settings);
 	const details = { reviewLinkId: referee.linkId, seed: check.seed };
-	const entry = { actorId: null, groupId: claim.groupId, subjectType: 'check', subjectId: check.id };
+	const entry = {
+		actorId: null,
+		groupId: claim.groupId,
+		subjectType: 'check',
+		subjectId: check.id
+	};
 	await audit(database, { ...entry, action: 'review.check-started', details });
 	return { ...check, comparison: compareRuns(certified, check) };
 }

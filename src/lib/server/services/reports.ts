@@ -75,12 +75,23 @@ export async function saveReport(
 		if (row) await row.update({ recommendation, comments, submittedAt }, { transaction });
 		else
 			await Report.create(
-				{ id, reviewLinkId: actor.linkId, claimId: claim.id, recommendation, comments, submittedAt },
+				{
+					id,
+					reviewLinkId: actor.linkId,
+					claimId: claim.id,
+					recommendation,
+					comments,
+					submittedAt
+				},
 				{ transaction }
 			);
 		const action = submit ? 'report.filed' : 'report.saved';
 		const entry = { actorId: null, groupId: claim.groupId, subjectType: 'report', subjectId: id };
-		await audit(database, { ...entry, action, details: { reviewLinkId: actor.linkId } }, transaction);
+		await audit(
+			database,
+			{ ...entry, action, details: { reviewLinkId: actor.linkId } },
+			transaction
+		);
 		return id;
 	});
 	if (submit) await noticeFiled(database, mailer, actor.linkId, claim.title, recommendation);
@@ -131,7 +142,11 @@ export async function releaseReport(
 		await database.sequelize.transaction(async (transaction) => {
 			await Report.update({ releasedAt: new Date() }, { where: { id: reportId }, transaction });
 			const entry = { actorId: accountIdOf(actor), groupId: claim.groupId, subjectType: 'report' };
-			await audit(database, { ...entry, subjectId: reportId, action: 'report.released' }, transaction);
+			await audit(
+				database,
+				{ ...entry, subjectId: reportId, action: 'report.released' },
+				transaction
+			);
 		});
 		await noticeReleased(database, mailer, claim, share, report.recommendation);
 	}
@@ -153,7 +168,12 @@ async function noticeReleased(
 			template: 'notice-report-released',
 			to: author.get('email') as string,
 			link: mailLink(mailer, `/claims/${claim.id}/sharing`),
-			words: { claim: claim.title, journal: share.journal, manuscript: share.manuscript, recommendation }
+			words: {
+				claim: claim.title,
+				journal: share.journal,
+				manuscript: share.manuscript,
+				recommendation
+			}
 		}
 	);
 }

@@ -87,7 +87,15 @@ export async function createReviewLink(
 	const createdBy = accountIdOf(actor)!;
 	await database.sequelize.transaction(async (transaction) => {
 		await database.models.ReviewLink.create(
-			{ id, shareId: share.id, claimId, tokenHash: hash, label: label ?? null, expiresAt, createdBy },
+			{
+				id,
+				shareId: share.id,
+				claimId,
+				tokenHash: hash,
+				label: label ?? null,
+				expiresAt,
+				createdBy
+			},
 			{ transaction }
 		);
 		// The label names the referee: it stays out of the audit details too.

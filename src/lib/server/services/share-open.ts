@@ -86,7 +86,11 @@ export async function signUpEditor(
 			await User.create({ ...account, emailVerifiedAt: new Date() }, { transaction });
 			await Share.update({ editorId: userId }, { where: { id: share.id }, transaction });
 			const entry = { actorId: userId, subjectType: 'user', subjectId: userId };
-			await audit(database, { ...entry, action: 'account.signed-up', details: { email, via: 'share' } }, transaction);
+			await audit(
+				database,
+				{ ...entry, action: 'account.signed-up', details: { email, via: 'share' } },
+				transaction
+			);
 		});
 	} catch (error) {
 		if (error instanceof UniqueConstraintError)

@@ -125,12 +125,18 @@ export async function withdrawShare(
 	});
 	await database.sequelize.transaction(async (transaction) => {
 		const now = new Date();
-		await Share.update({ withdrawnAt: now }, { where: { id: shareId, withdrawnAt: null }, transaction });
+		await Share.update(
+			{ withdrawnAt: now },
+			{ where: { id: shareId, withdrawnAt: null }, transaction }
+		);
 		await ReviewLink.update(
 			{ revokedAt: now },
 			{ where: { shareId, revokedAt: null }, transaction }
 		);
-		const open = await Share.count({ where: { claimId: claim.id, withdrawnAt: null }, transaction });
+		const open = await Share.count({
+			where: { claimId: claim.id, withdrawnAt: null },
+			transaction
+		});
 		const row = await Claim.findByPk(claim.id, { transaction });
 		if (!open && row?.get('state') === 'shared')
 			await row.update({ state: 'certified' }, { transaction });

@@ -20,7 +20,11 @@ export const actions: Actions = {
 		const actor = requireSignedIn(locals, url);
 		const form = await request.formData();
 		const claimId = field(form, 'claimId');
-		const values = { claimId, label: field(form, 'label'), expiresInDays: field(form, 'expiresInDays') };
+		const values = {
+			claimId,
+			label: field(form, 'label'),
+			expiresInDays: field(form, 'expiresInDays')
+		};
 		const { database } = await app();
 		try {
 			const { label, expiresInDays } = values;

@@ -38,7 +38,10 @@ export const actions: Actions = {
 	report: async ({ locals, request, url }) => {
 		const actor = referee(locals);
 		const form = await request.formData();
-		const values = { recommendation: text(form, 'recommendation'), comments: text(form, 'comments') };
+		const values = {
+			recommendation: text(form, 'recommendation'),
+			comments: text(form, 'comments')
+		};
 		const submit = form.get('intent') === 'file';
 		const { database, mailer } = await app();
 		try {

@@ -16,7 +16,10 @@ export interface ReviewLinkAttributes {
 }
 
 export type ReviewLinkModel = ModelStatic<
-	Model<ReviewLinkAttributes, Omit<ReviewLinkAttributes, 'revokedAt'> & Partial<ReviewLinkAttributes>>
+	Model<
+		ReviewLinkAttributes,
+		Omit<ReviewLinkAttributes, 'revokedAt'> & Partial<ReviewLinkAttributes>
+	>
 >;
 
 export function defineReviewLink(sequelize: Sequelize): ReviewLinkModel {

@@ -16,7 +16,10 @@ export interface ShareAttributes {
 }
 
 export type ShareModel = ModelStatic<
-	Model<ShareAttributes, Omit<ShareAttributes, 'editorId' | 'withdrawnAt'> & Partial<ShareAttributes>>
+	Model<
+		ShareAttributes,
+		Omit<ShareAttributes, 'editorId' | 'withdrawnAt'> & Partial<ShareAttributes>
+	>
 >;
 
 export function defineShare(sequelize: Sequelize): ShareModel {
