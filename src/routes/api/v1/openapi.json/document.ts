@@ -1,6 +1,8 @@
 /** The OpenAPI 3.1 description of /api/v1: exactly the endpoints under src/routes/api/v1. */
 import { MAX_COUNTS_FILE_BYTES, METHOD_IDS } from '$lib/certify';
 import { CLAIM_SORTS, CLAIM_STATES } from '$lib/claims/schema';
+import { reviewPaths } from './review-paths';
+import { reviewSchemas } from './review-schemas';
 import { schemas } from './schemas';
 
 const ref = (name: string) => ({ $ref: `#/components/schemas/${name}` });
@@ -209,6 +211,7 @@ export const openApiDocument = {
 				}
 			}
 		},
+		...reviewPaths,
 		'/api/v1/openapi.json': {
 			get: {
 				operationId: 'openApiDocument',
@@ -237,6 +240,6 @@ export const openApiDocument = {
 				description: 'The session cookie of a signed-in browser.'
 			}
 		},
-		schemas
+		schemas: { ...schemas, ...reviewSchemas }
 	}
 };
