@@ -15,6 +15,7 @@ export {
 	type CertifyOptions,
 	type BoundRung
 } from './certify';
+export { BROWSER_RESAMPLES_MAX, CONFIDENCE, RESAMPLES } from './limits';
 export { InputError, MAX_COUNTS_FILE_BYTES, type CountsDataset, type CountTable } from './counts';
 export { parseCountsCsv } from './counts-csv';
 export { parseCountsJson } from './counts-json';

@@ -1,5 +1,5 @@
 /** JSON Schemas (OpenAPI 3.1 components) of the API's bodies, kept beside the document. */
-import { DEFAULTS, METHOD_IDS } from '$lib/certify';
+import { CONFIDENCE, DEFAULTS, METHOD_IDS, RESAMPLES } from '$lib/certify';
 import { CLAIM_STATES } from '$lib/claims/schema';
 
 const ref = (name: string) => ({ $ref: `#/components/schemas/${name}` });
@@ -156,11 +156,16 @@ export const schemas = {
 		type: 'object',
 		properties: {
 			datasetId: { ...text, description: 'Default: the claim’s newest dataset.' },
-			resamples: { ...whole, minimum: 100, maximum: 1_000_000, default: DEFAULTS.resamples },
+			resamples: {
+				...whole,
+				minimum: RESAMPLES.min,
+				maximum: RESAMPLES.max,
+				default: DEFAULTS.resamples
+			},
 			confidence: {
 				...number,
-				exclusiveMinimum: 0.5,
-				exclusiveMaximum: 1,
+				exclusiveMinimum: CONFIDENCE.above,
+				exclusiveMaximum: CONFIDENCE.below,
 				default: DEFAULTS.confidence
 			},
 			seed: { ...whole, minimum: 1, maximum: 4294967295, default: DEFAULTS.seed }
