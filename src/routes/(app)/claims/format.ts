@@ -1,18 +1,4 @@
 /** Small display helpers shared by the claim pages. */
-import type { MethodId } from '$lib/certify';
-
-export const METHOD_TITLES: Record<MethodId, string> = {
-	'mub-correlation': 'MUB correlation sum',
-	'steering-2mub': 'Two-setting steering test',
-	'fidelity-two-basis': 'Two-basis fidelity bound'
-};
-
-export const METHOD_TRUST: Record<MethodId, string> = {
-	'mub-correlation': 'device-dependent',
-	'steering-2mub': 'one-sided device-independent',
-	'fidelity-two-basis': 'device-dependent'
-};
-
 export function byteSize(bytes: number): string {
 	if (bytes < 1024) return `${bytes} B`;
 	if (bytes < 1024 * 1024) return `${(bytes / 1024).toFixed(1)} KiB`;
