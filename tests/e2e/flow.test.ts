@@ -79,7 +79,7 @@ describe('the main flow in Chromium', () => {
 		const adminPage = await admin.context.newPage();
 		await adminPage.goto(`${app.origin}/admin/outbox`);
 		await adminPage
-			.locator('[data-testid=outbox] tr', { hasText: email })
+			.locator('[data-testid=outbox] li', { hasText: email })
 			.locator('a')
 			.first()
 			.click();
