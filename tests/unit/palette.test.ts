@@ -10,8 +10,7 @@ import { palette, textPairs } from '../../src/lib/palette.js';
 
 type Rgb = [number, number, number];
 
-const rgb = (hex: string): Rgb =>
-	[1, 3, 5].map((i) => parseInt(hex.slice(i, i + 2), 16)) as Rgb;
+const rgb = (hex: string): Rgb => [1, 3, 5].map((i) => parseInt(hex.slice(i, i + 2), 16)) as Rgb;
 
 /** WCAG 2.1 relative luminance (the 0.03928 threshold as printed there; 0.04045 gives the same here). */
 function luminance([r, g, b]: Rgb): number {

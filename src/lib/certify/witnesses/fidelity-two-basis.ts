@@ -76,8 +76,7 @@ export const fidelityTwoBasis: WitnessFamily = {
 	statisticName: 'lower bound on the fidelity with the maximally entangled state',
 	maximum: () => 1,
 	trustedSides: 'both sides trusted',
-	formula:
-		'F̃ ≤ F = ⟨Φ_d|ρ|Φ_d⟩ from the computational table and the Fourier matches; F ≤ r/d.',
+	formula: 'F̃ ≤ F = ⟨Φ_d|ρ|Φ_d⟩ from the computational table and the Fourier matches; F ≤ r/d.',
 	trustNote: 'Both sides trusted; every cell of the computational basis is needed.',
 	basesNote: 'bases 0 and 1',
 	defaultBases: () => [0, 1],

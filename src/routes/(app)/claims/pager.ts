@@ -20,7 +20,8 @@ export function pageStatus(page: number, pageSize: number, total: number, noun =
 	const { pages, range, pastTheEnd } = pagePlace(page, pageSize, total);
 	const count = `${total.toLocaleString('en')} ${noun}${total === 1 ? '' : 's'}`;
 	if (total === 0) return `No ${noun}s to show`;
-	if (pastTheEnd) return `Page ${page} is past the end: ${count} fill ${pages} page${pages === 1 ? '' : 's'}`;
+	if (pastTheEnd)
+		return `Page ${page} is past the end: ${count} fill ${pages} page${pages === 1 ? '' : 's'}`;
 	if (!range) return count;
 	const [first, last] = range;
 	const where = first === last ? `${first}` : `${first}–${last}`;

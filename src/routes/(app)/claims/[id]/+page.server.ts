@@ -57,7 +57,10 @@ export const actions: Actions = {
 			return uploadFailure('Choose a counts file (CSV or JSON) to upload.', null);
 		}
 		if (file.size > MAX_COUNTS_FILE_BYTES) {
-			return uploadFailure(`The file is ${file.size} bytes; the limit is ${MAX_COUNTS_FILE_BYTES / 2 ** 20} MiB.`, file.name);
+			return uploadFailure(
+				`The file is ${file.size} bytes; the limit is ${MAX_COUNTS_FILE_BYTES / 2 ** 20} MiB.`,
+				file.name
+			);
 		}
 		const { database } = await app();
 		let datasetId: string;
