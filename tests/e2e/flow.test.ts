@@ -108,6 +108,7 @@ describe('the main flow in Chromium', () => {
 		await page.fill('input[name=dimension]', '5');
 		await page.check('input[name=method][value=fidelity-two-basis]');
 		await page.fill('input[name=bases]', '0,1');
+		await page.selectOption('select[name=fourier]', 'cyclic');
 		await page.fill('input[name=claimedSchmidtNumber]', '4');
 		await Promise.all([
 			page.waitForURL(/\/claims\/[0-9a-f-]{36}$/),
@@ -116,6 +117,9 @@ describe('the main flow in Chromium', () => {
 		claimUrl = page.url();
 		expect(await page.textContent('[data-testid=claim-title]')).toContain(
 			'Frequency bins at d = 5'
+		);
+		expect(await page.textContent('[data-testid=claim-fourier]')).toContain(
+			'cyclic Fourier basis (ℤ_5)'
 		);
 	});
 
@@ -145,6 +149,7 @@ describe('the main flow in Chromium', () => {
 		await page.evaluate(() => ((window as unknown as { marker: number }).marker = 42));
 		// Waits for a state, not for a time: only the test runner's timeout bounds it.
 		await page.waitForSelector('[data-testid=check][data-status=done]', { timeout: 0 });
+		expect(await page.textContent('[data-testid=check-fourier]')).toContain('cyclic Fourier basis');
 		expect(await page.evaluate(() => (window as unknown as { marker?: number }).marker)).toBe(42);
 		expect(page.url()).toBe(checkUrl);
 		await expect(page.textContent('[data-testid=verdict]')).resolves.toMatch(/supported/i);

@@ -3,7 +3,7 @@
  */
 import { col, fn, Op, where as sqlWhere, type Order, type WhereOptions } from 'sequelize';
 import { claimInputSchema, type ClaimInputValues, type ClaimQuery } from '$lib/claims/schema';
-import type { MethodId } from '$lib/certify';
+import type { FourierConvention, MethodId } from '$lib/certify';
 import type { Database } from '../db';
 import type { ClaimAttributes, ClaimState } from '../db/models/Claim';
 import type { CheckStatus } from '../db/models/Check';
@@ -30,6 +30,7 @@ export interface ClaimView {
 	dimension: number;
 	method: MethodId;
 	bases: number[];
+	fourier: FourierConvention;
 	claimedSchmidtNumber: number;
 	manuscriptReference: string | null;
 	state: ClaimState;
@@ -90,6 +91,7 @@ async function claimViews(database: Database, claims: ClaimAttributes[]): Promis
 		dimension: c.dimension,
 		method: c.method,
 		bases: c.bases,
+		fourier: c.fourier,
 		claimedSchmidtNumber: c.claimedSchmidtNumber,
 		manuscriptReference: c.manuscriptReference,
 		state: c.state,
@@ -131,6 +133,7 @@ export async function createClaim(
 				dimension: claim.dimension,
 				method: claim.method,
 				bases: claim.bases,
+				fourier: claim.fourier,
 				claimedSchmidtNumber: claim.claimedSchmidtNumber,
 				manuscriptReference: claim.manuscriptReference,
 				state: 'draft'

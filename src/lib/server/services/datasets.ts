@@ -6,7 +6,15 @@ import { randomBytes } from 'node:crypto';
 import { mkdir, readFile, rename, rm, stat, writeFile } from 'node:fs/promises';
 import path from 'node:path';
 import { col } from 'sequelize';
-import { METHOD_IDS, parseCounts, witnessFamilies, type CountsDataset } from '$lib/certify';
+import {
+	checkDeclaredFourier,
+	DEFAULT_FOURIER,
+	METHOD_IDS,
+	parseCounts,
+	witnessFamilies,
+	type CountsDataset,
+	type FourierConvention
+} from '$lib/certify';
 import { requireCompleteTables } from '$lib/certify/counts';
 import { sha256Hex } from '$lib/evidence/hash';
 import { config } from '../config';
@@ -49,14 +57,17 @@ function formatOf(bytes: Uint8Array): 'csv' | 'json' {
 	return head.startsWith('{') ? 'json' : 'csv';
 }
 
-export function summarise(dataset: CountsDataset): DatasetSummary {
+export function summarise(
+	dataset: CountsDataset,
+	fourier: FourierConvention = DEFAULT_FOURIER
+): DatasetSummary {
 	const d = dataset.dimension;
 	const present = dataset.tables.map((t) => t.basis);
 	const allows = METHOD_IDS.filter((method) => {
 		const family = witnessFamilies[method];
 		try {
 			const bases = family.defaultBases(present, d);
-			family.checkBases(bases, d);
+			family.checkBases(bases, d, fourier);
 			requireCompleteTables(dataset, bases, method);
 			return true;
 		} catch {
@@ -122,6 +133,7 @@ export async function addDataset(
 	const claim = await requireVisibleClaim(database, userId, claimId);
 	const { bytes } = upload;
 	const parsed = parseCounts(bytes, claim.dimension);
+	checkDeclaredFourier(parsed, claim.fourier, 'the claim');
 	requireCompleteTables(parsed, claim.bases, claim.method);
 	const sha256 = sha256Hex(bytes);
 	const originalName = (upload.originalName.trim() || 'counts').slice(0, 200);
@@ -138,7 +150,7 @@ export async function addDataset(
 					byteSize: bytes.byteLength,
 					format: formatOf(bytes),
 					originalName,
-					summary: summarise(parsed)
+					summary: summarise(parsed, claim.fourier)
 				},
 				{ transaction }
 			);

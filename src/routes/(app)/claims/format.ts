@@ -1,4 +1,13 @@
 /** Small display helpers shared by the claim pages. */
+import type { FourierConvention } from '$lib/certify';
+
+/** Which Fourier basis basis 1 is, in words that say which group its outcomes belong to. */
+export function fourierWords(fourier: FourierConvention, d: number): string {
+	return fourier === 'field'
+		? `field Fourier basis (GF(${d}), base-p digit labels)`
+		: `cyclic Fourier basis (ℤ_${d})`;
+}
+
 export function byteSize(bytes: number): string {
 	if (bytes < 1024) return `${bytes} B`;
 	if (bytes < 1024 * 1024) return `${(bytes / 1024).toFixed(1)} KiB`;
