@@ -13,7 +13,11 @@ describe('database', () => {
 		expect(await select('PRAGMA foreign_keys;')).toEqual([{ foreign_keys: 1 }]);
 		const applied = await select('SELECT name FROM schema_migrations');
 		expect(applied).toEqual(
-			expect.arrayContaining([{ name: '0001-initial' }, { name: '0002-fourier-convention' }])
+			expect.arrayContaining([
+				{ name: '0001-initial' },
+				{ name: '0002-fourier-convention' },
+				{ name: '0005-certificates' }
+			])
 		);
 	});
 
