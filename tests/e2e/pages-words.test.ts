@@ -36,6 +36,15 @@ describe('the result in words', () => {
 			const name = (await page.textContent('[data-testid=statistic-name]'))!.replace(/\s+/g, ' ');
 			expect(name.trim()).toMatch(symbols[claim.method]);
 			expect(await page.textContent('[data-testid=coincidences]')).toMatch(/^[\d,]+$/);
+			// The engine's own note on how the lower bound was made, word for word.
+			const check = await fetch(`${origin}/api/v1/checks/${claim.latestCheck!.id}`, {
+				headers: { cookie: `rankseal_session=${session.world.sessions.lead}` }
+			});
+			const { result } = await check.json();
+			expect(result.statistic.boundNote.length).toBeGreaterThan(20);
+			expect((await page.textContent('[data-testid=bound-note]'))?.trim()).toBe(
+				result.statistic.boundNote
+			);
 			const trust = (await page.textContent('[data-testid=trust]'))!;
 			if (claim.method === 'steering-2mub') {
 				expect(trust).toContain('side B trusted, side A untrusted');
