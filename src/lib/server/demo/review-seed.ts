@@ -6,6 +6,7 @@
 import { mkdirSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { userActor } from '../access/actor';
+import { startCheckRunner } from '../checks/runner';
 import { config } from '../config';
 import type { Database } from '../db';
 import type { Mailer } from '../mail';
@@ -29,16 +30,14 @@ function writeSecret(file: string, text: string) {
 }
 
 /**
- * The claim's check once every demo check has finished: issuing while the runner still writes
- * progress would meet a busy database (issue 7 §3), and the demo waits for states, not times.
+ * The claim's check once every demo check has finished (the runner is awaited): issuing while the
+ * runner still writes progress would meet a busy database (issue 7 §3).
  */
 async function finishedCheckId(database: Database, claimId: string): Promise<string> {
-	const { Check } = database.models;
-	while (await Check.count({ where: { status: ['queued', 'running'] } }))
-		await new Promise((wake) => setTimeout(wake, 100));
-	const check = (await Check.findOne({ where: { claimId, status: 'done' } }))?.get('id');
+	await (await startCheckRunner(database)).idle();
+	const check = await database.models.Check.findOne({ where: { claimId, status: 'done' } });
 	if (!check) throw new Error('demo: the check of the claim to share did not finish');
-	return check as string;
+	return check.get('id') as string;
 }
 
 export async function seedReview(
