@@ -37,7 +37,7 @@ async function pageAs(session: string | null): Promise<Page> {
 async function newestMail(admin: Page, to: string, subject: RegExp): Promise<string> {
 	await admin.goto(`${app.origin}/admin/outbox`);
 	await admin
-		.locator('[data-testid=outbox] tr', { hasText: to })
+		.locator('[data-testid=outbox] li', { hasText: to })
 		.filter({ hasText: subject })
 		.first()
 		.locator('a')
