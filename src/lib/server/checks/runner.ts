@@ -9,6 +9,7 @@ import { Piscina } from 'piscina';
 import type { CertificationResult } from '$lib/certify';
 import { config } from '../config';
 import type { Database } from '../db';
+import { writeTransaction } from '../db/transactions';
 import type { CheckAttributes } from '../db/models/Check';
 import { audit } from '../services/audit';
 import { datasetFilePath } from '../services/datasets';
@@ -140,7 +141,7 @@ export class CheckRunner {
 		const { Check, Claim } = this.database.models;
 		const { result, failure } = outcome;
 		const done = result !== null && failure === null;
-		await this.database.sequelize.transaction(async (transaction) => {
+		await writeTransaction(this.database, async (transaction) => {
 			await Check.update(
 				done
 					? {

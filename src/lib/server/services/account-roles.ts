@@ -3,6 +3,7 @@
  * function re-reads the actor's role from the database rather than trusting the caller.
  */
 import type { Database } from '../db';
+import { writeTransaction } from '../db/transactions';
 import type { AccountRole } from '../db/models/User';
 import { audit } from './audit';
 import { ForbiddenError, NotFoundError } from './errors';
@@ -51,7 +52,7 @@ export async function setAccountRole(
 		throw new FieldError('role', 'Choose researcher, editor or admin.');
 	await requireAdmin(database, actorId);
 	const { User } = database.models;
-	await database.sequelize.transaction(async (transaction) => {
+	await writeTransaction(database, async (transaction) => {
 		const user = await User.findByPk(userId, { transaction });
 		if (!user) throw new NotFoundError('No such user.');
 		const previous = user.get('accountRole') as AccountRole;

@@ -5,6 +5,7 @@
 import { UniqueConstraintError } from 'sequelize';
 import { hashPassword, verifyPassword, type AppLucia } from '../auth';
 import type { Database } from '../db';
+import { writeTransaction } from '../db/transactions';
 import { mailLink, sendTemplate, type Mailer } from '../mail';
 import { audit } from './audit';
 import {
@@ -63,7 +64,7 @@ export async function signUp(
 	const userId = newId();
 	let token: string;
 	try {
-		token = await database.sequelize.transaction(async (transaction) => {
+		token = await writeTransaction(database, async (transaction) => {
 			await User.create(
 				{ id: userId, email, name, passwordHash, accountRole: 'researcher' },
 				{ transaction }
@@ -104,7 +105,7 @@ export const verificationLinkState = (database: Database, token: string) =>
 	emailTokenState(database, token, 'verify-email');
 
 export async function verifyEmail(database: Database, token: string): Promise<LinkResult> {
-	return database.sequelize.transaction(async (transaction) => {
+	return writeTransaction(database, async (transaction) => {
 		const used = await useEmailToken(database, token, 'verify-email', transaction);
 		if (!used.ok) return used;
 		await confirmAddress(database, used.userId, transaction);
@@ -174,7 +175,7 @@ export async function resetPassword(
 ): Promise<LinkResult> {
 	checkPassword(newPassword);
 	const passwordHash = await hashPassword(newPassword);
-	const result = await database.sequelize.transaction(async (transaction): Promise<LinkResult> => {
+	const result = await writeTransaction(database, async (transaction): Promise<LinkResult> => {
 		const used = await useEmailToken(database, token, 'reset-password', transaction);
 		if (!used.ok) return used;
 		const { User } = database.models;

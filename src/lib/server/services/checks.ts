@@ -7,6 +7,7 @@ import { checkRequestSchema, type CheckRequest } from '$lib/claims/schema';
 import { DEFAULTS, InputError, type CertificationResult } from '$lib/certify';
 import { hasCheckRunner, startCheckRunner } from '../checks/runner';
 import type { Database } from '../db';
+import { writeTransaction } from '../db/transactions';
 import type { CheckAttributes, CheckStatus } from '../db/models/Check';
 import { visibleClaim } from './access';
 import { audit } from './audit';
@@ -86,7 +87,7 @@ export async function startCheck(
 		confidence: options.confidence ?? DEFAULTS.confidence,
 		seed: options.seed ?? DEFAULTS.seed
 	};
-	await database.sequelize.transaction(async (transaction) => {
+	await writeTransaction(database, async (transaction) => {
 		await Check.create(
 			{
 				id,

@@ -5,6 +5,7 @@ import { col, fn, Op, where as sqlWhere, type Order, type WhereOptions } from 's
 import { claimInputSchema, type ClaimInputValues, type ClaimQuery } from '$lib/claims/schema';
 import type { MethodId } from '$lib/certify';
 import type { Database } from '../db';
+import { writeTransaction } from '../db/transactions';
 import type { ClaimAttributes, ClaimState } from '../db/models/Claim';
 import type { CheckStatus } from '../db/models/Check';
 import { membershipsOf, visibleClaim } from './access';
@@ -120,7 +121,7 @@ export async function createClaim(
 	if (!memberships.some((m) => m.get('groupId') === groupId))
 		throw new NotFoundError('No such group.');
 	const id = newId();
-	await database.sequelize.transaction(async (transaction) => {
+	await writeTransaction(database, async (transaction) => {
 		await database.models.Claim.create(
 			{
 				id,

@@ -11,6 +11,7 @@ import { requireCompleteTables } from '$lib/certify/counts';
 import { sha256Hex } from '$lib/evidence/hash';
 import { config } from '../config';
 import type { Database } from '../db';
+import { writeTransaction } from '../db/transactions';
 import type { DatasetAttributes, DatasetSummary } from '../db/models/Dataset';
 import { visibleClaim } from './access';
 import { audit } from './audit';
@@ -128,7 +129,7 @@ export async function addDataset(
 	const id = newId();
 	let wrote = false;
 	try {
-		await database.sequelize.transaction(async (transaction) => {
+		await writeTransaction(database, async (transaction) => {
 			await database.models.Dataset.create(
 				{
 					id,

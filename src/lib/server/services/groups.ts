@@ -5,6 +5,7 @@
  */
 import type { Transaction } from 'sequelize';
 import type { Database } from '../db';
+import { writeTransaction } from '../db/transactions';
 import type { GroupRole } from '../db/models/Membership';
 import { audit } from './audit';
 import { ForbiddenError, NotFoundError } from './errors';
@@ -79,7 +80,7 @@ export async function createGroup(
 	if (!user.get('emailVerifiedAt'))
 		throw new ForbiddenError('Confirm your e-mail address before starting a group.');
 	const id = newId();
-	await database.sequelize.transaction(async (transaction) => {
+	await writeTransaction(database, async (transaction) => {
 		await Group.create({ id, name: trimmed }, { transaction });
 		await Membership.create({ id: newId(), groupId: id, userId, role: 'lead' }, { transaction });
 		await audit(
@@ -164,7 +165,7 @@ export async function changeMemberRole(
 	role: GroupRole
 ): Promise<void> {
 	if (!GROUP_ROLES.includes(role)) throw new FieldError('role', 'Choose lead or author.');
-	await database.sequelize.transaction(async (transaction) => {
+	await writeTransaction(database, async (transaction) => {
 		await requireGroupRole(database, actorId, groupId, 'lead', transaction);
 		const membership = await targetMembership(database, groupId, memberId, transaction);
 		const previous = membership.get('role') as GroupRole;
@@ -194,7 +195,7 @@ export async function removeMember(
 	groupId: string,
 	memberId: string
 ): Promise<void> {
-	await database.sequelize.transaction(async (transaction) => {
+	await writeTransaction(database, async (transaction) => {
 		await requireGroupRole(database, actorId, groupId, 'lead', transaction);
 		const membership = await targetMembership(database, groupId, memberId, transaction);
 		const role = membership.get('role') as GroupRole;

@@ -3,6 +3,7 @@
  * within 7 days, and only for a signed-in user with the invited address.
  */
 import type { Database } from '../db';
+import { writeTransaction } from '../db/transactions';
 import type { GroupRole } from '../db/models/Membership';
 import { audit } from './audit';
 import { confirmAddress } from './email-tokens';
@@ -56,7 +57,7 @@ export async function acceptInvitation(
 	token: string
 ): Promise<{ groupId: string; role: GroupRole }> {
 	const { Invitation, Membership, User } = database.models;
-	return database.sequelize.transaction(async (transaction) => {
+	return writeTransaction(database, async (transaction) => {
 		const row = await Invitation.findOne({ where: { tokenHash: hashSecret(token) }, transaction });
 		if (!row) throw new NotFoundError('This invitation does not exist or was withdrawn.');
 		const i = row.get({ plain: true });

@@ -4,6 +4,7 @@
  */
 import { Op } from 'sequelize';
 import type { Database } from '../db';
+import { writeTransaction } from '../db/transactions';
 import type { GroupRole } from '../db/models/Membership';
 import { mailLink, sendTemplate, type Mailer } from '../mail';
 import { normaliseEmail } from './accounts';
@@ -34,7 +35,8 @@ export async function inviteMember(
 	const email = normaliseEmail(input.email);
 	if (!GROUP_ROLES.includes(input.role)) throw new FieldError('role', 'Choose lead or author.');
 	const { Group, Invitation, Membership, User } = database.models;
-	const { id, token, groupName, inviter } = await database.sequelize.transaction(
+	const { id, token, groupName, inviter } = await writeTransaction(
+		database,
 		async (transaction) => {
 			await requireGroupRole(database, actorId, groupId, 'lead', transaction);
 			const existing = await User.findOne({ where: { email }, transaction });
@@ -123,7 +125,7 @@ export async function revokeInvitation(
 	groupId: string,
 	invitationId: string
 ): Promise<void> {
-	await database.sequelize.transaction(async (transaction) => {
+	await writeTransaction(database, async (transaction) => {
 		await requireGroupRole(database, actorId, groupId, 'lead', transaction);
 		const removed = await database.models.Invitation.destroy({
 			where: { id: invitationId, groupId, acceptedAt: null },

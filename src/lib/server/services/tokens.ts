@@ -6,6 +6,7 @@ import { Op } from 'sequelize';
 import { z } from 'zod';
 import type { SessionUser } from '../auth';
 import type { Database } from '../db';
+import { writeTransaction } from '../db/transactions';
 import type { ApiTokenAttributes } from '../db/models/ApiToken';
 import { membershipsOf } from './access';
 import { audit } from './audit';
@@ -61,7 +62,7 @@ export async function createToken(
 	const { name: cleanName } = tokenNameSchema.parse({ name });
 	const { token, hash } = newSecret(TOKEN_PREFIX);
 	const id = newId();
-	await database.sequelize.transaction(async (transaction) => {
+	await writeTransaction(database, async (transaction) => {
 		await database.models.ApiToken.create(
 			{ id, userId, name: cleanName, prefix: token.slice(0, 12), tokenHash: hash },
 			{ transaction }
@@ -100,7 +101,7 @@ export async function revokeToken(
 	const row = await database.models.ApiToken.findOne({ where: { id: tokenId, userId } });
 	if (!row) throw new NotFoundError('No such token.');
 	if (row.get('revokedAt')) return;
-	await database.sequelize.transaction(async (transaction) => {
+	await writeTransaction(database, async (transaction) => {
 		await row.update({ revokedAt: new Date() }, { transaction });
 		await audit(
 			database,
