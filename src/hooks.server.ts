@@ -2,6 +2,7 @@ import type { Handle, ServerInit } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
 import { app } from '$lib/server/app';
 import { formOriginCheck } from '$lib/server/api';
+import { rejectControlCharacters } from '$lib/server/request-guards';
 import { authenticate } from '$lib/server/services/tokens';
 
 /** Reads the session cookie, renews it when lucia says so, and sets locals.user / locals.session. */
@@ -14,11 +15,11 @@ const session: Handle = async ({ event, resolve }) => {
 		const { session, user } = await lucia.validateSession(sessionId);
 		if (session?.fresh) {
 			const cookie = lucia.createSessionCookie(session.id);
-			event.cookies.set(cookie.name, cookie.value, { path: '.', ...cookie.attributes });
+			event.cookies.set(cookie.name, cookie.value, { path: '/', ...cookie.attributes });
 		}
 		if (!session) {
 			const blank = lucia.createBlankSessionCookie();
-			event.cookies.set(blank.name, blank.value, { path: '.', ...blank.attributes });
+			event.cookies.set(blank.name, blank.value, { path: '/', ...blank.attributes });
 		}
 		event.locals.user = user;
 		event.locals.session = session;
@@ -46,4 +47,4 @@ export const init: ServerInit = async () => {
 	await app();
 };
 
-export const handle: Handle = sequence(formOriginCheck, session, bearer);
+export const handle: Handle = sequence(formOriginCheck, rejectControlCharacters, session, bearer);

@@ -22,6 +22,7 @@ export class CheckRunner {
 	private readonly pool: Piscina;
 	private readonly active = new Map<string, Promise<void>>();
 	private readonly aborts = new Map<string, AbortController>();
+	private stopping = false;
 
 	constructor(
 		private readonly database: Database,
@@ -77,10 +78,17 @@ export class CheckRunner {
 		await this.pool.destroy();
 	}
 
+	/** Stops the threads now; checks cut short stay queued or running and resume at the next start. */
+	async abort(): Promise<void> {
+		this.stopping = true;
+		await this.pool.destroy();
+		await Promise.allSettled([...this.active.values()]);
+	}
+
 	private async run(checkId: string): Promise<void> {
 		const { Check, Claim, Dataset } = this.database.models;
 		const check = (await Check.findByPk(checkId))?.get({ plain: true });
-		if (!check || check.status !== 'queued') return;
+		if (!check || check.status !== 'queued' || this.stopping) return;
 		const dataset = (await Dataset.findByPk(check.datasetId))!.get({ plain: true });
 		const claim = (await Claim.findByPk(check.claimId))!.get({ plain: true });
 		const channel = new MessageChannel();
@@ -131,6 +139,7 @@ export class CheckRunner {
 		}
 		channel.port1.close();
 		await writes;
+		if (this.stopping) return;
 		await this.finish(check, { startedAt: startedAt ?? new Date(), result, failure });
 	}
 
@@ -213,4 +222,12 @@ export async function stopCheckRunner(database: Database): Promise<void> {
 	if (!runner) return;
 	runners.delete(database);
 	await (await runner).close();
+}
+
+/** For shutdown: stops the worker threads without waiting for running checks (they resume later). */
+export async function abortCheckRunner(database: Database): Promise<void> {
+	const runner = runners.get(database);
+	if (!runner) return;
+	runners.delete(database);
+	await (await runner).abort();
 }
