@@ -13,6 +13,7 @@ const ENTRY = resolve('build/index.js');
 export interface AppServer {
 	origin: string;
 	port: number;
+	child: ChildProcess;
 	/** Everything the server printed, for failure messages. */
 	output(): string;
 	stop(): Promise<void>;
@@ -96,5 +97,5 @@ export async function startApp(
 		await stop();
 		throw error;
 	}
-	return { origin, port, output, stop };
+	return { origin, port, child, output, stop };
 }
