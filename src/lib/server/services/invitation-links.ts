@@ -2,6 +2,7 @@
  * Invitations, the invitee's side: what a link stands for, and using it. A link works once
  * within 7 days, and only for a signed-in user with the invited address.
  */
+import { Op, type Transaction } from 'sequelize';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
 import type { GroupRole } from '../db/models/Membership';
@@ -45,6 +46,31 @@ export async function findInvitation(
 		invitedByName,
 		state
 	};
+}
+
+/** The invitation token in a path such as `/invite/<token>` (a sign-up's ?next=), else null. */
+export function invitationTokenIn(path: string | null | undefined): string | null {
+	return path?.match(/^\/invite\/([A-Za-z0-9_-]+)$/)?.[1] ?? null;
+}
+
+/** True when the token is a pending, unexpired invitation to exactly this address. */
+export async function invitedAddress(
+	database: Database,
+	token: string | null | undefined,
+	email: string,
+	transaction?: Transaction
+): Promise<boolean> {
+	if (!token) return false;
+	const row = await database.models.Invitation.findOne({
+		where: {
+			tokenHash: hashSecret(token),
+			email,
+			acceptedAt: null,
+			expiresAt: { [Op.gt]: new Date() }
+		},
+		transaction
+	});
+	return row !== null;
 }
 
 /**

@@ -9,6 +9,7 @@ import {
 	startSession
 } from '$lib/server/auth-web';
 import { signUp } from '$lib/server/services/accounts';
+import { invitationTokenIn } from '$lib/server/services/invitation-links';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = ({ locals, url }) => {
@@ -26,7 +27,8 @@ export const actions: Actions = {
 		const { database, lucia, mailer } = await app();
 		let userId: string;
 		try {
-			({ userId } = await signUp(database, mailer, parsed.data));
+			const invitationToken = invitationTokenIn(safeNext(form.get('next') as string | null, ''));
+			({ userId } = await signUp(database, mailer, parsed.data, { invitationToken }));
 		} catch (problem) {
 			return fail(400, { errors: serviceProblem(problem), values });
 		}
