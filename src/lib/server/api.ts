@@ -9,7 +9,7 @@ import { InputError, MAX_COUNTS_FILE_BYTES } from '$lib/certify';
 import { app } from './app';
 import type { SessionUser } from './auth';
 import type { Database } from './db';
-import { ForbiddenError, NotFoundError } from './services/errors';
+import { ConflictError, ForbiddenError, NotFoundError } from './services/errors';
 
 export class ApiError extends Error {
 	constructor(
@@ -41,6 +41,7 @@ function errorResponse(error: unknown): Response {
 		return apiError(error.status, error.code, error.message, error.extra);
 	if (error instanceof NotFoundError) return apiError(404, 'not_found', error.message);
 	if (error instanceof ForbiddenError) return apiError(403, 'forbidden', error.message);
+	if (error instanceof ConflictError) return apiError(409, 'conflict', error.message);
 	if (error instanceof ZodError) return apiError(400, 'bad_request', describeIssues(error));
 	if (error instanceof InputError) return apiError(400, 'bad_request', error.message);
 	throw error;

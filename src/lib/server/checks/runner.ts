@@ -14,12 +14,15 @@ import type { CheckAttributes } from '../db/models/Check';
 import { audit } from '../services/audit';
 import { datasetFilePath } from '../services/datasets';
 import { checkWorkerFile } from './locate';
+import type { SummaryOutcome, SummaryTask } from './summary';
 import type { CheckMessage, CheckTask } from './task';
 
 const PROGRESS_STEP = 0.02;
 
 export class CheckRunner {
 	private readonly pool: Piscina;
+	/** Threads for reading uploads, apart from the checks' so that an upload never queues behind one. */
+	private readonly readers: Piscina;
 	private readonly active = new Map<string, Promise<void>>();
 	private readonly aborts = new Map<string, AbortController>();
 	private stopping = false;
@@ -29,12 +32,14 @@ export class CheckRunner {
 		workerFile: string,
 		threads: number
 	) {
-		this.pool = new Piscina({
+		const options = {
 			filename: pathToFileURL(workerFile).href,
 			minThreads: 0,
 			maxThreads: threads,
 			idleTimeout: 60_000
-		});
+		};
+		this.pool = new Piscina(options);
+		this.readers = new Piscina(options);
 		// A worker that dies outside a task (e.g. a broken bundle) would leave its tasks waiting forever.
 		this.pool.on('error', (error: Error) => {
 			console.error('check worker:', error);
@@ -68,6 +73,11 @@ export class CheckRunner {
 		return ids;
 	}
 
+	/** Reads a counts file against its claim on a worker thread, off the request thread. */
+	summarise(task: SummaryTask): Promise<SummaryOutcome> {
+		return this.readers.run(task, { name: 'summariseCounts' }) as Promise<SummaryOutcome>;
+	}
+
 	/** Resolves when no check is queued or running here (tests, shutdown). */
 	async idle(): Promise<void> {
 		while (this.active.size) await Promise.allSettled([...this.active.values()]);
@@ -75,13 +85,13 @@ export class CheckRunner {
 
 	async close(): Promise<void> {
 		await this.idle();
-		await this.pool.destroy();
+		await Promise.all([this.pool.destroy(), this.readers.destroy()]);
 	}
 
 	/** Stops the threads now; checks cut short stay queued or running and resume at the next start. */
 	async abort(): Promise<void> {
 		this.stopping = true;
-		await this.pool.destroy();
+		await Promise.all([this.pool.destroy(), this.readers.destroy()]);
 		await Promise.allSettled([...this.active.values()]);
 	}
 
@@ -117,6 +127,7 @@ export class CheckRunner {
 			resamples: check.resamples,
 			confidence: check.confidence,
 			seed: Number(check.seed),
+			subtractAccidentals: !!check.subtractAccidentals,
 			claim: claim.claimedSchmidtNumber,
 			port: channel.port2
 		};

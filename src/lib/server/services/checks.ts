@@ -9,6 +9,7 @@ import { hasCheckRunner, startCheckRunner } from '../checks/runner';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
 import type { CheckAttributes, CheckStatus } from '../db/models/Check';
+import type { DatasetAttributes } from '../db/models/Dataset';
 import { visibleClaim } from './access';
 import { audit } from './audit';
 import { requireVisibleClaim } from './claims';
@@ -27,6 +28,8 @@ export interface CheckView {
 	resamples: number;
 	confidence: number;
 	seed: number;
+	/** Accidentals subtracted before normalising: the result is labelled background-subtracted. */
+	subtractAccidentals: boolean;
 	createdAt: string;
 	startedAt: string | null;
 	finishedAt: string | null;
@@ -46,12 +49,21 @@ const view = (c: CheckAttributes): CheckView => ({
 	resamples: c.resamples,
 	confidence: c.confidence,
 	seed: Number(c.seed),
+	subtractAccidentals: !!c.subtractAccidentals,
 	createdAt: new Date(c.createdAt ?? 0).toISOString(),
 	startedAt: isoOrNull(c.startedAt),
 	finishedAt: isoOrNull(c.finishedAt),
 	error: c.error,
 	result: c.result
 });
+
+/** A background-subtracted check needs the file's own accidental estimates. */
+function requireAccidentals(dataset: DatasetAttributes, subtract: boolean): void {
+	if (subtract && !dataset.summary.hasAccidentals)
+		throw new InputError(
+			`Background subtraction needs an accidentals column, and ${dataset.originalName} has none.`
+		);
+}
 
 /**
  * Queues a check of the claim on one of its datasets (default: the newest) and returns it
@@ -81,11 +93,14 @@ export async function startCheck(
 		if (options.datasetId) throw new NotFoundError('No such dataset on this claim.');
 		throw new InputError('This claim has no counts file yet: upload one before running a check.');
 	}
+	const subtractAccidentals = options.subtractAccidentals ?? false;
+	requireAccidentals(dataset.get({ plain: true }), subtractAccidentals);
 	const id = newId();
 	const settings = {
 		resamples: options.resamples ?? DEFAULTS.resamples,
 		confidence: options.confidence ?? DEFAULTS.confidence,
-		seed: options.seed ?? DEFAULTS.seed
+		seed: options.seed ?? DEFAULTS.seed,
+		subtractAccidentals
 	};
 	await writeTransaction(database, async (transaction) => {
 		await Check.create(

@@ -16,3 +16,11 @@ export class ForbiddenError extends Error {
 		this.name = 'ForbiddenError';
 	}
 }
+
+/** The request clashes with the state of things (a repeated upload, a claim already checked): 409. */
+export class ConflictError extends Error {
+	constructor(message: string) {
+		super(message);
+		this.name = 'ConflictError';
+	}
+}

@@ -1,4 +1,8 @@
 /** Numbered migrations in order; listed by hand so that bundling keeps them. */
 import * as initial from './0001-initial';
+import * as datasetSummary from './0004-dataset-summary';
 
-export const migrations = [{ name: '0001-initial', ...initial }];
+export const migrations = [
+	{ name: '0001-initial', ...initial },
+	{ name: '0004-dataset-summary', ...datasetSummary }
+];

@@ -6,7 +6,8 @@ import { echoValues, fieldErrors, requireUser } from '$lib/server/auth-web';
 import { startCheck, listChecks } from '$lib/server/services/checks';
 import { getClaim } from '$lib/server/services/claims';
 import { addDataset, datasetTables, listDatasets } from '$lib/server/services/datasets';
-import { NotFoundError } from '$lib/server/services/errors';
+import { removeDataset } from '$lib/server/services/dataset-removal';
+import { ConflictError, NotFoundError } from '$lib/server/services/errors';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, params, url }) => {
@@ -25,6 +26,8 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 		datasets,
 		preview: shown && tables ? { dataset: shown, tables: tables.tables } : null,
 		// The list needs only a line per check, not each full result.
+		// Files no check has used yet may still be taken back.
+		removable: datasets.filter((d) => !checks.some((c) => c.datasetId === d.id)).map((d) => d.id),
 		checks: checks.map((c) => ({
 			id: c.id,
 			datasetId: c.datasetId,
@@ -38,8 +41,14 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 	};
 };
 
-const uploadFailure = (message: string, fileName: string | null, line?: number, column?: number) =>
-	fail(400, {
+const uploadFailure = (
+	message: string,
+	fileName: string | null,
+	line?: number,
+	column?: number,
+	status = 400
+) =>
+	fail(status, {
 		uploadError: {
 			// The line is shown on its own, so the message need not repeat it.
 			message: message.replace(/^line \d+(, column \d+)?: /, ''),
@@ -70,10 +79,27 @@ export const actions: Actions = {
 			if (problem instanceof InputError) {
 				return uploadFailure(problem.message, file.name, problem.line, problem.column);
 			}
+			if (problem instanceof ConflictError)
+				return uploadFailure(problem.message, file.name, undefined, undefined, 409);
 			if (problem instanceof NotFoundError) error(404, 'No such claim.');
 			throw problem;
 		}
 		redirect(303, `/claims/${params.id}?dataset=${datasetId}#preview`);
+	},
+
+	removeDataset: async ({ request, locals, params, url }) => {
+		const user = requireUser(locals, url);
+		const datasetId = String((await request.formData()).get('datasetId') ?? '');
+		const { database } = await app();
+		try {
+			await removeDataset(database, user.id, params.id, datasetId);
+		} catch (problem) {
+			if (problem instanceof ConflictError)
+				return fail(409, { removeError: { datasetId, message: problem.message } });
+			if (problem instanceof NotFoundError) error(404, problem.message);
+			throw problem;
+		}
+		redirect(303, `/claims/${params.id}`);
 	},
 
 	check: async ({ request, locals, params, url }) => {
@@ -82,7 +108,8 @@ export const actions: Actions = {
 			'datasetId',
 			'resamples',
 			'confidence',
-			'seed'
+			'seed',
+			'subtractAccidentals'
 		]);
 		const parsed = checkRequestSchema.safeParse(values);
 		if (!parsed.success) {

@@ -133,8 +133,22 @@ export const openApiDocument = {
 					'400': failure('A bad counts file: code bad_counts, with the line at fault.'),
 					'401': unauthorised,
 					'404': notFound,
+					'409': failure('The same bytes were uploaded to this claim before (code conflict).'),
 					'413': failure(`The file exceeds ${MAX_COUNTS_FILE_BYTES} bytes.`),
 					'415': failure('Neither multipart/form-data, text/csv nor application/json.')
+				}
+			}
+		},
+		'/api/v1/claims/{id}/datasets/{datasetId}': {
+			delete: {
+				operationId: 'removeDataset',
+				summary: 'Take back an upload that no check has used yet',
+				parameters: [idParameter('claim'), { ...idParameter('dataset'), name: 'datasetId' }],
+				responses: {
+					'204': { description: 'Removed; the removal is in the audit log.' },
+					'401': unauthorised,
+					'404': notFound,
+					'409': failure('A check has used this dataset, so it stays (code conflict).')
 				}
 			}
 		},
