@@ -86,6 +86,20 @@ export const openApiDocument = {
 				summary: 'Read a claim',
 				parameters: [idParameter('claim')],
 				responses: { '200': reply('The claim.', 'Claim'), '401': unauthorised, '404': notFound }
+			},
+			put: {
+				operationId: 'updateClaim',
+				summary: 'Correct every field of a claim before its first check',
+				parameters: [idParameter('claim')],
+				requestBody: { required: true, content: body('ClaimInput') },
+				responses: {
+					'200': reply('The corrected claim.', 'Claim'),
+					'400': badRequest,
+					'401': unauthorised,
+					'403': failure('Neither the claim’s author nor a lead of its group.'),
+					'404': notFound,
+					'409': failure('The claim has been checked and is no longer edited (code conflict).')
+				}
 			}
 		},
 		'/api/v1/claims/{id}/datasets': {
