@@ -84,9 +84,11 @@ export function summariseCounts(task: SummaryTask): SummaryOutcome {
 		}
 	} catch (error) {
 		if (!(error instanceof InputError)) throw error;
+		// The receiving side rebuilds the InputError, which puts the line back in front.
+		const message = error.message.replace(/^line \d+(, column \d+)?: /, '');
 		return {
 			ok: false,
-			message: error.message,
+			message,
 			line: error.line ?? null,
 			column: error.column ?? null
 		};
