@@ -8,7 +8,9 @@
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
+import { QueryTypes } from 'sequelize';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { writeTransaction } from '../../src/lib/server/db/transactions';
 import { bundleCheckWorker } from '../../src/lib/server/checks/locate';
 import { stopCheckRunner } from '../../src/lib/server/checks/runner';
 import { listChecks, startCheck } from '../../src/lib/server/services/checks';
@@ -55,6 +57,23 @@ afterAll(async () => {
 });
 
 describe('writes under concurrency', () => {
+	it('gives the connection of every transaction the busy timeout and foreign keys', async () => {
+		// Sequelize's sqlite dialect opens a new connection per transaction (its connection manager).
+		const settings = await writeTransaction(world.database, async (transaction) => {
+			const read = async (pragma: string) =>
+				world.database.sequelize.query(`PRAGMA ${pragma};`, {
+					type: QueryTypes.SELECT,
+					transaction
+				});
+			return [await read('busy_timeout'), await read('foreign_keys'), await read('journal_mode')];
+		});
+		expect(settings).toEqual([
+			[{ timeout: 5000 }],
+			[{ foreign_keys: 1 }],
+			[{ journal_mode: 'wal' }]
+		]);
+	});
+
 	it('lets 250 concurrent writes of five kinds all succeed while four checks run', async () => {
 		const { database, mailer } = world;
 		// Four long checks (10⁶ resamples) write their progress while the writes below run.

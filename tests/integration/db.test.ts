@@ -1,5 +1,6 @@
 import { QueryTypes } from 'sequelize';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { migrations } from '../../src/lib/server/db/migrations';
 import { temporaryDatabase } from './db';
 
 describe('database', () => {
@@ -12,7 +13,7 @@ describe('database', () => {
 		expect(await select('PRAGMA journal_mode;')).toEqual([{ journal_mode: 'wal' }]);
 		expect(await select('PRAGMA foreign_keys;')).toEqual([{ foreign_keys: 1 }]);
 		const applied = await select('SELECT name FROM schema_migrations');
-		expect(applied).toEqual([{ name: '0001-initial' }]);
+		expect(applied).toEqual(migrations.map((m) => ({ name: m.name })));
 	});
 
 	it('rejects a membership that points at no user (foreign keys enforced)', async () => {

@@ -64,12 +64,19 @@ export function previewTables(dataset: CountsDataset, first: number[] = []): Pre
 		}));
 }
 
-/** Says "the file is d = 5, the claim is d = 11" rather than what the mismatch broke first. */
-function dimensionProblem(bytes: Uint8Array, claimed: number): InputError | null {
+/**
+ * Says "the file is d = 5, the claim is d = 11" rather than what the mismatch broke first. In
+ * CSV only when no line is at fault: a bad row (a typo in an outcome) is named by its line.
+ */
+function dimensionProblem(
+	bytes: Uint8Array,
+	claimed: number,
+	cause: InputError
+): InputError | null {
 	const found = fileDimension(bytes);
+	if (found === null || found === claimed) return null;
 	const json = new TextDecoder().decode(bytes.subarray(0, 64)).trimStart().startsWith('{');
-	// In CSV a larger outcome may be one typo, which the parser's own message names by line.
-	if (found === null || found === claimed || (!json && found > claimed)) return null;
+	if (!json && (cause.line !== undefined || found > claimed)) return null;
 	return new InputError(`the file is d = ${found}, the claim is d = ${claimed}`);
 }
 
@@ -80,7 +87,10 @@ export function summariseCounts(task: SummaryTask): SummaryOutcome {
 			requireCompleteTables(parsed, task.bases, task.method);
 			return { ok: true, summary: summarise(parsed), preview: previewTables(parsed, task.bases) };
 		} catch (error) {
-			throw (error instanceof InputError && dimensionProblem(task.bytes, task.dimension)) || error;
+			throw (
+				(error instanceof InputError && dimensionProblem(task.bytes, task.dimension, error)) ||
+				error
+			);
 		}
 	} catch (error) {
 		if (!(error instanceof InputError)) throw error;
