@@ -1,18 +1,33 @@
 /**
  * rankseal certify: check a counts file against a witness family from the command line.
  *   npm run --silent certify -- --counts FILE --dimension D --method METHOD
- *       [--bases 0,1] [--confidence 0.99865] [--resamples 10000] [--seed 1] [--claim K] [--json]
+ *       [--fourier cyclic|field] [--bases 0,1] [--confidence 0.99865] [--resamples 10000] [--seed 1]
+ *       [--claim K] [--json]
  * Exit status: 0 success, 2 bad input (one line on stderr), 1 internal error.
  */
 import { readFileSync } from 'node:fs';
 import { parseArgs } from 'node:util';
-import { certify, DEFAULTS, InputError, isMethodId, METHOD_IDS, parseCounts } from '../lib/certify';
+import {
+	certify,
+	checkDeclaredFourier,
+	DEFAULTS,
+	fourierProblem,
+	InputError,
+	isFourierConvention,
+	isMethodId,
+	METHOD_IDS,
+	parseCounts,
+	type FourierConvention
+} from '../lib/certify';
 import { sha256Hex } from '../lib/evidence/hash';
 import { readableReport } from './report';
 
 const USAGE = `usage: npm run --silent certify -- --counts FILE --dimension D --method ${METHOD_IDS.join('|')}
-       [--bases 0,1] [--confidence ${DEFAULTS.confidence}] [--resamples ${DEFAULTS.resamples}] [--seed ${DEFAULTS.seed}] [--claim K] [--json]
-       [--subtract-accidentals]`;
+       [--fourier cyclic|field] [--bases 0,1] [--confidence ${DEFAULTS.confidence}] [--resamples ${DEFAULTS.resamples}]
+       [--seed ${DEFAULTS.seed}] [--claim K] [--json] [--subtract-accidentals]
+  --fourier  which Fourier basis basis 1 is: cyclic = the Z_d transform d^-1/2 Σ ω^jm |m⟩ (every d; the default
+             unless a JSON file declares "fourier"), field = the GF(p^s) basis and its d + 1 MUBs (prime powers
+             only); for prime d the two are the same bases`;
 
 function wholeNumber(name: string, text: string | undefined): number | undefined {
 	if (text === undefined) return undefined;
@@ -29,6 +44,15 @@ function decimal(name: string, text: string | undefined): number | undefined {
 	return value;
 }
 
+function fourierOption(text: string | undefined, d: number): FourierConvention | undefined {
+	if (text === undefined) return undefined;
+	if (!isFourierConvention(text))
+		throw new InputError(`--fourier must be cyclic or field, got '${text}'`);
+	const problem = fourierProblem(d, text);
+	if (problem) throw new InputError(`--fourier: ${problem}`);
+	return text;
+}
+
 function run(argv: string[]): number {
 	const { values } = parseArgs({
 		args: argv,
@@ -37,6 +61,7 @@ function run(argv: string[]): number {
 			dimension: { type: 'string' },
 			method: { type: 'string' },
 			bases: { type: 'string' },
+			fourier: { type: 'string' },
 			confidence: { type: 'string' },
 			resamples: { type: 'string' },
 			seed: { type: 'string' },
@@ -61,6 +86,7 @@ function run(argv: string[]): number {
 		);
 	}
 	const dimension = wholeNumber('dimension', values.dimension)!;
+	const fourier = fourierOption(values.fourier, dimension);
 	const bases = values.bases?.split(',').map((b) => wholeNumber('bases', b)!);
 	let bytes: Uint8Array;
 	try {
@@ -71,9 +97,11 @@ function run(argv: string[]): number {
 		);
 	}
 	const dataset = parseCounts(bytes, dimension);
+	if (fourier) checkDeclaredFourier(dataset, fourier, `--fourier ${fourier}`);
 	const result = certify(dataset, {
 		method: values.method!,
 		bases,
+		fourier,
 		confidence: decimal('confidence', values.confidence),
 		resamples: wholeNumber('resamples', values.resamples),
 		seed: wholeNumber('seed', values.seed),

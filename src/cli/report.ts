@@ -8,6 +8,7 @@ export function readableReport(r: CertificationResult, file: string): string {
 	const lines = [
 		`Rankseal check of ${file}`,
 		`  method            ${r.method} (${r.trust}); bases ${r.bases.join(', ')}; dimension ${r.dimension}`,
+		`  Fourier basis     ${r.fourier === 'field' ? `field (GF(${r.dimension}) additive group)` : `cyclic (Z_${r.dimension} transform)`}`,
 		`  statistic         ${fmt(s.value)} ± ${fmt(s.standardError)} (bootstrap SE; delta method ${fmt(s.deltaMethodStandardError)})`,
 		`  lower bound       ${fmt(s.lower)} at one-sided confidence ${r.confidence}`,
 		`  95 % interval     [${fmt(s.interval95[0])}, ${fmt(s.interval95[1])}]`,

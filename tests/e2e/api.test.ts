@@ -268,4 +268,21 @@ describe('API v1', () => {
 		}
 		expect((await call(`/api/v1/claims/${ids.claim}`, { method: 'DELETE' })).status).toBe(405);
 	});
+
+	it('takes and returns the Fourier convention (default cyclic), refusing field in d = 6', async () => {
+		expect((await (await call(`/api/v1/claims/${ids.claim}`)).json()).fourier).toBe('cyclic');
+		const created = await sendJson('/api/v1/claims', {
+			...claimBody,
+			dimension: 9,
+			bases: [0, 1, 2, 3],
+			fourier: 'field'
+		});
+		expect(created.status).toBe(201);
+		const claim = await created.json();
+		expect(claim).toMatchObject({ fourier: 'field', bases: [0, 1, 2, 3] });
+		expect((await (await call(`/api/v1/claims/${claim.id}`)).json()).fourier).toBe('field');
+		const six = await sendJson('/api/v1/claims', { ...claimBody, dimension: 6, fourier: 'field' });
+		expect(six.status).toBe(400);
+		expect((await six.json()).error.message).toMatch(/fourier: .*prime-power dimension/);
+	});
 });

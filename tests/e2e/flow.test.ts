@@ -106,6 +106,7 @@ describe('the main flow in Chromium', () => {
 		await page.fill('input[name=dimension]', '5');
 		await page.check('input[name=method][value=fidelity-two-basis]');
 		await page.fill('input[name=bases]', '0,1');
+		await page.selectOption('select[name=fourier]', 'cyclic');
 		await page.fill('input[name=claimedSchmidtNumber]', '4');
 		await Promise.all([
 			page.waitForURL(/\/claims\/[0-9a-f-]{36}$/),
@@ -114,6 +115,9 @@ describe('the main flow in Chromium', () => {
 		claimUrl = page.url();
 		expect(await page.textContent('[data-testid=claim-title]')).toContain(
 			'Frequency bins at d = 5'
+		);
+		expect(await page.textContent('[data-testid=claim-fourier]')).toContain(
+			'cyclic Fourier basis (ℤ_5)'
 		);
 	});
 
@@ -154,6 +158,7 @@ describe('the main flow in Chromium', () => {
 			await page.waitForTimeout(100);
 		}
 		expect(await page.getAttribute('[data-testid=check]', 'data-status')).toBe('done');
+		expect(await page.textContent('[data-testid=check-fourier]')).toContain('cyclic Fourier basis');
 		expect([...seen].filter((v) => v > 0 && v < 100).length).toBeGreaterThanOrEqual(2);
 		expect(await page.evaluate(() => (window as unknown as { marker?: number }).marker)).toBe(42);
 		expect(page.url()).toBe(checkUrl);

@@ -3,13 +3,13 @@ import { availableBases, basisVectors, largestOverlapError } from '../../src/lib
 import { primePower } from '../../src/lib/certify/finite-field';
 
 describe('mutually unbiased bases (witnesses.md §2, §8)', () => {
-	// Complete sets of d + 1 MUBs for prime powers: Wootters & Fields, Ann. Phys. 191, 363 (1989);
-	// Galois-ring case for d = 2^s: Klappenecker & Rötteler, LNCS 2948 (2004) (from memory).
-	// |⟨i_s|j_t⟩|² = 1/d across bases and δ_ij within a basis, to 1e-12.
+	// Complete sets of d + 1 MUBs for prime powers (fourier=field): Wootters & Fields, Ann. Phys.
+	// 191, 363 (1989); Galois-ring case for d = 2^s: Klappenecker & Rötteler, LNCS 2948 (2004)
+	// (from memory). |⟨i_s|j_t⟩|² = 1/d across bases and δ_ij within a basis, to 1e-12.
 	for (const d of [2, 3, 4, 5, 7, 8, 9, 16, 25, 27, 31, 32]) {
-		it(`d = ${d}: d + 1 bases, all pairs unbiased, each orthonormal`, () => {
-			expect(availableBases(d)).toHaveLength(d + 1);
-			expect(largestOverlapError(d, availableBases(d))).toBeLessThan(1e-12);
+		it(`d = ${d}: d + 1 field bases, all pairs unbiased, each orthonormal`, () => {
+			expect(availableBases(d, 'field')).toHaveLength(d + 1);
+			expect(largestOverlapError(d, availableBases(d, 'field'), 'field')).toBeLessThan(1e-12);
 		});
 	}
 

@@ -210,7 +210,7 @@ describe('the benchmark reference is the same statistic', () => {
 
 describe('closed-form gradients for the delta method', () => {
 	it('agree with central differences of the same statistic', () => {
-		const data = sampledCounts(states.dephased(4, 0.7, 0.9), [0, 1, 2], 30_000, 4);
+		const data = sampledCounts(states.dephased(4, 0.7, 0.9), [0, 1, 2], 30_000, 4, 'field');
 		for (const [method, bases] of [
 			['mub-correlation', [0, 1, 2]],
 			['fidelity-two-basis', [0, 1]]
@@ -218,7 +218,8 @@ describe('closed-form gradients for the delta method', () => {
 			const model = witnessFamilies[method].sufficientModel(
 				bases.map((t) => data.tables[t]),
 				4,
-				[...bases]
+				[...bases],
+				'field'
 			);
 			const closed = deltaMethodStandardError(model);
 			const numeric = deltaMethodStandardError({ means: model.means, statistic: model.statistic });

@@ -80,15 +80,17 @@ describe('verdict on a claim (witnesses.md §5)', () => {
 });
 
 describe('warnings on the result', () => {
-	it('say when the fidelity method relies on the field Fourier basis (d = p^s, s ≥ 2)', () => {
-		const at = (d: number) =>
-			certify(expectedCounts(states.isotropic(d, 0.9), [0, 1], 1e6), {
+	it('say when basis 1 is the field Fourier basis, and that prime d makes the two the same', () => {
+		const at = (d: number, fourier: 'cyclic' | 'field') =>
+			certify(expectedCounts(states.isotropic(d, 0.9), [0, 1], 1e6, fourier), {
 				method: 'fidelity-two-basis',
+				fourier,
 				resamples: 500
 			}).warnings.join(' ');
-		expect(at(4)).toMatch(/Fourier basis of the finite field/);
-		expect(at(9)).toMatch(/Fourier basis of the finite field/);
-		expect(at(5)).not.toMatch(/finite field/);
-		expect(at(6)).not.toMatch(/finite field/);
+		expect(at(4, 'field')).toMatch(/Fourier basis of the finite field GF\(4\)/);
+		expect(at(9, 'field')).toMatch(/Fourier basis of the finite field GF\(9\)/);
+		expect(at(9, 'cyclic')).not.toMatch(/finite field/);
+		expect(at(5, 'field')).toMatch(/same bases/);
+		expect(at(6, 'cyclic')).not.toMatch(/finite field|same bases/);
 	});
 });

@@ -4,7 +4,18 @@
 import normalQuantile from '@stdlib/stats-base-dists-normal-quantile';
 import { bootstrapReplicates, summariseReplicates } from './bootstrap';
 import { hasUnequalDurations, perCellModel } from './cell-model';
-import { InputError, requireCompleteTables, type CountsDataset } from './counts';
+import {
+	DEFAULT_FOURIER,
+	fourierProblem,
+	isFourierConvention,
+	type FourierConvention
+} from './bases';
+import {
+	checkDeclaredFourier,
+	InputError,
+	requireCompleteTables,
+	type CountsDataset
+} from './counts';
 import { claimVerdict, ladderPosition, marginsInStandardErrors, type ClaimVerdict } from './ladder';
 import { deltaMethodStandardError } from './model';
 import { primePower } from './finite-field';
@@ -12,13 +23,15 @@ import { checkSeed } from './poisson';
 import { noiseScale, visibilityOf } from './visibility';
 import { isMethodId, witnessFamilies, type MethodId, type Trust } from './witnesses';
 
-export const ENGINE_VERSION = '1.0.0';
+export const ENGINE_VERSION = '1.1.0';
 
 export const DEFAULTS = { confidence: 0.99865, resamples: 10_000, seed: 1 } as const;
 
 export interface CertifyOptions {
 	method: MethodId | string;
 	bases?: number[];
+	/** Which Fourier basis basis 1 is; default: the file's declaration, else cyclic. */
+	fourier?: FourierConvention;
 	confidence?: number;
 	resamples?: number;
 	seed?: number;
@@ -40,6 +53,7 @@ export interface CertificationResult {
 	method: MethodId;
 	dimension: number;
 	bases: number[];
+	fourier: FourierConvention;
 	statistic: {
 		value: number;
 		standardError: number;
@@ -99,10 +113,11 @@ export function certify(dataset: CountsDataset, options: CertifyOptions): Certif
 	const d = dataset.dimension;
 	const { method, confidence, resamples, seed, claim } = checkOptions(options, d);
 	const family = witnessFamilies[method];
+	const fourier = fourierOf(dataset, options.fourier);
 	const present = dataset.tables.map((t) => t.basis);
 	const bases = options.bases ?? family.defaultBases(present, d);
 	try {
-		family.checkBases(bases, d);
+		family.checkBases(bases, d, fourier);
 	} catch (error) {
 		throw new InputError(`bases: ${(error as Error).message}`);
 	}
@@ -114,10 +129,10 @@ export function certify(dataset: CountsDataset, options: CertifyOptions): Certif
 	const rates = hasUnequalDurations(tables);
 	const model =
 		subtract || rates
-			? perCellModel(tables, d, (p) => family.statistic(p, d, bases), {
+			? perCellModel(tables, d, (p) => family.statistic(p, d, bases, fourier), {
 					subtractAccidentals: subtract
 				})
-			: family.sufficientModel(tables, d, bases);
+			: family.sufficientModel(tables, d, bases, fourier);
 	const value = model.statistic(model.means);
 	const replicates = bootstrapReplicates(model, {
 		resamples,
@@ -137,6 +152,7 @@ export function certify(dataset: CountsDataset, options: CertifyOptions): Certif
 		method,
 		dimension: d,
 		bases,
+		fourier,
 		statistic: { value, ...summary, deltaMethodStandardError: deltaMethodStandardError(model) },
 		bounds: bounds.map((bound, i) => ({
 			upToSchmidtNumber: i + 1,
@@ -179,7 +195,7 @@ export function certify(dataset: CountsDataset, options: CertifyOptions): Certif
 			rates,
 			resamples,
 			confidence,
-			fieldFourier: fieldFourierMatters(method, d)
+			fourierNote: fourierNote(d, fourier)
 		}),
 		engine: {
 			version: ENGINE_VERSION,
@@ -189,10 +205,23 @@ export function certify(dataset: CountsDataset, options: CertifyOptions): Certif
 	};
 }
 
-/** Where basis 1 is the Fourier basis of GF(p^s), not the cyclic one, and the method depends on it. */
-function fieldFourierMatters(method: MethodId, d: number): boolean {
-	const pp = primePower(d);
-	return method === 'fidelity-two-basis' && pp !== null && pp.exponent > 1;
+/** The convention in force: the option, else the file's declaration, else cyclic; checked against both. */
+function fourierOf(dataset: CountsDataset, requested: unknown): FourierConvention {
+	if (requested !== undefined && !isFourierConvention(requested))
+		throw new InputError(`fourier must be cyclic or field, got '${String(requested)}'`);
+	const fourier = requested ?? dataset.declaredFourier?.convention ?? DEFAULT_FOURIER;
+	const problem = fourierProblem(dataset.dimension, fourier);
+	if (problem) throw new InputError(problem);
+	checkDeclaredFourier(dataset, fourier, 'the check');
+	return fourier;
+}
+
+/** What the result says about the convention where it is not the plain cyclic transform. */
+function fourierNote(d: number, fourier: FourierConvention): string | null {
+	if (fourier === 'cyclic') return null;
+	return primePower(d)!.exponent === 1
+		? `For prime d = ${d} the field and cyclic Fourier conventions give the same bases; the result holds for either.`
+		: `fourier=field: basis 1 is the Fourier basis of the finite field GF(${d}) (outcomes labelled by base-p digits), not the cyclic one, and the fidelity method pairs cells digit-wise.`;
 }
 
 function warningsFor(o: {
@@ -200,13 +229,10 @@ function warningsFor(o: {
 	rates: boolean;
 	resamples: number;
 	confidence: number;
-	fieldFourier: boolean;
+	fourierNote: string | null;
 }): string[] {
 	const out: string[] = [];
-	if (o.fieldFourier)
-		out.push(
-			'In this dimension basis 1 is the Fourier basis of the finite field GF(p^s) (outcomes labelled by base-p digits), not the cyclic Fourier basis; data measured in the cyclic basis do not fit this method.'
-		);
+	if (o.fourierNote) out.push(o.fourierNote);
 	if (o.subtract)
 		out.push(
 			'Background-subtracted: accidental estimates were removed before normalising; the raw-count certificate is the default.'

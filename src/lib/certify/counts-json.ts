@@ -1,9 +1,11 @@
 /**
  * JSON counts form (product.md): `{"dimension": d, "tables": [{"basis": t, "counts": [[…d×d…]]}]}`,
- * optionally with `accidentals` and `duration_s` matrices of the same shape in a table.
+ * optionally with `accidentals` and `duration_s` matrices of the same shape in a table, and a
+ * top-level `"fourier": "cyclic" | "field"` declaring which Fourier basis basis 1 is.
  * Errors name the JSON path and the line and column where the offending value starts.
  */
 import { parseTree, printParseErrorCode, type Node, type ParseError } from 'jsonc-parser';
+import { fourierProblem, isFourierConvention } from './bases';
 import {
 	checkBasis,
 	checkDimension,
@@ -56,7 +58,8 @@ export function parseCountsJson(input: Uint8Array | string, dimension?: number):
 		node.children?.find((p) => p.children?.[0].value === key)?.children?.[1];
 	for (const property of root.children ?? []) {
 		const key = property.children?.[0].value;
-		if (key !== 'dimension' && key !== 'tables') fail(property, `$.${key}`, 'unknown field');
+		if (!['dimension', 'tables', 'fourier'].includes(key))
+			fail(property, `$.${key}`, 'unknown field');
 	}
 	const dimNode = member(root, 'dimension');
 	if (!dimNode) fail(root, '$', 'missing field "dimension"');
@@ -70,6 +73,7 @@ export function parseCountsJson(input: Uint8Array | string, dimension?: number):
 	if (dimension !== undefined && dimension !== d) {
 		fail(dimNode, '$.dimension', `the file says ${d} but dimension ${dimension} was requested`);
 	}
+	const declaredFourier = readFourier(member(root, 'fourier'), d, where, fail);
 	const tablesNode = member(root, 'tables');
 	if (!tablesNode || tablesNode.type !== 'array' || !tablesNode.children?.length) {
 		fail(tablesNode ?? root, '$.tables', 'expected a non-empty array of tables');
@@ -129,7 +133,10 @@ export function parseCountsJson(input: Uint8Array | string, dimension?: number):
 			);
 		tables.set(basis, table);
 	});
-	return { dimension: d, tables: [...tables.values()].sort((x, y) => x.basis - y.basis) };
+	const sorted = [...tables.values()].sort((x, y) => x.basis - y.basis);
+	return declaredFourier
+		? { dimension: d, tables: sorted, declaredFourier }
+		: { dimension: d, tables: sorted };
 }
 
 type Fail = (node: Node | undefined, path: string, message: string) => never;
@@ -174,4 +181,24 @@ function readMatrix(
 			store(a * d + b, entry.value);
 		});
 	});
+}
+
+/** The optional top-level `"fourier"`: one of the two conventions, and possible in dimension d. */
+function readFourier(
+	node: Node | undefined,
+	d: number,
+	where: (offset: number) => { line: number; column: number },
+	fail: Fail
+): CountsDataset['declaredFourier'] {
+	if (!node) return undefined;
+	const convention = node.value;
+	if (!isFourierConvention(convention))
+		fail(
+			node,
+			'$.fourier',
+			`expected "cyclic" or "field", got ${JSON.stringify(convention ?? null)}`
+		);
+	const problem = fourierProblem(d, convention);
+	if (problem) fail(node, '$.fourier', problem);
+	return { convention, ...where(node.offset) };
 }

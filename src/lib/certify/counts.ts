@@ -2,7 +2,13 @@
  * Count tables: one d×d table of coincidence counts per measurement basis, as read from a
  * counts file (product.md, "Counts file format"). Cells are indexed `a * d + b`.
  */
-import { basisExists, MAX_DIMENSION, MIN_DIMENSION } from './bases';
+import {
+	basisExistsInAnyConvention,
+	conventionsDiffer,
+	MAX_DIMENSION,
+	MIN_DIMENSION,
+	type FourierConvention
+} from './bases';
 
 export interface CountTable {
 	basis: number;
@@ -19,6 +25,8 @@ export interface CountsDataset {
 	dimension: number;
 	/** Tables in ascending basis order. */
 	tables: CountTable[];
+	/** The Fourier convention the file itself declares (JSON `"fourier"`), and where. */
+	declaredFourier?: { convention: FourierConvention; line: number; column: number };
 }
 
 /** Bad input (a file, an option): the message names the line and column, or the field, where it can. */
@@ -70,7 +78,7 @@ export function checkBasis(
 	line?: number,
 	column?: number
 ): void {
-	if (!basisExists(d, basis)) {
+	if (!basisExistsInAnyConvention(d, basis)) {
 		const hint =
 			d > 2
 				? `0 and 1 exist in every dimension; 2..${d} only when ${d} is a prime power`
@@ -81,6 +89,24 @@ export function checkBasis(
 			column
 		);
 	}
+}
+
+/**
+ * Throws when the file declares a Fourier convention other than the one the check uses
+ * (`by`: "the claim", "--fourier"); for prime d and non-prime-powers the two name the same bases.
+ */
+export function checkDeclaredFourier(
+	dataset: CountsDataset,
+	fourier: FourierConvention,
+	by: string
+): void {
+	const declared = dataset.declaredFourier;
+	if (!declared || declared.convention === fourier || !conventionsDiffer(dataset.dimension)) return;
+	throw new InputError(
+		`$.fourier: the file declares "${declared.convention}" but ${by} says "${fourier}"; in d = ${dataset.dimension} these are different bases — make them agree`,
+		declared.line,
+		declared.column
+	);
 }
 
 /**

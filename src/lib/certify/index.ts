@@ -3,9 +3,15 @@ export {
 	availableBases,
 	basisExists,
 	basisVectors,
+	DEFAULT_FOURIER,
+	FOURIER_CONVENTIONS,
+	fourierProblem,
+	isFourierConvention,
 	largestOverlapError,
+	outcomeLabels,
 	MAX_DIMENSION,
-	MIN_DIMENSION
+	MIN_DIMENSION,
+	type FourierConvention
 } from './bases';
 export {
 	certify,
@@ -15,7 +21,13 @@ export {
 	type CertifyOptions,
 	type BoundRung
 } from './certify';
-export { InputError, MAX_COUNTS_FILE_BYTES, type CountsDataset, type CountTable } from './counts';
+export {
+	checkDeclaredFourier,
+	InputError,
+	MAX_COUNTS_FILE_BYTES,
+	type CountsDataset,
+	type CountTable
+} from './counts';
 export { parseCountsCsv } from './counts-csv';
 export { parseCountsJson } from './counts-json';
 export { parseCounts } from './parse';

@@ -3,9 +3,10 @@
  *   ρ = η·[v·|ψ⟩⟨ψ| + (1 − v)·Σ_m |c_m|² |mm⟩⟨mm|] + (1 − η)·𝟙/d²,  |ψ⟩ = Σ_m c_m |mm⟩,
  * covering isotropic (c uniform, v = 1), dephased (v < 1), Schmidt-rank-limited Φ_r (r equal
  * coefficients) and any non-uniform Schmidt spectrum. Side B measures the conjugate basis
- * (witnesses.md §1), so ⟨a_t|⊗⟨b_t*|ψ⟩ = Σ_m c_m conj(a_m) b_m.
+ * (witnesses.md §1), so ⟨a_t|⊗⟨b_t*|ψ⟩ = Σ_m c_m conj(a_m) b_m. Bases follow the given Fourier
+ * convention (bases.ts; default cyclic).
  */
-import { basisVectors } from './bases';
+import { basisVectors, DEFAULT_FOURIER, type FourierConvention } from './bases';
 import type { CountsDataset, CountTable } from './counts';
 import { PoissonSampler, prepareMeans } from './poisson';
 
@@ -47,11 +48,15 @@ export const states = {
 };
 
 /** Exact outcome probabilities p_t(a, b), cell a·d + b, of the state in basis t. */
-export function outcomeProbabilities(state: SimulatedState, t: number): Float64Array {
+export function outcomeProbabilities(
+	state: SimulatedState,
+	t: number,
+	fourier: FourierConvention = DEFAULT_FOURIER
+): Float64Array {
 	const d = state.dimension;
 	const norm = Math.sqrt(state.schmidtCoefficients.reduce((s, c) => s + c * c, 0));
 	const c = state.schmidtCoefficients.map((x) => x / norm);
-	const { re, im } = basisVectors(d, t);
+	const { re, im } = basisVectors(d, t, fourier);
 	const { visibility: eta, coherence: v } = state;
 	const p = new Float64Array(d * d);
 	for (let a = 0; a < d; a++) {
@@ -89,14 +94,15 @@ function tableFrom(basis: number, counts: Float64Array): CountTable {
 export function expectedCounts(
 	state: SimulatedState,
 	bases: number[],
-	countsPerBasis: number
+	countsPerBasis: number,
+	fourier: FourierConvention = DEFAULT_FOURIER
 ): CountsDataset {
 	return {
 		dimension: state.dimension,
 		tables: bases.map((t) =>
 			tableFrom(
 				t,
-				outcomeProbabilities(state, t).map((p) => Math.round(p * countsPerBasis))
+				outcomeProbabilities(state, t, fourier).map((p) => Math.round(p * countsPerBasis))
 			)
 		)
 	};
@@ -107,13 +113,14 @@ export function sampledCounts(
 	state: SimulatedState,
 	bases: number[],
 	countsPerBasis: number,
-	seed: number
+	seed: number,
+	fourier: FourierConvention = DEFAULT_FOURIER
 ): CountsDataset {
 	const sampler = new PoissonSampler(seed);
 	return {
 		dimension: state.dimension,
 		tables: bases.map((t) => {
-			const means = outcomeProbabilities(state, t).map((p) => p * countsPerBasis);
+			const means = outcomeProbabilities(state, t, fourier).map((p) => p * countsPerBasis);
 			const counts = new Float64Array(means.length);
 			sampler.drawAll(prepareMeans(means), counts);
 			return tableFrom(t, counts);

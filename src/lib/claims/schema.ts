@@ -3,7 +3,16 @@
  * boundary (forms, API bodies) and shared with the browser for early, plain-worded errors.
  */
 import { z } from 'zod';
-import { availableBases, METHOD_IDS, witnessFamilies, type MethodId } from '$lib/certify';
+import {
+	availableBases,
+	DEFAULT_FOURIER,
+	FOURIER_CONVENTIONS,
+	fourierProblem,
+	METHOD_IDS,
+	witnessFamilies,
+	type MethodId
+} from '$lib/certify';
+import { basisProblem } from '$lib/certify/bases';
 import { MAX_SEED } from '$lib/certify/poisson';
 
 export const CLAIM_STATES = [
@@ -56,6 +65,9 @@ const basesField = z.preprocess(
 		.optional()
 );
 
+/** An engine message as a sentence for a form: capital first letter, full stop. */
+const sentence = (reason: string) => reason.charAt(0).toUpperCase() + reason.slice(1) + '.';
+
 /** The bases a method uses when a claim names none: 0 and 1 exist in every dimension. */
 export function defaultBasesFor(method: MethodId, dimension: number): number[] {
 	return witnessFamilies[method].defaultBases([0, 1], dimension);
@@ -77,6 +89,14 @@ export const claimInputSchema = z
 		dimension: requiredWholeNumber('The dimension', 'Give the local dimension d.', 2, 256),
 		method: z.enum(METHOD_IDS, { error: `Choose a method: ${METHOD_IDS.join(', ')}.` }),
 		bases: basesField,
+		fourier: z.preprocess(
+			blankToUndefined,
+			z
+				.enum(FOURIER_CONVENTIONS, {
+					error: `The Fourier convention must be ${FOURIER_CONVENTIONS.join(' or ')}.`
+				})
+				.optional()
+		),
 		claimedSchmidtNumber: requiredWholeNumber(
 			'The claimed Schmidt number',
 			'Give the claimed Schmidt number.',
@@ -99,28 +119,38 @@ export const claimInputSchema = z
 				message: `The claimed Schmidt number cannot exceed the dimension (${d}).`
 			});
 		}
+		const fourier = claim.fourier ?? DEFAULT_FOURIER;
+		const problem = fourierProblem(d, fourier);
+		if (problem) {
+			ctx.addIssue({ code: 'custom', path: ['fourier'], message: sentence(problem) });
+			return;
+		}
 		if (!claim.bases) return;
-		const available = availableBases(d);
+		const available = availableBases(d, fourier);
 		const missing = claim.bases.filter((b) => !available.includes(b));
 		if (missing.length) {
+			const reason = basisProblem(d, missing[0], fourier) ?? '';
 			ctx.addIssue({
 				code: 'custom',
 				path: ['bases'],
-				message: `Basis ${missing.join(', ')} does not exist in dimension ${d}; available: ${available.join(', ')}.`
+				message: `${sentence(reason)} Available with fourier=${fourier}: ${available.join(', ')}.`
 			});
 			return;
 		}
 		try {
-			witnessFamilies[claim.method].checkBases(claim.bases, d);
+			witnessFamilies[claim.method].checkBases(claim.bases, d, fourier);
 		} catch (error) {
-			const reason = (error as Error).message;
-			const message = reason.charAt(0).toUpperCase() + reason.slice(1) + '.';
-			ctx.addIssue({ code: 'custom', path: ['bases'], message });
+			ctx.addIssue({
+				code: 'custom',
+				path: ['bases'],
+				message: sentence((error as Error).message)
+			});
 		}
 	})
 	.transform((claim) => ({
 		...claim,
-		bases: claim.bases ?? defaultBasesFor(claim.method, claim.dimension)
+		bases: claim.bases ?? defaultBasesFor(claim.method, claim.dimension),
+		fourier: claim.fourier ?? DEFAULT_FOURIER
 	}));
 
 /** A valid claim, with its bases filled in. */

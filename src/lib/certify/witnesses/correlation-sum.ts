@@ -2,7 +2,7 @@
  * The matching-outcome sum S = Σ_{t∈K} Σ_a p_t(a, a) shared by the MUB correlation witness
  * and the two-setting steering test (witnesses.md §4.1, §4.2).
  */
-import { basisExists } from '../bases';
+import { basisProblem, DEFAULT_FOURIER, type FourierConvention } from '../bases';
 import type { CountTable } from '../counts';
 import type { PoissonModel } from '../model';
 
@@ -54,13 +54,13 @@ export function matchingSumModel(tables: CountTable[], d: number): PoissonModel 
 export function checkDistinctAvailable(
 	bases: number[],
 	d: number,
-	count: { min: number; max: number }
+	count: { min: number; max: number },
+	fourier: FourierConvention = DEFAULT_FOURIER
 ): void {
 	if (new Set(bases).size !== bases.length)
 		throw new RangeError(`bases must be distinct, got ${bases.join(',')}`);
-	const missing = bases.filter((t) => !basisExists(d, t));
-	if (missing.length)
-		throw new RangeError(`basis ${missing.join(', ')} does not exist in dimension ${d}`);
+	const problem = bases.map((t) => basisProblem(d, t, fourier)).find((x) => x !== null);
+	if (problem) throw new RangeError(problem);
 	if (bases.length < count.min || bases.length > count.max) {
 		const wanted = count.min === count.max ? `exactly ${count.min}` : `at least ${count.min}`;
 		throw new RangeError(`this method uses ${wanted} bases, got ${bases.length}`);

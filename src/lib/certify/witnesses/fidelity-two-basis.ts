@@ -3,16 +3,17 @@
  * F = ⟨Φ_d|ρ|Φ_d⟩ from the full computational table and the Fourier matching probabilities,
  *   F̃ = (1/d)[Σ_m p_0(m,m) + d·Σ_j p_1(j,j) − 1 − Γ],
  *   Γ = Σ_{δ≠0} [(Σ_m √p_0(m, m−δ))² − Σ_m p_0(m, m−δ)],
- * with m − δ taken in the label group of basis 1 (bases.ts). Bavaresco et al., Nat. Phys. 14,
- * 1032 (2018); bound SN ≤ r ⇒ F ≤ r/d from Terhal & Horodecki, Phys. Rev. A 61, 040301(R) (2000).
+ * with m − δ in the group of the declared Fourier convention (bases.ts: mod d for cyclic,
+ * digit-wise mod p for field). Bavaresco et al., Nat. Phys. 14, 1032 (2018); bound
+ * SN ≤ r ⇒ F ≤ r/d from Terhal & Horodecki, Phys. Rev. A 61, 040301(R) (2000).
  */
-import { labelDifference } from '../bases';
+import { labelDifference, type FourierConvention } from '../bases';
 import type { PoissonModel } from '../model';
 import type { WitnessFamily } from './types';
 
 /** For each cell a·d + b of the computational table, the group difference a − b. */
-function differenceOfCells(d: number): Int32Array {
-	const minus = labelDifference(d);
+function differenceOfCells(d: number, fourier?: FourierConvention): Int32Array {
+	const minus = labelDifference(d, fourier);
 	const out = new Int32Array(d * d);
 	for (let a = 0; a < d; a++) for (let b = 0; b < d; b++) out[a * d + b] = minus(a, b);
 	return out;
@@ -81,7 +82,7 @@ export const fidelityTwoBasis: WitnessFamily = {
 		}
 	},
 	bounds: (d) => Array.from({ length: d - 1 }, (_, i) => (i + 1) / d),
-	statistic(p, d) {
+	statistic(p, d, _bases, fourier) {
 		let matching = 0;
 		for (let j = 0; j < d; j++) matching += p[1][j * d + j];
 		return fidelityLowerBound(
@@ -89,13 +90,13 @@ export const fidelityTwoBasis: WitnessFamily = {
 			1,
 			matching,
 			d,
-			differenceOfCells(d),
+			differenceOfCells(d, fourier),
 			new Float64Array(d),
 			new Float64Array(d)
 		);
 	},
 	/** Draws the d² computational cells, then the Fourier diagonal and off-diagonal totals (§6). */
-	sufficientModel(tables, d): PoissonModel {
+	sufficientModel(tables, d, _bases, convention): PoissonModel {
 		const [computational, fourier] = tables;
 		const means = new Float64Array(d * d + 2);
 		means.set(computational.counts);
@@ -103,7 +104,7 @@ export const fidelityTwoBasis: WitnessFamily = {
 			if (c % (d + 1) === 0) means[d * d] += fourier.counts[c];
 			else means[d * d + 1] += fourier.counts[c];
 		}
-		const delta = differenceOfCells(d);
+		const delta = differenceOfCells(d, convention);
 		const sqrtSums = new Float64Array(d);
 		const sums = new Float64Array(d);
 		return {

@@ -3,7 +3,7 @@
  * r = 1: Spengler et al., Phys. Rev. A 86, 022311 (2012); general r: Morelli, Huber &
  * Tavakoli, Phys. Rev. Lett. 131, 170201 (2023).
  */
-import { availableBases } from '../bases';
+import { availableBases, DEFAULT_FOURIER } from '../bases';
 import { checkDistinctAvailable, matchingSum, matchingSumModel } from './correlation-sum';
 import type { WitnessFamily } from './types';
 
@@ -14,8 +14,9 @@ export const mubCorrelation: WitnessFamily = {
 	reference:
 		'Spengler et al., Phys. Rev. A 86, 022311 (2012); Morelli, Huber & Tavakoli, Phys. Rev. Lett. 131, 170201 (2023)',
 	defaultBases: (present) => present,
-	checkBases(bases, d) {
-		checkDistinctAvailable(bases, d, { min: 2, max: availableBases(d).length });
+	checkBases(bases, d, fourier = DEFAULT_FOURIER) {
+		const max = Math.max(2, availableBases(d, fourier).length);
+		checkDistinctAvailable(bases, d, { min: 2, max }, fourier);
 	},
 	bounds(d, bases) {
 		const m = bases.length;

@@ -23,8 +23,8 @@ export const steering2Mub: WitnessFamily = {
 	reference: 'Genuine high-dimensional quantum steering, Phys. Rev. Lett. 126, 200404 (2021)',
 	defaultBases: (present) =>
 		present.includes(0) && present.includes(1) ? [0, 1] : present.slice(0, 2),
-	checkBases(bases, d) {
-		checkDistinctAvailable(bases, d, { min: 2, max: 2 });
+	checkBases(bases, d, fourier) {
+		checkDistinctAvailable(bases, d, { min: 2, max: 2 }, fourier);
 	},
 	bounds: (d) => Array.from({ length: d - 1 }, (_, i) => steeringBound(i + 1, d)),
 	statistic: (p, d) => matchingSum(p, d),

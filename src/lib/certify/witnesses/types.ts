@@ -1,3 +1,4 @@
+import type { FourierConvention } from '../bases';
 import type { CountTable } from '../counts';
 import type { PoissonModel } from '../model';
 
@@ -15,13 +16,18 @@ export interface WitnessFamily {
 	/** Which bases to use when none are requested, from those present in the file. */
 	defaultBases(present: number[], d: number): number[];
 	/** Throws a RangeError naming the problem when the bases do not suit the method. */
-	checkBases(bases: number[], d: number): void;
+	checkBases(bases: number[], d: number, fourier?: FourierConvention): void;
 	/** B_1 < … < B_{d−1}: a state of Schmidt number ≤ r cannot exceed B_r. */
 	bounds(d: number, bases: number[]): number[];
 	/** The statistic from probability tables p_t(a, b), one per basis in `bases` order. */
-	statistic(p: Float64Array[], d: number, bases: number[]): number;
+	statistic(p: Float64Array[], d: number, bases: number[], fourier?: FourierConvention): number;
 	/** The same statistic over sufficient Poisson totals of raw count tables (§6). */
-	sufficientModel(tables: CountTable[], d: number, bases: number[]): PoissonModel;
+	sufficientModel(
+		tables: CountTable[],
+		d: number,
+		bases: number[],
+		fourier?: FourierConvention
+	): PoissonModel;
 	/** What the result may additionally say (e.g. the steering robustness). */
 	extras?(value: number, lower: number, d: number): Record<string, number>;
 }

@@ -124,6 +124,7 @@ export class CheckRunner {
 			dimension: claim.dimension,
 			method: claim.method,
 			bases: claim.bases,
+			fourier: claim.fourier,
 			resamples: check.resamples,
 			confidence: check.confidence,
 			seed: Number(check.seed),

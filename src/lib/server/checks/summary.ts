@@ -4,7 +4,15 @@
  * file allows, and heat-map tables — so that no page view parses the file again.
  * Relative imports only: this is bundled into the check worker.
  */
-import { METHOD_IDS, parseCounts, witnessFamilies, type CountsDataset } from '../../certify';
+import {
+	checkDeclaredFourier,
+	DEFAULT_FOURIER,
+	METHOD_IDS,
+	parseCounts,
+	witnessFamilies,
+	type CountsDataset,
+	type FourierConvention
+} from '../../certify';
 import { InputError, requireCompleteTables } from '../../certify/counts';
 import { fileDimension } from '../../certify/file-dimension';
 import type { MethodId } from '../../certify/witnesses';
@@ -15,6 +23,8 @@ export interface SummaryTask {
 	dimension: number;
 	method: MethodId;
 	bases: number[];
+	/** The claim's Fourier convention (which basis basis 1 is). */
+	fourier: FourierConvention;
 }
 
 export type SummaryOutcome =
@@ -24,14 +34,17 @@ export type SummaryOutcome =
 /** Heat maps kept per dataset: the claim's bases first, then others while this many cells fit. */
 export const MAX_PREVIEW_CELLS = 1 << 20;
 
-export function summarise(dataset: CountsDataset): DatasetSummary {
+export function summarise(
+	dataset: CountsDataset,
+	fourier: FourierConvention = DEFAULT_FOURIER
+): DatasetSummary {
 	const d = dataset.dimension;
 	const present = dataset.tables.map((t) => t.basis);
 	const allows = METHOD_IDS.filter((method) => {
 		const family = witnessFamilies[method];
 		try {
 			const bases = family.defaultBases(present, d);
-			family.checkBases(bases, d);
+			family.checkBases(bases, d, fourier);
 			requireCompleteTables(dataset, bases, method);
 			return true;
 		} catch {
@@ -84,8 +97,13 @@ export function summariseCounts(task: SummaryTask): SummaryOutcome {
 	try {
 		try {
 			const parsed = parseCounts(task.bytes, task.dimension);
+			checkDeclaredFourier(parsed, task.fourier, 'the claim');
 			requireCompleteTables(parsed, task.bases, task.method);
-			return { ok: true, summary: summarise(parsed), preview: previewTables(parsed, task.bases) };
+			return {
+				ok: true,
+				summary: summarise(parsed, task.fourier),
+				preview: previewTables(parsed, task.bases)
+			};
 		} catch (error) {
 			throw (
 				(error instanceof InputError && dimensionProblem(task.bytes, task.dimension, error)) ||

@@ -1,6 +1,6 @@
 /** What the check runner hands a worker thread, and what the worker reports back on its port. */
 import type { MessagePort } from 'node:worker_threads';
-import type { MethodId } from '../../certify';
+import type { FourierConvention, MethodId } from '../../certify';
 
 export interface CheckTask {
 	/** The stored counts file; or `bytes` when the caller holds them already. */
@@ -11,6 +11,8 @@ export interface CheckTask {
 	dimension: number;
 	method: MethodId;
 	bases: number[];
+	/** The claim's Fourier convention (which basis basis 1 is). */
+	fourier: FourierConvention;
 	resamples: number;
 	confidence: number;
 	seed: number;

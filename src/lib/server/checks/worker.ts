@@ -33,6 +33,7 @@ export default async function runCheck(task: CheckTask): Promise<CertificationRe
 	return certify(dataset, {
 		method: task.method,
 		bases: task.bases,
+		fourier: task.fourier,
 		resamples: task.resamples,
 		confidence: task.confidence,
 		seed: task.seed,

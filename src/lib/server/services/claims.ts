@@ -3,7 +3,7 @@
  */
 import { col, fn, Op, where as sqlWhere, type Order, type WhereOptions } from 'sequelize';
 import { claimInputSchema, type ClaimInputValues, type ClaimQuery } from '$lib/claims/schema';
-import type { MethodId } from '$lib/certify';
+import type { FourierConvention, MethodId } from '$lib/certify';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
 import type { ClaimAttributes, ClaimState } from '../db/models/Claim';
@@ -31,6 +31,7 @@ export interface ClaimView {
 	dimension: number;
 	method: MethodId;
 	bases: number[];
+	fourier: FourierConvention;
 	claimedSchmidtNumber: number;
 	manuscriptReference: string | null;
 	state: ClaimState;
@@ -91,6 +92,7 @@ async function claimViews(database: Database, claims: ClaimAttributes[]): Promis
 		dimension: c.dimension,
 		method: c.method,
 		bases: c.bases,
+		fourier: c.fourier,
 		claimedSchmidtNumber: c.claimedSchmidtNumber,
 		manuscriptReference: c.manuscriptReference,
 		state: c.state,
@@ -132,6 +134,7 @@ export async function createClaim(
 				dimension: claim.dimension,
 				method: claim.method,
 				bases: claim.bases,
+				fourier: claim.fourier,
 				claimedSchmidtNumber: claim.claimedSchmidtNumber,
 				manuscriptReference: claim.manuscriptReference,
 				state: 'draft'

@@ -220,7 +220,9 @@ export async function datasetTables(
 	const runner = await startCheckRunner(database);
 	const bases = dataset.summary.bases;
 	const bytes = await readFile(datasetFilePath(dataset.sha256));
-	const read = await runner.summarise({ bytes, dimension, method: 'mub-correlation', bases: [] });
+	const claim = (await database.models.Claim.findByPk(dataset.claimId))!.get({ plain: true });
+	const task = { bytes, dimension, method: claim.method, bases: [], fourier: claim.fourier };
+	const read = await runner.summarise(task);
 	if (!read.ok) throw new InputError(read.message, read.line ?? undefined);
 	const preview = read.preview.filter((t) => bases.includes(t.basis));
 	await database.models.Dataset.update({ preview }, { where: { id: datasetId } });

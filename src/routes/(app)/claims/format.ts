@@ -1,5 +1,5 @@
 /** Small display helpers shared by the claim pages. */
-import type { MethodId } from '$lib/certify';
+import type { FourierConvention, MethodId } from '$lib/certify';
 
 export const METHOD_TITLES: Record<MethodId, string> = {
 	'mub-correlation': 'MUB correlation sum',
@@ -12,6 +12,13 @@ export const METHOD_TRUST: Record<MethodId, string> = {
 	'steering-2mub': 'one-sided device-independent',
 	'fidelity-two-basis': 'device-dependent'
 };
+
+/** Which Fourier basis basis 1 is, in words that say which group its outcomes belong to. */
+export function fourierWords(fourier: FourierConvention, d: number): string {
+	return fourier === 'field'
+		? `field Fourier basis (GF(${d}), base-p digit labels)`
+		: `cyclic Fourier basis (ℤ_${d})`;
+}
 
 export function byteSize(bytes: number): string {
 	if (bytes < 1024) return `${bytes} B`;

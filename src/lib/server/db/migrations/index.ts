@@ -1,8 +1,10 @@
 /** Numbered migrations in order; listed by hand so that bundling keeps them. */
 import * as initial from './0001-initial';
+import * as fourierConvention from './0002-fourier-convention';
 import * as datasetSummary from './0004-dataset-summary';
 
 export const migrations = [
 	{ name: '0001-initial', ...initial },
+	{ name: '0002-fourier-convention', ...fourierConvention },
 	{ name: '0004-dataset-summary', ...datasetSummary }
 ];

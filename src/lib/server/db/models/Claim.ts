@@ -1,5 +1,5 @@
 import { DataTypes, type Model, type ModelStatic, type Sequelize } from 'sequelize';
-import type { MethodId } from '$lib/certify';
+import type { FourierConvention, MethodId } from '$lib/certify';
 
 export type ClaimState = 'draft' | 'checked' | 'certified' | 'shared' | 'withdrawn' | 'superseded';
 
@@ -13,6 +13,8 @@ export interface ClaimAttributes {
 	method: MethodId;
 	/** Bases used by the method, e.g. [0, 1]; stored as JSON text. */
 	bases: number[];
+	/** Which Fourier basis basis 1 is: cyclic (ℤ_d) or field (GF(p^s)). */
+	fourier: FourierConvention;
 	claimedSchmidtNumber: number;
 	manuscriptReference: string | null;
 	state: ClaimState;
@@ -23,7 +25,7 @@ export interface ClaimAttributes {
 export type ClaimModel = ModelStatic<
 	Model<
 		ClaimAttributes,
-		Omit<ClaimAttributes, 'state' | 'manuscriptReference'> & Partial<ClaimAttributes>
+		Omit<ClaimAttributes, 'state' | 'manuscriptReference' | 'fourier'> & Partial<ClaimAttributes>
 	>
 >;
 
@@ -48,6 +50,7 @@ export function defineClaim(sequelize: Sequelize): ClaimModel {
 					this.setDataValue('bases', JSON.stringify(value) as unknown as number[]);
 				}
 			},
+			fourier: { type: DataTypes.STRING, allowNull: false, defaultValue: 'cyclic' },
 			claimedSchmidtNumber: { type: DataTypes.INTEGER, allowNull: false },
 			manuscriptReference: { type: DataTypes.STRING, allowNull: true },
 			state: { type: DataTypes.STRING, allowNull: false, defaultValue: 'draft' }

@@ -13,6 +13,7 @@ const FIELDS = [
 	'dimension',
 	'method',
 	'bases',
+	'fourier',
 	'claimedSchmidtNumber',
 	'manuscriptReference'
 ];

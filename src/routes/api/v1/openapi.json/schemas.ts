@@ -1,5 +1,5 @@
 /** JSON Schemas (OpenAPI 3.1 components) of the API's bodies, kept beside the document. */
-import { DEFAULTS, METHOD_IDS } from '$lib/certify';
+import { DEFAULT_FOURIER, DEFAULTS, FOURIER_CONVENTIONS, METHOD_IDS } from '$lib/certify';
 import { CLAIM_STATES } from '$lib/claims/schema';
 
 const ref = (name: string) => ({ $ref: `#/components/schemas/${name}` });
@@ -9,6 +9,12 @@ const number = { type: 'number' };
 const timestamp = { type: 'string', format: 'date-time' };
 const nullable = (schema: object) => ({ anyOf: [schema, { type: 'null' }] });
 const method = { type: 'string', enum: METHOD_IDS };
+const fourier = {
+	type: 'string',
+	enum: FOURIER_CONVENTIONS,
+	description:
+		'Which Fourier basis basis 1 is: cyclic (the Z_d transform, every d) or field (the GF(p^s) basis and its d + 1 MUBs, prime powers only). For prime d they are the same bases.'
+};
 
 export const schemas = {
 	Error: {
@@ -49,8 +55,9 @@ export const schemas = {
 				type: 'array',
 				items: { ...whole, minimum: 0 },
 				description:
-					'Basis indices the method uses; they must exist in dimension d. Default: [0, 1].'
+					'Basis indices the method uses; they must exist in dimension d under the Fourier convention (bases above 1 in d = p^s, s ≥ 2 need field). Default: [0, 1].'
 			},
+			fourier: { ...fourier, default: DEFAULT_FOURIER },
 			claimedSchmidtNumber: { ...whole, minimum: 1, description: 'At most the dimension.' },
 			manuscriptReference: nullable({ ...text, maxLength: 300 })
 		}
@@ -65,6 +72,7 @@ export const schemas = {
 			'dimension',
 			'method',
 			'bases',
+			'fourier',
 			'claimedSchmidtNumber',
 			'state',
 			'createdAt',
@@ -80,6 +88,7 @@ export const schemas = {
 			dimension: whole,
 			method,
 			bases: { type: 'array', items: whole },
+			fourier,
 			claimedSchmidtNumber: whole,
 			manuscriptReference: nullable(text),
 			state: { type: 'string', enum: CLAIM_STATES },
@@ -223,6 +232,7 @@ export const schemas = {
 			method,
 			dimension: whole,
 			bases: { type: 'array', items: whole },
+			fourier,
 			statistic: {
 				type: 'object',
 				properties: {
