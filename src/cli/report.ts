@@ -9,12 +9,16 @@ export function readableReport(r: CertificationResult, file: string): string {
 		`Rankseal check of ${file}`,
 		`  method            ${r.method} (${r.trust}); bases ${r.bases.join(', ')}; dimension ${r.dimension}`,
 		`  Fourier basis     ${r.fourier === 'field' ? `field (GF(${r.dimension}) additive group)` : `cyclic (Z_${r.dimension} transform)`}`,
-		`  statistic         ${fmt(s.value)} ± ${fmt(s.standardError)} (bootstrap SE; delta method ${fmt(s.deltaMethodStandardError)})`,
-		`  lower bound       ${fmt(s.lower)} at one-sided confidence ${r.confidence}`,
+		`  statistic         ${fmt(s.value)} ± ${fmt(s.standardError)} (SE of the confidence draws; delta method ${fmt(s.deltaMethodStandardError)})`,
+		...(s.floorValue === undefined
+			? []
+			: [`  floor P0 + P1 − 1 ${fmt(s.floorValue)} (F̃ is never below it)`]),
+		`  lower bound       ${fmt(s.lower)} at one-sided confidence ${r.confidence} [${s.boundMethod}]`,
+		`    ${s.boundNote}`,
 		`  95 % interval     [${fmt(s.interval95[0])}, ${fmt(s.interval95[1])}]`,
-		`  effective visibility (white noise) ${fmt(r.effectiveVisibility, 4)}`,
+		`  effective visibility under a white-noise model ${fmt(r.effectiveVisibility, 4)}`,
 		'',
-		'  rung  bound      margin (SE)  critical visibility'
+		'  rung  bound      margin (SE)  white-noise threshold visibility of the witness'
 	];
 	for (const b of r.bounds) {
 		const margin = b.marginInStandardErrors === null ? 'n/a' : b.marginInStandardErrors.toFixed(1);
@@ -29,7 +33,11 @@ export function readableReport(r: CertificationResult, file: string): string {
 	);
 	if (r.steeringRobustness)
 		lines.push(
-			`  steering robustness                ≥ ${fmt(r.steeringRobustness.lower, 4)} (at the lower bound)`
+			`  steering robustness                ≥ ${fmt(r.steeringRobustness.lower, 4)} at the confidence bound (≥ ${fmt(r.steeringRobustness.value, 4)} at the point value; both are lower bounds)`
+		);
+	for (const e of r.entropicSums)
+		lines.push(
+			`  side ${e.side}, bases ${e.bases.join(' and ')}: H + H = ${fmt(e.bits, 3)} bits (Maassen–Uffink: at least log2 d = ${fmt(e.log2Dimension, 3)})`
 		);
 	if (r.claim) {
 		lines.push(

@@ -15,9 +15,22 @@ describe('verdict on a claim (witnesses.md §5)', () => {
 	/** Tables whose matching fraction is exactly p in bases 0 and 1 (the statistic needs only the totals). */
 	function matchingFraction(d: number, p: number, total: number) {
 		const tables = [0, 1].map((basis) => {
+			// Spread over the cells so that no marginal is impossible for a quantum state (physical.ts).
 			const counts = new Float64Array(d * d);
-			counts[0] = Math.round(p * total);
-			counts[1] = total - counts[0];
+			const diagonal = Math.round(p * total);
+			const spread = (sum: number, cells: number[]) =>
+				cells.forEach(
+					(c, i) => (counts[c] = Math.floor(sum / cells.length) + (i < sum % cells.length ? 1 : 0))
+				);
+			const cells = Array.from({ length: d * d }, (_, c) => c);
+			spread(
+				diagonal,
+				cells.filter((c) => c % (d + 1) === 0)
+			);
+			spread(
+				total - diagonal,
+				cells.filter((c) => c % (d + 1) !== 0)
+			);
 			return {
 				basis,
 				counts,
@@ -92,5 +105,41 @@ describe('warnings on the result', () => {
 		expect(at(9, 'cyclic')).not.toMatch(/finite field/);
 		expect(at(5, 'field')).toMatch(/same bases/);
 		expect(at(6, 'cyclic')).not.toMatch(/finite field|same bases/);
+	});
+});
+
+describe('words on the result (issue 6, §6)', () => {
+	it('offers no counts when only F̃, not the floor P₀ + P₁ − 1 it is bounded through, clears the rung', () => {
+		// d = 5; basis 0: 0.9 on the diagonal, 0.1 in the single cell (0, 1), so Γ = 0 and
+		// F̃ = (P₀ + d·P₁ − 1)/d = 0.88 > B₄ = 0.8 while the floor is P₀ + P₁ − 1 = 0.8 (witnesses.md §4.3).
+		const d = 5;
+		const n = 2000;
+		const c0 = new Float64Array(25);
+		for (let a = 0; a < d; a++) c0[a * d + a] = (0.9 * n) / d;
+		c0[1] = 0.1 * n;
+		const c1 = new Float64Array(25).map((_, c) => (c % 6 === 0 ? (0.9 * n) / d : (0.1 * n) / 20));
+		const tables = [c0, c1].map((counts, basis) => ({
+			basis,
+			counts,
+			accidentals: null,
+			durations: null,
+			present: new Uint8Array(25).fill(1)
+		}));
+		const r = certify({ dimension: d, tables }, { method: 'fidelity-two-basis', claim: 5 });
+		expect(r.statistic.value).toBeCloseTo(0.88, 12);
+		expect(r.statistic.floorValue).toBeCloseTo(0.8, 12);
+		expect(r.claim!.verdict).toBe('not supported');
+		expect(r.claim!.countsNeeded).toBeUndefined();
+		expect(r.claim!.shortfall).toMatch(/cannot be shown to help/);
+		expect(r.claim!.shortfall).toMatch(/white-noise threshold visibility/);
+	});
+
+	it('says when accidentals are subtracted that their estimates are taken as exact', () => {
+		const data = expectedCounts(states.isotropic(5, 0.9), [0, 1], 1e5);
+		for (const t of data.tables) t.accidentals = new Float64Array(25).fill(10);
+		const r = certify(data, { method: 'steering-2mub', subtractAccidentals: true, resamples: 500 });
+		expect(r.backgroundSubtracted).toBe(true);
+		expect(r.statistic.boundMethod).toBe('garwood-cells-sum');
+		expect(r.warnings.join(' ')).toMatch(/taken as exact/);
 	});
 });

@@ -33,6 +33,21 @@ export function empiricalQuantile(sorted: Float64Array, q: number): number {
 	return sorted[Math.min(sorted.length - 1, Math.max(0, rank - 1))];
 }
 
+/**
+ * Conservative order statistics of B replicates for one-sided limits: below, x_(⌊q(B+1)⌋) (at
+ * least x_(1)); above, x_(⌈q(B+1)⌉) (at most x_(B)). For a continuous distribution the expected
+ * coverage of x_(k) is k/(B + 1), so these never spend more than the error q (common practice).
+ */
+export function lowerOrderStatistic(sorted: Float64Array, q: number): number {
+	const rank = Math.floor(q * (sorted.length + 1) + 1e-9);
+	return sorted[Math.min(sorted.length - 1, Math.max(0, rank - 1))];
+}
+
+export function upperOrderStatistic(sorted: Float64Array, q: number): number {
+	const rank = Math.ceil(q * (sorted.length + 1) - 1e-9);
+	return sorted[Math.min(sorted.length - 1, Math.max(0, rank - 1))];
+}
+
 export function standardDeviation(values: Float64Array): number {
 	let mean = 0;
 	for (const v of values) mean += v;

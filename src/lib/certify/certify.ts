@@ -2,8 +2,7 @@
  * From count tables and a method to a Schmidt-number certificate (witnesses.md §3–§7).
  */
 import normalQuantile from '@stdlib/stats-base-dists-normal-quantile';
-import { bootstrapReplicates, summariseReplicates } from './bootstrap';
-import { hasUnequalDurations, perCellModel } from './cell-model';
+import { hasUnequalDurations } from './cell-model';
 import {
 	DEFAULT_FOURIER,
 	fourierProblem,
@@ -17,13 +16,14 @@ import {
 	type CountsDataset
 } from './counts';
 import { claimVerdict, ladderPosition, marginsInStandardErrors, type ClaimVerdict } from './ladder';
-import { deltaMethodStandardError } from './model';
-import { primePower } from './finite-field';
+import { checkQuantumMarginals, type EntropicSum } from './physical';
 import { checkSeed } from './poisson';
+import { correlationSumBound, fidelityBound, type StatisticBound } from './statistic-bound';
+import { warningsFor } from './warnings';
 import { noiseScale, visibilityOf } from './visibility';
 import { isMethodId, witnessFamilies, type MethodId, type Trust } from './witnesses';
 
-export const ENGINE_VERSION = '1.1.0';
+export const ENGINE_VERSION = '2.0.0';
 
 export const DEFAULTS = { confidence: 0.99865, resamples: 10_000, seed: 1 } as const;
 
@@ -54,13 +54,7 @@ export interface CertificationResult {
 	dimension: number;
 	bases: number[];
 	fourier: FourierConvention;
-	statistic: {
-		value: number;
-		standardError: number;
-		lower: number;
-		interval95: [number, number];
-		deltaMethodStandardError: number;
-	};
+	statistic: StatisticBound;
 	bounds: BoundRung[];
 	pointSchmidtNumber: number;
 	certifiedSchmidtNumber: number;
@@ -77,8 +71,10 @@ export interface CertificationResult {
 	backgroundSubtracted: boolean;
 	resampling: 'sufficient-totals' | 'per-cell';
 	totalCounts: number;
+	/** Plug-in Maassen–Uffink sums on each trusted side (information; the refusal test is exact). */
+	entropicSums: EntropicSum[];
 	warnings: string[];
-	engine: { version: string; generator: string; poisson: string };
+	engine: { version: string; generator: string; poisson: string; gamma: string };
 }
 
 function checkOptions(options: CertifyOptions, d: number) {
@@ -127,33 +123,38 @@ export function certify(dataset: CountsDataset, options: CertifyOptions): Certif
 	if (options.subtractAccidentals && !subtract)
 		throw new InputError('subtracting accidentals needs an accidentals column');
 	const rates = hasUnequalDurations(tables);
-	const model =
-		subtract || rates
-			? perCellModel(tables, d, (p) => family.statistic(p, d, bases, fourier), {
-					subtractAccidentals: subtract
-				})
-			: family.sufficientModel(tables, d, bases, fourier);
-	const value = model.statistic(model.means);
-	const replicates = bootstrapReplicates(model, {
+	const entropicSums = rates
+		? []
+		: checkQuantumMarginals(tables, d, family.trust === 'device-dependent' ? ['A', 'B'] : ['B']);
+	const fidelity = method === 'fidelity-two-basis';
+	const statistic = (fidelity ? fidelityBound : correlationSumBound)({
+		family,
+		tables,
+		d,
+		bases,
+		fourier,
+		confidence,
 		resamples,
 		seed,
-		onProgress: options.onProgress
+		onProgress: options.onProgress,
+		perCell: subtract || rates,
+		subtractAccidentals: subtract
 	});
-	const summary = summariseReplicates(replicates, confidence);
+	const { value, lower, standardError } = statistic;
 	const bounds = family.bounds(d, bases);
 	const scale = noiseScale(family, d, bases);
-	const margins = marginsInStandardErrors(value, bounds, summary.standardError);
+	const margins = marginsInStandardErrors(value, bounds, standardError);
 	const criticalVisibilities = bounds.map((b) => visibilityOf(b, scale));
-	const certified = ladderPosition(summary.lower, bounds);
+	const certified = ladderPosition(lower, bounds);
 	const effectiveVisibility = visibilityOf(value, scale);
 	const totalCounts = tables.reduce((s, t) => s + t.counts.reduce((a, c) => a + c, 0), 0);
-	const extras = family.extras?.(value, summary.lower, d);
+	const extras = family.extras?.(value, lower, d);
 	return {
 		method,
 		dimension: d,
 		bases,
 		fourier,
-		statistic: { value, ...summary, deltaMethodStandardError: deltaMethodStandardError(model) },
+		statistic,
 		bounds: bounds.map((bound, i) => ({
 			upToSchmidtNumber: i + 1,
 			bound,
@@ -173,12 +174,14 @@ export function certify(dataset: CountsDataset, options: CertifyOptions): Certif
 						claim,
 						certified,
 						value,
-						standardError: summary.standardError,
+						boundBasisValue: statistic.floorValue ?? value,
+						boundBasisName: fidelity ? 'the floor P₀ + P₁ − 1' : 'the statistic',
+						standardError,
 						bounds,
 						criticalVisibilities,
 						effectiveVisibility,
 						totalCounts,
-						z: normalQuantile(confidence, 0, 1)
+						z: normalQuantile(fidelity ? 1 - (1 - confidence) / 2 : confidence, 0, 1)
 					}),
 		effectiveVisibility,
 		steeringRobustness: extras
@@ -190,17 +193,15 @@ export function certify(dataset: CountsDataset, options: CertifyOptions): Certif
 		backgroundSubtracted: subtract,
 		resampling: subtract || rates ? 'per-cell' : 'sufficient-totals',
 		totalCounts,
-		warnings: warningsFor({
-			subtract,
-			rates,
-			resamples,
-			confidence,
-			fourierNote: fourierNote(d, fourier)
-		}),
+		entropicSums,
+		warnings: warningsFor({ method, d, fourier, subtract, rates, resamples, confidence }),
 		engine: {
 			version: ENGINE_VERSION,
-			generator: 'xoroshiro128+ (pure-rand), 32-bit uniforms',
-			poisson: 'inversion by sequential search below mean 10, PTRS (Hörmann 1993) from 10'
+			generator: 'xoroshiro128+ (pure-rand) seeded through SplitMix32, 32-bit uniforms',
+			poisson:
+				'inversion by sequential search below mean 10, PTRS (Hörmann 1993) from 10 (simulator)',
+			gamma:
+				'Marsaglia–Tsang (2000) with Box–Muller normals; bounds from Beta/Gamma confidence-distribution draws'
 		}
 	};
 }
@@ -214,35 +215,4 @@ function fourierOf(dataset: CountsDataset, requested: unknown): FourierConventio
 	if (problem) throw new InputError(problem);
 	checkDeclaredFourier(dataset, fourier, 'the check');
 	return fourier;
-}
-
-/** What the result says about the convention where it is not the plain cyclic transform. */
-function fourierNote(d: number, fourier: FourierConvention): string | null {
-	if (fourier === 'cyclic') return null;
-	return primePower(d)!.exponent === 1
-		? `For prime d = ${d} the field and cyclic Fourier conventions give the same bases; the result holds for either.`
-		: `fourier=field: basis 1 is the Fourier basis of the finite field GF(${d}) (outcomes labelled by base-p digits), not the cyclic one, and the fidelity method pairs cells digit-wise.`;
-}
-
-function warningsFor(o: {
-	subtract: boolean;
-	rates: boolean;
-	resamples: number;
-	confidence: number;
-	fourierNote: string | null;
-}): string[] {
-	const out: string[] = [];
-	if (o.fourierNote) out.push(o.fourierNote);
-	if (o.subtract)
-		out.push(
-			'Background-subtracted: accidental estimates were removed before normalising; the raw-count certificate is the default.'
-		);
-	if (o.rates)
-		out.push('Cells have different integration times: probabilities are normalised rates N/τ.');
-	const tail = o.resamples * (1 - o.confidence);
-	if (tail < 10)
-		out.push(
-			`Only ${tail.toFixed(1)} bootstrap replicates lie below the lower bound; use more resamples for a stable bound.`
-		);
-	return out;
 }

@@ -1,15 +1,15 @@
 /**
  * The one seeded Poisson source of the engine, so that the same inputs and seed give
  * bit-identical results on any machine:
- * - generator: xoroshiro128+ (Blackman & Vigna) from `pure-rand`, seeded by its 32-bit seed
- *   function; uniforms in [0, 1) as one 32-bit output times 2^-32 (the resolution of the
+ * - generator: xoroshiro128+ (Blackman & Vigna) from `pure-rand`, its four 32-bit state words
+ *   the first four outputs of SplitMix32 on the seed (seededGenerator below); uniforms in [0, 1) as one 32-bit output times 2^-32 (the resolution of the
  *   generators these algorithms were published with);
  * - Poisson variates: inversion by sequential search for means below 10 (one uniform per draw;
  *   Devroye, Non-Uniform Random Variate Generation (1986), §X.3) and Hörmann's transformed
  *   rejection with squeeze PTRS for means of 10 and more (Insurance Math. Econom. 12, 39 (1993)).
  * Hand-written because the packaged samplers measured 5–15× slower here (see DEVELOPERS.md).
  */
-import { xoroshiro128plus } from 'pure-rand/generator/xoroshiro128plus';
+import { xoroshiro128plusFromState } from 'pure-rand/generator/xoroshiro128plus';
 
 export type PoissonDraw = (mean: number) => number;
 
@@ -69,7 +69,28 @@ export function prepareMeans(means: Float64Array): PreparedMeans {
 	return p;
 }
 
-type Generator = ReturnType<typeof xoroshiro128plus>;
+type Generator = ReturnType<typeof xoroshiro128plusFromState>;
+
+/**
+ * xoroshiro128+ with its state filled by SplitMix32 (the 32-bit SplitMix of Steele, Lea & Flood,
+ * OOPSLA 2014, with the finaliser constants 0x21f0aaad, 0x735a2d97; from memory). pure-rand's own
+ * seed function sets the state to (−1, ~seed, seed, 0), whose first outputs for small seeds are
+ * close to 1: the first Poisson draw of seed 1, 2, 3 … was then far in the upper tail.
+ */
+export function seededGenerator(seed: number): Generator {
+	let a = checkSeed(seed) | 0;
+	const next = () => {
+		a = (a + 0x9e3779b9) | 0;
+		let t = a ^ (a >>> 16);
+		t = Math.imul(t, 0x21f0aaad);
+		t ^= t >>> 15;
+		t = Math.imul(t, 0x735a2d97);
+		return (t ^ (t >>> 15)) | 0;
+	};
+	const state = [next(), next(), next(), next()];
+	if (!state.some((w) => w !== 0)) state[0] = 1; // the all-zero state is the generator's fixed point
+	return xoroshiro128plusFromState(state);
+}
 
 const TWO_TO_MINUS_32 = 2.3283064365386963e-10;
 
@@ -124,7 +145,7 @@ export class PoissonSampler {
 	private readonly one = new Float64Array(1);
 
 	constructor(seed: number) {
-		this.rng = xoroshiro128plus(checkSeed(seed) | 0);
+		this.rng = seededGenerator(seed);
 	}
 
 	/** Fills `out` with one variate per prepared mean, in index order. */

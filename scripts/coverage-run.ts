@@ -1,0 +1,80 @@
+/**
+ * One cell of the coverage benchmark (docs/statistics.md), shared by `npm run coverage` and
+ * tests/unit/coverage.test.ts: repeated experiments drawn from a state's exact tables, each
+ * certified with the engine; counts of misses (lower bound above the witness's true value)
+ * and false certificates (certified above the true Schmidt number).
+ */
+import { certify, InputError, witnessFamilies, type MethodId } from '../src/lib/certify';
+import { sampleTables, type TableState } from '../src/lib/certify/simulate-tables';
+
+export interface CoverageCase {
+	method: MethodId;
+	bases: number[];
+	state: TableState;
+}
+
+export interface CoverageSettings {
+	countsPerBasis: number;
+	confidence: number;
+	experiments: number;
+	resamples: number;
+	/** Experiment e uses data seed firstSeed + e and bootstrap seed firstSeed + e + 1e6. */
+	firstSeed: number;
+}
+
+export interface CoverageOutcome {
+	experiments: number;
+	misses: number;
+	/** Fidelity only: lower bound above F itself. */
+	missesOfFidelity: number | null;
+	falseCertificates: number;
+	refused: number;
+	meanCertified: number;
+	truth: number;
+}
+
+export function trueWitnessValue(c: CoverageCase): number {
+	const d = c.state.dimension;
+	const tables = c.bases.map((t) => c.state.table(t));
+	return witnessFamilies[c.method].statistic(tables, d, c.bases);
+}
+
+export function runCoverage(c: CoverageCase, s: CoverageSettings): CoverageOutcome {
+	const truth = trueWitnessValue(c);
+	const fidelity = c.method === 'fidelity-two-basis' ? c.state.fidelity : null;
+	const out = { misses: 0, missesOfFidelity: 0, falseCertificates: 0, refused: 0, certified: 0 };
+	for (let e = 0; e < s.experiments; e++) {
+		const data = sampleTables(c.state, c.bases, s.countsPerBasis, s.firstSeed + e);
+		try {
+			const r = certify(data, {
+				method: c.method,
+				bases: c.bases,
+				confidence: s.confidence,
+				resamples: s.resamples,
+				seed: s.firstSeed + e + 1_000_000
+			});
+			if (r.statistic.lower > truth) out.misses++;
+			if (fidelity !== null && r.statistic.lower > fidelity) out.missesOfFidelity++;
+			if (r.certifiedSchmidtNumber > c.state.schmidtNumber) out.falseCertificates++;
+			out.certified += r.certifiedSchmidtNumber;
+		} catch (error) {
+			if (!(error instanceof InputError)) throw error;
+			out.refused++;
+		}
+	}
+	const judged = s.experiments - out.refused;
+	return {
+		experiments: s.experiments,
+		misses: out.misses,
+		missesOfFidelity: fidelity === null ? null : out.missesOfFidelity,
+		falseCertificates: out.falseCertificates,
+		refused: out.refused,
+		meanCertified: judged > 0 ? out.certified / judged : NaN,
+		truth
+	};
+}
+
+/** The most misses consistent with a rate at most `nominal`: nominal·N + 3·√(N·p(1 − p)) + 1. */
+export function missAllowance(nominal: number, n: number): number {
+	return nominal * n + 3 * Math.sqrt(n * nominal * (1 - nominal)) + 1;
+}
