@@ -9,6 +9,8 @@ import { closeDb, db, type Database } from './db';
 import { catcherTransport, createMailer, type Mailer } from './mail';
 import { startMailCatcher, type MailCatcher } from './mail-catcher';
 import { abortCheckRunner, startCheckRunner } from './checks/runner';
+import { serviceKey } from './evidence/keys';
+import { sweepOrphanFiles } from './services/certificate-files';
 import { seedDemo } from './demo/seed';
 
 export interface AppServices {
@@ -33,6 +35,9 @@ async function startMail(
 export function app(): Promise<AppServices> {
 	services ??= (async () => {
 		const database = await db();
+		// The signing key exists from the first start; files of an issue cut short are removed.
+		serviceKey();
+		await sweepOrphanFiles(database);
 		const lucia = createLucia(database, !dev && config().origin.startsWith('https:'));
 		const mail = await startMail(database);
 		// Checks left queued or running by an earlier process resume now.

@@ -2,12 +2,14 @@
 import type { Sequelize } from 'sequelize';
 import { defineApiToken } from './ApiToken';
 import { defineAuditEvent } from './AuditEvent';
+import { defineCertificate } from './Certificate';
 import { defineCheck } from './Check';
 import { defineClaim } from './Claim';
 import { defineDataset } from './Dataset';
 import { defineEmailToken } from './EmailToken';
 import { defineGroup } from './Group';
 import { defineInvitation } from './Invitation';
+import { defineLedgerEntry } from './LedgerEntry';
 import { defineMailMessage } from './MailMessage';
 import { defineMembership } from './Membership';
 import { defineSession } from './Session';
@@ -26,7 +28,9 @@ export function defineModels(sequelize: Sequelize) {
 		Check: defineCheck(sequelize),
 		ApiToken: defineApiToken(sequelize),
 		AuditEvent: defineAuditEvent(sequelize),
-		MailMessage: defineMailMessage(sequelize)
+		MailMessage: defineMailMessage(sequelize),
+		Certificate: defineCertificate(sequelize),
+		LedgerEntry: defineLedgerEntry(sequelize)
 	};
 	const {
 		User,

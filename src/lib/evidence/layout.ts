@@ -1,0 +1,63 @@
+/** The files of an evidence bundle and the signed list of their hashes (contents.json). */
+import { canonicalJson } from './canonical';
+import { sha256Hex } from './hash';
+
+export const BUNDLE_FILES = {
+	manifest: 'manifest.json',
+	signature: 'signature.txt',
+	publicKey: 'public-key.txt',
+	/** The service's published key list when the bundle was made (as its public endpoint gives it). */
+	signingKeys: 'signing-keys.json',
+	contents: 'contents.json',
+	contentsSignature: 'contents.sig',
+	canonicalCounts: 'counts-canonical.json',
+	result: 'result.json',
+	pdf: 'certificate.pdf',
+	readme: 'README.txt',
+	verifier: 'verify.mjs'
+} as const;
+
+export const uploadedCountsName = (format: 'csv' | 'json') => `counts-uploaded.${format}`;
+
+export const CONTENTS_FORMAT = 'rankseal-contents/1';
+
+export interface BundleContents {
+	format: typeof CONTENTS_FORMAT;
+	certificateId: string;
+	fingerprint: string;
+	/** SHA-256 of every other file of the bundle, by name. */
+	files: Record<string, string>;
+}
+
+export type EvidenceFiles = Record<string, Uint8Array>;
+
+/** The canonical contents text for these files (all but contents.json and its signature). */
+export function contentsText(
+	certificateId: string,
+	fingerprint: string,
+	files: EvidenceFiles
+): string {
+	const listed = Object.keys(files).filter(
+		(name) => name !== BUNDLE_FILES.contents && name !== BUNDLE_FILES.contentsSignature
+	);
+	const contents: BundleContents = {
+		format: CONTENTS_FORMAT,
+		certificateId,
+		fingerprint,
+		files: Object.fromEntries(listed.map((name) => [name, sha256Hex(files[name])]))
+	};
+	return canonicalJson(contents);
+}
+
+/** Key ids from a published key list `{ "keys": [{ "id": … }] }`; null when it is not one. */
+export function keyIdsOfList(text: string): string[] | null {
+	try {
+		const list = JSON.parse(text) as { keys?: { id?: unknown }[] };
+		const ids = (list.keys ?? []).map((k) => k.id);
+		return ids.length > 0 && ids.every((id) => typeof id === 'string' && /^[0-9a-f]{64}$/.test(id))
+			? (ids as string[])
+			: null;
+	} catch {
+		return null;
+	}
+}

@@ -1,0 +1,116 @@
+/**
+ * The evidence manifest: what was certified, from which bytes, with which settings, and the full
+ * result. Its canonical JSON text is what gets signed; the SHA-256 of that text is the fingerprint.
+ */
+import {
+	DEFAULT_FOURIER,
+	type CertificationResult,
+	type CertifyOptions,
+	type CountsDataset,
+	type FourierConvention,
+	type MethodId
+} from '../certify';
+import { canonicalJson, jsonRoundTrip } from './canonical';
+import { sha256Hex } from './hash';
+
+export const MANIFEST_FORMAT = 'rankseal-evidence/1';
+
+export interface EvidenceClaim {
+	title: string;
+	dimension: number;
+	method: MethodId;
+	bases: number[];
+	/** Which Fourier basis basis 1 denotes: the cyclic one unless the claim says otherwise. */
+	fourier: FourierConvention;
+	claimedSchmidtNumber: number;
+	manuscriptReference: string | null;
+}
+
+export interface EvidenceParameters {
+	resamples: number;
+	confidence: number;
+	seed: number;
+	subtractAccidentals: boolean;
+}
+
+export interface EvidenceCounts {
+	/** SHA-256 of the counts file exactly as uploaded. */
+	uploadedSha256: string;
+	uploadedFormat: 'csv' | 'json';
+	uploadedBytes: number;
+	/** SHA-256 of the canonical counts text (canonicalCountsText). */
+	canonicalSha256: string;
+}
+
+export interface EvidenceManifest {
+	format: typeof MANIFEST_FORMAT;
+	certificateId: string;
+	issuedAt: string;
+	signingKeyId: string;
+	engineVersion: string;
+	claimId: string;
+	checkId: string;
+	supersedes: string | null;
+	claim: EvidenceClaim;
+	parameters: EvidenceParameters;
+	counts: EvidenceCounts;
+	result: CertificationResult;
+}
+
+export type ManifestInput = Omit<EvidenceManifest, 'format' | 'result' | 'claim'> & {
+	claim: Omit<EvidenceClaim, 'fourier'> & { fourier?: FourierConvention | null };
+	result: CertificationResult;
+};
+
+/** The manifest in the form it will be read back (JSON), with the Fourier convention defaulted. */
+export function buildManifest(input: ManifestInput): EvidenceManifest {
+	return jsonRoundTrip({
+		format: MANIFEST_FORMAT,
+		...input,
+		claim: { ...input.claim, fourier: input.claim.fourier ?? DEFAULT_FOURIER }
+	});
+}
+
+export const manifestText = (manifest: EvidenceManifest): string => canonicalJson(manifest);
+
+/** The certificate's fingerprint: SHA-256 of the canonical manifest text. */
+export const fingerprintOf = (text: string): string => sha256Hex(text);
+
+/** The engine options that reproduce the recorded result (issuance and verification alike). */
+export function certifyOptionsOf(manifest: EvidenceManifest): CertifyOptions {
+	const { claim, parameters, counts } = manifest;
+	return {
+		method: claim.method,
+		bases: claim.bases,
+		fourier: claim.fourier,
+		resamples: parameters.resamples,
+		confidence: parameters.confidence,
+		seed: parameters.seed,
+		subtractAccidentals: parameters.subtractAccidentals,
+		claim: claim.claimedSchmidtNumber,
+		inputSha256: counts.uploadedSha256
+	};
+}
+
+const matrix = (values: Float64Array, present: Uint8Array, d: number) =>
+	Array.from({ length: d }, (_, a) =>
+		Array.from({ length: d }, (_, b) => (present[a * d + b] ? values[a * d + b] : null))
+	);
+
+/**
+ * The counts as parsed, in the JSON counts form written canonically (cells the file left out are
+ * null; a declared Fourier convention kept): the same numbers give the same text whatever the layout.
+ */
+export function canonicalCountsText(dataset: CountsDataset): string {
+	const d = dataset.dimension;
+	return canonicalJson({
+		dimension: d,
+		...(dataset.declaredFourier ? { fourier: dataset.declaredFourier.convention } : {}),
+		tables: dataset.tables.map((t) => ({
+			basis: t.basis,
+			counts: matrix(t.counts, t.present, d),
+			...(t.accidentals ? { accidentals: matrix(t.accidentals, t.present, d) } : {}),
+			...(t.durations ? { duration_s: matrix(t.durations, t.present, d) } : {})
+		}))
+	});
+}

@@ -1,0 +1,214 @@
+/**
+ * Checks an evidence bundle offline: every hash, both signatures, the signing key, the canonical
+ * counts, then re-runs the engine with the recorded settings and compares every number. Stops at
+ * the first item that fails and names it. Shared by the bundled verify.mjs, the verify command
+ * and the server.
+ */
+import { certify, ENGINE_VERSION, parseCounts } from '../certify';
+import { canonicalJson, jsonRoundTrip, parseCanonical } from './canonical';
+import { firstDifference } from './compare';
+import { sha256Hex } from './hash';
+import {
+	BUNDLE_FILES,
+	CONTENTS_FORMAT,
+	keyIdsOfList,
+	uploadedCountsName,
+	type BundleContents
+} from './layout';
+import type { EvidenceFiles } from './layout';
+import {
+	canonicalCountsText,
+	certifyOptionsOf,
+	fingerprintOf,
+	MANIFEST_FORMAT,
+	type EvidenceManifest
+} from './manifest';
+import { keyIdOf, readHexLine, verifyText } from './signing';
+
+export interface VerificationReport {
+	valid: boolean;
+	/** The first item that failed, e.g. `signature.txt` or `re-run: statistic.lower`. */
+	failedItem: string | null;
+	message: string;
+	certificateId: string | null;
+	fingerprint: string | null;
+	keyId: string | null;
+	/** The items that passed, in the order checked. */
+	passed: string[];
+}
+
+export interface VerifyOptions {
+	/**
+	 * Key ids the service has published (a saved copy of its list); without it, the list the
+	 * bundle carries (signing-keys.json). A key outside the list is refused.
+	 */
+	trustedKeyIds?: string[];
+}
+
+class Failure extends Error {
+	constructor(
+		readonly item: string,
+		message: string
+	) {
+		super(message);
+	}
+}
+
+const decoder = new TextDecoder('utf-8', { fatal: true });
+
+function text(files: EvidenceFiles, name: string): string {
+	const bytes = files[name];
+	if (!bytes) throw new Failure(name, 'the file is missing');
+	try {
+		return decoder.decode(bytes);
+	} catch {
+		throw new Failure(name, 'the file is not UTF-8 text');
+	}
+}
+
+function canonicalFile<T>(files: EvidenceFiles, name: string): T {
+	const value = parseCanonical(text(files, name));
+	if (value === null || typeof value !== 'object')
+		throw new Failure(name, 'not canonical JSON (RFC 8785): the file was changed');
+	return value as T;
+}
+
+interface State {
+	files: EvidenceFiles;
+	options: VerifyOptions;
+	passed: string[];
+	publicKey?: string;
+	keyId?: string;
+	contents?: BundleContents;
+	manifestText?: string;
+	manifest?: EvidenceManifest;
+	fingerprint?: string;
+}
+
+function checkContents(s: State) {
+	const publicKey = readHexLine(text(s.files, BUNDLE_FILES.publicKey), 32);
+	if (!publicKey) throw new Failure(BUNDLE_FILES.publicKey, 'not one line of 64 hex digits');
+	s.publicKey = publicKey;
+	s.keyId = keyIdOf(publicKey);
+	s.passed.push(BUNDLE_FILES.publicKey);
+	const contentsText = text(s.files, BUNDLE_FILES.contents);
+	const contents = canonicalFile<BundleContents>(s.files, BUNDLE_FILES.contents);
+	if (contents.format !== CONTENTS_FORMAT || typeof contents.files !== 'object')
+		throw new Failure(BUNDLE_FILES.contents, `not a ${CONTENTS_FORMAT} file list`);
+	const signature = readHexLine(text(s.files, BUNDLE_FILES.contentsSignature), 64);
+	if (!signature || !verifyText(contentsText, signature, publicKey))
+		throw new Failure(BUNDLE_FILES.contentsSignature, 'the file list is not signed by this key');
+	s.contents = contents;
+	s.passed.push(BUNDLE_FILES.contents, BUNDLE_FILES.contentsSignature);
+	for (const [name, expected] of Object.entries(contents.files)) {
+		if (!s.files[name]) throw new Failure(name, 'the file is missing');
+		if (sha256Hex(s.files[name]) !== expected)
+			throw new Failure(name, 'its SHA-256 differs from the signed file list');
+		s.passed.push(name);
+	}
+}
+
+function checkManifest(s: State) {
+	const name = BUNDLE_FILES.manifest;
+	s.manifestText = text(s.files, name);
+	const manifest = canonicalFile<EvidenceManifest>(s.files, name);
+	if (manifest.format !== MANIFEST_FORMAT)
+		throw new Failure(name, `not a ${MANIFEST_FORMAT} manifest`);
+	s.fingerprint = fingerprintOf(s.manifestText);
+	if (!s.contents!.files[name] || s.contents!.fingerprint !== s.fingerprint)
+		throw new Failure(name, 'its fingerprint differs from the signed file list');
+	if (s.contents!.certificateId !== manifest.certificateId)
+		throw new Failure(name, 'its certificate id differs from the signed file list');
+	s.manifest = manifest;
+	if (manifest.signingKeyId !== s.keyId)
+		throw new Failure('signing key', 'the manifest names another signing key than public-key.txt');
+	const trusted = s.options.trustedKeyIds ?? keyIdsOfList(text(s.files, BUNDLE_FILES.signingKeys));
+	if (!trusted) throw new Failure(BUNDLE_FILES.signingKeys, 'not a list of published keys');
+	if (!trusted.includes(s.keyId!))
+		throw new Failure('signing key', `key ${s.keyId} is not among the service's published keys`);
+	s.passed.push(name, 'signing key');
+	const signature = readHexLine(text(s.files, BUNDLE_FILES.signature), 64);
+	if (!signature || !verifyText(s.manifestText, signature, s.publicKey!))
+		throw new Failure(BUNDLE_FILES.signature, 'the manifest is not signed by this key');
+	s.passed.push(BUNDLE_FILES.signature);
+}
+
+function checkCounts(s: State) {
+	const m = s.manifest!;
+	const name = uploadedCountsName(m.counts.uploadedFormat);
+	const uploaded = s.files[name];
+	if (!uploaded) throw new Failure(name, 'the file is missing');
+	if (
+		sha256Hex(uploaded) !== m.counts.uploadedSha256 ||
+		m.result.inputSha256 !== m.counts.uploadedSha256
+	)
+		throw new Failure(name, 'its SHA-256 differs from the manifest');
+	s.passed.push(`${name} (manifest hash)`);
+	const canonical = text(s.files, BUNDLE_FILES.canonicalCounts);
+	if (sha256Hex(canonical) !== m.counts.canonicalSha256)
+		throw new Failure(BUNDLE_FILES.canonicalCounts, 'its SHA-256 differs from the manifest');
+	let expected: string;
+	try {
+		expected = canonicalCountsText(parseCounts(uploaded, m.claim.dimension));
+	} catch (error) {
+		throw new Failure(name, `the counts cannot be read: ${(error as Error).message}`);
+	}
+	if (canonical !== expected)
+		throw new Failure(BUNDLE_FILES.canonicalCounts, 'it does not hold the uploaded counts');
+	s.passed.push(BUNDLE_FILES.canonicalCounts);
+	if (text(s.files, BUNDLE_FILES.result) !== canonicalJson(m.result))
+		throw new Failure(BUNDLE_FILES.result, 'it differs from the result in the manifest');
+	s.passed.push(BUNDLE_FILES.result);
+}
+
+function checkRerun(s: State) {
+	const m = s.manifest!;
+	if (m.engineVersion !== ENGINE_VERSION || m.result.engine?.version !== ENGINE_VERSION)
+		throw new Failure(
+			'engine version',
+			`recorded with engine ${m.engineVersion}; this verifier has engine ${ENGINE_VERSION}`
+		);
+	const dataset = parseCounts(
+		s.files[uploadedCountsName(m.counts.uploadedFormat)],
+		m.claim.dimension
+	);
+	let rerun: unknown;
+	try {
+		rerun = jsonRoundTrip(certify(dataset, certifyOptionsOf(m)));
+	} catch (error) {
+		throw new Failure(
+			're-run',
+			`the engine refused the recorded settings: ${(error as Error).message}`
+		);
+	}
+	const differs = firstDifference(m.result, rerun);
+	if (differs)
+		throw new Failure(`re-run: ${differs}`, 'the recorded result differs from the re-run here');
+	s.passed.push('re-run');
+}
+
+export function verifyEvidence(
+	files: EvidenceFiles,
+	options: VerifyOptions = {}
+): VerificationReport {
+	const s: State = { files, options, passed: [] };
+	const report = (failedItem: string | null, message: string): VerificationReport => ({
+		valid: failedItem === null,
+		failedItem,
+		message,
+		certificateId: s.manifest?.certificateId ?? s.contents?.certificateId ?? null,
+		fingerprint: s.fingerprint ?? s.contents?.fingerprint ?? null,
+		keyId: s.keyId ?? null,
+		passed: s.passed
+	});
+	try {
+		checkContents(s);
+		checkManifest(s);
+		checkCounts(s);
+		checkRerun(s);
+	} catch (error) {
+		if (error instanceof Failure) return report(error.item, error.message);
+		return report('bundle', `cannot be checked: ${(error as Error).message}`);
+	}
+	return report(null, 'every hash, both signatures and the re-run agree');
+}

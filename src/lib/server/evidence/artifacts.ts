@@ -1,0 +1,131 @@
+/**
+ * Everything a certificate consists of, made in memory before anything is stored: the signed
+ * manifest, the PDF, the bundle's files and the zip. The bundle is checked with the same
+ * verifier a stranger runs, so that no certificate is issued that would not verify.
+ */
+import { parseCounts } from '../../certify';
+import { canonicalJson } from '../../evidence/canonical';
+import { sha256Hex } from '../../evidence/hash';
+import {
+	BUNDLE_FILES,
+	contentsText,
+	uploadedCountsName,
+	type EvidenceFiles
+} from '../../evidence/layout';
+import {
+	buildManifest,
+	canonicalCountsText,
+	fingerprintOf,
+	manifestText,
+	type EvidenceManifest,
+	type ManifestInput
+} from '../../evidence/manifest';
+import { signText, type SigningKey } from '../../evidence/signing';
+import { verifyEvidence } from '../../evidence/verify';
+import { fillPlaceholders } from '../templates';
+import { certificatePdf } from './pdf';
+import { verifierBytes } from './verifier-file';
+import { zipFiles } from './zip-write';
+
+const readmeSource = Object.values(
+	import.meta.glob('/templates/evidence/README.txt', {
+		query: '?raw',
+		import: 'default',
+		eager: true
+	})
+)[0] as string;
+
+export interface EvidenceUrls {
+	/** The public page the QR code points to. */
+	verify: string;
+	/** The public list of signing keys. */
+	keys: string;
+}
+
+export interface Evidence {
+	manifest: EvidenceManifest;
+	manifestText: string;
+	fingerprint: string;
+	signature: string;
+	pdf: Buffer;
+	files: EvidenceFiles;
+	zip: Buffer;
+}
+
+export type EvidenceInput = Omit<ManifestInput, 'counts' | 'signingKeyId' | 'engineVersion'> & {
+	uploaded: Uint8Array;
+	uploadedFormat: 'csv' | 'json';
+};
+
+const utf8 = (text: string) => new TextEncoder().encode(text);
+
+function countsParts(input: EvidenceInput) {
+	const canonical = canonicalCountsText(parseCounts(input.uploaded, input.claim.dimension));
+	const counts = {
+		uploadedSha256: sha256Hex(input.uploaded),
+		uploadedFormat: input.uploadedFormat,
+		uploadedBytes: input.uploaded.byteLength,
+		canonicalSha256: sha256Hex(canonical)
+	};
+	return { canonical, counts };
+}
+
+function readmeText(manifest: EvidenceManifest, fingerprint: string, urls: EvidenceUrls) {
+	return fillPlaceholders(readmeSource, {
+		certificateId: manifest.certificateId,
+		fingerprint,
+		keyId: manifest.signingKeyId,
+		keysUrl: urls.keys,
+		verifyUrl: urls.verify,
+		uploadedName: uploadedCountsName(manifest.counts.uploadedFormat).padEnd(22)
+	});
+}
+
+/** Adds the signed list of every file's SHA-256 (contents.json, contents.sig). */
+function signContents(
+	files: EvidenceFiles,
+	fingerprint: string,
+	certificateId: string,
+	key: SigningKey
+) {
+	const listed = contentsText(certificateId, fingerprint, files);
+	files[BUNDLE_FILES.contents] = utf8(listed);
+	files[BUNDLE_FILES.contentsSignature] = utf8(signText(listed, key.secretKey) + '\n');
+}
+
+export async function makeEvidence(
+	input: EvidenceInput,
+	key: SigningKey,
+	urls: EvidenceUrls,
+	published: { keys: { id: string }[] }
+): Promise<Evidence> {
+	const { canonical, counts } = countsParts(input);
+	const { uploaded, uploadedFormat, ...rest } = input;
+	const engineVersion = input.result.engine.version;
+	const manifest = buildManifest({ ...rest, counts, signingKeyId: key.id, engineVersion });
+	const text = manifestText(manifest);
+	const fingerprint = fingerprintOf(text);
+	const signature = signText(text, key.secretKey);
+	const pdf = await certificatePdf({ manifest, fingerprint, signature, verifyUrl: urls.verify });
+	const files: EvidenceFiles = {
+		[uploadedCountsName(uploadedFormat)]: uploaded,
+		[BUNDLE_FILES.canonicalCounts]: utf8(canonical),
+		[BUNDLE_FILES.manifest]: utf8(text),
+		[BUNDLE_FILES.signature]: utf8(signature + '\n'),
+		[BUNDLE_FILES.publicKey]: utf8(key.publicKey + '\n'),
+		[BUNDLE_FILES.signingKeys]: utf8(JSON.stringify(published, null, '\t') + '\n'),
+		[BUNDLE_FILES.result]: utf8(canonicalJson(manifest.result)),
+		[BUNDLE_FILES.pdf]: pdf,
+		[BUNDLE_FILES.readme]: utf8(readmeText(manifest, fingerprint, urls)),
+		[BUNDLE_FILES.verifier]: await verifierBytes()
+	};
+	signContents(files, fingerprint, manifest.certificateId, key);
+	const folder = `rankseal-${manifest.certificateId}`;
+	const zip = await zipFiles(files, new Date(manifest.issuedAt), folder);
+	return { manifest, manifestText: text, fingerprint, signature, pdf, files, zip };
+}
+
+/** The verifier's verdict on freshly made evidence; a failure here is a reason not to issue. */
+export function selfCheck(evidence: Evidence) {
+	return verifyEvidence(evidence.files);
+}

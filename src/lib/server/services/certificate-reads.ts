@@ -1,0 +1,115 @@
+/**
+ * Reading certificates: members of the claim's group see them and download their files; anyone
+ * may look one up by id or fingerprint, or check a bundle, and learn only its status and what
+ * the certificate itself shows.
+ */
+import { readFile } from 'node:fs/promises';
+import { Op } from 'sequelize';
+import type { VerificationReport } from '../../evidence/verify';
+import { verifyEvidence } from '../../evidence/verify';
+import type { Database } from '../db';
+import type { CertificateAttributes } from '../db/models/Certificate';
+import { publishedKeys } from '../evidence/keys';
+import { readZip, ZipError } from '../evidence/zip-read';
+import { visibleClaim } from './access';
+import { absolute } from './certificate-files';
+import {
+	certificateView,
+	publicCertificate,
+	type CertificateView,
+	type PublicCertificate
+} from './certificate-views';
+import { requireVisibleClaim } from './claims';
+import { NotFoundError } from './errors';
+
+async function visibleCertificate(
+	database: Database,
+	userId: string,
+	id: string
+): Promise<CertificateAttributes> {
+	const row = await database.models.Certificate.findByPk(id);
+	const certificate = row?.get({ plain: true });
+	if (!certificate || !(await visibleClaim(database, userId, certificate.claimId)))
+		throw new NotFoundError('No such certificate.');
+	return certificate;
+}
+
+export async function getCertificate(
+	database: Database,
+	userId: string,
+	id: string
+): Promise<CertificateView> {
+	return certificateView(await visibleCertificate(database, userId, id));
+}
+
+/** The claim's certificates, newest first. */
+export async function listCertificates(
+	database: Database,
+	userId: string,
+	claimId: string
+): Promise<CertificateView[]> {
+	await requireVisibleClaim(database, userId, claimId);
+	const rows = await database.models.Certificate.findAll({
+		where: { claimId },
+		order: [['issuedAt', 'DESC']]
+	});
+	return rows.map((r) => certificateView(r.get({ plain: true })));
+}
+
+/** The PDF or the evidence bundle, with a download name. */
+export async function certificateFile(
+	database: Database,
+	userId: string,
+	id: string,
+	kind: 'pdf' | 'bundle'
+) {
+	const c = await visibleCertificate(database, userId, id);
+	const bytes = await readFile(absolute(kind === 'pdf' ? c.pdfPath : c.bundlePath));
+	return kind === 'pdf'
+		? { bytes, filename: `rankseal-certificate-${id}.pdf`, contentType: 'application/pdf' }
+		: { bytes, filename: `rankseal-evidence-${id}.zip`, contentType: 'application/zip' };
+}
+
+export type Lookup =
+	{ status: 'unknown' } | (PublicCertificate & { status: PublicCertificate['status'] });
+
+/** Public: a certificate by id or by fingerprint. */
+export async function lookupCertificate(
+	database: Database,
+	idOrFingerprint: string
+): Promise<Lookup> {
+	const key = idOrFingerprint.trim().toLowerCase();
+	if (!/^[0-9a-f-]{8,64}$/.test(key)) return { status: 'unknown' };
+	const row = await database.models.Certificate.findOne({
+		where: { [Op.or]: [{ id: key }, { fingerprint: key }] }
+	});
+	return row ? publicCertificate(row.get({ plain: true })) : { status: 'unknown' };
+}
+
+/** Public: checks an uploaded bundle against the service's keys, then says what is on record. */
+export async function checkBundle(
+	database: Database,
+	zip: Buffer
+): Promise<{ report: VerificationReport; record: Lookup }> {
+	let files;
+	try {
+		files = readZip(zip);
+	} catch (error) {
+		if (!(error instanceof ZipError)) throw error;
+		const report = {
+			valid: false,
+			failedItem: 'zip',
+			message: error.message,
+			certificateId: null,
+			fingerprint: null,
+			keyId: null,
+			passed: []
+		};
+		return { report, record: { status: 'unknown' } };
+	}
+	const report = verifyEvidence(files, { trustedKeyIds: publishedKeys().map((k) => k.id) });
+	const record = report.fingerprint
+		? await lookupCertificate(database, report.fingerprint)
+		: { status: 'unknown' as const };
+	return { report, record };
+}

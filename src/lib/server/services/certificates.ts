@@ -1,0 +1,179 @@
+/**
+ * Certificates: issued from a finished check in one transaction (row, files and ledger entries
+ * together or not at all); a later issue for the same claim supersedes the earlier one.
+ */
+import { readFile } from 'node:fs/promises';
+import type { Transaction } from 'sequelize';
+import { InputError } from '../../certify';
+import { sha256Hex } from '../../evidence/hash';
+import { config } from '../config';
+import type { Database } from '../db';
+import { writeTransaction } from '../db/transactions';
+import type { ClaimAttributes } from '../db/models/Claim';
+import { makeEvidence, selfCheck, type Evidence, type EvidenceInput } from '../evidence/artifacts';
+import { publishedKeys, serviceKey } from '../evidence/keys';
+import type { SigningKey } from '../../evidence/signing';
+import { audit } from './audit';
+import { certificatePaths, placeFiles, removeFiles } from './certificate-files';
+import { certificateRow, issueDetails } from './certificate-rows';
+import { certificateView, evidenceUrls, type CertificateView } from './certificate-views';
+import { requireVisibleClaim } from './claims';
+import { datasetFilePath } from './datasets';
+import { NotFoundError } from './errors';
+import { newId } from './ids';
+import { appendLedger } from './ledger';
+
+export type { CertificateView } from './certificate-views';
+
+/** Thrown when another certificate was issued for the claim while this one was being made. */
+export class IssueConflictError extends Error {
+	constructor(message: string) {
+		super(message);
+		this.name = 'IssueConflictError';
+	}
+}
+
+async function finishedCheck(database: Database, claimId: string, checkId: string) {
+	const row = await database.models.Check.findOne({ where: { id: checkId, claimId } });
+	if (!row) throw new NotFoundError('No such check on this claim.');
+	const check = row.get({ plain: true });
+	if (check.status !== 'done' || !check.result)
+		throw new InputError('checkId: only a finished check can be certified');
+	const dataset = (await database.models.Dataset.findByPk(check.datasetId))!.get({ plain: true });
+	const uploaded = await readFile(datasetFilePath(dataset.sha256));
+	if (sha256Hex(uploaded) !== dataset.sha256)
+		throw new Error(`stored counts file ${dataset.sha256} no longer matches its SHA-256`);
+	return { check, dataset, uploaded };
+}
+
+async function currentCertificate(database: Database, claimId: string, transaction?: Transaction) {
+	const row = await database.models.Certificate.findOne({
+		where: { claimId, status: 'valid' },
+		order: [['issuedAt', 'DESC']],
+		transaction
+	});
+	return (row?.get('id') as string | undefined) ?? null;
+}
+
+type CheckSource = Awaited<ReturnType<typeof finishedCheck>>;
+
+/** What the manifest records: the claim as it stands, the check's settings and its result. */
+function evidenceInput(
+	claim: ClaimAttributes,
+	{ check, dataset, uploaded }: CheckSource,
+	certificateId: string,
+	supersedes: string | null
+): EvidenceInput {
+	const result = check.result!;
+	return {
+		certificateId,
+		issuedAt: new Date().toISOString(),
+		claimId: claim.id,
+		checkId: check.id,
+		supersedes,
+		// What the check ran with (a claim edited since then must not change the record).
+		claim: {
+			title: claim.title,
+			dimension: result.dimension,
+			method: result.method,
+			bases: result.bases,
+			fourier: result.fourier,
+			claimedSchmidtNumber: result.claim?.schmidtNumber ?? claim.claimedSchmidtNumber,
+			manuscriptReference: claim.manuscriptReference ?? null
+		},
+		parameters: {
+			resamples: check.resamples,
+			confidence: check.confidence,
+			seed: Number(check.seed),
+			subtractAccidentals: result.backgroundSubtracted
+		},
+		result,
+		uploaded,
+		uploadedFormat: dataset.format
+	};
+}
+
+async function prepare(
+	database: Database,
+	userId: string,
+	claimId: string,
+	checkId: string,
+	key: SigningKey
+) {
+	const claim = await requireVisibleClaim(database, userId, claimId);
+	const source = await finishedCheck(database, claimId, checkId);
+	const id = newId();
+	const supersedes = await currentCertificate(database, claimId);
+	const input = evidenceInput(claim, source, id, supersedes);
+	const urls = evidenceUrls(config().origin, id);
+	const evidence = await makeEvidence(input, key, urls, { keys: publishedKeys() });
+	const verdict = selfCheck(evidence);
+	if (!verdict.valid)
+		throw new InputError(
+			`checkId: this check cannot be certified (${verdict.failedItem}: ${verdict.message}); run the check again`
+		);
+	return { claim, evidence, supersedes };
+}
+
+async function store(
+	database: Database,
+	userId: string,
+	evidence: Evidence,
+	groupId: string,
+	key: SigningKey,
+	transaction: Transaction
+) {
+	const row = certificateRow(evidence, key.id, userId);
+	const { id, supersedes, fingerprint } = row;
+	await database.models.Certificate.create(row, { transaction });
+	const details = issueDetails(row);
+	await appendLedger(database, { event: 'issue', certificateId: id, details }, key, transaction);
+	if (supersedes) {
+		await database.models.Certificate.update(
+			{ status: 'superseded', supersededBy: id },
+			{ where: { id: supersedes }, transaction }
+		);
+		const event = { event: 'supersede' as const, certificateId: supersedes };
+		await appendLedger(database, { ...event, details: { supersededBy: id } }, key, transaction);
+	}
+	const claim = await database.models.Claim.findByPk(row.claimId, { transaction });
+	await claim!.update({ state: 'certified' }, { transaction });
+	const entry = { actorId: userId, groupId, subjectType: 'certificate', subjectId: id };
+	const action = 'certificate.issued';
+	await audit(database, { ...entry, action, details: { fingerprint, supersedes } }, transaction);
+	return row;
+}
+
+/**
+ * Issues a certificate for a finished check of the claim. NotFoundError when the claim or check
+ * is out of sight; InputError when the check cannot be certified; on any failure nothing stays.
+ */
+export async function issueCertificate(
+	database: Database,
+	userId: string,
+	claimId: string,
+	checkId: string
+): Promise<CertificateView> {
+	const key = serviceKey();
+	const { claim, evidence, supersedes } = await prepare(database, userId, claimId, checkId, key);
+	const paths = certificatePaths(evidence.manifest.certificateId);
+	let placed: string[] = [];
+	try {
+		const row = await writeTransaction(database, async (transaction) => {
+			if ((await currentCertificate(database, claimId, transaction)) !== supersedes)
+				throw new IssueConflictError(
+					'Another certificate was issued for this claim meanwhile; try again.'
+				);
+			const stored = await store(database, userId, evidence, claim.groupId, key, transaction);
+			placed = await placeFiles([
+				[paths.pdfPath, evidence.pdf],
+				[paths.bundlePath, evidence.zip]
+			]);
+			return stored;
+		});
+		return certificateView(row);
+	} catch (error) {
+		await removeFiles(placed);
+		throw error;
+	}
+}
