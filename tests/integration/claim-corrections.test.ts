@@ -18,34 +18,41 @@ import {
 	datasetTables,
 	listDatasets
 } from '../../src/lib/server/services/datasets';
-import { ConflictError, ForbiddenError, NotFoundError } from '../../src/lib/server/services/errors';
+import {
+	ConflictError,
+	FieldError,
+	ForbiddenError,
+	NotFoundError
+} from '../../src/lib/server/services/errors';
+import type { Actor } from '../../src/lib/server/access/actor';
+import { asUser } from './actors';
 import { addGroup, addUser, bytesOf, claimFields, countsCsv } from './backend-fixtures';
 import { temporaryDatabase } from './db';
 
 let ctx: Awaited<ReturnType<typeof temporaryDatabase>>;
-let ada: string, bo: string, lena: string, cyd: string;
+let ada: Actor, bo: Actor, lena: Actor, cyd: Actor;
 
 beforeAll(async () => {
 	ctx = await temporaryDatabase();
 	process.env.RANKSEAL_DATA_DIR = ctx.folder;
 	const lake = await addGroup(ctx.database, 'Lake optics');
 	const ridge = await addGroup(ctx.database, 'Ridge qudits');
-	ada = await addUser(ctx.database, 'Ada Lind', [[lake, 'author']]);
-	bo = await addUser(ctx.database, 'Bo Strand', [[lake, 'author']]);
-	lena = await addUser(ctx.database, 'Lena Holm', [[lake, 'lead']]);
-	cyd = await addUser(ctx.database, 'Cyd Marsh', [[ridge, 'lead']]);
+	ada = asUser(await addUser(ctx.database, 'Ada Lind', [[lake, 'author']]));
+	bo = asUser(await addUser(ctx.database, 'Bo Strand', [[lake, 'author']]));
+	lena = asUser(await addUser(ctx.database, 'Lena Holm', [[lake, 'lead']]));
+	cyd = asUser(await addUser(ctx.database, 'Cyd Marsh', [[ridge, 'lead']]));
 });
 afterAll(async () => {
 	await stopCheckRunner(ctx.database);
 	await ctx.close();
 });
 
-const upload = (userId: string, claimId: string, text: string, name = 'counts.csv') =>
-	addDataset(ctx.database, userId, claimId, { bytes: bytesOf(text), originalName: name });
+const upload = (actor: Actor, claimId: string, text: string, name = 'counts.csv') =>
+	addDataset(ctx.database, actor, claimId, { bytes: bytesOf(text), originalName: name });
 
-async function finished(userId: string, checkId: string) {
+async function finished(actor: Actor, checkId: string) {
 	await stopCheckRunner(ctx.database);
-	return (await getCheck(ctx.database, userId, checkId))!;
+	return getCheck(ctx.database, actor, checkId);
 }
 
 describe('correcting a claim before its first check', () => {
@@ -84,13 +91,17 @@ describe('correcting a claim before its first check', () => {
 		await expect(updateClaim(ctx.database, ada, id, claimFields)).rejects.toMatchObject({
 			field: 'dimension'
 		});
+		// The file was read with the cyclic convention (7 is prime, so field is allowed as such).
+		await expect(
+			updateClaim(ctx.database, ada, id, { ...claimFields, dimension: 7, fourier: 'field' })
+		).rejects.toMatchObject({ field: 'fourier' });
 		const check = await startCheck(ctx.database, ada, id, { resamples: 200 });
 		await finished(ada, check.id);
 		const error = await updateClaim(ctx.database, ada, id, { ...claimFields, dimension: 7 }).catch(
 			(e) => e
 		);
 		expect(error).toBeInstanceOf(ConflictError);
-		expect((await getClaim(ctx.database, ada, id))!.dimension).toBe(7);
+		expect((await getClaim(ctx.database, ada, id)).dimension).toBe(7);
 	});
 });
 
@@ -146,7 +157,8 @@ describe('background subtraction as a check option', () => {
 			datasetId: plain.id,
 			subtractAccidentals: true
 		}).catch((e) => e);
-		expect(error).toBeInstanceOf(InputError);
+		expect(error).toBeInstanceOf(FieldError);
+		expect(error.field).toBe('subtractAccidentals');
 		expect(error.message).toMatch(/accidentals column, and plain\.csv has none/);
 
 		// Two accidental counts per cell, written as the product's optional column.

@@ -18,13 +18,15 @@ import { createClaim } from '../../src/lib/server/services/claims';
 import { addDataset } from '../../src/lib/server/services/datasets';
 import { changeMemberRole } from '../../src/lib/server/services/groups';
 import { inviteMember } from '../../src/lib/server/services/invitations';
+import type { UserActor } from '../../src/lib/server/access/actor';
+import { asUser } from './actors';
 import { addGroup, addUser, bytesOf, claimFields, countsCsv } from './backend-fixtures';
 import { mailWorld, type MailWorld } from './mail-world';
 
 const EACH = 50;
 let world: MailWorld;
 let workerFolder: string;
-let groupId: string, lead: string, claimId: string, slowClaimId: string;
+let groupId: string, lead: UserActor, claimId: string, slowClaimId: string;
 const authors: string[] = [];
 const csv = countsCsv(5, [0, 1], 50_000, 11);
 
@@ -37,7 +39,7 @@ beforeAll(async () => {
 		path.join(workerFolder, 'check-worker.mjs')
 	);
 	groupId = await addGroup(world.database, 'Fjord photonics');
-	lead = await addUser(world.database, 'Lena Lead', [[groupId, 'lead']]);
+	lead = asUser(await addUser(world.database, 'Lena Lead', [[groupId, 'lead']]));
 	for (let i = 0; i < EACH; i++)
 		authors.push(await addUser(world.database, `Author ${i}`, [[groupId, 'author']]));
 	claimId = (await createClaim(world.database, lead, claimFields)).id;

@@ -11,6 +11,7 @@ import {
 	invitationTokenIn
 } from '../../src/lib/server/services/invitation-links';
 import { inviteMember } from '../../src/lib/server/services/invitations';
+import { asUser } from './actors';
 import { addUser } from './backend-fixtures';
 import { linkToken, mailTo, mailWorld, type MailWorld } from './mail-world';
 
@@ -21,12 +22,15 @@ let leadId: string, groupId: string;
 beforeAll(async () => {
 	world = await mailWorld();
 	leadId = await addUser(world.database, 'Ines Lead');
-	({ id: groupId } = await createGroup(world.database, leadId, 'Basalt Optics'));
+	({ id: groupId } = await createGroup(world.database, asUser(leadId), 'Basalt Optics'));
 });
 afterAll(async () => world?.close());
 
 async function invite(email: string): Promise<string> {
-	await inviteMember(world.database, world.mailer, leadId, groupId, { email, role: 'author' });
+	await inviteMember(world.database, world.mailer, asUser(leadId), groupId, {
+		email,
+		role: 'author'
+	});
 	return linkToken(world, email, '/invite/');
 }
 
@@ -49,7 +53,7 @@ describe('signing up through an invitation', () => {
 			'Ines Lead invites you to Basalt Optics on Rankseal'
 		]);
 		expect(await isVerified(userId)).toBe(true);
-		expect(await acceptInvitation(world.database, userId, token)).toEqual({
+		expect(await acceptInvitation(world.database, asUser(userId), token)).toEqual({
 			groupId,
 			role: 'author'
 		});

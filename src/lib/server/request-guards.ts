@@ -2,7 +2,8 @@
  * Refuses requests whose path, query or cookies carry control characters (NUL, CR, …): no id,
  * search or session id contains them, and SQLite and the session store must never see them.
  */
-import { error, json, type Handle } from '@sveltejs/kit';
+import { error, type Handle } from '@sveltejs/kit';
+import { problemResponse } from './problems';
 
 const CONTROL = /[\u0000-\u001f\u007f]/;
 
@@ -35,8 +36,8 @@ export const rejectControlCharacters: Handle = async ({ event, resolve }) => {
 	const problem = urlProblem(event.url);
 	if (problem) {
 		if (event.url.pathname.startsWith('/api/'))
-			return json({ error: { code: 'bad_request', message: problem } }, { status: 400 });
-		error(400, problem);
+			return problemResponse({ status: 400, code: 'bad_input', message: problem });
+		error(400, { message: problem, code: 'bad_input' });
 	}
 	for (const { name, value } of event.cookies.getAll())
 		if (hasControlCharacters(value)) event.cookies.delete(name, { path: '/' });

@@ -3,7 +3,8 @@ import { InputError } from '../../certify';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
 import { serviceKey } from '../evidence/keys';
-import { membershipsOf } from './access';
+import { accountIdOf, isAccount, type Actor } from '../access/actor';
+import { roleIn } from '../access/permissions';
 import { audit } from './audit';
 import { certificateView, type CertificateView } from './certificate-views';
 import { ForbiddenError, NotFoundError } from './errors';
@@ -12,15 +13,19 @@ import { appendLedger } from './ledger';
 /** The group's lead or the certificate's issuer may withdraw it; the reason goes in the ledger. */
 export async function withdrawCertificate(
 	database: Database,
-	userId: string,
+	actor: Actor,
 	certificateId: string,
 	reason: string
 ): Promise<CertificateView> {
 	const { Certificate, Claim } = database.models;
 	const row = await Certificate.findByPk(certificateId);
 	const claim = row && (await Claim.findByPk(row.get('claimId') as string));
-	const role = claim && (await membershipsOf(database, userId)).get(claim.get('groupId') as string);
+	const role =
+		claim && isAccount(actor)
+			? await roleIn(database, actor, claim.get('groupId') as string)
+			: null;
 	if (!row || !claim || !role) throw new NotFoundError('No such certificate.');
+	const userId = accountIdOf(actor);
 	if (role !== 'lead' && row.get('issuedBy') !== userId)
 		throw new ForbiddenError('Only the group lead or the issuer may withdraw a certificate.');
 	const why = reason.trim();

@@ -1,16 +1,18 @@
 /**
  * Correcting a claim before its first check: title, source, manuscript, d, method, bases and
  * the claimed Schmidt number. Once a check has run, the claim is what that check was measured
- * against and stays as it is (ConflictError). Its author and the group's leads may edit it.
+ * against and stays as it is (ConflictError). Who may edit it: 'edit-claim' in permissions.ts.
  */
-import { claimInputSchema, type ClaimInputValues } from '$lib/claims/schema';
+import { claimInputSchema, type ClaimInput, type ClaimInputValues } from '$lib/claims/schema';
+import { accountIdOf, type Actor } from '../access/actor';
+import { requireClaim } from '../access/permissions';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
-import { membershipsOf } from './access';
+import type { ClaimAttributes } from '../db/models/Claim';
+import type { DatasetAttributes } from '../db/models/Dataset';
 import { audit } from './audit';
-import { getClaim, requireVisibleClaim, type ClaimView } from './claims';
-import { ConflictError, ForbiddenError } from './errors';
-import { FieldError } from './field-error';
+import { getClaim, type ClaimView } from './claims';
+import { ConflictError, FieldError } from './errors';
 
 const EDITABLE = [
 	'title',
@@ -18,34 +20,62 @@ const EDITABLE = [
 	'dimension',
 	'method',
 	'bases',
+	'fourier',
 	'claimedSchmidtNumber',
 	'manuscriptReference'
 ] as const;
 
+/** The claim as its editing form starts, and whether a check has already fixed it. */
+export async function claimForEditing(
+	database: Database,
+	actor: Actor,
+	claimId: string
+): Promise<{ claim: ClaimView; checked: boolean }> {
+	await requireClaim(database, actor, claimId, 'edit-claim');
+	const checked = (await database.models.Check.count({ where: { claimId } })) > 0;
+	return { claim: await getClaim(database, actor, claimId), checked };
+}
+
+/** Uploaded files were read with the claim's d and convention: those stay until the files go. */
+function refuseMismatchedFiles(
+	claim: Pick<ClaimAttributes, 'fourier'>,
+	values: Pick<ClaimInput, 'dimension' | 'fourier'>,
+	datasets: DatasetAttributes[]
+): void {
+	const other = datasets.find((d) => d.summary.dimension !== values.dimension);
+	if (other)
+		throw new FieldError(
+			'dimension',
+			`The uploaded file ${other.originalName} is d = ${other.summary.dimension}; remove it before changing d.`
+		);
+	if (datasets.length > 0 && values.fourier !== claim.fourier)
+		throw new FieldError(
+			'fourier',
+			`The uploaded file ${datasets[0].originalName} was read with the ${claim.fourier} convention; remove it before changing the convention.`
+		);
+}
+
 export async function updateClaim(
 	database: Database,
-	userId: string,
+	actor: Actor,
 	claimId: string,
 	input: ClaimInputValues
 ): Promise<ClaimView> {
-	const claim = await requireVisibleClaim(database, userId, claimId);
-	const role = (await membershipsOf(database, userId)).get(claim.groupId);
-	if (claim.createdBy !== userId && role !== 'lead')
-		throw new ForbiddenError('Only the claim’s author or a group lead may edit it.');
+	await requireClaim(database, actor, claimId, 'edit-claim');
+	const userId = accountIdOf(actor);
 	const values = claimInputSchema.parse({ ...input, groupId: undefined });
 	const { Check, Claim, Dataset } = database.models;
 	await writeTransaction(database, async (transaction) => {
+		// Re-read inside the write: the role or the claim may have changed since the first look.
+		const claim = await requireClaim(database, actor, claimId, 'edit-claim', transaction);
 		if (await Check.count({ where: { claimId }, transaction }))
 			throw new ConflictError('This claim has been checked; a checked claim is not edited.');
 		const datasets = await Dataset.findAll({ where: { claimId }, transaction });
-		const other = datasets.find(
-			(d) => d.get({ plain: true }).summary.dimension !== values.dimension
+		refuseMismatchedFiles(
+			claim,
+			values,
+			datasets.map((d) => d.get({ plain: true }))
 		);
-		if (other)
-			throw new FieldError(
-				'dimension',
-				`The uploaded file ${other.get('originalName')} is d = ${other.get({ plain: true }).summary.dimension}; remove it before changing d.`
-			);
 		const changes = Object.fromEntries(EDITABLE.map((key) => [key, values[key]]));
 		const before = Object.fromEntries(EDITABLE.map((key) => [key, claim[key]]));
 		await Claim.update(changes, { where: { id: claimId }, transaction });
@@ -62,5 +92,5 @@ export async function updateClaim(
 			transaction
 		);
 	});
-	return (await getClaim(database, userId, claimId))!;
+	return getClaim(database, actor, claimId);
 }

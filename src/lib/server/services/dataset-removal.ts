@@ -4,22 +4,24 @@
  * any claim names them.
  */
 import { rm } from 'node:fs/promises';
+import { accountIdOf, type Actor } from '../access/actor';
+import { requireClaim } from '../access/permissions';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
 import { audit } from './audit';
-import { requireVisibleClaim } from './claims';
 import { datasetFilePath } from './datasets';
 import { ConflictError, NotFoundError } from './errors';
 
 export async function removeDataset(
 	database: Database,
-	userId: string,
+	actor: Actor,
 	claimId: string,
 	datasetId: string
 ): Promise<void> {
-	const claim = await requireVisibleClaim(database, userId, claimId);
+	const userId = accountIdOf(actor);
 	const { Check, Dataset } = database.models;
 	await writeTransaction(database, async (transaction) => {
+		const claim = await requireClaim(database, actor, claimId, 'remove-dataset', transaction);
 		const row = await Dataset.findOne({ where: { id: datasetId, claimId }, transaction });
 		if (!row) throw new NotFoundError('No such dataset on this claim.');
 		if (await Check.count({ where: { datasetId }, transaction }))

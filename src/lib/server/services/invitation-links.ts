@@ -3,6 +3,8 @@
  * within 7 days, and only for a signed-in user with the invited address.
  */
 import { Op, type Transaction } from 'sequelize';
+import type { Actor } from '../access/actor';
+import { requireService } from '../access/permissions';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
 import type { GroupRole } from '../db/models/Membership';
@@ -79,9 +81,10 @@ export async function invitedAddress(
  */
 export async function acceptInvitation(
 	database: Database,
-	userId: string,
+	actor: Actor,
 	token: string
 ): Promise<{ groupId: string; role: GroupRole }> {
+	const { userId } = await requireService(database, actor, 'join-group');
 	const { Invitation, Membership, User } = database.models;
 	return writeTransaction(database, async (transaction) => {
 		const row = await Invitation.findOne({ where: { tokenHash: hashSecret(token) }, transaction });
