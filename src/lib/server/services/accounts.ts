@@ -7,6 +7,8 @@ import type { Actor } from '../access/actor';
 import { requireService } from '../access/permissions';
 import { hashPassword, verifyPassword, type AppLucia } from '../auth';
 import type { Database } from '../db';
+import { writeTransaction } from '../db/transactions';
+import { invitedAddress } from './invitation-links';
 import { mailLink, sendTemplate, type Mailer } from '../mail';
 import { audit } from './audit';
 import {
@@ -52,10 +54,15 @@ async function sendVerification(
 	await sendTemplate(mailer, user.email, 'verify-email', { ...user, link });
 }
 
+/**
+ * Creates an account and mails a confirmation link — unless the sign-up came through a valid
+ * invitation to this very address: opening that link already proved the mailbox.
+ */
 export async function signUp(
 	database: Database,
 	mailer: Mailer,
-	input: { email: string; name: string; password: string }
+	input: { email: string; name: string; password: string },
+	proof: { invitationToken?: string | null } = {}
 ): Promise<{ userId: string }> {
 	const { User } = database.models;
 	const email = normaliseEmail(input.email);
@@ -65,11 +72,13 @@ export async function signUp(
 	if (await User.findOne({ where: { email } })) throw new FieldError('email', EMAIL_TAKEN);
 	const passwordHash = await hashPassword(input.password);
 	const userId = newId();
-	let token: string;
+	let token: string | null;
 	try {
-		token = await database.sequelize.transaction(async (transaction) => {
+		token = await writeTransaction(database, async (transaction) => {
+			const invited = await invitedAddress(database, proof.invitationToken, email, transaction);
+			const emailVerifiedAt = invited ? new Date() : null;
 			await User.create(
-				{ id: userId, email, name, passwordHash, accountRole: 'researcher' },
+				{ id: userId, email, name, passwordHash, accountRole: 'researcher', emailVerifiedAt },
 				{ transaction }
 			);
 			const entry = {
@@ -80,13 +89,22 @@ export async function signUp(
 				details: { email }
 			};
 			await audit(database, entry, transaction);
+			if (invited) {
+				const via = { via: 'invitation' };
+				await audit(
+					database,
+					{ ...entry, action: 'account.email-verified', details: via },
+					transaction
+				);
+				return null;
+			}
 			return issueEmailToken(database, userId, 'verify-email', VERIFY_EMAIL_TTL_MS, transaction);
 		});
 	} catch (error) {
 		if (error instanceof UniqueConstraintError) throw new FieldError('email', EMAIL_TAKEN);
 		throw error;
 	}
-	await sendVerification(mailer, { email, name }, token);
+	if (token) await sendVerification(mailer, { email, name }, token);
 	return { userId };
 }
 
@@ -109,7 +127,7 @@ export const verificationLinkState = (database: Database, token: string) =>
 	emailTokenState(database, token, 'verify-email');
 
 export async function verifyEmail(database: Database, token: string): Promise<LinkResult> {
-	return database.sequelize.transaction(async (transaction) => {
+	return writeTransaction(database, async (transaction) => {
 		const used = await useEmailToken(database, token, 'verify-email', transaction);
 		if (!used.ok) return used;
 		await confirmAddress(database, used.userId, transaction);
@@ -182,7 +200,7 @@ export async function resetPassword(
 ): Promise<LinkResult> {
 	checkPassword(newPassword);
 	const passwordHash = await hashPassword(newPassword);
-	const result = await database.sequelize.transaction(async (transaction): Promise<LinkResult> => {
+	const result = await writeTransaction(database, async (transaction): Promise<LinkResult> => {
 		const used = await useEmailToken(database, token, 'reset-password', transaction);
 		if (!used.ok) return used;
 		const { User } = database.models;

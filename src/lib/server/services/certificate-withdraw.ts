@@ -1,6 +1,7 @@
 /** Withdrawing a certificate: its status changes and the ledger records why; nothing else does. */
 import { InputError } from '../../certify';
 import type { Database } from '../db';
+import { writeTransaction } from '../db/transactions';
 import { serviceKey } from '../evidence/keys';
 import { accountIdOf, isAccount, type Actor } from '../access/actor';
 import { roleIn } from '../access/permissions';
@@ -33,7 +34,7 @@ export async function withdrawCertificate(
 	if (row.get('status') === 'withdrawn')
 		throw new InputError('the certificate is withdrawn already');
 	const key = serviceKey();
-	await database.sequelize.transaction(async (transaction) => {
+	await writeTransaction(database, async (transaction) => {
 		await row.update({ status: 'withdrawn' }, { transaction });
 		const details = { reason: why, by: userId };
 		await appendLedger(database, { event: 'withdraw', certificateId, details }, key, transaction);

@@ -8,6 +8,7 @@ import { InputError } from '../../certify';
 import { sha256Hex } from '../../evidence/hash';
 import { config } from '../config';
 import type { Database } from '../db';
+import { writeTransaction } from '../db/transactions';
 import type { ClaimAttributes } from '../db/models/Claim';
 import { makeEvidence, selfCheck, type Evidence, type EvidenceInput } from '../evidence/artifacts';
 import { publishedKeys, serviceKey } from '../evidence/keys';
@@ -160,7 +161,7 @@ export async function issueCertificate(
 	const paths = certificatePaths(evidence.manifest.certificateId);
 	let placed: string[] = [];
 	try {
-		const row = await database.sequelize.transaction(async (transaction) => {
+		const row = await writeTransaction(database, async (transaction) => {
 			if ((await currentCertificate(database, claimId, transaction)) !== supersedes)
 				throw new IssueConflictError(
 					'Another certificate was issued for this claim meanwhile; try again.'

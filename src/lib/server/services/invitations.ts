@@ -6,6 +6,7 @@ import { Op } from 'sequelize';
 import { accountIdOf, type Actor } from '../access/actor';
 import { requireGroup } from '../access/permissions';
 import type { Database } from '../db';
+import { writeTransaction } from '../db/transactions';
 import type { GroupRole } from '../db/models/Membership';
 import { mailLink, sendTemplate, type Mailer } from '../mail';
 import { normaliseEmail } from './accounts';
@@ -36,7 +37,8 @@ export async function inviteMember(
 	const email = normaliseEmail(input.email);
 	if (!GROUP_ROLES.includes(input.role)) throw new FieldError('role', 'Choose lead or author.');
 	const { Group, Invitation, Membership, User } = database.models;
-	const { id, token, groupName, inviter } = await database.sequelize.transaction(
+	const { id, token, groupName, inviter } = await writeTransaction(
+		database,
 		async (transaction) => {
 			await requireGroup(database, actor, groupId, 'manage', transaction);
 			const actorId = accountIdOf(actor)!;
@@ -126,7 +128,7 @@ export async function revokeInvitation(
 	groupId: string,
 	invitationId: string
 ): Promise<void> {
-	await database.sequelize.transaction(async (transaction) => {
+	await writeTransaction(database, async (transaction) => {
 		await requireGroup(database, actor, groupId, 'manage', transaction);
 		const actorId = accountIdOf(actor);
 		const removed = await database.models.Invitation.destroy({

@@ -89,6 +89,20 @@ export const openApiDocument = {
 				summary: 'Read a claim',
 				parameters: [idParameter('claim')],
 				responses: { '200': reply('The claim.', 'Claim'), '401': unauthorised, '404': notFound }
+			},
+			put: {
+				operationId: 'updateClaim',
+				summary: 'Correct every field of a claim before its first check',
+				parameters: [idParameter('claim')],
+				requestBody: { required: true, content: body('ClaimInput') },
+				responses: {
+					'200': reply('The corrected claim.', 'Claim'),
+					'400': badRequest,
+					'401': unauthorised,
+					'403': failure('Neither the claim’s author nor a lead of its group.'),
+					'404': notFound,
+					'409': failure('The claim has been checked and is no longer edited (code conflict).')
+				}
 			}
 		},
 		'/api/v1/claims/{id}/datasets': {
@@ -139,8 +153,22 @@ export const openApiDocument = {
 					'401': unauthorised,
 					'403': forbidden,
 					'404': notFound,
+					'409': failure('The same bytes were uploaded to this claim before (code conflict).'),
 					'413': failure(`The file exceeds ${MAX_COUNTS_FILE_BYTES} bytes.`),
 					'415': failure('Neither multipart/form-data, text/csv nor application/json.')
+				}
+			}
+		},
+		'/api/v1/claims/{id}/datasets/{datasetId}': {
+			delete: {
+				operationId: 'removeDataset',
+				summary: 'Take back an upload that no check has used yet',
+				parameters: [idParameter('claim'), { ...idParameter('dataset'), name: 'datasetId' }],
+				responses: {
+					'204': { description: 'Removed; the removal is in the audit log.' },
+					'401': unauthorised,
+					'404': notFound,
+					'409': failure('A check has used this dataset, so it stays (code conflict).')
 				}
 			}
 		},
