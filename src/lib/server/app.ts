@@ -8,6 +8,7 @@ import { config } from './config';
 import { db, type Database } from './db';
 import { catcherTransport, createMailer, type Mailer } from './mail';
 import { startMailCatcher, type MailCatcher } from './mail-catcher';
+import { startMailRunner, type MailRunner } from './mail-runner';
 import { startCheckRunner } from './checks/runner';
 import { serviceKey } from './evidence/keys';
 import { sweepOrphanFiles } from './services/certificate-files';
@@ -19,17 +20,23 @@ export interface AppServices {
 	mailer: Mailer;
 	/** The local SMTP catcher, running only when no SMTP_URL is configured. */
 	mailCatcher: MailCatcher | null;
+	/** Delivers the outbox in the background. */
+	mailRunner: MailRunner;
 }
 
 let services: Promise<AppServices> | null = null;
 
 async function startMail(
 	database: Database
-): Promise<{ mailer: Mailer; mailCatcher: MailCatcher | null }> {
+): Promise<{ mailer: Mailer; mailCatcher: MailCatcher | null; mailRunner: MailRunner }> {
 	const { smtpUrl, mailFrom, origin, mailCatcherPort } = config();
 	const mailCatcher = smtpUrl ? null : await startMailCatcher(database, mailCatcherPort);
 	const transport = mailCatcher ? catcherTransport(mailCatcher.port) : smtpUrl;
-	return { mailer: createMailer({ transport, from: mailFrom, origin }), mailCatcher };
+	const mailer = createMailer({ transport, from: mailFrom, origin });
+	const mailRunner = await startMailRunner(database, mailer);
+	// adapter-node emits this once the HTTP server has closed (SIGINT, SIGTERM).
+	process.once('sveltekit:shutdown' as 'beforeExit', () => void mailRunner.stop());
+	return { mailer, mailCatcher, mailRunner };
 }
 
 export function app(): Promise<AppServices> {

@@ -2,10 +2,10 @@
  * Accounts: sign-up with a confirmation link, sign-in, password reset and sign-out. Links are
  * single use and expire (see email-tokens.ts); addresses are kept trimmed and lower-case.
  */
-import { UniqueConstraintError } from 'sequelize';
+import { UniqueConstraintError, type Transaction } from 'sequelize';
 import { hashPassword, verifyPassword, type AppLucia } from '../auth';
 import type { Database } from '../db';
-import { mailLink, sendTemplate, type Mailer } from '../mail';
+import { mailLink, type Mailer } from '../mail';
 import { audit } from './audit';
 import {
 	RESET_PASSWORD_TTL_MS,
@@ -18,6 +18,7 @@ import {
 } from './email-tokens';
 import { FieldError } from './field-error';
 import { newId } from './ids';
+import { queueMail } from './mail-queue';
 
 export const PASSWORD_MIN_LENGTH = 10;
 export const PASSWORD_MAX_LENGTH = 256;
@@ -39,13 +40,22 @@ function checkPassword(password: string, field = 'password') {
 const EMAIL_TAKEN =
 	'An account with this address already exists. Sign in, or ask for a new password.';
 
-async function sendVerification(
+/** A new confirmation link, and the mail carrying it, in the caller's transaction. */
+async function queueVerification(
+	database: Database,
 	mailer: Mailer,
-	user: { email: string; name: string },
-	token: string
+	user: { id: string; email: string; name: string },
+	transaction: Transaction
 ) {
-	const link = mailLink(mailer, `/verify/${token}`);
-	await sendTemplate(mailer, user.email, 'verify-email', { ...user, link });
+	const token = await issueEmailToken(
+		database,
+		user.id,
+		'verify-email',
+		VERIFY_EMAIL_TTL_MS,
+		transaction
+	);
+	const values = { name: user.name, email: user.email, link: mailLink(mailer, `/verify/${token}`) };
+	await queueMail(database, transaction, user.email, 'verify-email', values);
 }
 
 export async function signUp(
@@ -61,9 +71,8 @@ export async function signUp(
 	if (await User.findOne({ where: { email } })) throw new FieldError('email', EMAIL_TAKEN);
 	const passwordHash = await hashPassword(input.password);
 	const userId = newId();
-	let token: string;
 	try {
-		token = await database.sequelize.transaction(async (transaction) => {
+		await database.sequelize.transaction(async (transaction) => {
 			await User.create(
 				{ id: userId, email, name, passwordHash, accountRole: 'researcher' },
 				{ transaction }
@@ -76,13 +85,12 @@ export async function signUp(
 				details: { email }
 			};
 			await audit(database, entry, transaction);
-			return issueEmailToken(database, userId, 'verify-email', VERIFY_EMAIL_TTL_MS, transaction);
+			await queueVerification(database, mailer, { id: userId, email, name }, transaction);
 		});
 	} catch (error) {
 		if (error instanceof UniqueConstraintError) throw new FieldError('email', EMAIL_TAKEN);
 		throw error;
 	}
-	await sendVerification(mailer, { email, name }, token);
 	return { userId };
 }
 
@@ -95,8 +103,9 @@ export async function resendVerification(
 	const user = await database.models.User.findByPk(userId);
 	if (!user || user.get('emailVerifiedAt')) return false;
 	const { email, name } = user.get({ plain: true });
-	const token = await issueEmailToken(database, userId, 'verify-email', VERIFY_EMAIL_TTL_MS);
-	await sendVerification(mailer, { email, name }, token);
+	await database.sequelize.transaction((transaction) =>
+		queueVerification(database, mailer, { id: userId, email, name }, transaction)
+	);
 	return true;
 }
 
@@ -147,17 +156,22 @@ export async function requestPasswordReset(
 	const user = await database.models.User.findOne({ where: { email: normaliseEmail(email) } });
 	if (!user) return;
 	const { id, name, email: address } = user.get({ plain: true });
-	const token = await issueEmailToken(database, id, 'reset-password', RESET_PASSWORD_TTL_MS);
-	await audit(database, {
-		actorId: null,
-		action: 'account.password-reset-requested',
-		subjectType: 'user',
-		subjectId: id
-	});
-	await sendTemplate(mailer, address, 'reset-password', {
-		name,
-		email: address,
-		link: mailLink(mailer, `/reset/${token}`)
+	await database.sequelize.transaction(async (transaction) => {
+		const ttl = RESET_PASSWORD_TTL_MS;
+		const token = await issueEmailToken(database, id, 'reset-password', ttl, transaction);
+		const entry = {
+			actorId: null,
+			action: 'account.password-reset-requested',
+			subjectType: 'user',
+			subjectId: id
+		};
+		await audit(database, entry, transaction);
+		const link = mailLink(mailer, `/reset/${token}`);
+		await queueMail(database, transaction, address, 'reset-password', {
+			name,
+			email: address,
+			link
+		});
 	});
 }
 
@@ -187,17 +201,13 @@ export async function resetPassword(
 			subjectId: used.userId
 		};
 		await audit(database, entry, transaction);
+		const user = (await User.findByPk(used.userId, { transaction }))!.get({ plain: true });
+		const values = { name: user.name, email: user.email, link: mailLink(mailer, '/reset') };
+		await queueMail(database, transaction, user.email, 'password-changed', values);
 		return used;
 	});
 	if (!result.ok) return result;
 	await lucia.invalidateUserSessions(result.userId);
-	const user = (await database.models.User.findByPk(result.userId))!.get({ plain: true });
-	const link = mailLink(mailer, '/reset');
-	await sendTemplate(mailer, user.email, 'password-changed', {
-		name: user.name,
-		email: user.email,
-		link
-	});
 	return result;
 }
 

@@ -16,6 +16,7 @@ import { audit } from './audit';
 import { certificatePaths, placeFiles, removeFiles } from './certificate-files';
 import { certificateRow, issueDetails } from './certificate-rows';
 import { certificateView, evidenceUrls, type CertificateView } from './certificate-views';
+import { queueCertificateNotice } from './claim-notices';
 import { requireVisibleClaim } from './claims';
 import { datasetFilePath } from './datasets';
 import { NotFoundError } from './errors';
@@ -140,6 +141,7 @@ async function store(
 	const entry = { actorId: userId, groupId, subjectType: 'certificate', subjectId: id };
 	const action = 'certificate.issued';
 	await audit(database, { ...entry, action, details: { fingerprint, supersedes } }, transaction);
+	await queueCertificateNotice(database, row, transaction);
 	return row;
 }
 

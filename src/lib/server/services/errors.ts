@@ -16,3 +16,11 @@ export class ForbiddenError extends Error {
 		this.name = 'ForbiddenError';
 	}
 }
+
+/** The request is sound but the thing is not in a state that allows it (no counts yet, …). */
+export class ConflictError extends Error {
+	constructor(message: string) {
+		super(message);
+		this.name = 'ConflictError';
+	}
+}

@@ -2,9 +2,11 @@
 import * as initial from './0001-initial';
 import * as fourierConvention from './0002-fourier-convention';
 import * as certificates from './0005-certificates';
+import * as outboxArchive from './0007-outbox-archive';
 
 export const migrations = [
 	{ name: '0001-initial', ...initial },
 	{ name: '0002-fourier-convention', ...fourierConvention },
-	{ name: '0005-certificates', ...certificates }
+	{ name: '0005-certificates', ...certificates },
+	{ name: '0007-outbox-archive', ...outboxArchive }
 ];
