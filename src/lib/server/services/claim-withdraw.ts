@@ -41,11 +41,16 @@ export async function withdrawClaim(
 	const key = serviceKey();
 	const by = ((await User.findByPk(userId))?.get('name') as string | undefined) ?? 'A member';
 	return database.sequelize.transaction(async (transaction) => {
-		const [changed] = await Claim.update(
-			{ state: 'withdrawn', withdrawnReason: why, withdrawnAt: new Date() },
-			{ where: { id: claimId, state: { [Op.ne]: 'withdrawn' } }, transaction }
-		);
-		if (changed === 0) throw new ConflictError('This claim is withdrawn already.');
+		// Read again inside the transaction: a second withdrawal meanwhile must not run twice.
+		const current = (await Claim.findByPk(claimId, { transaction }))!;
+		if (current.get('state') === 'withdrawn')
+			throw new ConflictError('This claim is withdrawn already.');
+		const withdrawal = {
+			state: 'withdrawn' as const,
+			withdrawnReason: why,
+			withdrawnAt: new Date()
+		};
+		await current.update(withdrawal, { transaction });
 		const certificates = await Certificate.findAll({
 			where: { claimId, status: { [Op.ne]: 'withdrawn' } },
 			transaction
