@@ -11,6 +11,7 @@ import {
 } from '../../src/lib/server/services/mail-outbox';
 import { fillPlaceholders, renderTemplate } from '../../src/lib/server/templates';
 import { newId } from '../../src/lib/server/services/ids';
+import { asUser } from './actors';
 import { mailTo, mailWorld, type MailWorld } from './mail-world';
 
 describe('mail: nodemailer to the local SMTP catcher', () => {
@@ -87,28 +88,30 @@ describe('mail: nodemailer to the local SMTP catcher', () => {
 			accountRole: 'researcher'
 		});
 		await requestPasswordReset(world.database, world.mailer, 'r@lab.test');
-		const queued = await listOutbox(world.database, admin);
+		const queued = await listOutbox(world.database, asUser(admin));
 		expect(queued.items[0]).toMatchObject({ to: 'r@lab.test', status: 'queued', attempts: 0 });
 		await mailTo(world, 'r@lab.test');
-		const outbox = await listOutbox(world.database, admin, 1, 'sent');
+		const outbox = await listOutbox(world.database, asUser(admin), 1, 'sent');
 		expect(outbox.items[0]).toMatchObject({ to: 'r@lab.test', status: 'sent', attempts: 1 });
-		const message = await getOutboxMessage(world.database, admin, outbox.items[0].id);
+		const message = await getOutboxMessage(world.database, asUser(admin), outbox.items[0].id);
 		expect(message.text).toContain('/reset/');
-		const hidden = await getOutboxMessage(world.database, admin, message.id, {
+		const hidden = await getOutboxMessage(world.database, asUser(admin), message.id, {
 			revealSecretLinks: false
 		});
 		expect(hidden.text).not.toContain('/reset/');
 		expect(hidden.html).not.toContain('/reset/');
-		await expect(listOutbox(world.database, researcher)).rejects.toBeInstanceOf(ForbiddenError);
-		await expect(getOutboxMessage(world.database, researcher, message.id)).rejects.toBeInstanceOf(
+		await expect(listOutbox(world.database, asUser(researcher))).rejects.toBeInstanceOf(
 			ForbiddenError
 		);
-		await expect(getOutboxMessage(world.database, admin, 'missing')).rejects.toBeInstanceOf(
+		await expect(
+			getOutboxMessage(world.database, asUser(researcher), message.id)
+		).rejects.toBeInstanceOf(ForbiddenError);
+		await expect(getOutboxMessage(world.database, asUser(admin), 'missing')).rejects.toBeInstanceOf(
 			NotFoundError
 		);
-		await expect(requeueOutboxMessage(world.database, admin, message.id)).rejects.toBeInstanceOf(
-			ConflictError
-		);
+		await expect(
+			requeueOutboxMessage(world.database, asUser(admin), message.id)
+		).rejects.toBeInstanceOf(ConflictError);
 	});
 });
 

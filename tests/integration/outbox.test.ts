@@ -15,6 +15,7 @@ import {
 	signUp
 } from '../../src/lib/server/services/accounts';
 import { renderTemplate } from '../../src/lib/server/templates';
+import { asUser } from './actors';
 import { temporaryDatabase } from './db';
 
 const ORIGIN = 'http://rankseal.test';
@@ -49,7 +50,7 @@ describe('the outbox while the mail server is down, then back', () => {
 		await signUp(ctx.database, down, person(2));
 		const { userId: third } = await signUp(ctx.database, down, person(3));
 		await requestPasswordReset(ctx.database, down, person(1).email);
-		await resendVerification(ctx.database, down, third);
+		await resendVerification(ctx.database, down, asUser(third));
 		expect((await outbox()).map((m) => m.status)).toEqual(Array(5).fill('queued'));
 
 		const t0 = new Date('2030-01-01T00:00:00Z');

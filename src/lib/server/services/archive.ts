@@ -7,7 +7,8 @@ import { Op, col, fn, where as sqlWhere, type WhereOptions } from 'sequelize';
 import type { ArchiveFilter } from '$lib/archive/schema';
 import type { Database } from '../db';
 import type { ClaimAttributes } from '../db/models/Claim';
-import { membershipsOf } from './access';
+import { isAccount, type Actor } from '../access/actor';
+import { requireGroup } from '../access/permissions';
 import { NotFoundError } from './errors';
 
 export interface ArchiveVersion {
@@ -116,15 +117,27 @@ async function versionsOf(database: Database, claimIds: string[]) {
 	return byClaim;
 }
 
-/** The archive of one group the user belongs to (the first of their groups when none is named). */
+/** The caller's first group by name, for an archive asked for without one. */
+async function firstGroupOf(database: Database, actor: Actor): Promise<string> {
+	if (!isAccount(actor)) throw new NotFoundError('No such group.');
+	const { Group, Membership } = database.models;
+	const rows = await Membership.findAll({
+		where: { userId: actor.userId },
+		include: [{ model: Group, attributes: ['name'] }],
+		order: [[Group, 'name', 'ASC']]
+	});
+	if (!rows.length) throw new NotFoundError('You belong to no group yet, so there is no archive.');
+	return rows[0].get('groupId') as string;
+}
+
+/** The archive of one group of the caller's (their first group by name when none is named). */
 export async function groupArchive(
 	database: Database,
-	userId: string,
+	actor: Actor,
 	filter: ArchiveFilter
 ): Promise<Archive> {
-	const memberships = await membershipsOf(database, userId);
-	const groupId = filter.group ?? [...memberships.keys()][0];
-	if (!groupId || !memberships.has(groupId)) throw new NotFoundError('No such group.');
+	const groupId = filter.group ?? (await firstGroupOf(database, actor));
+	await requireGroup(database, actor, groupId, 'read');
 	const group = (await database.models.Group.findByPk(groupId))!;
 	const rows = await database.models.Claim.findAll({
 		where: claimWhere(groupId, filter),

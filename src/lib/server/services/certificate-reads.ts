@@ -11,7 +11,8 @@ import type { Database } from '../db';
 import type { CertificateAttributes } from '../db/models/Certificate';
 import { publishedKeys } from '../evidence/keys';
 import { readZip, ZipError } from '../evidence/zip-read';
-import { visibleClaim } from './access';
+import type { Actor } from '../access/actor';
+import { decideClaim, requireClaim } from '../access/permissions';
 import { absolute } from './certificate-files';
 import {
 	certificateView,
@@ -19,37 +20,39 @@ import {
 	type CertificateView,
 	type PublicCertificate
 } from './certificate-views';
-import { requireVisibleClaim } from './claims';
 import { NotFoundError } from './errors';
 import { withdrawalOf } from './ledger';
 
 async function visibleCertificate(
 	database: Database,
-	userId: string,
+	actor: Actor,
 	id: string
 ): Promise<CertificateAttributes> {
 	const row = await database.models.Certificate.findByPk(id);
 	const certificate = row?.get({ plain: true });
-	if (!certificate || !(await visibleClaim(database, userId, certificate.claimId)))
-		throw new NotFoundError('No such certificate.');
+	const claim = certificate && (await database.models.Claim.findByPk(certificate.claimId));
+	const decision = claim
+		? await decideClaim(database, actor, claim.get({ plain: true }), 'read')
+		: 'hidden';
+	if (!certificate || decision !== 'allowed') throw new NotFoundError('No such certificate.');
 	return certificate;
 }
 
 export async function getCertificate(
 	database: Database,
-	userId: string,
+	actor: Actor,
 	id: string
 ): Promise<CertificateView> {
-	return certificateView(await visibleCertificate(database, userId, id));
+	return certificateView(await visibleCertificate(database, actor, id));
 }
 
 /** The claim's certificates, newest first. */
 export async function listCertificates(
 	database: Database,
-	userId: string,
+	actor: Actor,
 	claimId: string
 ): Promise<CertificateView[]> {
-	await requireVisibleClaim(database, userId, claimId);
+	await requireClaim(database, actor, claimId, 'read');
 	const rows = await database.models.Certificate.findAll({
 		where: { claimId },
 		order: [['issuedAt', 'DESC']]
@@ -60,11 +63,11 @@ export async function listCertificates(
 /** The PDF or the evidence bundle, with a download name. */
 export async function certificateFile(
 	database: Database,
-	userId: string,
+	actor: Actor,
 	id: string,
 	kind: 'pdf' | 'bundle'
 ) {
-	const c = await visibleCertificate(database, userId, id);
+	const c = await visibleCertificate(database, actor, id);
 	const bytes = await readFile(absolute(kind === 'pdf' ? c.pdfPath : c.bundlePath));
 	return kind === 'pdf'
 		? { bytes, filename: `rankseal-certificate-${id}.pdf`, contentType: 'application/pdf' }

@@ -5,7 +5,8 @@ import type { SigningKey } from '../../evidence/signing';
 import type { Database } from '../db';
 import type { CertificateAttributes } from '../db/models/Certificate';
 import { serviceKey } from '../evidence/keys';
-import { membershipsOf } from './access';
+import { accountIdOf, isAccount, type Actor } from '../access/actor';
+import { roleIn } from '../access/permissions';
 import { audit } from './audit';
 import { certificateView, type CertificateView } from './certificate-views';
 import { ForbiddenError, NotFoundError } from './errors';
@@ -27,7 +28,7 @@ export function withdrawalReason(reason: string): string {
 export async function withdrawInTransaction(
 	database: Database,
 	certificate: Pick<CertificateAttributes, 'id'>,
-	context: { userId: string; groupId: string; reason: string; key: SigningKey },
+	context: { userId: string | null; groupId: string; reason: string; key: SigningKey },
 	transaction: Transaction
 ): Promise<void> {
 	const { userId, groupId, reason, key } = context;
@@ -45,15 +46,19 @@ export async function withdrawInTransaction(
 /** The group's lead or the certificate's issuer may withdraw it; the reason goes in the ledger. */
 export async function withdrawCertificate(
 	database: Database,
-	userId: string,
+	actor: Actor,
 	certificateId: string,
 	reason: string
 ): Promise<CertificateView> {
 	const { Certificate, Claim } = database.models;
 	const row = await Certificate.findByPk(certificateId);
 	const claim = row && (await Claim.findByPk(row.get('claimId') as string));
-	const role = claim && (await membershipsOf(database, userId)).get(claim.get('groupId') as string);
+	const role =
+		claim && isAccount(actor)
+			? await roleIn(database, actor, claim.get('groupId') as string)
+			: null;
 	if (!row || !claim || !role) throw new NotFoundError('No such certificate.');
+	const userId = accountIdOf(actor);
 	if (role !== 'lead' && row.get('issuedBy') !== userId)
 		throw new ForbiddenError('Only the group lead or the issuer may withdraw a certificate.');
 	const why = withdrawalReason(reason);

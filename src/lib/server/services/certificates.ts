@@ -17,7 +17,8 @@ import { certificatePaths, placeFiles, removeFiles } from './certificate-files';
 import { certificateRow, issueDetails } from './certificate-rows';
 import { certificateView, evidenceUrls, type CertificateView } from './certificate-views';
 import { queueCertificateNotice } from './claim-notices';
-import { requireVisibleClaim } from './claims';
+import { accountIdOf, type Actor } from '../access/actor';
+import { requireClaim } from '../access/permissions';
 import { datasetFilePath } from './datasets';
 import { NotFoundError } from './errors';
 import { newId } from './ids';
@@ -95,12 +96,12 @@ function evidenceInput(
 
 async function prepare(
 	database: Database,
-	userId: string,
+	actor: Actor,
 	claimId: string,
 	checkId: string,
 	key: SigningKey
 ) {
-	const claim = await requireVisibleClaim(database, userId, claimId);
+	const claim = await requireClaim(database, actor, claimId, 'issue-certificate');
 	const source = await finishedCheck(database, claimId, checkId);
 	const id = newId();
 	const supersedes = await currentCertificate(database, claimId);
@@ -151,12 +152,13 @@ async function store(
  */
 export async function issueCertificate(
 	database: Database,
-	userId: string,
+	actor: Actor,
 	claimId: string,
 	checkId: string
 ): Promise<CertificateView> {
 	const key = serviceKey();
-	const { claim, evidence, supersedes } = await prepare(database, userId, claimId, checkId, key);
+	const { claim, evidence, supersedes } = await prepare(database, actor, claimId, checkId, key);
+	const userId = accountIdOf(actor)!;
 	const paths = certificatePaths(evidence.manifest.certificateId);
 	let placed: string[] = [];
 	try {

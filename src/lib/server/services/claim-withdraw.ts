@@ -6,11 +6,12 @@
 import { Op } from 'sequelize';
 import type { Database } from '../db';
 import { serviceKey } from '../evidence/keys';
-import { membershipsOf } from './access';
+import { accountIdOf, isAccount, type Actor } from '../access/actor';
+import { requireClaim, roleIn } from '../access/permissions';
 import { audit } from './audit';
 import { WITHDRAW_REASON, withdrawInTransaction } from './certificate-withdraw';
 import { queueWithdrawalNotice } from './claim-notices';
-import { ConflictError, ForbiddenError, NotFoundError } from './errors';
+import { ConflictError, ForbiddenError } from './errors';
 import { FieldError } from './field-error';
 
 function reasonOf(reason: string): string {
@@ -26,20 +27,19 @@ function reasonOf(reason: string): string {
 /** A lead of the claim's group or the claim's author may withdraw it; returns the certificates withdrawn. */
 export async function withdrawClaim(
 	database: Database,
-	userId: string,
+	actor: Actor,
 	claimId: string,
 	reason: string
 ): Promise<{ withdrawnCertificates: string[] }> {
 	const { Certificate, Claim, User } = database.models;
-	const row = await Claim.findByPk(claimId);
-	const claim = row?.get({ plain: true });
-	const role = claim && (await membershipsOf(database, userId)).get(claim.groupId);
-	if (!claim || !role) throw new NotFoundError('No such claim.');
-	if (role !== 'lead' && claim.createdBy !== userId)
+	const claim = await requireClaim(database, actor, claimId, 'read');
+	const role = isAccount(actor) ? await roleIn(database, actor, claim.groupId) : null;
+	const userId = accountIdOf(actor);
+	if (!role || (role !== 'lead' && claim.createdBy !== userId))
 		throw new ForbiddenError('Only a lead of the group or the claim’s author may withdraw it.');
 	const why = reasonOf(reason);
 	const key = serviceKey();
-	const by = ((await User.findByPk(userId))?.get('name') as string | undefined) ?? 'A member';
+	const by = ((await User.findByPk(userId!))?.get('name') as string | undefined) ?? 'A member';
 	return database.sequelize.transaction(async (transaction) => {
 		// Read again inside the transaction: a second withdrawal meanwhile must not run twice.
 		const current = (await Claim.findByPk(claimId, { transaction }))!;

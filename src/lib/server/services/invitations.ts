@@ -3,6 +3,8 @@
  * (stored as SHA-256) works once within 7 days (see invitation-links.ts for the invitee's side).
  */
 import { Op } from 'sequelize';
+import { accountIdOf, type Actor } from '../access/actor';
+import { requireGroup } from '../access/permissions';
 import type { Database } from '../db';
 import type { GroupRole } from '../db/models/Membership';
 import { mailLink, type Mailer } from '../mail';
@@ -10,7 +12,7 @@ import { normaliseEmail } from './accounts';
 import { audit } from './audit';
 import { NotFoundError } from './errors';
 import { FieldError } from './field-error';
-import { GROUP_ROLES, requireGroupRole } from './groups';
+import { GROUP_ROLES } from './groups';
 import { newId, newSecret } from './ids';
 import { queueMail } from './mail-queue';
 
@@ -28,64 +30,67 @@ export interface InvitationView {
 export async function inviteMember(
 	database: Database,
 	mailer: Mailer,
-	actorId: string,
+	actor: Actor,
 	groupId: string,
 	input: { email: string; role: GroupRole }
 ): Promise<{ invitationId: string }> {
 	const email = normaliseEmail(input.email);
 	if (!GROUP_ROLES.includes(input.role)) throw new FieldError('role', 'Choose lead or author.');
 	const { Group, Invitation, Membership, User } = database.models;
-	const id = await database.sequelize.transaction(async (transaction) => {
-		await requireGroupRole(database, actorId, groupId, 'lead', transaction);
-		const existing = await User.findOne({ where: { email }, transaction });
-		if (
-			existing &&
-			(await Membership.findOne({
-				where: { groupId, userId: existing.get('id') as string },
+	const id = await database.sequelize.transaction(
+		async (transaction) => {
+			await requireGroup(database, actor, groupId, 'manage', transaction);
+			const actorId = accountIdOf(actor)!;
+			const existing = await User.findOne({ where: { email }, transaction });
+			if (
+				existing &&
+				(await Membership.findOne({
+					where: { groupId, userId: existing.get('id') as string },
+					transaction
+				}))
+			) {
+				throw new FieldError('email', 'This address already belongs to a member of the group.');
+			}
+			// A new invitation replaces any open one for the same address.
+			await Invitation.destroy({ where: { groupId, email, acceptedAt: null }, transaction });
+			const { token, hash } = newSecret();
+			const id = newId();
+			const expiresAt = new Date(Date.now() + INVITATION_TTL_MS);
+			await Invitation.create(
+				{ id, groupId, email, role: input.role, tokenHash: hash, invitedBy: actorId, expiresAt },
+				{ transaction }
+			);
+			const details = { email, role: input.role };
+			await audit(
+				database,
+				{
+					actorId,
+					groupId,
+					action: 'invitation.sent',
+					subjectType: 'invitation',
+					subjectId: id,
+					details
+				},
 				transaction
-			}))
-		) {
-			throw new FieldError('email', 'This address already belongs to a member of the group.');
+			);
+			const group = (await Group.findByPk(groupId, { transaction }))!.get('name') as string;
+			const inviter = (await User.findByPk(actorId, { transaction }))!.get('name') as string;
+			const link = mailLink(mailer, `/invite/${token}`);
+			const values = { inviter, group, email, role: input.role, link };
+			await queueMail(database, transaction, email, 'invitation', values);
+			return id;
 		}
-		// A new invitation replaces any open one for the same address.
-		await Invitation.destroy({ where: { groupId, email, acceptedAt: null }, transaction });
-		const { token, hash } = newSecret();
-		const id = newId();
-		const expiresAt = new Date(Date.now() + INVITATION_TTL_MS);
-		await Invitation.create(
-			{ id, groupId, email, role: input.role, tokenHash: hash, invitedBy: actorId, expiresAt },
-			{ transaction }
-		);
-		const details = { email, role: input.role };
-		await audit(
-			database,
-			{
-				actorId,
-				groupId,
-				action: 'invitation.sent',
-				subjectType: 'invitation',
-				subjectId: id,
-				details
-			},
-			transaction
-		);
-		const group = (await Group.findByPk(groupId, { transaction }))!.get('name') as string;
-		const inviter = (await User.findByPk(actorId, { transaction }))!.get('name') as string;
-		const link = mailLink(mailer, `/invite/${token}`);
-		const values = { inviter, group, email, role: input.role, link };
-		await queueMail(database, transaction, email, 'invitation', values);
-		return id;
-	});
+	);
 	return { invitationId: id };
 }
 
 /** Open (not accepted, not expired) invitations of a group; leads only. */
 export async function listInvitations(
 	database: Database,
-	actorId: string,
+	actor: Actor,
 	groupId: string
 ): Promise<InvitationView[]> {
-	await requireGroupRole(database, actorId, groupId, 'lead');
+	await requireGroup(database, actor, groupId, 'manage');
 	const { Invitation, User } = database.models;
 	const rows = await Invitation.findAll({
 		where: { groupId, acceptedAt: null, expiresAt: { [Op.gt]: new Date() } },
@@ -113,12 +118,13 @@ export async function listInvitations(
 
 export async function revokeInvitation(
 	database: Database,
-	actorId: string,
+	actor: Actor,
 	groupId: string,
 	invitationId: string
 ): Promise<void> {
 	await database.sequelize.transaction(async (transaction) => {
-		await requireGroupRole(database, actorId, groupId, 'lead', transaction);
+		await requireGroup(database, actor, groupId, 'manage', transaction);
+		const actorId = accountIdOf(actor);
 		const removed = await database.models.Invitation.destroy({
 			where: { id: invitationId, groupId, acceptedAt: null },
 			transaction

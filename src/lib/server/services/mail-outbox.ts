@@ -1,8 +1,9 @@
 /** The outbox for admins: every message Rankseal wrote, with its delivery status. */
 import { Op } from 'sequelize';
+import type { Actor } from '../access/actor';
+import { requireService } from '../access/permissions';
 import type { Database } from '../db';
 import type { OutboxMailAttributes, OutboxStatus } from '../db/models/OutboxMail';
-import { requireAdmin } from './account-roles';
 import { ConflictError, NotFoundError } from './errors';
 
 export interface OutboxItem {
@@ -48,11 +49,11 @@ function item(m: OutboxMailAttributes): OutboxItem {
 
 export async function listOutbox(
 	database: Database,
-	actorId: string,
+	actor: Actor,
 	page = 1,
 	status: OutboxStatus | null = null
 ): Promise<{ items: OutboxItem[]; total: number; page: number; pageSize: number }> {
-	await requireAdmin(database, actorId);
+	await requireService(database, actor, 'read-outbox');
 	const current = Math.max(1, Math.floor(page) || 1);
 	const { rows, count } = await database.models.OutboxMail.findAndCountAll({
 		attributes: { exclude: ['text', 'html'] },
@@ -71,11 +72,11 @@ export async function listOutbox(
  */
 export async function getOutboxMessage(
 	database: Database,
-	actorId: string,
+	actor: Actor,
 	id: string,
 	options: { revealSecretLinks: boolean } = { revealSecretLinks: true }
 ): Promise<OutboxMessage> {
-	await requireAdmin(database, actorId);
+	await requireService(database, actor, 'read-outbox');
 	const row = await database.models.OutboxMail.findByPk(id);
 	if (!row) throw new NotFoundError('No such message.');
 	const m = row.get({ plain: true });
@@ -88,10 +89,10 @@ export async function getOutboxMessage(
 /** Sends a given-up message again from the next pass of the sender. */
 export async function requeueOutboxMessage(
 	database: Database,
-	actorId: string,
+	actor: Actor,
 	id: string
 ): Promise<void> {
-	await requireAdmin(database, actorId);
+	await requireService(database, actor, 'read-outbox');
 	const [changed] = await database.models.OutboxMail.update(
 		{ status: 'retrying', nextAttemptAt: new Date() },
 		{ where: { id, status: { [Op.eq]: 'failed' } } }

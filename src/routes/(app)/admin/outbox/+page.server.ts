@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { app } from '$lib/server/app';
-import { requireUser, serviceProblem } from '$lib/server/auth-web';
+import { requireSignedIn } from '$lib/server/auth-web';
+import { pageProblem } from '$lib/server/problems';
 import { listOutbox } from '$lib/server/services/mail-outbox';
 import type { PageServerLoad } from './$types';
 
@@ -10,15 +11,10 @@ const statusFilter = z
 	.catch(null);
 
 export const load: PageServerLoad = async ({ locals, url }) => {
-	const user = requireUser(locals, url);
+	const actor = requireSignedIn(locals, url);
 	const { database, mailCatcher } = await app();
 	const status = statusFilter.parse(url.searchParams.get('status'));
 	const page = Number(url.searchParams.get('page') ?? '1');
-	try {
-		const outbox = await listOutbox(database, user.id, page, status);
-		return { outbox, status, catcherPort: mailCatcher?.port ?? null };
-	} catch (problem) {
-		serviceProblem(problem);
-		throw problem;
-	}
+	const outbox = await listOutbox(database, actor, page, status).catch(pageProblem);
+	return { outbox, status, catcherPort: mailCatcher?.port ?? null };
 };
