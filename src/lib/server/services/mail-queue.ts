@@ -5,7 +5,7 @@
  */
 import type { Transaction } from 'sequelize';
 import type { Database } from '../db';
-import { renderTemplate, type MailTemplate } from '../templates';
+import { renderTemplate, type MailTemplate, type RenderedMail } from '../templates';
 import { newId } from './ids';
 
 type Listener = () => void;
@@ -19,24 +19,21 @@ export function onMailQueued(listener: Listener): () => void {
 
 const notify = () => listeners.forEach((listener) => listener());
 
-/** Renders the template (text and HTML) and stores the message as queued; returns its id. */
-export async function queueMail(
+/** Stores an already rendered message as queued, in the event's transaction; returns its id. */
+export async function queueRendered(
 	database: Database,
 	transaction: Transaction,
 	to: string,
-	template: MailTemplate,
-	values: Record<string, string>
+	kind: string,
+	mail: RenderedMail
 ): Promise<string> {
-	const { subject, text, html } = renderTemplate(template, values);
 	const id = newId();
 	await database.models.OutboxMail.create(
 		{
 			id,
-			kind: template,
+			kind,
 			to,
-			subject,
-			text,
-			html,
+			...mail,
 			status: 'queued',
 			attempts: 0,
 			nextAttemptAt: new Date(),
@@ -48,3 +45,13 @@ export async function queueMail(
 	transaction.afterCommit(notify);
 	return id;
 }
+
+/** Renders the template (text and HTML) and queues it. */
+export const queueMail = (
+	database: Database,
+	transaction: Transaction,
+	to: string,
+	template: MailTemplate,
+	values: Record<string, string>
+): Promise<string> =>
+	queueRendered(database, transaction, to, template, renderTemplate(template, values));
