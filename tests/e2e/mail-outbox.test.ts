@@ -56,7 +56,7 @@ async function outboxShows(address: string, status: string): Promise<boolean> {
 	const deadline = Date.now() + 60_000;
 	while (Date.now() < deadline) {
 		const html = await (await asAdmin('/admin/outbox')).text();
-		const row = html.split('<tr').find((r) => r.includes(address));
+		const row = html.split('<li').find((r) => r.includes(address));
 		if (row?.includes(`data-status="${status}"`)) return true;
 		await new Promise((wait) => setTimeout(wait, 200));
 	}
@@ -83,7 +83,7 @@ describe('a mail server that takes a message and stalls', () => {
 		await received;
 		expect(accepted).toBe(0);
 		const html = await (await asAdmin('/admin/outbox')).text();
-		const row = html.split('<tr').find((r) => r.includes(email));
+		const row = html.split('<li').find((r) => r.includes(email));
 		expect(row, 'the message is listed').toBeTruthy();
 		expect(row).toContain('data-status="sending"');
 	});
