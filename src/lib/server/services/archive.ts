@@ -66,6 +66,22 @@ function claimWhere(groupId: string, filter: ArchiveFilter): WhereOptions {
 	return where;
 }
 
+type Row = { get(key: string): unknown };
+
+/** Each claim's newest dataset or finished check: the work a next version would certify. */
+function latestWorkOf(datasets: Row[], checks: Row[]) {
+	const latest = new Map<string, { at: Date; checkId: string | null }>();
+	const note = (claimId: string, at: Date, checkId: string | null) => {
+		const seen = latest.get(claimId);
+		if (!seen || at > seen.at)
+			latest.set(claimId, { at, checkId: checkId ?? seen?.checkId ?? null });
+	};
+	for (const d of datasets) note(d.get('claimId') as string, d.get('createdAt') as Date, null);
+	for (const c of checks)
+		note(c.get('claimId') as string, c.get('createdAt') as Date, c.get('id') as string);
+	return latest;
+}
+
 async function versionsOf(database: Database, claimIds: string[]) {
 	const { Certificate, Check, Dataset } = database.models;
 	const [certificates, checks, datasets] = await Promise.all([
@@ -81,35 +97,30 @@ async function versionsOf(database: Database, claimIds: string[]) {
 		const c = row.get({ plain: true });
 		const list = byClaim.get(c.claimId)!;
 		const manifest = JSON.parse(c.manifest) as { result: { certifiedSchmidtNumber: number } };
+		const { certifiedSchmidtNumber } = manifest.result;
+		const at = iso(c.issuedAt)!;
+		const version = list.length + 1;
 		list.push({
-			version: list.length + 1,
+			version,
 			certificateId: c.id,
 			fingerprint: c.fingerprint,
 			status: c.status,
-			at: iso(c.issuedAt)!,
+			at,
 			checkId: c.checkId,
-			certifiedSchmidtNumber: manifest.result.certifiedSchmidtNumber
+			certifiedSchmidtNumber
 		});
 	}
-	const latestWork = new Map<string, { at: Date; checkId: string | null }>();
-	const note = (claimId: string, at: Date, checkId: string | null) => {
-		const seen = latestWork.get(claimId);
-		if (!seen || at > seen.at)
-			latestWork.set(claimId, { at, checkId: checkId ?? seen?.checkId ?? null });
-	};
-	for (const d of datasets) note(d.get('claimId') as string, d.get('createdAt') as Date, null);
-	for (const c of checks)
-		note(c.get('claimId') as string, c.get('createdAt') as Date, c.get('id') as string);
+	const latest = latestWorkOf(datasets, checks);
 	for (const [claimId, list] of byClaim) {
-		const work = latestWork.get(claimId);
+		const work = latest.get(claimId);
 		const last = list.at(-1);
 		if (!last || !work || work.at <= new Date(last.at)) continue;
-		const fresh = { version: list.length + 1, certificateId: null, fingerprint: null };
-		const status = 'uncertified' as const;
+		const next = { version: list.length + 1, certificateId: null, fingerprint: null };
+		const at = iso(work.at)!;
 		list.push({
-			...fresh,
-			status,
-			at: iso(work.at)!,
+			...next,
+			status: 'uncertified',
+			at,
 			checkId: work.checkId,
 			certifiedSchmidtNumber: null
 		});
