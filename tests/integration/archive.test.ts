@@ -9,7 +9,7 @@ import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { archiveFilterSchema } from '../../src/lib/archive/schema';
 import { bundleVerifier } from '../../src/lib/server/evidence/verifier-file';
 import { groupArchive } from '../../src/lib/server/services/archive';
-import { archiveCsv, archiveJson } from '../../src/lib/server/services/archive-export';
+import { archiveCsv, archiveJson, csvField } from '../../src/lib/server/services/archive-export';
 import { lookupCertificate } from '../../src/lib/server/services/certificate-reads';
 import { issueCertificate } from '../../src/lib/server/services/certificates';
 import { withdrawClaim } from '../../src/lib/server/services/claim-withdraw';
@@ -139,6 +139,19 @@ describe('filters', () => {
 });
 
 describe('exports', () => {
+	it('quotes and defuses single fields', () => {
+		// RFC 4180 §2.6–2.7: fields with commas, quotes or line breaks are quoted, quotes doubled.
+		expect(csvField('a,b')).toBe('"a,b"');
+		expect(csvField('say "yes"')).toBe('"say ""yes"""');
+		expect(csvField('two\r\nlines')).toBe('"two\r\nlines"');
+		// OWASP CSV injection: =, +, -, @, tab and CR first get a leading apostrophe (common practice).
+		for (const text of ['=1+1', '+1', '-1', '@A1', '\tx', '\rx'])
+			expect(csvField(text).replace(/^"/, '').startsWith(`'`), JSON.stringify(text)).toBe(true);
+		expect(csvField(-1)).toBe('-1');
+		expect(csvField(null)).toBe('');
+		expect(csvField('plain')).toBe('plain');
+	});
+
 	it('writes CSV that parses back, one row per version, formulas defused', async () => {
 		const archive = await groupArchive(world.database, world.lead, filter({}));
 		const rows = parseCsv(archiveCsv(archive));
