@@ -20,7 +20,8 @@ describe('database', () => {
 			'0002-fourier-convention',
 			'0003-token-expiry',
 			'0004-dataset-summary',
-			'0005-certificates'
+			'0005-certificates',
+			'0007-outbox-archive'
 		]);
 	});
 

@@ -9,6 +9,7 @@ import { closeDb, db, type Database } from './db';
 import { catcherTransport, createMailer, type Mailer } from './mail';
 import { startMailCatcher, type MailCatcher } from './mail-catcher';
 import { abortCheckRunner, startCheckRunner } from './checks/runner';
+import { startMailRunner, type MailRunner } from './mail-runner';
 import { serviceKey } from './evidence/keys';
 import { sweepOrphanFiles } from './services/certificate-files';
 import { seedDemo } from './demo/seed';
@@ -19,17 +20,21 @@ export interface AppServices {
 	mailer: Mailer;
 	/** The local SMTP catcher, running only when no SMTP_URL is configured. */
 	mailCatcher: MailCatcher | null;
+	/** Delivers the outbox in the background. */
+	mailRunner: MailRunner;
 }
 
 let services: Promise<AppServices> | null = null;
 
 async function startMail(
 	database: Database
-): Promise<{ mailer: Mailer; mailCatcher: MailCatcher | null }> {
+): Promise<{ mailer: Mailer; mailCatcher: MailCatcher | null; mailRunner: MailRunner }> {
 	const { smtpUrl, mailFrom, origin, mailCatcherPort } = config();
 	const mailCatcher = smtpUrl ? null : await startMailCatcher(database, mailCatcherPort);
 	const transport = mailCatcher ? catcherTransport(mailCatcher.port) : smtpUrl;
-	return { mailer: createMailer({ transport, from: mailFrom, origin }), mailCatcher };
+	const mailer = createMailer({ transport, from: mailFrom, origin });
+	const mailRunner = await startMailRunner(database, mailer);
+	return { mailer, mailCatcher, mailRunner };
 }
 
 export function app(): Promise<AppServices> {
@@ -58,6 +63,7 @@ export async function stopApp(): Promise<void> {
 	if (!services) return;
 	const current = await services;
 	services = null;
+	await current.mailRunner.stop();
 	current.mailer.close();
 	await Promise.all([current.mailCatcher?.close(), abortCheckRunner(current.database)]);
 	await closeDb();

@@ -17,6 +17,7 @@ import { audit } from './audit';
 import { certificatePaths, placeFiles, removeFiles } from './certificate-files';
 import { certificateRow, issueDetails } from './certificate-rows';
 import { certificateView, evidenceUrls, type CertificateView } from './certificate-views';
+import { queueCertificateNotice } from './claim-notices';
 import { accountIdOf, type Actor } from '../access/actor';
 import { requireClaim } from '../access/permissions';
 import { datasetFilePath } from './datasets';
@@ -142,6 +143,7 @@ async function store(
 	const entry = { actorId: userId, groupId, subjectType: 'certificate', subjectId: id };
 	const action = 'certificate.issued';
 	await audit(database, { ...entry, action, details: { fingerprint, supersedes } }, transaction);
+	await queueCertificateNotice(database, row, transaction);
 	return row;
 }
 
