@@ -16,6 +16,8 @@ export type ClaimAction =
 	| 'read'
 	| 'read-datasets'
 	| 'add-dataset'
+	| 'remove-dataset'
+	| 'edit-claim'
 	| 'start-check'
 	| 'issue-certificate'
 	| 'file-report'
@@ -34,7 +36,16 @@ export type ServiceAction =
 
 /** What each kind of claim viewer may do once the claim is visible to them. */
 const CLAIM_RULES = {
-	member: ['read', 'read-datasets', 'add-dataset', 'start-check', 'issue-certificate', 'share'],
+	member: [
+		'read',
+		'read-datasets',
+		'add-dataset',
+		'remove-dataset',
+		'edit-claim',
+		'start-check',
+		'issue-certificate',
+		'share'
+	],
 	editor: ['read', 'read-datasets', 'review'],
 	// The counts are in the evidence bundle the referee downloads anyway.
 	referee: ['read', 'read-datasets', 'start-check', 'file-report']
@@ -44,6 +55,8 @@ const CLAIM_DENIALS: Record<ClaimAction, string> = {
 	read: 'You may not see this claim.',
 	'read-datasets': 'You may not see this claim’s counts files.',
 	'add-dataset': 'Only members of the claim’s group upload counts.',
+	'remove-dataset': 'Only members of the claim’s group take back counts files.',
+	'edit-claim': 'Only the claim’s author or a group lead may edit it.',
 	'start-check': 'Only members of the claim’s group start checks.',
 	'issue-certificate': 'Only members of the claim’s group issue certificates.',
 	'file-report': 'Only the referee holding a review link files a report.',
@@ -103,7 +116,7 @@ export async function sharedClaimIds(database: Database, actor: AccountActor): P
 export async function decideClaim(
 	database: Database,
 	actor: Actor,
-	claim: Pick<ClaimAttributes, 'id' | 'groupId'>,
+	claim: Pick<ClaimAttributes, 'id' | 'groupId' | 'createdBy'>,
 	action: ClaimAction,
 	transaction?: Transaction
 ): Promise<Decision> {
@@ -112,7 +125,12 @@ export async function decideClaim(
 	if (actor.kind === 'anonymous') return 'hidden';
 	if (actor.kind === 'referee')
 		return actor.claimId === claim.id ? allows(CLAIM_RULES.referee) : 'hidden';
-	if (await roleIn(database, actor, claim.groupId, transaction)) return allows(CLAIM_RULES.member);
+	const role = await roleIn(database, actor, claim.groupId, transaction);
+	if (role) {
+		// A claim is corrected by whoever wrote it, or by a lead of its group.
+		const mayCorrect = claim.createdBy === actor.userId || role === 'lead';
+		return action === 'edit-claim' && !mayCorrect ? 'denied' : allows(CLAIM_RULES.member);
+	}
 	if (actor.accountRole === 'editor' && (await sharedWith(database, actor, claim.id, transaction)))
 		return allows(CLAIM_RULES.editor);
 	return 'hidden';

@@ -8,6 +8,7 @@ import { InputError } from '../../certify';
 import { sha256Hex } from '../../evidence/hash';
 import { config } from '../config';
 import type { Database } from '../db';
+import { writeTransaction } from '../db/transactions';
 import type { ClaimAttributes } from '../db/models/Claim';
 import { makeEvidence, selfCheck, type Evidence, type EvidenceInput } from '../evidence/artifacts';
 import { publishedKeys, serviceKey } from '../evidence/keys';
@@ -16,6 +17,7 @@ import { audit } from './audit';
 import { certificatePaths, placeFiles, removeFiles } from './certificate-files';
 import { certificateRow, issueDetails } from './certificate-rows';
 import { certificateView, evidenceUrls, type CertificateView } from './certificate-views';
+import { queueCertificateNotice } from './claim-notices';
 import { accountIdOf, type Actor } from '../access/actor';
 import { requireClaim } from '../access/permissions';
 import { datasetFilePath } from './datasets';
@@ -141,6 +143,7 @@ async function store(
 	const entry = { actorId: userId, groupId, subjectType: 'certificate', subjectId: id };
 	const action = 'certificate.issued';
 	await audit(database, { ...entry, action, details: { fingerprint, supersedes } }, transaction);
+	await queueCertificateNotice(database, row, transaction);
 	return row;
 }
 
@@ -160,7 +163,7 @@ export async function issueCertificate(
 	const paths = certificatePaths(evidence.manifest.certificateId);
 	let placed: string[] = [];
 	try {
-		const row = await database.sequelize.transaction(async (transaction) => {
+		const row = await writeTransaction(database, async (transaction) => {
 			if ((await currentCertificate(database, claimId, transaction)) !== supersedes)
 				throw new IssueConflictError(
 					'Another certificate was issued for this claim meanwhile; try again.'

@@ -105,3 +105,17 @@ export async function listLedger(
 		pageSize: size
 	};
 }
+
+/** The ledger's withdraw event of a certificate: why and when; null while it stands. */
+export async function withdrawalOf(
+	database: Database,
+	certificateId: string
+): Promise<{ reason: string; at: string } | null> {
+	const row = await database.models.LedgerEntry.findOne({
+		where: { certificateId, event: 'withdraw' },
+		order: [['seq', 'ASC']]
+	});
+	if (!row) return null;
+	const payload = JSON.parse(row.get('payload') as string) as LedgerPayload;
+	return { reason: payload.details.reason ?? '', at: payload.at };
+}

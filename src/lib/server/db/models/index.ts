@@ -12,6 +12,7 @@ import { defineInvitation } from './Invitation';
 import { defineLedgerEntry } from './LedgerEntry';
 import { defineMailMessage } from './MailMessage';
 import { defineMembership } from './Membership';
+import { defineOutboxMail } from './OutboxMail';
 import { defineReport } from './Report';
 import { defineReviewLink } from './ReviewLink';
 import { defineSession } from './Session';
@@ -34,6 +35,7 @@ export function defineModels(sequelize: Sequelize) {
 		MailMessage: defineMailMessage(sequelize),
 		Certificate: defineCertificate(sequelize),
 		LedgerEntry: defineLedgerEntry(sequelize),
+		OutboxMail: defineOutboxMail(sequelize),
 		Share: defineShare(sequelize),
 		ReviewLink: defineReviewLink(sequelize),
 		Report: defineReport(sequelize)
