@@ -1,5 +1,6 @@
 // See https://svelte.dev/docs/kit/types#app.d.ts
 import type { Session, User } from 'lucia';
+import type { Actor } from '$lib/server/access/actor';
 
 declare global {
 	namespace App {
@@ -7,6 +8,9 @@ declare global {
 			code?: string;
 		}
 		interface Locals {
+			/** Who is asking; services take this. */
+			actor: Actor;
+			/** The signed-in user, for display and signing out only (null for token callers). */
 			user: User | null;
 			session: Session | null;
 		}

@@ -2,14 +2,19 @@ import type { Handle, ServerInit } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
 import { app } from '$lib/server/app';
 import { formOriginCheck } from '$lib/server/api';
+import { ANONYMOUS } from '$lib/server/access/actor';
 import { authenticate } from '$lib/server/services/tokens';
 
-/** Reads the session cookie, renews it when lucia says so, and sets locals.user / locals.session. */
+/**
+ * Reads the session cookie, renews it when lucia says so, and resolves the caller: locals.actor,
+ * with locals.user / locals.session kept for the pages' display and for signing out.
+ */
 const session: Handle = async ({ event, resolve }) => {
 	const { lucia } = await app();
 	const sessionId = event.cookies.get(lucia.sessionCookieName);
 	event.locals.user = null;
 	event.locals.session = null;
+	event.locals.actor = ANONYMOUS;
 	if (sessionId) {
 		const { session, user } = await lucia.validateSession(sessionId);
 		if (session?.fresh) {
@@ -22,20 +27,25 @@ const session: Handle = async ({ event, resolve }) => {
 		}
 		event.locals.user = user;
 		event.locals.session = session;
+		if (user) {
+			const { id: userId, accountRole, emailVerified } = user;
+			event.locals.actor = { kind: 'user', userId, accountRole, emailVerified };
+		}
 	}
 	return resolve(event);
 };
 
 /**
- * For /api/ requests with `Authorization: Bearer <token>`: the token's user, or nobody for an
- * unknown or revoked token (a bad token is refused even when a session cookie comes along).
+ * For /api/ requests with `Authorization: Bearer <token>`: the token as the caller, or nobody for
+ * an unknown, expired or revoked token (refused even when a session cookie comes along).
  */
 const bearer: Handle = async ({ event, resolve }) => {
 	const header = event.request.headers.get('authorization');
 	const token = header?.match(/^Bearer\s+(\S+)\s*$/i)?.[1];
 	if (event.url.pathname.startsWith('/api/') && header) {
 		const { database } = await app();
-		event.locals.user = token ? await authenticate(database, token) : null;
+		event.locals.actor = (token && (await authenticate(database, token))) || ANONYMOUS;
+		event.locals.user = null;
 		event.locals.session = null;
 	}
 	return resolve(event);

@@ -11,8 +11,8 @@ import { newId, newSecret } from '../../src/lib/server/services/ids';
 
 export interface ApiWorld {
 	dataDir: string;
-	/** Bearer tokens of the two leads; `revoked` belongs to the first and no longer works. */
-	tokens: { lake: string; ridge: string; revoked: string };
+	/** Bearer tokens of the two leads; `revoked` and `expired` belong to the first and no longer work. */
+	tokens: { lake: string; ridge: string; revoked: string; expired: string };
 	/** A session cookie value of the first lead. */
 	session: string;
 }
@@ -37,7 +37,7 @@ export async function seedApiWorld(): Promise<ApiWorld> {
 		await Membership.create({ id: newId(), groupId, userId, role: 'lead' });
 		return userId;
 	};
-	const token = async (userId: string, revoked = false) => {
+	const token = async (userId: string, revoked = false, expiresAt: Date | null = null) => {
 		const { token, hash } = newSecret('rks_');
 		await ApiToken.create({
 			id: newId(),
@@ -45,7 +45,8 @@ export async function seedApiWorld(): Promise<ApiWorld> {
 			name: 'api test',
 			prefix: token.slice(0, 12),
 			tokenHash: hash,
-			revokedAt: revoked ? new Date() : null
+			revokedAt: revoked ? new Date() : null,
+			expiresAt
 		});
 		return token;
 	};
@@ -56,7 +57,8 @@ export async function seedApiWorld(): Promise<ApiWorld> {
 	const tokens = {
 		lake: await token(ada),
 		ridge: await token(cyd),
-		revoked: await token(ada, true)
+		revoked: await token(ada, true),
+		expired: await token(ada, false, new Date(Date.now() - 1000))
 	};
 	await database.sequelize.close();
 	return { dataDir, tokens, session };

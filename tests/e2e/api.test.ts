@@ -50,8 +50,8 @@ afterAll(async () => {
 });
 
 describe('API v1', () => {
-	it('answers 401 in the error shape without credentials or with a revoked token', async () => {
-		for (const token of [null, world.tokens.revoked, 'rks_made_up']) {
+	it('answers 401 in the error shape without credentials or with a revoked or expired token', async () => {
+		for (const token of [null, world.tokens.revoked, world.tokens.expired, 'rks_made_up']) {
 			const response = await call('/api/v1/claims', { token });
 			expect(response.status).toBe(401);
 			expect((await response.json()).error.code).toBe('unauthorised');
@@ -78,7 +78,7 @@ describe('API v1', () => {
 		});
 		expect(bad.status).toBe(400);
 		const { error } = await bad.json();
-		expect(error.code).toBe('bad_request');
+		expect(error.code).toBe('bad_input');
 		expect(error.message).toMatch(/title: .*claimedSchmidtNumber: .*bases: Basis 9 does not exist/);
 	});
 

@@ -189,7 +189,7 @@ describe('the main flow in Chromium', () => {
 		]) {
 			const response = await get(`${app.origin}${api}`);
 			expect(response.status, api).toBe(404);
-			expect((await response.json()).error.code).toBeTruthy();
+			expect((await response.json()).error.code).toBe('not_found');
 		}
 		expect((await (await get(`${app.origin}/api/v1/claims`)).json()).items).toEqual([]);
 		// The same outsider does reach pages of their own, so the 404s are not a broken session.

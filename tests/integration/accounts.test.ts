@@ -11,6 +11,8 @@ import {
 } from '../../src/lib/server/services/accounts';
 import { FieldError } from '../../src/lib/server/services/field-error';
 import { hashSecret } from '../../src/lib/server/services/ids';
+import { authenticate, createToken, listTokens } from '../../src/lib/server/services/tokens';
+import { asUser } from './actors';
 import { linkToken, mailTo, mailWorld, type MailWorld } from './mail-world';
 
 const PASSWORD = 'lantern-fjord-quartz';
@@ -92,11 +94,11 @@ describe('accounts', () => {
 		expect(await verifyEmail(world.database, first)).toEqual({ ok: false, reason: 'expired' });
 		expect((await user('tor@fjordlight.test')).emailVerifiedAt).toBeNull();
 
-		expect(await resendVerification(world.database, world.mailer, userId)).toBe(true);
+		expect(await resendVerification(world.database, world.mailer, asUser(userId))).toBe(true);
 		const second = await linkToken(world, 'tor@fjordlight.test', '/verify/');
 		expect(second).not.toBe(first);
 		expect(await verifyEmail(world.database, second)).toEqual({ ok: true, userId });
-		expect(await resendVerification(world.database, world.mailer, userId)).toBe(false);
+		expect(await resendVerification(world.database, world.mailer, asUser(userId))).toBe(false);
 	});
 
 	it('signs in with the right password only; an unknown address looks the same', async () => {
@@ -110,7 +112,13 @@ describe('accounts', () => {
 		expect(await signIn(world.database, 'nobody@fjordlight.test', PASSWORD)).toBeNull();
 	});
 
-	it('resets a password by a one-hour, single-use link and ends every session', async () => {
+	/** An editor's API token (editors issue tokens without belonging to a group). */
+	async function editorToken(userId: string): Promise<string> {
+		await world.database.models.User.update({ accountRole: 'editor' }, { where: { id: userId } });
+		return (await createToken(world.database, asUser(userId, 'editor'), { name: 'script' })).token;
+	}
+
+	it('resets a password by a one-hour, single-use link and ends every session and token', async () => {
 		const { userId } = await signUp(world.database, world.mailer, {
 			email: 'eirik@fjordlight.test',
 			name: 'Eirik Moen',
@@ -118,6 +126,8 @@ describe('accounts', () => {
 		});
 		const laptop = await world.lucia.createSession(userId, {});
 		const phone = await world.lucia.createSession(userId, {});
+		const script = await editorToken(userId);
+		expect(await authenticate(world.database, script)).toMatchObject({ kind: 'token', userId });
 
 		await requestPasswordReset(world.database, world.mailer, ' EIRIK@fjordlight.test');
 		const token = await linkToken(world, 'eirik@fjordlight.test', '/reset/');
@@ -137,6 +147,8 @@ describe('accounts', () => {
 		).toEqual({ ok: true, userId });
 		expect((await world.lucia.validateSession(laptop.id)).session).toBeNull();
 		expect((await world.lucia.validateSession(phone.id)).session).toBeNull();
+		// The mail says every session ended: a script's token is one of them.
+		expect(await authenticate(world.database, script)).toBeNull();
 		expect(await signIn(world.database, 'eirik@fjordlight.test', PASSWORD)).toBeNull();
 		expect(await signIn(world.database, 'eirik@fjordlight.test', newPassword)).toEqual({ userId });
 		expect(
@@ -171,7 +183,7 @@ describe('accounts', () => {
 		expect(await world.database.models.MailMessage.count()).toBe(before);
 	});
 
-	it('signs out everywhere', async () => {
+	it('signs out everywhere, API tokens included', async () => {
 		const { userId } = await signUp(world.database, world.mailer, {
 			email: 'kai@fjordlight.test',
 			name: 'Kai Rud',
@@ -181,8 +193,12 @@ describe('accounts', () => {
 			world.lucia.createSession(userId, {}),
 			world.lucia.createSession(userId, {})
 		]);
-		await signOutEverywhere(world.lucia, userId);
+		const script = await editorToken(userId);
+		await signOutEverywhere(world.database, world.lucia, asUser(userId, 'editor'));
 		for (const s of sessions) expect((await world.lucia.validateSession(s.id)).session).toBeNull();
+		expect(await authenticate(world.database, script)).toBeNull();
+		const [token] = await listTokens(world.database, asUser(userId, 'editor'));
+		expect(token.revokedAt).not.toBeNull();
 	});
 });
 

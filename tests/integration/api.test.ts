@@ -10,6 +10,7 @@ import {
 	readCountsUpload,
 	readJson
 } from '../../src/lib/server/api';
+import { ANONYMOUS } from '../../src/lib/server/access/actor';
 
 const url = new URL('http://127.0.0.1:3000/api/v1/claims/c1/datasets');
 const post = (body: BodyInit, headers: Record<string, string> = {}) =>
@@ -43,9 +44,11 @@ describe('reading a counts upload', () => {
 	it('answers 400 without the field, 415 for other types and 413 above the limit', async () => {
 		const form = new FormData();
 		form.set('other', 'x');
+		// No file at all is a missing field, not a bad counts file.
 		expect(await failure(readCountsUpload(post(form), url))).toMatchObject({
 			status: 400,
-			code: 'bad_counts'
+			code: 'bad_input',
+			field: 'counts'
 		});
 		expect(
 			await failure(readCountsUpload(post('<a/>', { 'content-type': 'application/xml' }), url))
@@ -69,14 +72,14 @@ describe('JSON bodies and sign-in', () => {
 		expect(await readJson(post(''), schema)).toEqual({});
 		expect(await failure(readJson(post('{seed:'), schema))).toMatchObject({
 			status: 400,
-			code: 'bad_json'
+			code: 'bad_input'
 		});
 	});
 
 	it('answers 401 in the error shape when nobody is signed in', async () => {
 		const handler = apiEndpoint(async () => new Response('never'));
 		const response = await handler({
-			locals: { user: null, session: null }
+			locals: { actor: ANONYMOUS, user: null, session: null }
 		} as unknown as RequestEvent);
 		expect(response.status).toBe(401);
 		expect(await response.json()).toEqual({

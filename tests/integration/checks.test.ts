@@ -14,9 +14,10 @@ import {
 } from '../../src/lib/server/services/checks';
 import { createClaim, getClaim } from '../../src/lib/server/services/claims';
 import { addDataset, datasetFilePath } from '../../src/lib/server/services/datasets';
-import { NotFoundError } from '../../src/lib/server/services/errors';
+import { ConflictError, NotFoundError } from '../../src/lib/server/services/errors';
 import { newId } from '../../src/lib/server/services/ids';
 import { addGroup, addUser, bytesOf, claimFields, countsCsv } from './backend-fixtures';
+import { asUser } from './actors';
 import { temporaryDatabase } from './db';
 
 let ctx: Awaited<ReturnType<typeof temporaryDatabase>>;
@@ -34,7 +35,7 @@ const slowCsv = countsCsv(7, [0, 1], 100_000, 5)
 async function follow(userId: string, id: string) {
 	const seen: { status: string; progress: number }[] = [];
 	for (let i = 0; i < 3000; i++) {
-		const check = (await getCheck(ctx.database, userId, id))!;
+		const check = (await getCheck(ctx.database, asUser(userId), id))!;
 		seen.push({ status: check.status, progress: check.progress });
 		if (check.status === 'done' || check.status === 'failed') return { check, seen };
 		await new Promise((wait) => setTimeout(wait, 10));
@@ -55,10 +56,14 @@ beforeAll(async () => {
 	ada = await addUser(ctx.database, 'Ada Lind', [[lake, 'author']]);
 	cyd = await addUser(ctx.database, 'Cyd Marsh', [[ridge, 'lead']]);
 	claimId = (
-		await createClaim(ctx.database, ada, { ...claimFields, dimension: 7, claimedSchmidtNumber: 4 })
+		await createClaim(ctx.database, asUser(ada), {
+			...claimFields,
+			dimension: 7,
+			claimedSchmidtNumber: 4
+		})
 	).id;
 	datasetId = (
-		await addDataset(ctx.database, ada, claimId, {
+		await addDataset(ctx.database, asUser(ada), claimId, {
 			bytes: bytesOf(slowCsv),
 			originalName: 'slow.csv'
 		})
@@ -72,7 +77,10 @@ afterAll(async () => {
 
 describe('check runner', () => {
 	it('runs a check queued → running → done, progress reaching 1, with the engine’s exact result', async () => {
-		const queued = await startCheck(ctx.database, ada, claimId, { resamples: 100_000, seed: 42 });
+		const queued = await startCheck(ctx.database, asUser(ada), claimId, {
+			resamples: 100_000,
+			seed: 42
+		});
 		expect(queued).toMatchObject({
 			status: 'queued',
 			progress: 0,
@@ -102,8 +110,8 @@ describe('check runner', () => {
 		});
 		expect(check.result).toEqual(JSON.parse(JSON.stringify(direct)));
 		expect(check.result!.inputSha256).toBe(sha256);
-		expect((await getClaim(ctx.database, ada, claimId))?.state).toBe('checked');
-		expect((await getClaim(ctx.database, ada, claimId))?.latestCheck).toEqual({
+		expect((await getClaim(ctx.database, asUser(ada), claimId))?.state).toBe('checked');
+		expect((await getClaim(ctx.database, asUser(ada), claimId))?.latestCheck).toEqual({
 			id: check.id,
 			status: 'done',
 			certifiedSchmidtNumber: direct.certifiedSchmidtNumber,
@@ -121,8 +129,8 @@ describe('check runner', () => {
 		}, 5);
 		const started = performance.now();
 		const [a, b] = await Promise.all([
-			startCheck(ctx.database, ada, claimId, { resamples: 150_000, seed: 1 }),
-			startCheck(ctx.database, ada, claimId, { resamples: 150_000, seed: 2 })
+			startCheck(ctx.database, asUser(ada), claimId, { resamples: 150_000, seed: 1 }),
+			startCheck(ctx.database, asUser(ada), claimId, { resamples: 150_000, seed: 2 })
 		]);
 		const [ra, rb] = await Promise.all([follow(ada, a.id), follow(ada, b.id)]);
 		clearInterval(ticker);
@@ -138,12 +146,12 @@ describe('check runner', () => {
 
 	it('records a failure in words when the stored file has gone', async () => {
 		const other = countsCsv(7, [0, 1], 20_000, 77);
-		const dataset = await addDataset(ctx.database, ada, claimId, {
+		const dataset = await addDataset(ctx.database, asUser(ada), claimId, {
 			bytes: bytesOf(other),
 			originalName: 'gone.csv'
 		});
 		rmSync(datasetFilePath(dataset.sha256));
-		const queued = await startCheck(ctx.database, ada, claimId, {
+		const queued = await startCheck(ctx.database, asUser(ada), claimId, {
 			datasetId: dataset.id,
 			resamples: 1000
 		});
@@ -170,7 +178,7 @@ describe('check runner', () => {
 		});
 		const runner = await startCheckRunner(ctx.database);
 		await runner.idle();
-		const check = (await getCheck(ctx.database, ada, id)) as CheckView;
+		const check = (await getCheck(ctx.database, asUser(ada), id)) as CheckView;
 		expect(check).toMatchObject({ status: 'done', progress: 1 });
 		expect(check.result!.seed).toBe(3);
 	});
@@ -182,7 +190,7 @@ describe('check runner', () => {
 		writeFileSync(broken, "throw new Error('no engine here');\nexport default () => null;\n");
 		process.env.RANKSEAL_CHECK_WORKER = broken;
 		try {
-			const queued = await startCheck(ctx.database, ada, claimId, { resamples: 1000 });
+			const queued = await startCheck(ctx.database, asUser(ada), claimId, { resamples: 1000 });
 			const { check } = await follow(ada, queued.id);
 			expect(check).toMatchObject({
 				status: 'failed',
@@ -195,15 +203,31 @@ describe('check runner', () => {
 	});
 
 	it('checks settings and hides checks of another group', async () => {
-		await expect(startCheck(ctx.database, ada, claimId, { resamples: 5 })).rejects.toThrow(
+		await expect(startCheck(ctx.database, asUser(ada), claimId, { resamples: 5 })).rejects.toThrow(
 			/Resamples must be at least 100/
 		);
 		await expect(
-			startCheck(ctx.database, ada, claimId, { datasetId: 'nope' })
+			startCheck(ctx.database, asUser(ada), claimId, { datasetId: 'nope' })
 		).rejects.toBeInstanceOf(NotFoundError);
-		await expect(startCheck(ctx.database, cyd, claimId)).rejects.toBeInstanceOf(NotFoundError);
-		await expect(listChecks(ctx.database, cyd, claimId)).rejects.toBeInstanceOf(NotFoundError);
-		const [newest] = await listChecks(ctx.database, ada, claimId);
-		expect(await getCheck(ctx.database, cyd, newest.id)).toBeNull();
+		await expect(startCheck(ctx.database, asUser(cyd), claimId)).rejects.toBeInstanceOf(
+			NotFoundError
+		);
+		await expect(listChecks(ctx.database, asUser(cyd), claimId)).rejects.toBeInstanceOf(
+			NotFoundError
+		);
+		const [newest] = await listChecks(ctx.database, asUser(ada), claimId);
+		await expect(getCheck(ctx.database, asUser(cyd), newest.id)).rejects.toBeInstanceOf(
+			NotFoundError
+		);
+	});
+
+	it('answers a conflict, not bad input, for a claim without counts', async () => {
+		const bare = await createClaim(ctx.database, asUser(ada), {
+			...claimFields,
+			title: 'No counts'
+		});
+		const attempt = startCheck(ctx.database, asUser(ada), bare.id);
+		await expect(attempt).rejects.toBeInstanceOf(ConflictError);
+		await expect(attempt).rejects.toThrow(/no counts file yet/);
 	});
 });

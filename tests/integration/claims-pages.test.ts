@@ -25,6 +25,11 @@ function user(id: string, emailVerified = true) {
 	return { id, email: `${id}@example.test`, name: id, accountRole: 'researcher', emailVerified };
 }
 
+const actor = (userId: string | null) =>
+	userId
+		? { kind: 'user', userId, accountRole: 'researcher', emailVerified: userId !== unverified }
+		: { kind: 'anonymous' };
+
 function post(url: string, fields: Record<string, string | File>) {
 	const form = new FormData();
 	for (const [key, value] of Object.entries(fields)) form.set(key, value);
@@ -42,7 +47,11 @@ async function outcome(run: () => unknown): Promise<unknown> {
 
 // The handlers only read these fields of the request event.
 function event(userId: string | null, url: string, extra: Record<string, unknown> = {}) {
-	const locals = { user: userId ? user(userId, userId !== unverified) : null, session: null };
+	const locals = {
+		actor: actor(userId),
+		user: userId ? user(userId, userId !== unverified) : null,
+		session: null
+	};
 	return { locals, url: new URL(url), params: {}, ...extra } as never;
 }
 
@@ -130,9 +139,15 @@ describe('claim page', () => {
 		const bad = 'basis,outcome_a,outcome_b,counts\n0,0,0,10\n0,0,x,3\n';
 		const result = await outcome(() => upload('bad.csv', bad));
 		expect(isActionFailure(result)).toBe(true);
-		const { data } = result as { data: { uploadError: Record<string, unknown> } };
-		expect(data.uploadError).toMatchObject({ line: 3, column: 3, fileName: 'bad.csv' });
-		expect(data.uploadError.message).not.toMatch(/^line/);
+		const { data } = result as {
+			data: { action: string; errors: Record<string, string>; values: Record<string, string> };
+		};
+		expect(data).toMatchObject({
+			action: 'upload',
+			place: { line: 3, column: 3 },
+			values: { counts: 'bad.csv' }
+		});
+		expect(data.errors.counts).toMatch(/^line 3, column 3: /);
 		const page = (await claimPage.load(event(ada, at(), { params: { id: claimId } }))) as {
 			datasets: unknown[];
 		};
@@ -163,9 +178,9 @@ describe('claim page', () => {
 			claimPage.actions.check(event(ada, at('?/check'), { params: { id: claimId }, request }))
 		);
 		expect(isActionFailure(result) && result.status).toBe(400);
-		expect(
-			(result as { data: { checkErrors: Record<string, string> } }).data.checkErrors.resamples
-		).toMatch(/at least 100/);
+		expect((result as { data: { errors: Record<string, string> } }).data.errors.resamples).toMatch(
+			/at least 100/
+		);
 	});
 
 	it('is not found for someone outside the group, in the load and in the actions', async () => {

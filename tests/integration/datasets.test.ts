@@ -12,6 +12,7 @@ import {
 } from '../../src/lib/server/services/datasets';
 import { NotFoundError } from '../../src/lib/server/services/errors';
 import { addGroup, addUser, bytesOf, claimFields, countsCsv } from './backend-fixtures';
+import { asUser } from './actors';
 import { temporaryDatabase } from './db';
 
 let ctx: Awaited<ReturnType<typeof temporaryDatabase>>;
@@ -34,13 +35,13 @@ beforeAll(async () => {
 	const ridge = await addGroup(ctx.database, 'Ridge qudits');
 	ada = await addUser(ctx.database, 'Ada Lind', [[lake, 'author']]);
 	cyd = await addUser(ctx.database, 'Cyd Marsh', [[ridge, 'lead']]);
-	claimId = (await createClaim(ctx.database, ada, claimFields)).id;
+	claimId = (await createClaim(ctx.database, asUser(ada), claimFields)).id;
 });
 afterAll(async () => ctx.close());
 
 describe('datasets service', () => {
 	it('stores a good CSV under its SHA-256 with a summary of what it holds', async () => {
-		const dataset = await addDataset(ctx.database, ada, claimId, {
+		const dataset = await addDataset(ctx.database, asUser(ada), claimId, {
 			bytes: bytesOf(csv),
 			originalName: 'run3.csv'
 		});
@@ -75,12 +76,12 @@ describe('datasets service', () => {
 
 	it('keeps identical bytes once on disk, with a row per upload', async () => {
 		const before = storedFiles().length;
-		const again = await addDataset(ctx.database, ada, claimId, {
+		const again = await addDataset(ctx.database, asUser(ada), claimId, {
 			bytes: bytesOf(csv),
 			originalName: 'copy.csv'
 		});
 		expect(storedFiles().length).toBe(before);
-		const all = await listDatasets(ctx.database, ada, claimId);
+		const all = await listDatasets(ctx.database, asUser(ada), claimId);
 		expect(all.map((d) => d.originalName)).toEqual(['copy.csv', 'run3.csv']);
 		expect(new Set(all.map((d) => d.sha256))).toEqual(new Set([again.sha256]));
 	});
@@ -94,7 +95,7 @@ describe('datasets service', () => {
 			)
 		});
 		const json = JSON.stringify({ dimension: d, tables: [table(0), table(1), table(2)] });
-		const dataset = await addDataset(ctx.database, ada, claimId, {
+		const dataset = await addDataset(ctx.database, asUser(ada), claimId, {
 			bytes: bytesOf(json),
 			originalName: 'tables.json'
 		});
@@ -110,7 +111,7 @@ describe('datasets service', () => {
 		const rowsBefore = await ctx.database.models.Dataset.count();
 		const filesBefore = storedFiles().length;
 		const bad = csv.replace(/\n0,0,2,(\d+)\n/, '\n0,0,2,lots\n');
-		const error = await addDataset(ctx.database, ada, claimId, {
+		const error = await addDataset(ctx.database, asUser(ada), claimId, {
 			bytes: bytesOf(bad),
 			originalName: 'bad.csv'
 		}).catch((e) => e);
@@ -119,10 +120,13 @@ describe('datasets service', () => {
 		expect(error.message).toMatch(/^line 5, column 4: counts must be a non-negative whole number/);
 		const smaller = countsCsv(3);
 		await expect(
-			addDataset(ctx.database, ada, claimId, { bytes: bytesOf(smaller), originalName: 'd3.csv' })
+			addDataset(ctx.database, asUser(ada), claimId, {
+				bytes: bytesOf(smaller),
+				originalName: 'd3.csv'
+			})
 		).rejects.toThrow(/basis 0 is incomplete: no row for outcome_a=0, outcome_b=3/);
 		await expect(
-			addDataset(ctx.database, ada, claimId, {
+			addDataset(ctx.database, asUser(ada), claimId, {
 				bytes: new Uint8Array(0),
 				originalName: 'empty.csv'
 			})
@@ -134,7 +138,7 @@ describe('datasets service', () => {
 	it('rejects a file that lacks a basis the claim uses', async () => {
 		const onlyComputational = countsCsv(5, [0]);
 		await expect(
-			addDataset(ctx.database, ada, claimId, {
+			addDataset(ctx.database, asUser(ada), claimId, {
 				bytes: bytesOf(onlyComputational),
 				originalName: 'z.csv'
 			})
@@ -148,7 +152,10 @@ describe('datasets service', () => {
 		await ctx.database.sequelize.query('ALTER TABLE audit_events RENAME TO audit_events_away');
 		try {
 			await expect(
-				addDataset(ctx.database, ada, claimId, { bytes: bytesOf(fresh), originalName: 'x.csv' })
+				addDataset(ctx.database, asUser(ada), claimId, {
+					bytes: bytesOf(fresh),
+					originalName: 'x.csv'
+				})
 			).rejects.toThrow();
 		} finally {
 			await ctx.database.sequelize.query('ALTER TABLE audit_events_away RENAME TO audit_events');
@@ -158,19 +165,25 @@ describe('datasets service', () => {
 	});
 
 	it('hides datasets of another group’s claim', async () => {
-		const [dataset] = await listDatasets(ctx.database, ada, claimId);
+		const [dataset] = await listDatasets(ctx.database, asUser(ada), claimId);
 		await expect(
-			addDataset(ctx.database, cyd, claimId, { bytes: bytesOf(csv), originalName: 'x.csv' })
+			addDataset(ctx.database, asUser(cyd), claimId, { bytes: bytesOf(csv), originalName: 'x.csv' })
 		).rejects.toBeInstanceOf(NotFoundError);
-		await expect(listDatasets(ctx.database, cyd, claimId)).rejects.toBeInstanceOf(NotFoundError);
-		expect(await getDataset(ctx.database, cyd, dataset.id)).toBeNull();
-		expect(await datasetTables(ctx.database, cyd, dataset.id)).toBeNull();
-		expect((await getDataset(ctx.database, ada, dataset.id))?.id).toBe(dataset.id);
+		await expect(listDatasets(ctx.database, asUser(cyd), claimId)).rejects.toBeInstanceOf(
+			NotFoundError
+		);
+		await expect(getDataset(ctx.database, asUser(cyd), dataset.id)).rejects.toBeInstanceOf(
+			NotFoundError
+		);
+		await expect(datasetTables(ctx.database, asUser(cyd), dataset.id)).rejects.toBeInstanceOf(
+			NotFoundError
+		);
+		expect((await getDataset(ctx.database, asUser(ada), dataset.id))?.id).toBe(dataset.id);
 	});
 
 	it('gives the d×d tables per basis for heat maps', async () => {
-		const [dataset] = await listDatasets(ctx.database, ada, claimId);
-		const tables = (await datasetTables(ctx.database, ada, dataset.id))!;
+		const [dataset] = await listDatasets(ctx.database, asUser(ada), claimId);
+		const tables = (await datasetTables(ctx.database, asUser(ada), dataset.id))!;
 		expect(tables.dimension).toBe(5);
 		expect(tables.tables[0].counts).toHaveLength(5);
 		expect(tables.tables[0].counts[0]).toHaveLength(5);

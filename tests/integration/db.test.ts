@@ -1,5 +1,6 @@
 import { QueryTypes } from 'sequelize';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { migrations } from '../../src/lib/server/db/migrations';
 import { temporaryDatabase } from './db';
 
 describe('database', () => {
@@ -11,12 +12,14 @@ describe('database', () => {
 		const select = (sql: string) => ctx.database.sequelize.query(sql, { type: QueryTypes.SELECT });
 		expect(await select('PRAGMA journal_mode;')).toEqual([{ journal_mode: 'wal' }]);
 		expect(await select('PRAGMA foreign_keys;')).toEqual([{ foreign_keys: 1 }]);
-		const applied = await select('SELECT name FROM schema_migrations');
-		expect(applied).toEqual(
+		const applied = await select('SELECT name FROM schema_migrations ORDER BY name');
+		expect(applied).toEqual(migrations.map(({ name }) => ({ name })));
+		expect(migrations.map((m) => m.name)).toEqual(
 			expect.arrayContaining([
-				{ name: '0001-initial' },
-				{ name: '0002-fourier-convention' },
-				{ name: '0005-certificates' }
+				'0001-initial',
+				'0002-fourier-convention',
+				'0003-token-expiry',
+				'0005-certificates'
 			])
 		);
 	});

@@ -11,6 +11,7 @@ import { listClaims } from '../../src/lib/server/services/claims';
 import { authenticate } from '../../src/lib/server/services/tokens';
 import { demoTokenFile, seedDemo } from '../../src/lib/server/demo/seed';
 import { DEMO_CLAIMS, DEMO_PEOPLE } from '../../src/lib/server/demo/scenario';
+import { asUser } from './actors';
 import { temporaryDatabase } from './db';
 
 let ctx: Awaited<ReturnType<typeof temporaryDatabase>>;
@@ -30,7 +31,7 @@ afterAll(async () => {
 
 async function settled(userId: string, claimId: string) {
 	for (let i = 0; i < 600; i++) {
-		const checks = await listChecks(ctx.database, userId, claimId);
+		const checks = await listChecks(ctx.database, asUser(userId), claimId);
 		if (checks.every((c) => c.status === 'done' || c.status === 'failed')) return checks;
 		await new Promise((wait) => setTimeout(wait, 50));
 	}
@@ -44,7 +45,7 @@ describe('demo scenario', () => {
 			expect(await signIn(ctx.database, person.email, person.password)).not.toBeNull();
 		const author = (await signIn(ctx.database, DEMO_PEOPLE[1].email, DEMO_PEOPLE[1].password))!
 			.userId;
-		const { items } = await listClaims(ctx.database, author, {});
+		const { items } = await listClaims(ctx.database, asUser(author), {});
 		expect(items).toHaveLength(DEMO_CLAIMS.length);
 		expect(new Set(items.map((c) => c.method))).toEqual(
 			new Set(['mub-correlation', 'steering-2mub', 'fidelity-two-basis'])
@@ -58,7 +59,10 @@ describe('demo scenario', () => {
 		expect(verdicts).toContain('supported');
 		expect(verdicts).toContain('not supported');
 		const token = readFileSync(demoTokenFile(), 'utf8').trim();
-		expect((await authenticate(ctx.database, token))?.email).toBe(DEMO_PEOPLE[1].email);
+		const owner = await ctx.database.models.User.findOne({
+			where: { email: DEMO_PEOPLE[1].email }
+		});
+		expect((await authenticate(ctx.database, token))?.userId).toBe(owner?.get('id'));
 	});
 
 	it('changes nothing when run again, and writes a fresh token when the file is gone', async () => {

@@ -21,6 +21,7 @@ import { getCheck, startCheck } from '../../src/lib/server/services/checks';
 import { createClaim, getClaim } from '../../src/lib/server/services/claims';
 import { addDataset, listDatasets } from '../../src/lib/server/services/datasets';
 import { addGroup, addUser, bytesOf, claimFields } from './backend-fixtures';
+import { asUser } from './actors';
 import { temporaryDatabase } from './db';
 
 let ctx: Awaited<ReturnType<typeof temporaryDatabase>>;
@@ -64,49 +65,53 @@ afterAll(async () => {
 
 describe('the Fourier convention of a claim', () => {
 	it('defaults to cyclic, stores field when asked, and returns it', async () => {
-		const plain = await createClaim(ctx.database, ada, { ...claimFields, dimension: 9 });
+		const plain = await createClaim(ctx.database, asUser(ada), { ...claimFields, dimension: 9 });
 		expect(plain.fourier).toBe('cyclic');
-		const field = await createClaim(ctx.database, ada, {
+		const field = await createClaim(ctx.database, asUser(ada), {
 			...claimFields,
 			dimension: 9,
 			bases: [0, 1, 2],
 			fourier: 'field'
 		});
 		expect(field).toMatchObject({ fourier: 'field', bases: [0, 1, 2] });
-		expect((await getClaim(ctx.database, ada, field.id))?.fourier).toBe('field');
+		expect((await getClaim(ctx.database, asUser(ada), field.id))?.fourier).toBe('field');
 	});
 
 	it('refuses bases 2..d in d = 9 under cyclic, and field where d is not a prime power', async () => {
-		const cyclic = createClaim(ctx.database, ada, {
+		const cyclic = createClaim(ctx.database, asUser(ada), {
 			...claimFields,
 			dimension: 9,
 			bases: [0, 1, 2]
 		});
 		await expect(cyclic).rejects.toThrow(ZodError);
 		await expect(cyclic).rejects.toThrow(/basis 2 in d = 9 exists only with fourier=field/i);
-		const six = createClaim(ctx.database, ada, { ...claimFields, dimension: 6, fourier: 'field' });
+		const six = createClaim(ctx.database, asUser(ada), {
+			...claimFields,
+			dimension: 6,
+			fourier: 'field'
+		});
 		await expect(six).rejects.toThrow(/prime-power dimension/);
-		const bad = createClaim(ctx.database, ada, { ...claimFields, fourier: 'dft' });
+		const bad = createClaim(ctx.database, asUser(ada), { ...claimFields, fourier: 'dft' });
 		await expect(bad).rejects.toThrow(/Fourier convention must be cyclic or field/);
 	});
 
 	it('refuses, storing nothing, counts that declare a different convention', async () => {
-		const claim = await createClaim(ctx.database, ada, {
+		const claim = await createClaim(ctx.database, asUser(ada), {
 			...claimFields,
 			dimension: 9,
 			method: 'fidelity-two-basis'
 		});
-		const upload = addDataset(ctx.database, ada, claim.id, {
+		const upload = addDataset(ctx.database, asUser(ada), claim.id, {
 			bytes: bytesOf(fieldJson('field')),
 			originalName: 'field.json'
 		});
 		await expect(upload).rejects.toThrow(InputError);
 		await expect(upload).rejects.toThrow(/\$\.fourier: the file declares "field" but the claim/);
-		expect(await listDatasets(ctx.database, ada, claim.id)).toEqual([]);
+		expect(await listDatasets(ctx.database, asUser(ada), claim.id)).toEqual([]);
 	});
 
 	it('is what the check runs with: field pairing for a field claim in d = 9', async () => {
-		const claim = await createClaim(ctx.database, ada, {
+		const claim = await createClaim(ctx.database, asUser(ada), {
 			...claimFields,
 			dimension: 9,
 			method: 'fidelity-two-basis',
@@ -114,10 +119,13 @@ describe('the Fourier convention of a claim', () => {
 			claimedSchmidtNumber: 7
 		});
 		const bytes = bytesOf(fieldJson(null));
-		await addDataset(ctx.database, ada, claim.id, { bytes, originalName: 'run.json' });
-		const queued = await startCheck(ctx.database, ada, claim.id, { resamples: 2000, seed: 5 });
+		await addDataset(ctx.database, asUser(ada), claim.id, { bytes, originalName: 'run.json' });
+		const queued = await startCheck(ctx.database, asUser(ada), claim.id, {
+			resamples: 2000,
+			seed: 5
+		});
 		await (await startCheckRunner(ctx.database)).idle();
-		const check = (await getCheck(ctx.database, ada, queued.id))!;
+		const check = (await getCheck(ctx.database, asUser(ada), queued.id))!;
 		expect(check.status).toBe('done');
 		const run = (fourier: 'cyclic' | 'field') =>
 			certify(parseCounts(bytes, 9), {
@@ -134,14 +142,14 @@ describe('the Fourier convention of a claim', () => {
 	});
 
 	it('CSV counts carry no declaration and are taken in the claim’s convention', async () => {
-		const claim = await createClaim(ctx.database, ada, {
+		const claim = await createClaim(ctx.database, asUser(ada), {
 			...claimFields,
 			dimension: 9,
 			bases: [0, 1, 2, 3],
 			fourier: 'field'
 		});
 		const csv = toCountsCsv(expectedCounts(states.isotropic(9, 0.9), [0, 1, 2, 3], 1e5, 'field'));
-		const dataset = await addDataset(ctx.database, ada, claim.id, {
+		const dataset = await addDataset(ctx.database, asUser(ada), claim.id, {
 			bytes: bytesOf(csv),
 			originalName: 'four.csv'
 		});

@@ -1,4 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { asUser } from './actors';
 import { setAccountRole, listUsers } from '../../src/lib/server/services/account-roles';
 import { signUp, verifyEmail } from '../../src/lib/server/services/accounts';
 import { ForbiddenError, NotFoundError } from '../../src/lib/server/services/errors';
@@ -28,7 +29,7 @@ describe('groups, invitations and roles', () => {
 	beforeAll(async () => {
 		world = await mailWorld();
 		leadId = await verifiedUser('maren@fjordlight.test', 'Maren Oksvik');
-		({ id: groupId } = await createGroup(world.database, leadId, 'Fjordlight Qudit Lab'));
+		({ id: groupId } = await createGroup(world.database, asUser(leadId), 'Fjordlight Qudit Lab'));
 	});
 	afterAll(async () => world?.close());
 
@@ -44,7 +45,7 @@ describe('groups, invitations and roles', () => {
 	}
 
 	async function invite(email: string, role: 'lead' | 'author') {
-		await inviteMember(world.database, world.mailer, leadId, groupId, { email, role });
+		await inviteMember(world.database, world.mailer, asUser(leadId), groupId, { email, role });
 		return linkToken(world, email.toLowerCase(), '/invite/');
 	}
 
@@ -52,7 +53,7 @@ describe('groups, invitations and roles', () => {
 		world.database.models.AuditEvent.count({ where: { action, groupId } });
 
 	it('makes the creator of a group its lead; unconfirmed users cannot start one', async () => {
-		expect(await groupsOf(world.database, leadId)).toEqual([
+		expect(await groupsOf(world.database, asUser(leadId))).toEqual([
 			{ id: groupId, name: 'Fjordlight Qudit Lab', role: 'lead' }
 		]);
 		const { userId } = await signUp(world.database, world.mailer, {
@@ -60,10 +61,10 @@ describe('groups, invitations and roles', () => {
 			name: 'New',
 			password: PASSWORD
 		});
-		await expect(createGroup(world.database, userId, 'Shadow Lab')).rejects.toBeInstanceOf(
+		await expect(createGroup(world.database, asUser(userId), 'Shadow Lab')).rejects.toBeInstanceOf(
 			ForbiddenError
 		);
-		await expect(createGroup(world.database, leadId, ' x ')).rejects.toMatchObject({
+		await expect(createGroup(world.database, asUser(leadId), ' x ')).rejects.toMatchObject({
 			field: 'name'
 		});
 		expect(await auditActions('group.created')).toBe(1);
@@ -84,9 +85,9 @@ describe('groups, invitations and roles', () => {
 			role: 'author',
 			state: 'valid'
 		});
-		expect((await listInvitations(world.database, leadId, groupId)).map((i) => i.email)).toEqual([
-			'bo.strand@fjordlight.test'
-		]);
+		expect(
+			(await listInvitations(world.database, asUser(leadId), groupId)).map((i) => i.email)
+		).toEqual(['bo.strand@fjordlight.test']);
 
 		// The invitee opens an account with the invited address but has not confirmed it yet.
 		const { userId: boId } = await signUp(world.database, world.mailer, {
@@ -94,25 +95,25 @@ describe('groups, invitations and roles', () => {
 			name: 'Bo Strand',
 			password: PASSWORD
 		});
-		expect(await acceptInvitation(world.database, boId, token)).toEqual({
+		expect(await acceptInvitation(world.database, asUser(boId), token)).toEqual({
 			groupId,
 			role: 'author'
 		});
-		expect(await groupsOf(world.database, boId)).toEqual([
+		expect(await groupsOf(world.database, asUser(boId))).toEqual([
 			{ id: groupId, name: 'Fjordlight Qudit Lab', role: 'author' }
 		]);
 		const bo = (await world.database.models.User.findByPk(boId))!.get({ plain: true });
 		expect(bo.emailVerifiedAt).not.toBeNull();
-		await expect(acceptInvitation(world.database, boId, token)).rejects.toMatchObject({
+		await expect(acceptInvitation(world.database, asUser(boId), token)).rejects.toMatchObject({
 			field: 'invitation'
 		});
 		expect((await findInvitation(world.database, token))!.state).toBe('accepted');
-		expect(await listInvitations(world.database, leadId, groupId)).toEqual([]);
+		expect(await listInvitations(world.database, asUser(leadId), groupId)).toEqual([]);
 		expect(await auditActions('invitation.sent')).toBeGreaterThanOrEqual(1);
 		expect(await auditActions('invitation.accepted')).toBe(1);
 		expect(await auditActions('membership.added')).toBe(1);
 
-		const view = await getGroup(world.database, boId, groupId);
+		const view = await getGroup(world.database, asUser(boId), groupId);
 		expect(view.role).toBe('author');
 		expect(view.members.map((m) => [m.email, m.role])).toEqual([
 			['maren@fjordlight.test', 'lead'],
@@ -123,52 +124,52 @@ describe('groups, invitations and roles', () => {
 	it('only the invited address may accept; expired and withdrawn invitations do not work', async () => {
 		const token = await invite('ane@fjordlight.test', 'lead');
 		const otherId = await verifiedUser('per@fjordlight.test', 'Per Dahl');
-		await expect(acceptInvitation(world.database, otherId, token)).rejects.toBeInstanceOf(
+		await expect(acceptInvitation(world.database, asUser(otherId), token)).rejects.toBeInstanceOf(
 			FieldError
 		);
 		expect((await findInvitation(world.database, token))!.state).toBe('valid');
-		expect(await groupsOf(world.database, otherId)).toEqual([]);
+		expect(await groupsOf(world.database, asUser(otherId))).toEqual([]);
 
 		await world.database.models.Invitation.update(
 			{ expiresAt: new Date(Date.now() - 1) },
 			{ where: { tokenHash: hashSecret(token) } }
 		);
 		const aneId = await verifiedUser('ane@fjordlight.test', 'Ane Berg');
-		await expect(acceptInvitation(world.database, aneId, token)).rejects.toMatchObject({
+		await expect(acceptInvitation(world.database, asUser(aneId), token)).rejects.toMatchObject({
 			message: expect.stringMatching(/expired/)
 		});
 
 		const again = await invite('ane@fjordlight.test', 'lead');
-		const [open] = await listInvitations(world.database, leadId, groupId);
-		await revokeInvitation(world.database, leadId, groupId, open.id);
+		const [open] = await listInvitations(world.database, asUser(leadId), groupId);
+		await revokeInvitation(world.database, asUser(leadId), groupId, open.id);
 		expect(await findInvitation(world.database, again)).toBeNull();
-		await expect(acceptInvitation(world.database, aneId, again)).rejects.toBeInstanceOf(
+		await expect(acceptInvitation(world.database, asUser(aneId), again)).rejects.toBeInstanceOf(
 			NotFoundError
 		);
-		await expect(acceptInvitation(world.database, aneId, 'nonsense')).rejects.toBeInstanceOf(
-			NotFoundError
-		);
+		await expect(
+			acceptInvitation(world.database, asUser(aneId), 'nonsense')
+		).rejects.toBeInstanceOf(NotFoundError);
 	});
 
 	it('an author sees the members but lead-only actions are forbidden', async () => {
 		const boId = (await world.database.models.User.findOne({
 			where: { email: 'bo.strand@fjordlight.test' }
 		}))!.get('id') as string;
-		const invitation = inviteMember(world.database, world.mailer, boId, groupId, {
+		const invitation = inviteMember(world.database, world.mailer, asUser(boId), groupId, {
 			email: 'x@fjordlight.test',
 			role: 'author'
 		});
 		await expect(invitation).rejects.toBeInstanceOf(ForbiddenError);
 		await expect(
-			changeMemberRole(world.database, boId, groupId, boId, 'lead')
+			changeMemberRole(world.database, asUser(boId), groupId, boId, 'lead')
 		).rejects.toBeInstanceOf(ForbiddenError);
-		await expect(removeMember(world.database, boId, groupId, leadId)).rejects.toBeInstanceOf(
+		await expect(
+			removeMember(world.database, asUser(boId), groupId, leadId)
+		).rejects.toBeInstanceOf(ForbiddenError);
+		await expect(listInvitations(world.database, asUser(boId), groupId)).rejects.toBeInstanceOf(
 			ForbiddenError
 		);
-		await expect(listInvitations(world.database, boId, groupId)).rejects.toBeInstanceOf(
-			ForbiddenError
-		);
-		expect((await getGroup(world.database, boId, groupId)).members).toHaveLength(2);
+		expect((await getGroup(world.database, asUser(boId), groupId)).members).toHaveLength(2);
 		expect(
 			await world.database.models.Invitation.count({ where: { email: 'x@fjordlight.test' } })
 		).toBe(0);
@@ -176,38 +177,40 @@ describe('groups, invitations and roles', () => {
 
 	it('answers 404 (NotFoundError) to someone outside the group', async () => {
 		const outsiderId = await verifiedUser('vera@elsewhere.test', 'Vera Holm');
-		await expect(getGroup(world.database, outsiderId, groupId)).rejects.toBeInstanceOf(
+		await expect(getGroup(world.database, asUser(outsiderId), groupId)).rejects.toBeInstanceOf(
 			NotFoundError
 		);
-		const invitation = inviteMember(world.database, world.mailer, outsiderId, groupId, {
+		const invitation = inviteMember(world.database, world.mailer, asUser(outsiderId), groupId, {
 			email: 'y@fjordlight.test',
 			role: 'lead'
 		});
 		await expect(invitation).rejects.toBeInstanceOf(NotFoundError);
-		await expect(removeMember(world.database, outsiderId, groupId, leadId)).rejects.toBeInstanceOf(
-			NotFoundError
-		);
+		await expect(
+			removeMember(world.database, asUser(outsiderId), groupId, leadId)
+		).rejects.toBeInstanceOf(NotFoundError);
 	});
 
 	it('never removes or demotes the last lead', async () => {
-		await expect(removeMember(world.database, leadId, groupId, leadId)).rejects.toMatchObject({
+		await expect(
+			removeMember(world.database, asUser(leadId), groupId, leadId)
+		).rejects.toMatchObject({
 			message: 'The last lead cannot be removed.'
 		});
 		await expect(
-			changeMemberRole(world.database, leadId, groupId, leadId, 'author')
+			changeMemberRole(world.database, asUser(leadId), groupId, leadId, 'author')
 		).rejects.toBeInstanceOf(FieldError);
-		expect((await groupsOf(world.database, leadId))[0].role).toBe('lead');
+		expect((await groupsOf(world.database, asUser(leadId)))[0].role).toBe('lead');
 
 		const boId = (await world.database.models.User.findOne({
 			where: { email: 'bo.strand@fjordlight.test' }
 		}))!.get('id') as string;
-		await changeMemberRole(world.database, leadId, groupId, boId, 'lead');
-		await changeMemberRole(world.database, leadId, groupId, leadId, 'author');
-		await expect(removeMember(world.database, boId, groupId, boId)).rejects.toBeInstanceOf(
+		await changeMemberRole(world.database, asUser(leadId), groupId, boId, 'lead');
+		await changeMemberRole(world.database, asUser(leadId), groupId, leadId, 'author');
+		await expect(removeMember(world.database, asUser(boId), groupId, boId)).rejects.toBeInstanceOf(
 			FieldError
 		);
-		await removeMember(world.database, boId, groupId, leadId);
-		expect(await groupsOf(world.database, leadId)).toEqual([]);
+		await removeMember(world.database, asUser(boId), groupId, leadId);
+		expect(await groupsOf(world.database, asUser(leadId))).toEqual([]);
 		expect(await auditActions('membership.role-changed')).toBe(2);
 		expect(await auditActions('membership.removed')).toBe(1);
 	});
@@ -216,15 +219,17 @@ describe('groups, invitations and roles', () => {
 		const adminId = await verifiedUser('root@rankseal.test', 'Runa Admin');
 		const editorId = await verifiedUser('ed@journal.test', 'Edda Editor');
 		await expect(
-			setAccountRole(world.database, editorId, editorId, 'admin')
+			setAccountRole(world.database, asUser(editorId), editorId, 'admin')
 		).rejects.toBeInstanceOf(ForbiddenError);
-		await expect(listUsers(world.database, editorId)).rejects.toBeInstanceOf(ForbiddenError);
+		await expect(listUsers(world.database, asUser(editorId))).rejects.toBeInstanceOf(
+			ForbiddenError
+		);
 		await world.database.models.User.update({ accountRole: 'admin' }, { where: { id: adminId } });
-		await setAccountRole(world.database, adminId, editorId, 'editor');
-		const users = await listUsers(world.database, adminId);
+		await setAccountRole(world.database, asUser(adminId), editorId, 'editor');
+		const users = await listUsers(world.database, asUser(adminId));
 		expect(users.find((u) => u.id === editorId)!.accountRole).toBe('editor');
 		await expect(
-			setAccountRole(world.database, adminId, adminId, 'researcher')
+			setAccountRole(world.database, asUser(adminId), adminId, 'researcher')
 		).rejects.toMatchObject({ field: 'role' });
 	});
 });

@@ -1,5 +1,6 @@
 import { createServer, type Server } from 'node:net';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { asUser } from './actors';
 import { createMailer } from '../../src/lib/server/mail';
 import { startMailCatcher } from '../../src/lib/server/mail-catcher';
 import { ForbiddenError, NotFoundError } from '../../src/lib/server/services/errors';
@@ -81,16 +82,18 @@ describe('mail: nodemailer to the local SMTP catcher', () => {
 			passwordHash: 'x',
 			accountRole: 'researcher'
 		});
-		const outbox = await listOutbox(world.database, admin);
+		const outbox = await listOutbox(world.database, asUser(admin));
 		expect(outbox.total).toBeGreaterThanOrEqual(3);
 		expect(outbox.items[0]).toMatchObject({ to: expect.any(String), subject: expect.any(String) });
-		const message = await getOutboxMessage(world.database, admin, outbox.items[0].id);
+		const message = await getOutboxMessage(world.database, asUser(admin), outbox.items[0].id);
 		expect(message.text.length).toBeGreaterThan(0);
-		await expect(listOutbox(world.database, researcher)).rejects.toBeInstanceOf(ForbiddenError);
-		await expect(getOutboxMessage(world.database, researcher, message.id)).rejects.toBeInstanceOf(
+		await expect(listOutbox(world.database, asUser(researcher))).rejects.toBeInstanceOf(
 			ForbiddenError
 		);
-		await expect(getOutboxMessage(world.database, admin, 'missing')).rejects.toBeInstanceOf(
+		await expect(
+			getOutboxMessage(world.database, asUser(researcher), message.id)
+		).rejects.toBeInstanceOf(ForbiddenError);
+		await expect(getOutboxMessage(world.database, asUser(admin), 'missing')).rejects.toBeInstanceOf(
 			NotFoundError
 		);
 	});

@@ -1,72 +1,39 @@
 /**
- * Helpers for the JSON API (routes/api/v1): the `{ error: { code, message } }` shape, the
- * sign-in requirement (session cookie or bearer token, both land in locals.user), bounded
- * body reading, and the translation of service errors into statuses.
+ * Helpers for the JSON API (routes/api/v1): the caller requirement (a session cookie or a bearer
+ * token, both resolved into locals.actor), bounded body reading, and the form-origin check.
+ * Errors answer through problems.ts, as everywhere.
  */
-import { json, text, type Handle, type RequestEvent, type RequestHandler } from '@sveltejs/kit';
-import { ZodError, type ZodType } from 'zod';
-import { InputError, MAX_COUNTS_FILE_BYTES } from '$lib/certify';
+import { text, type Handle, type RequestEvent, type RequestHandler } from '@sveltejs/kit';
+import type { ZodType } from 'zod';
+import { MAX_COUNTS_FILE_BYTES } from '$lib/certify';
+import type { Actor } from './access/actor';
 import { app } from './app';
-import type { SessionUser } from './auth';
 import type { Database } from './db';
-import { ForbiddenError, NotFoundError } from './services/errors';
+import { ApiError, apiProblem, problemResponse } from './problems';
 
-export class ApiError extends Error {
-	constructor(
-		readonly status: number,
-		readonly code: string,
-		message: string,
-		readonly extra: Record<string, unknown> = {}
-	) {
-		super(message);
-	}
-}
-
-export const apiError = (
-	status: number,
-	code: string,
-	message: string,
-	extra: Record<string, unknown> = {}
-) => json({ error: { code, message, ...extra } }, { status });
-
-/** "title: Give the claim a title.; dimension: …" — every issue with the field it concerns. */
-export function describeIssues(error: ZodError): string {
-	return error.issues
-		.map((i) => (i.path.length ? `${i.path.join('.')}: ${i.message}` : i.message))
-		.join('; ');
-}
-
-function errorResponse(error: unknown): Response {
-	if (error instanceof ApiError)
-		return apiError(error.status, error.code, error.message, error.extra);
-	if (error instanceof NotFoundError) return apiError(404, 'not_found', error.message);
-	if (error instanceof ForbiddenError) return apiError(403, 'forbidden', error.message);
-	if (error instanceof ZodError) return apiError(400, 'bad_request', describeIssues(error));
-	if (error instanceof InputError) return apiError(400, 'bad_request', error.message);
-	throw error;
-}
+export { ApiError, describeIssues } from './problems';
 
 interface Context {
 	event: RequestEvent;
-	user: SessionUser;
+	actor: Actor;
 	database: Database;
 }
 
-/** An endpoint for signed-in callers: 401 without a user, service errors as JSON. */
+/** An endpoint for identified callers: 401 for anonymous ones, service errors as JSON. */
 export function apiEndpoint(handler: (context: Context) => Promise<Response>): RequestHandler {
 	return async (event) => {
-		const user = event.locals.user;
-		if (!user) {
-			return apiError(
-				401,
-				'unauthorised',
-				'Sign in, or send an API token as "Authorization: Bearer rks_…".'
-			);
+		const actor = event.locals.actor;
+		if (actor.kind === 'anonymous') {
+			return problemResponse({
+				status: 401,
+				code: 'unauthorised',
+				message: 'Sign in, or send an API token as "Authorization: Bearer rks_…".'
+			});
 		}
 		try {
-			return await handler({ event, user, database: (await app()).database });
+			return await handler({ event, actor, database: (await app()).database });
 		} catch (error) {
-			return errorResponse(error);
+			return apiProblem(error);
 		}
 	};
 }
@@ -101,7 +68,7 @@ export async function readJson<T>(request: Request, schema: ZodType<T>): Promise
 		try {
 			value = JSON.parse(text);
 		} catch {
-			throw new ApiError(400, 'bad_json', 'The body is not valid JSON.');
+			throw new ApiError(400, 'bad_input', 'The body is not valid JSON.');
 		}
 	}
 	return schema.parse(value);
@@ -130,15 +97,15 @@ export async function readCountsUpload(
 		})
 			.formData()
 			.catch(() => {
-				throw new ApiError(400, 'bad_request', 'The multipart body cannot be read.');
+				throw new ApiError(400, 'bad_input', 'The multipart body cannot be read.');
 			});
 		const file = form.get('counts');
 		if (!(file instanceof File))
 			throw new ApiError(
 				400,
-				'bad_counts',
+				'bad_input',
 				'Send the counts file in the multipart field "counts".',
-				{ line: null }
+				'counts'
 			);
 		if (file.size > MAX_COUNTS_FILE_BYTES) throw tooLarge;
 		return { bytes: new Uint8Array(await file.arrayBuffer()), originalName: file.name || 'counts' };

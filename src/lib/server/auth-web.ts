@@ -1,10 +1,7 @@
-/** Small helpers shared by the account pages: session cookies, safe ?next= paths, form errors. */
-import { error, redirect, type Cookies } from '@sveltejs/kit';
-import type { User } from 'lucia';
-import type { z } from 'zod';
+/** Small helpers shared by the pages: the signed-in caller, session cookies, safe ?next= paths. */
+import { redirect, type Cookies } from '@sveltejs/kit';
+import type { UserActor } from './access/actor';
 import type { AppLucia } from './auth';
-import { ForbiddenError, NotFoundError } from './services/errors';
-import { FieldError } from './services/field-error';
 
 /** A same-origin relative path to go to after signing in; anything else becomes the fallback. */
 export function safeNext(next: string | null | undefined, fallback = '/claims'): string {
@@ -20,10 +17,10 @@ export function safeNext(next: string | null | undefined, fallback = '/claims'):
 export const loginPath = (url: URL): string =>
 	`/login?next=${encodeURIComponent(url.pathname + url.search)}`;
 
-/** The signed-in user, or a 303 to the sign-in page that comes back here afterwards. */
-export function requireUser(locals: App.Locals, url: URL): User {
-	if (!locals.user) redirect(303, loginPath(url));
-	return locals.user;
+/** The signed-in caller, or a 303 to the sign-in page that comes back here afterwards. */
+export function requireSignedIn(locals: App.Locals, url: URL): UserActor {
+	if (locals.actor.kind !== 'user') redirect(303, loginPath(url));
+	return locals.actor;
 }
 
 export async function startSession(
@@ -41,18 +38,6 @@ export function clearSessionCookie(lucia: AppLucia, cookies: Cookies): void {
 	cookies.set(blank.name, blank.value, { path: '/', ...blank.attributes });
 }
 
-export type FieldErrors = Record<string, string>;
-
-/** The first message per field of a failed zod parse ('' for errors about the whole form). */
-export function fieldErrors(problem: z.ZodError): FieldErrors {
-	const errors: FieldErrors = {};
-	for (const issue of problem.issues) {
-		const key = issue.path.length ? String(issue.path[0]) : '';
-		errors[key] ??= issue.message;
-	}
-	return errors;
-}
-
 /** Text fields of a form to send back after a failed submit; passwords are never included. */
 export function echoValues(form: FormData, keys: string[]): Record<string, string> {
 	const values: Record<string, string> = {};
@@ -61,12 +46,4 @@ export function echoValues(form: FormData, keys: string[]): Record<string, strin
 		if (typeof value === 'string' && !/password/i.test(key)) values[key] = value;
 	}
 	return values;
-}
-
-/** Turns service errors into HTTP answers; a FieldError is returned for fail(400) instead. */
-export function serviceProblem(problem: unknown): FieldErrors {
-	if (problem instanceof FieldError) return { [problem.field]: problem.message };
-	if (problem instanceof NotFoundError) error(404, problem.message);
-	if (problem instanceof ForbiddenError) error(403, problem.message);
-	throw problem;
 }

@@ -9,7 +9,7 @@ import type { LayoutServerLoad } from './$types';
  * checks the user itself, because actions run without this load.
  */
 export const load: LayoutServerLoad = async ({ locals, url }) => {
-	if (!locals.user) redirect(303, loginPath(url));
+	if (locals.actor.kind !== 'user' || !locals.user) redirect(303, loginPath(url));
 	const { database } = await app();
-	return { user: locals.user, groups: await groupsOf(database, locals.user.id) };
+	return { user: locals.user, groups: await groupsOf(database, locals.actor) };
 };

@@ -9,6 +9,7 @@ import path from 'node:path';
 import { hashPassword } from '../auth';
 import { config } from '../config';
 import type { Database } from '../db';
+import { userActor } from '../access/actor';
 import { startCheck } from '../services/checks';
 import { createClaim } from '../services/claims';
 import { addDataset } from '../services/datasets';
@@ -45,8 +46,8 @@ async function seedPeople(database: Database): Promise<Map<string, string>> {
 
 async function seedClaims(database: Database, ids: Map<string, string>): Promise<void> {
 	for (const demo of DEMO_CLAIMS) {
-		const userId = ids.get(demo.author)!;
-		const claim = await createClaim(database, userId, {
+		const author = (await userActor(database, ids.get(demo.author)!))!;
+		const claim = await createClaim(database, author, {
 			title: demo.title,
 			sourceDescription: demo.sourceDescription,
 			dimension: demo.state.dimension,
@@ -56,16 +57,17 @@ async function seedClaims(database: Database, ids: Map<string, string>): Promise
 			manuscriptReference: demo.manuscriptReference
 		});
 		const file = new TextEncoder().encode(demoCountsCsv(demo));
-		await addDataset(database, userId, claim.id, {
+		await addDataset(database, author, claim.id, {
 			bytes: file,
 			originalName: `${demo.title.split(':')[0]}.csv`
 		});
-		await startCheck(database, userId, claim.id, {});
+		await startCheck(database, author, claim.id, {});
 	}
 }
 
 async function writeDemoToken(database: Database, userId: string): Promise<void> {
-	const { token } = await createToken(database, userId, 'demo pipeline');
+	const owner = (await userActor(database, userId))!;
+	const { token } = await createToken(database, owner, { name: 'demo pipeline' });
 	mkdirSync(path.dirname(demoTokenFile()), { recursive: true });
 	writeFileSync(demoTokenFile(), token + '\n', { mode: 0o600 });
 }

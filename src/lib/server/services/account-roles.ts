@@ -1,11 +1,13 @@
 /**
- * Account-level roles (researcher, editor, admin), which only admins may see and change. Every
- * function re-reads the actor's role from the database rather than trusting the caller.
+ * Account-level roles (researcher, editor, admin), which only admins may see and change
+ * (permissions.ts re-reads the actor's role from the database rather than trusting the session).
  */
+import type { Actor } from '../access/actor';
+import { requireService } from '../access/permissions';
 import type { Database } from '../db';
 import type { AccountRole } from '../db/models/User';
 import { audit } from './audit';
-import { ForbiddenError, NotFoundError } from './errors';
+import { NotFoundError } from './errors';
 import { FieldError } from './field-error';
 
 export const ACCOUNT_ROLES: readonly AccountRole[] = ['researcher', 'editor', 'admin'];
@@ -19,13 +21,8 @@ export interface UserListItem {
 	createdAt: string;
 }
 
-export async function requireAdmin(database: Database, actorId: string): Promise<void> {
-	const actor = await database.models.User.findByPk(actorId);
-	if (actor?.get('accountRole') !== 'admin') throw new ForbiddenError('Only admins may do this.');
-}
-
-export async function listUsers(database: Database, actorId: string): Promise<UserListItem[]> {
-	await requireAdmin(database, actorId);
+export async function listUsers(database: Database, actor: Actor): Promise<UserListItem[]> {
+	await requireService(database, actor, 'manage-accounts');
 	const rows = await database.models.User.findAll({ order: [['createdAt', 'ASC']] });
 	return rows.map((row) => {
 		const u = row.get({ plain: true });
@@ -43,13 +40,13 @@ export async function listUsers(database: Database, actorId: string): Promise<Us
 /** Changes a user's account role; the last admin cannot be demoted, so the service stays run. */
 export async function setAccountRole(
 	database: Database,
-	actorId: string,
+	actor: Actor,
 	userId: string,
 	role: AccountRole
 ): Promise<void> {
 	if (!ACCOUNT_ROLES.includes(role))
 		throw new FieldError('role', 'Choose researcher, editor or admin.');
-	await requireAdmin(database, actorId);
+	const { userId: actorId } = await requireService(database, actor, 'manage-accounts');
 	const { User } = database.models;
 	await database.sequelize.transaction(async (transaction) => {
 		const user = await User.findByPk(userId, { transaction });

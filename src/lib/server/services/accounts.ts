@@ -3,6 +3,8 @@
  * single use and expire (see email-tokens.ts); addresses are kept trimmed and lower-case.
  */
 import { UniqueConstraintError } from 'sequelize';
+import type { Actor } from '../access/actor';
+import { requireService } from '../access/permissions';
 import { hashPassword, verifyPassword, type AppLucia } from '../auth';
 import type { Database } from '../db';
 import { mailLink, sendTemplate, type Mailer } from '../mail';
@@ -18,6 +20,7 @@ import {
 } from './email-tokens';
 import { FieldError } from './field-error';
 import { newId } from './ids';
+import { revokeAllTokens } from './tokens';
 
 export const PASSWORD_MIN_LENGTH = 10;
 export const PASSWORD_MAX_LENGTH = 256;
@@ -90,8 +93,9 @@ export async function signUp(
 export async function resendVerification(
 	database: Database,
 	mailer: Mailer,
-	userId: string
+	actor: Actor
 ): Promise<boolean> {
+	const { userId } = await requireService(database, actor, 'own-account');
 	const user = await database.models.User.findByPk(userId);
 	if (!user || user.get('emailVerifiedAt')) return false;
 	const { email, name } = user.get({ plain: true });
@@ -164,7 +168,10 @@ export async function requestPasswordReset(
 export const resetLinkState = (database: Database, token: string) =>
 	emailTokenState(database, token, 'reset-password');
 
-/** Sets the new password and signs the user out everywhere; the link also confirms the address. */
+/**
+ * Sets the new password and ends every way into the account (sessions and API tokens); the link
+ * also confirms the address.
+ */
 export async function resetPassword(
 	database: Database,
 	lucia: AppLucia,
@@ -180,6 +187,7 @@ export async function resetPassword(
 		const { User } = database.models;
 		await User.update({ passwordHash }, { where: { id: used.userId }, transaction });
 		await confirmAddress(database, used.userId, transaction);
+		await revokeAllTokens(database, used.userId, 'password-reset', transaction);
 		const entry = {
 			actorId: used.userId,
 			action: 'account.password-reset',
@@ -203,5 +211,13 @@ export async function resetPassword(
 
 export const signOut = (lucia: AppLucia, sessionId: string) => lucia.invalidateSession(sessionId);
 
-export const signOutEverywhere = (lucia: AppLucia, userId: string) =>
-	lucia.invalidateUserSessions(userId);
+/** Ends every session of the signed-in user and revokes their API tokens. */
+export async function signOutEverywhere(
+	database: Database,
+	lucia: AppLucia,
+	actor: Actor
+): Promise<void> {
+	const { userId } = await requireService(database, actor, 'own-account');
+	await revokeAllTokens(database, userId, 'signed-out-everywhere');
+	await lucia.invalidateUserSessions(userId);
+}

@@ -4,14 +4,14 @@
  */
 import { col } from 'sequelize';
 import { checkRequestSchema, type CheckRequest } from '$lib/claims/schema';
-import { DEFAULTS, InputError, type CertificationResult } from '$lib/certify';
+import { DEFAULTS, type CertificationResult } from '$lib/certify';
+import { accountIdOf, type Actor } from '../access/actor';
+import { requireClaim } from '../access/permissions';
 import { hasCheckRunner, startCheckRunner } from '../checks/runner';
 import type { Database } from '../db';
 import type { CheckAttributes, CheckStatus } from '../db/models/Check';
-import { visibleClaim } from './access';
 import { audit } from './audit';
-import { requireVisibleClaim } from './claims';
-import { NotFoundError } from './errors';
+import { ConflictError, NotFoundError } from './errors';
 import { newId } from './ids';
 
 export type { CheckRequest } from '$lib/claims/schema';
@@ -54,18 +54,18 @@ const view = (c: CheckAttributes): CheckView => ({
 
 /**
  * Queues a check of the claim on one of its datasets (default: the newest) and returns it
- * queued. NotFoundError for a claim or dataset out of sight; InputError for bad settings.
+ * queued. NotFoundError for a claim or dataset out of sight; a ZodError for bad settings;
+ * ConflictError while the claim has no counts file.
  */
 export async function startCheck(
 	database: Database,
-	userId: string,
+	actor: Actor,
 	claimId: string,
 	request: CheckRequest = {}
 ): Promise<CheckView> {
-	const claim = await requireVisibleClaim(database, userId, claimId);
-	const parsed = checkRequestSchema.safeParse(request);
-	if (!parsed.success) throw new InputError(parsed.error.issues.map((i) => i.message).join(' '));
-	const options = parsed.data;
+	const claim = await requireClaim(database, actor, claimId, 'start-check');
+	const options = checkRequestSchema.parse(request);
+	const userId = accountIdOf(actor);
 	const { Check, Dataset } = database.models;
 	const dataset = options.datasetId
 		? await Dataset.findOne({ where: { id: options.datasetId, claimId } })
@@ -78,7 +78,9 @@ export async function startCheck(
 			});
 	if (!dataset) {
 		if (options.datasetId) throw new NotFoundError('No such dataset on this claim.');
-		throw new InputError('This claim has no counts file yet: upload one before running a check.');
+		throw new ConflictError(
+			'This claim has no counts file yet: upload one before running a check.'
+		);
 	}
 	const id = newId();
 	const settings = {
@@ -116,16 +118,18 @@ export async function startCheck(
 	return view((await Check.findByPk(id))!.get({ plain: true }));
 }
 
-/** The check, or null when it does not exist or its claim belongs to another group. */
+/** The check; NotFoundError when it does not exist or the actor may not see its claim. */
 export async function getCheck(
 	database: Database,
-	userId: string,
+	actor: Actor,
 	checkId: string
-): Promise<CheckView | null> {
+): Promise<CheckView> {
 	const row = await database.models.Check.findByPk(checkId);
-	if (!row) return null;
+	if (!row) throw new NotFoundError('No such check.');
 	const check = row.get({ plain: true });
-	if (!(await visibleClaim(database, userId, check.claimId))) return null;
+	await requireClaim(database, actor, check.claimId, 'read').catch((problem) => {
+		throw problem instanceof NotFoundError ? new NotFoundError('No such check.') : problem;
+	});
 	// A check left waiting by an earlier process resumes once someone looks at it.
 	if ((check.status === 'queued' || check.status === 'running') && !hasCheckRunner(database)) {
 		void startCheckRunner(database).catch((error) => console.error('check runner:', error));
@@ -136,10 +140,10 @@ export async function getCheck(
 /** The claim's checks, newest first; NotFoundError when the claim is not visible. */
 export async function listChecks(
 	database: Database,
-	userId: string,
+	actor: Actor,
 	claimId: string
 ): Promise<CheckView[]> {
-	await requireVisibleClaim(database, userId, claimId);
+	await requireClaim(database, actor, claimId, 'read');
 	const rows = await database.models.Check.findAll({
 		where: { claimId },
 		order: [

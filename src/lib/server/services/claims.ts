@@ -1,5 +1,6 @@
 /**
- * Claims: create, list (search, filter, sort, page) and read, always within the user's groups.
+ * Claims: create, list (search, filter, sort, page) and read, always as permissions.ts lets the
+ * caller see them.
  */
 import { col, fn, Op, where as sqlWhere, type Order, type WhereOptions } from 'sequelize';
 import { claimInputSchema, type ClaimInputValues, type ClaimQuery } from '$lib/claims/schema';
@@ -7,9 +8,10 @@ import type { FourierConvention, MethodId } from '$lib/certify';
 import type { Database } from '../db';
 import type { ClaimAttributes, ClaimState } from '../db/models/Claim';
 import type { CheckStatus } from '../db/models/Check';
-import { membershipsOf, visibleClaim } from './access';
+import { accountIdOf, type Actor } from '../access/actor';
+import { requireClaim, requireGroup, visibleClaimsWhere } from '../access/permissions';
 import { audit } from './audit';
-import { ForbiddenError, NotFoundError } from './errors';
+import { ForbiddenError } from './errors';
 import { newId } from './ids';
 
 export type { ClaimInput, ClaimQuery } from '$lib/claims/schema';
@@ -102,25 +104,29 @@ async function claimViews(database: Database, claims: ClaimAttributes[]): Promis
 	}));
 }
 
-/** Creates a draft claim in the given group (default: the user's first group). */
-export async function createClaim(
-	database: Database,
-	userId: string,
-	input: ClaimInputValues
-): Promise<ClaimView> {
-	const claim = claimInputSchema.parse(input);
-	const memberships = await database.models.Membership.findAll({
-		where: { userId },
+/** The first group the account joined: where a claim goes when none is named. */
+async function firstGroupOf(database: Database, actor: Actor): Promise<string> {
+	const first = await database.models.Membership.findOne({
+		where: { userId: accountIdOf(actor) ?? '' },
 		order: [
 			['createdAt', 'ASC'],
 			[col('rowid'), 'ASC']
 		]
 	});
-	if (memberships.length === 0)
-		throw new ForbiddenError('Join or create a group before making claims.');
-	const groupId = claim.groupId ?? (memberships[0].get('groupId') as string);
-	if (!memberships.some((m) => m.get('groupId') === groupId))
-		throw new NotFoundError('No such group.');
+	if (!first) throw new ForbiddenError('Join or create a group before making claims.');
+	return first.get('groupId') as string;
+}
+
+/** Creates a draft claim in the given group (default: the actor's first group). */
+export async function createClaim(
+	database: Database,
+	actor: Actor,
+	input: ClaimInputValues
+): Promise<ClaimView> {
+	const claim = claimInputSchema.parse(input);
+	const groupId = claim.groupId ?? (await firstGroupOf(database, actor));
+	await requireGroup(database, actor, groupId, 'create-claim');
+	const userId = accountIdOf(actor)!;
 	const id = newId();
 	await database.sequelize.transaction(async (transaction) => {
 		await database.models.Claim.create(
@@ -153,19 +159,18 @@ export async function createClaim(
 			transaction
 		);
 	});
-	return (await getClaim(database, userId, id))!;
+	return getClaim(database, actor, id);
 }
 
-/** One page of the claims of the user's groups, searched, filtered and sorted. */
+/** One page of the claims the actor may see, searched, filtered and sorted. */
 export async function listClaims(
 	database: Database,
-	userId: string,
+	actor: Actor,
 	query: ClaimQuery = {}
 ): Promise<ClaimPage> {
 	const page = Math.max(1, Math.floor(query.page ?? 1));
 	const pageSize = Math.min(100, Math.max(1, Math.floor(query.pageSize ?? DEFAULT_PAGE_SIZE)));
-	const groupIds = [...(await membershipsOf(database, userId)).keys()];
-	const where: WhereOptions = { groupId: { [Op.in]: groupIds } };
+	const where: WhereOptions = { [Op.and]: [await visibleClaimsWhere(database, actor)] };
 	if (query.state) Object.assign(where, { state: query.state });
 	if (query.method) Object.assign(where, { method: query.method });
 	if (query.q) {
@@ -196,23 +201,12 @@ export async function listClaims(
 	return { items, total: count, page, pageSize };
 }
 
-/** The claim, or null when it does not exist or belongs to another group. */
+/** The claim; NotFoundError when it does not exist or the actor may not see it. */
 export async function getClaim(
 	database: Database,
-	userId: string,
+	actor: Actor,
 	claimId: string
-): Promise<ClaimView | null> {
-	const claim = await visibleClaim(database, userId, claimId);
-	return claim ? (await claimViews(database, [claim]))[0] : null;
-}
-
-/** The claim's row, or NotFoundError: for services that act on a claim. */
-export async function requireVisibleClaim(
-	database: Database,
-	userId: string,
-	claimId: string
-): Promise<ClaimAttributes> {
-	const claim = await visibleClaim(database, userId, claimId);
-	if (!claim) throw new NotFoundError('No such claim.');
-	return claim;
+): Promise<ClaimView> {
+	const claim = await requireClaim(database, actor, claimId, 'read');
+	return (await claimViews(database, [claim]))[0];
 }

@@ -17,12 +17,13 @@ import {
 } from '$lib/certify';
 import { requireCompleteTables } from '$lib/certify/counts';
 import { sha256Hex } from '$lib/evidence/hash';
+import { accountIdOf, type Actor } from '../access/actor';
+import { requireClaim } from '../access/permissions';
 import { config } from '../config';
 import type { Database } from '../db';
 import type { DatasetAttributes, DatasetSummary } from '../db/models/Dataset';
-import { visibleClaim } from './access';
 import { audit } from './audit';
-import { requireVisibleClaim } from './claims';
+import { NotFoundError } from './errors';
 import { newId } from './ids';
 
 export type { DatasetSummary } from '../db/models/Dataset';
@@ -126,11 +127,12 @@ async function storeBytes(sha256: string, bytes: Uint8Array): Promise<boolean> {
  */
 export async function addDataset(
 	database: Database,
-	userId: string,
+	actor: Actor,
 	claimId: string,
 	upload: { bytes: Uint8Array; originalName: string }
 ): Promise<DatasetView> {
-	const claim = await requireVisibleClaim(database, userId, claimId);
+	const claim = await requireClaim(database, actor, claimId, 'add-dataset');
+	const userId = accountIdOf(actor)!;
 	const { bytes } = upload;
 	const parsed = parseCounts(bytes, claim.dimension);
 	checkDeclaredFourier(parsed, claim.fourier, 'the claim');
@@ -182,10 +184,10 @@ export async function addDataset(
 /** The claim's datasets, newest first; NotFoundError when the claim is not visible. */
 export async function listDatasets(
 	database: Database,
-	userId: string,
+	actor: Actor,
 	claimId: string
 ): Promise<DatasetView[]> {
-	await requireVisibleClaim(database, userId, claimId);
+	await requireClaim(database, actor, claimId, 'read-datasets');
 	const rows = await database.models.Dataset.findAll({
 		where: { claimId },
 		order: [
@@ -196,35 +198,37 @@ export async function listDatasets(
 	return rows.map((r) => view(r.get({ plain: true })));
 }
 
-async function visibleDataset(
+/** The dataset's row when the actor may read its claim's counts; NotFoundError otherwise. */
+async function readableDataset(
 	database: Database,
-	userId: string,
+	actor: Actor,
 	datasetId: string
-): Promise<DatasetAttributes | null> {
+): Promise<DatasetAttributes> {
 	const row = await database.models.Dataset.findByPk(datasetId);
-	if (!row) return null;
+	if (!row) throw new NotFoundError('No such dataset.');
 	const dataset = row.get({ plain: true });
-	return (await visibleClaim(database, userId, dataset.claimId)) ? dataset : null;
+	await requireClaim(database, actor, dataset.claimId, 'read-datasets').catch((problem) => {
+		throw problem instanceof NotFoundError ? new NotFoundError('No such dataset.') : problem;
+	});
+	return dataset;
 }
 
-/** The dataset, or null when it does not exist or its claim belongs to another group. */
+/** The dataset; NotFoundError when it does not exist or its claim is out of the actor's sight. */
 export async function getDataset(
 	database: Database,
-	userId: string,
+	actor: Actor,
 	datasetId: string
-): Promise<DatasetView | null> {
-	const dataset = await visibleDataset(database, userId, datasetId);
-	return dataset ? view(dataset) : null;
+): Promise<DatasetView> {
+	return view(await readableDataset(database, actor, datasetId));
 }
 
-/** Per-basis d×d count tables of a stored dataset (for heat maps), or null when not visible. */
+/** Per-basis d×d count tables of a stored dataset (for heat maps); NotFoundError when not visible. */
 export async function datasetTables(
 	database: Database,
-	userId: string,
+	actor: Actor,
 	datasetId: string
-): Promise<DatasetTables | null> {
-	const dataset = await visibleDataset(database, userId, datasetId);
-	if (!dataset) return null;
+): Promise<DatasetTables> {
+	const dataset = await readableDataset(database, actor, datasetId);
 	const parsed = parseCounts(
 		await readFile(datasetFilePath(dataset.sha256)),
 		dataset.summary.dimension

@@ -1,9 +1,11 @@
 /**
  * Research groups and the roles in them: a lead manages members and invitations, an author sees
- * the member list. Someone outside a group gets NotFoundError (404); a member lacking the role,
- * ForbiddenError (403). Every change re-reads the actor's role inside its transaction.
+ * the member list (rules in permissions.ts). Every change re-reads the actor's role inside its
+ * transaction.
  */
 import type { Transaction } from 'sequelize';
+import { accountIdOf, isAccount, type Actor } from '../access/actor';
+import { requireGroup, requireService } from '../access/permissions';
 import type { Database } from '../db';
 import type { GroupRole } from '../db/models/Membership';
 import { audit } from './audit';
@@ -31,25 +33,11 @@ export interface GroupView extends GroupSummary {
 	members: MemberView[];
 }
 
-/** The user's role in the group; NotFoundError when not a member, ForbiddenError when not lead enough. */
-export async function requireGroupRole(
-	database: Database,
-	userId: string,
-	groupId: string,
-	needed: GroupRole | null = null,
-	transaction?: Transaction
-): Promise<GroupRole> {
-	const row = await database.models.Membership.findOne({ where: { userId, groupId }, transaction });
-	if (!row) throw new NotFoundError('No such group.');
-	const role = row.get('role') as GroupRole;
-	if (needed === 'lead' && role !== 'lead')
-		throw new ForbiddenError('Only a group lead may do this.');
-	return role;
-}
-
-export async function groupsOf(database: Database, userId: string): Promise<GroupSummary[]> {
+/** The groups the actor's account belongs to (none for referees and anonymous callers). */
+export async function groupsOf(database: Database, actor: Actor): Promise<GroupSummary[]> {
+	if (!isAccount(actor)) return [];
 	const { Group, Membership } = database.models;
-	const memberships = await Membership.findAll({ where: { userId } });
+	const memberships = await Membership.findAll({ where: { userId: actor.userId } });
 	const roles = new Map(
 		memberships.map((m) => [m.get('groupId') as string, m.get('role') as GroupRole])
 	);
@@ -67,9 +55,10 @@ export async function groupsOf(database: Database, userId: string): Promise<Grou
 /** Starts a group with its creator as lead; the creator's address must be confirmed. */
 export async function createGroup(
 	database: Database,
-	userId: string,
+	actor: Actor,
 	name: string
 ): Promise<GroupSummary> {
+	const { userId } = await requireService(database, actor, 'create-group');
 	const trimmed = name.trim();
 	if (trimmed.length < 2 || trimmed.length > 120)
 		throw new FieldError('name', 'Use 2 to 120 characters.');
@@ -100,10 +89,10 @@ export async function createGroup(
 
 export async function getGroup(
 	database: Database,
-	userId: string,
+	actor: Actor,
 	groupId: string
 ): Promise<GroupView> {
-	const role = await requireGroupRole(database, userId, groupId);
+	const role = await requireGroup(database, actor, groupId, 'read');
 	const { Group, Membership, User } = database.models;
 	const group = (await Group.findByPk(groupId))!;
 	const memberships = await Membership.findAll({
@@ -158,14 +147,15 @@ async function targetMembership(
 
 export async function changeMemberRole(
 	database: Database,
-	actorId: string,
+	actor: Actor,
 	groupId: string,
 	memberId: string,
 	role: GroupRole
 ): Promise<void> {
 	if (!GROUP_ROLES.includes(role)) throw new FieldError('role', 'Choose lead or author.');
 	await database.sequelize.transaction(async (transaction) => {
-		await requireGroupRole(database, actorId, groupId, 'lead', transaction);
+		await requireGroup(database, actor, groupId, 'manage', transaction);
+		const actorId = accountIdOf(actor);
 		const membership = await targetMembership(database, groupId, memberId, transaction);
 		const previous = membership.get('role') as GroupRole;
 		if (previous === role) return;
@@ -190,12 +180,13 @@ export async function changeMemberRole(
 
 export async function removeMember(
 	database: Database,
-	actorId: string,
+	actor: Actor,
 	groupId: string,
 	memberId: string
 ): Promise<void> {
 	await database.sequelize.transaction(async (transaction) => {
-		await requireGroupRole(database, actorId, groupId, 'lead', transaction);
+		await requireGroup(database, actor, groupId, 'manage', transaction);
+		const actorId = accountIdOf(actor);
 		const membership = await targetMembership(database, groupId, memberId, transaction);
 		const role = membership.get('role') as GroupRole;
 		if (role === 'lead')

@@ -2,6 +2,8 @@
  * Invitations, the invitee's side: what a link stands for, and using it. A link works once
  * within 7 days, and only for a signed-in user with the invited address.
  */
+import type { Actor } from '../access/actor';
+import { requireService } from '../access/permissions';
 import type { Database } from '../db';
 import type { GroupRole } from '../db/models/Membership';
 import { audit } from './audit';
@@ -52,9 +54,10 @@ export async function findInvitation(
  */
 export async function acceptInvitation(
 	database: Database,
-	userId: string,
+	actor: Actor,
 	token: string
 ): Promise<{ groupId: string; role: GroupRole }> {
+	const { userId } = await requireService(database, actor, 'join-group');
 	const { Invitation, Membership, User } = database.models;
 	return database.sequelize.transaction(async (transaction) => {
 		const row = await Invitation.findOne({ where: { tokenHash: hashSecret(token) }, transaction });

@@ -3,6 +3,8 @@
  * (stored as SHA-256) works once within 7 days (see invitation-links.ts for the invitee's side).
  */
 import { Op } from 'sequelize';
+import { accountIdOf, type Actor } from '../access/actor';
+import { requireGroup } from '../access/permissions';
 import type { Database } from '../db';
 import type { GroupRole } from '../db/models/Membership';
 import { mailLink, sendTemplate, type Mailer } from '../mail';
@@ -10,7 +12,7 @@ import { normaliseEmail } from './accounts';
 import { audit } from './audit';
 import { NotFoundError } from './errors';
 import { FieldError } from './field-error';
-import { GROUP_ROLES, requireGroupRole } from './groups';
+import { GROUP_ROLES } from './groups';
 import { newId, newSecret } from './ids';
 
 export const INVITATION_TTL_MS = 7 * 24 * 60 * 60 * 1000;
@@ -27,7 +29,7 @@ export interface InvitationView {
 export async function inviteMember(
 	database: Database,
 	mailer: Mailer,
-	actorId: string,
+	actor: Actor,
 	groupId: string,
 	input: { email: string; role: GroupRole }
 ): Promise<{ invitationId: string }> {
@@ -36,7 +38,8 @@ export async function inviteMember(
 	const { Group, Invitation, Membership, User } = database.models;
 	const { id, token, groupName, inviter } = await database.sequelize.transaction(
 		async (transaction) => {
-			await requireGroupRole(database, actorId, groupId, 'lead', transaction);
+			await requireGroup(database, actor, groupId, 'manage', transaction);
+			const actorId = accountIdOf(actor)!;
 			const existing = await User.findOne({ where: { email }, transaction });
 			if (
 				existing &&
@@ -88,10 +91,10 @@ export async function inviteMember(
 /** Open (not accepted, not expired) invitations of a group; leads only. */
 export async function listInvitations(
 	database: Database,
-	actorId: string,
+	actor: Actor,
 	groupId: string
 ): Promise<InvitationView[]> {
-	await requireGroupRole(database, actorId, groupId, 'lead');
+	await requireGroup(database, actor, groupId, 'manage');
 	const { Invitation, User } = database.models;
 	const rows = await Invitation.findAll({
 		where: { groupId, acceptedAt: null, expiresAt: { [Op.gt]: new Date() } },
@@ -119,12 +122,13 @@ export async function listInvitations(
 
 export async function revokeInvitation(
 	database: Database,
-	actorId: string,
+	actor: Actor,
 	groupId: string,
 	invitationId: string
 ): Promise<void> {
 	await database.sequelize.transaction(async (transaction) => {
-		await requireGroupRole(database, actorId, groupId, 'lead', transaction);
+		await requireGroup(database, actor, groupId, 'manage', transaction);
+		const actorId = accountIdOf(actor);
 		const removed = await database.models.Invitation.destroy({
 			where: { id: invitationId, groupId, acceptedAt: null },
 			transaction

@@ -1,6 +1,7 @@
 /** The local mail catcher's messages, for admins (the outbox pages). */
+import type { Actor } from '../access/actor';
+import { requireService } from '../access/permissions';
 import type { Database } from '../db';
-import { requireAdmin } from './account-roles';
 import { NotFoundError } from './errors';
 
 export interface OutboxItem {
@@ -19,10 +20,10 @@ export const OUTBOX_PAGE_SIZE = 50;
 
 export async function listOutbox(
 	database: Database,
-	actorId: string,
+	actor: Actor,
 	page = 1
 ): Promise<{ items: OutboxItem[]; total: number; page: number; pageSize: number }> {
-	await requireAdmin(database, actorId);
+	await requireService(database, actor, 'read-outbox');
 	const current = Math.max(1, Math.floor(page) || 1);
 	const { rows, count } = await database.models.MailMessage.findAndCountAll({
 		attributes: ['id', 'from', 'to', 'subject', 'createdAt'],
@@ -45,10 +46,10 @@ export async function listOutbox(
 
 export async function getOutboxMessage(
 	database: Database,
-	actorId: string,
+	actor: Actor,
 	id: string
 ): Promise<OutboxMessage> {
-	await requireAdmin(database, actorId);
+	await requireService(database, actor, 'read-outbox');
 	const row = await database.models.MailMessage.findByPk(id);
 	if (!row) throw new NotFoundError('No such message.');
 	const m = row.get({ plain: true });

@@ -1,28 +1,49 @@
 /**
  * API tokens for scripts: `rks_` + 32 random bytes, shown once and stored as SHA-256. A token
- * acts as its user; group leads issue them (product.md), anyone may revoke their own.
+ * acts as its owner on claims (TokenScope); it expires (default 90 days) and is revoked by its
+ * owner, by a password reset and by signing out everywhere. Who may do what: permissions.ts.
  */
-import { Op } from 'sequelize';
+import { Op, type Transaction } from 'sequelize';
 import { z } from 'zod';
-import type { SessionUser } from '../auth';
+import type { Actor, TokenActor } from '../access/actor';
+import { decideToken, requireService } from '../access/permissions';
 import type { Database } from '../db';
 import type { ApiTokenAttributes } from '../db/models/ApiToken';
-import { membershipsOf } from './access';
 import { audit } from './audit';
-import { ForbiddenError, NotFoundError } from './errors';
+import { NotFoundError } from './errors';
 import { hashSecret, newId, newSecret } from './ids';
 
 export const TOKEN_PREFIX = 'rks_';
+export const TOKEN_DEFAULT_DAYS = 90;
+export const TOKEN_MAX_DAYS = 365;
+const DAY_MS = 24 * 60 * 60 * 1000;
 /** lastUsedAt is refreshed at most this often, so that busy scripts do not write on every call. */
 const LAST_USED_RESOLUTION_MS = 60_000;
 
-export const tokenNameSchema = z.object({
+export const tokenInputSchema = z.object({
 	name: z
 		.string({ error: 'Name the token.' })
 		.trim()
 		.min(1, 'Name the token.')
-		.max(80, 'Keep the name under 80 characters.')
+		.max(80, 'Keep the name under 80 characters.'),
+	/** Whole days until it is refused, or 'never'. */
+	expiresInDays: z
+		.union([
+			z.literal('never'),
+			z.coerce
+				.number({ error: 'Give the days until it expires.' })
+				.int('Give whole days.')
+				.min(1, 'At least 1 day.')
+				.max(TOKEN_MAX_DAYS, `At most ${TOKEN_MAX_DAYS} days, or “never”.`)
+		])
+		.default(TOKEN_DEFAULT_DAYS)
 });
+
+/** A name, and the days until it expires (a number or its text, or 'never'; default 90). */
+export interface TokenInput {
+	name: string;
+	expiresInDays?: number | string;
+}
 
 export interface TokenView {
 	id: string;
@@ -31,6 +52,7 @@ export interface TokenView {
 	createdAt: string;
 	lastUsedAt: string | null;
 	revokedAt: string | null;
+	expiresAt: string | null;
 }
 
 const isoOrNull = (value: Date | null | undefined) =>
@@ -42,28 +64,33 @@ const view = (t: ApiTokenAttributes): TokenView => ({
 	prefix: t.prefix,
 	createdAt: new Date(t.createdAt ?? 0).toISOString(),
 	lastUsedAt: isoOrNull(t.lastUsedAt),
-	revokedAt: isoOrNull(t.revokedAt)
+	revokedAt: isoOrNull(t.revokedAt),
+	expiresAt: isoOrNull(t.expiresAt)
 });
 
-/** Whether the user may issue tokens: a lead or author of at least one group (issue 3). */
-export async function mayIssueTokens(database: Database, userId: string): Promise<boolean> {
-	return (await membershipsOf(database, userId)).size > 0;
+/** Whether the actor may issue tokens: a signed-in editor, or a lead or author of a group. */
+export async function mayIssueTokens(database: Database, actor: Actor): Promise<boolean> {
+	return requireService(database, actor, 'issue-token').then(
+		() => true,
+		() => false
+	);
 }
 
 /** Issues a token; the returned `token` is the only time the secret is seen. */
 export async function createToken(
 	database: Database,
-	userId: string,
-	name: string
+	actor: Actor,
+	input: TokenInput
 ): Promise<TokenView & { token: string }> {
-	if (!(await mayIssueTokens(database, userId)))
-		throw new ForbiddenError('Only members of a group issue API tokens.');
-	const { name: cleanName } = tokenNameSchema.parse({ name });
+	const { userId } = await requireService(database, actor, 'issue-token');
+	const { name, expiresInDays } = tokenInputSchema.parse(input);
+	const expiresAt =
+		expiresInDays === 'never' ? null : new Date(Date.now() + expiresInDays * DAY_MS);
 	const { token, hash } = newSecret(TOKEN_PREFIX);
 	const id = newId();
 	await database.sequelize.transaction(async (transaction) => {
 		await database.models.ApiToken.create(
-			{ id, userId, name: cleanName, prefix: token.slice(0, 12), tokenHash: hash },
+			{ id, userId, name, prefix: token.slice(0, 12), tokenHash: hash, expiresAt },
 			{ transaction }
 		);
 		await audit(
@@ -73,7 +100,7 @@ export async function createToken(
 				action: 'token.created',
 				subjectType: 'api_token',
 				subjectId: id,
-				details: { name: cleanName }
+				details: { name, expiresAt: expiresAt?.toISOString() ?? null }
 			},
 			transaction
 		);
@@ -82,8 +109,9 @@ export async function createToken(
 	return { ...view(row), token };
 }
 
-/** The user's tokens, newest first, revoked ones included. */
-export async function listTokens(database: Database, userId: string): Promise<TokenView[]> {
+/** The actor's own tokens, newest first, revoked and expired ones included. */
+export async function listTokens(database: Database, actor: Actor): Promise<TokenView[]> {
+	const { userId } = await requireService(database, actor, 'manage-tokens');
 	const rows = await database.models.ApiToken.findAll({
 		where: { userId },
 		order: [['createdAt', 'DESC']]
@@ -91,14 +119,16 @@ export async function listTokens(database: Database, userId: string): Promise<To
 	return rows.map((r) => view(r.get({ plain: true })));
 }
 
-/** Revokes one of the user's own tokens (again: no-op); NotFoundError for anyone else's. */
+/** Revokes one of the actor's own tokens (again: no-op); NotFoundError for anyone else's. */
 export async function revokeToken(
 	database: Database,
-	userId: string,
+	actor: Actor,
 	tokenId: string
 ): Promise<void> {
-	const row = await database.models.ApiToken.findOne({ where: { id: tokenId, userId } });
-	if (!row) throw new NotFoundError('No such token.');
+	const { userId } = await requireService(database, actor, 'manage-tokens');
+	const row = await database.models.ApiToken.findByPk(tokenId);
+	if (!row || decideToken(actor, row.get({ plain: true })) !== 'allowed')
+		throw new NotFoundError('No such token.');
 	if (row.get('revokedAt')) return;
 	await database.sequelize.transaction(async (transaction) => {
 		await row.update({ revokedAt: new Date() }, { transaction });
@@ -110,26 +140,55 @@ export async function revokeToken(
 	});
 }
 
-/** The user a bearer token acts for, or null for an unknown or revoked token. */
-export async function authenticate(database: Database, token: string): Promise<SessionUser | null> {
+/**
+ * Revokes every live token of the account: after a password reset or "sign out everywhere",
+ * which the account's own mail describes as ending every way in.
+ */
+export async function revokeAllTokens(
+	database: Database,
+	userId: string,
+	reason: 'password-reset' | 'signed-out-everywhere',
+	transaction?: Transaction
+): Promise<number> {
+	const [revoked] = await database.models.ApiToken.update(
+		{ revokedAt: new Date() },
+		{ where: { userId, revokedAt: { [Op.is]: null } }, transaction }
+	);
+	if (revoked > 0) {
+		const entry = { actorId: userId, action: 'token.revoked-all', subjectType: 'user' };
+		await audit(
+			database,
+			{ ...entry, subjectId: userId, details: { reason, revoked } },
+			transaction
+		);
+	}
+	return revoked;
+}
+
+/** The caller a bearer token stands for, or null for an unknown, revoked or expired token. */
+export async function authenticate(database: Database, token: string): Promise<TokenActor | null> {
 	if (!token.startsWith(TOKEN_PREFIX)) return null;
 	const { ApiToken, User } = database.models;
+	const now = new Date();
 	const row = await ApiToken.findOne({
-		where: { tokenHash: hashSecret(token), revokedAt: { [Op.is]: null } }
+		where: {
+			tokenHash: hashSecret(token),
+			revokedAt: { [Op.is]: null },
+			[Op.or]: [{ expiresAt: { [Op.is]: null } }, { expiresAt: { [Op.gt]: now } }]
+		}
 	});
 	if (!row) return null;
 	const record = row.get({ plain: true });
 	const user = (await User.findByPk(record.userId))?.get({ plain: true });
 	if (!user) return null;
-	const now = Date.now();
-	if (!record.lastUsedAt || now - new Date(record.lastUsedAt).getTime() > LAST_USED_RESOLUTION_MS) {
-		await row.update({ lastUsedAt: new Date(now) });
-	}
+	const lastUsed = record.lastUsedAt ? new Date(record.lastUsedAt).getTime() : 0;
+	if (now.getTime() - lastUsed > LAST_USED_RESOLUTION_MS) await row.update({ lastUsedAt: now });
 	return {
-		id: user.id,
-		email: user.email,
-		name: user.name,
+		kind: 'token',
+		userId: user.id,
 		accountRole: user.accountRole,
-		emailVerified: user.emailVerifiedAt !== null
+		emailVerified: user.emailVerifiedAt !== null,
+		tokenId: record.id,
+		scope: 'claims'
 	};
 }

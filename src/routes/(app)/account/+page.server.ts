@@ -1,6 +1,6 @@
 import { redirect } from '@sveltejs/kit';
 import { app } from '$lib/server/app';
-import { clearSessionCookie, requireUser } from '$lib/server/auth-web';
+import { clearSessionCookie, requireSignedIn } from '$lib/server/auth-web';
 import { resendVerification, signOut, signOutEverywhere } from '$lib/server/services/accounts';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -8,9 +8,9 @@ export const load: PageServerLoad = ({ url }) => ({ sent: url.searchParams.has('
 
 export const actions: Actions = {
 	resend: async ({ locals, url }) => {
-		const user = requireUser(locals, url);
+		const actor = requireSignedIn(locals, url);
 		const { database, mailer } = await app();
-		await resendVerification(database, mailer, user.id);
+		await resendVerification(database, mailer, actor);
 		redirect(303, '/account?sent=1');
 	},
 	signout: async ({ locals, cookies }) => {
@@ -20,9 +20,9 @@ export const actions: Actions = {
 		redirect(303, '/login');
 	},
 	signoutEverywhere: async ({ locals, cookies, url }) => {
-		const user = requireUser(locals, url);
-		const { lucia } = await app();
-		await signOutEverywhere(lucia, user.id);
+		const actor = requireSignedIn(locals, url);
+		const { database, lucia } = await app();
+		await signOutEverywhere(database, lucia, actor);
 		clearSessionCookie(lucia, cookies);
 		redirect(303, '/login');
 	}

@@ -1,13 +1,13 @@
 import { claimQuerySchema } from '$lib/claims/schema';
 import { app } from '$lib/server/app';
-import { requireUser } from '$lib/server/auth-web';
+import { requireSignedIn } from '$lib/server/auth-web';
 import { listClaims } from '$lib/server/services/claims';
 import { firstOrder, DEFAULT_SORT, type ListQuery } from './query';
 import type { PageServerLoad } from './$types';
 
 /** The first page as the server sees it, so the list shows without JavaScript too. */
 export const load: PageServerLoad = async ({ locals, url }) => {
-	const user = requireUser(locals, url);
+	const actor = requireSignedIn(locals, url);
 	const parsed = claimQuerySchema.safeParse(Object.fromEntries(url.searchParams));
 	const asked = parsed.success ? parsed.data : {};
 	const sort = asked.sort ?? DEFAULT_SORT;
@@ -18,5 +18,5 @@ export const load: PageServerLoad = async ({ locals, url }) => {
 		page: asked.page ?? 1
 	};
 	const { database } = await app();
-	return { query, listing: await listClaims(database, user.id, query) };
+	return { query, listing: await listClaims(database, actor, query) };
 };

@@ -1,7 +1,8 @@
-import { fail, redirect } from '@sveltejs/kit';
+import { redirect } from '@sveltejs/kit';
 import { formFields, groupNameForm } from '$lib/server/account-forms';
 import { app } from '$lib/server/app';
-import { echoValues, fieldErrors, requireUser, serviceProblem } from '$lib/server/auth-web';
+import { echoValues, requireSignedIn } from '$lib/server/auth-web';
+import { formFailure } from '$lib/server/problems';
 import { createGroup } from '$lib/server/services/groups';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -9,17 +10,17 @@ export const load: PageServerLoad = ({ url }) => ({ verified: url.searchParams.h
 
 export const actions: Actions = {
 	create: async ({ locals, request, url }) => {
-		const user = requireUser(locals, url);
+		const actor = requireSignedIn(locals, url);
 		const form = await request.formData();
 		const values = echoValues(form, ['name']);
 		const parsed = groupNameForm.safeParse(formFields(form));
-		if (!parsed.success) return fail(400, { errors: fieldErrors(parsed.error), values });
+		if (!parsed.success) return formFailure('create', parsed.error, values);
 		const { database } = await app();
 		let groupId: string;
 		try {
-			({ id: groupId } = await createGroup(database, user.id, parsed.data.name));
+			({ id: groupId } = await createGroup(database, actor, parsed.data.name));
 		} catch (problem) {
-			return fail(400, { errors: serviceProblem(problem), values });
+			return formFailure('create', problem, values);
 		}
 		redirect(303, `/group/${groupId}`);
 	}

@@ -1,8 +1,10 @@
-import { fail, redirect } from '@sveltejs/kit';
+import { redirect } from '@sveltejs/kit';
 import { signInForm, formFields } from '$lib/server/account-forms';
 import { app } from '$lib/server/app';
-import { echoValues, fieldErrors, safeNext, startSession } from '$lib/server/auth-web';
+import { echoValues, safeNext, startSession } from '$lib/server/auth-web';
+import { formFailure } from '$lib/server/problems';
 import { signIn } from '$lib/server/services/accounts';
+import { FieldError } from '$lib/server/services/errors';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = ({ locals, url }) => {
@@ -21,14 +23,12 @@ export const actions: Actions = {
 		const form = await request.formData();
 		const values = echoValues(form, ['email']);
 		const parsed = signInForm.safeParse(formFields(form));
-		if (!parsed.success) return fail(400, { errors: fieldErrors(parsed.error), values });
+		if (!parsed.success) return formFailure('login', parsed.error, values);
 		const { database, lucia } = await app();
 		const account = await signIn(database, parsed.data.email, parsed.data.password);
 		if (!account) {
-			return fail(400, {
-				errors: { '': 'That address and password do not match an account.' },
-				values
-			});
+			const mismatch = new FieldError('', 'That address and password do not match an account.');
+			return formFailure('login', mismatch, values);
 		}
 		await startSession(lucia, cookies, account.userId);
 		redirect(303, safeNext(form.get('next') as string | null));

@@ -1,7 +1,8 @@
-import { fail, redirect } from '@sveltejs/kit';
+import { redirect } from '@sveltejs/kit';
 import { formFields, resetRequestForm } from '$lib/server/account-forms';
 import { app } from '$lib/server/app';
-import { echoValues, fieldErrors } from '$lib/server/auth-web';
+import { echoValues } from '$lib/server/auth-web';
+import { formFailure } from '$lib/server/problems';
 import { requestPasswordReset } from '$lib/server/services/accounts';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -12,7 +13,7 @@ export const actions: Actions = {
 		const form = await request.formData();
 		const values = echoValues(form, ['email']);
 		const parsed = resetRequestForm.safeParse(formFields(form));
-		if (!parsed.success) return fail(400, { errors: fieldErrors(parsed.error), values });
+		if (!parsed.success) return formFailure('request', parsed.error, values);
 		const { database, mailer } = await app();
 		await requestPasswordReset(database, mailer, parsed.data.email);
 		// The same answer whether or not the address has an account.

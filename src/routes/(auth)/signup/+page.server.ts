@@ -1,13 +1,8 @@
-import { fail, redirect } from '@sveltejs/kit';
+import { redirect } from '@sveltejs/kit';
 import { formFields, signUpForm } from '$lib/server/account-forms';
 import { app } from '$lib/server/app';
-import {
-	echoValues,
-	fieldErrors,
-	safeNext,
-	serviceProblem,
-	startSession
-} from '$lib/server/auth-web';
+import { echoValues, safeNext, startSession } from '$lib/server/auth-web';
+import { formFailure } from '$lib/server/problems';
 import { signUp } from '$lib/server/services/accounts';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -22,13 +17,13 @@ export const actions: Actions = {
 		const form = await request.formData();
 		const values = echoValues(form, ['name', 'email']);
 		const parsed = signUpForm.safeParse(formFields(form));
-		if (!parsed.success) return fail(400, { errors: fieldErrors(parsed.error), values });
+		if (!parsed.success) return formFailure('signup', parsed.error, values);
 		const { database, lucia, mailer } = await app();
 		let userId: string;
 		try {
 			({ userId } = await signUp(database, mailer, parsed.data));
 		} catch (problem) {
-			return fail(400, { errors: serviceProblem(problem), values });
+			return formFailure('signup', problem, values);
 		}
 		await startSession(lucia, cookies, userId);
 		redirect(303, safeNext(form.get('next') as string | null, '/group'));

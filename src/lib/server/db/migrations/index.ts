@@ -1,10 +1,12 @@
 /** Numbered migrations in order; listed by hand so that bundling keeps them. */
 import * as initial from './0001-initial';
 import * as fourierConvention from './0002-fourier-convention';
+import * as tokenExpiry from './0003-token-expiry';
 import * as certificates from './0005-certificates';
 
 export const migrations = [
 	{ name: '0001-initial', ...initial },
 	{ name: '0002-fourier-convention', ...fourierConvention },
+	{ name: '0003-token-expiry', ...tokenExpiry },
 	{ name: '0005-certificates', ...certificates }
 ];

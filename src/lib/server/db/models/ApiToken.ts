@@ -1,6 +1,6 @@
 import { DataTypes, type Model, type ModelStatic, type Sequelize } from 'sequelize';
 
-/** A bearer token for scripts: shown once, stored as SHA-256, revocable. Acts as its user. */
+/** A bearer token for scripts: shown once, stored as SHA-256, revocable, optionally expiring. Acts as its user. */
 export interface ApiTokenAttributes {
 	id: string;
 	userId: string;
@@ -10,6 +10,8 @@ export interface ApiTokenAttributes {
 	tokenHash: string;
 	lastUsedAt: Date | null;
 	revokedAt: Date | null;
+	/** After this moment the token is refused; null: it never expires. */
+	expiresAt: Date | null;
 	createdAt?: Date;
 	updatedAt?: Date;
 }
@@ -17,7 +19,7 @@ export interface ApiTokenAttributes {
 export type ApiTokenModel = ModelStatic<
 	Model<
 		ApiTokenAttributes,
-		Omit<ApiTokenAttributes, 'lastUsedAt' | 'revokedAt'> & Partial<ApiTokenAttributes>
+		Omit<ApiTokenAttributes, 'lastUsedAt' | 'revokedAt' | 'expiresAt'> & Partial<ApiTokenAttributes>
 	>
 >;
 
@@ -31,7 +33,8 @@ export function defineApiToken(sequelize: Sequelize): ApiTokenModel {
 			prefix: { type: DataTypes.STRING, allowNull: false },
 			tokenHash: { type: DataTypes.STRING, allowNull: false, unique: true },
 			lastUsedAt: { type: DataTypes.DATE, allowNull: true },
-			revokedAt: { type: DataTypes.DATE, allowNull: true }
+			revokedAt: { type: DataTypes.DATE, allowNull: true },
+			expiresAt: { type: DataTypes.DATE, allowNull: true }
 		},
 		{ tableName: 'api_tokens', underscored: true }
 	);

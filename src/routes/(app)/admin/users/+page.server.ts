@@ -1,31 +1,29 @@
-import { fail, redirect } from '@sveltejs/kit';
+import { redirect } from '@sveltejs/kit';
 import { accountRoleForm, formFields } from '$lib/server/account-forms';
 import { app } from '$lib/server/app';
-import { fieldErrors, requireUser, serviceProblem } from '$lib/server/auth-web';
+import { echoValues, requireSignedIn } from '$lib/server/auth-web';
+import { formFailure, pageProblem } from '$lib/server/problems';
 import { listUsers, setAccountRole } from '$lib/server/services/account-roles';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, url }) => {
-	const user = requireUser(locals, url);
+	const actor = requireSignedIn(locals, url);
 	const { database } = await app();
-	try {
-		return { users: await listUsers(database, user.id) };
-	} catch (problem) {
-		serviceProblem(problem);
-		throw problem;
-	}
+	return { users: await listUsers(database, actor).catch(pageProblem) };
 };
 
 export const actions: Actions = {
 	role: async ({ locals, request, url }) => {
-		const user = requireUser(locals, url);
-		const parsed = accountRoleForm.safeParse(formFields(await request.formData()));
-		if (!parsed.success) return fail(400, { errors: fieldErrors(parsed.error), userId: null });
+		const actor = requireSignedIn(locals, url);
+		const form = await request.formData();
+		const values = echoValues(form, ['userId', 'role']);
+		const parsed = accountRoleForm.safeParse(formFields(form));
+		if (!parsed.success) return formFailure('role', parsed.error, values);
 		const { database } = await app();
 		try {
-			await setAccountRole(database, user.id, parsed.data.userId, parsed.data.role);
+			await setAccountRole(database, actor, parsed.data.userId, parsed.data.role);
 		} catch (problem) {
-			return fail(400, { errors: serviceProblem(problem), userId: parsed.data.userId });
+			return formFailure('role', problem, values);
 		}
 		redirect(303, '/admin/users');
 	}

@@ -1,25 +1,25 @@
-import { error, fail, redirect } from '@sveltejs/kit';
-import { InputError, MAX_COUNTS_FILE_BYTES } from '$lib/certify';
+import { redirect } from '@sveltejs/kit';
+import { MAX_COUNTS_FILE_BYTES } from '$lib/certify';
 import { checkRequestSchema } from '$lib/claims/schema';
 import { app } from '$lib/server/app';
-import { echoValues, fieldErrors, requireUser } from '$lib/server/auth-web';
+import { echoValues, requireSignedIn } from '$lib/server/auth-web';
+import { formFailure, pageProblem } from '$lib/server/problems';
 import { startCheck, listChecks } from '$lib/server/services/checks';
 import { getClaim } from '$lib/server/services/claims';
 import { addDataset, datasetTables, listDatasets } from '$lib/server/services/datasets';
-import { NotFoundError } from '$lib/server/services/errors';
+import { FieldError } from '$lib/server/services/errors';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, params, url }) => {
-	const user = requireUser(locals, url);
+	const actor = requireSignedIn(locals, url);
 	const { database } = await app();
-	const claim = await getClaim(database, user.id, params.id);
-	if (!claim) error(404, 'No such claim.');
+	const claim = await getClaim(database, actor, params.id).catch(pageProblem);
 	const [datasets, checks] = await Promise.all([
-		listDatasets(database, user.id, claim.id),
-		listChecks(database, user.id, claim.id)
-	]);
+		listDatasets(database, actor, claim.id),
+		listChecks(database, actor, claim.id)
+	]).catch(pageProblem);
 	const shown = datasets.find((d) => d.id === url.searchParams.get('dataset')) ?? datasets[0];
-	const tables = shown ? await datasetTables(database, user.id, shown.id) : null;
+	const tables = shown ? await datasetTables(database, actor, shown.id).catch(pageProblem) : null;
 	return {
 		claim,
 		datasets,
@@ -38,46 +38,34 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 	};
 };
 
-const uploadFailure = (message: string, fileName: string | null, line?: number, column?: number) =>
-	fail(400, {
-		uploadError: {
-			// The line is shown on its own, so the message need not repeat it.
-			message: message.replace(/^line \d+(, column \d+)?: /, ''),
-			line: line ?? null,
-			column: column ?? null,
-			fileName
-		}
-	});
-
 export const actions: Actions = {
 	upload: async ({ request, locals, params, url }) => {
-		const user = requireUser(locals, url);
+		const actor = requireSignedIn(locals, url);
 		const file = (await request.formData()).get('counts');
+		// The file's name is the one value worth echoing: the page says which file was refused.
+		const values: Record<string, string> = file instanceof File ? { counts: file.name } : {};
 		if (!(file instanceof File) || file.size === 0) {
-			return uploadFailure('Choose a counts file (CSV or JSON) to upload.', null);
+			const missing = new FieldError('counts', 'Choose a counts file (CSV or JSON) to upload.');
+			return formFailure('upload', missing, values);
 		}
 		if (file.size > MAX_COUNTS_FILE_BYTES) {
-			return uploadFailure(`The file is ${file.size} bytes; the limit is 20 MiB.`, file.name);
+			const limit = `The file is ${file.size} bytes; the limit is 20 MiB.`;
+			return formFailure('upload', new FieldError('counts', limit), values);
 		}
 		const { database } = await app();
 		let datasetId: string;
 		try {
 			const bytes = new Uint8Array(await file.arrayBuffer());
-			datasetId = (
-				await addDataset(database, user.id, params.id, { bytes, originalName: file.name })
-			).id;
+			const upload = { bytes, originalName: file.name };
+			datasetId = (await addDataset(database, actor, params.id, upload)).id;
 		} catch (problem) {
-			if (problem instanceof InputError) {
-				return uploadFailure(problem.message, file.name, problem.line, problem.column);
-			}
-			if (problem instanceof NotFoundError) error(404, 'No such claim.');
-			throw problem;
+			return formFailure('upload', problem, values);
 		}
 		redirect(303, `/claims/${params.id}?dataset=${datasetId}#preview`);
 	},
 
 	check: async ({ request, locals, params, url }) => {
-		const user = requireUser(locals, url);
+		const actor = requireSignedIn(locals, url);
 		const values = echoValues(await request.formData(), [
 			'datasetId',
 			'resamples',
@@ -85,19 +73,13 @@ export const actions: Actions = {
 			'seed'
 		]);
 		const parsed = checkRequestSchema.safeParse(values);
-		if (!parsed.success) {
-			return fail(400, { checkErrors: fieldErrors(parsed.error), checkValues: values });
-		}
+		if (!parsed.success) return formFailure('check', parsed.error, values);
 		const { database } = await app();
 		let checkId: string;
 		try {
-			checkId = (await startCheck(database, user.id, params.id, parsed.data)).id;
+			checkId = (await startCheck(database, actor, params.id, parsed.data)).id;
 		} catch (problem) {
-			if (problem instanceof InputError) {
-				return fail(400, { checkErrors: { '': problem.message }, checkValues: values });
-			}
-			if (problem instanceof NotFoundError) error(404, problem.message);
-			throw problem;
+			return formFailure('check', problem, values);
 		}
 		redirect(303, `/claims/${params.id}/checks/${checkId}`);
 	}

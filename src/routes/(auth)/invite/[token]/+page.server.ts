@@ -1,6 +1,7 @@
-import { error, fail, redirect } from '@sveltejs/kit';
+import { error, redirect } from '@sveltejs/kit';
 import { app } from '$lib/server/app';
-import { clearSessionCookie, loginPath, serviceProblem } from '$lib/server/auth-web';
+import { clearSessionCookie, requireSignedIn } from '$lib/server/auth-web';
+import { formFailure } from '$lib/server/problems';
 import { signOut } from '$lib/server/services/accounts';
 import { acceptInvitation, findInvitation } from '$lib/server/services/invitation-links';
 import type { Actions, PageServerLoad } from './$types';
@@ -20,13 +21,13 @@ export const load: PageServerLoad = async ({ params, locals }) => {
 
 export const actions: Actions = {
 	accept: async ({ params, locals, url }) => {
-		if (!locals.user) redirect(303, loginPath(url));
+		const actor = requireSignedIn(locals, url);
 		const { database } = await app();
 		let groupId: string;
 		try {
-			({ groupId } = await acceptInvitation(database, locals.user.id, params.token));
+			({ groupId } = await acceptInvitation(database, actor, params.token));
 		} catch (problem) {
-			return fail(400, { errors: serviceProblem(problem) });
+			return formFailure('accept', problem);
 		}
 		redirect(303, `/group/${groupId}`);
 	},

@@ -1,7 +1,8 @@
-import { fail, redirect } from '@sveltejs/kit';
+import { redirect } from '@sveltejs/kit';
 import { formFields, newPasswordForm } from '$lib/server/account-forms';
 import { app } from '$lib/server/app';
-import { clearSessionCookie, fieldErrors, serviceProblem } from '$lib/server/auth-web';
+import { clearSessionCookie } from '$lib/server/auth-web';
+import { formFailure } from '$lib/server/problems';
 import { resetLinkState, resetPassword, type LinkResult } from '$lib/server/services/accounts';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -12,17 +13,18 @@ export const load: PageServerLoad = async ({ params }) => {
 };
 
 export const actions: Actions = {
-	reset: async ({ params, request, cookies }) => {
+	reset: async ({ params, request, cookies, url }) => {
 		const parsed = newPasswordForm.safeParse(formFields(await request.formData()));
-		if (!parsed.success) return fail(400, { errors: fieldErrors(parsed.error), reason: null });
+		if (!parsed.success) return formFailure('reset', parsed.error);
 		const { database, lucia, mailer } = await app();
 		let result: LinkResult;
 		try {
 			result = await resetPassword(database, lucia, mailer, params.token, parsed.data.password);
 		} catch (problem) {
-			return fail(400, { errors: serviceProblem(problem), reason: null });
+			return formFailure('reset', problem);
 		}
-		if (!result.ok) return fail(400, { errors: {}, reason: result.reason });
+		// A used or expired link: the page, loaded again, says which.
+		if (!result.ok) redirect(303, url.pathname);
 		// Every session of the account has ended, this browser's included.
 		clearSessionCookie(lucia, cookies);
 		redirect(303, '/login?reset=1');

@@ -1,4 +1,4 @@
-import { fail, redirect } from '@sveltejs/kit';
+import { redirect } from '@sveltejs/kit';
 import { app } from '$lib/server/app';
 import { verificationLinkState, verifyEmail } from '$lib/server/services/accounts';
 import type { Actions, PageServerLoad } from './$types';
@@ -11,10 +11,11 @@ export const load: PageServerLoad = async ({ params }) => {
 };
 
 export const actions: Actions = {
-	confirm: async ({ params, locals }) => {
+	confirm: async ({ params, locals, url }) => {
 		const { database } = await app();
 		const result = await verifyEmail(database, params.token);
-		if (!result.ok) return fail(400, { reason: result.reason });
+		// A used or expired link: the page, loaded again, says which.
+		if (!result.ok) redirect(303, url.pathname);
 		redirect(303, locals.user ? '/group?verified=1' : '/login?verified=1');
 	}
 };

@@ -4,13 +4,13 @@ import { apiEndpoint, readJson } from '$lib/server/api';
 import { createClaim, listClaims } from '$lib/server/services/claims';
 
 /** The claims of the caller's groups: ?q, state, method, sort, order, page, pageSize. */
-export const GET = apiEndpoint(async ({ event, user, database }) => {
+export const GET = apiEndpoint(async ({ event, actor, database }) => {
 	const query = claimQuerySchema.parse(Object.fromEntries(event.url.searchParams));
-	return json(await listClaims(database, user.id, query));
+	return json(await listClaims(database, actor, query));
 });
 
-export const POST = apiEndpoint(async ({ event, user, database }) => {
+export const POST = apiEndpoint(async ({ event, actor, database }) => {
 	const input = await readJson(event.request, claimInputSchema);
-	const claim = await createClaim(database, user.id, input);
+	const claim = await createClaim(database, actor, input);
 	return json(claim, { status: 201, headers: { location: `/api/v1/claims/${claim.id}` } });
 });

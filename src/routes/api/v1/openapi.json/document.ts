@@ -26,7 +26,10 @@ const unauthorised = failure('Neither a session cookie nor a valid bearer token.
 const notFound = failure(
 	'No such thing in the caller’s groups (another group’s ids answer the same).'
 );
-const badRequest = failure('The body or the query fails validation; the message names the fields.');
+const badRequest = failure(
+	'The body or the query fails validation (code bad_input); the message names the fields.'
+);
+const forbidden = failure('Visible to the caller, but not theirs to do (code forbidden).');
 
 export const openApiDocument = {
 	openapi: '3.1.0',
@@ -34,7 +37,7 @@ export const openApiDocument = {
 		title: 'Rankseal API',
 		version: '1.0.0',
 		description:
-			'Claims, counts files and checks of the caller’s groups. Errors are `{ "error": { "code", "message" } }`. ' +
+			'Claims, counts files and checks of the caller’s groups. Errors are `{ "error": { "code", "message", "field"?, "line"?, "column"? } }`. ' +
 			`Counts files are limited to ${MAX_COUNTS_FILE_BYTES} bytes.`
 	},
 	servers: [{ url: '/' }],
@@ -130,8 +133,11 @@ export const openApiDocument = {
 				},
 				responses: {
 					'201': reply('The stored dataset.', 'Dataset'),
-					'400': failure('A bad counts file: code bad_counts, with the line at fault.'),
+					'400': failure(
+						'A bad counts file: code bad_counts, with the line at fault (bad_input without a file).'
+					),
 					'401': unauthorised,
+					'403': forbidden,
 					'404': notFound,
 					'413': failure(`The file exceeds ${MAX_COUNTS_FILE_BYTES} bytes.`),
 					'415': failure('Neither multipart/form-data, text/csv nor application/json.')
@@ -148,7 +154,9 @@ export const openApiDocument = {
 					'202': reply('The queued check; poll its URL (Location header).', 'Check'),
 					'400': badRequest,
 					'401': unauthorised,
-					'404': notFound
+					'403': forbidden,
+					'404': notFound,
+					'409': failure('The claim has no counts file yet (code conflict).')
 				}
 			}
 		},
@@ -158,6 +166,47 @@ export const openApiDocument = {
 				summary: 'Read a check: status, progress and, when done, the result',
 				parameters: [idParameter('check')],
 				responses: { '200': reply('The check.', 'Check'), '401': unauthorised, '404': notFound }
+			}
+		},
+		'/api/v1/tokens': {
+			get: {
+				operationId: 'listTokens',
+				summary: 'List your API tokens, newest first (with a session; tokens do not manage tokens)',
+				security: [{ sessionCookie: [] }],
+				responses: {
+					'200': {
+						description: 'Your tokens, revoked and expired ones included.',
+						content: { 'application/json': { schema: { type: 'array', items: ref('Token') } } }
+					},
+					'401': unauthorised,
+					'403': forbidden
+				}
+			},
+			post: {
+				operationId: 'createToken',
+				summary: 'Issue an API token; its secret is in this answer only',
+				security: [{ sessionCookie: [] }],
+				requestBody: { required: true, content: body('TokenInput') },
+				responses: {
+					'201': reply('The new token with its secret.', 'CreatedToken'),
+					'400': badRequest,
+					'401': unauthorised,
+					'403': forbidden
+				}
+			}
+		},
+		'/api/v1/tokens/{id}': {
+			delete: {
+				operationId: 'revokeToken',
+				summary: 'Revoke one of your tokens',
+				security: [{ sessionCookie: [] }],
+				parameters: [idParameter('token')],
+				responses: {
+					'204': { description: 'Revoked (or already revoked).' },
+					'401': unauthorised,
+					'403': forbidden,
+					'404': notFound
+				}
 			}
 		},
 		'/api/v1/openapi.json': {

@@ -1,6 +1,8 @@
 /** JSON Schemas (OpenAPI 3.1 components) of the API's bodies, kept beside the document. */
 import { DEFAULT_FOURIER, DEFAULTS, FOURIER_CONVENTIONS, METHOD_IDS } from '$lib/certify';
 import { CLAIM_STATES } from '$lib/claims/schema';
+import { PROBLEM_CODES } from '$lib/server/problems';
+import { TOKEN_DEFAULT_DAYS, TOKEN_MAX_DAYS } from '$lib/server/services/tokens';
 
 const ref = (name: string) => ({ $ref: `#/components/schemas/${name}` });
 const text = { type: 'string' };
@@ -27,20 +29,64 @@ export const schemas = {
 				properties: {
 					code: {
 						type: 'string',
-						examples: ['unauthorised', 'not_found', 'bad_request', 'bad_counts', 'too_large']
+						enum: PROBLEM_CODES,
+						description:
+							'bad_input 400 (a field of the body or query), bad_counts 400 (the counts file), ' +
+							'unauthorised 401, forbidden 403 (visible but not yours to do), not_found 404, ' +
+							'conflict 409 (not in a state that allows it, e.g. no counts file yet), too_large 413, ' +
+							'unsupported_media_type 415, rate_limited 429 (see Retry-After).'
 					},
 					message: {
 						type: 'string',
 						description: 'Plain words; for bad input it names the fields or the line.'
 					},
+					field: { ...text, description: 'bad_input only: the field at fault, when one is.' },
 					line: {
-						...nullable(whole),
+						...whole,
 						description: 'bad_counts only: the line of the counts file at fault, when known.'
 					},
-					column: { ...nullable(whole), description: 'bad_counts only: the column, when known.' }
+					column: { ...whole, description: 'bad_counts only: the column, when known.' }
 				}
 			}
 		}
+	},
+	TokenInput: {
+		type: 'object',
+		required: ['name'],
+		properties: {
+			name: { type: 'string', minLength: 1, maxLength: 80 },
+			expiresInDays: {
+				anyOf: [
+					{ type: 'integer', minimum: 1, maximum: TOKEN_MAX_DAYS },
+					{ type: 'string', const: 'never' }
+				],
+				default: TOKEN_DEFAULT_DAYS,
+				description: 'Days until the token is refused, or "never".'
+			}
+		}
+	},
+	Token: {
+		type: 'object',
+		required: ['id', 'name', 'prefix', 'createdAt', 'lastUsedAt', 'revokedAt', 'expiresAt'],
+		properties: {
+			id: text,
+			name: text,
+			prefix: { ...text, description: 'The first characters, to tell tokens apart.' },
+			createdAt: timestamp,
+			lastUsedAt: nullable(timestamp),
+			revokedAt: nullable(timestamp),
+			expiresAt: { ...nullable(timestamp), description: 'null: it never expires.' }
+		}
+	},
+	CreatedToken: {
+		allOf: [
+			ref('Token'),
+			{
+				type: 'object',
+				required: ['token'],
+				properties: { token: { ...text, description: 'rks_…, shown this once.' } }
+			}
+		]
 	},
 	ClaimInput: {
 		type: 'object',

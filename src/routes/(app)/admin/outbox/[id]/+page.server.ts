@@ -1,15 +1,11 @@
 import { app } from '$lib/server/app';
-import { requireUser, serviceProblem } from '$lib/server/auth-web';
+import { requireSignedIn } from '$lib/server/auth-web';
+import { pageProblem } from '$lib/server/problems';
 import { getOutboxMessage } from '$lib/server/services/mail-outbox';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, params, url }) => {
-	const user = requireUser(locals, url);
+	const actor = requireSignedIn(locals, url);
 	const { database } = await app();
-	try {
-		return { message: await getOutboxMessage(database, user.id, params.id) };
-	} catch (problem) {
-		serviceProblem(problem);
-		throw problem;
-	}
+	return { message: await getOutboxMessage(database, actor, params.id).catch(pageProblem) };
 };

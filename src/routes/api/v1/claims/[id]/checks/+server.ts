@@ -4,8 +4,8 @@ import { apiEndpoint, readJson } from '$lib/server/api';
 import { startCheck } from '$lib/server/services/checks';
 
 /** Queues a check; poll GET /api/v1/checks/{id} for progress and the result. */
-export const POST = apiEndpoint(async ({ event, user, database }) => {
+export const POST = apiEndpoint(async ({ event, actor, database }) => {
 	const request = await readJson(event.request, checkRequestSchema);
-	const check = await startCheck(database, user.id, event.params.id!, request);
+	const check = await startCheck(database, actor, event.params.id!, request);
 	return json(check, { status: 202, headers: { location: `/api/v1/checks/${check.id}` } });
 });

@@ -1,0 +1,200 @@
+/**
+ * Every permission in one place: may this actor see or do this to a claim, a group, a token, the
+ * accounts or the outbox. A decision is 'hidden' (answer 404, so ids do not leak), 'denied'
+ * (visible, but not for this actor: 403) or 'allowed'. Services call the require* functions.
+ */
+import { Op, type Transaction, type WhereOptions } from 'sequelize';
+import type { Database } from '../db';
+import type { ClaimAttributes } from '../db/models/Claim';
+import type { GroupRole } from '../db/models/Membership';
+import { ForbiddenError, NotFoundError } from '../services/errors';
+import type { AccountActor, Actor } from './actor';
+
+export type Decision = 'allowed' | 'denied' | 'hidden';
+
+export type ClaimAction = 'read' | 'read-datasets' | 'add-dataset' | 'start-check' | 'file-report';
+export type GroupAction = 'read' | 'create-claim' | 'manage';
+/** Actions on the service itself or on the actor's own account, not on one claim or group. */
+export type ServiceAction =
+	| 'create-group'
+	| 'join-group'
+	| 'own-account'
+	| 'issue-token'
+	| 'manage-tokens'
+	| 'manage-accounts'
+	| 'read-outbox';
+
+/** What each kind of claim viewer may do once the claim is visible to them. */
+const CLAIM_RULES = {
+	member: ['read', 'read-datasets', 'add-dataset', 'start-check'],
+	editor: ['read', 'read-datasets'],
+	referee: ['read', 'start-check', 'file-report']
+} satisfies Record<string, ClaimAction[]>;
+
+const CLAIM_DENIALS: Record<ClaimAction, string> = {
+	read: 'You may not see this claim.',
+	'read-datasets': 'A review link shows the claim and its checks, not its counts files.',
+	'add-dataset': 'Only members of the claim’s group upload counts.',
+	'start-check': 'Only members of the claim’s group start checks.',
+	'file-report': 'Only the referee holding a review link files a report.'
+};
+
+const SERVICE_DENIALS: Record<ServiceAction, string> = {
+	'create-group': 'Sign in to start a group.',
+	'join-group': 'Sign in to join a group.',
+	'own-account': 'Sign in to change your account.',
+	'issue-token': 'Only editors and members of a group issue API tokens.',
+	'manage-tokens': 'Sign in to see or revoke your API tokens.',
+	'manage-accounts': 'Only admins may do this.',
+	'read-outbox': 'Only admins may do this.'
+};
+
+/** The actor's role in the group, from the database as it is now (or in the transaction). */
+export async function roleIn(
+	database: Database,
+	actor: AccountActor,
+	groupId: string,
+	transaction?: Transaction
+): Promise<GroupRole | null> {
+	const row = await database.models.Membership.findOne({
+		where: { userId: actor.userId, groupId },
+		transaction
+	});
+	return (row?.get('role') as GroupRole | undefined) ?? null;
+}
+
+async function groupIdsOf(database: Database, actor: AccountActor): Promise<string[]> {
+	const rows = await database.models.Membership.findAll({ where: { userId: actor.userId } });
+	return rows.map((r) => r.get('groupId') as string);
+}
+
+/** Whether an editor holds a share of this claim. Sharing arrives with issue 9: none exist yet. */
+export async function sharedWith(
+	_database: Database,
+	_actor: AccountActor,
+	_claimId: string
+): Promise<boolean> {
+	return false;
+}
+
+/** Ids of the claims shared with an editor (for lists); the same seam as sharedWith. */
+export async function sharedClaimIds(_database: Database, _actor: AccountActor): Promise<string[]> {
+	return [];
+}
+
+export async function decideClaim(
+	database: Database,
+	actor: Actor,
+	claim: Pick<ClaimAttributes, 'id' | 'groupId'>,
+	action: ClaimAction,
+	transaction?: Transaction
+): Promise<Decision> {
+	const allows = (rules: ClaimAction[]): Decision =>
+		rules.includes(action) ? 'allowed' : 'denied';
+	if (actor.kind === 'anonymous') return 'hidden';
+	if (actor.kind === 'referee')
+		return actor.claimId === claim.id ? allows(CLAIM_RULES.referee) : 'hidden';
+	if (await roleIn(database, actor, claim.groupId, transaction)) return allows(CLAIM_RULES.member);
+	if (actor.accountRole === 'editor' && (await sharedWith(database, actor, claim.id)))
+		return allows(CLAIM_RULES.editor);
+	return 'hidden';
+}
+
+/** The claim's row when the actor may do `action` to it; NotFoundError / ForbiddenError otherwise. */
+export async function requireClaim(
+	database: Database,
+	actor: Actor,
+	claimId: string,
+	action: ClaimAction,
+	transaction?: Transaction
+): Promise<ClaimAttributes> {
+	const row = await database.models.Claim.findByPk(claimId, { transaction });
+	const claim = row?.get({ plain: true }) as ClaimAttributes | undefined;
+	const decision = claim
+		? await decideClaim(database, actor, claim, action, transaction)
+		: 'hidden';
+	if (decision === 'hidden') throw new NotFoundError('No such claim.');
+	if (decision === 'denied') throw new ForbiddenError(CLAIM_DENIALS[action]);
+	return claim!;
+}
+
+/** A filter on claims that keeps exactly those the actor may read (for lists and counts). */
+export async function visibleClaimsWhere(database: Database, actor: Actor): Promise<WhereOptions> {
+	if (actor.kind === 'anonymous') return { id: { [Op.in]: [] } };
+	if (actor.kind === 'referee') return { id: actor.claimId };
+	const groupIds = await groupIdsOf(database, actor);
+	const shared = actor.accountRole === 'editor' ? await sharedClaimIds(database, actor) : [];
+	return {
+		[Op.or]: [{ groupId: { [Op.in]: groupIds } }, { id: { [Op.in]: shared } }]
+	};
+}
+
+export async function decideGroup(
+	database: Database,
+	actor: Actor,
+	groupId: string,
+	action: GroupAction,
+	transaction?: Transaction
+): Promise<{ decision: Decision; role: GroupRole | null }> {
+	if (actor.kind === 'anonymous' || actor.kind === 'referee')
+		return { decision: 'hidden', role: null };
+	const role = await roleIn(database, actor, groupId, transaction);
+	if (!role) return { decision: 'hidden', role };
+	const mayManage = actor.kind === 'user' && role === 'lead';
+	return { decision: action !== 'manage' || mayManage ? 'allowed' : 'denied', role };
+}
+
+/** The actor's role in the group when they may do `action`; NotFoundError / ForbiddenError otherwise. */
+export async function requireGroup(
+	database: Database,
+	actor: Actor,
+	groupId: string,
+	action: GroupAction,
+	transaction?: Transaction
+): Promise<GroupRole> {
+	const { decision, role } = await decideGroup(database, actor, groupId, action, transaction);
+	if (decision === 'hidden') throw new NotFoundError('No such group.');
+	if (decision === 'denied')
+		throw new ForbiddenError(
+			actor.kind === 'token'
+				? 'An API token cannot manage a group.'
+				: 'Only a group lead may do this.'
+		);
+	return role!;
+}
+
+export async function decideService(
+	database: Database,
+	actor: Actor,
+	action: ServiceAction
+): Promise<Decision> {
+	// Tokens act on claims only; accounts, groups and tokens need a person signed in.
+	if (actor.kind !== 'user') return 'denied';
+	if (action === 'manage-accounts' || action === 'read-outbox') {
+		// Re-read: an admin demoted a moment ago must not keep admin powers for the session.
+		const user = await database.models.User.findByPk(actor.userId);
+		return user?.get('accountRole') === 'admin' ? 'allowed' : 'denied';
+	}
+	if (action === 'issue-token')
+		return actor.accountRole === 'editor' || (await groupIdsOf(database, actor)).length > 0
+			? 'allowed'
+			: 'denied';
+	return 'allowed';
+}
+
+/** The signed-in user when they may do `action`; ForbiddenError otherwise. */
+export async function requireService(
+	database: Database,
+	actor: Actor,
+	action: ServiceAction
+): Promise<AccountActor> {
+	if ((await decideService(database, actor, action)) !== 'allowed')
+		throw new ForbiddenError(SERVICE_DENIALS[action]);
+	return actor as AccountActor;
+}
+
+/** A token is seen only by its owner, signed in; anyone else is told it does not exist. */
+export function decideToken(actor: Actor, token: { userId: string }): Decision {
+	if (actor.kind !== 'user') return actor.kind === 'token' ? 'denied' : 'hidden';
+	return token.userId === actor.userId ? 'allowed' : 'hidden';
+}

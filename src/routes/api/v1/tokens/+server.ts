@@ -1,0 +1,14 @@
+import { json } from '@sveltejs/kit';
+import { apiEndpoint, readJson } from '$lib/server/api';
+import { createToken, listTokens, tokenInputSchema } from '$lib/server/services/tokens';
+
+/** The signed-in caller's tokens (a session, not a token: tokens do not manage tokens). */
+export const GET = apiEndpoint(async ({ actor, database }) => {
+	return json(await listTokens(database, actor));
+});
+
+/** Issues a token: `{ name, expiresInDays? }`, 1–365 days or "never", 90 by default. */
+export const POST = apiEndpoint(async ({ event, actor, database }) => {
+	const input = await readJson(event.request, tokenInputSchema);
+	return json(await createToken(database, actor, input), { status: 201 });
+});
