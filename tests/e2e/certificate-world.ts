@@ -29,13 +29,16 @@ export async function addFinishedClaims(
 ): Promise<FinishedClaim[]> {
 	const database = await openDatabase(path.join(dataDir, 'rankseal.sqlite'));
 	const { User, Membership, Claim, Dataset, Check } = database.models;
-	const userId = (await User.findOne({ where: { email: 'ada@example.test' } }))!.get('id') as string;
+	const userId = (await User.findOne({ where: { email: 'ada@example.test' } }))!.get(
+		'id'
+	) as string;
 	const groupId = (await Membership.findOne({ where: { userId } }))!.get('groupId') as string;
 	const made: FinishedClaim[] = [];
 	for (let i = 0; i < count; i++) {
-		const csv = toCountsCsv(sampledCounts(states.isotropic(DIMENSION, 0.9), BASES, 40_000, 31 + i), [
-			'simulated'
-		]);
+		const csv = toCountsCsv(
+			sampledCounts(states.isotropic(DIMENSION, 0.9), BASES, 40_000, 31 + i),
+			['simulated']
+		);
 		const bytes = new TextEncoder().encode(csv);
 		const sha256 = sha256Hex(bytes);
 		const file = path.join(dataDir, 'files', sha256.slice(0, 2), sha256);

@@ -9,14 +9,16 @@ import { createClaim } from '../../src/lib/server/services/claims';
 import { addDataset, datasetFilePath } from '../../src/lib/server/services/datasets';
 import { newId } from '../../src/lib/server/services/ids';
 import { addGroup, addUser, bytesOf, claimFields, countsCsv } from './backend-fixtures';
+import type { UserActor } from '../../src/lib/server/access/actor';
+import { asUser } from './actors';
 import { temporaryDatabase } from './db';
 
 export interface EvidenceWorld {
 	ctx: Awaited<ReturnType<typeof temporaryDatabase>>;
 	database: Database;
-	lead: string;
-	author: string;
-	outsider: string;
+	lead: UserActor;
+	author: UserActor;
+	outsider: UserActor;
 	claimId: string;
 	datasetId: string;
 }
@@ -28,9 +30,9 @@ export async function evidenceWorld(): Promise<EvidenceWorld> {
 	const database = ctx.database;
 	const lake = await addGroup(database, 'Lake optics');
 	const ridge = await addGroup(database, 'Ridge qudits');
-	const lead = await addUser(database, 'Ada Lind', [[lake, 'lead']]);
-	const author = await addUser(database, 'Bo Strand', [[lake, 'author']]);
-	const outsider = await addUser(database, 'Cyd Marsh', [[ridge, 'lead']]);
+	const lead = asUser(await addUser(database, 'Ada Lind', [[lake, 'lead']]));
+	const author = asUser(await addUser(database, 'Bo Strand', [[lake, 'author']]));
+	const outsider = asUser(await addUser(database, 'Cyd Marsh', [[ridge, 'lead']]));
 	const claim = await createClaim(database, author, {
 		...claimFields,
 		manuscriptReference: 'arXiv:2601.00001'
@@ -69,7 +71,7 @@ export async function finishedCheck(
 		id,
 		claimId,
 		datasetId,
-		createdBy: author,
+		createdBy: author.userId,
 		status: 'done',
 		progress: 1,
 		resamples,

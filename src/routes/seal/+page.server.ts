@@ -19,7 +19,13 @@ export const load: PageServerLoad = async ({ url }) => {
 };
 
 const refuse = (status: number, message: string) =>
-	fail(status, { action: 'bundle', errors: { bundle: message }, values: {}, place: null });
+	fail(status, {
+		action: 'bundle',
+		errors: { bundle: message } as Record<string, string>,
+		values: {},
+		place: null,
+		checked: null
+	});
 
 export const actions: Actions = {
 	/** Public: checks an uploaded evidence bundle against the keys this service has published. */
@@ -32,6 +38,7 @@ export const actions: Actions = {
 			return refuse(413, `The file is larger than ${MAX_BUNDLE_BYTES} bytes; no bundle is.`);
 		const { database } = await app();
 		const { report, record } = await checkBundle(database, Buffer.from(await file.arrayBuffer()));
-		return { action: 'bundle', fileName: file.name, report, record };
+		const checked = { fileName: file.name, report, record };
+		return { action: 'bundle', errors: {} as Record<string, string>, checked };
 	}
 };

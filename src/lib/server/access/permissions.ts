@@ -12,7 +12,8 @@ import type { AccountActor, Actor } from './actor';
 
 export type Decision = 'allowed' | 'denied' | 'hidden';
 
-export type ClaimAction = 'read' | 'read-datasets' | 'add-dataset' | 'start-check' | 'file-report';
+export type ClaimAction =
+	'read' | 'read-datasets' | 'add-dataset' | 'start-check' | 'issue-certificate' | 'file-report';
 export type GroupAction = 'read' | 'create-claim' | 'manage';
 /** Actions on the service itself or on the actor's own account, not on one claim or group. */
 export type ServiceAction =
@@ -26,7 +27,7 @@ export type ServiceAction =
 
 /** What each kind of claim viewer may do once the claim is visible to them. */
 const CLAIM_RULES = {
-	member: ['read', 'read-datasets', 'add-dataset', 'start-check'],
+	member: ['read', 'read-datasets', 'add-dataset', 'start-check', 'issue-certificate'],
 	editor: ['read', 'read-datasets'],
 	referee: ['read', 'start-check', 'file-report']
 } satisfies Record<string, ClaimAction[]>;
@@ -36,6 +37,7 @@ const CLAIM_DENIALS: Record<ClaimAction, string> = {
 	'read-datasets': 'A review link shows the claim and its checks, not its counts files.',
 	'add-dataset': 'Only members of the claim’s group upload counts.',
 	'start-check': 'Only members of the claim’s group start checks.',
+	'issue-certificate': 'Only members of the claim’s group issue certificates.',
 	'file-report': 'Only the referee holding a review link files a report.'
 };
 
@@ -116,6 +118,20 @@ export async function requireClaim(
 	if (decision === 'hidden') throw new NotFoundError('No such claim.');
 	if (decision === 'denied') throw new ForbiddenError(CLAIM_DENIALS[action]);
 	return claim!;
+}
+
+/** A certificate is withdrawn by its group's lead or by whoever issued it, signed in in person. */
+export async function requireWithdrawal(
+	database: Database,
+	actor: Actor,
+	certificate: { claimId: string; issuedBy: string | null }
+): Promise<ClaimAttributes> {
+	const claim = await requireClaim(database, actor, certificate.claimId, 'read');
+	const issuer = actor.kind === 'user' && certificate.issuedBy === actor.userId;
+	const lead = actor.kind === 'user' && (await roleIn(database, actor, claim.groupId)) === 'lead';
+	if (!issuer && !lead)
+		throw new ForbiddenError('Only the group lead or the issuer may withdraw a certificate.');
+	return claim;
 }
 
 /** A filter on claims that keeps exactly those the actor may read (for lists and counts). */

@@ -11,7 +11,6 @@ import type { Database } from '../db';
 import type { CertificateAttributes } from '../db/models/Certificate';
 import { publishedKeys } from '../evidence/keys';
 import { readZip, ZipError } from '../evidence/zip-read';
-import { visibleClaim } from './access';
 import { absolute } from './certificate-files';
 import {
 	certificateView,
@@ -19,36 +18,40 @@ import {
 	type CertificateView,
 	type PublicCertificate
 } from './certificate-views';
-import { requireVisibleClaim } from './claims';
+import type { Actor } from '../access/actor';
+import { decideClaim, requireClaim, type ClaimAction } from '../access/permissions';
 import { NotFoundError } from './errors';
 
+/** The row when the caller may do `action` to its claim; a hidden claim hides the certificate. */
 async function visibleCertificate(
 	database: Database,
-	userId: string,
-	id: string
+	caller: Actor,
+	id: string,
+	action: ClaimAction = 'read'
 ): Promise<CertificateAttributes> {
-	const row = await database.models.Certificate.findByPk(id);
-	const certificate = row?.get({ plain: true });
-	if (!certificate || !(await visibleClaim(database, userId, certificate.claimId)))
-		throw new NotFoundError('No such certificate.');
+	const certificate = (await database.models.Certificate.findByPk(id))?.get({ plain: true });
+	if (!certificate) throw new NotFoundError('No such certificate.');
+	await requireClaim(database, caller, certificate.claimId, action).catch((error) => {
+		throw error instanceof NotFoundError ? new NotFoundError('No such certificate.') : error;
+	});
 	return certificate;
 }
 
 export async function getCertificate(
 	database: Database,
-	userId: string,
+	caller: Actor,
 	id: string
 ): Promise<CertificateView> {
-	return certificateView(await visibleCertificate(database, userId, id));
+	return certificateView(await visibleCertificate(database, caller, id));
 }
 
 /** The claim's certificates, newest first. */
 export async function listCertificates(
 	database: Database,
-	userId: string,
+	caller: Actor,
 	claimId: string
 ): Promise<CertificateView[]> {
-	await requireVisibleClaim(database, userId, claimId);
+	await requireClaim(database, caller, claimId, 'read');
 	const rows = await database.models.Certificate.findAll({
 		where: { claimId },
 		order: [['issuedAt', 'DESC']]
@@ -56,14 +59,29 @@ export async function listCertificates(
 	return rows.map((r) => certificateView(r.get({ plain: true })));
 }
 
-/** The PDF or the evidence bundle, with a download name. */
+/** Whether the caller may issue certificates for the claim (to offer the button or not). */
+export async function mayIssueCertificate(
+	database: Database,
+	caller: Actor,
+	claimId: string
+): Promise<boolean> {
+	const claim = await requireClaim(database, caller, claimId, 'read');
+	return (await decideClaim(database, caller, claim, 'issue-certificate')) === 'allowed';
+}
+
+/** The PDF, or the evidence bundle (it holds the counts file, so it needs what datasets need). */
 export async function certificateFile(
 	database: Database,
-	userId: string,
+	caller: Actor,
 	id: string,
 	kind: 'pdf' | 'bundle'
 ) {
-	const c = await visibleCertificate(database, userId, id);
+	const c = await visibleCertificate(
+		database,
+		caller,
+		id,
+		kind === 'pdf' ? 'read' : 'read-datasets'
+	);
 	const bytes = await readFile(absolute(kind === 'pdf' ? c.pdfPath : c.bundlePath));
 	return kind === 'pdf'
 		? { bytes, filename: `rankseal-certificate-${id}.pdf`, contentType: 'application/pdf' }

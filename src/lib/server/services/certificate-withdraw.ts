@@ -1,32 +1,32 @@
 /** Withdrawing a certificate: its status changes and the ledger records why; nothing else does. */
-import { InputError } from '../../certify';
 import type { Database } from '../db';
 import { serviceKey } from '../evidence/keys';
-import { membershipsOf } from './access';
+import { accountIdOf, type Actor } from '../access/actor';
+import { requireWithdrawal } from '../access/permissions';
 import { audit } from './audit';
 import { certificateView, type CertificateView } from './certificate-views';
-import { ForbiddenError, NotFoundError } from './errors';
+import { ConflictError, FieldError, NotFoundError } from './errors';
 import { appendLedger } from './ledger';
 
 /** The group's lead or the certificate's issuer may withdraw it; the reason goes in the ledger. */
 export async function withdrawCertificate(
 	database: Database,
-	userId: string,
+	caller: Actor,
 	certificateId: string,
 	reason: string
 ): Promise<CertificateView> {
-	const { Certificate, Claim } = database.models;
-	const row = await Certificate.findByPk(certificateId);
-	const claim = row && (await Claim.findByPk(row.get('claimId') as string));
-	const role = claim && (await membershipsOf(database, userId)).get(claim.get('groupId') as string);
-	if (!row || !claim || !role) throw new NotFoundError('No such certificate.');
-	if (role !== 'lead' && row.get('issuedBy') !== userId)
-		throw new ForbiddenError('Only the group lead or the issuer may withdraw a certificate.');
+	const row = await database.models.Certificate.findByPk(certificateId);
+	if (!row) throw new NotFoundError('No such certificate.');
+	const { claimId, issuedBy } = row.get({ plain: true });
+	const claim = await requireWithdrawal(database, caller, { claimId, issuedBy }).catch((error) => {
+		throw error instanceof NotFoundError ? new NotFoundError('No such certificate.') : error;
+	});
+	const userId = accountIdOf(caller)!;
 	const why = reason.trim();
 	if (why.length < 3 || why.length > 500)
-		throw new InputError('reason: say why in 3 to 500 characters');
+		throw new FieldError('reason', 'Say why in 3 to 500 characters.');
 	if (row.get('status') === 'withdrawn')
-		throw new InputError('the certificate is withdrawn already');
+		throw new ConflictError('The certificate is withdrawn already.');
 	const key = serviceKey();
 	await database.sequelize.transaction(async (transaction) => {
 		await row.update({ status: 'withdrawn' }, { transaction });
@@ -36,7 +36,7 @@ export async function withdrawCertificate(
 			database,
 			{
 				actorId: userId,
-				groupId: claim.get('groupId') as string,
+				groupId: claim.groupId,
 				action: 'certificate.withdrawn',
 				subjectType: 'certificate',
 				subjectId: certificateId,

@@ -1,6 +1,7 @@
 import { json } from '@sveltejs/kit';
 import { z } from 'zod';
 import { app } from '$lib/server/app';
+import { apiProblem } from '$lib/server/problems';
 import { LEDGER_PAGE_SIZE, listLedger } from '$lib/server/services/ledger';
 import type { RequestHandler } from './$types';
 
@@ -12,10 +13,7 @@ const pageQuery = z.object({
 /** Public: one page of the ledger, oldest first (ids, hashes and signatures, nothing private). */
 export const GET: RequestHandler = async ({ url }) => {
 	const parsed = pageQuery.safeParse(Object.fromEntries(url.searchParams));
-	if (!parsed.success) {
-		const message = parsed.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`).join('; ');
-		return json({ error: { code: 'bad_input', message } }, { status: 400 });
-	}
+	if (!parsed.success) return apiProblem(parsed.error);
 	const { database } = await app();
 	return json(await listLedger(database, parsed.data.page, parsed.data.pageSize));
 };
