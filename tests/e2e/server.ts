@@ -16,6 +16,8 @@ export interface AppServer {
 	/** Everything the server printed, for failure messages. */
 	output(): string;
 	stop(): Promise<void>;
+	/** SIGKILL: no clean-up at all, as a power cut would leave the data folder. */
+	kill(): Promise<void>;
 }
 
 function freePort(): Promise<number> {
@@ -90,11 +92,17 @@ export async function startApp(
 			});
 			child.kill('SIGTERM');
 		});
+	const kill = () =>
+		new Promise<void>((done) => {
+			if (child.exitCode !== null || child.signalCode !== null) return done();
+			child.once('exit', () => done());
+			child.kill('SIGKILL');
+		});
 	try {
 		await waitUntilAnswering(origin, child, output, timeoutMs);
 	} catch (error) {
 		await stop();
 		throw error;
 	}
-	return { origin, port, output, stop };
+	return { origin, port, output, stop, kill };
 }
