@@ -6,7 +6,7 @@ import { requireWithdrawal } from '../access/permissions';
 import { audit } from './audit';
 import { certificateView, type CertificateView } from './certificate-views';
 import { ConflictError, FieldError, NotFoundError } from './errors';
-import { appendLedger } from './ledger';
+import { appendLedger, ledgerTransaction } from './ledger';
 
 /** The group's lead or the certificate's issuer may withdraw it; the reason goes in the ledger. */
 export async function withdrawCertificate(
@@ -28,7 +28,7 @@ export async function withdrawCertificate(
 	if (row.get('status') === 'withdrawn')
 		throw new ConflictError('The certificate is withdrawn already.');
 	const key = serviceKey();
-	await database.sequelize.transaction(async (transaction) => {
+	await ledgerTransaction(database, async (transaction) => {
 		await row.update({ status: 'withdrawn' }, { transaction });
 		const details = { reason: why, by: userId };
 		await appendLedger(database, { event: 'withdraw', certificateId, details }, key, transaction);

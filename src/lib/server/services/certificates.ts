@@ -20,7 +20,7 @@ import { certificateView, evidenceUrls, type CertificateView } from './certifica
 import { datasetFilePath } from './datasets';
 import { ConflictError, NotFoundError } from './errors';
 import { newId } from './ids';
-import { appendLedger } from './ledger';
+import { appendLedger, ledgerTransaction } from './ledger';
 
 export type { CertificateView } from './certificate-views';
 
@@ -161,7 +161,7 @@ export async function issueCertificate(
 	const paths = certificatePaths(evidence.manifest.certificateId);
 	let placed: string[] = [];
 	try {
-		const row = await database.sequelize.transaction(async (transaction) => {
+		const row = await ledgerTransaction(database, async (transaction) => {
 			if ((await currentCertificate(database, claimId, transaction)) !== supersedes)
 				throw new IssueConflictError(
 					'Another certificate was issued for this claim meanwhile; try again.'

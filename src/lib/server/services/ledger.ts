@@ -2,7 +2,7 @@
  * The ledger: an append-only hash chain of issue, supersede and withdraw events. Each entry's
  * canonical payload names the previous entry's hash and is signed with the service key.
  */
-import type { Transaction } from 'sequelize';
+import { Transaction } from 'sequelize';
 import { canonicalJson } from '../../evidence/canonical';
 import { sha256Hex } from '../../evidence/hash';
 import { signText, type SigningKey } from '../../evidence/signing';
@@ -37,7 +37,28 @@ export interface LedgerEntryView {
 	payload: string;
 }
 
-/** Appends one event inside the caller's transaction (which serialises writers). */
+const writers = new WeakMap<Database, Promise<unknown>>();
+
+/**
+ * Runs `work` in an IMMEDIATE transaction, one at a time per database. An append reads the last
+ * entry before writing the next, so two deferred transactions would both read it and the
+ * second would fail on SQLite's stale snapshot; queued writers never meet.
+ */
+export function ledgerTransaction<T>(
+	database: Database,
+	work: (transaction: Transaction) => Promise<T>
+): Promise<T> {
+	const previous = writers.get(database) ?? Promise.resolve();
+	const type = Transaction.TYPES.IMMEDIATE;
+	const run = previous.then(() => database.sequelize.transaction({ type }, work));
+	writers.set(
+		database,
+		run.catch(() => undefined)
+	);
+	return run;
+}
+
+/** Appends one event inside the caller's ledgerTransaction (which serialises writers). */
 export async function appendLedger(
 	database: Database,
 	event: { event: LedgerEvent; certificateId: string; details: LedgerPayload['details'] },
