@@ -32,32 +32,29 @@ function freePort(): Promise<number> {
 	});
 }
 
-async function waitUntilAnswering(
-	origin: string,
-	child: ChildProcess,
-	log: () => string,
-	timeoutMs: number
-) {
-	const deadline = Date.now() + timeoutMs;
-	while (Date.now() < deadline) {
-		if (child.exitCode !== null) {
-			throw new Error(`the app exited with code ${child.exitCode} before answering:\n${log()}`);
-		}
-		try {
-			const response = await fetch(origin, { signal: AbortSignal.timeout(1000) });
-			await response.arrayBuffer();
-			return;
-		} catch {
-			await new Promise((wait) => setTimeout(wait, 150));
-		}
-	}
-	throw new Error(`the app did not answer at ${origin} within ${timeoutMs} ms:\n${log()}`);
+/**
+ * Resolves when adapter-node says it listens, which it does only after the hooks' init (database,
+ * mail, check runner) has finished; rejects if the app exits first. No polling, no deadline: the
+ * test runner's hook timeout is the only bound.
+ */
+function untilListening(child: ChildProcess, log: () => string): Promise<void> {
+	return new Promise((done, fail) => {
+		const heard = () => {
+			if (!/Listening on /.test(log())) return;
+			child.off('exit', exited);
+			child.stdout?.off('data', heard);
+			done();
+		};
+		const exited = (code: number | null) => {
+			child.stdout?.off('data', heard);
+			fail(new Error(`the app exited with code ${code} before listening:\n${log()}`));
+		};
+		child.stdout?.on('data', heard);
+		child.once('exit', exited);
+	});
 }
 
-export async function startApp(
-	env: Record<string, string> = {},
-	timeoutMs = 20_000
-): Promise<AppServer> {
+export async function startApp(env: Record<string, string> = {}): Promise<AppServer> {
 	if (!existsSync(ENTRY)) {
 		throw new Error(`${ENTRY} is missing: build the app first (npx vite build, or npm test)`);
 	}
@@ -99,7 +96,7 @@ export async function startApp(
 			child.kill('SIGKILL');
 		});
 	try {
-		await waitUntilAnswering(origin, child, output, timeoutMs);
+		await untilListening(child, output);
 	} catch (error) {
 		await stop();
 		throw error;

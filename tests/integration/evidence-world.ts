@@ -9,9 +9,9 @@ import { createClaim } from '../../src/lib/server/services/claims';
 import { addDataset, datasetFilePath } from '../../src/lib/server/services/datasets';
 import { newId } from '../../src/lib/server/services/ids';
 import { addGroup, addUser, bytesOf, claimFields, countsCsv } from './backend-fixtures';
-import type { UserActor } from '../../src/lib/server/access/actor';
 import { asUser } from './actors';
 import { temporaryDatabase } from './db';
+import type { UserActor } from '../../src/lib/server/access/actor';
 
 export interface EvidenceWorld {
 	ctx: Awaited<ReturnType<typeof temporaryDatabase>>;

@@ -16,6 +16,7 @@ import {
 	type CountsDataset
 } from './counts';
 import { claimVerdict, ladderPosition, marginsInStandardErrors, type ClaimVerdict } from './ladder';
+import { CONFIDENCE, RESAMPLES } from './limits';
 import { checkQuantumMarginals, type EntropicSum } from './physical';
 import { checkSeed } from './poisson';
 import { correlationSumBound, fidelityBound, type StatisticBound } from './statistic-bound';
@@ -25,7 +26,11 @@ import { isMethodId, witnessFamilies, type MethodId, type Trust } from './witnes
 
 export const ENGINE_VERSION = '2.0.0';
 
-export const DEFAULTS = { confidence: 0.99865, resamples: 10_000, seed: 1 } as const;
+export const DEFAULTS = {
+	confidence: CONFIDENCE.default,
+	resamples: RESAMPLES.default,
+	seed: 1
+} as const;
 
 export interface CertifyOptions {
 	method: MethodId | string;
@@ -84,11 +89,15 @@ function checkOptions(options: CertifyOptions, d: number) {
 		);
 	}
 	const confidence = options.confidence ?? DEFAULTS.confidence;
-	if (!(confidence > 0.5 && confidence < 1))
-		throw new InputError(`confidence must lie strictly between 0.5 and 1, got ${confidence}`);
+	if (!(confidence > CONFIDENCE.above && confidence < CONFIDENCE.below))
+		throw new InputError(
+			`confidence must lie strictly between ${CONFIDENCE.above} and ${CONFIDENCE.below}, got ${confidence}`
+		);
 	const resamples = options.resamples ?? DEFAULTS.resamples;
-	if (!Number.isInteger(resamples) || resamples < 100 || resamples > 1_000_000) {
-		throw new InputError(`resamples must be a whole number from 100 to 1000000, got ${resamples}`);
+	if (!Number.isInteger(resamples) || resamples < RESAMPLES.min || resamples > RESAMPLES.max) {
+		throw new InputError(
+			`resamples must be a whole number from ${RESAMPLES.min} to ${RESAMPLES.max}, got ${resamples}`
+		);
 	}
 	const seed = options.seed ?? DEFAULTS.seed;
 	try {

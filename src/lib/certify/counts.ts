@@ -138,7 +138,7 @@ export function decodeCountsText(input: Uint8Array | string): string {
 		typeof input === 'string' ? new TextEncoder().encode(input).length : input.byteLength;
 	if (size > MAX_COUNTS_FILE_BYTES) {
 		throw new InputError(
-			`the file is ${size} bytes; the limit is ${MAX_COUNTS_FILE_BYTES} bytes (20 MiB)`
+			`the file is ${size} bytes; the limit is ${MAX_COUNTS_FILE_BYTES} bytes (${MAX_COUNTS_FILE_BYTES / 2 ** 20} MiB)`
 		);
 	}
 	let text: string;

@@ -21,6 +21,7 @@ export {
 	type CertifyOptions,
 	type BoundRung
 } from './certify';
+export { BROWSER_RESAMPLES_MAX, CONFIDENCE, RESAMPLES } from './limits';
 export {
 	checkDeclaredFourier,
 	InputError,

@@ -5,24 +5,20 @@
 import { z } from 'zod';
 import {
 	availableBases,
+	CONFIDENCE,
 	DEFAULT_FOURIER,
 	FOURIER_CONVENTIONS,
 	fourierProblem,
 	METHOD_IDS,
+	RESAMPLES,
 	witnessFamilies,
 	type MethodId
 } from '$lib/certify';
 import { basisProblem } from '$lib/certify/bases';
 import { MAX_SEED } from '$lib/certify/poisson';
+import { CLAIM_STATES } from './states';
 
-export const CLAIM_STATES = [
-	'draft',
-	'checked',
-	'certified',
-	'shared',
-	'withdrawn',
-	'superseded'
-] as const;
+export { CLAIM_STATES } from './states';
 export const CLAIM_SORTS = [
 	'createdAt',
 	'title',
@@ -182,15 +178,20 @@ export const claimQuerySchema = z.object({
 
 export type ClaimQuery = z.output<typeof claimQuerySchema>;
 
+const confidenceRange = `Confidence must lie strictly between ${CONFIDENCE.above} and ${CONFIDENCE.below}.`;
+
 export const checkRequestSchema = z.object({
 	datasetId: z.preprocess(blankToUndefined, z.string().max(100).optional()),
-	resamples: z.preprocess(blankToUndefined, wholeNumber('Resamples', 100, 1_000_000).optional()),
+	resamples: z.preprocess(
+		blankToUndefined,
+		wholeNumber('Resamples', RESAMPLES.min, RESAMPLES.max).optional()
+	),
 	confidence: z.preprocess(
 		blankToUndefined,
 		z.coerce
 			.number({ error: 'Confidence must be a number.' })
-			.gt(0.5, 'Confidence must lie strictly between 0.5 and 1.')
-			.lt(1, 'Confidence must lie strictly between 0.5 and 1.')
+			.gt(CONFIDENCE.above, confidenceRange)
+			.lt(CONFIDENCE.below, confidenceRange)
 			.optional()
 	),
 	seed: z.preprocess(blankToUndefined, wholeNumber('The seed', 1, MAX_SEED).optional())

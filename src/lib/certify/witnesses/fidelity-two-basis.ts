@@ -73,6 +73,13 @@ export const fidelityTwoBasis: WitnessFamily = {
 	trust: 'device-dependent',
 	reference:
 		'Bavaresco et al., Nat. Phys. 14, 1032 (2018); Terhal & Horodecki, Phys. Rev. A 61, 040301(R) (2000)',
+	symbol: 'F̃',
+	statisticName: 'lower bound on the fidelity with the maximally entangled state',
+	maximum: () => 1,
+	trustedSides: 'both sides trusted',
+	formula: 'F̃ ≤ F = ⟨Φ_d|ρ|Φ_d⟩ from the computational table and the Fourier matches; F ≤ r/d.',
+	trustNote: 'Both sides trusted; every cell of the computational basis is needed.',
+	basesNote: 'bases 0 and 1',
 	defaultBases: () => [0, 1],
 	checkBases(bases) {
 		if (bases.length !== 2 || bases[0] !== 0 || bases[1] !== 1) {

@@ -13,6 +13,14 @@ export const mubCorrelation: WitnessFamily = {
 	trust: 'device-dependent',
 	reference:
 		'Spengler et al., Phys. Rev. A 86, 022311 (2012); Morelli, Huber & Tavakoli, Phys. Rev. Lett. 131, 170201 (2023)',
+	symbol: 'S',
+	statisticName: 'correlation sum over m mutually unbiased bases',
+	// Each basis adds a matching probability of at most 1.
+	maximum: (bases) => bases.length,
+	trustedSides: 'both sides trusted',
+	formula: 'S = Σₜ Σₐ pₜ(a, a) over m mutually unbiased bases; S ≤ 1 + (m − 1)·r/d.',
+	trustNote: 'Both sides’ measurements are trusted to be the declared bases.',
+	basesNote: 'two or more bases',
 	defaultBases: (present) => present,
 	checkBases(bases, d, fourier = DEFAULT_FOURIER) {
 		const max = Math.max(2, availableBases(d, fourier).length);

@@ -21,6 +21,13 @@ export const steering2Mub: WitnessFamily = {
 	title: 'Two-setting steering test',
 	trust: 'one-sided device-independent',
 	reference: 'Genuine high-dimensional quantum steering, Phys. Rev. Lett. 126, 200404 (2021)',
+	symbol: 'W',
+	statisticName: 'steering sum over two mutually unbiased bases',
+	maximum: () => 2,
+	trustedSides: 'side B trusted, side A untrusted',
+	formula: 'W = Σₜ Σₐ pₜ(a, a) over two bases; W ≤ (1 + 1/√d)·2√r/(1 + √r).',
+	trustNote: 'Side A is a black box; only side B’s measurements are trusted.',
+	basesNote: 'exactly two bases',
 	defaultBases: (present) =>
 		present.includes(0) && present.includes(1) ? [0, 1] : present.slice(0, 2),
 	checkBases(bases, d, fourier) {

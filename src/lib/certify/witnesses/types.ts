@@ -13,6 +13,20 @@ export interface WitnessFamily {
 	trust: Trust;
 	/** The published source of the statistic and its bounds. */
 	reference: string;
+	/** The statistic's letter on every page, chart and report: S, W or F̃. */
+	symbol: string;
+	/** The statistic in a physicist's words, e.g. "correlation sum over m mutually unbiased bases". */
+	statisticName: string;
+	/** Its largest possible value for the bases used (a perfectly correlated state reaches it). */
+	maximum(bases: number[]): number;
+	/** Which side's measurements are trusted, as the command line says it. */
+	trustedSides: string;
+	/** The statistic and its ladder as one line of plain formulas. */
+	formula: string;
+	/** What the trust assumption means in practice, in one sentence. */
+	trustNote: string;
+	/** Which bases the method accepts, in a few words for forms. */
+	basesNote: string;
 	/** Which bases to use when none are requested, from those present in the file. */
 	defaultBases(present: number[], d: number): number[];
 	/** Throws a RangeError naming the problem when the bases do not suit the method. */

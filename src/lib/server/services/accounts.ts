@@ -22,8 +22,9 @@ import { FieldError } from './field-error';
 import { newId } from './ids';
 import { revokeAllTokens } from './tokens';
 
-export const PASSWORD_MIN_LENGTH = 10;
-export const PASSWORD_MAX_LENGTH = 256;
+import { PASSWORD_MAX_LENGTH, PASSWORD_MIN_LENGTH } from '$lib/account-limits';
+
+export { PASSWORD_MAX_LENGTH, PASSWORD_MIN_LENGTH };
 
 export type LinkResult =
 	{ ok: true; userId: string } | { ok: false; reason: Exclude<TokenState, 'valid'> };

@@ -1,17 +1,5 @@
 /** Small display helpers shared by the claim pages. */
-import type { FourierConvention, MethodId } from '$lib/certify';
-
-export const METHOD_TITLES: Record<MethodId, string> = {
-	'mub-correlation': 'MUB correlation sum',
-	'steering-2mub': 'Two-setting steering test',
-	'fidelity-two-basis': 'Two-basis fidelity bound'
-};
-
-export const METHOD_TRUST: Record<MethodId, string> = {
-	'mub-correlation': 'device-dependent',
-	'steering-2mub': 'one-sided device-independent',
-	'fidelity-two-basis': 'device-dependent'
-};
+import type { FourierConvention } from '$lib/certify';
 
 /** Which Fourier basis basis 1 is, in words that say which group its outcomes belong to. */
 export function fourierWords(fourier: FourierConvention, d: number): string {

@@ -1,7 +1,8 @@
 import { DataTypes, type Model, type ModelStatic, type Sequelize } from 'sequelize';
 import type { FourierConvention, MethodId } from '$lib/certify';
+import type { ClaimState } from '$lib/claims/states';
 
-export type ClaimState = 'draft' | 'checked' | 'certified' | 'shared' | 'withdrawn' | 'superseded';
+export type { ClaimState };
 
 export interface ClaimAttributes {
 	id: string;

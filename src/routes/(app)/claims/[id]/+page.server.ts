@@ -52,7 +52,7 @@ export const actions: Actions = {
 			return formFailure('upload', missing, values);
 		}
 		if (file.size > MAX_COUNTS_FILE_BYTES) {
-			const limit = `The file is ${file.size} bytes; the limit is 20 MiB.`;
+			const limit = `The file is ${file.size} bytes; the limit is ${MAX_COUNTS_FILE_BYTES / 2 ** 20} MiB.`;
 			return formFailure('upload', new FieldError('counts', limit), values);
 		}
 		const { database } = await app();

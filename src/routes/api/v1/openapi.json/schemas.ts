@@ -1,5 +1,12 @@
 /** JSON Schemas (OpenAPI 3.1 components) of the API's bodies, kept beside the document. */
-import { DEFAULT_FOURIER, DEFAULTS, FOURIER_CONVENTIONS, METHOD_IDS } from '$lib/certify';
+import {
+	CONFIDENCE,
+	DEFAULT_FOURIER,
+	DEFAULTS,
+	FOURIER_CONVENTIONS,
+	METHOD_IDS,
+	RESAMPLES
+} from '$lib/certify';
 import { CLAIM_STATES } from '$lib/claims/schema';
 import { PROBLEM_CODES } from '$lib/server/problems';
 import { TOKEN_DEFAULT_DAYS, TOKEN_MAX_DAYS } from '$lib/server/services/tokens';
@@ -211,11 +218,16 @@ export const schemas = {
 		type: 'object',
 		properties: {
 			datasetId: { ...text, description: 'Default: the claim’s newest dataset.' },
-			resamples: { ...whole, minimum: 100, maximum: 1_000_000, default: DEFAULTS.resamples },
+			resamples: {
+				...whole,
+				minimum: RESAMPLES.min,
+				maximum: RESAMPLES.max,
+				default: DEFAULTS.resamples
+			},
 			confidence: {
 				...number,
-				exclusiveMinimum: 0.5,
-				exclusiveMaximum: 1,
+				exclusiveMinimum: CONFIDENCE.above,
+				exclusiveMaximum: CONFIDENCE.below,
 				default: DEFAULTS.confidence
 			},
 			seed: { ...whole, minimum: 1, maximum: 4294967295, default: DEFAULTS.seed }

@@ -1,0 +1,3 @@
+/** Password lengths, exported once for the account service, the zod schemas and the forms. */
+export const PASSWORD_MIN_LENGTH = 10;
+export const PASSWORD_MAX_LENGTH = 256;
