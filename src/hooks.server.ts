@@ -3,6 +3,7 @@ import { sequence } from '@sveltejs/kit/hooks';
 import { app } from '$lib/server/app';
 import { formOriginCheck } from '$lib/server/api';
 import { ANONYMOUS } from '$lib/server/access/actor';
+import { rejectControlCharacters } from '$lib/server/request-guards';
 import { authenticate } from '$lib/server/services/tokens';
 
 /**
@@ -19,11 +20,11 @@ const session: Handle = async ({ event, resolve }) => {
 		const { session, user } = await lucia.validateSession(sessionId);
 		if (session?.fresh) {
 			const cookie = lucia.createSessionCookie(session.id);
-			event.cookies.set(cookie.name, cookie.value, { path: '.', ...cookie.attributes });
+			event.cookies.set(cookie.name, cookie.value, { path: '/', ...cookie.attributes });
 		}
 		if (!session) {
 			const blank = lucia.createBlankSessionCookie();
-			event.cookies.set(blank.name, blank.value, { path: '.', ...blank.attributes });
+			event.cookies.set(blank.name, blank.value, { path: '/', ...blank.attributes });
 		}
 		event.locals.user = user;
 		event.locals.session = session;
@@ -56,4 +57,4 @@ export const init: ServerInit = async () => {
 	await app();
 };
 
-export const handle: Handle = sequence(formOriginCheck, session, bearer);
+export const handle: Handle = sequence(formOriginCheck, rejectControlCharacters, session, bearer);

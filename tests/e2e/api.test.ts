@@ -111,18 +111,26 @@ describe('API v1', () => {
 	});
 
 	it('takes counts as the multipart field "counts" from a script (no Origin header)', async () => {
-		const form = new FormData();
-		form.set('counts', new Blob([csv], { type: 'text/csv' }), 'run-1b.csv');
+		// Other bytes than the raw upload's (a comment line), which the claim already holds.
+		const bytes = `# sent as multipart\n${csv}`;
+		const send = (name: string) => {
+			const form = new FormData();
+			form.set('counts', new Blob([bytes], { type: 'text/csv' }), name);
+			return call(route, { method: 'POST', body: form });
+		};
 		const route = `/api/v1/claims/${ids.claim}/datasets`;
-		const multipart = await call(route, { method: 'POST', body: form });
+		const multipart = await send('run-1b.csv');
 		expect(multipart.status, await multipart.clone().text()).toBe(201);
 		const dataset = await multipart.json();
 		expect(dataset).toMatchObject({ originalName: 'run-1b.csv', format: 'csv' });
 		const listed = await (await call(route)).json();
-		expect(listed.map((d: { sha256: string }) => d.sha256)).toEqual([
-			dataset.sha256,
-			dataset.sha256
-		]);
+		expect(listed.map((d: { sha256: string }) => d.sha256)[0]).toBe(dataset.sha256);
+		expect(listed).toHaveLength(2);
+		// The same bytes again: 409, naming the earlier upload.
+		const again = await send('run-1c.csv');
+		expect(again.status).toBe(409);
+		expect((await again.json()).error).toMatchObject({ code: 'conflict' });
+		expect(await (await call(route)).json()).toHaveLength(2);
 	});
 
 	it('refuses other media types (415) and files over the limit (413)', async () => {
@@ -261,7 +269,7 @@ describe('API v1', () => {
 					: ids.claim;
 		for (const endpoint of documented) {
 			const [method, template] = endpoint.split(' ');
-			const route = template.replace('{id}', idFor(template));
+			const route = template.replace('{id}', idFor(template)).replace('{datasetId}', ids.dataset);
 			const response = await call(route, {
 				method,
 				headers: { 'content-type': 'application/json' },

@@ -8,7 +8,7 @@ import path from 'node:path';
 import { certify, parseCounts, sampledCounts, states, toCountsCsv } from '../../src/lib/certify';
 import { sha256Hex } from '../../src/lib/evidence/hash';
 import { openDatabase } from '../../src/lib/server/db';
-import { summarise } from '../../src/lib/server/services/datasets';
+import { summarise } from '../../src/lib/server/checks/summary';
 import { newId } from '../../src/lib/server/services/ids';
 
 export interface FinishedClaim {

@@ -13,6 +13,7 @@ const ENTRY = resolve('build/index.js');
 export interface AppServer {
 	origin: string;
 	port: number;
+	child: ChildProcess;
 	/** Everything the server printed, for failure messages. */
 	output(): string;
 	stop(): Promise<void>;
@@ -101,5 +102,5 @@ export async function startApp(env: Record<string, string> = {}): Promise<AppSer
 		await stop();
 		throw error;
 	}
-	return { origin, port, output, stop, kill };
+	return { origin, port, child, output, stop, kill };
 }

@@ -10,7 +10,8 @@ import {
 	getDataset,
 	listDatasets
 } from '../../src/lib/server/services/datasets';
-import { NotFoundError } from '../../src/lib/server/services/errors';
+import { stopCheckRunner } from '../../src/lib/server/checks/runner';
+import { ConflictError, NotFoundError } from '../../src/lib/server/services/errors';
 import { addGroup, addUser, bytesOf, claimFields, countsCsv } from './backend-fixtures';
 import { asUser } from './actors';
 import { temporaryDatabase } from './db';
@@ -37,7 +38,10 @@ beforeAll(async () => {
 	cyd = await addUser(ctx.database, 'Cyd Marsh', [[ridge, 'lead']]);
 	claimId = (await createClaim(ctx.database, asUser(ada), claimFields)).id;
 });
-afterAll(async () => ctx.close());
+afterAll(async () => {
+	await stopCheckRunner(ctx.database);
+	await ctx.close();
+});
 
 describe('datasets service', () => {
 	it('stores a good CSV under its SHA-256 with a summary of what it holds', async () => {
@@ -74,16 +78,27 @@ describe('datasets service', () => {
 		expect(audit?.get('action')).toBe('dataset.added');
 	});
 
-	it('keeps identical bytes once on disk, with a row per upload', async () => {
+	it('refuses the same bytes twice on one claim, naming the first upload', async () => {
+		const error = await addDataset(ctx.database, asUser(ada), claimId, {
+			bytes: bytesOf(csv),
+			originalName: 'copy.csv'
+		}).catch((e) => e);
+		expect(error).toBeInstanceOf(ConflictError);
+		expect(error.message).toMatch(/uploaded to this claim already, as run3\.csv on \d{4}-/);
+		const all = await listDatasets(ctx.database, asUser(ada), claimId);
+		expect(all.map((d) => d.originalName)).toEqual(['run3.csv']);
+	});
+
+	it('keeps identical bytes once on disk, with a row per claim', async () => {
 		const before = storedFiles().length;
-		const again = await addDataset(ctx.database, asUser(ada), claimId, {
+		const second = (await createClaim(ctx.database, asUser(ada), claimFields)).id;
+		const again = await addDataset(ctx.database, asUser(ada), second, {
 			bytes: bytesOf(csv),
 			originalName: 'copy.csv'
 		});
 		expect(storedFiles().length).toBe(before);
-		const all = await listDatasets(ctx.database, asUser(ada), claimId);
-		expect(all.map((d) => d.originalName)).toEqual(['copy.csv', 'run3.csv']);
-		expect(new Set(all.map((d) => d.sha256))).toEqual(new Set([again.sha256]));
+		const [first] = await listDatasets(ctx.database, asUser(ada), claimId);
+		expect(again.sha256).toBe(first.sha256);
 	});
 
 	it('accepts the JSON form and tells it apart by content', async () => {
@@ -124,7 +139,7 @@ describe('datasets service', () => {
 				bytes: bytesOf(smaller),
 				originalName: 'd3.csv'
 			})
-		).rejects.toThrow(/basis 0 is incomplete: no row for outcome_a=0, outcome_b=3/);
+		).rejects.toThrow(/the file is d = 3, the claim is d = 5/);
 		await expect(
 			addDataset(ctx.database, asUser(ada), claimId, {
 				bytes: new Uint8Array(0),

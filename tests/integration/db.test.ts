@@ -14,14 +14,15 @@ describe('database', () => {
 		expect(await select('PRAGMA foreign_keys;')).toEqual([{ foreign_keys: 1 }]);
 		const applied = await select('SELECT name FROM schema_migrations ORDER BY name');
 		expect(applied).toEqual(migrations.map(({ name }) => ({ name })));
-		expect(migrations.map((m) => m.name)).toEqual(
-			expect.arrayContaining([
-				'0001-initial',
-				'0002-fourier-convention',
-				'0003-token-expiry',
-				'0005-certificates'
-			])
-		);
+		// Registered in number order, none missing (a name sorted out of place would fail above).
+		expect(migrations.map((m) => m.name)).toEqual([
+			'0001-initial',
+			'0002-fourier-convention',
+			'0003-token-expiry',
+			'0004-dataset-summary',
+			'0005-certificates',
+			'0007-outbox-archive'
+		]);
 	});
 
 	it('rejects a membership that points at no user (foreign keys enforced)', async () => {

@@ -5,6 +5,7 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ANONYMOUS, type Actor, type TokenActor } from '../../src/lib/server/access/actor';
+import { updateClaim } from '../../src/lib/server/services/claim-edit';
 import { getCheck, listChecks, startCheck } from '../../src/lib/server/services/checks';
 import { createClaim, getClaim, listClaims } from '../../src/lib/server/services/claims';
 import {
@@ -13,6 +14,7 @@ import {
 	getDataset,
 	listDatasets
 } from '../../src/lib/server/services/datasets';
+import { removeDataset } from '../../src/lib/server/services/dataset-removal';
 import { ForbiddenError, NotFoundError } from '../../src/lib/server/services/errors';
 import { changeMemberRole, getGroup, removeMember } from '../../src/lib/server/services/groups';
 import { newId } from '../../src/lib/server/services/ids';
@@ -68,12 +70,14 @@ afterAll(async () => world?.close());
 
 const calls: Record<string, (actor: Actor) => Promise<unknown>> = {
 	getClaim: (a) => getClaim(world.database, a, claimId),
+	updateClaim: (a) => updateClaim(world.database, a, claimId, { ...claimFields, title: 'Taken' }),
 	createClaim: (a) => createClaim(world.database, a, { ...claimFields, groupId }),
 	listDatasets: (a) => listDatasets(world.database, a, claimId),
 	getDataset: (a) => getDataset(world.database, a, datasetId),
 	datasetTables: (a) => datasetTables(world.database, a, datasetId),
 	addDataset: (a) =>
 		addDataset(world.database, a, claimId, { bytes: bytesOf(countsCsv()), originalName: 'x' }),
+	removeDataset: (a) => removeDataset(world.database, a, claimId, datasetId),
 	listChecks: (a) => listChecks(world.database, a, claimId),
 	getCheck: (a) => getCheck(world.database, a, checkId),
 	startCheck: (a) => startCheck(world.database, a, claimId, {}),
@@ -106,7 +110,8 @@ describe('a caller from outside the group', () => {
 	});
 
 	it('changed nothing while trying', async () => {
-		const { Dataset, Check, Membership, Invitation, ApiToken } = world.database.models;
+		const { Claim, Dataset, Check, Membership, Invitation, ApiToken } = world.database.models;
+		expect((await Claim.findByPk(claimId))?.get('title')).toBe(claimFields.title);
 		expect(await Dataset.count({ where: { claimId } })).toBe(1);
 		expect(await Check.count({ where: { claimId } })).toBe(1);
 		expect(await Membership.findOne({ where: { userId: authorId } })).toMatchObject({
@@ -130,11 +135,13 @@ describe('a referee of this claim (the review-link caller of issue 9, built by h
 		expect(listing.items.map((c) => c.id)).toEqual([claimId]);
 	});
 
-	it('may not read or add counts files (403), nor see the group (404)', async () => {
+	it('may not read, add or remove counts files, nor edit the claim (403), nor see the group (404)', async () => {
 		await expect(listDatasets(world.database, referee(), claimId)).rejects.toBeInstanceOf(
 			ForbiddenError
 		);
 		await expect(calls.addDataset(referee())).rejects.toBeInstanceOf(ForbiddenError);
+		await expect(calls.removeDataset(referee())).rejects.toBeInstanceOf(ForbiddenError);
+		await expect(calls.updateClaim(referee())).rejects.toBeInstanceOf(ForbiddenError);
 		await expect(calls.getGroup(referee())).rejects.toBeInstanceOf(NotFoundError);
 		await expect(calls.createClaim(referee())).rejects.toBeInstanceOf(NotFoundError);
 	});

@@ -6,6 +6,7 @@ import { createLucia } from '../../src/lib/server/auth';
 import type { MailMessageAttributes } from '../../src/lib/server/db/models/MailMessage';
 import { catcherTransport, createMailer } from '../../src/lib/server/mail';
 import { startMailCatcher } from '../../src/lib/server/mail-catcher';
+import { deliverDue } from '../../src/lib/server/mail-sender';
 import { temporaryDatabase } from './db';
 
 export const TEST_ORIGIN = 'http://rankseal.test';
@@ -34,8 +35,12 @@ export async function mailWorld() {
 
 export type MailWorld = Awaited<ReturnType<typeof mailWorld>>;
 
-/** Messages the catcher stored for one address, oldest first. */
+/**
+ * Messages the catcher stored for one address, oldest first. The outbox is delivered first, as
+ * the app's background sender would (driven here, so no test waits on a timer).
+ */
 export async function mailTo(world: MailWorld, address: string): Promise<MailMessageAttributes[]> {
+	await deliverDue(world.database, world.mailer);
 	const rows = await world.database.models.MailMessage.findAll({ order: [['createdAt', 'ASC']] });
 	return rows.map((r) => r.get({ plain: true })).filter((m) => m.to.split(', ').includes(address));
 }

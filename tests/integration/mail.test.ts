@@ -1,12 +1,17 @@
 import { createServer, type Server } from 'node:net';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { asUser } from './actors';
 import { createMailer } from '../../src/lib/server/mail';
 import { startMailCatcher } from '../../src/lib/server/mail-catcher';
-import { ForbiddenError, NotFoundError } from '../../src/lib/server/services/errors';
-import { getOutboxMessage, listOutbox } from '../../src/lib/server/services/mail-outbox';
+import { requestPasswordReset } from '../../src/lib/server/services/accounts';
+import { ConflictError, ForbiddenError, NotFoundError } from '../../src/lib/server/services/errors';
+import {
+	getOutboxMessage,
+	listOutbox,
+	requeueOutboxMessage
+} from '../../src/lib/server/services/mail-outbox';
 import { fillPlaceholders, renderTemplate } from '../../src/lib/server/templates';
 import { newId } from '../../src/lib/server/services/ids';
+import { asUser } from './actors';
 import { mailTo, mailWorld, type MailWorld } from './mail-world';
 
 describe('mail: nodemailer to the local SMTP catcher', () => {
@@ -64,7 +69,7 @@ describe('mail: nodemailer to the local SMTP catcher', () => {
 		}
 	});
 
-	it('shows the outbox to admins only', async () => {
+	it('shows the outbox, each message with its delivery status, to admins only', async () => {
 		const { User } = world.database.models;
 		const admin = newId();
 		const researcher = newId();
@@ -82,11 +87,19 @@ describe('mail: nodemailer to the local SMTP catcher', () => {
 			passwordHash: 'x',
 			accountRole: 'researcher'
 		});
-		const outbox = await listOutbox(world.database, asUser(admin));
-		expect(outbox.total).toBeGreaterThanOrEqual(3);
-		expect(outbox.items[0]).toMatchObject({ to: expect.any(String), subject: expect.any(String) });
+		await requestPasswordReset(world.database, world.mailer, 'r@lab.test');
+		const queued = await listOutbox(world.database, asUser(admin));
+		expect(queued.items[0]).toMatchObject({ to: 'r@lab.test', status: 'queued', attempts: 0 });
+		await mailTo(world, 'r@lab.test');
+		const outbox = await listOutbox(world.database, asUser(admin), 1, 'sent');
+		expect(outbox.items[0]).toMatchObject({ to: 'r@lab.test', status: 'sent', attempts: 1 });
 		const message = await getOutboxMessage(world.database, asUser(admin), outbox.items[0].id);
-		expect(message.text.length).toBeGreaterThan(0);
+		expect(message.text).toContain('/reset/');
+		const hidden = await getOutboxMessage(world.database, asUser(admin), message.id, {
+			revealSecretLinks: false
+		});
+		expect(hidden.text).not.toContain('/reset/');
+		expect(hidden.html).not.toContain('/reset/');
 		await expect(listOutbox(world.database, asUser(researcher))).rejects.toBeInstanceOf(
 			ForbiddenError
 		);
@@ -96,6 +109,9 @@ describe('mail: nodemailer to the local SMTP catcher', () => {
 		await expect(getOutboxMessage(world.database, asUser(admin), 'missing')).rejects.toBeInstanceOf(
 			NotFoundError
 		);
+		await expect(
+			requeueOutboxMessage(world.database, asUser(admin), message.id)
+		).rejects.toBeInstanceOf(ConflictError);
 	});
 });
 

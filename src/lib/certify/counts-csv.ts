@@ -9,14 +9,15 @@ import {
 	decodeCountsText,
 	emptyTable,
 	type CountsDataset,
-	type CountTable
+	type CountTable,
+	WHOLE_NUMBER_TEXT
 } from './counts';
 
 const REQUIRED = ['basis', 'outcome_a', 'outcome_b', 'counts'] as const;
 const OPTIONAL = ['accidentals', 'duration_s'] as const;
 type Column = (typeof REQUIRED)[number] | (typeof OPTIONAL)[number];
 
-const WHOLE = /^\d+$/;
+const WHOLE = WHOLE_NUMBER_TEXT;
 const DECIMAL = /^(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
 
 function wholeNumber(text: string, what: string, line: number, column: number): number {

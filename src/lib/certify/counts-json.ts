@@ -13,8 +13,10 @@ import {
 	decodeCountsText,
 	emptyTable,
 	type CountsDataset,
-	type CountTable
+	type CountTable,
+	WHOLE_NUMBER_TEXT
 } from './counts';
+import { numberText, requireShallowJson } from './json-guards';
 
 const TABLE_KEYS = new Set(['basis', 'counts', 'accidentals', 'duration_s']);
 
@@ -28,10 +30,17 @@ function locator(text: string) {
 
 export function parseCountsJson(input: Uint8Array | string, dimension?: number): CountsDataset {
 	const text = decodeCountsText(input);
+	requireShallowJson(text);
 	const where = locator(text);
 	const fail = (node: Node | undefined, path: string, message: string): never => {
 		const at = node ? where(node.offset) : undefined;
 		throw new InputError(`${path}: ${message}`, at?.line, at?.column);
+	};
+	// Whole numbers are written as digits only, as in CSV: `5.0`, `5e0` and `-0` are refused.
+	const requireDigits = (node: Node | undefined, path: string) => {
+		const written = node?.type === 'number' ? numberText(text, node) : null;
+		if (written !== null && !WHOLE_NUMBER_TEXT.test(written))
+			fail(node, path, `expected a non-negative whole number, got ${written}${DIGITS_ONLY}`);
 	};
 	const errors: ParseError[] = [];
 	const root = parseTree(text, errors, { disallowComments: true, allowTrailingComma: false });
@@ -54,6 +63,7 @@ export function parseCountsJson(input: Uint8Array | string, dimension?: number):
 	}
 	const dimNode = member(root, 'dimension');
 	if (!dimNode) fail(root, '$', 'missing field "dimension"');
+	requireDigits(dimNode, '$.dimension');
 	let d: number;
 	try {
 		d = checkDimension(dimNode!.value, '$.dimension');
@@ -78,6 +88,7 @@ export function parseCountsJson(input: Uint8Array | string, dimension?: number):
 			if (!TABLE_KEYS.has(key)) fail(property, `${path}.${key}`, 'unknown field');
 		}
 		const basisNode = member(tableNode, 'basis');
+		requireDigits(basisNode, `${path}.basis`);
 		const basis = basisNode?.value;
 		if (typeof basis !== 'number' || !Number.isInteger(basis) || basis < 0) {
 			fail(basisNode ?? tableNode, `${path}.basis`, 'expected a non-negative whole number');
@@ -96,7 +107,8 @@ export function parseCountsJson(input: Uint8Array | string, dimension?: number):
 			d,
 			fail,
 			(cell, v) => (table.counts[cell] = v),
-			'whole'
+			'whole',
+			text
 		);
 		table.present.fill(1);
 		if (accNode)
@@ -106,7 +118,8 @@ export function parseCountsJson(input: Uint8Array | string, dimension?: number):
 				d,
 				fail,
 				(c, v) => (table.accidentals![c] = v),
-				'nonnegative'
+				'nonnegative',
+				text
 			);
 		if (durNode)
 			readMatrix(
@@ -115,7 +128,8 @@ export function parseCountsJson(input: Uint8Array | string, dimension?: number):
 				d,
 				fail,
 				(c, v) => (table.durations![c] = v),
-				'positive'
+				'positive',
+				text
 			);
 		tables.set(basis, table);
 	});
@@ -127,41 +141,44 @@ export function parseCountsJson(input: Uint8Array | string, dimension?: number):
 
 type Fail = (node: Node | undefined, path: string, message: string) => never;
 
+const DIGITS_ONLY = ' (written with digits only, as in CSV)';
+
+const EXPECTED = {
+	whole: 'a non-negative whole number',
+	positive: 'a positive number',
+	nonnegative: 'a non-negative number'
+};
+
+/** One cell: counts as digits only (the CSV rule); other values any number, never negative (`-0`). */
+function cellOk(v: unknown, written: string, kind: keyof typeof EXPECTED): boolean {
+	if (typeof v !== 'number' || !Number.isFinite(v) || written.startsWith('-')) return false;
+	if (kind === 'whole') return WHOLE_NUMBER_TEXT.test(written) && Number.isSafeInteger(v);
+	return kind === 'positive' ? v > 0 : v >= 0;
+}
+
 function readMatrix(
 	node: Node,
 	path: string,
 	d: number,
 	fail: Fail,
 	store: (cell: number, v: number) => void,
-	kind: 'whole' | 'nonnegative' | 'positive'
+	kind: keyof typeof EXPECTED,
+	text: string
 ) {
 	if (node.type !== 'array' || node.children?.length !== d) fail(node, path, `expected ${d} rows`);
 	node.children!.forEach((row, a) => {
 		if (row.type !== 'array' || row.children?.length !== d)
 			fail(row, `${path}[${a}]`, `expected ${d} entries`);
 		row.children!.forEach((entry, b) => {
-			const v = entry.value;
-			const ok =
-				entry.type === 'number' &&
-				Number.isFinite(v) &&
-				(kind === 'whole'
-					? Number.isSafeInteger(v) && v >= 0
-					: kind === 'positive'
-						? v > 0
-						: v >= 0);
-			const expected =
-				kind === 'whole'
-					? 'a non-negative whole number'
-					: kind === 'positive'
-						? 'a positive number'
-						: 'a non-negative number';
-			if (!ok)
+			const written = entry.type === 'number' ? numberText(text, entry) : '';
+			if (!cellOk(entry.value, written, kind))
 				fail(
 					entry,
 					`${path}[${a}][${b}]`,
-					`expected ${expected}, got ${JSON.stringify(entry.value ?? null)}`
+					`expected ${EXPECTED[kind]}, got ${written || JSON.stringify(entry.value ?? null)}` +
+						(kind === 'whole' ? DIGITS_ONLY : '')
 				);
-			store(a * d + b, v);
+			store(a * d + b, entry.value);
 		});
 	});
 }

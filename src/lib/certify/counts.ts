@@ -43,6 +43,9 @@ export class InputError extends Error {
 	}
 }
 
+/** Digits only: how CSV and JSON files alike write a count, basis or outcome (no sign, point or exponent). */
+export const WHOLE_NUMBER_TEXT = /^\d+$/;
+
 export const MAX_COUNTS_FILE_BYTES = 20 * 1024 * 1024;
 
 export function checkDimension(d: unknown, where = 'dimension'): number {

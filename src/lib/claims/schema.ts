@@ -194,7 +194,12 @@ export const checkRequestSchema = z.object({
 			.lt(CONFIDENCE.below, confidenceRange)
 			.optional()
 	),
-	seed: z.preprocess(blankToUndefined, wholeNumber('The seed', 1, MAX_SEED).optional())
+	seed: z.preprocess(blankToUndefined, wholeNumber('The seed', 1, MAX_SEED).optional()),
+	// A form checkbox sends "on" or nothing; the API sends a boolean.
+	subtractAccidentals: z.preprocess(
+		(v) => (v === 'on' || v === 'true' ? true : v === '' || v === 'false' ? false : v),
+		z.boolean({ error: 'subtractAccidentals must be true or false.' }).optional()
+	)
 });
 
 export type CheckRequest = z.output<typeof checkRequestSchema>;

@@ -3,15 +3,26 @@ import { redirect, type Cookies } from '@sveltejs/kit';
 import type { UserActor } from './access/actor';
 import type { AppLucia } from './auth';
 
-/** A same-origin relative path to go to after signing in; anything else becomes the fallback. */
+const HOME = 'http://rankseal.invalid';
+
+/**
+ * A same-origin path to go to after signing in; anything else becomes the fallback. The check
+ * runs on the normalised URL: `/.//evil.example` normalises to `//evil.example`, which a browser
+ * reads as another host.
+ */
 export function safeNext(next: string | null | undefined, fallback = '/claims'): string {
-	if (!next || !next.startsWith('/') || next.startsWith('//') || next.startsWith('/\\'))
-		return fallback;
+	if (!next || !next.startsWith('/')) return fallback;
 	// Control characters and backslashes could be read as another origin by some browsers.
 	if (/[\u0000-\u001f\u007f\\]/.test(next)) return fallback;
-	const parsed = new URL(next, 'http://rankseal.invalid');
-	if (parsed.origin !== 'http://rankseal.invalid') return fallback;
-	return parsed.pathname + parsed.search + parsed.hash;
+	let parsed: URL;
+	try {
+		parsed = new URL(next, HOME);
+	} catch {
+		return fallback;
+	}
+	const path = parsed.pathname + parsed.search + parsed.hash;
+	if (parsed.origin !== HOME || !path.startsWith('/') || path.startsWith('//')) return fallback;
+	return path;
 }
 
 export const loginPath = (url: URL): string =>

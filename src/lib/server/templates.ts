@@ -1,34 +1,83 @@
 /**
- * Plain-text e-mail templates from templates/mail/<name>.txt: a first line "Subject: …", a blank
- * line, then the body, with {{placeholder}} fields. Bundled at build time, so no file paths at run time.
+ * E-mail templates under templates/mail/: <name>.txt (a first line "Subject: …", a blank line, the
+ * plain-text body) and <name>.html (the HTML body), with {{placeholder}} fields. Every value but
+ * `link` is text: HTML-escaped in the HTML body, and defused in both bodies when it looks like an
+ * address, so that a name a user chose never becomes a link. Bundled at build time.
  */
-const sources = import.meta.glob('/templates/mail/*.txt', {
+const sources = import.meta.glob('/templates/mail/*.{txt,html}', {
 	query: '?raw',
 	import: 'default',
 	eager: true
 }) as Record<string, string>;
 
-export type MailTemplate = 'verify-email' | 'reset-password' | 'invitation' | 'password-changed';
+export type MailTemplate =
+	| 'verify-email'
+	| 'reset-password'
+	| 'invitation'
+	| 'password-changed'
+	| 'certificate-issued'
+	| 'certificate-superseded'
+	| 'claim-withdrawn';
 
 export interface RenderedMail {
 	subject: string;
 	text: string;
+	html: string;
 }
 
+/** The one field that may be a link: the address the message is about. */
+export const LINK_FIELD = 'link';
+
 /** Replaces every {{name}}; a placeholder without a value is a programming error, so it throws. */
-export function fillPlaceholders(source: string, values: Record<string, string>): string {
+export function fillPlaceholders(
+	source: string,
+	values: Record<string, string>,
+	encode: (value: string, key: string) => string = (value) => value
+): string {
 	return source.replace(/\{\{\s*([a-zA-Z][\w-]*)\s*\}\}/g, (_, key: string) => {
 		const value = values[key];
 		if (value === undefined) throw new Error(`mail template: no value for {{${key}}}`);
-		return value;
+		return encode(value, key);
 	});
 }
 
+export const escapeHtml = (value: string): string =>
+	value
+		.replace(/&/g, '&amp;')
+		.replace(/</g, '&lt;')
+		.replace(/>/g, '&gt;')
+		.replace(/"/g, '&quot;')
+		.replace(/'/g, '&#39;');
+
+const ZERO_WIDTH_SPACE = '\u200b';
+const LOOKS_LIKE_ADDRESS = /:\/\/|www\.|[\p{L}\p{N}-]\.[\p{L}]{2,}|@/iu;
+
+/**
+ * A user-chosen value that a mail program might turn into a link ("evil.example/reset",
+ * "http://…") gets a zero-width space after each dot, colon, slash and @: it reads the same and
+ * links nowhere. Ordinary names are left alone.
+ */
+export function defuseLinks(value: string): string {
+	return LOOKS_LIKE_ADDRESS.test(value)
+		? value.replace(/[.:/@]/g, (c) => c + ZERO_WIDTH_SPACE)
+		: value;
+}
+
+const asText = (value: string, key: string) => (key === LINK_FIELD ? value : defuseLinks(value));
+const asHtml = (value: string, key: string) => escapeHtml(asText(value, key));
+
+function source(name: MailTemplate, extension: 'txt' | 'html'): string {
+	const text = sources[`/templates/mail/${name}.${extension}`];
+	if (text === undefined) throw new Error(`mail template ${name}.${extension} is missing`);
+	return text.replace(/\r\n/g, '\n');
+}
+
+/** Subject, text and HTML bodies of one message; the subject is plain text like the text body. */
 export function renderTemplate(name: MailTemplate, values: Record<string, string>): RenderedMail {
-	const source = sources[`/templates/mail/${name}.txt`];
-	if (source === undefined) throw new Error(`mail template ${name}.txt is missing`);
-	const filled = fillPlaceholders(source.replace(/\r\n/g, '\n'), values);
+	const filled = fillPlaceholders(source(name, 'txt'), values, asText);
 	const match = /^Subject:[ \t]*(.*)\n\n?/.exec(filled);
 	if (!match) throw new Error(`mail template ${name}.txt must start with a "Subject:" line`);
-	return { subject: match[1].trim(), text: filled.slice(match[0].length) };
+	const subject = match[1].trim().replace(/[\r\n]/g, ' ');
+	const html = fillPlaceholders(source(name, 'html'), values, asHtml);
+	return { subject, text: filled.slice(match[0].length), html };
 }

@@ -13,7 +13,14 @@ import type { AccountActor, Actor } from './actor';
 export type Decision = 'allowed' | 'denied' | 'hidden';
 
 export type ClaimAction =
-	'read' | 'read-datasets' | 'add-dataset' | 'start-check' | 'issue-certificate' | 'file-report';
+	| 'read'
+	| 'read-datasets'
+	| 'add-dataset'
+	| 'remove-dataset'
+	| 'edit-claim'
+	| 'start-check'
+	| 'issue-certificate'
+	| 'file-report';
 export type GroupAction = 'read' | 'create-claim' | 'manage';
 /** Actions on the service itself or on the actor's own account, not on one claim or group. */
 export type ServiceAction =
@@ -27,7 +34,15 @@ export type ServiceAction =
 
 /** What each kind of claim viewer may do once the claim is visible to them. */
 const CLAIM_RULES = {
-	member: ['read', 'read-datasets', 'add-dataset', 'start-check', 'issue-certificate'],
+	member: [
+		'read',
+		'read-datasets',
+		'add-dataset',
+		'remove-dataset',
+		'edit-claim',
+		'start-check',
+		'issue-certificate'
+	],
 	editor: ['read', 'read-datasets'],
 	referee: ['read', 'start-check', 'file-report']
 } satisfies Record<string, ClaimAction[]>;
@@ -36,6 +51,8 @@ const CLAIM_DENIALS: Record<ClaimAction, string> = {
 	read: 'You may not see this claim.',
 	'read-datasets': 'A review link shows the claim and its checks, not its counts files.',
 	'add-dataset': 'Only members of the claim’s group upload counts.',
+	'remove-dataset': 'Only members of the claim’s group take back counts files.',
+	'edit-claim': 'Only the claim’s author or a group lead may edit it.',
 	'start-check': 'Only members of the claim’s group start checks.',
 	'issue-certificate': 'Only members of the claim’s group issue certificates.',
 	'file-report': 'Only the referee holding a review link files a report.'
@@ -87,7 +104,7 @@ export async function sharedClaimIds(_database: Database, _actor: AccountActor):
 export async function decideClaim(
 	database: Database,
 	actor: Actor,
-	claim: Pick<ClaimAttributes, 'id' | 'groupId'>,
+	claim: Pick<ClaimAttributes, 'id' | 'groupId' | 'createdBy'>,
 	action: ClaimAction,
 	transaction?: Transaction
 ): Promise<Decision> {
@@ -96,7 +113,12 @@ export async function decideClaim(
 	if (actor.kind === 'anonymous') return 'hidden';
 	if (actor.kind === 'referee')
 		return actor.claimId === claim.id ? allows(CLAIM_RULES.referee) : 'hidden';
-	if (await roleIn(database, actor, claim.groupId, transaction)) return allows(CLAIM_RULES.member);
+	const role = await roleIn(database, actor, claim.groupId, transaction);
+	if (role) {
+		// A claim is corrected by whoever wrote it, or by a lead of its group.
+		const mayCorrect = claim.createdBy === actor.userId || role === 'lead';
+		return action === 'edit-claim' && !mayCorrect ? 'denied' : allows(CLAIM_RULES.member);
+	}
 	if (actor.accountRole === 'editor' && (await sharedWith(database, actor, claim.id)))
 		return allows(CLAIM_RULES.editor);
 	return 'hidden';

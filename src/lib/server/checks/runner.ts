@@ -9,30 +9,37 @@ import { Piscina } from 'piscina';
 import type { CertificationResult } from '$lib/certify';
 import { config } from '../config';
 import type { Database } from '../db';
+import { writeTransaction } from '../db/transactions';
 import type { CheckAttributes } from '../db/models/Check';
 import { audit } from '../services/audit';
 import { datasetFilePath } from '../services/datasets';
 import { checkWorkerFile } from './locate';
+import type { SummaryOutcome, SummaryTask } from './summary';
 import type { CheckMessage, CheckTask } from './task';
 
 const PROGRESS_STEP = 0.02;
 
 export class CheckRunner {
 	private readonly pool: Piscina;
+	/** Threads for reading uploads, apart from the checks' so that an upload never queues behind one. */
+	private readonly readers: Piscina;
 	private readonly active = new Map<string, Promise<void>>();
 	private readonly aborts = new Map<string, AbortController>();
+	private stopping = false;
 
 	constructor(
 		private readonly database: Database,
 		workerFile: string,
 		threads: number
 	) {
-		this.pool = new Piscina({
+		const options = {
 			filename: pathToFileURL(workerFile).href,
 			minThreads: 0,
 			maxThreads: threads,
 			idleTimeout: 60_000
-		});
+		};
+		this.pool = new Piscina(options);
+		this.readers = new Piscina(options);
 		// A worker that dies outside a task (e.g. a broken bundle) would leave its tasks waiting forever.
 		this.pool.on('error', (error: Error) => {
 			console.error('check worker:', error);
@@ -66,6 +73,11 @@ export class CheckRunner {
 		return ids;
 	}
 
+	/** Reads a counts file against its claim on a worker thread, off the request thread. */
+	summarise(task: SummaryTask): Promise<SummaryOutcome> {
+		return this.readers.run(task, { name: 'summariseCounts' }) as Promise<SummaryOutcome>;
+	}
+
 	/** Resolves when no check is queued or running here (tests, shutdown). */
 	async idle(): Promise<void> {
 		while (this.active.size) await Promise.allSettled([...this.active.values()]);
@@ -73,13 +85,20 @@ export class CheckRunner {
 
 	async close(): Promise<void> {
 		await this.idle();
-		await this.pool.destroy();
+		await Promise.all([this.pool.destroy(), this.readers.destroy()]);
+	}
+
+	/** Stops the threads now; checks cut short stay queued or running and resume at the next start. */
+	async abort(): Promise<void> {
+		this.stopping = true;
+		await Promise.all([this.pool.destroy(), this.readers.destroy()]);
+		await Promise.allSettled([...this.active.values()]);
 	}
 
 	private async run(checkId: string): Promise<void> {
 		const { Check, Claim, Dataset } = this.database.models;
 		const check = (await Check.findByPk(checkId))?.get({ plain: true });
-		if (!check || check.status !== 'queued') return;
+		if (!check || check.status !== 'queued' || this.stopping) return;
 		const dataset = (await Dataset.findByPk(check.datasetId))!.get({ plain: true });
 		const claim = (await Claim.findByPk(check.claimId))!.get({ plain: true });
 		const channel = new MessageChannel();
@@ -109,6 +128,7 @@ export class CheckRunner {
 			resamples: check.resamples,
 			confidence: check.confidence,
 			seed: Number(check.seed),
+			subtractAccidentals: !!check.subtractAccidentals,
 			claim: claim.claimedSchmidtNumber,
 			port: channel.port2
 		};
@@ -131,6 +151,7 @@ export class CheckRunner {
 		}
 		channel.port1.close();
 		await writes;
+		if (this.stopping) return;
 		await this.finish(check, { startedAt: startedAt ?? new Date(), result, failure });
 	}
 
@@ -141,7 +162,7 @@ export class CheckRunner {
 		const { Check, Claim } = this.database.models;
 		const { result, failure } = outcome;
 		const done = result !== null && failure === null;
-		await this.database.sequelize.transaction(async (transaction) => {
+		await writeTransaction(this.database, async (transaction) => {
 			await Check.update(
 				done
 					? {
@@ -213,4 +234,12 @@ export async function stopCheckRunner(database: Database): Promise<void> {
 	if (!runner) return;
 	runners.delete(database);
 	await (await runner).close();
+}
+
+/** For shutdown: stops the worker threads without waiting for running checks (they resume later). */
+export async function abortCheckRunner(database: Database): Promise<void> {
+	const runner = runners.get(database);
+	if (!runner) return;
+	runners.delete(database);
+	await (await runner).abort();
 }

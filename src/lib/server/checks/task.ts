@@ -16,6 +16,7 @@ export interface CheckTask {
 	resamples: number;
 	confidence: number;
 	seed: number;
+	subtractAccidentals?: boolean;
 	/** The claimed Schmidt number, for the verdict. */
 	claim?: number;
 	port?: MessagePort;

@@ -8,6 +8,9 @@ import { certify, InputError, parseCounts, type CertificationResult } from '../.
 import { sha256Hex } from '../../evidence/hash';
 import type { CheckMessage, CheckTask } from './task';
 
+/** Named task (piscina `name`): reads an uploaded file against its claim. */
+export { summariseCounts } from './summary';
+
 async function readStored(file: string): Promise<Uint8Array> {
 	try {
 		return await readFile(file);
@@ -34,6 +37,7 @@ export default async function runCheck(task: CheckTask): Promise<CertificationRe
 		resamples: task.resamples,
 		confidence: task.confidence,
 		seed: task.seed,
+		subtractAccidentals: task.subtractAccidentals,
 		claim: task.claim,
 		inputSha256,
 		onProgress: (fraction) => post({ type: 'progress', fraction })

@@ -1,15 +1,18 @@
 /**
- * The one Sequelize instance: a SQLite file in WAL mode with a busy timeout and foreign keys,
- * migrated by umzug at start-up.
+ * The one Sequelize instance: a SQLite file in WAL mode; every connection gets a busy timeout and
+ * foreign keys (connections.ts); migrated by umzug at start-up. Write through writeTransaction.
  */
 import { mkdirSync } from 'node:fs';
 import path from 'node:path';
-import { Sequelize } from 'sequelize';
+import { Sequelize, Transaction } from 'sequelize';
 import sqlite3 from 'sqlite3';
 import { SequelizeStorage, Umzug } from 'umzug';
 import { config } from '../config';
+import { configureEveryConnection, queueAutocommitWrites } from './connections';
 import { migrations } from './migrations';
 import { defineModels, type Models } from './models';
+
+export { writeTransaction } from './transactions';
 
 export interface Database {
 	sequelize: Sequelize;
@@ -23,12 +26,13 @@ export async function openDatabase(file: string): Promise<Database> {
 		dialectModule: sqlite3,
 		storage: file,
 		logging: false,
-		pool: { max: 1, min: 0 },
-		retry: { max: 10, match: [/SQLITE_BUSY/] }
+		// Any transaction not made by writeTransaction still takes the write lock up front.
+		transactionType: Transaction.TYPES.IMMEDIATE,
+		// Statements outside transactions only; see queueAutocommitWrites.
+		retry: { max: 5, match: [/SQLITE_BUSY/] }
 	});
-	await sequelize.query('PRAGMA journal_mode = WAL;');
-	await sequelize.query('PRAGMA busy_timeout = 5000;');
-	await sequelize.query('PRAGMA foreign_keys = ON;');
+	configureEveryConnection(sequelize);
+	queueAutocommitWrites(sequelize);
 	const umzug = new Umzug({
 		migrations: migrations.map((m) => ({ name: m.name, up: m.up, down: m.down })),
 		context: sequelize.getQueryInterface(),

@@ -11,6 +11,7 @@ import { hashPassword } from '../auth';
 import { config } from '../config';
 import type { Database } from '../db';
 import { userActor } from '../access/actor';
+import { writeTransaction } from '../db/transactions';
 import { startCheck } from '../services/checks';
 import { createClaim } from '../services/claims';
 import { addDataset } from '../services/datasets';
@@ -25,7 +26,7 @@ async function seedPeople(database: Database): Promise<Map<string, string>> {
 	const { User, Group, Membership } = database.models;
 	const ids = new Map<string, string>();
 	const groupId = newId();
-	await database.sequelize.transaction(async (transaction) => {
+	await writeTransaction(database, async (transaction) => {
 		await Group.create({ id: groupId, name: DEMO_GROUP }, { transaction });
 		for (const person of DEMO_PEOPLE) {
 			const id = newId();

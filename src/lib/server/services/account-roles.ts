@@ -5,6 +5,7 @@
 import type { Actor } from '../access/actor';
 import { requireService } from '../access/permissions';
 import type { Database } from '../db';
+import { writeTransaction } from '../db/transactions';
 import type { AccountRole } from '../db/models/User';
 import { audit } from './audit';
 import { NotFoundError } from './errors';
@@ -48,7 +49,7 @@ export async function setAccountRole(
 		throw new FieldError('role', 'Choose researcher, editor or admin.');
 	const { userId: actorId } = await requireService(database, actor, 'manage-accounts');
 	const { User } = database.models;
-	await database.sequelize.transaction(async (transaction) => {
+	await writeTransaction(database, async (transaction) => {
 		const user = await User.findByPk(userId, { transaction });
 		if (!user) throw new NotFoundError('No such user.');
 		const previous = user.get('accountRole') as AccountRole;

@@ -2,12 +2,14 @@
  * Accounts: sign-up with a confirmation link, sign-in, password reset and sign-out. Links are
  * single use and expire (see email-tokens.ts); addresses are kept trimmed and lower-case.
  */
-import { UniqueConstraintError } from 'sequelize';
+import { UniqueConstraintError, type Transaction } from 'sequelize';
 import type { Actor } from '../access/actor';
 import { requireService } from '../access/permissions';
 import { hashPassword, verifyPassword, type AppLucia } from '../auth';
 import type { Database } from '../db';
-import { mailLink, sendTemplate, type Mailer } from '../mail';
+import { writeTransaction } from '../db/transactions';
+import { invitedAddress } from './invitation-links';
+import { mailLink, type Mailer } from '../mail';
 import { audit } from './audit';
 import {
 	RESET_PASSWORD_TTL_MS,
@@ -20,6 +22,7 @@ import {
 } from './email-tokens';
 import { FieldError } from './field-error';
 import { newId } from './ids';
+import { queueMail } from './mail-queue';
 import { revokeAllTokens } from './tokens';
 
 import { PASSWORD_MAX_LENGTH, PASSWORD_MIN_LENGTH } from '$lib/account-limits';
@@ -43,19 +46,33 @@ function checkPassword(password: string, field = 'password') {
 const EMAIL_TAKEN =
 	'An account with this address already exists. Sign in, or ask for a new password.';
 
-async function sendVerification(
+/** A new confirmation link, and the mail carrying it, in the caller's transaction. */
+async function queueVerification(
+	database: Database,
 	mailer: Mailer,
-	user: { email: string; name: string },
-	token: string
+	user: { id: string; email: string; name: string },
+	transaction: Transaction
 ) {
-	const link = mailLink(mailer, `/verify/${token}`);
-	await sendTemplate(mailer, user.email, 'verify-email', { ...user, link });
+	const token = await issueEmailToken(
+		database,
+		user.id,
+		'verify-email',
+		VERIFY_EMAIL_TTL_MS,
+		transaction
+	);
+	const values = { name: user.name, email: user.email, link: mailLink(mailer, `/verify/${token}`) };
+	await queueMail(database, transaction, user.email, 'verify-email', values);
 }
 
+/**
+ * Creates an account and mails a confirmation link — unless the sign-up came through a valid
+ * invitation to this very address: opening that link already proved the mailbox.
+ */
 export async function signUp(
 	database: Database,
 	mailer: Mailer,
-	input: { email: string; name: string; password: string }
+	input: { email: string; name: string; password: string },
+	proof: { invitationToken?: string | null } = {}
 ): Promise<{ userId: string }> {
 	const { User } = database.models;
 	const email = normaliseEmail(input.email);
@@ -65,11 +82,12 @@ export async function signUp(
 	if (await User.findOne({ where: { email } })) throw new FieldError('email', EMAIL_TAKEN);
 	const passwordHash = await hashPassword(input.password);
 	const userId = newId();
-	let token: string;
 	try {
-		token = await database.sequelize.transaction(async (transaction) => {
+		await writeTransaction(database, async (transaction) => {
+			const invited = await invitedAddress(database, proof.invitationToken, email, transaction);
+			const emailVerifiedAt = invited ? new Date() : null;
 			await User.create(
-				{ id: userId, email, name, passwordHash, accountRole: 'researcher' },
+				{ id: userId, email, name, passwordHash, accountRole: 'researcher', emailVerifiedAt },
 				{ transaction }
 			);
 			const entry = {
@@ -80,13 +98,21 @@ export async function signUp(
 				details: { email }
 			};
 			await audit(database, entry, transaction);
-			return issueEmailToken(database, userId, 'verify-email', VERIFY_EMAIL_TTL_MS, transaction);
+			if (invited) {
+				const via = { via: 'invitation' };
+				await audit(
+					database,
+					{ ...entry, action: 'account.email-verified', details: via },
+					transaction
+				);
+				return;
+			}
+			await queueVerification(database, mailer, { id: userId, email, name }, transaction);
 		});
 	} catch (error) {
 		if (error instanceof UniqueConstraintError) throw new FieldError('email', EMAIL_TAKEN);
 		throw error;
 	}
-	await sendVerification(mailer, { email, name }, token);
 	return { userId };
 }
 
@@ -100,8 +126,9 @@ export async function resendVerification(
 	const user = await database.models.User.findByPk(userId);
 	if (!user || user.get('emailVerifiedAt')) return false;
 	const { email, name } = user.get({ plain: true });
-	const token = await issueEmailToken(database, userId, 'verify-email', VERIFY_EMAIL_TTL_MS);
-	await sendVerification(mailer, { email, name }, token);
+	await writeTransaction(database, (transaction) =>
+		queueVerification(database, mailer, { id: userId, email, name }, transaction)
+	);
 	return true;
 }
 
@@ -109,7 +136,7 @@ export const verificationLinkState = (database: Database, token: string) =>
 	emailTokenState(database, token, 'verify-email');
 
 export async function verifyEmail(database: Database, token: string): Promise<LinkResult> {
-	return database.sequelize.transaction(async (transaction) => {
+	return writeTransaction(database, async (transaction) => {
 		const used = await useEmailToken(database, token, 'verify-email', transaction);
 		if (!used.ok) return used;
 		await confirmAddress(database, used.userId, transaction);
@@ -152,17 +179,22 @@ export async function requestPasswordReset(
 	const user = await database.models.User.findOne({ where: { email: normaliseEmail(email) } });
 	if (!user) return;
 	const { id, name, email: address } = user.get({ plain: true });
-	const token = await issueEmailToken(database, id, 'reset-password', RESET_PASSWORD_TTL_MS);
-	await audit(database, {
-		actorId: null,
-		action: 'account.password-reset-requested',
-		subjectType: 'user',
-		subjectId: id
-	});
-	await sendTemplate(mailer, address, 'reset-password', {
-		name,
-		email: address,
-		link: mailLink(mailer, `/reset/${token}`)
+	await writeTransaction(database, async (transaction) => {
+		const ttl = RESET_PASSWORD_TTL_MS;
+		const token = await issueEmailToken(database, id, 'reset-password', ttl, transaction);
+		const entry = {
+			actorId: null,
+			action: 'account.password-reset-requested',
+			subjectType: 'user',
+			subjectId: id
+		};
+		await audit(database, entry, transaction);
+		const link = mailLink(mailer, `/reset/${token}`);
+		await queueMail(database, transaction, address, 'reset-password', {
+			name,
+			email: address,
+			link
+		});
 	});
 }
 
@@ -182,7 +214,7 @@ export async function resetPassword(
 ): Promise<LinkResult> {
 	checkPassword(newPassword);
 	const passwordHash = await hashPassword(newPassword);
-	const result = await database.sequelize.transaction(async (transaction): Promise<LinkResult> => {
+	const result = await writeTransaction(database, async (transaction): Promise<LinkResult> => {
 		const used = await useEmailToken(database, token, 'reset-password', transaction);
 		if (!used.ok) return used;
 		const { User } = database.models;
@@ -196,17 +228,13 @@ export async function resetPassword(
 			subjectId: used.userId
 		};
 		await audit(database, entry, transaction);
+		const user = (await User.findByPk(used.userId, { transaction }))!.get({ plain: true });
+		const values = { name: user.name, email: user.email, link: mailLink(mailer, '/reset') };
+		await queueMail(database, transaction, user.email, 'password-changed', values);
 		return used;
 	});
 	if (!result.ok) return result;
 	await lucia.invalidateUserSessions(result.userId);
-	const user = (await database.models.User.findByPk(result.userId))!.get({ plain: true });
-	const link = mailLink(mailer, '/reset');
-	await sendTemplate(mailer, user.email, 'password-changed', {
-		name: user.name,
-		email: user.email,
-		link
-	});
 	return result;
 }
 

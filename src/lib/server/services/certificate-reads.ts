@@ -21,6 +21,7 @@ import {
 import type { Actor } from '../access/actor';
 import { decideClaim, requireClaim, type ClaimAction } from '../access/permissions';
 import { NotFoundError } from './errors';
+import { withdrawalOf } from './ledger';
 
 /** The row when the caller may do `action` to its claim; a hidden claim hides the certificate. */
 async function visibleCertificate(
@@ -88,8 +89,13 @@ export async function certificateFile(
 		: { bytes, filename: `rankseal-evidence-${id}.zip`, contentType: 'application/zip' };
 }
 
+/** A withdrawn certificate also says why and when, as its ledger entry records. */
 export type Lookup =
-	{ status: 'unknown' } | (PublicCertificate & { status: PublicCertificate['status'] });
+	| { status: 'unknown' }
+	| (PublicCertificate & {
+			status: PublicCertificate['status'];
+			withdrawal: { reason: string; at: string } | null;
+	  });
 
 /** Public: a certificate by id or by fingerprint. */
 export async function lookupCertificate(
@@ -101,7 +107,11 @@ export async function lookupCertificate(
 	const row = await database.models.Certificate.findOne({
 		where: { [Op.or]: [{ id: key }, { fingerprint: key }] }
 	});
-	return row ? publicCertificate(row.get({ plain: true })) : { status: 'unknown' };
+	if (!row) return { status: 'unknown' };
+	const certificate = row.get({ plain: true });
+	const withdrawal =
+		certificate.status === 'withdrawn' ? await withdrawalOf(database, certificate.id) : null;
+	return { ...publicCertificate(certificate), withdrawal };
 }
 
 /** Public: checks an uploaded bundle against the service's keys, then says what is on record. */

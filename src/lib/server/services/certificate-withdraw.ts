@@ -1,12 +1,48 @@
 /** Withdrawing a certificate: its status changes and the ledger records why; nothing else does. */
+import type { Transaction } from 'sequelize';
+import type { SigningKey } from '../../evidence/signing';
 import type { Database } from '../db';
+import { writeTransaction } from '../db/transactions';
+import type { CertificateAttributes } from '../db/models/Certificate';
 import { serviceKey } from '../evidence/keys';
 import { accountIdOf, type Actor } from '../access/actor';
 import { requireWithdrawal } from '../access/permissions';
 import { audit } from './audit';
 import { certificateView, type CertificateView } from './certificate-views';
 import { ConflictError, FieldError, NotFoundError } from './errors';
-import { appendLedger, ledgerTransaction } from './ledger';
+import { appendLedger } from './ledger';
+
+export const WITHDRAW_REASON = { min: 3, max: 500 };
+
+/** The reason, trimmed; FieldError naming the field when it is too short or too long. */
+export function withdrawalReason(reason: string): string {
+	const why = reason.trim();
+	if (why.length < WITHDRAW_REASON.min || why.length > WITHDRAW_REASON.max)
+		throw new FieldError(
+			'reason',
+			`Say why in ${WITHDRAW_REASON.min} to ${WITHDRAW_REASON.max} characters.`
+		);
+	return why;
+}
+
+/** Marks one certificate withdrawn, with its ledger event and audit row, in the caller's transaction. */
+export async function withdrawInTransaction(
+	database: Database,
+	certificate: Pick<CertificateAttributes, 'id'>,
+	context: { userId: string | null; groupId: string; reason: string; key: SigningKey },
+	transaction: Transaction
+): Promise<void> {
+	const { userId, groupId, reason, key } = context;
+	const certificateId = certificate.id;
+	await database.models.Certificate.update(
+		{ status: 'withdrawn' },
+		{ where: { id: certificateId }, transaction }
+	);
+	const details = { reason, by: userId };
+	await appendLedger(database, { event: 'withdraw', certificateId, details }, key, transaction);
+	const entry = { actorId: userId, groupId, subjectType: 'certificate', subjectId: certificateId };
+	await audit(database, { ...entry, action: 'certificate.withdrawn', details }, transaction);
+}
 
 /** The group's lead or the certificate's issuer may withdraw it; the reason goes in the ledger. */
 export async function withdrawCertificate(
@@ -22,28 +58,19 @@ export async function withdrawCertificate(
 		throw error instanceof NotFoundError ? new NotFoundError('No such certificate.') : error;
 	});
 	const userId = accountIdOf(caller)!;
-	const why = reason.trim();
-	if (why.length < 3 || why.length > 500)
-		throw new FieldError('reason', 'Say why in 3 to 500 characters.');
+	const why = withdrawalReason(reason);
 	if (row.get('status') === 'withdrawn')
 		throw new ConflictError('The certificate is withdrawn already.');
 	const key = serviceKey();
-	await ledgerTransaction(database, async (transaction) => {
-		await row.update({ status: 'withdrawn' }, { transaction });
-		const details = { reason: why, by: userId };
-		await appendLedger(database, { event: 'withdraw', certificateId, details }, key, transaction);
-		await audit(
+	const groupId = claim.groupId;
+	await writeTransaction(database, (transaction) =>
+		withdrawInTransaction(
 			database,
-			{
-				actorId: userId,
-				groupId: claim.groupId,
-				action: 'certificate.withdrawn',
-				subjectType: 'certificate',
-				subjectId: certificateId,
-				details
-			},
+			{ id: certificateId },
+			{ userId, groupId, reason: why, key },
 			transaction
-		);
-	});
+		)
+	);
+	await row.reload();
 	return certificateView(row.get({ plain: true }));
 }

@@ -7,6 +7,7 @@ import type { Transaction } from 'sequelize';
 import { sha256Hex } from '../../evidence/hash';
 import { config } from '../config';
 import type { Database } from '../db';
+import { writeTransaction } from '../db/transactions';
 import type { ClaimAttributes } from '../db/models/Claim';
 import { makeEvidence, selfCheck, type Evidence, type EvidenceInput } from '../evidence/artifacts';
 import { publishedKeys, serviceKey } from '../evidence/keys';
@@ -17,10 +18,11 @@ import { audit } from './audit';
 import { certificatePaths, placeFiles, removeFiles } from './certificate-files';
 import { certificateRow, issueDetails } from './certificate-rows';
 import { certificateView, evidenceUrls, type CertificateView } from './certificate-views';
+import { queueCertificateNotice } from './claim-notices';
 import { datasetFilePath } from './datasets';
 import { ConflictError, NotFoundError } from './errors';
 import { newId } from './ids';
-import { appendLedger, ledgerTransaction } from './ledger';
+import { appendLedger } from './ledger';
 
 export type { CertificateView } from './certificate-views';
 
@@ -140,6 +142,7 @@ async function store(
 	const entry = { actorId: userId, groupId, subjectType: 'certificate', subjectId: id };
 	const action = 'certificate.issued';
 	await audit(database, { ...entry, action, details: { fingerprint, supersedes } }, transaction);
+	await queueCertificateNotice(database, row, transaction);
 	return row;
 }
 
@@ -161,7 +164,7 @@ export async function issueCertificate(
 	const paths = certificatePaths(evidence.manifest.certificateId);
 	let placed: string[] = [];
 	try {
-		const row = await ledgerTransaction(database, async (transaction) => {
+		const row = await writeTransaction(database, async (transaction) => {
 			if ((await currentCertificate(database, claimId, transaction)) !== supersedes)
 				throw new IssueConflictError(
 					'Another certificate was issued for this claim meanwhile; try again.'

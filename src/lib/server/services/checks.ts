@@ -9,9 +9,11 @@ import { accountIdOf, type Actor } from '../access/actor';
 import { requireClaim } from '../access/permissions';
 import { hasCheckRunner, startCheckRunner } from '../checks/runner';
 import type { Database } from '../db';
+import { writeTransaction } from '../db/transactions';
 import type { CheckAttributes, CheckStatus } from '../db/models/Check';
+import type { DatasetAttributes } from '../db/models/Dataset';
 import { audit } from './audit';
-import { ConflictError, NotFoundError } from './errors';
+import { ConflictError, FieldError, NotFoundError } from './errors';
 import { newId } from './ids';
 
 export type { CheckRequest } from '$lib/claims/schema';
@@ -26,6 +28,8 @@ export interface CheckView {
 	resamples: number;
 	confidence: number;
 	seed: number;
+	/** Accidentals subtracted before normalising: the result is labelled background-subtracted. */
+	subtractAccidentals: boolean;
 	createdAt: string;
 	startedAt: string | null;
 	finishedAt: string | null;
@@ -45,12 +49,22 @@ const view = (c: CheckAttributes): CheckView => ({
 	resamples: c.resamples,
 	confidence: c.confidence,
 	seed: Number(c.seed),
+	subtractAccidentals: !!c.subtractAccidentals,
 	createdAt: new Date(c.createdAt ?? 0).toISOString(),
 	startedAt: isoOrNull(c.startedAt),
 	finishedAt: isoOrNull(c.finishedAt),
 	error: c.error,
 	result: c.result
 });
+
+/** Subtraction needs the file's own accidental estimates; the setting is at fault, not the file. */
+function requireAccidentals(dataset: DatasetAttributes, subtract: boolean): void {
+	if (subtract && !dataset.summary.hasAccidentals)
+		throw new FieldError(
+			'subtractAccidentals',
+			`Background subtraction needs an accidentals column, and ${dataset.originalName} has none.`
+		);
+}
 
 /**
  * Queues a check of the claim on one of its datasets (default: the newest) and returns it
@@ -82,13 +96,16 @@ export async function startCheck(
 			'This claim has no counts file yet: upload one before running a check.'
 		);
 	}
+	const subtractAccidentals = options.subtractAccidentals ?? false;
+	requireAccidentals(dataset.get({ plain: true }), subtractAccidentals);
 	const id = newId();
 	const settings = {
 		resamples: options.resamples ?? DEFAULTS.resamples,
 		confidence: options.confidence ?? DEFAULTS.confidence,
-		seed: options.seed ?? DEFAULTS.seed
+		seed: options.seed ?? DEFAULTS.seed,
+		subtractAccidentals
 	};
-	await database.sequelize.transaction(async (transaction) => {
+	await writeTransaction(database, async (transaction) => {
 		await Check.create(
 			{
 				id,

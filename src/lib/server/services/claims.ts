@@ -6,6 +6,7 @@ import { col, fn, Op, where as sqlWhere, type Order, type WhereOptions } from 's
 import { claimInputSchema, type ClaimInputValues, type ClaimQuery } from '$lib/claims/schema';
 import type { FourierConvention, MethodId } from '$lib/certify';
 import type { Database } from '../db';
+import { writeTransaction } from '../db/transactions';
 import type { ClaimAttributes, ClaimState } from '../db/models/Claim';
 import type { CheckStatus } from '../db/models/Check';
 import { accountIdOf, type Actor } from '../access/actor';
@@ -128,7 +129,7 @@ export async function createClaim(
 	await requireGroup(database, actor, groupId, 'create-claim');
 	const userId = accountIdOf(actor)!;
 	const id = newId();
-	await database.sequelize.transaction(async (transaction) => {
+	await writeTransaction(database, async (transaction) => {
 		await database.models.Claim.create(
 			{
 				id,

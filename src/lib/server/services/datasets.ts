@@ -5,28 +5,21 @@
 import { randomBytes } from 'node:crypto';
 import { mkdir, readFile, rename, rm, stat, writeFile } from 'node:fs/promises';
 import path from 'node:path';
-import { col } from 'sequelize';
-import {
-	checkDeclaredFourier,
-	DEFAULT_FOURIER,
-	METHOD_IDS,
-	parseCounts,
-	witnessFamilies,
-	type CountsDataset,
-	type FourierConvention
-} from '$lib/certify';
-import { requireCompleteTables } from '$lib/certify/counts';
+import { col, type Transaction } from 'sequelize';
+import { InputError } from '$lib/certify';
 import { sha256Hex } from '$lib/evidence/hash';
 import { accountIdOf, type Actor } from '../access/actor';
 import { requireClaim } from '../access/permissions';
+import { startCheckRunner } from '../checks/runner';
 import { config } from '../config';
 import type { Database } from '../db';
-import type { DatasetAttributes, DatasetSummary } from '../db/models/Dataset';
+import { writeTransaction } from '../db/transactions';
+import type { DatasetAttributes, DatasetSummary, PreviewTable } from '../db/models/Dataset';
 import { audit } from './audit';
-import { NotFoundError } from './errors';
+import { ConflictError, NotFoundError } from './errors';
 import { newId } from './ids';
 
-export type { DatasetSummary } from '../db/models/Dataset';
+export type { DatasetSummary, PreviewTable } from '../db/models/Dataset';
 
 export interface DatasetView {
 	id: string;
@@ -42,7 +35,7 @@ export interface DatasetView {
 export interface DatasetTables {
 	dimension: number;
 	/** One d×d table per basis: counts[a][b]. */
-	tables: { basis: number; total: number; counts: number[][] }[];
+	tables: PreviewTable[];
 }
 
 /** Where the bytes with this SHA-256 live. */
@@ -56,35 +49,6 @@ function formatOf(bytes: Uint8Array): 'csv' | 'json' {
 		.replace(/^\uFEFF/, '')
 		.trimStart();
 	return head.startsWith('{') ? 'json' : 'csv';
-}
-
-export function summarise(
-	dataset: CountsDataset,
-	fourier: FourierConvention = DEFAULT_FOURIER
-): DatasetSummary {
-	const d = dataset.dimension;
-	const present = dataset.tables.map((t) => t.basis);
-	const allows = METHOD_IDS.filter((method) => {
-		const family = witnessFamilies[method];
-		try {
-			const bases = family.defaultBases(present, d);
-			family.checkBases(bases, d, fourier);
-			requireCompleteTables(dataset, bases, method);
-			return true;
-		} catch {
-			return false;
-		}
-	});
-	return {
-		dimension: d,
-		bases: present,
-		totals: Object.fromEntries(
-			dataset.tables.map((t) => [String(t.basis), t.counts.reduce((s, c) => s + c, 0)])
-		),
-		hasAccidentals: dataset.tables.some((t) => t.accidentals !== null),
-		hasDurations: dataset.tables.some((t) => t.durations !== null),
-		allows
-	};
 }
 
 const view = (row: DatasetAttributes): DatasetView => ({
@@ -120,6 +84,25 @@ async function storeBytes(sha256: string, bytes: Uint8Array): Promise<boolean> {
 	return true;
 }
 
+/** The same bytes twice on one claim would be two rows that say one thing: refuse, naming the first. */
+async function refuseRepeatedUpload(
+	database: Database,
+	claimId: string,
+	sha256: string,
+	transaction: Transaction
+): Promise<void> {
+	const earlier = await database.models.Dataset.findOne({
+		where: { claimId, sha256 },
+		transaction
+	});
+	if (!earlier) return;
+	const { originalName, createdAt } = earlier.get({ plain: true });
+	const when = new Date(createdAt ?? 0).toISOString().slice(0, 16).replace('T', ' ');
+	throw new ConflictError(
+		`These exact bytes (SHA-256 ${sha256.slice(0, 12)}…) were uploaded to this claim already, as ${originalName} on ${when} UTC.`
+	);
+}
+
 /**
  * Validates a counts file against the claim (dimension, and the tables its method and bases
  * need), then stores it. Throws InputError naming the line for a bad file and NotFoundError
@@ -134,15 +117,17 @@ export async function addDataset(
 	const claim = await requireClaim(database, actor, claimId, 'add-dataset');
 	const userId = accountIdOf(actor)!;
 	const { bytes } = upload;
-	const parsed = parseCounts(bytes, claim.dimension);
-	checkDeclaredFourier(parsed, claim.fourier, 'the claim');
-	requireCompleteTables(parsed, claim.bases, claim.method);
+	const runner = await startCheckRunner(database);
+	const read = await runner.summarise({ bytes, ...claim });
+	if (!read.ok)
+		throw new InputError(read.message, read.line ?? undefined, read.column ?? undefined);
 	const sha256 = sha256Hex(bytes);
 	const originalName = (upload.originalName.trim() || 'counts').slice(0, 200);
 	const id = newId();
 	let wrote = false;
 	try {
-		await database.sequelize.transaction(async (transaction) => {
+		await writeTransaction(database, async (transaction) => {
+			await refuseRepeatedUpload(database, claimId, sha256, transaction);
 			await database.models.Dataset.create(
 				{
 					id,
@@ -152,11 +137,12 @@ export async function addDataset(
 					byteSize: bytes.byteLength,
 					format: formatOf(bytes),
 					originalName,
-					summary: summarise(parsed, claim.fourier)
+					summary: read.summary,
+					preview: read.preview
 				},
 				{ transaction }
 			);
-			wrote = await storeBytes(sha256, bytes);
+			wrote = (await storeBytes(sha256, bytes)) || wrote;
 			const details = { sha256, byteSize: bytes.byteLength, originalName };
 			await audit(
 				database,
@@ -222,24 +208,26 @@ export async function getDataset(
 	return view(await readableDataset(database, actor, datasetId));
 }
 
-/** Per-basis d×d count tables of a stored dataset (for heat maps); NotFoundError when not visible. */
+/**
+ * Per-basis d×d count tables of a stored dataset (for heat maps); NotFoundError when not visible.
+ * Rows from before migration 0004 have none stored: they are read once, on a worker, and kept.
+ */
 export async function datasetTables(
 	database: Database,
 	actor: Actor,
 	datasetId: string
 ): Promise<DatasetTables> {
 	const dataset = await readableDataset(database, actor, datasetId);
-	const parsed = parseCounts(
-		await readFile(datasetFilePath(dataset.sha256)),
-		dataset.summary.dimension
-	);
-	const d = parsed.dimension;
-	return {
-		dimension: d,
-		tables: parsed.tables.map((t) => ({
-			basis: t.basis,
-			total: t.counts.reduce((s, c) => s + c, 0),
-			counts: Array.from({ length: d }, (_, a) => Array.from(t.counts.subarray(a * d, a * d + d)))
-		}))
-	};
+	const dimension = dataset.summary.dimension;
+	if (dataset.preview) return { dimension, tables: dataset.preview };
+	const runner = await startCheckRunner(database);
+	const bases = dataset.summary.bases;
+	const bytes = await readFile(datasetFilePath(dataset.sha256));
+	const claim = (await database.models.Claim.findByPk(dataset.claimId))!.get({ plain: true });
+	const task = { bytes, dimension, method: claim.method, bases: [], fourier: claim.fourier };
+	const read = await runner.summarise(task);
+	if (!read.ok) throw new InputError(read.message, read.line ?? undefined);
+	const preview = read.preview.filter((t) => bases.includes(t.basis));
+	await database.models.Dataset.update({ preview }, { where: { id: datasetId } });
+	return { dimension, tables: preview };
 }

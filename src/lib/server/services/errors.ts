@@ -20,7 +20,10 @@ export class ForbiddenError extends Error {
 	}
 }
 
-/** The request is sound but the thing is not in a state that allows it (no counts yet, …). */
+/**
+ * The request is sound but the thing is not in a state that allows it (no counts yet, a repeated
+ * upload, a claim already checked): 409.
+ */
 export class ConflictError extends Error {
 	constructor(message: string) {
 		super(message);

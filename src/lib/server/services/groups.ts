@@ -7,6 +7,7 @@ import type { Transaction } from 'sequelize';
 import { accountIdOf, isAccount, type Actor } from '../access/actor';
 import { requireGroup, requireService } from '../access/permissions';
 import type { Database } from '../db';
+import { writeTransaction } from '../db/transactions';
 import type { GroupRole } from '../db/models/Membership';
 import { audit } from './audit';
 import { ForbiddenError, NotFoundError } from './errors';
@@ -68,7 +69,7 @@ export async function createGroup(
 	if (!user.get('emailVerifiedAt'))
 		throw new ForbiddenError('Confirm your e-mail address before starting a group.');
 	const id = newId();
-	await database.sequelize.transaction(async (transaction) => {
+	await writeTransaction(database, async (transaction) => {
 		await Group.create({ id, name: trimmed }, { transaction });
 		await Membership.create({ id: newId(), groupId: id, userId, role: 'lead' }, { transaction });
 		await audit(
@@ -153,7 +154,7 @@ export async function changeMemberRole(
 	role: GroupRole
 ): Promise<void> {
 	if (!GROUP_ROLES.includes(role)) throw new FieldError('role', 'Choose lead or author.');
-	await database.sequelize.transaction(async (transaction) => {
+	await writeTransaction(database, async (transaction) => {
 		await requireGroup(database, actor, groupId, 'manage', transaction);
 		const actorId = accountIdOf(actor);
 		const membership = await targetMembership(database, groupId, memberId, transaction);
@@ -184,7 +185,7 @@ export async function removeMember(
 	groupId: string,
 	memberId: string
 ): Promise<void> {
-	await database.sequelize.transaction(async (transaction) => {
+	await writeTransaction(database, async (transaction) => {
 		await requireGroup(database, actor, groupId, 'manage', transaction);
 		const actorId = accountIdOf(actor);
 		const membership = await targetMembership(database, groupId, memberId, transaction);

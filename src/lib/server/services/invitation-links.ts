@@ -2,9 +2,11 @@
  * Invitations, the invitee's side: what a link stands for, and using it. A link works once
  * within 7 days, and only for a signed-in user with the invited address.
  */
+import { Op, type Transaction } from 'sequelize';
 import type { Actor } from '../access/actor';
 import { requireService } from '../access/permissions';
 import type { Database } from '../db';
+import { writeTransaction } from '../db/transactions';
 import type { GroupRole } from '../db/models/Membership';
 import { audit } from './audit';
 import { confirmAddress } from './email-tokens';
@@ -48,6 +50,31 @@ export async function findInvitation(
 	};
 }
 
+/** The invitation token in a path such as `/invite/<token>` (a sign-up's ?next=), else null. */
+export function invitationTokenIn(path: string | null | undefined): string | null {
+	return path?.match(/^\/invite\/([A-Za-z0-9_-]+)$/)?.[1] ?? null;
+}
+
+/** True when the token is a pending, unexpired invitation to exactly this address. */
+export async function invitedAddress(
+	database: Database,
+	token: string | null | undefined,
+	email: string,
+	transaction?: Transaction
+): Promise<boolean> {
+	if (!token) return false;
+	const row = await database.models.Invitation.findOne({
+		where: {
+			tokenHash: hashSecret(token),
+			email,
+			acceptedAt: null,
+			expiresAt: { [Op.gt]: new Date() }
+		},
+		transaction
+	});
+	return row !== null;
+}
+
 /**
  * Uses the invitation for the signed-in user, whose address must be the invited one; opening
  * the link from that mailbox also confirms the address.
@@ -59,7 +86,7 @@ export async function acceptInvitation(
 ): Promise<{ groupId: string; role: GroupRole }> {
 	const { userId } = await requireService(database, actor, 'join-group');
 	const { Invitation, Membership, User } = database.models;
-	return database.sequelize.transaction(async (transaction) => {
+	return writeTransaction(database, async (transaction) => {
 		const row = await Invitation.findOne({ where: { tokenHash: hashSecret(token) }, transaction });
 		if (!row) throw new NotFoundError('This invitation does not exist or was withdrawn.');
 		const i = row.get({ plain: true });

@@ -6,14 +6,16 @@ import { Op } from 'sequelize';
 import { accountIdOf, type Actor } from '../access/actor';
 import { requireGroup } from '../access/permissions';
 import type { Database } from '../db';
+import { writeTransaction } from '../db/transactions';
 import type { GroupRole } from '../db/models/Membership';
-import { mailLink, sendTemplate, type Mailer } from '../mail';
+import { mailLink, type Mailer } from '../mail';
 import { normaliseEmail } from './accounts';
 import { audit } from './audit';
 import { NotFoundError } from './errors';
 import { FieldError } from './field-error';
 import { GROUP_ROLES } from './groups';
 import { newId, newSecret } from './ids';
+import { queueMail } from './mail-queue';
 
 export const INVITATION_TTL_MS = 7 * 24 * 60 * 60 * 1000;
 
@@ -36,54 +38,47 @@ export async function inviteMember(
 	const email = normaliseEmail(input.email);
 	if (!GROUP_ROLES.includes(input.role)) throw new FieldError('role', 'Choose lead or author.');
 	const { Group, Invitation, Membership, User } = database.models;
-	const { id, token, groupName, inviter } = await database.sequelize.transaction(
-		async (transaction) => {
-			await requireGroup(database, actor, groupId, 'manage', transaction);
-			const actorId = accountIdOf(actor)!;
-			const existing = await User.findOne({ where: { email }, transaction });
-			if (
-				existing &&
-				(await Membership.findOne({
-					where: { groupId, userId: existing.get('id') as string },
-					transaction
-				}))
-			) {
-				throw new FieldError('email', 'This address already belongs to a member of the group.');
-			}
-			// A new invitation replaces any open one for the same address.
-			await Invitation.destroy({ where: { groupId, email, acceptedAt: null }, transaction });
-			const { token, hash } = newSecret();
-			const id = newId();
-			const expiresAt = new Date(Date.now() + INVITATION_TTL_MS);
-			await Invitation.create(
-				{ id, groupId, email, role: input.role, tokenHash: hash, invitedBy: actorId, expiresAt },
-				{ transaction }
-			);
-			const details = { email, role: input.role };
-			await audit(
-				database,
-				{
-					actorId,
-					groupId,
-					action: 'invitation.sent',
-					subjectType: 'invitation',
-					subjectId: id,
-					details
-				},
+	const id = await writeTransaction(database, async (transaction) => {
+		await requireGroup(database, actor, groupId, 'manage', transaction);
+		const actorId = accountIdOf(actor)!;
+		const existing = await User.findOne({ where: { email }, transaction });
+		if (
+			existing &&
+			(await Membership.findOne({
+				where: { groupId, userId: existing.get('id') as string },
 				transaction
-			);
-			const groupName = (await Group.findByPk(groupId, { transaction }))!.get('name') as string;
-			const inviter = (await User.findByPk(actorId, { transaction }))!.get('name') as string;
-			return { id, token, groupName, inviter };
+			}))
+		) {
+			throw new FieldError('email', 'This address already belongs to a member of the group.');
 		}
-	);
-	const link = mailLink(mailer, `/invite/${token}`);
-	await sendTemplate(mailer, email, 'invitation', {
-		inviter,
-		group: groupName,
-		email,
-		role: input.role,
-		link
+		// A new invitation replaces any open one for the same address.
+		await Invitation.destroy({ where: { groupId, email, acceptedAt: null }, transaction });
+		const { token, hash } = newSecret();
+		const id = newId();
+		const expiresAt = new Date(Date.now() + INVITATION_TTL_MS);
+		await Invitation.create(
+			{ id, groupId, email, role: input.role, tokenHash: hash, invitedBy: actorId, expiresAt },
+			{ transaction }
+		);
+		const details = { email, role: input.role };
+		await audit(
+			database,
+			{
+				actorId,
+				groupId,
+				action: 'invitation.sent',
+				subjectType: 'invitation',
+				subjectId: id,
+				details
+			},
+			transaction
+		);
+		const group = (await Group.findByPk(groupId, { transaction }))!.get('name') as string;
+		const inviter = (await User.findByPk(actorId, { transaction }))!.get('name') as string;
+		const link = mailLink(mailer, `/invite/${token}`);
+		const values = { inviter, group, email, role: input.role, link };
+		await queueMail(database, transaction, email, 'invitation', values);
+		return id;
 	});
 	return { invitationId: id };
 }
@@ -126,7 +121,7 @@ export async function revokeInvitation(
 	groupId: string,
 	invitationId: string
 ): Promise<void> {
-	await database.sequelize.transaction(async (transaction) => {
+	await writeTransaction(database, async (transaction) => {
 		await requireGroup(database, actor, groupId, 'manage', transaction);
 		const actorId = accountIdOf(actor);
 		const removed = await database.models.Invitation.destroy({

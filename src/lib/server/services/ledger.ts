@@ -2,7 +2,7 @@
  * The ledger: an append-only hash chain of issue, supersede and withdraw events. Each entry's
  * canonical payload names the previous entry's hash and is signed with the service key.
  */
-import { Transaction } from 'sequelize';
+import type { Transaction } from 'sequelize';
 import { canonicalJson } from '../../evidence/canonical';
 import { sha256Hex } from '../../evidence/hash';
 import { signText, type SigningKey } from '../../evidence/signing';
@@ -37,28 +37,7 @@ export interface LedgerEntryView {
 	payload: string;
 }
 
-const writers = new WeakMap<Database, Promise<unknown>>();
-
-/**
- * Runs `work` in an IMMEDIATE transaction, one at a time per database. An append reads the last
- * entry before writing the next, so two deferred transactions would both read it and the
- * second would fail on SQLite's stale snapshot; queued writers never meet.
- */
-export function ledgerTransaction<T>(
-	database: Database,
-	work: (transaction: Transaction) => Promise<T>
-): Promise<T> {
-	const previous = writers.get(database) ?? Promise.resolve();
-	const type = Transaction.TYPES.IMMEDIATE;
-	const run = previous.then(() => database.sequelize.transaction({ type }, work));
-	writers.set(
-		database,
-		run.catch(() => undefined)
-	);
-	return run;
-}
-
-/** Appends one event inside the caller's ledgerTransaction (which serialises writers). */
+/** Appends one event inside the caller's transaction (which serialises writers). */
 export async function appendLedger(
 	database: Database,
 	event: { event: LedgerEvent; certificateId: string; details: LedgerPayload['details'] },
@@ -125,4 +104,18 @@ export async function listLedger(
 		page: current,
 		pageSize: size
 	};
+}
+
+/** The ledger's withdraw event of a certificate: why and when; null while it stands. */
+export async function withdrawalOf(
+	database: Database,
+	certificateId: string
+): Promise<{ reason: string; at: string } | null> {
+	const row = await database.models.LedgerEntry.findOne({
+		where: { certificateId, event: 'withdraw' },
+		order: [['seq', 'ASC']]
+	});
+	if (!row) return null;
+	const payload = JSON.parse(row.get('payload') as string) as LedgerPayload;
+	return { reason: payload.details.reason ?? '', at: payload.at };
 }

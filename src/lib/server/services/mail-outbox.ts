@@ -1,64 +1,105 @@
-/** The local mail catcher's messages, for admins (the outbox pages). */
+/** The outbox for admins: every message Rankseal wrote, with its delivery status. */
+import { Op } from 'sequelize';
 import type { Actor } from '../access/actor';
 import { requireService } from '../access/permissions';
 import type { Database } from '../db';
-import { NotFoundError } from './errors';
+import type { OutboxMailAttributes, OutboxStatus } from '../db/models/OutboxMail';
+import { ConflictError, NotFoundError } from './errors';
 
 export interface OutboxItem {
 	id: string;
-	from: string;
+	kind: string;
 	to: string;
 	subject: string;
+	status: OutboxStatus;
+	attempts: number;
+	nextAttemptAt: string | null;
+	lastError: string | null;
+	sentAt: string | null;
 	createdAt: string;
 }
 
 export interface OutboxMessage extends OutboxItem {
 	text: string;
+	html: string;
 }
 
 export const OUTBOX_PAGE_SIZE = 50;
 
+/** Kinds whose one link is a secret (a sign-in, reset or invitation token). */
+const SECRET_LINK_KINDS = new Set(['verify-email', 'reset-password', 'invitation']);
+const HIDDEN_LINK = '[link hidden: it opens the recipient’s account]';
+
+const iso = (date: Date | null | undefined) => (date ? new Date(date).toISOString() : null);
+
+function item(m: OutboxMailAttributes): OutboxItem {
+	return {
+		id: m.id,
+		kind: m.kind,
+		to: m.to,
+		subject: m.subject,
+		status: m.status,
+		attempts: m.attempts,
+		nextAttemptAt: iso(m.nextAttemptAt),
+		lastError: m.lastError,
+		sentAt: iso(m.sentAt),
+		createdAt: iso(m.createdAt)!
+	};
+}
+
 export async function listOutbox(
 	database: Database,
 	actor: Actor,
-	page = 1
+	page = 1,
+	status: OutboxStatus | null = null
 ): Promise<{ items: OutboxItem[]; total: number; page: number; pageSize: number }> {
 	await requireService(database, actor, 'read-outbox');
 	const current = Math.max(1, Math.floor(page) || 1);
-	const { rows, count } = await database.models.MailMessage.findAndCountAll({
-		attributes: ['id', 'from', 'to', 'subject', 'createdAt'],
+	const { rows, count } = await database.models.OutboxMail.findAndCountAll({
+		attributes: { exclude: ['text', 'html'] },
+		where: status ? { status } : {},
 		order: [['createdAt', 'DESC']],
 		limit: OUTBOX_PAGE_SIZE,
 		offset: (current - 1) * OUTBOX_PAGE_SIZE
 	});
-	const items = rows.map((row) => {
-		const m = row.get({ plain: true });
-		return {
-			id: m.id,
-			from: m.from,
-			to: m.to,
-			subject: m.subject,
-			createdAt: new Date(m.createdAt!).toISOString()
-		};
-	});
+	const items = rows.map((row) => item(row.get({ plain: true })));
 	return { items, total: count, page: current, pageSize: OUTBOX_PAGE_SIZE };
 }
 
+/**
+ * One message with its bodies. With a real mail server, secret links are hidden from admins;
+ * with the local catcher (development, demo) the outbox is the only inbox, so they show.
+ */
 export async function getOutboxMessage(
 	database: Database,
 	actor: Actor,
-	id: string
+	id: string,
+	options: { revealSecretLinks: boolean } = { revealSecretLinks: true }
 ): Promise<OutboxMessage> {
 	await requireService(database, actor, 'read-outbox');
-	const row = await database.models.MailMessage.findByPk(id);
+	const row = await database.models.OutboxMail.findByPk(id);
 	if (!row) throw new NotFoundError('No such message.');
 	const m = row.get({ plain: true });
-	return {
-		id: m.id,
-		from: m.from,
-		to: m.to,
-		subject: m.subject,
-		text: m.text,
-		createdAt: new Date(m.createdAt!).toISOString()
-	};
+	const hide = !options.revealSecretLinks && SECRET_LINK_KINDS.has(m.kind);
+	const text = hide ? m.text.replace(/https?:\/\/\S+/g, HIDDEN_LINK) : m.text;
+	const html = hide ? m.html.replace(/href="[^"]*"/g, 'href="#"') : m.html;
+	return { ...item(m), text, html };
+}
+
+/** Sends a given-up message again from the next pass of the sender. */
+export async function requeueOutboxMessage(
+	database: Database,
+	actor: Actor,
+	id: string
+): Promise<void> {
+	await requireService(database, actor, 'read-outbox');
+	const [changed] = await database.models.OutboxMail.update(
+		{ status: 'retrying', nextAttemptAt: new Date() },
+		{ where: { id, status: { [Op.eq]: 'failed' } } }
+	);
+	if (changed === 0) {
+		if (!(await database.models.OutboxMail.findByPk(id)))
+			throw new NotFoundError('No such message.');
+		throw new ConflictError('Only a message that was given up can be queued again.');
+	}
 }

@@ -8,6 +8,7 @@ import { z } from 'zod';
 import type { Actor, TokenActor } from '../access/actor';
 import { decideToken, requireService } from '../access/permissions';
 import type { Database } from '../db';
+import { writeTransaction } from '../db/transactions';
 import type { ApiTokenAttributes } from '../db/models/ApiToken';
 import { audit } from './audit';
 import { NotFoundError } from './errors';
@@ -88,7 +89,7 @@ export async function createToken(
 		expiresInDays === 'never' ? null : new Date(Date.now() + expiresInDays * DAY_MS);
 	const { token, hash } = newSecret(TOKEN_PREFIX);
 	const id = newId();
-	await database.sequelize.transaction(async (transaction) => {
+	await writeTransaction(database, async (transaction) => {
 		await database.models.ApiToken.create(
 			{ id, userId, name, prefix: token.slice(0, 12), tokenHash: hash, expiresAt },
 			{ transaction }
@@ -130,7 +131,7 @@ export async function revokeToken(
 	if (!row || decideToken(actor, row.get({ plain: true })) !== 'allowed')
 		throw new NotFoundError('No such token.');
 	if (row.get('revokedAt')) return;
-	await database.sequelize.transaction(async (transaction) => {
+	await writeTransaction(database, async (transaction) => {
 		await row.update({ revokedAt: new Date() }, { transaction });
 		await audit(
 			database,

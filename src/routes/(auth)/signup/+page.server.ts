@@ -4,6 +4,7 @@ import { app } from '$lib/server/app';
 import { echoValues, safeNext, startSession } from '$lib/server/auth-web';
 import { formFailure } from '$lib/server/problems';
 import { signUp } from '$lib/server/services/accounts';
+import { invitationTokenIn } from '$lib/server/services/invitation-links';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = ({ locals, url }) => {
@@ -21,7 +22,8 @@ export const actions: Actions = {
 		const { database, lucia, mailer } = await app();
 		let userId: string;
 		try {
-			({ userId } = await signUp(database, mailer, parsed.data));
+			const invitationToken = invitationTokenIn(safeNext(form.get('next') as string | null, ''));
+			({ userId } = await signUp(database, mailer, parsed.data, { invitationToken }));
 		} catch (problem) {
 			return formFailure('signup', problem, values);
 		}

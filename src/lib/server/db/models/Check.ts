@@ -14,6 +14,8 @@ export interface CheckAttributes {
 	resamples: number;
 	confidence: number;
 	seed: number;
+	/** Accidentals subtracted before normalising (migration 0004); the result says so. */
+	subtractAccidentals?: boolean;
 	result: CertificationResult | null;
 	error: string | null;
 	startedAt: Date | null;
@@ -40,6 +42,7 @@ export function defineCheck(sequelize: Sequelize): CheckModel {
 			resamples: { type: DataTypes.INTEGER, allowNull: false },
 			confidence: { type: DataTypes.FLOAT, allowNull: false },
 			seed: { type: DataTypes.BIGINT, allowNull: false },
+			subtractAccidentals: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
 			result: { type: DataTypes.JSON, allowNull: true },
 			error: { type: DataTypes.TEXT, allowNull: true },
 			startedAt: { type: DataTypes.DATE, allowNull: true },

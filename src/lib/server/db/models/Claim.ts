@@ -19,6 +19,9 @@ export interface ClaimAttributes {
 	claimedSchmidtNumber: number;
 	manuscriptReference: string | null;
 	state: ClaimState;
+	/** Why and when the group withdrew the claim (migration 0007); null while it stands. */
+	withdrawnReason?: string | null;
+	withdrawnAt?: Date | null;
 	createdAt?: Date;
 	updatedAt?: Date;
 }
@@ -54,7 +57,9 @@ export function defineClaim(sequelize: Sequelize): ClaimModel {
 			fourier: { type: DataTypes.STRING, allowNull: false, defaultValue: 'cyclic' },
 			claimedSchmidtNumber: { type: DataTypes.INTEGER, allowNull: false },
 			manuscriptReference: { type: DataTypes.STRING, allowNull: true },
-			state: { type: DataTypes.STRING, allowNull: false, defaultValue: 'draft' }
+			state: { type: DataTypes.STRING, allowNull: false, defaultValue: 'draft' },
+			withdrawnReason: { type: DataTypes.TEXT, allowNull: true },
+			withdrawnAt: { type: DataTypes.DATE, allowNull: true }
 		},
 		{ tableName: 'claims', underscored: true }
 	);

@@ -11,6 +11,13 @@ export interface DatasetSummary {
 	allows: string[];
 }
 
+/** One basis of a dataset as the heat map shows it: counts[a][b]. */
+export interface PreviewTable {
+	basis: number;
+	total: number;
+	counts: number[][];
+}
+
 export interface DatasetAttributes {
 	id: string;
 	claimId: string;
@@ -20,6 +27,8 @@ export interface DatasetAttributes {
 	format: 'csv' | 'json';
 	originalName: string;
 	summary: DatasetSummary;
+	/** Heat-map tables, written at upload (migration 0004); null for rows older than that until viewed. */
+	preview?: PreviewTable[] | null;
 	createdAt?: Date;
 	updatedAt?: Date;
 }
@@ -37,7 +46,8 @@ export function defineDataset(sequelize: Sequelize): DatasetModel {
 			byteSize: { type: DataTypes.INTEGER, allowNull: false },
 			format: { type: DataTypes.STRING, allowNull: false },
 			originalName: { type: DataTypes.STRING, allowNull: false },
-			summary: { type: DataTypes.JSON, allowNull: false }
+			summary: { type: DataTypes.JSON, allowNull: false },
+			preview: { type: DataTypes.JSON, allowNull: true }
 		},
 		{ tableName: 'datasets', underscored: true }
 	);

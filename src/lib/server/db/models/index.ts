@@ -12,6 +12,7 @@ import { defineInvitation } from './Invitation';
 import { defineLedgerEntry } from './LedgerEntry';
 import { defineMailMessage } from './MailMessage';
 import { defineMembership } from './Membership';
+import { defineOutboxMail } from './OutboxMail';
 import { defineSession } from './Session';
 import { defineUser } from './User';
 
@@ -30,7 +31,8 @@ export function defineModels(sequelize: Sequelize) {
 		AuditEvent: defineAuditEvent(sequelize),
 		MailMessage: defineMailMessage(sequelize),
 		Certificate: defineCertificate(sequelize),
-		LedgerEntry: defineLedgerEntry(sequelize)
+		LedgerEntry: defineLedgerEntry(sequelize),
+		OutboxMail: defineOutboxMail(sequelize)
 	};
 	const {
 		User,

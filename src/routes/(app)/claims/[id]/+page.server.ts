@@ -8,6 +8,7 @@ import { listCertificates } from '$lib/server/services/certificate-reads';
 import { startCheck, listChecks } from '$lib/server/services/checks';
 import { getClaim } from '$lib/server/services/claims';
 import { addDataset, datasetTables, listDatasets } from '$lib/server/services/datasets';
+import { removeDataset } from '$lib/server/services/dataset-removal';
 import { FieldError } from '$lib/server/services/errors';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -28,6 +29,8 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 		preview: shown && tables ? { dataset: shown, tables: tables.tables } : null,
 		certificates,
 		// The list needs only a line per check, not each full result.
+		// Files no check has used yet may still be taken back.
+		removable: datasets.filter((d) => !checks.some((c) => c.datasetId === d.id)).map((d) => d.id),
 		checks: checks.map((c) => ({
 			id: c.id,
 			datasetId: c.datasetId,
@@ -67,13 +70,26 @@ export const actions: Actions = {
 		redirect(303, `/claims/${params.id}?dataset=${datasetId}#preview`);
 	},
 
+	removeDataset: async ({ request, locals, params, url }) => {
+		const actor = requireSignedIn(locals, url);
+		const values = echoValues(await request.formData(), ['datasetId']);
+		const { database } = await app();
+		try {
+			await removeDataset(database, actor, params.id, values.datasetId ?? '');
+		} catch (problem) {
+			return formFailure('removeDataset', problem, values);
+		}
+		redirect(303, `/claims/${params.id}`);
+	},
+
 	check: async ({ request, locals, params, url }) => {
 		const actor = requireSignedIn(locals, url);
 		const values = echoValues(await request.formData(), [
 			'datasetId',
 			'resamples',
 			'confidence',
-			'seed'
+			'seed',
+			'subtractAccidentals'
 		]);
 		const parsed = checkRequestSchema.safeParse(values);
 		if (!parsed.success) return formFailure('check', parsed.error, values);

@@ -91,6 +91,20 @@ export const openApiDocument = {
 				summary: 'Read a claim',
 				parameters: [idParameter('claim')],
 				responses: { '200': reply('The claim.', 'Claim'), '401': unauthorised, '404': notFound }
+			},
+			put: {
+				operationId: 'updateClaim',
+				summary: 'Correct every field of a claim before its first check',
+				parameters: [idParameter('claim')],
+				requestBody: { required: true, content: body('ClaimInput') },
+				responses: {
+					'200': reply('The corrected claim.', 'Claim'),
+					'400': badRequest,
+					'401': unauthorised,
+					'403': failure('Neither the claim’s author nor a lead of its group.'),
+					'404': notFound,
+					'409': failure('The claim has been checked and is no longer edited (code conflict).')
+				}
 			}
 		},
 		'/api/v1/claims/{id}/datasets': {
@@ -141,8 +155,22 @@ export const openApiDocument = {
 					'401': unauthorised,
 					'403': forbidden,
 					'404': notFound,
+					'409': failure('The same bytes were uploaded to this claim before (code conflict).'),
 					'413': failure(`The file exceeds ${MAX_COUNTS_FILE_BYTES} bytes.`),
 					'415': failure('Neither multipart/form-data, text/csv nor application/json.')
+				}
+			}
+		},
+		'/api/v1/claims/{id}/datasets/{datasetId}': {
+			delete: {
+				operationId: 'removeDataset',
+				summary: 'Take back an upload that no check has used yet',
+				parameters: [idParameter('claim'), { ...idParameter('dataset'), name: 'datasetId' }],
+				responses: {
+					'204': { description: 'Removed; the removal is in the audit log.' },
+					'401': unauthorised,
+					'404': notFound,
+					'409': failure('A check has used this dataset, so it stays (code conflict).')
 				}
 			}
 		},
@@ -212,6 +240,85 @@ export const openApiDocument = {
 			}
 		},
 		...certificatePaths,
+		'/api/v1/archive': {
+			get: {
+				operationId: 'groupArchive',
+				summary: 'A group’s archive: every claim with its versions, filtered; JSON or CSV',
+				parameters: [
+					query(
+						'group',
+						{ type: 'string' },
+						'The group’s id (default: the caller’s first group by name).'
+					),
+					query(
+						'q',
+						{ type: 'string' },
+						'Text found in the title, source description or manuscript reference.'
+					),
+					query('state', { type: 'string', enum: CLAIM_STATES }, 'Only claims in this state.'),
+					query('method', { type: 'string', enum: METHOD_IDS }, 'Only claims of this method.'),
+					query(
+						'dimension',
+						{ type: 'integer', minimum: 2 },
+						'Only claims of this local dimension.'
+					),
+					query('from', { type: 'string', format: 'date' }, 'Created on or after this day (UTC).'),
+					query('to', { type: 'string', format: 'date' }, 'Created on or before this day (UTC).'),
+					query(
+						'format',
+						{ type: 'string', enum: ['json', 'csv'], default: 'json' },
+						'JSON, or CSV with one row per claim version (RFC 4180; text cells starting with = + - @ get a leading apostrophe).'
+					),
+					query(
+						'download',
+						{ type: 'string', enum: ['0', '1'] },
+						'1 adds a file name (Content-Disposition).'
+					)
+				],
+				responses: {
+					'200': {
+						description: 'The archive.',
+						content: {
+							'application/json': { schema: { type: 'object' } },
+							'text/csv': { schema: { type: 'string' } }
+						}
+					},
+					'400': badRequest,
+					'401': unauthorised,
+					'404': notFound
+				}
+			}
+		},
+		'/api/v1/claims/{id}/withdraw': {
+			post: {
+				operationId: 'withdrawClaim',
+				summary: 'Withdraw a claim and its certificates, with a reason recorded on the ledger',
+				parameters: [idParameter('claim')],
+				requestBody: {
+					required: true,
+					content: {
+						'application/json': {
+							schema: {
+								type: 'object',
+								required: ['reason'],
+								properties: { reason: { type: 'string', minLength: 3, maxLength: 500 } }
+							}
+						}
+					}
+				},
+				responses: {
+					'200': {
+						description: 'The claim is withdrawn; the ids of the certificates withdrawn with it.',
+						content: { 'application/json': { schema: { type: 'object' } } }
+					},
+					'400': badRequest,
+					'401': unauthorised,
+					'403': forbidden,
+					'404': notFound,
+					'409': failure('The claim is withdrawn already (code conflict).')
+				}
+			}
+		},
 		'/api/v1/openapi.json': {
 			get: {
 				operationId: 'openApiDocument',

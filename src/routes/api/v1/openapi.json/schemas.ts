@@ -230,7 +230,13 @@ export const schemas = {
 				exclusiveMaximum: CONFIDENCE.below,
 				default: DEFAULTS.confidence
 			},
-			seed: { ...whole, minimum: 1, maximum: 4294967295, default: DEFAULTS.seed }
+			seed: { ...whole, minimum: 1, maximum: 4294967295, default: DEFAULTS.seed },
+			subtractAccidentals: {
+				type: 'boolean',
+				default: false,
+				description:
+					'Subtract the file’s accidentals column before normalising; the result is labelled background-subtracted. 400 when the dataset has no accidentals column.'
+			}
 		}
 	},
 	CheckStatus: { type: 'string', enum: ['queued', 'running', 'done', 'failed'] },
@@ -257,6 +263,7 @@ export const schemas = {
 			resamples: whole,
 			confidence: number,
 			seed: whole,
+			subtractAccidentals: { type: 'boolean' },
 			createdAt: timestamp,
 			startedAt: nullable(timestamp),
 			finishedAt: nullable(timestamp),

@@ -1,7 +1,15 @@
 import { json } from '@sveltejs/kit';
-import { apiEndpoint } from '$lib/server/api';
+import { claimInputSchema } from '$lib/claims/schema';
+import { apiEndpoint, readJson } from '$lib/server/api';
+import { updateClaim } from '$lib/server/services/claim-edit';
 import { getClaim } from '$lib/server/services/claims';
 
 export const GET = apiEndpoint(async ({ event, actor, database }) => {
 	return json(await getClaim(database, actor, event.params.id!));
+});
+
+/** Replaces the claim's fields before its first check (409 after one). */
+export const PUT = apiEndpoint(async ({ event, actor, database }) => {
+	const input = await readJson(event.request, claimInputSchema);
+	return json(await updateClaim(database, actor, event.params.id!, input));
 });

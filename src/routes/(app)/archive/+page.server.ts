@@ -1,0 +1,48 @@
+import { redirect } from '@sveltejs/kit';
+import { z } from 'zod';
+import { archiveFilterSchema } from '$lib/archive/schema';
+import { app } from '$lib/server/app';
+import { echoValues, requireSignedIn } from '$lib/server/auth-web';
+import { fieldErrors, formFailure, pageProblem } from '$lib/server/problems';
+import { groupArchive } from '$lib/server/services/archive';
+import { withdrawClaim } from '$lib/server/services/claim-withdraw';
+import { groupsOf } from '$lib/server/services/groups';
+import type { Actions, PageServerLoad } from './$types';
+
+const FILTER_KEYS = ['group', 'q', 'state', 'method', 'dimension', 'from', 'to'] as const;
+
+export const load: PageServerLoad = async ({ locals, url }) => {
+	const actor = requireSignedIn(locals, url);
+	const { database } = await app();
+	const groups = await groupsOf(database, actor);
+	const values = Object.fromEntries(FILTER_KEYS.map((k) => [k, url.searchParams.get(k) ?? '']));
+	if (!groups.length) return { groups, values, errors: {}, archive: null };
+	const parsed = archiveFilterSchema.safeParse(values);
+	// A bad filter is shown beside its field; the archive then shows unfiltered.
+	const errors = parsed.success ? {} : fieldErrors(parsed.error);
+	const filter = parsed.success ? parsed.data : { group: values.group || undefined };
+	const archive = await groupArchive(database, actor, filter).catch(pageProblem);
+	return { groups, values, errors, archive };
+};
+
+const withdrawForm = z.object({
+	claimId: z.string().min(1).max(100),
+	reason: z.string().max(2000)
+});
+
+export const actions: Actions = {
+	withdraw: async ({ locals, request, url }) => {
+		const actor = requireSignedIn(locals, url);
+		const form = await request.formData();
+		const values = echoValues(form, ['claimId', 'reason']);
+		const parsed = withdrawForm.safeParse(values);
+		if (!parsed.success) return formFailure('withdraw', parsed.error, values);
+		const { database } = await app();
+		try {
+			await withdrawClaim(database, actor, parsed.data.claimId, parsed.data.reason);
+		} catch (problem) {
+			return formFailure('withdraw', problem, values);
+		}
+		redirect(303, `/archive${url.search}`);
+	}
+};

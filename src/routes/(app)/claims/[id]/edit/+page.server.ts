@@ -1,0 +1,51 @@
+import { redirect } from '@sveltejs/kit';
+import { claimInputSchema } from '$lib/claims/schema';
+import { app } from '$lib/server/app';
+import { echoValues, requireSignedIn } from '$lib/server/auth-web';
+import { formFailure, pageProblem } from '$lib/server/problems';
+import { claimForEditing, updateClaim } from '$lib/server/services/claim-edit';
+import type { Actions, PageServerLoad } from './$types';
+
+const FIELDS = [
+	'title',
+	'sourceDescription',
+	'dimension',
+	'method',
+	'bases',
+	'fourier',
+	'claimedSchmidtNumber',
+	'manuscriptReference'
+];
+
+export const load: PageServerLoad = async ({ locals, params, url }) => {
+	const actor = requireSignedIn(locals, url);
+	const { database } = await app();
+	const { claim, checked } = await claimForEditing(database, actor, params.id).catch(pageProblem);
+	const values = {
+		title: claim.title,
+		sourceDescription: claim.sourceDescription,
+		dimension: String(claim.dimension),
+		method: claim.method,
+		bases: claim.bases.join(','),
+		fourier: claim.fourier,
+		claimedSchmidtNumber: String(claim.claimedSchmidtNumber),
+		manuscriptReference: claim.manuscriptReference ?? ''
+	};
+	return { claim: { id: claim.id, title: claim.title }, checked, values };
+};
+
+export const actions: Actions = {
+	save: async ({ request, locals, params, url }) => {
+		const actor = requireSignedIn(locals, url);
+		const values = echoValues(await request.formData(), FIELDS);
+		const parsed = claimInputSchema.safeParse(values);
+		if (!parsed.success) return formFailure('save', parsed.error, values);
+		const { database } = await app();
+		try {
+			await updateClaim(database, actor, params.id, parsed.data);
+		} catch (problem) {
+			return formFailure('save', problem, values);
+		}
+		redirect(303, `/claims/${params.id}`);
+	}
+};

@@ -1,0 +1,8 @@
+import { apiEndpoint } from '$lib/server/api';
+import { removeDataset } from '$lib/server/services/dataset-removal';
+
+/** Takes back an upload no check has used yet (409 once a check has used it). */
+export const DELETE = apiEndpoint(async ({ event, actor, database }) => {
+	await removeDataset(database, actor, event.params.id!, event.params.datasetId!);
+	return new Response(null, { status: 204 });
+});

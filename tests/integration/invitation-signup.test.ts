@@ -1,0 +1,78 @@
+/**
+ * Signing up through an invitation (issue 7 §5): the invitation link reached the invitee's
+ * mailbox, so it proves the address — no second "confirm your address" mail. Real SQLite file,
+ * real SMTP catcher.
+ */
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { signUp } from '../../src/lib/server/services/accounts';
+import { createGroup } from '../../src/lib/server/services/groups';
+import {
+	acceptInvitation,
+	invitationTokenIn
+} from '../../src/lib/server/services/invitation-links';
+import { inviteMember } from '../../src/lib/server/services/invitations';
+import { asUser } from './actors';
+import { addUser } from './backend-fixtures';
+import { linkToken, mailTo, mailWorld, type MailWorld } from './mail-world';
+
+const PASSWORD = 'heron-basalt-meadow';
+let world: MailWorld;
+let leadId: string, groupId: string;
+
+beforeAll(async () => {
+	world = await mailWorld();
+	leadId = await addUser(world.database, 'Ines Lead');
+	({ id: groupId } = await createGroup(world.database, asUser(leadId), 'Basalt Optics'));
+});
+afterAll(async () => world?.close());
+
+async function invite(email: string): Promise<string> {
+	await inviteMember(world.database, world.mailer, asUser(leadId), groupId, {
+		email,
+		role: 'author'
+	});
+	return linkToken(world, email, '/invite/');
+}
+
+const isVerified = async (userId: string) =>
+	(await world.database.models.User.findByPk(userId))!.get('emailVerifiedAt') !== null;
+
+describe('signing up through an invitation', () => {
+	it('sends no confirmation mail and counts the address as confirmed', async () => {
+		const email = 'tor@basalt.example';
+		const token = await invite(email);
+		const next = `/invite/${token}`;
+		expect(invitationTokenIn(next)).toBe(token);
+		const { userId } = await signUp(
+			world.database,
+			world.mailer,
+			{ email, name: 'Tor Vik', password: PASSWORD },
+			{ invitationToken: invitationTokenIn(next) }
+		);
+		expect((await mailTo(world, email)).map((m) => m.subject)).toEqual([
+			'Ines Lead invites you to Basalt Optics on Rankseal'
+		]);
+		expect(await isVerified(userId)).toBe(true);
+		expect(await acceptInvitation(world.database, asUser(userId), token)).toEqual({
+			groupId,
+			role: 'author'
+		});
+	});
+
+	it('still mails a confirmation link when the invitation is for another address or unknown', async () => {
+		const token = await invite('ulla@basalt.example');
+		for (const [email, proof] of [
+			['vera@basalt.example', token],
+			['wim@basalt.example', 'not-a-token']
+		]) {
+			const { userId } = await signUp(
+				world.database,
+				world.mailer,
+				{ email, name: 'Someone', password: PASSWORD },
+				{ invitationToken: proof }
+			);
+			expect(await isVerified(userId)).toBe(false);
+			expect((await mailTo(world, email)).length).toBe(1);
+		}
+	});
+});
