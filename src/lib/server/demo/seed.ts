@@ -1,8 +1,9 @@
 /**
  * Seeds the demo scenario (scenario.ts) once: people with documented passwords, a group, claims
  * across the three methods with their counts files, a check of each, and an API token for one
- * author written to data/demo/api-token.txt. Running it again changes nothing, except that a
- * missing token file gets a fresh token.
+ * author written to data/demo/api-token.txt; once the checks have run, a certificate for each
+ * supported claim. Running it again changes nothing, except that a missing token file gets a
+ * fresh token and a supported claim left without a certificate gets one.
  */
 import { existsSync, mkdirSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
@@ -16,6 +17,7 @@ import { createClaim } from '../services/claims';
 import { addDataset } from '../services/datasets';
 import { newId } from '../services/ids';
 import { createToken } from '../services/tokens';
+import { certifyDemoClaims } from './certify-demo';
 import { DEMO_CLAIMS, DEMO_GROUP, DEMO_PEOPLE, demoCountsCsv } from './scenario';
 
 export const demoTokenFile = () => path.join(config().dataDir, 'demo', 'api-token.txt');
@@ -81,10 +83,12 @@ export async function seedDemo(database: Database): Promise<'seeded' | 'present'
 			const author = await database.models.User.findOne({ where: { email: DEMO_PEOPLE[1].email } });
 			if (author) await writeDemoToken(database, author.get('id') as string);
 		}
+		await certifyDemoClaims(database);
 		return 'present';
 	}
 	const ids = await seedPeople(database);
 	await seedClaims(database, ids);
 	await writeDemoToken(database, ids.get('author1')!);
+	await certifyDemoClaims(database);
 	return 'seeded';
 }
