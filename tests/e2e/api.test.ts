@@ -256,11 +256,20 @@ describe('API v1', () => {
 			Object.keys(ops).map((m) => `${m.toUpperCase()} ${p}`)
 		);
 		expect(documented.sort()).toEqual(servedEndpoints().sort());
+		const issued = await sendJson(`/api/v1/claims/${ids.claim}/certificates`, {
+			checkId: ids.check
+		});
+		expect(issued.status).toBe(201);
+		const certificate = (await issued.json()).id;
+		const idFor = (template: string) =>
+			template.startsWith('/api/v1/checks/')
+				? ids.check
+				: template.startsWith('/api/v1/certificates/')
+					? certificate
+					: ids.claim;
 		for (const endpoint of documented) {
 			const [method, template] = endpoint.split(' ');
-			const route = template
-				.replace('{id}', template.startsWith('/api/v1/checks/') ? ids.check : ids.claim)
-				.replace('{datasetId}', ids.dataset);
+			const route = template.replace('{id}', idFor(template)).replace('{datasetId}', ids.dataset);
 			const response = await call(route, {
 				method,
 				headers: { 'content-type': 'application/json' },

@@ -17,6 +17,8 @@ export interface AppServer {
 	/** Everything the server printed, for failure messages. */
 	output(): string;
 	stop(): Promise<void>;
+	/** SIGKILL: no clean-up at all, as a power cut would leave the data folder. */
+	kill(): Promise<void>;
 }
 
 function freePort(): Promise<number> {
@@ -88,11 +90,17 @@ export async function startApp(env: Record<string, string> = {}): Promise<AppSer
 			});
 			child.kill('SIGTERM');
 		});
+	const kill = () =>
+		new Promise<void>((done) => {
+			if (child.exitCode !== null || child.signalCode !== null) return done();
+			child.once('exit', () => done());
+			child.kill('SIGKILL');
+		});
 	try {
 		await untilListening(child, output);
 	} catch (error) {
 		await stop();
 		throw error;
 	}
-	return { origin, port, child, output, stop };
+	return { origin, port, child, output, stop, kill };
 }

@@ -13,7 +13,6 @@ import {
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
-import { InputError } from '../../src/lib/certify';
 import { bundleVerifier } from '../../src/lib/server/evidence/verifier-file';
 import { publishedKeys, serviceKey } from '../../src/lib/server/evidence/keys';
 import { issueCertificate } from '../../src/lib/server/services/certificates';
@@ -24,7 +23,7 @@ import {
 	listCertificates,
 	lookupCertificate
 } from '../../src/lib/server/services/certificate-reads';
-import { ForbiddenError, NotFoundError } from '../../src/lib/server/services/errors';
+import { ConflictError, ForbiddenError, NotFoundError } from '../../src/lib/server/services/errors';
 import { listLedger } from '../../src/lib/server/services/ledger';
 import { verifyLedger } from '../../src/lib/server/services/ledger-verify';
 import { sampledCounts, states, toCountsCsv } from '../../src/lib/certify';
@@ -154,7 +153,7 @@ describe('issuing a certificate', () => {
 		await world.database.models.Check.update({ status: 'running' }, { where: { id: check.id } });
 		await expect(
 			issueCertificate(world.database, world.author, world.claimId, check.id)
-		).rejects.toBeInstanceOf(InputError);
+		).rejects.toBeInstanceOf(ConflictError);
 		const [cert] = await listCertificates(world.database, world.author, world.claimId);
 		await expect(getCertificate(world.database, world.outsider, cert.id)).rejects.toBeInstanceOf(
 			NotFoundError

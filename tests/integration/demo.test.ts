@@ -1,6 +1,7 @@
 /**
- * The demo seed: once, complete (people, group, claims, datasets, checks, token, and the review
- * scene: a shared claim, a review link, a filed report, the editor's token), and idempotent.
+ * The demo seed: once, complete (people, group, claims, datasets, checks, token, a certificate
+ * for each supported claim, and the review scene: a shared claim, a review link, a filed report,
+ * the editor's token), and idempotent.
  */
 import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -8,7 +9,10 @@ import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { signIn } from '../../src/lib/server/services/accounts';
 import { bundleCheckWorker } from '../../src/lib/server/checks/locate';
-import { startCheckRunner, stopCheckRunner } from '../../src/lib/server/checks/runner';
+import { stopCheckRunner } from '../../src/lib/server/checks/runner';
+import { verifyEvidence } from '../../src/lib/evidence/verify';
+import { readZip } from '../../src/lib/server/evidence/zip-read';
+import { certificateFile, listCertificates } from '../../src/lib/server/services/certificate-reads';
 import { listChecks } from '../../src/lib/server/services/checks';
 import { listClaims } from '../../src/lib/server/services/claims';
 import { authenticate } from '../../src/lib/server/services/tokens';
@@ -40,12 +44,6 @@ afterAll(async () => {
 	rmSync(workerFolder, { recursive: true, force: true });
 });
 
-/** The claim's checks once the runner has nothing left to do (awaited, not polled). */
-async function settled(userId: string, claimId: string) {
-	await (await startCheckRunner(ctx.database)).idle();
-	return listChecks(ctx.database, asUser(userId), claimId);
-}
-
 describe('demo scenario', () => {
 	it('seeds people with the documented passwords, the claims with counts and checks, and a token', async () => {
 		expect(await seedDemo(ctx.database, ctx.mailer)).toBe('seeded');
@@ -59,10 +57,26 @@ describe('demo scenario', () => {
 			new Set(['mub-correlation', 'steering-2mub', 'fidelity-two-basis'])
 		);
 		const verdicts: string[] = [];
+		// seedDemo returns once the checks have run and the certificates are issued.
 		for (const claim of items) {
-			const checks = await settled(author, claim.id);
+			const checks = await listChecks(ctx.database, asUser(author), claim.id);
 			expect(checks.map((c) => c.status)).toEqual(['done']);
-			verdicts.push(checks[0].result!.claim!.verdict);
+			const verdict = checks[0].result!.claim!.verdict;
+			verdicts.push(verdict);
+			const certificates = await listCertificates(ctx.database, asUser(author), claim.id);
+			expect(certificates.map((c) => c.status)).toEqual(verdict === 'supported' ? ['valid'] : []);
+			for (const certificate of certificates) {
+				const bundle = await certificateFile(
+					ctx.database,
+					asUser(author),
+					certificate.id,
+					'bundle'
+				);
+				expect(verifyEvidence(readZip(bundle.bytes))).toMatchObject({ valid: true });
+				const pdf = await certificateFile(ctx.database, asUser(author), certificate.id, 'pdf');
+				// Every PDF starts with "%PDF-" (ISO 32000-1 §7.5.2).
+				expect(new TextDecoder().decode(pdf.bytes.subarray(0, 5))).toBe('%PDF-');
+			}
 		}
 		expect(verdicts).toContain('supported');
 		expect(verdicts).toContain('not supported');
@@ -95,8 +109,10 @@ describe('demo scenario', () => {
 
 	it('changes nothing when run again, and writes a fresh token when the file is gone', async () => {
 		const count = await ctx.database.models.Claim.count();
+		const certificates = await ctx.database.models.Certificate.count();
 		expect(await seedDemo(ctx.database, ctx.mailer)).toBe('present');
 		expect(await ctx.database.models.Claim.count()).toBe(count);
+		expect(await ctx.database.models.Certificate.count()).toBe(certificates);
 		rmSync(demoTokenFile());
 		expect(await seedDemo(ctx.database, ctx.mailer)).toBe('present');
 		expect(existsSync(demoTokenFile())).toBe(true);

@@ -154,6 +154,20 @@ export async function requireClaim(
 	return claim!;
 }
 
+/** A certificate is withdrawn by its group's lead or by whoever issued it, signed in in person. */
+export async function requireWithdrawal(
+	database: Database,
+	actor: Actor,
+	certificate: { claimId: string; issuedBy: string | null }
+): Promise<ClaimAttributes> {
+	const claim = await requireClaim(database, actor, certificate.claimId, 'read');
+	const issuer = actor.kind === 'user' && certificate.issuedBy === actor.userId;
+	const lead = actor.kind === 'user' && (await roleIn(database, actor, claim.groupId)) === 'lead';
+	if (!issuer && !lead)
+		throw new ForbiddenError('Only the group lead or the issuer may withdraw a certificate.');
+	return claim;
+}
+
 /** A filter on claims that keeps exactly those the actor may read (for lists and counts). */
 export async function visibleClaimsWhere(database: Database, actor: Actor): Promise<WhereOptions> {
 	if (actor.kind === 'anonymous') return { id: { [Op.in]: [] } };

@@ -1,8 +1,9 @@
 /**
  * Seeds the demo scenario (scenario.ts) once: people with documented passwords, a group, claims
  * across the three methods with their counts files, a check of each, and an API token for one
- * author written to data/demo/api-token.txt; then the review scene (review-seed.ts). Running it again changes nothing, except that a
- * missing token file gets a fresh token.
+ * author written to data/demo/api-token.txt; once the checks have run, a certificate for each
+ * supported claim, then the review scene (review-seed.ts). Running it again changes nothing, except
+ * that a missing token file gets a fresh token and a supported claim left without a certificate gets one.
  */
 import { existsSync, mkdirSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
@@ -18,6 +19,7 @@ import { addDataset } from '../services/datasets';
 import { newId } from '../services/ids';
 import { createToken } from '../services/tokens';
 import { seedReview } from './review-seed';
+import { certifyDemoClaims } from './certify-demo';
 import { DEMO_CLAIMS, DEMO_GROUP, DEMO_PEOPLE, demoCountsCsv } from './scenario';
 
 export const demoTokenFile = () => path.join(config().dataDir, 'demo', 'api-token.txt');
@@ -86,11 +88,13 @@ export async function seedDemo(database: Database, mailer: Mailer): Promise<'see
 			const author = await database.models.User.findOne({ where: { email: DEMO_PEOPLE[1].email } });
 			if (author) await writeDemoToken(database, author.get('id') as string);
 		}
+		await certifyDemoClaims(database);
 		return 'present';
 	}
 	const ids = await seedPeople(database);
 	const claimIds = await seedClaims(database, ids);
 	await writeDemoToken(database, ids.get('author1')!);
+	await certifyDemoClaims(database);
 	const people = { author: ids.get(DEMO_CLAIMS[0].author)!, editor: ids.get('editor')! };
 	await seedReview(database, mailer, people, claimIds[0]);
 	return 'seeded';

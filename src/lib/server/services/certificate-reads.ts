@@ -11,8 +11,6 @@ import type { Database } from '../db';
 import type { CertificateAttributes } from '../db/models/Certificate';
 import { publishedKeys } from '../evidence/keys';
 import { readZip, ZipError } from '../evidence/zip-read';
-import type { Actor } from '../access/actor';
-import { decideClaim, requireClaim } from '../access/permissions';
 import { absolute } from './certificate-files';
 import {
 	certificateView,
@@ -20,39 +18,41 @@ import {
 	type CertificateView,
 	type PublicCertificate
 } from './certificate-views';
+import type { Actor } from '../access/actor';
+import { decideClaim, requireClaim, type ClaimAction } from '../access/permissions';
 import { NotFoundError } from './errors';
 import { withdrawalOf } from './ledger';
 
+/** The row when the caller may do `action` to its claim; a hidden claim hides the certificate. */
 async function visibleCertificate(
 	database: Database,
-	actor: Actor,
-	id: string
+	caller: Actor,
+	id: string,
+	action: ClaimAction = 'read'
 ): Promise<CertificateAttributes> {
-	const row = await database.models.Certificate.findByPk(id);
-	const certificate = row?.get({ plain: true });
-	const claim = certificate && (await database.models.Claim.findByPk(certificate.claimId));
-	const decision = claim
-		? await decideClaim(database, actor, claim.get({ plain: true }), 'read')
-		: 'hidden';
-	if (!certificate || decision !== 'allowed') throw new NotFoundError('No such certificate.');
+	const certificate = (await database.models.Certificate.findByPk(id))?.get({ plain: true });
+	if (!certificate) throw new NotFoundError('No such certificate.');
+	await requireClaim(database, caller, certificate.claimId, action).catch((error) => {
+		throw error instanceof NotFoundError ? new NotFoundError('No such certificate.') : error;
+	});
 	return certificate;
 }
 
 export async function getCertificate(
 	database: Database,
-	actor: Actor,
+	caller: Actor,
 	id: string
 ): Promise<CertificateView> {
-	return certificateView(await visibleCertificate(database, actor, id));
+	return certificateView(await visibleCertificate(database, caller, id));
 }
 
 /** The claim's certificates, newest first. */
 export async function listCertificates(
 	database: Database,
-	actor: Actor,
+	caller: Actor,
 	claimId: string
 ): Promise<CertificateView[]> {
-	await requireClaim(database, actor, claimId, 'read');
+	await requireClaim(database, caller, claimId, 'read');
 	const rows = await database.models.Certificate.findAll({
 		where: { claimId },
 		order: [['issuedAt', 'DESC']]
@@ -60,14 +60,29 @@ export async function listCertificates(
 	return rows.map((r) => certificateView(r.get({ plain: true })));
 }
 
-/** The PDF or the evidence bundle, with a download name. */
+/** Whether the caller may issue certificates for the claim (to offer the button or not). */
+export async function mayIssueCertificate(
+	database: Database,
+	caller: Actor,
+	claimId: string
+): Promise<boolean> {
+	const claim = await requireClaim(database, caller, claimId, 'read');
+	return (await decideClaim(database, caller, claim, 'issue-certificate')) === 'allowed';
+}
+
+/** The PDF, or the evidence bundle (it holds the counts file, so it needs what datasets need). */
 export async function certificateFile(
 	database: Database,
-	actor: Actor,
+	caller: Actor,
 	id: string,
 	kind: 'pdf' | 'bundle'
 ) {
-	const c = await visibleCertificate(database, actor, id);
+	const c = await visibleCertificate(
+		database,
+		caller,
+		id,
+		kind === 'pdf' ? 'read' : 'read-datasets'
+	);
 	const bytes = await readFile(absolute(kind === 'pdf' ? c.pdfPath : c.bundlePath));
 	return kind === 'pdf'
 		? { bytes, filename: `rankseal-certificate-${id}.pdf`, contentType: 'application/pdf' }

@@ -4,7 +4,6 @@
  */
 import { readFile } from 'node:fs/promises';
 import type { Transaction } from 'sequelize';
-import { InputError } from '../../certify';
 import { sha256Hex } from '../../evidence/hash';
 import { config } from '../config';
 import type { Database } from '../db';
@@ -13,22 +12,22 @@ import type { ClaimAttributes } from '../db/models/Claim';
 import { makeEvidence, selfCheck, type Evidence, type EvidenceInput } from '../evidence/artifacts';
 import { publishedKeys, serviceKey } from '../evidence/keys';
 import type { SigningKey } from '../../evidence/signing';
+import { accountIdOf, type Actor } from '../access/actor';
+import { requireClaim } from '../access/permissions';
 import { audit } from './audit';
 import { certificatePaths, placeFiles, removeFiles } from './certificate-files';
 import { certificateRow, issueDetails } from './certificate-rows';
 import { certificateView, evidenceUrls, type CertificateView } from './certificate-views';
 import { queueCertificateNotice } from './claim-notices';
-import { accountIdOf, type Actor } from '../access/actor';
-import { requireClaim } from '../access/permissions';
 import { datasetFilePath } from './datasets';
-import { NotFoundError } from './errors';
+import { ConflictError, NotFoundError } from './errors';
 import { newId } from './ids';
 import { appendLedger } from './ledger';
 
 export type { CertificateView } from './certificate-views';
 
 /** Thrown when another certificate was issued for the claim while this one was being made. */
-export class IssueConflictError extends Error {
+export class IssueConflictError extends ConflictError {
 	constructor(message: string) {
 		super(message);
 		this.name = 'IssueConflictError';
@@ -40,7 +39,7 @@ async function finishedCheck(database: Database, claimId: string, checkId: strin
 	if (!row) throw new NotFoundError('No such check on this claim.');
 	const check = row.get({ plain: true });
 	if (check.status !== 'done' || !check.result)
-		throw new InputError('checkId: only a finished check can be certified');
+		throw new ConflictError('Only a finished check can be certified.');
 	const dataset = (await database.models.Dataset.findByPk(check.datasetId))!.get({ plain: true });
 	const uploaded = await readFile(datasetFilePath(dataset.sha256));
 	if (sha256Hex(uploaded) !== dataset.sha256)
@@ -97,12 +96,12 @@ function evidenceInput(
 
 async function prepare(
 	database: Database,
-	actor: Actor,
+	caller: Actor,
 	claimId: string,
 	checkId: string,
 	key: SigningKey
 ) {
-	const claim = await requireClaim(database, actor, claimId, 'issue-certificate');
+	const claim = await requireClaim(database, caller, claimId, 'issue-certificate');
 	const source = await finishedCheck(database, claimId, checkId);
 	const id = newId();
 	const supersedes = await currentCertificate(database, claimId);
@@ -111,8 +110,8 @@ async function prepare(
 	const evidence = await makeEvidence(input, key, urls, { keys: publishedKeys() });
 	const verdict = selfCheck(evidence);
 	if (!verdict.valid)
-		throw new InputError(
-			`checkId: this check cannot be certified (${verdict.failedItem}: ${verdict.message}); run the check again`
+		throw new ConflictError(
+			`This check cannot be certified (${verdict.failedItem}: ${verdict.message}); run the check again`
 		);
 	return { claim, evidence, supersedes };
 }
@@ -149,17 +148,19 @@ async function store(
 
 /**
  * Issues a certificate for a finished check of the claim. NotFoundError when the claim or check
- * is out of sight; InputError when the check cannot be certified; on any failure nothing stays.
+ * is out of sight; ForbiddenError for callers who may not issue; ConflictError when the check cannot
+ * be certified (unfinished, or its result no longer re-runs); IssueConflictError when another issue won the race; on any failure nothing stays.
  */
 export async function issueCertificate(
 	database: Database,
-	actor: Actor,
+	caller: Actor,
 	claimId: string,
 	checkId: string
 ): Promise<CertificateView> {
 	const key = serviceKey();
-	const { claim, evidence, supersedes } = await prepare(database, actor, claimId, checkId, key);
-	const userId = accountIdOf(actor)!;
+	const { claim, evidence, supersedes } = await prepare(database, caller, claimId, checkId, key);
+	// Members only (permissions.ts), so the caller has an account.
+	const userId = accountIdOf(caller)!;
 	const paths = certificatePaths(evidence.manifest.certificateId);
 	let placed: string[] = [];
 	try {

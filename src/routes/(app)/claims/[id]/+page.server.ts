@@ -4,6 +4,7 @@ import { checkRequestSchema } from '$lib/claims/schema';
 import { app } from '$lib/server/app';
 import { echoValues, requireSignedIn } from '$lib/server/auth-web';
 import { formFailure, pageProblem } from '$lib/server/problems';
+import { listCertificates } from '$lib/server/services/certificate-reads';
 import { startCheck, listChecks } from '$lib/server/services/checks';
 import { getClaim } from '$lib/server/services/claims';
 import { addDataset, datasetTables, listDatasets } from '$lib/server/services/datasets';
@@ -15,9 +16,10 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 	const actor = requireSignedIn(locals, url);
 	const { database } = await app();
 	const claim = await getClaim(database, actor, params.id).catch(pageProblem);
-	const [datasets, checks] = await Promise.all([
+	const [datasets, checks, certificates] = await Promise.all([
 		listDatasets(database, actor, claim.id),
-		listChecks(database, actor, claim.id)
+		listChecks(database, actor, claim.id),
+		listCertificates(database, actor, claim.id)
 	]).catch(pageProblem);
 	const shown = datasets.find((d) => d.id === url.searchParams.get('dataset')) ?? datasets[0];
 	const tables = shown ? await datasetTables(database, actor, shown.id).catch(pageProblem) : null;
@@ -25,6 +27,7 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 		claim,
 		datasets,
 		preview: shown && tables ? { dataset: shown, tables: tables.tables } : null,
+		certificates,
 		// The list needs only a line per check, not each full result.
 		// Files no check has used yet may still be taken back.
 		removable: datasets.filter((d) => !checks.some((c) => c.datasetId === d.id)).map((d) => d.id),

@@ -1,6 +1,8 @@
 /** The OpenAPI 3.1 description of /api/v1: exactly the endpoints under src/routes/api/v1. */
 import { MAX_COUNTS_FILE_BYTES, METHOD_IDS } from '$lib/certify';
 import { CLAIM_SORTS, CLAIM_STATES } from '$lib/claims/schema';
+import { certificatePaths } from './certificate-paths';
+import { certificateSchemas } from './certificate-schemas';
 import { reviewPaths } from './review-paths';
 import { reviewSchemas } from './review-schemas';
 import { schemas } from './schemas';
@@ -39,7 +41,7 @@ export const openApiDocument = {
 		title: 'Rankseal API',
 		version: '1.0.0',
 		description:
-			'Claims, counts files and checks of the caller’s groups. Errors are `{ "error": { "code", "message", "field"?, "line"?, "column"? } }`. ' +
+			'Claims, counts files, checks and certificates of the caller’s groups; signing keys and the ledger are public. Errors are `{ "error": { "code", "message", "field"?, "line"?, "column"? } }`. ' +
 			`Counts files are limited to ${MAX_COUNTS_FILE_BYTES} bytes.`
 	},
 	servers: [{ url: '/' }],
@@ -239,6 +241,7 @@ export const openApiDocument = {
 				}
 			}
 		},
+		...certificatePaths,
 		'/api/v1/archive': {
 			get: {
 				operationId: 'groupArchive',
@@ -347,6 +350,6 @@ export const openApiDocument = {
 				description: 'The session cookie of a signed-in browser.'
 			}
 		},
-		schemas: { ...schemas, ...reviewSchemas }
+		schemas: { ...schemas, ...certificateSchemas }
 	}
 };

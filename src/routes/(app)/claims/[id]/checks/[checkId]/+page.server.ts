@@ -1,11 +1,14 @@
-import { error } from '@sveltejs/kit';
+import { error, redirect } from '@sveltejs/kit';
+import { reproduceCommand } from '$lib/evidence/command-line';
 import { app } from '$lib/server/app';
 import { requireSignedIn } from '$lib/server/auth-web';
-import { pageProblem } from '$lib/server/problems';
+import { formFailure, pageProblem } from '$lib/server/problems';
+import { listCertificates, mayIssueCertificate } from '$lib/server/services/certificate-reads';
+import { issueCertificate } from '$lib/server/services/certificates';
 import { getCheck } from '$lib/server/services/checks';
 import { getClaim } from '$lib/server/services/claims';
 import { getDataset } from '$lib/server/services/datasets';
-import type { PageServerLoad } from './$types';
+import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, params, url }) => {
 	const actor = requireSignedIn(locals, url);
@@ -16,10 +19,32 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 	]).catch(pageProblem);
 	// A check reached through another claim's address is not found either, so ids do not leak.
 	if (check.claimId !== claim.id) error(404, { message: 'No such check.', code: 'not_found' });
-	const dataset = await getDataset(database, actor, check.datasetId).catch(pageProblem);
+	const [dataset, certificates, mayIssue] = await Promise.all([
+		getDataset(database, actor, check.datasetId),
+		listCertificates(database, actor, claim.id),
+		mayIssueCertificate(database, actor, claim.id)
+	]).catch(pageProblem);
 	return {
 		claim,
 		check,
-		dataset: { id: dataset.id, originalName: dataset.originalName, sha256: dataset.sha256 }
+		dataset: { id: dataset.id, originalName: dataset.originalName, sha256: dataset.sha256 },
+		command: check.result ? reproduceCommand(check.result, dataset.originalName) : null,
+		certificates: certificates.filter((c) => c.checkId === check.id),
+		mayIssue: mayIssue && check.status === 'done'
 	};
+};
+
+export const actions: Actions = {
+	/** Issues a signed certificate for this finished check, then shows it. */
+	issue: async ({ locals, params, url }) => {
+		const actor = requireSignedIn(locals, url);
+		const { database } = await app();
+		let certificateId: string;
+		try {
+			certificateId = (await issueCertificate(database, actor, params.id, params.checkId)).id;
+		} catch (problem) {
+			return formFailure('issue', problem);
+		}
+		redirect(303, `/claims/${params.id}/certificates/${certificateId}`);
+	}
 };

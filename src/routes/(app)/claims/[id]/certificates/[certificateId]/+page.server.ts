@@ -1,0 +1,20 @@
+import { error } from '@sveltejs/kit';
+import { app } from '$lib/server/app';
+import { requireSignedIn } from '$lib/server/auth-web';
+import { pageProblem } from '$lib/server/problems';
+import { getCertificate } from '$lib/server/services/certificate-reads';
+import { getClaim } from '$lib/server/services/claims';
+import type { PageServerLoad } from './$types';
+
+export const load: PageServerLoad = async ({ locals, params, url }) => {
+	const actor = requireSignedIn(locals, url);
+	const { database } = await app();
+	const [claim, certificate] = await Promise.all([
+		getClaim(database, actor, params.id),
+		getCertificate(database, actor, params.certificateId)
+	]).catch(pageProblem);
+	// Another claim's certificate under this claim's address is not found, so ids do not leak.
+	if (certificate.claimId !== claim.id)
+		error(404, { message: 'No such certificate.', code: 'not_found' });
+	return { claim, certificate, verifyUrl: new URL(certificate.urls.verify, url.origin).href };
+};

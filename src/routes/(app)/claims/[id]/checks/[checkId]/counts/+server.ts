@@ -1,0 +1,20 @@
+import { app } from '$lib/server/app';
+import { pageProblem } from '$lib/server/problems';
+import { checkCountsFile } from '$lib/server/services/check-exports';
+import type { RequestHandler } from './$types';
+
+/** The counts file the check ran on, exactly as stored; its SHA-256 rides along in a header. */
+export const GET: RequestHandler = async ({ locals, params }) => {
+	const { database } = await app();
+	const file = await checkCountsFile(database, locals.actor, params.id, params.checkId).catch(
+		pageProblem
+	);
+	const name = file.name.replace(/["\\\r\n]/g, '_');
+	return new Response(new Uint8Array(file.bytes), {
+		headers: {
+			'content-type': `${file.contentType}; charset=utf-8`,
+			'content-disposition': `attachment; filename="${name}"; filename*=UTF-8''${encodeURIComponent(file.name)}`,
+			'x-content-sha256': file.sha256
+		}
+	});
+};

@@ -1,0 +1,20 @@
+import { json } from '@sveltejs/kit';
+import { z } from 'zod';
+import { apiEndpoint, readJson } from '$lib/server/api';
+import { listCertificates } from '$lib/server/services/certificate-reads';
+import { issueCertificate } from '$lib/server/services/certificates';
+
+const issueRequest = z.object({ checkId: z.string().trim().min(1, 'Name the finished check.') });
+
+/** The claim's certificates, newest first. */
+export const GET = apiEndpoint(async ({ event, actor, database }) => {
+	return json(await listCertificates(database, actor, event.params.id!));
+});
+
+/** Issues a certificate for a finished check of the claim; a current one is superseded. */
+export const POST = apiEndpoint(async ({ event, actor, database }) => {
+	const { checkId } = await readJson(event.request, issueRequest);
+	const certificate = await issueCertificate(database, actor, event.params.id!, checkId);
+	const location = `/api/v1/certificates/${certificate.id}`;
+	return json(certificate, { status: 201, headers: { location } });
+});

@@ -1,0 +1,64 @@
+/** JSON Schemas of certificates, signing keys and the ledger (OpenAPI 3.1 components). */
+const text = { type: 'string' };
+const hex64 = { type: 'string', pattern: '^[0-9a-f]{64}$' };
+const timestamp = { type: 'string', format: 'date-time' };
+const nullable = (schema: object) => ({ anyOf: [schema, { type: 'null' }] });
+const object = (properties: Record<string, object>, description?: string) => ({
+	type: 'object',
+	...(description ? { description } : {}),
+	required: Object.keys(properties),
+	properties
+});
+
+export const certificateSchemas = {
+	CertificateRequest: object({ checkId: text }, 'The finished check to certify.'),
+	Certificate: object({
+		id: text,
+		claimId: text,
+		checkId: text,
+		fingerprint: { ...hex64, description: 'SHA-256 of the canonical manifest.' },
+		status: { type: 'string', enum: ['valid', 'superseded', 'withdrawn'] },
+		supersedes: nullable(text),
+		supersededBy: nullable(text),
+		keyId: hex64,
+		issuedAt: timestamp,
+		certifiedSchmidtNumber: { type: 'integer' },
+		verdict: nullable({ type: 'string', enum: ['supported', 'not supported'] }),
+		urls: object({
+			pdf: text,
+			bundle: text,
+			verify: { type: 'string', description: 'The public verification page.' }
+		})
+	}),
+	SigningKeys: object({
+		keys: {
+			type: 'array',
+			items: object({
+				id: { ...hex64, description: 'SHA-256 of the public key.' },
+				algorithm: { type: 'string', enum: ['Ed25519'] },
+				publicKey: { ...hex64, description: 'The 32-byte public key as hex.' },
+				createdAt: timestamp,
+				retiredAt: nullable(timestamp)
+			})
+		}
+	}),
+	LedgerPage: object({
+		items: {
+			type: 'array',
+			items: object({
+				seq: { type: 'integer' },
+				event: { type: 'string', enum: ['issue', 'supersede', 'withdraw'] },
+				certificateId: text,
+				at: timestamp,
+				prevHash: hex64,
+				hash: hex64,
+				keyId: hex64,
+				signature: text,
+				payload: { type: 'string', description: 'The canonical JSON that was hashed and signed.' }
+			})
+		},
+		total: { type: 'integer' },
+		page: { type: 'integer' },
+		pageSize: { type: 'integer' }
+	})
+};

@@ -1,0 +1,9 @@
+import { app } from '$lib/server/app';
+import { lookupCertificate } from '$lib/server/services/certificate-reads';
+import type { PageServerLoad } from './$types';
+
+/** Public (no sign-in): the page a certificate's QR code and verify link open. */
+export const load: PageServerLoad = async ({ params }) => {
+	const { database } = await app();
+	return { id: params.id, lookup: await lookupCertificate(database, params.id) };
+};
