@@ -3,6 +3,7 @@ import { sequence } from '@sveltejs/kit/hooks';
 import { app } from '$lib/server/app';
 import { formOriginCheck } from '$lib/server/api';
 import { ANONYMOUS } from '$lib/server/access/actor';
+import { reviewLink } from '$lib/server/access/review-handle';
 import { rejectControlCharacters } from '$lib/server/request-guards';
 import { authenticate } from '$lib/server/services/tokens';
 
@@ -57,4 +58,10 @@ export const init: ServerInit = async () => {
 	await app();
 };
 
-export const handle: Handle = sequence(formOriginCheck, rejectControlCharacters, session, bearer);
+export const handle: Handle = sequence(
+	formOriginCheck,
+	rejectControlCharacters,
+	session,
+	bearer,
+	reviewLink
+);

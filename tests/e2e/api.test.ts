@@ -275,7 +275,12 @@ describe('API v1', () => {
 				headers: { 'content-type': 'application/json' },
 				body: method === 'GET' ? undefined : '{}'
 			});
-			expect([404, 405], `${endpoint} → ${response.status}`).not.toContain(response.status);
+			// Shares, review links, reports and review tokens are not in this world: such a route must
+			// exist (no 405) and answers 404 for an id or token it does not know.
+			const foreign = /\/(shares|review-links|reports|review)\//.test(template);
+			expect(foreign ? [405] : [404, 405], `${endpoint} → ${response.status}`).not.toContain(
+				response.status
+			);
 		}
 		expect((await call(`/api/v1/claims/${ids.claim}`, { method: 'DELETE' })).status).toBe(405);
 	});

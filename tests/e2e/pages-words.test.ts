@@ -7,6 +7,7 @@
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { openPages, type ClaimItem, type PagesSession } from './pages-session';
+import { DEMO_CLAIMS } from '../../src/lib/server/demo/scenario';
 
 let session: PagesSession;
 let page: Page;
@@ -140,7 +141,9 @@ describe('finding one’s way', () => {
 		await page.goto(`${origin}/claims`);
 		expect(await page.textContent('h1')).toBe('Claims shared with you');
 		const text = (await page.textContent('main'))!;
-		expect(text).toContain('No claim has been shared with you yet');
+		// The demo shares its first claim with the editor (issue 9), and only that one.
+		expect(text).toContain(DEMO_CLAIMS[0].title);
+		expect(text).not.toContain(DEMO_CLAIMS[1].title);
 		expect(text).not.toMatch(/make the first|start a group/i);
 		expect(await page.locator('nav a[href="/group"]').count()).toBe(0);
 		await page.goto(`${origin}/group`);
@@ -153,7 +156,7 @@ describe('finding one’s way', () => {
 		const states = await page.$$eval('select[name=state] option', (options) =>
 			options.map((o) => (o as HTMLOptionElement).value)
 		);
-		expect(states).toEqual(['', 'draft', 'checked']);
+		expect(states).toEqual(['', 'draft', 'checked', 'certified', 'shared']);
 	});
 });
 

@@ -12,6 +12,8 @@ import { openDatabase } from '../../src/lib/server/db';
 import { DEMO_PEOPLE } from '../../src/lib/server/demo/scenario';
 import { seedDemo } from '../../src/lib/server/demo/seed';
 import { newId } from '../../src/lib/server/services/ids';
+import { catcherTransport, createMailer } from '../../src/lib/server/mail';
+import { startMailCatcher } from '../../src/lib/server/mail-catcher';
 
 export interface PagesWorld {
 	dataDir: string;
@@ -27,7 +29,18 @@ export async function seedPagesWorld(): Promise<PagesWorld> {
 	process.env.RANKSEAL_CHECK_WORKER = await bundleCheckWorker(path.join(workerFolder, 'w.mjs'));
 	const database = await openDatabase(path.join(dataDir, 'rankseal.sqlite'));
 	try {
-		await seedDemo(database);
+		// The demo's notices go to a real catcher on a free port, stored in this data folder.
+		const catcher = await startMailCatcher(database, 0);
+		const from = 'Rankseal <no-reply@rankseal.invalid>';
+		const mailer = createMailer({
+			transport: catcherTransport(catcher.port),
+			from,
+			origin: 'http://127.0.0.1'
+		});
+		await seedDemo(database, mailer).finally(async () => {
+			mailer.close();
+			await catcher.close();
+		});
 		await (await startCheckRunner(database)).idle();
 		await stopCheckRunner(database);
 		const { User, Session } = database.models;

@@ -21,6 +21,7 @@ describe('database', () => {
 			'0003-token-expiry',
 			'0004-dataset-summary',
 			'0005-certificates',
+			'0006-sharing-review',
 			'0007-outbox-archive'
 		]);
 	});

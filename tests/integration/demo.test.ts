@@ -1,11 +1,12 @@
 /**
  * The demo seed: once, complete (people, group, claims, datasets, checks, token, a certificate
- * for each supported claim), and idempotent.
+ * for each supported claim, and the review scene: a shared claim, a review link, a filed report,
+ * the editor's token), and idempotent.
  */
 import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { signIn } from '../../src/lib/server/services/accounts';
 import { bundleCheckWorker } from '../../src/lib/server/checks/locate';
 import { stopCheckRunner } from '../../src/lib/server/checks/runner';
@@ -17,17 +18,25 @@ import { listClaims } from '../../src/lib/server/services/claims';
 import { authenticate } from '../../src/lib/server/services/tokens';
 import { demoTokenFile, seedDemo } from '../../src/lib/server/demo/seed';
 import { DEMO_CLAIMS, DEMO_PEOPLE } from '../../src/lib/server/demo/scenario';
+import { demoEditorTokenFile, demoReviewLinkFile } from '../../src/lib/server/demo/review-seed';
+import { bundleVerifier } from '../../src/lib/server/evidence/verifier-file';
+import { refereeView } from '../../src/lib/server/services/referee';
+import { resolveReviewToken } from '../../src/lib/server/services/review-links';
 import { asUser } from './actors';
-import { temporaryDatabase } from './db';
+import { mailTo, mailWorld, type MailWorld } from './mail-world';
 
-let ctx: Awaited<ReturnType<typeof temporaryDatabase>>;
+// Safety limits for bundling and the demo's checks on a busy machine, not speed checks.
+vi.setConfig({ testTimeout: 600_000, hookTimeout: 600_000 });
+
+let ctx: MailWorld;
 let workerFolder: string;
 
 beforeAll(async () => {
-	ctx = await temporaryDatabase();
+	ctx = await mailWorld();
 	workerFolder = mkdtempSync(path.join(tmpdir(), 'rankseal-demo-worker-'));
 	process.env.RANKSEAL_DATA_DIR = ctx.folder;
 	process.env.RANKSEAL_CHECK_WORKER = await bundleCheckWorker(path.join(workerFolder, 'w.mjs'));
+	process.env.RANKSEAL_VERIFIER = await bundleVerifier(path.join(workerFolder, 'verify.mjs'));
 });
 afterAll(async () => {
 	await stopCheckRunner(ctx.database);
@@ -37,7 +46,7 @@ afterAll(async () => {
 
 describe('demo scenario', () => {
 	it('seeds people with the documented passwords, the claims with counts and checks, and a token', async () => {
-		expect(await seedDemo(ctx.database)).toBe('seeded');
+		expect(await seedDemo(ctx.database, ctx.mailer)).toBe('seeded');
 		for (const person of DEMO_PEOPLE)
 			expect(await signIn(ctx.database, person.email, person.password)).not.toBeNull();
 		const author = (await signIn(ctx.database, DEMO_PEOPLE[1].email, DEMO_PEOPLE[1].password))!
@@ -78,14 +87,34 @@ describe('demo scenario', () => {
 		expect((await authenticate(ctx.database, token))?.userId).toBe(owner?.get('id'));
 	});
 
+	it('shares the first claim with the demo editor, with a working review link and a filed report', async () => {
+		const url = readFileSync(demoReviewLinkFile(), 'utf8').trim();
+		const token = new URL(url).pathname.split('/').at(-1)!;
+		const use = { method: 'GET', path: '/test' };
+		const referee = (await resolveReviewToken(ctx.database, token, use))!;
+		const view = await refereeView(ctx.database, referee);
+		expect(view.claim.title).toBe(DEMO_CLAIMS[0].title);
+		expect(view.report).toBeNull();
+		const reports = await ctx.database.models.Report.findAll();
+		expect(reports.map((r) => r.get('submittedAt') !== null)).toEqual([true]);
+		const editor = DEMO_PEOPLE.find((p) => p.key === 'editor')!;
+		const token2 = readFileSync(demoEditorTokenFile(), 'utf8').trim();
+		expect((await authenticate(ctx.database, token2))?.userId).toBe(
+			(await signIn(ctx.database, editor.email, editor.password))!.userId
+		);
+		expect((await mailTo(ctx, editor.email)).map((m) => m.subject).join('|')).toMatch(
+			/shared with you.*filed a report/
+		);
+	});
+
 	it('changes nothing when run again, and writes a fresh token when the file is gone', async () => {
 		const count = await ctx.database.models.Claim.count();
 		const certificates = await ctx.database.models.Certificate.count();
-		expect(await seedDemo(ctx.database)).toBe('present');
+		expect(await seedDemo(ctx.database, ctx.mailer)).toBe('present');
 		expect(await ctx.database.models.Claim.count()).toBe(count);
 		expect(await ctx.database.models.Certificate.count()).toBe(certificates);
 		rmSync(demoTokenFile());
-		expect(await seedDemo(ctx.database)).toBe('present');
+		expect(await seedDemo(ctx.database, ctx.mailer)).toBe('present');
 		expect(existsSync(demoTokenFile())).toBe(true);
 		expect(
 			await authenticate(ctx.database, readFileSync(demoTokenFile(), 'utf8').trim())

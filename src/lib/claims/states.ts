@@ -10,8 +10,13 @@ export const CLAIM_STATES = [
 
 export type ClaimState = (typeof CLAIM_STATES)[number];
 
-/** The states some action can put a claim in today: a new claim, and one with a finished check. */
-export const REACHABLE_CLAIM_STATES: readonly ClaimState[] = ['draft', 'checked'];
+/** The states some action can put a claim in today: new, checked, certified, shared with an editor. */
+export const REACHABLE_CLAIM_STATES: readonly ClaimState[] = [
+	'draft',
+	'checked',
+	'certified',
+	'shared'
+];
 
 /** A state in a reader's words, for lists and filters. */
 export const CLAIM_STATE_LABELS: Record<ClaimState, string> = {

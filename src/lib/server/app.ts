@@ -47,7 +47,7 @@ export function app(): Promise<AppServices> {
 		const mail = await startMail(database);
 		// Checks left queued or running by an earlier process resume now.
 		await startCheckRunner(database);
-		if (config().demo) console.log(`Demo scenario: ${await seedDemo(database)}`);
+		if (config().demo) console.log(`Demo scenario: ${await seedDemo(database, mail.mailer)}`);
 		// adapter-node emits this once the HTTP server has closed (SIGINT, SIGTERM).
 		process.once('sveltekit:shutdown' as 'beforeExit', () => void shutDown());
 		return { database, lucia, ...mail };

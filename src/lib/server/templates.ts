@@ -10,6 +10,9 @@ const sources = import.meta.glob('/templates/mail/*.{txt,html}', {
 	eager: true
 }) as Record<string, string>;
 
+export type NoticeTemplate =
+	'notice-claim-shared' | 'notice-report-filed' | 'notice-report-released';
+
 export type MailTemplate =
 	| 'verify-email'
 	| 'reset-password'
@@ -17,7 +20,8 @@ export type MailTemplate =
 	| 'password-changed'
 	| 'certificate-issued'
 	| 'certificate-superseded'
-	| 'claim-withdrawn';
+	| 'claim-withdrawn'
+	| NoticeTemplate;
 
 export interface RenderedMail {
 	subject: string;

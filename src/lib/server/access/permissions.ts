@@ -20,7 +20,9 @@ export type ClaimAction =
 	| 'edit-claim'
 	| 'start-check'
 	| 'issue-certificate'
-	| 'file-report';
+	| 'file-report'
+	| 'share'
+	| 'review';
 export type GroupAction = 'read' | 'create-claim' | 'manage';
 /** Actions on the service itself or on the actor's own account, not on one claim or group. */
 export type ServiceAction =
@@ -41,21 +43,25 @@ const CLAIM_RULES = {
 		'remove-dataset',
 		'edit-claim',
 		'start-check',
-		'issue-certificate'
+		'issue-certificate',
+		'share'
 	],
-	editor: ['read', 'read-datasets'],
-	referee: ['read', 'start-check', 'file-report']
+	editor: ['read', 'read-datasets', 'review'],
+	// The counts are in the evidence bundle the referee downloads anyway.
+	referee: ['read', 'read-datasets', 'start-check', 'file-report']
 } satisfies Record<string, ClaimAction[]>;
 
 const CLAIM_DENIALS: Record<ClaimAction, string> = {
 	read: 'You may not see this claim.',
-	'read-datasets': 'A review link shows the claim and its checks, not its counts files.',
+	'read-datasets': 'You may not see this claim’s counts files.',
 	'add-dataset': 'Only members of the claim’s group upload counts.',
 	'remove-dataset': 'Only members of the claim’s group take back counts files.',
 	'edit-claim': 'Only the claim’s author or a group lead may edit it.',
 	'start-check': 'Only members of the claim’s group start checks.',
 	'issue-certificate': 'Only members of the claim’s group issue certificates.',
-	'file-report': 'Only the referee holding a review link files a report.'
+	'file-report': 'Only the referee holding a review link files a report.',
+	share: 'Only members of the claim’s group share it or read its shares.',
+	review: 'Only the editor the claim is shared with makes review links and releases reports.'
 };
 
 const SERVICE_DENIALS: Record<ServiceAction, string> = {
@@ -87,18 +93,24 @@ async function groupIdsOf(database: Database, actor: AccountActor): Promise<stri
 	return rows.map((r) => r.get('groupId') as string);
 }
 
-/** Whether an editor holds a share of this claim. Sharing arrives with issue 9: none exist yet. */
+/** Whether the editor holds an open (not withdrawn) share of this claim. */
 export async function sharedWith(
-	_database: Database,
-	_actor: AccountActor,
-	_claimId: string
+	database: Database,
+	actor: AccountActor,
+	claimId: string,
+	transaction?: Transaction
 ): Promise<boolean> {
-	return false;
+	const where = { claimId, editorId: actor.userId, withdrawnAt: null };
+	return (await database.models.Share.count({ where, transaction })) > 0;
 }
 
-/** Ids of the claims shared with an editor (for lists); the same seam as sharedWith. */
-export async function sharedClaimIds(_database: Database, _actor: AccountActor): Promise<string[]> {
-	return [];
+/** Ids of the claims shared with an editor (for lists); the same rule as sharedWith. */
+export async function sharedClaimIds(database: Database, actor: AccountActor): Promise<string[]> {
+	const rows = await database.models.Share.findAll({
+		where: { editorId: actor.userId, withdrawnAt: null },
+		attributes: ['claimId']
+	});
+	return rows.map((r) => r.get('claimId') as string);
 }
 
 export async function decideClaim(
@@ -119,7 +131,7 @@ export async function decideClaim(
 		const mayCorrect = claim.createdBy === actor.userId || role === 'lead';
 		return action === 'edit-claim' && !mayCorrect ? 'denied' : allows(CLAIM_RULES.member);
 	}
-	if (actor.accountRole === 'editor' && (await sharedWith(database, actor, claim.id)))
+	if (actor.accountRole === 'editor' && (await sharedWith(database, actor, claim.id, transaction)))
 		return allows(CLAIM_RULES.editor);
 	return 'hidden';
 }

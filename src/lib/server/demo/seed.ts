@@ -2,14 +2,15 @@
  * Seeds the demo scenario (scenario.ts) once: people with documented passwords, a group, claims
  * across the three methods with their counts files, a check of each, and an API token for one
  * author written to data/demo/api-token.txt; once the checks have run, a certificate for each
- * supported claim. Running it again changes nothing, except that a missing token file gets a
- * fresh token and a supported claim left without a certificate gets one.
+ * supported claim, then the review scene (review-seed.ts). Running it again changes nothing, except
+ * that a missing token file gets a fresh token and a supported claim left without a certificate gets one.
  */
 import { existsSync, mkdirSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { hashPassword } from '../auth';
 import { config } from '../config';
 import type { Database } from '../db';
+import type { Mailer } from '../mail';
 import { userActor } from '../access/actor';
 import { writeTransaction } from '../db/transactions';
 import { startCheck } from '../services/checks';
@@ -17,6 +18,7 @@ import { createClaim } from '../services/claims';
 import { addDataset } from '../services/datasets';
 import { newId } from '../services/ids';
 import { createToken } from '../services/tokens';
+import { seedReview } from './review-seed';
 import { certifyDemoClaims } from './certify-demo';
 import { DEMO_CLAIMS, DEMO_GROUP, DEMO_PEOPLE, demoCountsCsv } from './scenario';
 
@@ -47,7 +49,8 @@ async function seedPeople(database: Database): Promise<Map<string, string>> {
 	return ids;
 }
 
-async function seedClaims(database: Database, ids: Map<string, string>): Promise<void> {
+async function seedClaims(database: Database, ids: Map<string, string>): Promise<string[]> {
+	const claimIds: string[] = [];
 	for (const demo of DEMO_CLAIMS) {
 		const author = (await userActor(database, ids.get(demo.author)!))!;
 		const claim = await createClaim(database, author, {
@@ -65,7 +68,9 @@ async function seedClaims(database: Database, ids: Map<string, string>): Promise
 			originalName: `${demo.title.split(':')[0]}.csv`
 		});
 		await startCheck(database, author, claim.id, {});
+		claimIds.push(claim.id);
 	}
+	return claimIds;
 }
 
 async function writeDemoToken(database: Database, userId: string): Promise<void> {
@@ -75,7 +80,7 @@ async function writeDemoToken(database: Database, userId: string): Promise<void>
 	writeFileSync(demoTokenFile(), token + '\n', { mode: 0o600 });
 }
 
-export async function seedDemo(database: Database): Promise<'seeded' | 'present'> {
+export async function seedDemo(database: Database, mailer: Mailer): Promise<'seeded' | 'present'> {
 	const lead = DEMO_PEOPLE.find((p) => p.key === 'lead')!;
 	const existing = await database.models.User.findOne({ where: { email: lead.email } });
 	if (existing) {
@@ -87,8 +92,10 @@ export async function seedDemo(database: Database): Promise<'seeded' | 'present'
 		return 'present';
 	}
 	const ids = await seedPeople(database);
-	await seedClaims(database, ids);
+	const claimIds = await seedClaims(database, ids);
 	await writeDemoToken(database, ids.get('author1')!);
 	await certifyDemoClaims(database);
+	const people = { author: ids.get(DEMO_CLAIMS[0].author)!, editor: ids.get('editor')! };
+	await seedReview(database, mailer, people, claimIds[0]);
 	return 'seeded';
 }

@@ -4,6 +4,7 @@ import * as fourierConvention from './0002-fourier-convention';
 import * as tokenExpiry from './0003-token-expiry';
 import * as datasetSummary from './0004-dataset-summary';
 import * as certificates from './0005-certificates';
+import * as sharingReview from './0006-sharing-review';
 import * as outboxArchive from './0007-outbox-archive';
 
 export const migrations = [
@@ -12,5 +13,6 @@ export const migrations = [
 	{ name: '0003-token-expiry', ...tokenExpiry },
 	{ name: '0004-dataset-summary', ...datasetSummary },
 	{ name: '0005-certificates', ...certificates },
+	{ name: '0006-sharing-review', ...sharingReview },
 	{ name: '0007-outbox-archive', ...outboxArchive }
 ];

@@ -13,7 +13,10 @@ import { defineLedgerEntry } from './LedgerEntry';
 import { defineMailMessage } from './MailMessage';
 import { defineMembership } from './Membership';
 import { defineOutboxMail } from './OutboxMail';
+import { defineReport } from './Report';
+import { defineReviewLink } from './ReviewLink';
 import { defineSession } from './Session';
+import { defineShare } from './Share';
 import { defineUser } from './User';
 
 export function defineModels(sequelize: Sequelize) {
@@ -32,7 +35,10 @@ export function defineModels(sequelize: Sequelize) {
 		MailMessage: defineMailMessage(sequelize),
 		Certificate: defineCertificate(sequelize),
 		LedgerEntry: defineLedgerEntry(sequelize),
-		OutboxMail: defineOutboxMail(sequelize)
+		OutboxMail: defineOutboxMail(sequelize),
+		Share: defineShare(sequelize),
+		ReviewLink: defineReviewLink(sequelize),
+		Report: defineReport(sequelize)
 	};
 	const {
 		User,

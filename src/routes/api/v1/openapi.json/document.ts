@@ -3,6 +3,8 @@ import { MAX_COUNTS_FILE_BYTES, METHOD_IDS } from '$lib/certify';
 import { CLAIM_SORTS, CLAIM_STATES } from '$lib/claims/schema';
 import { certificatePaths } from './certificate-paths';
 import { certificateSchemas } from './certificate-schemas';
+import { reviewPaths } from './review-paths';
+import { reviewSchemas } from './review-schemas';
 import { schemas } from './schemas';
 
 const ref = (name: string) => ({ $ref: `#/components/schemas/${name}` });
@@ -319,6 +321,7 @@ export const openApiDocument = {
 				}
 			}
 		},
+		...reviewPaths,
 		'/api/v1/openapi.json': {
 			get: {
 				operationId: 'openApiDocument',

@@ -1,0 +1,175 @@
+/**
+ * What a referee holding a review link sees and does: the claim, its current certificate, the
+ * data with heat maps, re-runs of the certified check (recorded or fresh seed), the bundle.
+ */
+import { readFile } from 'node:fs/promises';
+import type { CertificationResult } from '$lib/certify';
+import { checkRequestSchema } from '$lib/claims/schema';
+import { firstDifference } from '$lib/evidence/compare';
+import type { Actor, RefereeActor } from '../access/actor';
+import { requireClaim } from '../access/permissions';
+import type { Database } from '../db';
+import type { CertificateAttributes } from '../db/models/Certificate';
+import { audit } from './audit';
+import { absolute } from './certificate-files';
+import { certificateView, type CertificateView } from './certificate-views';
+import { getCheck, startCheck, type CheckView } from './checks';
+import { datasetTables, getDataset, type DatasetTables, type DatasetView } from './datasets';
+import { ConflictError, NotFoundError } from './errors';
+import { ownReport, type ReportView } from './reports';
+
+/** A referee chooses only the seed; everything else is the certified check's. */
+export const refereeCheckSchema = checkRequestSchema.pick({ seed: true }).strict();
+export type RefereeCheckInput = { seed?: number | string | null };
+
+/** How a re-run compares with the certified check. */
+export interface Comparison {
+	sameSeed: boolean;
+	/** Every number equal (the promise for the recorded seed); null until the re-run is done. */
+	identical: boolean | null;
+	/** |lower bound difference| ≤ the certificate's standard error; null until done. */
+	withinError: boolean | null;
+	firstDifference: string | null;
+}
+
+export type RefereeCheck = CheckView & { comparison: Comparison };
+
+export interface RefereeView {
+	claim: {
+		id: string;
+		title: string;
+		sourceDescription: string;
+		dimension: number;
+		method: string;
+		bases: number[];
+		fourier: string;
+		claimedSchmidtNumber: number;
+	};
+	certificate: CertificateView;
+	certified: CheckView;
+	dataset: DatasetView;
+	tables: DatasetTables['tables'];
+	checks: RefereeCheck[];
+	report: ReportView | null;
+}
+
+function asReferee(actor: Actor): RefereeActor {
+	if (actor.kind !== 'referee') throw new NotFoundError('No such review link.');
+	return actor;
+}
+
+async function currentCertificate(database: Database, claimId: string) {
+	const row = await database.models.Certificate.findOne({
+		where: { claimId, status: 'valid' },
+		order: [['issuedAt', 'DESC']]
+	});
+	if (!row) throw new NotFoundError('No such review link.');
+	return row.get({ plain: true }) as CertificateAttributes;
+}
+
+/** Checks this link started (logged when started), oldest first. */
+async function ownCheckIds(database: Database, actor: RefereeActor): Promise<string[]> {
+	const rows = await database.models.AuditEvent.findAll({
+		where: { action: 'review.check-started', subjectType: 'check' },
+		order: [['createdAt', 'ASC']]
+	});
+	return rows
+		.filter((r) => (r.get('details') as { reviewLinkId?: string }).reviewLinkId === actor.linkId)
+		.map((r) => r.get('subjectId') as string);
+}
+
+export function compareRuns(certified: CheckView, rerun: CheckView): Comparison {
+	const sameSeed = certified.seed === rerun.seed;
+	const a = certified.result as CertificationResult;
+	const b = rerun.result;
+	if (!b) return { sameSeed, identical: null, withinError: null, firstDifference: null };
+	const difference = firstDifference(a, b);
+	const withinError = Math.abs(a.statistic.lower - b.statistic.lower) <= a.statistic.standardError;
+	return { sameSeed, identical: difference === null, withinError, firstDifference: difference };
+}
+
+/** Everything the review page shows. */
+export async function refereeView(database: Database, actor: Actor): Promise<RefereeView> {
+	const referee = asReferee(actor);
+	const c = await requireClaim(database, referee, referee.claimId, 'read');
+	const certificate = await currentCertificate(database, c.id);
+	const certified = await getCheck(database, referee, certificate.checkId);
+	const dataset = await getDataset(database, referee, certified.datasetId);
+	const { tables } = await datasetTables(database, referee, certified.datasetId);
+	const checks = [];
+	for (const id of await ownCheckIds(database, referee))
+		checks.push(await refereeCheck(database, referee, id));
+	const { id, title, sourceDescription, dimension, method, bases, fourier } = c;
+	return {
+		claim: {
+			id,
+			title,
+			sourceDescription,
+			dimension,
+			method,
+			bases,
+			fourier,
+			claimedSchmidtNumber: c.claimedSchmidtNumber
+		},
+		certificate: certificateView(certificate),
+		certified,
+		dataset,
+		tables,
+		checks,
+		report: await ownReport(database, referee)
+	};
+}
+
+/** One re-run started through this link, with its comparison; 404 for any other check. */
+export async function refereeCheck(
+	database: Database,
+	actor: Actor,
+	checkId: string
+): Promise<RefereeCheck> {
+	const referee = asReferee(actor);
+	if (!(await ownCheckIds(database, referee)).includes(checkId))
+		throw new NotFoundError('No such check.');
+	const certificate = await currentCertificate(database, referee.claimId);
+	const certified = await getCheck(database, referee, certificate.checkId);
+	const check = await getCheck(database, referee, checkId);
+	return { ...check, comparison: compareRuns(certified, check) };
+}
+
+/** Re-runs the certified check with its dataset and settings, and the recorded or a fresh seed. */
+export async function startRefereeCheck(
+	database: Database,
+	actor: Actor,
+	input: RefereeCheckInput = {}
+): Promise<RefereeCheck> {
+	const referee = asReferee(actor);
+	const { seed: freshSeed } = refereeCheckSchema.parse(input);
+	const claim = await requireClaim(database, referee, referee.claimId, 'start-check');
+	const ids = await ownCheckIds(database, referee);
+	const { Check } = database.models;
+	// One re-run at a time per link: a referee cannot queue up the service's workers.
+	if (await Check.count({ where: { id: ids, status: ['queued', 'running'] } }))
+		throw new ConflictError('A re-run from this link is still going; wait for it to finish.');
+	const certificate = await currentCertificate(database, referee.claimId);
+	const certified = await getCheck(database, referee, certificate.checkId);
+	const { resamples, confidence, datasetId } = certified;
+	const settings = { datasetId, resamples, confidence, seed: freshSeed ?? certified.seed };
+	const check = await startCheck(database, referee, referee.claimId, settings);
+	const details = { reviewLinkId: referee.linkId, seed: check.seed };
+	const entry = {
+		actorId: null,
+		groupId: claim.groupId,
+		subjectType: 'check',
+		subjectId: check.id
+	};
+	await audit(database, { ...entry, action: 'review.check-started', details });
+	return { ...check, comparison: compareRuns(certified, check) };
+}
+
+/** The current certificate's evidence bundle. */
+export async function refereeBundle(database: Database, actor: Actor) {
+	const referee = asReferee(actor);
+	await requireClaim(database, referee, referee.claimId, 'read');
+	const c = await currentCertificate(database, referee.claimId);
+	const bytes = await readFile(absolute(c.bundlePath));
+	return { bytes, filename: `rankseal-evidence-${c.id}.zip`, contentType: 'application/zip' };
+}

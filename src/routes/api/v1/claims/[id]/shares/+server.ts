@@ -1,0 +1,16 @@
+import { json } from '@sveltejs/kit';
+import { apiEndpoint, readJson } from '$lib/server/api';
+import { app } from '$lib/server/app';
+import { listShares, shareClaim, shareInputSchema } from '$lib/server/services/shares';
+import type { RequestHandler } from './$types';
+
+export const GET: RequestHandler = apiEndpoint(async ({ event, database, actor }) =>
+	json({ shares: await listShares(database, actor, event.params.id!) })
+);
+
+/** Shares a certified claim with an editor: `{ email, journal, manuscript }` → 201. */
+export const POST: RequestHandler = apiEndpoint(async ({ event, database, actor }) => {
+	const input = await readJson(event.request, shareInputSchema);
+	const { mailer } = await app();
+	return json(await shareClaim(database, mailer, actor, event.params.id!, input), { status: 201 });
+});

@@ -1,0 +1,10 @@
+import { json } from '@sveltejs/kit';
+import { apiEndpoint } from '$lib/server/api';
+import { app } from '$lib/server/app';
+import { releaseReport } from '$lib/server/services/reports';
+import type { RequestHandler } from './$types';
+
+/** The editor releases a filed report to the claim's authors. */
+export const POST: RequestHandler = apiEndpoint(async ({ event, database, actor }) =>
+	json(await releaseReport(database, (await app()).mailer, actor, event.params.id!))
+);

@@ -1,0 +1,9 @@
+import { json } from '@sveltejs/kit';
+import { apiEndpoint } from '$lib/server/api';
+import { revokeReviewLink } from '$lib/server/services/review-links';
+import type { RequestHandler } from './$types';
+
+/** Revokes a review link at once. */
+export const DELETE: RequestHandler = apiEndpoint(async ({ event, database, actor }) =>
+	json(await revokeReviewLink(database, actor, event.params.id!))
+);

@@ -1,0 +1,9 @@
+import { json } from '@sveltejs/kit';
+import { reviewEndpoint } from '$lib/server/review-api';
+import { refereeView } from '$lib/server/services/referee';
+import type { RequestHandler } from './$types';
+
+/** The claim, its certificate, the certified check, the data summary and tables, own re-runs and report. */
+export const GET: RequestHandler = reviewEndpoint(async ({ database, actor }) =>
+	json(await refereeView(database, actor))
+);

@@ -1,0 +1,14 @@
+import { reviewEndpoint } from '$lib/server/review-api';
+import { refereeBundle } from '$lib/server/services/referee';
+import type { RequestHandler } from './$types';
+
+/** The current certificate's evidence bundle. */
+export const GET: RequestHandler = reviewEndpoint(async ({ database, actor }) => {
+	const { bytes, filename, contentType } = await refereeBundle(database, actor);
+	return new Response(new Uint8Array(bytes), {
+		headers: {
+			'content-type': contentType,
+			'content-disposition': `attachment; filename="${filename}"`
+		}
+	});
+});

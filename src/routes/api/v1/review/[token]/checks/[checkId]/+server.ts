@@ -1,0 +1,9 @@
+import { json } from '@sveltejs/kit';
+import { reviewEndpoint } from '$lib/server/review-api';
+import { refereeCheck } from '$lib/server/services/referee';
+import type { RequestHandler } from './$types';
+
+/** A re-run started through this link: the shape of any check, plus how it compares. */
+export const GET: RequestHandler = reviewEndpoint(async ({ event, database, actor }) =>
+	json(await refereeCheck(database, actor, event.params.checkId!))
+);

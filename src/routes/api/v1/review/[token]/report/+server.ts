@@ -1,0 +1,17 @@
+import { json } from '@sveltejs/kit';
+import { readJson } from '$lib/server/api';
+import { app } from '$lib/server/app';
+import { reviewEndpoint } from '$lib/server/review-api';
+import { ownReport, reportInputSchema, saveReport } from '$lib/server/services/reports';
+import type { RequestHandler } from './$types';
+
+export const GET: RequestHandler = reviewEndpoint(async ({ database, actor }) =>
+	json({ report: await ownReport(database, actor) })
+);
+
+/** Saves the report; `submit: false` keeps a draft, anything else files it (then it is fixed). */
+export const POST: RequestHandler = reviewEndpoint(async ({ event, database, actor }) => {
+	const input = await readJson(event.request, reportInputSchema);
+	const report = await saveReport(database, (await app()).mailer, actor, input);
+	return json(report, { status: report.state === 'draft' ? 200 : 201 });
+});

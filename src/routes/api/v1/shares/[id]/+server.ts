@@ -1,0 +1,9 @@
+import { json } from '@sveltejs/kit';
+import { apiEndpoint } from '$lib/server/api';
+import { withdrawShare } from '$lib/server/services/shares';
+import type { RequestHandler } from './$types';
+
+/** Withdraws a share; its review links stop working at once. */
+export const DELETE: RequestHandler = apiEndpoint(async ({ event, database, actor }) =>
+	json(await withdrawShare(database, actor, event.params.id!))
+);

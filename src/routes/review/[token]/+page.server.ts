@@ -1,0 +1,54 @@
+import { error, redirect } from '@sveltejs/kit';
+import { app } from '$lib/server/app';
+import { formFailure, pageProblem } from '$lib/server/problems';
+import { INVALID_REVIEW_LINK } from '$lib/server/review-api';
+import { refereeView, startRefereeCheck } from '$lib/server/services/referee';
+import { saveReport } from '$lib/server/services/reports';
+import type { Actions, PageServerLoad } from './$types';
+
+/** Only the link decides: a signed-in session is ignored here (see review-handle.ts). */
+function referee(locals: App.Locals) {
+	if (locals.actor.kind !== 'referee')
+		error(404, { message: INVALID_REVIEW_LINK, code: 'invalid_review_link' });
+	return locals.actor;
+}
+
+export const load: PageServerLoad = async ({ locals, params }) => {
+	const actor = referee(locals);
+	const { database } = await app();
+	const view = await refereeView(database, actor).catch(pageProblem);
+	return { ...view, token: params.token };
+};
+
+const text = (form: FormData, key: string) => String(form.get(key) ?? '');
+
+export const actions: Actions = {
+	rerun: async ({ locals, request, url }) => {
+		const actor = referee(locals);
+		const form = await request.formData();
+		const seed = text(form, 'seed').trim();
+		const { database } = await app();
+		try {
+			await startRefereeCheck(database, actor, { seed: seed || undefined });
+		} catch (problem) {
+			return formFailure('rerun', problem, { seed });
+		}
+		redirect(303, `${url.pathname}#reruns`);
+	},
+	report: async ({ locals, request, url }) => {
+		const actor = referee(locals);
+		const form = await request.formData();
+		const values = {
+			recommendation: text(form, 'recommendation'),
+			comments: text(form, 'comments')
+		};
+		const submit = form.get('intent') === 'file';
+		const { database, mailer } = await app();
+		try {
+			await saveReport(database, mailer, actor, { ...values, submit });
+		} catch (problem) {
+			return formFailure('report', problem, values);
+		}
+		redirect(303, `${url.pathname}#report`);
+	}
+};
