@@ -69,6 +69,18 @@ export function defaultBasesFor(method: MethodId, dimension: number): number[] {
 	return witnessFamilies[method].defaultBases([0, 1], dimension);
 }
 
+/** The fields that describe a claim: set when it is made, correctable until its first check. */
+export const CLAIM_FIELDS = [
+	'title',
+	'sourceDescription',
+	'dimension',
+	'method',
+	'bases',
+	'fourier',
+	'claimedSchmidtNumber',
+	'manuscriptReference'
+] as const;
+
 export const claimInputSchema = z
 	.object({
 		groupId: z.preprocess(blankToUndefined, z.string().max(100).optional()),

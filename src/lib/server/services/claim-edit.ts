@@ -3,7 +3,12 @@
  * the claimed Schmidt number. Once a check has run, the claim is what that check was measured
  * against and stays as it is (ConflictError). Who may edit it: 'edit-claim' in permissions.ts.
  */
-import { claimInputSchema, type ClaimInput, type ClaimInputValues } from '$lib/claims/schema';
+import {
+	CLAIM_FIELDS,
+	claimInputSchema,
+	type ClaimInput,
+	type ClaimInputValues
+} from '$lib/claims/schema';
 import { accountIdOf, type Actor } from '../access/actor';
 import { requireClaim } from '../access/permissions';
 import type { Database } from '../db';
@@ -14,16 +19,7 @@ import { audit } from './audit';
 import { getClaim, type ClaimView } from './claims';
 import { ConflictError, FieldError } from './errors';
 
-const EDITABLE = [
-	'title',
-	'sourceDescription',
-	'dimension',
-	'method',
-	'bases',
-	'fourier',
-	'claimedSchmidtNumber',
-	'manuscriptReference'
-] as const;
+const EDITABLE = CLAIM_FIELDS;
 
 /** The claim as its editing form starts, and whether a check has already fixed it. */
 export async function claimForEditing(

@@ -10,20 +10,9 @@ import { serviceKey } from '../evidence/keys';
 import { accountIdOf, isAccount, type Actor } from '../access/actor';
 import { requireClaim, roleIn } from '../access/permissions';
 import { audit } from './audit';
-import { WITHDRAW_REASON, withdrawInTransaction } from './certificate-withdraw';
+import { withdrawalReason, withdrawInTransaction } from './certificate-withdraw';
 import { queueWithdrawalNotice } from './claim-notices';
 import { ConflictError, ForbiddenError } from './errors';
-import { FieldError } from './field-error';
-
-function reasonOf(reason: string): string {
-	const why = reason.trim();
-	if (why.length < WITHDRAW_REASON.min || why.length > WITHDRAW_REASON.max)
-		throw new FieldError(
-			'reason',
-			`Say why in ${WITHDRAW_REASON.min} to ${WITHDRAW_REASON.max} characters.`
-		);
-	return why;
-}
 
 /** A lead of the claim's group or the claim's author may withdraw it; returns the certificates withdrawn. */
 export async function withdrawClaim(
@@ -38,7 +27,7 @@ export async function withdrawClaim(
 	const userId = accountIdOf(actor);
 	if (!role || (role !== 'lead' && claim.createdBy !== userId))
 		throw new ForbiddenError('Only a lead of the group or the claim’s author may withdraw it.');
-	const why = reasonOf(reason);
+	const why = withdrawalReason(reason);
 	const key = serviceKey();
 	const by = ((await User.findByPk(userId!))?.get('name') as string | undefined) ?? 'A member';
 	return writeTransaction(database, async (transaction) => {

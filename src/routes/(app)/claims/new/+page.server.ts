@@ -1,5 +1,5 @@
 import { redirect } from '@sveltejs/kit';
-import { claimInputSchema } from '$lib/claims/schema';
+import { CLAIM_FIELDS, claimInputSchema } from '$lib/claims/schema';
 import { app } from '$lib/server/app';
 import { echoValues, requireSignedIn } from '$lib/server/auth-web';
 import { formFailure } from '$lib/server/problems';
@@ -7,17 +7,7 @@ import { createClaim } from '$lib/server/services/claims';
 import { ForbiddenError } from '$lib/server/services/errors';
 import type { Actions } from './$types';
 
-const FIELDS = [
-	'groupId',
-	'title',
-	'sourceDescription',
-	'dimension',
-	'method',
-	'bases',
-	'fourier',
-	'claimedSchmidtNumber',
-	'manuscriptReference'
-];
+const FIELDS = ['groupId', ...CLAIM_FIELDS];
 
 export const actions: Actions = {
 	create: async ({ request, locals, url }) => {

@@ -1,21 +1,12 @@
 import { redirect } from '@sveltejs/kit';
-import { claimInputSchema } from '$lib/claims/schema';
+import { CLAIM_FIELDS, claimInputSchema } from '$lib/claims/schema';
 import { app } from '$lib/server/app';
 import { echoValues, requireSignedIn } from '$lib/server/auth-web';
 import { formFailure, pageProblem } from '$lib/server/problems';
 import { claimForEditing, updateClaim } from '$lib/server/services/claim-edit';
 import type { Actions, PageServerLoad } from './$types';
 
-const FIELDS = [
-	'title',
-	'sourceDescription',
-	'dimension',
-	'method',
-	'bases',
-	'fourier',
-	'claimedSchmidtNumber',
-	'manuscriptReference'
-];
+const FIELDS = [...CLAIM_FIELDS];
 
 export const load: PageServerLoad = async ({ locals, params, url }) => {
 	const actor = requireSignedIn(locals, url);
