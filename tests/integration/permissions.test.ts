@@ -98,7 +98,9 @@ describe('claims', () => {
 		'add-dataset',
 		'remove-dataset',
 		'edit-claim',
+		'withdraw-claim',
 		'start-check',
+		'issue-certificate',
 		'file-report',
 		'share',
 		'review'
@@ -106,18 +108,18 @@ describe('claims', () => {
 	// Editors see a claim only once it is shared with them (an open share, issue 9).
 	// The lead wrote this claim: the author, a member who did not, may not edit it.
 	const table: Record<string, Decision[]> = {
-		anonymous: [H, H, H, H, H, H, H, H, H],
-		lead: [A, A, A, A, A, A, D, A, D],
-		author: [A, A, A, A, D, A, D, A, D],
-		leadToken: [A, A, A, A, A, A, D, A, D],
-		authorToken: [A, A, A, A, D, A, D, A, D],
-		outsider: [H, H, H, H, H, H, H, H, H],
-		editor: [H, H, H, H, H, H, H, H, H],
-		sharedEditor: [A, A, D, D, D, D, D, D, A],
-		admin: [H, H, H, H, H, H, H, H, H],
-		loner: [H, H, H, H, H, H, H, H, H],
-		referee: [A, A, D, D, D, A, A, D, D],
-		otherReferee: [H, H, H, H, H, H, H, H, H]
+		anonymous: [H, H, H, H, H, H, H, H, H, H, H],
+		lead: [A, A, A, A, A, A, A, A, D, A, D],
+		author: [A, A, A, A, D, D, A, A, D, A, D],
+		leadToken: [A, A, A, A, A, A, A, A, D, A, D],
+		authorToken: [A, A, A, A, D, D, A, A, D, A, D],
+		outsider: [H, H, H, H, H, H, H, H, H, H, H],
+		editor: [H, H, H, H, H, H, H, H, H, H, H],
+		sharedEditor: [A, A, D, D, D, D, D, D, D, D, A],
+		admin: [H, H, H, H, H, H, H, H, H, H, H],
+		loner: [H, H, H, H, H, H, H, H, H, H, H],
+		referee: [A, A, D, D, D, D, A, D, A, D, D],
+		otherReferee: [H, H, H, H, H, H, H, H, H, H, H]
 	};
 	for (const [who, expected] of Object.entries(table)) {
 		it(`${who}: ${expected.join(' ')}`, async () => {
@@ -128,7 +130,12 @@ describe('claims', () => {
 		});
 	}
 
-	it('lets a claim be edited by the member who wrote it and by a lead, not by another author', async () => {
+	it('lets a claim be edited or withdrawn by the member who wrote it and by a lead, not by another author', async () => {
+		const withdraw = (actor: Actor) =>
+			decideClaim(ctx.database, actor, authorsClaim, 'withdraw-claim');
+		expect(await withdraw(people.author)).toBe(A);
+		expect(await withdraw(people.lead)).toBe(A);
+		expect(await withdraw(otherAuthor)).toBe(D);
 		const decide = (actor: Actor) => decideClaim(ctx.database, actor, authorsClaim, 'edit-claim');
 		expect(await decide(people.author)).toBe(A);
 		expect(await decide(people.authorToken)).toBe(A);

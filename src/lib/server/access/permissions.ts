@@ -18,6 +18,7 @@ export type ClaimAction =
 	| 'add-dataset'
 	| 'remove-dataset'
 	| 'edit-claim'
+	| 'withdraw-claim'
 	| 'start-check'
 	| 'issue-certificate'
 	| 'file-report'
@@ -42,6 +43,7 @@ const CLAIM_RULES = {
 		'add-dataset',
 		'remove-dataset',
 		'edit-claim',
+		'withdraw-claim',
 		'start-check',
 		'issue-certificate',
 		'share'
@@ -57,6 +59,7 @@ const CLAIM_DENIALS: Record<ClaimAction, string> = {
 	'add-dataset': 'Only members of the claim’s group upload counts.',
 	'remove-dataset': 'Only members of the claim’s group take back counts files.',
 	'edit-claim': 'Only the claim’s author or a group lead may edit it.',
+	'withdraw-claim': 'Only a lead of the group or the claim’s author may withdraw it.',
 	'start-check': 'Only members of the claim’s group start checks.',
 	'issue-certificate': 'Only members of the claim’s group issue certificates.',
 	'file-report': 'Only the referee holding a review link files a report.',
@@ -127,9 +130,10 @@ export async function decideClaim(
 		return actor.claimId === claim.id ? allows(CLAIM_RULES.referee) : 'hidden';
 	const role = await roleIn(database, actor, claim.groupId, transaction);
 	if (role) {
-		// A claim is corrected by whoever wrote it, or by a lead of its group.
-		const mayCorrect = claim.createdBy === actor.userId || role === 'lead';
-		return action === 'edit-claim' && !mayCorrect ? 'denied' : allows(CLAIM_RULES.member);
+		// A claim is corrected or withdrawn by whoever wrote it, or by a lead of its group.
+		const authorOrLead = claim.createdBy === actor.userId || role === 'lead';
+		const authorsAction = action === 'edit-claim' || action === 'withdraw-claim';
+		return authorsAction && !authorOrLead ? 'denied' : allows(CLAIM_RULES.member);
 	}
 	if (actor.accountRole === 'editor' && (await sharedWith(database, actor, claim.id, transaction)))
 		return allows(CLAIM_RULES.editor);
