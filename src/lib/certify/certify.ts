@@ -16,7 +16,7 @@ import {
 	type CountsDataset
 } from './counts';
 import { claimVerdict, ladderPosition, marginsInStandardErrors, type ClaimVerdict } from './ladder';
-import { CONFIDENCE, RESAMPLES } from './limits';
+import { CONFIDENCE, RESAMPLES, resamplesProblem } from './limits';
 import { checkQuantumMarginals, type EntropicSum } from './physical';
 import { checkSeed } from './poisson';
 import { correlationSumBound, fidelityBound, type StatisticBound } from './statistic-bound';
@@ -126,6 +126,8 @@ export function certify(dataset: CountsDataset, options: CertifyOptions): Certif
 	} catch (error) {
 		throw new InputError(`bases: ${(error as Error).message}`);
 	}
+	const tooMany = resamplesProblem(resamples, d, bases.length);
+	if (tooMany) throw new InputError(tooMany);
 	requireCompleteTables(dataset, bases, method);
 	const tables = bases.map((t) => dataset.tables.find((x) => x.basis === t)!);
 	const subtract = !!options.subtractAccidentals && tables.some((t) => t.accidentals !== null);
