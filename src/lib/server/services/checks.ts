@@ -201,6 +201,20 @@ export async function listChecks(
 	);
 }
 
+/** Whether the actor may cancel this check (the page shows the button only then). */
+export async function mayCancelCheck(
+	database: Database,
+	actor: Actor,
+	checkId: string
+): Promise<boolean> {
+	const check = (await database.models.Check.findByPk(checkId))?.get({ plain: true });
+	if (!check) return false;
+	return requireCheckCancel(database, actor, check).then(
+		() => true,
+		() => false
+	);
+}
+
 /**
  * Cancels a queued or running check: the row becomes `cancelled` (who, when) first, then the
  * queue drops it or aborts its worker. ConflictError when it has already ended or was cancelled.

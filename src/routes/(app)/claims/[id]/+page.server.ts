@@ -9,7 +9,7 @@ import { startCheck, listChecks } from '$lib/server/services/checks';
 import { getClaim } from '$lib/server/services/claims';
 import { addDataset, datasetTables, listDatasets } from '$lib/server/services/datasets';
 import { removeDataset } from '$lib/server/services/dataset-removal';
-import { FieldError } from '$lib/server/services/errors';
+import { FieldError, RateLimitedError } from '$lib/server/services/errors';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, params, url }) => {
@@ -82,7 +82,7 @@ export const actions: Actions = {
 		redirect(303, `/claims/${params.id}`);
 	},
 
-	check: async ({ request, locals, params, url }) => {
+	check: async ({ request, locals, params, url, setHeaders }) => {
 		const actor = requireSignedIn(locals, url);
 		const values = echoValues(await request.formData(), [
 			'datasetId',
@@ -98,6 +98,8 @@ export const actions: Actions = {
 		try {
 			checkId = (await startCheck(database, actor, params.id, parsed.data)).id;
 		} catch (problem) {
+			if (problem instanceof RateLimitedError && problem.retryAfterSeconds)
+				setHeaders({ 'retry-after': String(problem.retryAfterSeconds) });
 			return formFailure('check', problem, values);
 		}
 		redirect(303, `/claims/${params.id}/checks/${checkId}`);
