@@ -112,6 +112,11 @@ export class CheckRunner implements CheckQueue {
 		return this.readers.run(task, { name: 'summariseCounts' }) as Promise<SummaryOutcome>;
 	}
 
+	/** Resolves once this check's run has ended here and the next waiting one was handed on. */
+	async settled(checkId: string): Promise<void> {
+		await this.active.get(checkId);
+	}
+
 	async idle(): Promise<void> {
 		while (this.active.size) await Promise.allSettled([...this.active.values()]);
 	}
