@@ -73,7 +73,9 @@ beforeAll(async () => {
 	app = await startApp({
 		RANKSEAL_DATA_DIR: dataDir,
 		RANKSEAL_CHECK_WORKER: waiting,
-		RANKSEAL_CHECK_WORKERS: '1'
+		RANKSEAL_CHECK_WORKERS: '1',
+		RANKSEAL_CHECKS_PER_USER: '1',
+		RANKSEAL_CHECK_RETRY_AFTER_S: '30'
 	});
 	browser = await launchBrowser();
 	page = await browser.context.newPage();
@@ -99,6 +101,26 @@ describe('fair use pages', () => {
 		const cookie = `rankseal_session=${ids.session}`;
 		const api = await fetch(`${app.origin}/api/v1/checks/${ids.check}`, { headers: { cookie } });
 		expect(await api.json()).toMatchObject({ status: 'cancelled', cancelledBy: 'Lena Lead' });
+	});
+
+	it('answers the check form over the per-person limit with 429, Retry-After and the limit in words', async () => {
+		const post = () =>
+			fetch(`${app.origin}/claims/${ids.claim}?/check`, {
+				method: 'POST',
+				redirect: 'manual',
+				headers: {
+					cookie: `rankseal_session=${ids.session}`,
+					origin: app.origin,
+					accept: 'text/html'
+				},
+				body: new URLSearchParams({ resamples: '1000', confidence: '0.99865', seed: '3' })
+			});
+		// The first check was cancelled above, so this one takes the person's one place.
+		expect((await post()).status).toBe(303);
+		const refused = await post();
+		expect(refused.status).toBe(429);
+		expect(refused.headers.get('retry-after')).toBe('30');
+		expect(await refused.text()).toContain('the limit is 1 per person');
 	});
 
 	it('shows the resamples ceiling for the claim’s d and bases beside the check form', async () => {
