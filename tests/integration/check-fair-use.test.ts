@@ -55,10 +55,10 @@ async function cancelAndSettle(userId: string, checkId: string) {
 async function cancelEverything() {
 	const { Check } = ctx.database.models;
 	const rows = await Check.findAll({ where: { status: ['queued', 'running'] } });
-	for (const row of rows) {
-		await Check.update({ status: 'cancelled' }, { where: { id: row.get('id') } });
-		(await runner()).cancel(row.get('id') as string);
-		await (await runner()).settled(row.get('id') as string);
+	for (const id of rows.map((row) => row.get('id') as string)) {
+		await Check.update({ status: 'cancelled' }, { where: { id } });
+		(await runner()).cancel(id);
+		await (await runner()).settled(id);
 	}
 }
 
