@@ -53,6 +53,6 @@ export const reviewLink: Handle = async ({ event, resolve }) => {
 	event.locals.actor = ANONYMOUS;
 	event.locals.refusal = found;
 	const response = await resolve(event);
-	response.headers.set('retry-after', String(found.retryAfterSeconds));
+	response.headers.set('retry-after', String(found.retryAfterSeconds ?? 1));
 	return response;
 };

@@ -115,23 +115,18 @@ export async function requestPasswordReset(
 	const user = (await database.models.User.findOne({ where: { email } }))?.get({ plain: true });
 	await writeTransaction(database, async (transaction) => {
 		const entry = { actorId: null, subjectType: 'user', subjectId: user?.id ?? null };
-		if (!user) {
+		if (user) {
+			const ttl = RESET_PASSWORD_TTL_MS;
+			const token = await issueEmailToken(database, user.id, 'reset-password', ttl, transaction);
+			await audit(database, { ...entry, action: 'account.password-reset-requested' }, transaction);
+			const link = mailLink(mailer, `/reset/${token}`);
+			const values = { name: user.name, email: user.email, link };
+			await queueMail(database, transaction, user.email, 'reset-password', values);
+		} else {
 			const details = { email };
 			await audit(database, { ...entry, action: 'account.reset-no-account', details }, transaction);
-			const link = mailLink(mailer, '/signup');
-			return void (await queueMail(database, transaction, email, 'reset-no-account', {
-				email,
-				link
-			}));
+			const values = { email, link: mailLink(mailer, '/signup') };
+			await queueMail(database, transaction, email, 'reset-no-account', values);
 		}
-		const ttl = RESET_PASSWORD_TTL_MS;
-		const token = await issueEmailToken(database, user.id, 'reset-password', ttl, transaction);
-		await audit(database, { ...entry, action: 'account.password-reset-requested' }, transaction);
-		const values = {
-			name: user.name,
-			email: user.email,
-			link: mailLink(mailer, `/reset/${token}`)
-		};
-		await queueMail(database, transaction, user.email, 'reset-password', values);
 	});
 }
