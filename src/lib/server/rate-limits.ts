@@ -46,12 +46,19 @@ type WindowName = {
 }[LimitName];
 type LadderName = Exclude<LimitName, WindowName>;
 
+type RuleOf<K extends LimitName> = (typeof RATE_LIMITS)[K]['kind'] extends 'window'
+	? WindowRule
+	: LadderRule;
+export type LimitRules = { [K in LimitName]: RuleOf<K> };
+
+const windowPatch = windowRule.omit({ kind: true }).partial().strict();
+const ladderPatch = ladderRule.omit({ kind: true }).partial().strict();
 const overridesSchema = z
 	.object(
 		Object.fromEntries(
 			Object.entries(RATE_LIMITS).map(([name, rule]) => [
 				name,
-				(rule.kind === 'window' ? windowRule : ladderRule).omit({ kind: true }).partial().strict()
+				rule.kind === 'window' ? windowPatch : ladderPatch
 			])
 		)
 	)
@@ -59,9 +66,7 @@ const overridesSchema = z
 	.strict();
 
 /** The table with RANKSEAL_RATE_LIMITS applied; a bad value stops the start naming its field. */
-export function rateLimitRules(
-	env = process.env.RANKSEAL_RATE_LIMITS
-): Record<LimitName, WindowRule | LadderRule> {
+export function rateLimitRules(env = process.env.RANKSEAL_RATE_LIMITS): LimitRules {
 	let overrides: Record<string, object | undefined> = {};
 	if (env?.trim()) {
 		const parsed = overridesSchema.safeParse(JSON.parse(env));
@@ -74,7 +79,7 @@ export function rateLimitRules(
 	const rules = {} as Record<LimitName, WindowRule | LadderRule>;
 	for (const name of Object.keys(RATE_LIMITS) as LimitName[])
 		rules[name] = { ...RATE_LIMITS[name], ...overrides[name] };
-	return rules;
+	return rules as LimitRules;
 }
 
 /** Whole seconds to wait, at least one. */

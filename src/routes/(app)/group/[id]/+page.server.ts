@@ -8,7 +8,7 @@ import {
 	memberRoleForm
 } from '$lib/server/account-forms';
 import { app } from '$lib/server/app';
-import type { Actor } from '$lib/server/access/actor';
+import { accountIdOf, type Actor } from '$lib/server/access/actor';
 import { echoValues, requireSignedIn } from '$lib/server/auth-web';
 import { formFailure, pageProblem } from '$lib/server/problems';
 import { changeMemberRole, getGroup, removeMember } from '$lib/server/services/groups';
@@ -58,7 +58,7 @@ export const actions: Actions = {
 		act(event, 'invite', inviteForm, async (actor, input) => {
 			const { database, mailer } = await app();
 			const what = 'You have sent many invitations in a short time.';
-			await takeOrRefuse('invitations', actor.userId, what);
+			await takeOrRefuse('invitations', String(accountIdOf(actor)), what);
 			await inviteMember(database, mailer, actor, event.params.id, input);
 			return `/group/${event.params.id}?invited=${encodeURIComponent(input.email)}`;
 		}),
