@@ -148,6 +148,29 @@ describe('sign-in pauses', () => {
 	});
 });
 
+describe('sign-in pauses per client address', () => {
+	it('pauses one network address guessing many accounts, and leaves another address alone', async () => {
+		process.env.RANKSEAL_RATE_LIMITS = JSON.stringify({
+			signInAddress: { free: 3, firstDelaySeconds: 60 }
+		});
+		resetRateLimits();
+		const from = (address: string, i: number) =>
+			signInFrom(
+				world.database,
+				{ email: `guess${i}@lakeside.test`, password: 'wrong-guess' },
+				{ address }
+			);
+		const pauses = [];
+		for (let i = 0; i < 4; i++) pauses.push((await from('198.51.100.4', i)).pauseSeconds);
+		expect(pauses).toEqual([null, null, null, 60]);
+		await expect(from('198.51.100.4', 9)).rejects.toMatchObject({
+			retryAfterSeconds: 60,
+			message: expect.stringMatching(/^Too many failed sign-ins from your network address\./)
+		});
+		expect((await from('203.0.113.8', 9)).pauseSeconds).toBeNull();
+	});
+});
+
 describe('the per-recipient mail cap', () => {
 	it('holds letters past the cap, keeps them listed, and sends one an admin releases', async () => {
 		process.env.RANKSEAL_RATE_LIMITS = JSON.stringify({ mailPerRecipient: { points: 2 } });
