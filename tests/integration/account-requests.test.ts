@@ -137,6 +137,7 @@ describe('sign-in pauses', () => {
 			signInAccount: { free: 1, firstDelaySeconds: 30 }
 		});
 		resetRateLimits();
+		vi.useFakeTimers({ toFake: ['Date'] });
 		const known = [];
 		const unknown = [];
 		for (let i = 0; i < 3; i++) {
@@ -154,6 +155,8 @@ describe('sign-in pauses per client address', () => {
 			signInAddress: { free: 3, firstDelaySeconds: 60 }
 		});
 		resetRateLimits();
+		// The clock stands still, so a wait reads exactly as it was set however slow the machine.
+		vi.useFakeTimers({ toFake: ['Date'] });
 		const from = (address: string, i: number) =>
 			signInFrom(
 				world.database,
