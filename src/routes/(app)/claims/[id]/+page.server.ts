@@ -2,14 +2,14 @@ import { redirect } from '@sveltejs/kit';
 import { MAX_COUNTS_FILE_BYTES } from '$lib/certify';
 import { checkRequestSchema } from '$lib/claims/schema';
 import { app } from '$lib/server/app';
-import { echoValues, requireSignedIn } from '$lib/server/auth-web';
+import { echoValues, formRefusal, requireSignedIn } from '$lib/server/auth-web';
 import { formFailure, pageProblem } from '$lib/server/problems';
 import { listCertificates } from '$lib/server/services/certificate-reads';
 import { startCheck, listChecks } from '$lib/server/services/checks';
 import { getClaim } from '$lib/server/services/claims';
 import { addDataset, datasetTables, listDatasets } from '$lib/server/services/datasets';
 import { removeDataset } from '$lib/server/services/dataset-removal';
-import { FieldError, RateLimitedError } from '$lib/server/services/errors';
+import { FieldError } from '$lib/server/services/errors';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, params, url }) => {
@@ -98,9 +98,7 @@ export const actions: Actions = {
 		try {
 			checkId = (await startCheck(database, actor, params.id, parsed.data)).id;
 		} catch (problem) {
-			if (problem instanceof RateLimitedError && problem.retryAfterSeconds)
-				setHeaders({ 'retry-after': String(problem.retryAfterSeconds) });
-			return formFailure('check', problem, values);
+			return formRefusal({ setHeaders }, 'check', problem, values);
 		}
 		redirect(303, `/claims/${params.id}/checks/${checkId}`);
 	}
