@@ -9,6 +9,7 @@ import { existsSync, readdirSync, readFileSync, watch } from 'node:fs';
 import http from 'node:http';
 import path from 'node:path';
 import { QueryTypes } from 'sequelize';
+import sqlite3 from 'sqlite3';
 import { expect } from 'vitest';
 import { openDatabase, type Database } from '../../src/lib/server/db';
 
@@ -69,11 +70,20 @@ export function filesUnder(folder: string): string[] {
 
 /**
  * Resolves once `reached()` is true, asking again whenever something under the folder changes
- * (the SQLite WAL grows with every commit). No deadline: the test's timeout is the bound.
+ * (the SQLite WAL grows with every commit), or when the signal aborts. No deadline: the test's
+ * timeout is the bound.
  */
-export function whenChanged(folder: string, reached: () => Promise<boolean>): Promise<void> {
+export function whenChanged(
+	folder: string,
+	reached: () => Promise<boolean>,
+	signal?: AbortSignal
+): Promise<void> {
 	return new Promise((done, fail) => {
 		const watcher = watch(folder, { recursive: false });
+		signal?.addEventListener('abort', () => {
+			watcher.close();
+			done();
+		});
 		let asking = false;
 		let again = false;
 		const ask = async () => {
@@ -82,6 +92,7 @@ export function whenChanged(folder: string, reached: () => Promise<boolean>): Pr
 			try {
 				do {
 					again = false;
+					if (signal?.aborted) return;
 					if (await reached()) {
 						watcher.close();
 						return done();
@@ -163,4 +174,20 @@ export async function assertWhole(dataDir: string, acknowledged = new Set<string
 	});
 	expect(ledger.status, ledger.stdout + ledger.stderr).toBe(0);
 	expect(ledger.stdout).toMatch(/^ledger intact/);
+}
+
+/**
+ * Rows from the folder's database on a read-only connection of its own, safe while the server
+ * writes (WAL readers see the last commit).
+ */
+export function readRows<T = Record<string, unknown>>(dataDir: string, sql: string): Promise<T[]> {
+	return new Promise((done, fail) => {
+		const connection = new sqlite3.Database(databaseFile(dataDir), sqlite3.OPEN_READONLY, (e) => {
+			if (e) return fail(e);
+			connection.configure('busyTimeout', 10_000);
+			connection.all(sql, (error, rows) =>
+				connection.close(() => (error ? fail(error) : done(rows as T[])))
+			);
+		});
+	});
 }
