@@ -85,9 +85,12 @@ let stopping = false;
 export const isStopping = (): boolean => stopping;
 
 /** A last resort if some handle still holds the process: exit STOP_BOUND_MS after the signal. */
-function beginStop(): void {
+function beginStop(signal?: string): void {
 	if (stopping) return;
 	stopping = true;
+	// Said after adapter-node's own listener has closed the listening socket (same signal).
+	const said = `${signal}: stopping; no new connections, at most ${STOP_BOUND_MS} ms`;
+	if (signal) setImmediate(() => console.log(said));
 	setTimeout(() => {
 		console.error(`shutdown: something still held the process after ${STOP_BOUND_MS} ms`);
 		process.exit(1);
