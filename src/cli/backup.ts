@@ -58,12 +58,14 @@ interface NamedFile {
 
 /** The upload and certificate files the snapshot's rows name, with their recorded hashes. */
 async function filesNamedBy(snapshot: string): Promise<NamedFile[]> {
-	const copy = new sqlite3.Database(snapshot, sqlite3.OPEN_READONLY);
+	const copy = new sqlite3.Database(snapshot, sqlite3.OPEN_READWRITE);
 	const all = (sql: string) =>
 		promised<Record<string, string>[]>((done) =>
 			copy.all(sql, (error, rows) => done(error, rows as Record<string, string>[]))
 		);
 	try {
+		// A single file, without -wal and -shm beside it; the server turns WAL on again when it opens it.
+		await all('PRAGMA journal_mode = DELETE');
 		const datasets = await all('SELECT DISTINCT sha256 FROM datasets');
 		const certificates = await all(
 			'SELECT pdf_path, pdf_sha256, bundle_path, bundle_sha256 FROM certificates'
@@ -119,10 +121,11 @@ async function backup(out: string): Promise<BackupManifest> {
 	await mkdir(out, { recursive: true, mode: 0o700 });
 	if ((await readdir(out)).length) throw new Error(`${out} is not empty`);
 	await snapshotDatabase(databasePath, path.join(out, DATABASE_NAME));
+	const named = await filesNamedBy(path.join(out, DATABASE_NAME));
 	const files: BackupEntry[] = [
 		{ path: DATABASE_NAME, ...(await fileSha256(path.join(out, DATABASE_NAME))) }
 	];
-	for (const file of await filesNamedBy(path.join(out, DATABASE_NAME)))
+	for (const file of named)
 		if (!files.some((f) => f.path === file.relative))
 			files.push(await copyChecked(dataDir, out, file));
 	files.push(...(await copyKeys(dataDir, out)));

@@ -191,3 +191,19 @@ export function readRows<T = Record<string, unknown>>(dataDir: string, sql: stri
 		});
 	});
 }
+
+/** A POST to the API with a bearer token, on a connection of its own. */
+export function apiPost(
+	origin: string,
+	token: string,
+	route: string,
+	body: string,
+	type = 'application/json'
+): Promise<Answer> {
+	const headers = {
+		authorization: `Bearer ${token}`,
+		'content-type': type,
+		'content-length': Buffer.byteLength(body)
+	};
+	return send(`${origin}/api/v1${route}`, 'POST', headers, body);
+}
