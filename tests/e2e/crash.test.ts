@@ -47,7 +47,7 @@ async function killDuring(
 	requests: Promise<number>[]
 ): Promise<number[]> {
 	const answered = Promise.all(requests);
-	const watcher = watch(folder);
+	const watcher = watch(folder, { recursive: true });
 	let seen = 0;
 	await new Promise<void>((reached) => {
 		watcher.on('change', () => ++seen >= target && reached());
@@ -152,11 +152,11 @@ describe('killed while uploading', () => {
 				const requests = Array.from({ length: 2 * IN_FLIGHT }, (_, i) =>
 					upload(app!, targets[i % 2], i % 4 < 2)
 				);
-				// The data folder changes with every commit (the WAL) and with each new files/ entry.
+				// Each upload writes files/<xx>/<sha>.<random>.part, renames it, then commits.
 				const statuses = await killDuring(
 					app,
-					world.dataDir,
-					1 + Math.floor(next() * 40),
+					path.join(world.dataDir, 'files'),
+					1 + Math.floor(next() * 30),
 					requests
 				);
 				expect(statuses.filter((s) => ![0, 201].includes(s))).toEqual([]);
