@@ -145,6 +145,14 @@ async function arrivals(): Promise<{ id: string; status: string; copies: number 
 	);
 }
 
+const sentCount = async () =>
+	(
+		await readRows<{ n: number }>(
+			world.dataDir,
+			`SELECT COUNT(*) AS n FROM outbox_mails WHERE status = 'sent'`
+		)
+	)[0].n;
+
 const delivered = async () =>
 	(await readRows(world.dataDir, `SELECT id FROM outbox_mails WHERE status != 'sent'`)).length ===
 	0;
@@ -155,7 +163,10 @@ describe('killed while delivering mail', () => {
 		for (let round = 0; round < ROUNDS; round++) {
 			await queueOutbox(round);
 			app = await start();
-			await killAfter(app, 1 + Math.floor(next() * 60), delivered);
+			// Once a seeded number of this round's messages went out, a seeded few changes later.
+			const target = round * MAILS_PER_ROUND + Math.floor(next() * MAILS_PER_ROUND);
+			await whenChanged(world.dataDir, async () => (await sentCount()) >= target);
+			await killAfter(app, Math.floor(next() * 8), delivered);
 			app = null;
 			// A row is marked sent only after the catcher stored it.
 			const rows = await arrivals();
