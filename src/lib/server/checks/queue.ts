@@ -22,7 +22,7 @@ export interface CheckQueue {
 	idle(): Promise<void>;
 	/** Waits for everything queued, then stops. */
 	close(): Promise<void>;
-	/** Stops now; checks cut short stay queued or running in the database and resume later. */
+	/** Stops now; checks cut short are queued again in the database and resume at the next start. */
 	abort(): Promise<void>;
 	/** Reads an uploaded counts file against its claim, off the request thread. */
 	summarise(task: SummaryTask): Promise<SummaryOutcome>;

@@ -126,11 +126,20 @@ export class CheckRunner implements CheckQueue {
 		await Promise.all([this.pool.destroy(), this.readers.destroy()]);
 	}
 
+	/** Stops the threads now; checks cut short are queued again and resume at the next start. */
 	async abort(): Promise<void> {
 		this.stopping = true;
+		// Waiting checks stay `queued` in the database and resume at the next start.
 		this.waiting.clear();
+		const cut = [...this.active.keys()];
 		await Promise.all([this.pool.destroy(), this.readers.destroy()]);
 		await Promise.allSettled([...this.active.values()]);
+		// The rows then say what happened (a SIGKILL leaves them `running`; resume() handles that).
+		if (cut.length)
+			await this.database.models.Check.update(
+				{ status: 'queued', progress: 0, startedAt: null },
+				{ where: { id: cut, status: ACTIVE_CHECK_STATUSES } }
+			);
 	}
 
 	private async task(check: CheckAttributes, port: MessagePort): Promise<CheckTask> {
