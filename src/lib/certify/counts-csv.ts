@@ -69,12 +69,20 @@ function readHeader(fields: string[], line: number): Map<Column, number> {
 	return columns;
 }
 
+/** An outcome label in 0..d − 1 from field `index` (0-based) of a row. */
+function outcome(fields: string[], index: number, name: Column, line: number, d: number): number {
+	const value = wholeNumber(fields[index], name, line, index + 1);
+	if (value >= d) throw new InputError(`${name} ${value} is outside 0..${d - 1}`, line, index + 1);
+	return value;
+}
+
 export function parseCountsCsv(input: Uint8Array | string, dimension: number): CountsDataset {
 	const d = checkDimension(dimension);
 	const lines = decodeCountsText(input).split(/\r?\n/);
 	let columns: Map<Column, number> | null = null;
 	const tables = new Map<number, CountTable>();
-	const firstLine = new Map<string, number>();
+	// Per basis, the line that first filled each cell (0: not yet), for the duplicate message.
+	const firstLine = new Map<number, Int32Array>();
 	for (let i = 0; i < lines.length; i++) {
 		const lineNo = i + 1;
 		const raw = lines[i].trim();
@@ -89,25 +97,9 @@ export function parseCountsCsv(input: Uint8Array | string, dimension: number): C
 		}
 		const at = (name: Column) => columns!.get(name)!;
 		const basis = wholeNumber(fields[at('basis')], 'basis', lineNo, at('basis') + 1);
-		checkBasis(d, basis, 'basis', lineNo, at('basis') + 1);
-		const a = wholeNumber(fields[at('outcome_a')], 'outcome_a', lineNo, at('outcome_a') + 1);
-		const b = wholeNumber(fields[at('outcome_b')], 'outcome_b', lineNo, at('outcome_b') + 1);
-		for (const [value, name] of [
-			[a, 'outcome_a'],
-			[b, 'outcome_b']
-		] as const) {
-			if (value >= d)
-				throw new InputError(`${name} ${value} is outside 0..${d - 1}`, lineNo, at(name) + 1);
-		}
-		const key = `${basis},${a},${b}`;
-		const earlier = firstLine.get(key);
-		if (earlier !== undefined) {
-			throw new InputError(
-				`duplicate cell basis=${basis}, outcome_a=${a}, outcome_b=${b} (first on line ${earlier})`,
-				lineNo
-			);
-		}
-		firstLine.set(key, lineNo);
+		if (!tables.has(basis)) checkBasis(d, basis, 'basis', lineNo, at('basis') + 1);
+		const a = outcome(fields, at('outcome_a'), 'outcome_a', lineNo, d);
+		const b = outcome(fields, at('outcome_b'), 'outcome_b', lineNo, d);
 		let table = tables.get(basis);
 		if (!table) {
 			table = emptyTable(d, basis, {
@@ -115,8 +107,17 @@ export function parseCountsCsv(input: Uint8Array | string, dimension: number): C
 				durations: columns.has('duration_s')
 			});
 			tables.set(basis, table);
+			firstLine.set(basis, new Int32Array(d * d));
 		}
 		const cell = a * d + b;
+		const filledBy = firstLine.get(basis)!;
+		if (filledBy[cell] !== 0) {
+			throw new InputError(
+				`duplicate cell basis=${basis}, outcome_a=${a}, outcome_b=${b} (first on line ${filledBy[cell]})`,
+				lineNo
+			);
+		}
+		filledBy[cell] = lineNo;
 		table.present[cell] = 1;
 		table.counts[cell] = wholeNumber(fields[at('counts')], 'counts', lineNo, at('counts') + 1);
 		if (table.accidentals) {
