@@ -1,0 +1,87 @@
+// The command line's prebuilt bundles (build/cli/*.mjs): entries, esbuild options, and whether a
+// bundle is older than its sources. Shared by scripts/build-cli.mjs and the launcher scripts/cli.mjs.
+import { readFileSync, renameSync, mkdirSync, statSync, writeFileSync } from 'node:fs';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+
+export const root = fileURLToPath(new URL('..', import.meta.url));
+export const outdir = path.join(root, 'build/cli');
+const inputsFile = path.join(outdir, 'inputs.json');
+
+// Engine-only commands bundle their packages (fewer files to load); the server-side ones keep
+// theirs in node_modules (sqlite3 is native, sequelize loads its dialect at run time).
+const SELF_CONTAINED = ['certify', 'verify', 'blocks-worker', 'bench', 'coverage'];
+export const ENTRIES = {
+	certify: 'src/cli/certify.ts',
+	'blocks-worker': 'src/cli/blocks-worker.ts',
+	verify: 'src/cli/verify.ts',
+	'keys-rotate': 'src/cli/keys-rotate.ts',
+	'ledger-verify': 'src/cli/ledger-verify.ts',
+	bench: 'scripts/bench.ts',
+	coverage: 'scripts/coverage.ts'
+};
+
+function options(names) {
+	return {
+		entryPoints: Object.fromEntries(names.map((n) => [n, path.join(root, ENTRIES[n])])),
+		outdir,
+		outExtension: { '.js': '.mjs' },
+		bundle: true,
+		platform: 'node',
+		format: 'esm',
+		target: 'node20',
+		mainFields: ['module', 'main'],
+		minifyWhitespace: true,
+		minifySyntax: true,
+		metafile: true,
+		write: false,
+		logLevel: 'warning',
+		// Bundled CommonJS dependencies call require(); give the ES module one.
+		banner: {
+			js: "import { createRequire as __rankseal_createRequire } from 'node:module'; const require = __rankseal_createRequire(import.meta.url);"
+		}
+	};
+}
+
+/** Builds every bundle; each file is written beside its place and renamed (concurrent launches). */
+export async function buildCli() {
+	const { build } = await import('esbuild');
+	const selfContained = Object.keys(ENTRIES).filter((n) => SELF_CONTAINED.includes(n));
+	const server = Object.keys(ENTRIES).filter((n) => !SELF_CONTAINED.includes(n));
+	const results = [
+		await build(options(selfContained)),
+		await build({ ...options(server), packages: 'external' })
+	];
+	mkdirSync(outdir, { recursive: true });
+	const inputs = new Set(['scripts/cli-bundle.mjs', 'package-lock.json']);
+	for (const result of results) {
+		for (const file of result.outputFiles) {
+			const part = `${file.path}.${process.pid}.part`;
+			writeFileSync(part, file.contents);
+			renameSync(part, file.path);
+		}
+		for (const input of Object.keys(result.metafile.inputs))
+			if (!input.includes('node_modules/')) inputs.add(path.relative(root, path.resolve(input)));
+	}
+	const part = `${inputsFile}.${process.pid}.part`;
+	writeFileSync(part, JSON.stringify({ inputs: [...inputs].sort() }));
+	renameSync(part, inputsFile);
+}
+
+const mtime = (file) => statSync(file, { throwIfNoEntry: false })?.mtimeMs;
+
+/** True when the bundle exists and no source it was built from is newer. */
+export function isCurrent(name) {
+	const built = mtime(path.join(outdir, `${name}.mjs`));
+	if (built === undefined) return false;
+	let listed;
+	try {
+		listed = JSON.parse(readFileSync(inputsFile, 'utf8')).inputs;
+	} catch {
+		return false;
+	}
+	return listed.every((input) => {
+		const changed = mtime(path.join(root, input));
+		return changed !== undefined && changed <= built;
+	});
+}
