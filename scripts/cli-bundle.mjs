@@ -1,6 +1,6 @@
 // The command line's prebuilt bundles (build/cli/*.mjs): entries, esbuild options, and whether a
 // bundle is older than its sources. Shared by scripts/build-cli.mjs and the launcher scripts/cli.mjs.
-import { readFileSync, renameSync, mkdirSync, statSync, writeFileSync } from 'node:fs';
+import { readdirSync, readFileSync, renameSync, mkdirSync, statSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 
@@ -10,7 +10,7 @@ const inputsFile = path.join(outdir, 'inputs.json');
 
 // Engine-only commands bundle their packages (fewer files to load); the server-side ones keep
 // theirs in node_modules (sqlite3 is native, sequelize loads its dialect at run time).
-const SELF_CONTAINED = ['certify', 'verify', 'blocks-worker', 'bench', 'coverage'];
+const SELF_CONTAINED = ['certify', 'verify', 'blocks-worker', 'coverage'];
 export const ENTRIES = {
 	certify: 'src/cli/certify.ts',
 	'blocks-worker': 'src/cli/blocks-worker.ts',
@@ -19,6 +19,44 @@ export const ENTRIES = {
 	'ledger-verify': 'src/cli/ledger-verify.ts',
 	bench: 'scripts/bench.ts',
 	coverage: 'scripts/coverage.ts'
+};
+
+/** A Vite glob pattern such as '/templates/mail/*.{txt,html}' (one folder) as a RegExp on names. */
+function globRegExp(name) {
+	const escaped = name.replace(/[.+^$()|[\]\\]/g, '\\$&').replace(/\*/g, '[^/]*');
+	return new RegExp(
+		`^${escaped.replace(/\{([^}]*)\}/g, (_, list) => `(${list.split(',').join('|')})`)}$`
+	);
+}
+
+/**
+ * The server's `import.meta.glob('…', { query: '?raw', eager: true })` (a Vite feature) as an
+ * object of the files' texts, so that server code (issuing certificates) runs outside Vite.
+ */
+const globbed = new Set();
+const viteGlob = {
+	name: 'vite-raw-glob',
+	setup(build) {
+		build.onLoad({ filter: /src[\\/]lib[\\/]server[\\/].*\.ts$/ }, (args) => {
+			const source = readFileSync(args.path, 'utf8');
+			if (!source.includes('import.meta.glob(')) return undefined;
+			const contents = source.replace(
+				/import\.meta\.glob\(\s*'([^']+)'\s*,\s*\{[^}]*\}\s*\)/g,
+				(_, pattern) => {
+					const folder = path.posix.dirname(pattern);
+					const match = globRegExp(path.posix.basename(pattern));
+					const files = readdirSync(path.join(root, folder)).filter((f) => match.test(f));
+					files.forEach((f) => globbed.add(path.posix.join(folder.slice(1), f)));
+					const entries = files.map((f) => [
+						`${folder}/${f}`,
+						readFileSync(path.join(root, folder, f), 'utf8')
+					]);
+					return `(${JSON.stringify(Object.fromEntries(entries))})`;
+				}
+			);
+			return { contents, loader: 'ts' };
+		});
+	}
 };
 
 function options(names) {
@@ -36,6 +74,7 @@ function options(names) {
 		metafile: true,
 		write: false,
 		logLevel: 'warning',
+		plugins: [viteGlob],
 		// Bundled CommonJS dependencies call require(); give the ES module one.
 		banner: {
 			js: "import { createRequire as __rankseal_createRequire } from 'node:module'; const require = __rankseal_createRequire(import.meta.url);"
@@ -63,6 +102,7 @@ export async function buildCli() {
 		for (const input of Object.keys(result.metafile.inputs))
 			if (!input.includes('node_modules/')) inputs.add(path.relative(root, path.resolve(input)));
 	}
+	for (const file of globbed) inputs.add(file);
 	const part = `${inputsFile}.${process.pid}.part`;
 	writeFileSync(part, JSON.stringify({ inputs: [...inputs].sort() }));
 	renameSync(part, inputsFile);

@@ -4,8 +4,8 @@
  * - normal variates: Box–Muller, cosine branch only (two uniforms per normal, no cached pair);
  * - Gamma(a, 1) for whole a from 1 to 4 (engine 2.1.0): −ln(U₁⋯U_a), the Erlang variate as a sum of
  *   a exponentials (exact; Devroye, Non-Uniform Random Variate Generation (1986), §IX.3, from
- *   memory), a uniforms and one logarithm instead of Marsaglia–Tsang's three, a root, a cosine and
- *   two logarithms; the per-cell draws of sparse tables are mostly such shapes;
+ *   memory), a uniforms and one logarithm instead of Marsaglia–Tsang's three uniforms, a logarithm, a
+ *   root and a cosine; the per-cell draws of sparse tables are mostly such shapes;
  * - Gamma(a, 1) for other a ≥ 1: Marsaglia & Tsang, ACM Trans. Math. Softw. 26, 363 (2000), with
  *   their squeeze; every shape here is a whole number of counts, and Gamma(0) is the point mass at 0.
  * Hand-written because no installed package draws a Gamma variate from this generator.
