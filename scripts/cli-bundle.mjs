@@ -8,9 +8,16 @@ export const root = fileURLToPath(new URL('..', import.meta.url));
 export const outdir = path.join(root, 'build/cli');
 const inputsFile = path.join(outdir, 'inputs.json');
 
-// Engine-only commands bundle their packages (fewer files to load); the server-side ones keep
-// theirs in node_modules (sqlite3 is native, sequelize loads its dialect at run time).
-const SELF_CONTAINED = ['certify', 'verify', 'blocks-worker', 'coverage'];
+// Engine-only commands bundle their packages (fewer files to load) as CommonJS, which the
+// launcher compiles with a V8 code cache; the server-side ones keep their packages in
+// node_modules (sqlite3 is native, sequelize loads its dialect at run time) and stay ES modules.
+export const CACHED = ['certify', 'verify', 'blocks-worker'];
+const SELF_CONTAINED = [...CACHED, 'coverage'];
+
+/** The bundle of a command: .cjs for the cached ones, .mjs for the others. */
+export function bundleFile(name) {
+	return path.join(outdir, `${name}.${CACHED.includes(name) ? 'cjs' : 'mjs'}`);
+}
 export const ENTRIES = {
 	certify: 'src/cli/certify.ts',
 	'blocks-worker': 'src/cli/blocks-worker.ts',
@@ -82,13 +89,28 @@ function options(names) {
 	};
 }
 
+/** CommonJS output; import.meta.url (the worker's location) from the bundle's own file name. */
+function commonJs(esm) {
+	return {
+		...esm,
+		format: 'cjs',
+		outExtension: { '.js': '.cjs' },
+		define: { 'import.meta.url': '__rankseal_import_meta_url' },
+		banner: {
+			js: "var __rankseal_import_meta_url = require('url').pathToFileURL(__filename).href;"
+		}
+	};
+}
+
 /** Builds every bundle; each file is written beside its place and renamed (concurrent launches). */
 export async function buildCli() {
 	const { build } = await import('esbuild');
 	const selfContained = Object.keys(ENTRIES).filter((n) => SELF_CONTAINED.includes(n));
 	const server = Object.keys(ENTRIES).filter((n) => !SELF_CONTAINED.includes(n));
+	const cached = Object.keys(ENTRIES).filter((n) => CACHED.includes(n));
 	const results = [
-		await build(options(selfContained)),
+		await build(commonJs(options(cached))),
+		await build(options(selfContained.filter((n) => !CACHED.includes(n)))),
 		await build({ ...options(server), packages: 'external' })
 	];
 	mkdirSync(outdir, { recursive: true });
@@ -112,7 +134,7 @@ const mtime = (file) => statSync(file, { throwIfNoEntry: false })?.mtimeMs;
 
 /** True when the bundle exists and no source it was built from is newer. */
 export function isCurrent(name) {
-	const built = mtime(path.join(outdir, `${name}.mjs`));
+	const built = mtime(bundleFile(name));
 	if (built === undefined) return false;
 	let listed;
 	try {

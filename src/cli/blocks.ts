@@ -31,7 +31,7 @@ export function threadsFor(spec: DrawSpec, resamples: number, requested = 0): nu
 
 /** The bundled worker beside this bundle; absent when run from the sources (then one thread). */
 function workerFile(): string | null {
-	const file = fileURLToPath(new URL('./blocks-worker.mjs', import.meta.url));
+	const file = fileURLToPath(new URL('./blocks-worker.cjs', import.meta.url));
 	return existsSync(file) ? file : null;
 }
 
