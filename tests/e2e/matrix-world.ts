@@ -54,7 +54,7 @@ async function member(db: Database, groupId: string, userId: string, role: Group
 }
 
 /** A done check holding the engine's own result, as the check runner stores it. */
-async function doneCheck(db: Database, claimId: string, datasetId: string, userId: string) {
+export async function doneCheck(db: Database, claimId: string, datasetId: string, userId: string) {
 	const claim = (await db.models.Claim.findByPk(claimId))!.get({ plain: true });
 	const dataset = (await db.models.Dataset.findByPk(datasetId))!.get({ plain: true });
 	const settings = { resamples: 200, confidence: 0.99, seed: 31 };
