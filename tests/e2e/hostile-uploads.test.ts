@@ -58,11 +58,11 @@ function request(bytes: Uint8Array, way: string): RequestInit {
 	const headers: Record<string, string> = bearer();
 	if (way === 'multipart') {
 		const body = new FormData();
-		body.append('counts', new File([bytes], 'hostile.csv'));
+		body.append('counts', new File([Uint8Array.from(bytes)], 'hostile.csv'));
 		return { method: 'POST', headers, body };
 	}
 	if (way !== 'none') headers['content-type'] = way;
-	return { method: 'POST', headers, body: bytes };
+	return { method: 'POST', headers, body: Uint8Array.from(bytes) };
 }
 
 describe('hostile counts files over HTTP', () => {
@@ -96,7 +96,7 @@ describe('hostile counts files over HTTP', () => {
 		const cookie = `rankseal_session=${world.session}`;
 		for (const { kind, bytes } of fc.sample(hostileCounts, { numRuns: 20, seed: 31 })) {
 			const body = new FormData();
-			body.append('counts', new File([bytes], 'hostile.csv'));
+			body.append('counts', new File([Uint8Array.from(bytes)], 'hostile.csv'));
 			const response = await fetch(`${app.origin}/claims/${claimId}?/upload`, {
 				method: 'POST',
 				headers: { cookie, origin: app.origin, accept: 'text/html' },
