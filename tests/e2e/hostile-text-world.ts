@@ -20,7 +20,7 @@ import { createReviewLink } from '../../src/lib/server/services/review-links';
 import { shareClaim } from '../../src/lib/server/services/shares';
 import { createToken } from '../../src/lib/server/services/tokens';
 import { GOOD_CSV } from '../integration/hostile-counts';
-import { doneCheck } from './matrix-world';
+import { doneCheck } from './matrix-parts';
 
 /** What each field holds: a script, an attribute break-out and a javascript: link, tagged. */
 export const hostile = (field: string) =>
