@@ -1,6 +1,6 @@
 import type { Handle, ServerInit } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
-import { app } from '$lib/server/app';
+import { app, isStopping } from '$lib/server/app';
 import { formOriginCheck } from '$lib/server/api';
 import { ANONYMOUS } from '$lib/server/access/actor';
 import { reviewLink } from '$lib/server/access/review-handle';
@@ -53,12 +53,23 @@ const bearer: Handle = async ({ event, resolve }) => {
 	return resolve(event);
 };
 
+/** From SIGTERM/SIGINT on, a request that still reaches the draining server is turned away. */
+const draining: Handle = async ({ event, resolve }) => {
+	if (!isStopping()) return resolve(event);
+	const message = 'Rankseal is stopping for a moment; try again shortly.';
+	const headers = { 'retry-after': '10', connection: 'close' };
+	if (!event.url.pathname.startsWith('/api/'))
+		return new Response(message, { status: 503, headers });
+	return Response.json({ error: { code: 'unavailable', message } }, { status: 503, headers });
+};
+
 /** Start the database, mail, check runner (and demo) with the server, not on the first request. */
 export const init: ServerInit = async () => {
 	await app();
 };
 
 export const handle: Handle = sequence(
+	draining,
 	formOriginCheck,
 	rejectControlCharacters,
 	session,
