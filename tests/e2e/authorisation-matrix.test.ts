@@ -10,6 +10,9 @@
  * review link, and no cookie), tkOk / tkEx / tkRv (the author's API token: valid, expired,
  * revoked; sent as a bearer header on every route), admn (an admin in no group). Callers without a
  * review link use a well-formed unknown one on review routes.
+ *
+ * A new route: add its line below where it belongs in the order (reads before changes, changes
+ * before removals); if it has a new [parameter] or needs a body, add it in matrix-cells.ts.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { CALLERS, cellRequest, outcome, type Caller } from './matrix-cells';
