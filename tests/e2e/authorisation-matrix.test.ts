@@ -109,6 +109,9 @@ POST /invite/[token]?/accept                    L    400  400  400  400  400  L 
 POST /verify/[token]?/confirm                   L    303  303  303  303  303  L    L    L    L    L    L    303
 POST /reset/[token]?/reset                      L    L    L    L    L    L    L    L    L    L    L    L    L
 # things that take away (each column on its own kit)
+# cancelling a finished check: allowed callers reach the state rule (409), others are refused
+POST /claims/[id]/checks/[checkId]?/cancel      L    404  409  409  404  403  L    L    L    L    L    L    404
+DELETE /api/v1/checks/[id]                      401  404  409  409  404  403  401  401  401  409  401  401  404
 POST /claims/[id]?/removeDataset                L    404  303  303  404  403  L    L    L    L    L    L    404
 DELETE /api/v1/claims/[id]/datasets/[datasetId] 401  404  204  204  404  403  401  401  401  204  401  401  404
 POST /editor?/revokeLink                        L    404  403  403  404  200  L    L    L    L    L    L    404

@@ -35,6 +35,9 @@ beforeAll(async () => {
 	workerFolder = mkdtempSync(path.join(tmpdir(), 'rankseal-worker-test-'));
 	process.env.RANKSEAL_DATA_DIR = world.folder;
 	process.env.RANKSEAL_CHECK_WORKERS = '2';
+	// This test is about SQLite writers, not fair use: one person starts all 54 checks here.
+	process.env.RANKSEAL_CHECKS_PER_USER = '100';
+	process.env.RANKSEAL_CHECKS_PER_GROUP = '100';
 	process.env.RANKSEAL_CHECK_WORKER = await bundleCheckWorker(
 		path.join(workerFolder, 'check-worker.mjs')
 	);
@@ -53,6 +56,8 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
+	delete process.env.RANKSEAL_CHECKS_PER_USER;
+	delete process.env.RANKSEAL_CHECKS_PER_GROUP;
 	await stopCheckRunner(world.database);
 	await world.close();
 	rmSync(workerFolder, { recursive: true, force: true });

@@ -23,6 +23,7 @@ describe('database', () => {
 			'0005-certificates',
 			'0006-sharing-review',
 			'0007-outbox-archive',
+			'0008-check-fair-use',
 			'0009-mail-cap'
 		]);
 	});

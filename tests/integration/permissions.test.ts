@@ -100,6 +100,7 @@ describe('claims', () => {
 		'edit-claim',
 		'withdraw-claim',
 		'start-check',
+		'cancel-check',
 		'issue-certificate',
 		'file-report',
 		'share',
@@ -108,18 +109,18 @@ describe('claims', () => {
 	// Editors see a claim only once it is shared with them (an open share, issue 9).
 	// The lead wrote this claim: the author, a member who did not, may not edit it.
 	const table: Record<string, Decision[]> = {
-		anonymous: [H, H, H, H, H, H, H, H, H, H, H],
-		lead: [A, A, A, A, A, A, A, A, D, A, D],
-		author: [A, A, A, A, D, D, A, A, D, A, D],
-		leadToken: [A, A, A, A, A, A, A, A, D, A, D],
-		authorToken: [A, A, A, A, D, D, A, A, D, A, D],
-		outsider: [H, H, H, H, H, H, H, H, H, H, H],
-		editor: [H, H, H, H, H, H, H, H, H, H, H],
-		sharedEditor: [A, A, D, D, D, D, D, D, D, D, A],
-		admin: [H, H, H, H, H, H, H, H, H, H, H],
-		loner: [H, H, H, H, H, H, H, H, H, H, H],
-		referee: [A, A, D, D, D, D, A, D, A, D, D],
-		otherReferee: [H, H, H, H, H, H, H, H, H, H, H]
+		anonymous: [H, H, H, H, H, H, H, H, H, H, H, H],
+		lead: [A, A, A, A, A, A, A, A, A, D, A, D],
+		author: [A, A, A, A, D, D, A, A, A, D, A, D],
+		leadToken: [A, A, A, A, A, A, A, A, A, D, A, D],
+		authorToken: [A, A, A, A, D, D, A, A, A, D, A, D],
+		outsider: [H, H, H, H, H, H, H, H, H, H, H, H],
+		editor: [H, H, H, H, H, H, H, H, H, H, H, H],
+		sharedEditor: [A, A, D, D, D, D, D, D, D, D, D, A],
+		admin: [H, H, H, H, H, H, H, H, H, H, H, H],
+		loner: [H, H, H, H, H, H, H, H, H, H, H, H],
+		referee: [A, A, D, D, D, D, A, A, D, A, D, D],
+		otherReferee: [H, H, H, H, H, H, H, H, H, H, H, H]
 	};
 	for (const [who, expected] of Object.entries(table)) {
 		it(`${who}: ${expected.join(' ')}`, async () => {

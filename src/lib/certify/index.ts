@@ -26,7 +26,15 @@ export {
 	type CertifyOptions,
 	type BoundRung
 } from './certify';
-export { BROWSER_RESAMPLES_MAX, CONFIDENCE, RESAMPLES } from './limits';
+export {
+	BROWSER_RESAMPLES_MAX,
+	CELL_RESAMPLES_BUDGET,
+	CONFIDENCE,
+	RESAMPLES,
+	cellsRead,
+	resamplesCeiling,
+	resamplesProblem
+} from './limits';
 export {
 	checkDeclaredFourier,
 	InputError,

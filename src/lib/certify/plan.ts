@@ -17,7 +17,7 @@ import {
 	type CountsDataset,
 	type CountTable
 } from './counts';
-import { CONFIDENCE, RESAMPLES } from './limits';
+import { CONFIDENCE, RESAMPLES, resamplesProblem } from './limits';
 import { checkQuantumMarginals, type EntropicSum } from './physical';
 import { checkSeed } from './poisson';
 import { boundDrawSpec, type BoundInputs } from './statistic-bound';
@@ -111,6 +111,9 @@ export function planCertification(
 	} catch (error) {
 		throw new InputError(`bases: ${(error as Error).message}`);
 	}
+	// The work grows with cells × resamples: refuse before any draw (limits.ts).
+	const tooMany = resamplesProblem(resamples, d, bases.length);
+	if (tooMany) throw new InputError(tooMany);
 	requireCompleteTables(dataset, bases, method);
 	const tables = bases.map((t) => dataset.tables.find((x) => x.basis === t)!);
 	const subtract = !!options.subtractAccidentals && tables.some((t) => t.accidentals !== null);

@@ -5,12 +5,14 @@
 import { z } from 'zod';
 import {
 	availableBases,
+	CELL_RESAMPLES_BUDGET,
 	CONFIDENCE,
 	DEFAULT_FOURIER,
 	FOURIER_CONVENTIONS,
 	fourierProblem,
 	METHOD_IDS,
 	RESAMPLES,
+	resamplesCeiling,
 	witnessFamilies,
 	type MethodId
 } from '$lib/certify';
@@ -215,3 +217,16 @@ export const checkRequestSchema = z.object({
 });
 
 export type CheckRequest = z.output<typeof checkRequestSchema>;
+
+/** The check request for a claim of this size: resamples also within the cells × resamples budget. */
+export function checkRequestSchemaFor(claim: { dimension: number; bases: number[] }) {
+	return checkRequestSchema.superRefine((request, ctx) => {
+		const ceiling = resamplesCeiling(claim.dimension, claim.bases.length);
+		if (request.resamples === undefined || request.resamples <= ceiling) return;
+		ctx.addIssue({
+			code: 'custom',
+			path: ['resamples'],
+			message: `Resamples must be at most ${ceiling.toLocaleString('en')} for d = ${claim.dimension} on ${claim.bases.length} bases (cells × resamples ≤ ${CELL_RESAMPLES_BUDGET.toLocaleString('en')}).`
+		});
+	});
+}

@@ -15,6 +15,20 @@ export interface ServerConfig {
 	/** Seed the demo scenario at start-up. */
 	demo: boolean;
 	checkWorkers: number;
+	/** Queued + running checks one person (or token owner) may have at once. */
+	checksPerUser: number;
+	/** Queued + running checks of one group's members at once (review re-runs count apart). */
+	checksPerGroup: number;
+	/** Seconds a refused check start suggests waiting (Retry-After). */
+	checkRetryAfterSeconds: number;
+	/** Bytes of counts files a group may store. */
+	groupQuotaBytes: number;
+}
+
+/** A positive whole number from the environment, else the default. */
+function positive(value: string | undefined, fallback: number): number {
+	const parsed = Number(value);
+	return value !== undefined && Number.isInteger(parsed) && parsed > 0 ? parsed : fallback;
 }
 
 export function config(): ServerConfig {
@@ -29,6 +43,10 @@ export function config(): ServerConfig {
 		mailFrom: env.MAIL_FROM ?? 'Rankseal <no-reply@rankseal.invalid>',
 		mailCatcherPort: Number(env.MAIL_CATCHER_PORT ?? '2525'),
 		demo: env.RANKSEAL_DEMO === '1',
-		checkWorkers: Math.max(1, Number(env.RANKSEAL_CHECK_WORKERS ?? '2'))
+		checkWorkers: Math.max(1, Number(env.RANKSEAL_CHECK_WORKERS ?? '2')),
+		checksPerUser: positive(env.RANKSEAL_CHECKS_PER_USER, 4),
+		checksPerGroup: positive(env.RANKSEAL_CHECKS_PER_GROUP, 8),
+		checkRetryAfterSeconds: positive(env.RANKSEAL_CHECK_RETRY_AFTER_S, 30),
+		groupQuotaBytes: positive(env.RANKSEAL_GROUP_QUOTA_BYTES, 2 ** 30)
 	};
 }

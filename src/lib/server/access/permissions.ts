@@ -20,6 +20,7 @@ export type ClaimAction =
 	| 'edit-claim'
 	| 'withdraw-claim'
 	| 'start-check'
+	| 'cancel-check'
 	| 'issue-certificate'
 	| 'file-report'
 	| 'share'
@@ -45,12 +46,13 @@ const CLAIM_RULES = {
 		'edit-claim',
 		'withdraw-claim',
 		'start-check',
+		'cancel-check',
 		'issue-certificate',
 		'share'
 	],
 	editor: ['read', 'read-datasets', 'review'],
 	// The counts are in the evidence bundle the referee downloads anyway.
-	referee: ['read', 'read-datasets', 'start-check', 'file-report']
+	referee: ['read', 'read-datasets', 'start-check', 'cancel-check', 'file-report']
 } satisfies Record<string, ClaimAction[]>;
 
 const CLAIM_DENIALS: Record<ClaimAction, string> = {
@@ -61,6 +63,7 @@ const CLAIM_DENIALS: Record<ClaimAction, string> = {
 	'edit-claim': 'Only the claim’s author or a group lead may edit it.',
 	'withdraw-claim': 'Only a lead of the group or the claim’s author may withdraw it.',
 	'start-check': 'Only members of the claim’s group start checks.',
+	'cancel-check': 'Only those who may start a check on this claim cancel one.',
 	'issue-certificate': 'Only members of the claim’s group issue certificates.',
 	'file-report': 'Only the referee holding a review link files a report.',
 	share: 'Only members of the claim’s group share it or read its shares.',
@@ -156,6 +159,24 @@ export async function requireClaim(
 	if (decision === 'hidden') throw new NotFoundError('No such claim.');
 	if (decision === 'denied') throw new ForbiddenError(CLAIM_DENIALS[action]);
 	return claim!;
+}
+
+/**
+ * A check is cancelled by whoever may start one on its claim, within their own bucket: members
+ * cancel the group's checks, a referee only the re-runs of their own link.
+ */
+export async function requireCheckCancel(
+	database: Database,
+	actor: Actor,
+	check: { claimId: string; reviewLinkId?: string | null }
+): Promise<ClaimAttributes> {
+	const claim = await requireClaim(database, actor, check.claimId, 'cancel-check');
+	const link = check.reviewLinkId ?? null;
+	// A referee sees no other check of the claim; members see review re-runs but leave them be.
+	if (actor.kind === 'referee' && link !== actor.linkId) throw new NotFoundError('No such check.');
+	if (actor.kind !== 'referee' && link !== null)
+		throw new ForbiddenError('A referee’s re-run is cancelled only through its own review link.');
+	return claim;
 }
 
 /** A certificate is withdrawn by its group's lead or by whoever issued it, signed in in person. */

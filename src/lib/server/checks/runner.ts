@@ -1,36 +1,43 @@
 /**
- * Runs checks off the request thread: a piscina pool of worker threads executes the engine,
- * while this side moves the Check row through queued → running → done | failed, writes
- * progress about every 2 %, and marks the claim checked when a check is done.
+ * The embedded CheckQueue: the fair scheduler hands checks to a piscina pool of worker threads
+ * only when a thread is free, while this side moves the Check row through queued → running →
+ * done | failed (or cancelled, by checks service), writes progress about every 2 %, and marks
+ * the claim checked when a check is done.
  */
-import { MessageChannel } from 'node:worker_threads';
+import { MessageChannel, type MessagePort } from 'node:worker_threads';
 import { pathToFileURL } from 'node:url';
 import { Piscina } from 'piscina';
 import type { CertificationResult } from '$lib/certify';
 import { config } from '../config';
 import type { Database } from '../db';
-import { writeTransaction } from '../db/transactions';
-import type { CheckAttributes } from '../db/models/Check';
-import { audit } from '../services/audit';
+import { ACTIVE_CHECK_STATUSES, type CheckAttributes } from '../db/models/Check';
 import { datasetFilePath } from '../services/datasets';
+import { FairScheduler } from './fair-scheduler';
 import { checkWorkerFile } from './locate';
+import { recordOutcome } from './outcome';
+import { CheckCancelled, checkBucket, type CheckQueue, type QueuedCheck } from './queue';
 import type { SummaryOutcome, SummaryTask } from './summary';
 import type { CheckMessage, CheckTask } from './task';
 
+export type { CheckQueue, QueuedCheck } from './queue';
+
 const PROGRESS_STEP = 0.02;
 
-export class CheckRunner {
+export class CheckRunner implements CheckQueue {
 	private readonly pool: Piscina;
 	/** Threads for reading uploads, apart from the checks' so that an upload never queues behind one. */
 	private readonly readers: Piscina;
+	private readonly waiting = new FairScheduler();
 	private readonly active = new Map<string, Promise<void>>();
 	private readonly aborts = new Map<string, AbortController>();
+	/** Ids in the order they were handed to a thread (tests read the fairness from it). */
+	readonly started: string[] = [];
 	private stopping = false;
 
 	constructor(
 		private readonly database: Database,
 		workerFile: string,
-		threads: number
+		private readonly threads: number
 	) {
 		const options = {
 			filename: pathToFileURL(workerFile).href,
@@ -47,38 +54,69 @@ export class CheckRunner {
 		});
 	}
 
-	/** Queues the check unless it is queued or running here already. */
-	enqueue(checkId: string): void {
-		if (this.active.has(checkId)) return;
-		const run = this.run(checkId)
-			.catch((error) => console.error(`check ${checkId}:`, error))
-			.finally(() => this.active.delete(checkId));
-		this.active.set(checkId, run);
+	enqueue({ id, bucket }: QueuedCheck): void {
+		if (this.active.has(id) || this.stopping) return;
+		this.waiting.push(bucket, id);
+		this.dispatch();
 	}
 
-	/** Re-queues checks that a previous process left queued or running. */
+	/** Starts waiting checks while a thread is free: the pool itself never holds a queue. */
+	private dispatch(): void {
+		while (!this.stopping && this.active.size < this.threads) {
+			const id = this.waiting.next();
+			if (id === undefined) return;
+			this.started.push(id);
+			const abort = new AbortController();
+			this.aborts.set(id, abort);
+			const run = this.run(id, abort)
+				.catch((error) => console.error(`check ${id}:`, error))
+				.finally(() => {
+					this.aborts.delete(id);
+					this.active.delete(id);
+					this.dispatch();
+				});
+			this.active.set(id, run);
+		}
+	}
+
+	cancel(checkId: string): boolean {
+		if (this.waiting.remove(checkId)) return true;
+		const abort = this.aborts.get(checkId);
+		abort?.abort(new CheckCancelled());
+		return abort !== undefined;
+	}
+
 	async resume(): Promise<string[]> {
-		const { Check } = this.database.models;
+		const { Check, Claim } = this.database.models;
 		const rows = await Check.findAll({
-			where: { status: ['queued', 'running'] },
+			where: { status: ACTIVE_CHECK_STATUSES },
 			order: [['createdAt', 'ASC']]
 		});
-		const ids = rows.map((r) => r.get('id') as string).filter((id) => !this.active.has(id));
-		if (ids.length)
-			await Check.update(
-				{ status: 'queued', progress: 0, startedAt: null },
-				{ where: { id: ids } }
-			);
-		ids.forEach((id) => this.enqueue(id));
+		const checks = rows
+			.map((r) => r.get({ plain: true }))
+			.filter((c) => !this.active.has(c.id) && !this.waiting.has(c.id));
+		if (!checks.length) return [];
+		const ids = checks.map((c) => c.id);
+		await Check.update({ status: 'queued', progress: 0, startedAt: null }, { where: { id: ids } });
+		const claims = await Claim.findAll({
+			where: { id: [...new Set(checks.map((c) => c.claimId))] },
+			attributes: ['id', 'groupId']
+		});
+		const groupOf = new Map(claims.map((c) => [c.get('id') as string, c.get('groupId') as string]));
+		for (const c of checks)
+			this.enqueue({ id: c.id, bucket: checkBucket(groupOf.get(c.claimId)!, c.reviewLinkId) });
 		return ids;
 	}
 
-	/** Reads a counts file against its claim on a worker thread, off the request thread. */
 	summarise(task: SummaryTask): Promise<SummaryOutcome> {
 		return this.readers.run(task, { name: 'summariseCounts' }) as Promise<SummaryOutcome>;
 	}
 
-	/** Resolves when no check is queued or running here (tests, shutdown). */
+	/** Resolves once this check's run has ended here and the next waiting one was handed on. */
+	async settled(checkId: string): Promise<void> {
+		await this.active.get(checkId);
+	}
+
 	async idle(): Promise<void> {
 		while (this.active.size) await Promise.allSettled([...this.active.values()]);
 	}
@@ -91,6 +129,8 @@ export class CheckRunner {
 	/** Stops the threads now; checks cut short are queued again and resume at the next start. */
 	async abort(): Promise<void> {
 		this.stopping = true;
+		// Waiting checks stay `queued` in the database and resume at the next start.
+		this.waiting.clear();
 		const cut = [...this.active.keys()];
 		await Promise.all([this.pool.destroy(), this.readers.destroy()]);
 		await Promise.allSettled([...this.active.values()]);
@@ -98,34 +138,15 @@ export class CheckRunner {
 		if (cut.length)
 			await this.database.models.Check.update(
 				{ status: 'queued', progress: 0, startedAt: null },
-				{ where: { id: cut, status: ['queued', 'running'] } }
+				{ where: { id: cut, status: ACTIVE_CHECK_STATUSES } }
 			);
 	}
 
-	private async run(checkId: string): Promise<void> {
-		const { Check, Claim, Dataset } = this.database.models;
-		const check = (await Check.findByPk(checkId))?.get({ plain: true });
-		if (!check || check.status !== 'queued' || this.stopping) return;
+	private async task(check: CheckAttributes, port: MessagePort): Promise<CheckTask> {
+		const { Claim, Dataset } = this.database.models;
 		const dataset = (await Dataset.findByPk(check.datasetId))!.get({ plain: true });
 		const claim = (await Claim.findByPk(check.claimId))!.get({ plain: true });
-		const channel = new MessageChannel();
-		let startedAt: Date | null = null;
-		let written = 0;
-		let writes: Promise<unknown> = Promise.resolve();
-		const write = (values: Partial<CheckAttributes>) => {
-			const where = { id: checkId, status: ['queued', 'running'] };
-			writes = writes.then(() => Check.update(values, { where })).catch((e) => console.error(e));
-		};
-		channel.port1.on('message', (message: CheckMessage) => {
-			if (message.type === 'started') {
-				startedAt = new Date();
-				write({ status: 'running', startedAt, progress: 0 });
-			} else if (message.fraction - written >= PROGRESS_STEP && message.fraction < 1) {
-				written = message.fraction;
-				write({ progress: message.fraction });
-			}
-		});
-		const task: CheckTask = {
+		return {
 			datasetPath: datasetFilePath(dataset.sha256),
 			sha256: dataset.sha256,
 			dimension: claim.dimension,
@@ -137,89 +158,64 @@ export class CheckRunner {
 			seed: Number(check.seed),
 			subtractAccidentals: !!check.subtractAccidentals,
 			claim: claim.claimedSchmidtNumber,
-			port: channel.port2
+			port
 		};
+	}
+
+	private async run(checkId: string, abort: AbortController): Promise<void> {
+		const { Check } = this.database.models;
+		const check = (await Check.findByPk(checkId))?.get({ plain: true });
+		if (!check || check.status !== 'queued' || this.stopping) return;
+		const channel = new MessageChannel();
+		let startedAt: Date | null = null;
+		let written = 0;
+		let writes: Promise<unknown> = Promise.resolve();
+		const write = (values: Partial<CheckAttributes>) => {
+			const where = { id: checkId, status: ACTIVE_CHECK_STATUSES };
+			writes = writes.then(() => Check.update(values, { where })).catch((e) => console.error(e));
+		};
+		channel.port1.on('message', (message: CheckMessage) => {
+			if (message.type === 'started') {
+				startedAt = new Date();
+				write({ status: 'running', startedAt, progress: 0 });
+			} else if (message.fraction - written >= PROGRESS_STEP && message.fraction < 1) {
+				written = message.fraction;
+				write({ progress: message.fraction });
+			}
+		});
 		let result: CertificationResult | null = null;
 		let failure: string | null = null;
-		const abort = new AbortController();
-		this.aborts.set(checkId, abort);
 		try {
+			const task = await this.task(check, channel.port2);
 			const options = { transferList: [channel.port2], signal: abort.signal };
 			result = (await this.pool.run(task, options)) as CertificationResult;
-			if (result.inputSha256 !== dataset.sha256)
+			if (result.inputSha256 !== task.sha256)
 				throw new Error('the result does not name the dataset’s SHA-256');
 		} catch (error) {
 			const reason = abort.signal.aborted
 				? `the check worker stopped: ${(abort.signal.reason as Error)?.message}`
 				: null;
 			failure = reason ?? ((error as Error).message || 'the check failed');
-		} finally {
-			this.aborts.delete(checkId);
 		}
 		channel.port1.close();
 		await writes;
-		if (this.stopping) return;
-		await this.finish(check, { startedAt: startedAt ?? new Date(), result, failure });
-	}
-
-	private async finish(
-		check: CheckAttributes,
-		outcome: { startedAt: Date; result: CertificationResult | null; failure: string | null }
-	): Promise<void> {
-		const { Check, Claim } = this.database.models;
-		const { result, failure } = outcome;
-		const done = result !== null && failure === null;
-		await writeTransaction(this.database, async (transaction) => {
-			await Check.update(
-				done
-					? {
-							status: 'done',
-							progress: 1,
-							result,
-							error: null,
-							startedAt: outcome.startedAt,
-							finishedAt: new Date()
-						}
-					: {
-							status: 'failed',
-							error: failure,
-							startedAt: outcome.startedAt,
-							finishedAt: new Date()
-						},
-				{ where: { id: check.id }, transaction }
-			);
-			const claim = await Claim.findByPk(check.claimId, { transaction });
-			if (done && claim?.get('state') === 'draft')
-				await claim.update({ state: 'checked' }, { transaction });
-			const details = done
-				? {
-						certifiedSchmidtNumber: result.certifiedSchmidtNumber,
-						verdict: result.claim?.verdict ?? null
-					}
-				: { error: failure };
-			await audit(
-				this.database,
-				{
-					actorId: check.createdBy,
-					groupId: (claim?.get('groupId') as string) ?? null,
-					action: done ? 'check.done' : 'check.failed',
-					subjectType: 'check',
-					subjectId: check.id,
-					details
-				},
-				transaction
-			);
+		// A cancelled check's row was written by whoever cancelled it.
+		if (this.stopping || abort.signal.reason instanceof CheckCancelled) return;
+		await recordOutcome(this.database, check, {
+			startedAt: startedAt ?? new Date(),
+			result,
+			failure
 		});
 	}
 }
 
-const runners = new WeakMap<Database, Promise<CheckRunner>>();
+const runners = new WeakMap<Database, Promise<CheckQueue>>();
 
 /**
  * The runner of this database, started on first use; starting it re-queues the checks a
  * previous process left behind. Call it once at start-up so that those resume promptly.
  */
-export function startCheckRunner(database: Database): Promise<CheckRunner> {
+export function startCheckRunner(database: Database): Promise<CheckQueue> {
 	let runner = runners.get(database);
 	if (!runner) {
 		runner = (async () => {

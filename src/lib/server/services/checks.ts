@@ -3,16 +3,18 @@
  * it for the worker threads (checks/runner.ts); reading one shows its progress and result.
  */
 import { col } from 'sequelize';
-import { checkRequestSchema, type CheckRequest } from '$lib/claims/schema';
+import { checkRequestSchemaFor, type CheckRequest } from '$lib/claims/schema';
 import { DEFAULTS, type CertificationResult } from '$lib/certify';
 import { accountIdOf, type Actor } from '../access/actor';
-import { requireClaim } from '../access/permissions';
+import { requireCheckCancel, requireClaim } from '../access/permissions';
+import { checkBucket } from '../checks/queue';
 import { hasCheckRunner, startCheckRunner } from '../checks/runner';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
-import type { CheckAttributes, CheckStatus } from '../db/models/Check';
+import { ACTIVE_CHECK_STATUSES, type CheckAttributes, type CheckStatus } from '../db/models/Check';
 import type { DatasetAttributes } from '../db/models/Dataset';
 import { audit } from './audit';
+import { refuseOverCheckLimits } from './check-limits';
 import { ConflictError, FieldError, NotFoundError } from './errors';
 import { newId } from './ids';
 
@@ -35,12 +37,15 @@ export interface CheckView {
 	finishedAt: string | null;
 	error: string | null;
 	result: CertificationResult | null;
+	cancelledAt: string | null;
+	/** Who cancelled it: an account's name, or "the referee" for a review link. */
+	cancelledBy: string | null;
 }
 
 const isoOrNull = (value: Date | string | null | undefined) =>
 	value ? new Date(value).toISOString() : null;
 
-const view = (c: CheckAttributes): CheckView => ({
+const view = (c: CheckAttributes, cancelledBy: string | null = null): CheckView => ({
 	id: c.id,
 	claimId: c.claimId,
 	datasetId: c.datasetId,
@@ -54,8 +59,24 @@ const view = (c: CheckAttributes): CheckView => ({
 	startedAt: isoOrNull(c.startedAt),
 	finishedAt: isoOrNull(c.finishedAt),
 	error: c.error,
-	result: c.result
+	result: c.result,
+	cancelledAt: isoOrNull(c.cancelledAt),
+	cancelledBy
 });
+
+/** The rows as views, with the name of whoever cancelled each (one query for all). */
+async function views(database: Database, rows: CheckAttributes[]): Promise<CheckView[]> {
+	const ids = [...new Set(rows.map((c) => c.cancelledBy).filter((id): id is string => !!id))];
+	const users = ids.length ? await database.models.User.findAll({ where: { id: ids } }) : [];
+	const names = new Map(users.map((u) => [u.get('id') as string, u.get('name') as string]));
+	const by = (c: CheckAttributes) =>
+		!c.cancelledAt
+			? null
+			: c.cancelledBy
+				? (names.get(c.cancelledBy) ?? 'a removed account')
+				: 'the referee';
+	return rows.map((c) => view(c, by(c)));
+}
 
 /** Subtraction needs the file's own accidental estimates; the setting is at fault, not the file. */
 function requireAccidentals(dataset: DatasetAttributes, subtract: boolean): void {
@@ -78,7 +99,7 @@ export async function startCheck(
 	request: CheckRequest = {}
 ): Promise<CheckView> {
 	const claim = await requireClaim(database, actor, claimId, 'start-check');
-	const options = checkRequestSchema.parse(request);
+	const options = checkRequestSchemaFor(claim).parse(request);
 	const userId = accountIdOf(actor);
 	const { Check, Dataset } = database.models;
 	const dataset = options.datasetId
@@ -105,13 +126,16 @@ export async function startCheck(
 		seed: options.seed ?? DEFAULTS.seed,
 		subtractAccidentals
 	};
+	const reviewLinkId = actor.kind === 'referee' ? actor.linkId : null;
 	await writeTransaction(database, async (transaction) => {
+		await refuseOverCheckLimits(database, actor, claim.groupId, transaction);
 		await Check.create(
 			{
 				id,
 				claimId,
 				datasetId: dataset.get('id') as string,
 				createdBy: userId,
+				reviewLinkId,
 				status: 'queued',
 				progress: 0,
 				...settings
@@ -131,7 +155,10 @@ export async function startCheck(
 			transaction
 		);
 	});
-	(await startCheckRunner(database)).enqueue(id);
+	(await startCheckRunner(database)).enqueue({
+		id,
+		bucket: checkBucket(claim.groupId, reviewLinkId)
+	});
 	return view((await Check.findByPk(id))!.get({ plain: true }));
 }
 
@@ -151,7 +178,7 @@ export async function getCheck(
 	if ((check.status === 'queued' || check.status === 'running') && !hasCheckRunner(database)) {
 		void startCheckRunner(database).catch((error) => console.error('check runner:', error));
 	}
-	return view(check);
+	return (await views(database, [check]))[0];
 }
 
 /** The claim's checks, newest first; NotFoundError when the claim is not visible. */
@@ -168,5 +195,66 @@ export async function listChecks(
 			[col('rowid'), 'DESC']
 		]
 	});
-	return rows.map((r) => view(r.get({ plain: true })));
+	return views(
+		database,
+		rows.map((r) => r.get({ plain: true }))
+	);
+}
+
+/** Whether the actor may cancel this check (the page shows the button only then). */
+export async function mayCancelCheck(
+	database: Database,
+	actor: Actor,
+	checkId: string
+): Promise<boolean> {
+	const check = (await database.models.Check.findByPk(checkId))?.get({ plain: true });
+	if (!check) return false;
+	return requireCheckCancel(database, actor, check).then(
+		() => true,
+		() => false
+	);
+}
+
+/**
+ * Cancels a queued or running check: the row becomes `cancelled` (who, when) first, then the
+ * queue drops it or aborts its worker. ConflictError when it has already ended or was cancelled.
+ */
+export async function cancelCheck(
+	database: Database,
+	actor: Actor,
+	checkId: string
+): Promise<CheckView> {
+	const { Check } = database.models;
+	const row = await Check.findByPk(checkId);
+	if (!row) throw new NotFoundError('No such check.');
+	const check = row.get({ plain: true });
+	const claim = await requireCheckCancel(database, actor, check).catch((problem) => {
+		throw problem instanceof NotFoundError ? new NotFoundError('No such check.') : problem;
+	});
+	const cancelledBy = accountIdOf(actor);
+	await writeTransaction(database, async (transaction) => {
+		const now = new Date();
+		const [changed] = await Check.update(
+			{ status: 'cancelled', cancelledAt: now, cancelledBy, finishedAt: now },
+			{ where: { id: checkId, status: ACTIVE_CHECK_STATUSES }, transaction }
+		);
+		if (!changed) {
+			const status = (await Check.findByPk(checkId, { transaction }))!.get('status');
+			throw new ConflictError(
+				`This check is ${status} already; only a queued or running check can be cancelled.`
+			);
+		}
+		const details = {
+			was: check.status,
+			reviewLinkId: actor.kind === 'referee' ? actor.linkId : undefined
+		};
+		const event = { actorId: cancelledBy, groupId: claim.groupId, action: 'check.cancelled' };
+		await audit(
+			database,
+			{ ...event, subjectType: 'check', subjectId: checkId, details },
+			transaction
+		);
+	});
+	if (hasCheckRunner(database)) (await startCheckRunner(database)).cancel(checkId);
+	return (await views(database, [(await Check.findByPk(checkId))!.get({ plain: true })]))[0];
 }

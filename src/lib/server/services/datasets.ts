@@ -17,6 +17,7 @@ import { writeTransaction } from '../db/transactions';
 import type { DatasetAttributes, DatasetSummary, PreviewTable } from '../db/models/Dataset';
 import { audit } from './audit';
 import { ConflictError, NotFoundError } from './errors';
+import { refuseOverQuota } from './group-storage';
 import { newId } from './ids';
 
 export type { DatasetSummary, PreviewTable } from '../db/models/Dataset';
@@ -128,6 +129,8 @@ export async function addDataset(
 	try {
 		await writeTransaction(database, async (transaction) => {
 			await refuseRepeatedUpload(database, claimId, sha256, transaction);
+			const upload = { sha256, byteSize: bytes.byteLength };
+			await refuseOverQuota(database, claim.groupId, upload, transaction);
 			await database.models.Dataset.create(
 				{
 					id,

@@ -1,7 +1,10 @@
 import { DataTypes, type Model, type ModelStatic, type Sequelize } from 'sequelize';
 import type { CertificationResult } from '$lib/certify';
 
-export type CheckStatus = 'queued' | 'running' | 'done' | 'failed';
+export const CHECK_STATUSES = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;
+export type CheckStatus = (typeof CHECK_STATUSES)[number];
+/** Statuses that hold a worker slot or a place in the queue. */
+export const ACTIVE_CHECK_STATUSES: CheckStatus[] = ['queued', 'running'];
 
 /** One run of the engine on a dataset, with its recorded settings and result. */
 export interface CheckAttributes {
@@ -16,6 +19,11 @@ export interface CheckAttributes {
 	seed: number;
 	/** Accidentals subtracted before normalising (migration 0004); the result says so. */
 	subtractAccidentals?: boolean;
+	/** The review link that started this re-run (migration 0008); its own queue and limit. */
+	reviewLinkId?: string | null;
+	cancelledAt?: Date | null;
+	/** The account that cancelled it; null with cancelledAt set: the referee's link. */
+	cancelledBy?: string | null;
 	result: CertificationResult | null;
 	error: string | null;
 	startedAt: Date | null;
@@ -43,6 +51,9 @@ export function defineCheck(sequelize: Sequelize): CheckModel {
 			confidence: { type: DataTypes.FLOAT, allowNull: false },
 			seed: { type: DataTypes.BIGINT, allowNull: false },
 			subtractAccidentals: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+			reviewLinkId: { type: DataTypes.STRING, allowNull: true },
+			cancelledAt: { type: DataTypes.DATE, allowNull: true },
+			cancelledBy: { type: DataTypes.STRING, allowNull: true },
 			result: { type: DataTypes.JSON, allowNull: true },
 			error: { type: DataTypes.TEXT, allowNull: true },
 			startedAt: { type: DataTypes.DATE, allowNull: true },

@@ -2,7 +2,7 @@ import { redirect } from '@sveltejs/kit';
 import { MAX_COUNTS_FILE_BYTES } from '$lib/certify';
 import { checkRequestSchema } from '$lib/claims/schema';
 import { app } from '$lib/server/app';
-import { echoValues, requireSignedIn } from '$lib/server/auth-web';
+import { echoValues, formRefusal, requireSignedIn } from '$lib/server/auth-web';
 import { formFailure, pageProblem } from '$lib/server/problems';
 import { listCertificates } from '$lib/server/services/certificate-reads';
 import { startCheck, listChecks } from '$lib/server/services/checks';
@@ -82,7 +82,7 @@ export const actions: Actions = {
 		redirect(303, `/claims/${params.id}`);
 	},
 
-	check: async ({ request, locals, params, url }) => {
+	check: async ({ request, locals, params, url, setHeaders }) => {
 		const actor = requireSignedIn(locals, url);
 		const values = echoValues(await request.formData(), [
 			'datasetId',
@@ -98,7 +98,7 @@ export const actions: Actions = {
 		try {
 			checkId = (await startCheck(database, actor, params.id, parsed.data)).id;
 		} catch (problem) {
-			return formFailure('check', problem, values);
+			return formRefusal({ setHeaders }, 'check', problem, values);
 		}
 		redirect(303, `/claims/${params.id}/checks/${checkId}`);
 	}

@@ -11,6 +11,7 @@ import { app } from '$lib/server/app';
 import { accountIdOf, type Actor } from '$lib/server/access/actor';
 import { echoValues, requireSignedIn } from '$lib/server/auth-web';
 import { formFailure, pageProblem } from '$lib/server/problems';
+import { byteWords, groupStorage } from '$lib/server/services/group-storage';
 import { changeMemberRole, getGroup, removeMember } from '$lib/server/services/groups';
 import { takeOrRefuse } from '$lib/server/rate-limits';
 import { inviteMember, listInvitations, revokeInvitation } from '$lib/server/services/invitations';
@@ -21,9 +22,20 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 	const { database } = await app();
 	try {
 		const group = await getGroup(database, actor, params.id);
-		const invitations =
-			group.role === 'lead' ? await listInvitations(database, actor, params.id) : [];
-		return { group, invitations, invited: url.searchParams.get('invited') };
+		const lead = group.role === 'lead';
+		const invitations = lead ? await listInvitations(database, actor, params.id) : [];
+		// Only leads see how much of the quota the group's counts files take.
+		const storage = lead ? await groupStorage(database, actor, params.id) : null;
+		const words = storage && {
+			used: byteWords(storage.usedBytes),
+			quota: byteWords(storage.quotaBytes)
+		};
+		return {
+			group,
+			invitations,
+			invited: url.searchParams.get('invited'),
+			storage: storage && { ...storage, ...words }
+		};
 	} catch (problem) {
 		pageProblem(problem);
 	}

@@ -188,7 +188,10 @@ export const openApiDocument = {
 					'401': unauthorised,
 					'403': forbidden,
 					'404': notFound,
-					'409': failure('The claim has no counts file yet (code conflict).')
+					'409': failure('The claim has no counts file yet (code conflict).'),
+					'429': failure(
+						'The caller (or the claim’s group) has as many checks queued or running as allowed (code rate_limited); the message names the limit, Retry-After the seconds to wait.'
+					)
 				}
 			}
 		},
@@ -198,6 +201,18 @@ export const openApiDocument = {
 				summary: 'Read a check: status, progress and, when done, the result',
 				parameters: [idParameter('check')],
 				responses: { '200': reply('The check.', 'Check'), '401': unauthorised, '404': notFound }
+			},
+			delete: {
+				operationId: 'cancelCheck',
+				summary: 'Cancel a queued or running check (whoever may start checks on its claim)',
+				parameters: [idParameter('check')],
+				responses: {
+					'200': reply('The check, now cancelled (cancelledAt, cancelledBy).', 'Check'),
+					'401': unauthorised,
+					'403': forbidden,
+					'404': notFound,
+					'409': failure('The check has ended or was cancelled already (code conflict).')
+				}
 			}
 		},
 		'/api/v1/tokens': {

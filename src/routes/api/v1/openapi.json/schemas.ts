@@ -1,5 +1,6 @@
 /** JSON Schemas (OpenAPI 3.1 components) of the API's bodies, kept beside the document. */
 import {
+	CELL_RESAMPLES_BUDGET,
 	CONFIDENCE,
 	DEFAULT_FOURIER,
 	DEFAULTS,
@@ -8,6 +9,7 @@ import {
 	RESAMPLES
 } from '$lib/certify';
 import { CLAIM_STATES } from '$lib/claims/schema';
+import { CHECK_STATUSES } from '$lib/server/db/models/Check';
 import { PROBLEM_CODES } from '$lib/server/problems';
 import { TOKEN_DEFAULT_DAYS, TOKEN_MAX_DAYS } from '$lib/server/services/tokens';
 
@@ -223,7 +225,8 @@ export const schemas = {
 				...whole,
 				minimum: RESAMPLES.min,
 				maximum: RESAMPLES.max,
-				default: DEFAULTS.resamples
+				default: DEFAULTS.resamples,
+				description: `Also at most ${CELL_RESAMPLES_BUDGET} ÷ (d² × number of bases) for the claim (cells × resamples); 400 naming the ceiling otherwise.`
 			},
 			confidence: {
 				...number,
@@ -240,7 +243,7 @@ export const schemas = {
 			}
 		}
 	},
-	CheckStatus: { type: 'string', enum: ['queued', 'running', 'done', 'failed'] },
+	CheckStatus: { type: 'string', enum: [...CHECK_STATUSES] },
 	Check: {
 		type: 'object',
 		required: [
@@ -269,7 +272,12 @@ export const schemas = {
 			startedAt: nullable(timestamp),
 			finishedAt: nullable(timestamp),
 			error: nullable(text),
-			result: nullable(ref('CertificationResult'))
+			result: nullable(ref('CertificationResult')),
+			cancelledAt: nullable(timestamp),
+			cancelledBy: {
+				...nullable(text),
+				description: 'Who cancelled it: the account’s name, or "the referee" for a review link.'
+			}
 		}
 	},
 	CertificationResult: {

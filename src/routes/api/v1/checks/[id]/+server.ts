@@ -1,7 +1,12 @@
 import { json } from '@sveltejs/kit';
 import { apiEndpoint } from '$lib/server/api';
-import { getCheck } from '$lib/server/services/checks';
+import { cancelCheck, getCheck } from '$lib/server/services/checks';
 
 export const GET = apiEndpoint(async ({ event, actor, database }) => {
 	return json(await getCheck(database, actor, event.params.id!));
+});
+
+/** Cancels a queued or running check; 409 once it has ended. */
+export const DELETE = apiEndpoint(async ({ event, actor, database }) => {
+	return json(await cancelCheck(database, actor, event.params.id!));
 });

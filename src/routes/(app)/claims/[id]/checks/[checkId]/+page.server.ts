@@ -5,7 +5,7 @@ import { requireSignedIn } from '$lib/server/auth-web';
 import { formFailure, pageProblem } from '$lib/server/problems';
 import { listCertificates, mayIssueCertificate } from '$lib/server/services/certificate-reads';
 import { issueCertificate } from '$lib/server/services/certificates';
-import { getCheck } from '$lib/server/services/checks';
+import { cancelCheck, getCheck, mayCancelCheck } from '$lib/server/services/checks';
 import { getClaim } from '$lib/server/services/claims';
 import { getDataset } from '$lib/server/services/datasets';
 import type { Actions, PageServerLoad } from './$types';
@@ -19,10 +19,11 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 	]).catch(pageProblem);
 	// A check reached through another claim's address is not found either, so ids do not leak.
 	if (check.claimId !== claim.id) error(404, { message: 'No such check.', code: 'not_found' });
-	const [dataset, certificates, mayIssue] = await Promise.all([
+	const [dataset, certificates, mayIssue, mayCancel] = await Promise.all([
 		getDataset(database, actor, check.datasetId),
 		listCertificates(database, actor, claim.id),
-		mayIssueCertificate(database, actor, claim.id)
+		mayIssueCertificate(database, actor, claim.id),
+		mayCancelCheck(database, actor, check.id)
 	]).catch(pageProblem);
 	return {
 		claim,
@@ -30,7 +31,8 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 		dataset: { id: dataset.id, originalName: dataset.originalName, sha256: dataset.sha256 },
 		command: check.result ? reproduceCommand(check.result, dataset.originalName) : null,
 		certificates: certificates.filter((c) => c.checkId === check.id),
-		mayIssue: mayIssue && check.status === 'done'
+		mayIssue: mayIssue && check.status === 'done',
+		mayCancel
 	};
 };
 
@@ -46,5 +48,19 @@ export const actions: Actions = {
 			return formFailure('issue', problem);
 		}
 		redirect(303, `/claims/${params.id}/certificates/${certificateId}`);
+	},
+
+	/** Cancels this check while it is queued or running; 409 beside the button once it has ended. */
+	cancel: async ({ locals, params, url }) => {
+		const actor = requireSignedIn(locals, url);
+		const { database } = await app();
+		try {
+			const check = await getCheck(database, actor, params.checkId);
+			if (check.claimId !== params.id) error(404, { message: 'No such check.', code: 'not_found' });
+			await cancelCheck(database, actor, check.id);
+		} catch (problem) {
+			return formFailure('cancel', problem);
+		}
+		redirect(303, `/claims/${params.id}/checks/${params.checkId}`);
 	}
 };

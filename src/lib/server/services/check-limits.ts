@@ -1,0 +1,39 @@
+/**
+ * Fair use of the workers: how many checks one person and one group may have queued or running
+ * at once. Review re-runs count in their link's own bucket (one at a time, referee.ts), not
+ * against the group, so that neither side can crowd out the other.
+ */
+import { Op, type Transaction } from 'sequelize';
+import type { Actor } from '../access/actor';
+import { config } from '../config';
+import type { Database } from '../db';
+import { ACTIVE_CHECK_STATUSES } from '../db/models/Check';
+import { RateLimitedError } from './errors';
+
+/** Refuses a new check over either limit, naming it; run inside the transaction that queues it. */
+export async function refuseOverCheckLimits(
+	database: Database,
+	actor: Actor,
+	groupId: string,
+	transaction: Transaction
+): Promise<void> {
+	if (actor.kind !== 'user' && actor.kind !== 'token') return;
+	const { checksPerUser, checksPerGroup, checkRetryAfterSeconds: wait } = config();
+	const { Check, Claim } = database.models;
+	const active = { status: ACTIVE_CHECK_STATUSES };
+	const own = await Check.count({ where: { ...active, createdBy: actor.userId }, transaction });
+	if (own >= checksPerUser)
+		throw new RateLimitedError(
+			`You have ${own} checks queued or running; the limit is ${checksPerUser} per person. Wait for one to finish or cancel one.`,
+			wait
+		);
+	const claims = await Claim.findAll({ where: { groupId }, attributes: ['id'], transaction });
+	const claimIds = claims.map((c) => c.get('id') as string);
+	const where = { ...active, claimId: claimIds, reviewLinkId: { [Op.is]: null } };
+	const group = await Check.count({ where, transaction });
+	if (group >= checksPerGroup)
+		throw new RateLimitedError(
+			`This group has ${group} checks queued or running; the limit is ${checksPerGroup} per group. Wait for one to finish or cancel one.`,
+			wait
+		);
+}
