@@ -43,12 +43,19 @@ export function apiEndpoint(handler: (context: Context) => Promise<Response>): R
 const overLimit = (error: unknown) =>
 	typeof error === 'object' && error !== null && (error as { status?: unknown }).status === 413;
 
-/** The request body, refusing more than `limit` bytes (413) whatever Content-Length says. */
+/**
+ * The request body, refusing more than `limit` bytes (413) whatever Content-Length says. An
+ * over-size body is read to its end and dropped, not cut off: cancelling the stream would reset
+ * the connection before the client sees the 413. Kit's BODY_SIZE_LIMIT bounds that reading.
+ */
 export async function readBody(request: Request, limit: number): Promise<Uint8Array<ArrayBuffer>> {
 	const tooLarge = () =>
 		new ApiError(413, 'too_large', `The body is larger than the limit of ${limit} bytes.`);
-	if (Number(request.headers.get('content-length') ?? 0) > limit) throw tooLarge();
-	if (!request.body) return new Uint8Array(0);
+	let over = Number(request.headers.get('content-length') ?? 0) > limit;
+	if (!request.body) {
+		if (over) throw tooLarge();
+		return new Uint8Array(0);
+	}
 	const chunks: Uint8Array<ArrayBuffer>[] = [];
 	let size = 0;
 	const reader = request.body.getReader();
@@ -58,12 +65,10 @@ export async function readBody(request: Request, limit: number): Promise<Uint8Ar
 		});
 		if (done) break;
 		size += value.byteLength;
-		if (size > limit) {
-			await reader.cancel();
-			throw tooLarge();
-		}
-		chunks.push(value);
+		over ||= size > limit;
+		if (!over) chunks.push(value);
 	}
+	if (over) throw tooLarge();
 	return Buffer.concat(chunks);
 }
 
