@@ -9,6 +9,8 @@ const config = {
 		// Kit's own origin check would refuse multipart uploads from scripts (no Origin header);
 		// hooks.server.ts runs a stricter one (every unsafe method), letting through bearer API calls.
 		csrf: { trustedOrigins: ['*'] },
+		// @stdlib's generator probe calls eval(), which the CSP below refuses (and reports).
+		alias: { '@stdlib/assert-has-generator-support': 'src/lib/shims/has-generator-support.cjs' },
 		// Kit hashes or nonces its own inline scripts; everything else comes from this origin only.
 		csp: {
 			mode: 'auto',
