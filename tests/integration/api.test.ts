@@ -216,7 +216,7 @@ describe('JSON bodies take JSON', () => {
 		const text = await failure(
 			readJson(json(JSON.stringify({ ...claim, dimension: '5' })), claimJsonSchema)
 		);
-		expect((text as z.ZodError).issues[0].message).toBe(
+		expect((text as unknown as z.ZodError).issues[0].message).toBe(
 			'The dimension must be a JSON number, not text ("5").'
 		);
 		const bases = JSON.stringify({ ...claim, dimension: 5, bases: '0,1' });
