@@ -129,10 +129,10 @@ describe('security headers', () => {
 		}
 	});
 
-	it('sends no Referer from review and one-use links, and lets nothing cache them', async () => {
+	it('sends no Referer to other sites from review and one-use links, and lets nothing cache them', async () => {
 		for (const route of ['/review/rvw_madeup', '/reset/madeup', '/api/v1/review/rvw_madeup']) {
 			const response = await call(route);
-			expect(response.headers.get('referrer-policy'), route).toBe('no-referrer');
+			expect(response.headers.get('referrer-policy'), route).toBe('same-origin');
 			expect(response.headers.get('cache-control'), route).toBe('no-store');
 		}
 	});

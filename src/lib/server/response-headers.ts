@@ -20,9 +20,10 @@ function decorate(event: RequestEvent, response: Response): Response {
 	const headers = response.headers;
 	headers.set('x-content-type-options', 'nosniff');
 	headers.set('x-frame-options', 'DENY');
-	// A review or invitation link must never travel on in a Referer header, even to our own files.
+	// A review or invitation link never travels to another site in a Referer. Not no-referrer:
+	// that makes the browser send `Origin: null` with the page's own forms, which we refuse.
 	const secret = SECRET_IN_PATH.test(event.url.pathname);
-	headers.set('referrer-policy', secret ? 'no-referrer' : 'strict-origin-when-cross-origin');
+	headers.set('referrer-policy', secret ? 'same-origin' : 'strict-origin-when-cross-origin');
 	if (isPrivate(event)) headers.set('cache-control', 'no-store');
 	return response;
 }
