@@ -1,6 +1,7 @@
 // See https://svelte.dev/docs/kit/types#app.d.ts
 import type { Session, User } from 'lucia';
 import type { Actor } from '$lib/server/access/actor';
+import type { RateLimitedError } from '$lib/server/services/errors';
 
 declare global {
 	namespace App {
@@ -13,6 +14,8 @@ declare global {
 			/** The signed-in user, for display and signing out only (null for token callers). */
 			user: User | null;
 			session: Session | null;
+			/** A review-link use over its limit (review-handle.ts): the page answers 429 with it. */
+			refusal?: RateLimitedError;
 		}
 		// interface PageData {}
 		// interface PageState {}

@@ -55,6 +55,22 @@ function untilListening(child: ChildProcess, log: () => string): Promise<void> {
 	});
 }
 
+/**
+ * Page tests share one client address (127.0.0.1) and make many requests: the limits are raised
+ * far above what they do, so only a test that names its own RANKSEAL_RATE_LIMITS meets them.
+ */
+export const ROOMY_RATE_LIMITS = JSON.stringify({
+	signInAccount: { free: 1000, cap: 2000 },
+	signInAddress: { free: 10000, cap: 20000 },
+	signUp: { points: 10000 },
+	resetRequest: { points: 10000 },
+	resendVerification: { points: 10000 },
+	invitations: { points: 10000 },
+	reviewUse: { points: 100000 },
+	reviewRefused: { free: 10000, cap: 20000 },
+	mailPerRecipient: { points: 10000 }
+});
+
 export async function startApp(env: Record<string, string> = {}): Promise<AppServer> {
 	if (!existsSync(ENTRY)) {
 		throw new Error(`${ENTRY} is missing: build the app first (npx vite build, or npm test)`);
@@ -68,6 +84,7 @@ export async function startApp(env: Record<string, string> = {}): Promise<AppSer
 			BODY_SIZE_LIMIT: '25M',
 			RANKSEAL_DATA_DIR: mkdtempSync(path.join(tmpdir(), 'rankseal-app-')),
 			MAIL_CATCHER_PORT: '0',
+			RANKSEAL_RATE_LIMITS: ROOMY_RATE_LIMITS,
 			...env,
 			PORT: String(port),
 			HOST: '127.0.0.1',

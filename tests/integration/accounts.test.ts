@@ -63,13 +63,18 @@ describe('accounts', () => {
 		);
 	});
 
-	it('refuses a taken address (in any case) and a short password, beside the field', async () => {
-		const taken = signUp(world.database, world.mailer, {
+	it('makes no second account for a taken address (in any case), and refuses a short password', async () => {
+		const owner = await user('liv.aasen@fjordlight.test');
+		await signUp(world.database, world.mailer, {
 			email: 'LIV.AASEN@fjordlight.test',
 			name: 'Other',
-			password: PASSWORD
+			password: 'another-passphrase-here'
 		});
-		await expect(taken).rejects.toMatchObject({ field: 'email' });
+		// The owner hears of it by mail; the account is as it was (account-requests.test.ts has more).
+		expect(await world.database.models.User.count({ where: { email: owner.email } })).toBe(1);
+		expect((await user(owner.email)).passwordHash).toBe(owner.passwordHash);
+		const [, notice] = await mailTo(world, owner.email);
+		expect(notice.subject).toBe('Someone tried to open a Rankseal account with your address');
 		const short = signUp(world.database, world.mailer, {
 			email: 'short@fjordlight.test',
 			name: 'Short',
@@ -164,7 +169,7 @@ describe('accounts', () => {
 		expect(await auditActions(userId)).toContain('account.password-reset');
 	});
 
-	it('rejects an expired reset link, and says nothing for an unknown address', async () => {
+	it('rejects an expired reset link, and writes an unknown address that it has no account', async () => {
 		await signUp(world.database, world.mailer, {
 			email: 'sol@fjordlight.test',
 			name: 'Sol Haug',
@@ -180,11 +185,14 @@ describe('accounts', () => {
 			await resetPassword(world.database, world.lucia, world.mailer, token, 'harbour-willow-signal')
 		).toEqual({ ok: false, reason: 'expired' });
 
-		const before = await world.database.models.MailMessage.count();
+		const tokens = await world.database.models.EmailToken.count();
 		await expect(
 			requestPasswordReset(world.database, world.mailer, 'ghost@fjordlight.test')
 		).resolves.toBeUndefined();
-		expect(await world.database.models.MailMessage.count()).toBe(before);
+		const [letter] = await mailTo(world, 'ghost@fjordlight.test');
+		expect(letter.subject).toBe('A Rankseal password was requested for this address');
+		expect(letter.text).not.toContain('/reset/');
+		expect(await world.database.models.EmailToken.count()).toBe(tokens);
 	});
 
 	it('signs out everywhere, API tokens included', async () => {

@@ -22,7 +22,8 @@ describe('database', () => {
 			'0004-dataset-summary',
 			'0005-certificates',
 			'0006-sharing-review',
-			'0007-outbox-archive'
+			'0007-outbox-archive',
+			'0009-mail-cap'
 		]);
 	});
 

@@ -16,6 +16,8 @@ export type NoticeTemplate =
 export type MailTemplate =
 	| 'verify-email'
 	| 'reset-password'
+	| 'reset-no-account'
+	| 'signup-existing'
 	| 'invitation'
 	| 'password-changed'
 	| 'certificate-issued'

@@ -1,120 +1,27 @@
 /**
- * Accounts: sign-up with a confirmation link, sign-in, password reset and sign-out. Links are
+ * Accounts: confirming the address, sign-in, setting a new password and sign-out (sign-up and
+ * reset requests: account-requests.ts). Links are
  * single use and expire (see email-tokens.ts); addresses are kept trimmed and lower-case.
  */
-import { UniqueConstraintError, type Transaction } from 'sequelize';
 import type { Actor } from '../access/actor';
 import { requireService } from '../access/permissions';
 import { hashPassword, verifyPassword, type AppLucia } from '../auth';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
-import { invitedAddress } from './invitation-links';
 import { mailLink, type Mailer } from '../mail';
+import { queueVerification } from './account-requests';
+import { checkPassword, normaliseEmail } from './account-rules';
 import { audit } from './audit';
-import {
-	RESET_PASSWORD_TTL_MS,
-	VERIFY_EMAIL_TTL_MS,
-	confirmAddress,
-	emailTokenState,
-	issueEmailToken,
-	useEmailToken,
-	type TokenState
-} from './email-tokens';
-import { FieldError } from './field-error';
+import { confirmAddress, emailTokenState, useEmailToken, type TokenState } from './email-tokens';
 import { newId } from './ids';
 import { queueMail } from './mail-queue';
 import { revokeAllTokens } from './tokens';
 
-import { PASSWORD_MAX_LENGTH, PASSWORD_MIN_LENGTH } from '$lib/account-limits';
-
-export { PASSWORD_MAX_LENGTH, PASSWORD_MIN_LENGTH };
+export { PASSWORD_MAX_LENGTH, PASSWORD_MIN_LENGTH, normaliseEmail } from './account-rules';
+export { requestPasswordReset, signUp, type SignUpOutcome } from './account-requests';
 
 export type LinkResult =
 	{ ok: true; userId: string } | { ok: false; reason: Exclude<TokenState, 'valid'> };
-
-export const normaliseEmail = (email: string): string => email.trim().toLowerCase();
-
-function checkPassword(password: string, field = 'password') {
-	if (password.length < PASSWORD_MIN_LENGTH) {
-		throw new FieldError(field, `Use at least ${PASSWORD_MIN_LENGTH} characters.`);
-	}
-	if (password.length > PASSWORD_MAX_LENGTH) {
-		throw new FieldError(field, `Use at most ${PASSWORD_MAX_LENGTH} characters.`);
-	}
-}
-
-const EMAIL_TAKEN =
-	'An account with this address already exists. Sign in, or ask for a new password.';
-
-/** A new confirmation link, and the mail carrying it, in the caller's transaction. */
-async function queueVerification(
-	database: Database,
-	mailer: Mailer,
-	user: { id: string; email: string; name: string },
-	transaction: Transaction
-) {
-	const token = await issueEmailToken(
-		database,
-		user.id,
-		'verify-email',
-		VERIFY_EMAIL_TTL_MS,
-		transaction
-	);
-	const values = { name: user.name, email: user.email, link: mailLink(mailer, `/verify/${token}`) };
-	await queueMail(database, transaction, user.email, 'verify-email', values);
-}
-
-/**
- * Creates an account and mails a confirmation link — unless the sign-up came through a valid
- * invitation to this very address: opening that link already proved the mailbox.
- */
-export async function signUp(
-	database: Database,
-	mailer: Mailer,
-	input: { email: string; name: string; password: string },
-	proof: { invitationToken?: string | null } = {}
-): Promise<{ userId: string }> {
-	const { User } = database.models;
-	const email = normaliseEmail(input.email);
-	const name = input.name.trim();
-	if (!name) throw new FieldError('name', 'Enter your name.');
-	checkPassword(input.password);
-	if (await User.findOne({ where: { email } })) throw new FieldError('email', EMAIL_TAKEN);
-	const passwordHash = await hashPassword(input.password);
-	const userId = newId();
-	try {
-		await writeTransaction(database, async (transaction) => {
-			const invited = await invitedAddress(database, proof.invitationToken, email, transaction);
-			const emailVerifiedAt = invited ? new Date() : null;
-			await User.create(
-				{ id: userId, email, name, passwordHash, accountRole: 'researcher', emailVerifiedAt },
-				{ transaction }
-			);
-			const entry = {
-				actorId: userId,
-				action: 'account.signed-up',
-				subjectType: 'user',
-				subjectId: userId,
-				details: { email }
-			};
-			await audit(database, entry, transaction);
-			if (invited) {
-				const via = { via: 'invitation' };
-				await audit(
-					database,
-					{ ...entry, action: 'account.email-verified', details: via },
-					transaction
-				);
-				return;
-			}
-			await queueVerification(database, mailer, { id: userId, email, name }, transaction);
-		});
-	} catch (error) {
-		if (error instanceof UniqueConstraintError) throw new FieldError('email', EMAIL_TAKEN);
-		throw error;
-	}
-	return { userId };
-}
 
 /** Sends a fresh confirmation link (the old one stops working); false when already confirmed. */
 export async function resendVerification(
@@ -168,34 +75,6 @@ export async function signIn(
 	}
 	const ok = await verifyPassword(user.get('passwordHash') as string, password);
 	return ok ? { userId: user.get('id') as string } : null;
-}
-
-/** Sends a reset link when the address has an account; says nothing either way. */
-export async function requestPasswordReset(
-	database: Database,
-	mailer: Mailer,
-	email: string
-): Promise<void> {
-	const user = await database.models.User.findOne({ where: { email: normaliseEmail(email) } });
-	if (!user) return;
-	const { id, name, email: address } = user.get({ plain: true });
-	await writeTransaction(database, async (transaction) => {
-		const ttl = RESET_PASSWORD_TTL_MS;
-		const token = await issueEmailToken(database, id, 'reset-password', ttl, transaction);
-		const entry = {
-			actorId: null,
-			action: 'account.password-reset-requested',
-			subjectType: 'user',
-			subjectId: id
-		};
-		await audit(database, entry, transaction);
-		const link = mailLink(mailer, `/reset/${token}`);
-		await queueMail(database, transaction, address, 'reset-password', {
-			name,
-			email: address,
-			link
-		});
-	});
 }
 
 export const resetLinkState = (database: Database, token: string) =>

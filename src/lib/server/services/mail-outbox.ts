@@ -86,7 +86,7 @@ export async function getOutboxMessage(
 	return { ...item(m), text, html };
 }
 
-/** Sends a given-up message again from the next pass of the sender. */
+/** Sends a given-up or held-back message from the next pass of the sender. */
 export async function requeueOutboxMessage(
 	database: Database,
 	actor: Actor,
@@ -95,11 +95,11 @@ export async function requeueOutboxMessage(
 	await requireService(database, actor, 'read-outbox');
 	const [changed] = await database.models.OutboxMail.update(
 		{ status: 'retrying', nextAttemptAt: new Date() },
-		{ where: { id, status: { [Op.eq]: 'failed' } } }
+		{ where: { id, status: { [Op.in]: ['failed', 'held'] } } }
 	);
 	if (changed === 0) {
 		if (!(await database.models.OutboxMail.findByPk(id)))
 			throw new NotFoundError('No such message.');
-		throw new ConflictError('Only a message that was given up can be queued again.');
+		throw new ConflictError('Only a message that was given up or held back can be queued again.');
 	}
 }

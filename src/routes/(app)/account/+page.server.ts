@@ -1,16 +1,23 @@
 import { redirect } from '@sveltejs/kit';
 import { app } from '$lib/server/app';
-import { clearSessionCookie, requireSignedIn } from '$lib/server/auth-web';
+import { clearSessionCookie, formRefusal, requireSignedIn } from '$lib/server/auth-web';
+import { takeOrRefuse } from '$lib/server/rate-limits';
 import { resendVerification, signOut, signOutEverywhere } from '$lib/server/services/accounts';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = ({ url }) => ({ sent: url.searchParams.has('sent') });
 
 export const actions: Actions = {
-	resend: async ({ locals, url }) => {
-		const actor = requireSignedIn(locals, url);
+	resend: async (event) => {
+		const actor = requireSignedIn(event.locals, event.url);
 		const { database, mailer } = await app();
-		await resendVerification(database, mailer, actor);
+		try {
+			const what = 'You have asked for several links in a short time.';
+			await takeOrRefuse('resendVerification', actor.userId, what);
+			await resendVerification(database, mailer, actor);
+		} catch (problem) {
+			return formRefusal(event, 'resend', problem);
+		}
 		redirect(303, '/account?sent=1');
 	},
 	signout: async ({ locals, cookies }) => {

@@ -1,10 +1,10 @@
 import { redirect } from '@sveltejs/kit';
 import { signInForm, formFields } from '$lib/server/account-forms';
 import { app } from '$lib/server/app';
-import { echoValues, safeNext, startSession } from '$lib/server/auth-web';
-import { formFailure } from '$lib/server/problems';
-import { signIn } from '$lib/server/services/accounts';
+import { echoValues, formRefusal, safeNext, startSession } from '$lib/server/auth-web';
+import { retryWords } from '$lib/server/rate-limits';
 import { FieldError } from '$lib/server/services/errors';
+import { signInFrom } from '$lib/server/services/sign-in';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = ({ locals, url }) => {
@@ -14,23 +14,34 @@ export const load: PageServerLoad = ({ locals, url }) => {
 		? 'Your password has been changed. Sign in with the new one.'
 		: url.searchParams.has('verified')
 			? 'Your address is confirmed. Sign in to continue.'
-			: null;
+			: url.searchParams.has('confirm')
+				? 'Confirm your address with the link we mailed you, then sign in here.'
+				: null;
 	return { next, notice, email: url.searchParams.get('email') ?? '' };
 };
 
+const MISMATCH = 'That address and password do not match an account.';
+
 export const actions: Actions = {
-	login: async ({ request, cookies }) => {
+	login: async (event) => {
+		const { request, cookies } = event;
 		const form = await request.formData();
 		const values = echoValues(form, ['email']);
 		const parsed = signInForm.safeParse(formFields(form));
-		if (!parsed.success) return formFailure('login', parsed.error, values);
+		if (!parsed.success) return formRefusal(event, 'login', parsed.error, values);
 		const { database, lucia } = await app();
-		const account = await signIn(database, parsed.data.email, parsed.data.password);
-		if (!account) {
-			const mismatch = new FieldError('', 'That address and password do not match an account.');
-			return formFailure('login', mismatch, values);
+		let outcome;
+		try {
+			outcome = await signInFrom(database, parsed.data, { address: event.getClientAddress() });
+		} catch (problem) {
+			return formRefusal(event, 'login', problem, values);
 		}
-		await startSession(lucia, cookies, account.userId);
+		if (!outcome.userId) {
+			const wait = outcome.pauseSeconds;
+			const words = wait === null ? MISMATCH : `${MISMATCH} Try again ${retryWords(wait)}.`;
+			return formRefusal(event, 'login', new FieldError('', words), values);
+		}
+		await startSession(lucia, cookies, outcome.userId);
 		redirect(303, safeNext(form.get('next') as string | null));
 	}
 };

@@ -8,6 +8,8 @@ import type { Actions, PageServerLoad } from './$types';
 
 /** Only the link decides: a signed-in session is ignored here (see review-handle.ts). */
 function referee(locals: App.Locals) {
+	const refusal = locals.refusal;
+	if (refusal) error(429, { message: refusal.message, code: 'rate_limited' });
 	if (locals.actor.kind !== 'referee')
 		error(404, { message: INVALID_REVIEW_LINK, code: 'invalid_review_link' });
 	return locals.actor;

@@ -6,6 +6,7 @@ import * as datasetSummary from './0004-dataset-summary';
 import * as certificates from './0005-certificates';
 import * as sharingReview from './0006-sharing-review';
 import * as outboxArchive from './0007-outbox-archive';
+import * as mailCap from './0009-mail-cap';
 
 export const migrations = [
 	{ name: '0001-initial', ...initial },
@@ -14,5 +15,6 @@ export const migrations = [
 	{ name: '0004-dataset-summary', ...datasetSummary },
 	{ name: '0005-certificates', ...certificates },
 	{ name: '0006-sharing-review', ...sharingReview },
-	{ name: '0007-outbox-archive', ...outboxArchive }
+	{ name: '0007-outbox-archive', ...outboxArchive },
+	{ name: '0009-mail-cap', ...mailCap }
 ];

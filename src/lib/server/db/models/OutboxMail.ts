@@ -3,9 +3,10 @@ import { DataTypes, type Model, type ModelStatic, type Sequelize } from 'sequeli
 /**
  * queued: waiting for its first try; sending: an attempt is under way (or the process stopped
  * during one); retrying: the last attempt failed, `nextAttemptAt` says when the next is; failed:
- * given up after the last allowed attempt (an admin may queue it again); sent: the server took it.
+ * given up after the last allowed attempt (an admin may queue it again); sent: the server took it;
+ * held: over the per-recipient cap when written, never tried (an admin may queue it).
  */
-export type OutboxStatus = 'queued' | 'sending' | 'retrying' | 'failed' | 'sent';
+export type OutboxStatus = 'queued' | 'sending' | 'retrying' | 'failed' | 'sent' | 'held';
 
 /** One e-mail written in the same transaction as the event that causes it. */
 export interface OutboxMailAttributes {

@@ -6,7 +6,7 @@ import { listOutbox } from '$lib/server/services/mail-outbox';
 import type { PageServerLoad } from './$types';
 
 const statusFilter = z
-	.enum(['queued', 'sending', 'retrying', 'failed', 'sent'])
+	.enum(['queued', 'sending', 'retrying', 'failed', 'sent', 'held'])
 	.nullable()
 	.catch(null);
 

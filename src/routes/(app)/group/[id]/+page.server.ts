@@ -8,10 +8,11 @@ import {
 	memberRoleForm
 } from '$lib/server/account-forms';
 import { app } from '$lib/server/app';
-import type { Actor } from '$lib/server/access/actor';
+import { accountIdOf, type Actor } from '$lib/server/access/actor';
 import { echoValues, requireSignedIn } from '$lib/server/auth-web';
 import { formFailure, pageProblem } from '$lib/server/problems';
 import { changeMemberRole, getGroup, removeMember } from '$lib/server/services/groups';
+import { takeOrRefuse } from '$lib/server/rate-limits';
 import { inviteMember, listInvitations, revokeInvitation } from '$lib/server/services/invitations';
 import type { Actions, PageServerLoad, RequestEvent } from './$types';
 
@@ -56,6 +57,8 @@ export const actions: Actions = {
 	invite: (event) =>
 		act(event, 'invite', inviteForm, async (actor, input) => {
 			const { database, mailer } = await app();
+			const what = 'You have sent many invitations in a short time.';
+			await takeOrRefuse('invitations', String(accountIdOf(actor)), what);
 			await inviteMember(database, mailer, actor, event.params.id, input);
 			return `/group/${event.params.id}?invited=${encodeURIComponent(input.email)}`;
 		}),
