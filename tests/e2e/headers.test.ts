@@ -192,6 +192,18 @@ describe('JSON bodies', () => {
 		}
 	});
 
+	it('documents 413 and 415 on every operation that takes a JSON body', async () => {
+		const doc = await (await call('/api/v1/openapi.json')).json();
+		const withJson = Object.values(doc.paths as Record<string, Record<string, any>>)
+			.flatMap((operations) => Object.values(operations))
+			.filter((op) => Object.keys(op.requestBody?.content ?? {}).join() === 'application/json');
+		expect(withJson.length).toBeGreaterThan(8);
+		for (const op of withJson)
+			expect(Object.keys(op.responses), op.operationId).toEqual(
+				expect.arrayContaining(['413', '415'])
+			);
+	});
+
 	it('refuses numbers sent as text, lists or loosely written, naming the field', async () => {
 		const route = `/api/v1/claims/${claimId}/checks`;
 		for (const [body, field] of [
