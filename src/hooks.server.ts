@@ -1,6 +1,6 @@
 import type { Handle, HandleServerError, ServerInit } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
-import { app } from '$lib/server/app';
+import { app, isStopping } from '$lib/server/app';
 import { ANONYMOUS } from '$lib/server/access/actor';
 import { reviewLink } from '$lib/server/access/review-handle';
 import { originCheck, rejectControlCharacters } from '$lib/server/request-guards';
@@ -53,6 +53,16 @@ const bearer: Handle = async ({ event, resolve }) => {
 	return resolve(event);
 };
 
+/** From SIGTERM/SIGINT on, a request that still reaches the draining server is turned away. */
+const draining: Handle = async ({ event, resolve }) => {
+	if (!isStopping()) return resolve(event);
+	const message = 'Rankseal is stopping for a moment; try again shortly.';
+	const headers = { 'retry-after': '10', connection: 'close' };
+	if (!event.url.pathname.startsWith('/api/'))
+		return new Response(message, { status: 503, headers });
+	return Response.json({ error: { code: 'unavailable', message } }, { status: 503, headers });
+};
+
 /** Start the database, mail, check runner (and demo) with the server, not on the first request. */
 export const init: ServerInit = async () => {
 	await app();
@@ -71,6 +81,7 @@ export const handleError: HandleServerError = ({ error, status, message }) => {
 
 export const handle: Handle = sequence(
 	securityHeaders,
+	draining,
 	originCheck,
 	rejectControlCharacters,
 	session,

@@ -1,21 +1,18 @@
 /**
- * The crash test (issue 8): the built server is killed with SIGKILL at seeded points while many
- * certificates are being issued, then restarted on the same data folder. Wherever the kill
- * lands, the folder must be whole: SQLite's integrity_check says ok, `ledger:verify` passes,
- * every certificate row has its PDF and bundle with the recorded SHA-256, no file lacks a row,
- * no `.part` file remains, and every certificate answered with 201 survived. Where a kill lands
- * depends on the machine's speed; none of the assertions does.
+ * The crash test (issues 8 and 10): the built server is killed with SIGKILL at seeded points while
+ * many certificates are issued, and while many counts files are uploaded at once (multipart and
+ * raw bodies), then restarted on the same data folder. Wherever the kill lands, the folder must
+ * be whole (fault-world.ts `assertWhole`: integrity_check ok, `ledger:verify` passes, every row's
+ * file present with its SHA-256, no file without a row, no `.part` file) and every request
+ * answered 201 survived. Where a kill lands depends on the machine's speed; no assertion does.
  */
-import { spawnSync } from 'node:child_process';
-import { createHash } from 'node:crypto';
-import http from 'node:http';
-import { existsSync, mkdirSync, readdirSync, readFileSync, rmSync, watch } from 'node:fs';
+import { mkdirSync, rmSync, watch } from 'node:fs';
 import path from 'node:path';
-import { QueryTypes } from 'sequelize';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { openDatabase } from '../../src/lib/server/db';
+import { sampledCounts, states, toCountsCsv } from '../../src/lib/certify';
 import { seedApiWorld, type ApiWorld } from './api-world';
 import { addFinishedClaims, type FinishedClaim } from './certificate-world';
+import { assertWhole, send, uniforms, withDatabase } from './fault-world';
 import { startApp, type AppServer } from './server';
 
 const ROUNDS = 4;
@@ -26,98 +23,31 @@ let world: ApiWorld;
 let claims: FinishedClaim[];
 let app: AppServer | null = null;
 const acknowledged = new Set<string>();
+const uploaded = new Set<string>();
 
-/** mulberry32 (T. Ettinger, public domain; common practice): seeded uniforms in [0, 1). */
-function uniforms(seed: number): () => number {
-	let state = seed >>> 0;
-	return () => {
-		state = (state + 0x6d2b79f5) >>> 0;
-		let t = state;
-		t = Math.imul(t ^ (t >>> 15), t | 1);
-		t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-		return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-	};
-}
+const bearer = () => ({ authorization: `Bearer ${world.tokens.lake}` });
 
-const sha256 = (bytes: Uint8Array) => createHash('sha256').update(bytes).digest('hex');
-
-/**
- * Sends an issue request on a connection of its own (a pooled one could outlive a killed server
- * whose port the next one reuses); the status, or 0 when the kill cut the connection.
- */
-function issue(server: AppServer, claim: FinishedClaim): Promise<number> {
+async function issue(server: AppServer, claim: FinishedClaim): Promise<number> {
 	const body = JSON.stringify({ checkId: claim.checkId });
 	const url = `${server.origin}/api/v1/claims/${claim.claimId}/certificates`;
-	const headers = {
-		authorization: `Bearer ${world.tokens.lake}`,
-		'content-type': 'application/json',
-		'content-length': Buffer.byteLength(body)
-	};
-	return new Promise((done) => {
-		const request = http.request(url, { method: 'POST', headers, agent: false }, (response) => {
-			const chunks: Buffer[] = [];
-			response.on('data', (chunk) => chunks.push(chunk));
-			response.on('error', () => done(0));
-			response.on('end', () => {
-				if (!response.complete) return done(0);
-				if (response.statusCode === 201)
-					acknowledged.add(JSON.parse(Buffer.concat(chunks).toString()).id);
-				done(response.statusCode ?? 0);
-			});
-		});
-		request.on('error', () => done(0));
-		request.end(body);
-	});
-}
-
-/** Every file under the folder ([] before the first certificate made it). */
-function filesUnder(folder: string): string[] {
-	return existsSync(folder) ? readdirSync(folder, { recursive: true, encoding: 'utf8' }) : [];
-}
-
-/** Everything the issue promises about the data folder, checked with the server idle. */
-async function assertWhole(dataDir: string) {
-	const database = await openDatabase(path.join(dataDir, 'rankseal.sqlite'));
-	try {
-		const check = await database.sequelize.query('PRAGMA integrity_check', {
-			type: QueryTypes.SELECT
-		});
-		expect(check).toEqual([{ integrity_check: 'ok' }]);
-		const rows = (await database.models.Certificate.findAll()).map((r) => r.get({ plain: true }));
-		const owned = new Set<string>();
-		for (const row of rows) {
-			expect(sha256(readFileSync(path.join(dataDir, row.pdfPath))), row.id).toBe(row.pdfSha256);
-			expect(sha256(readFileSync(path.join(dataDir, row.bundlePath))), row.id).toBe(
-				row.bundleSha256
-			);
-			owned.add(row.pdfPath).add(row.bundlePath);
-		}
-		const stored = filesUnder(path.join(dataDir, 'certificates')).map((f) => `certificates/${f}`);
-		expect(stored.sort()).toEqual([...owned].sort());
-		expect(filesUnder(dataDir).filter((f) => /\.part$|\.tmp$/.test(f))).toEqual([]);
-		const ids = new Set(rows.map((r) => r.id));
-		expect([...acknowledged].filter((id) => !ids.has(id))).toEqual([]);
-	} finally {
-		await database.sequelize.close();
-	}
-	const ledger = spawnSync('npm', ['run', '--silent', 'ledger:verify'], {
-		env: { ...process.env, RANKSEAL_DATA_DIR: dataDir },
-		encoding: 'utf8'
-	});
-	expect(ledger.status, ledger.stdout + ledger.stderr).toBe(0);
-	expect(ledger.stdout).toMatch(/^ledger intact/);
+	const headers = { ...bearer(), 'content-type': 'application/json' };
+	const answer = await send(url, 'POST', { ...headers, 'content-length': body.length }, body);
+	if (answer.status === 201) acknowledged.add(JSON.parse(answer.body).id);
+	return answer.status;
 }
 
 /**
- * Sends the issue requests and kills the server at the target-th change in the certificates
- * folder (files are written as .part, renamed, then the transaction commits), or once all
- * requests are answered when fewer changes come.
+ * Kills the server at the target-th change in the watched folder, or once every request is
+ * answered when fewer changes come; the answers' statuses (0 where the kill cut one).
  */
-async function killWhileIssuing(server: AppServer, target: number): Promise<number[]> {
-	const answered = Promise.all(
-		Array.from({ length: IN_FLIGHT }, (_, i) => issue(server, claims[i % claims.length]))
-	);
-	const watcher = watch(path.join(world.dataDir, 'certificates'));
+async function killDuring(
+	server: AppServer,
+	folder: string,
+	target: number,
+	requests: Promise<number>[]
+): Promise<number[]> {
+	const answered = Promise.all(requests);
+	const watcher = watch(folder, { recursive: true });
 	let seen = 0;
 	await new Promise<void>((reached) => {
 		watcher.on('change', () => ++seen >= target && reached());
@@ -146,26 +76,104 @@ describe('killed while issuing', () => {
 		{ timeout: 600_000 },
 		async () => {
 			const next = uniforms(SEED);
-			mkdirSync(path.join(world.dataDir, 'certificates'), { recursive: true });
+			const folder = path.join(world.dataDir, 'certificates');
+			mkdirSync(folder, { recursive: true });
 			for (let round = 0; round < ROUNDS; round++) {
 				app = await start();
 				// Start-up has swept what the previous kill left; the folder must be whole now.
-				if (round > 0) await assertWhole(world.dataDir);
-				const statuses = await killWhileIssuing(app, 1 + Math.floor(next() * 24));
+				if (round > 0) await assertWhole(world.dataDir, acknowledged);
+				const requests = Array.from({ length: IN_FLIGHT }, (_, i) =>
+					issue(app!, claims[i % claims.length])
+				);
+				// Files are written as .part, renamed, then the transaction commits.
+				const statuses = await killDuring(app, folder, 1 + Math.floor(next() * 24), requests);
 				// 0: cut by the kill; 409: another issue for the claim won the race; never a 500.
-				expect(
-					statuses.filter((s) => ![0, 201, 409].includes(s)),
-					app.output()
-				).toEqual([]);
+				expect(statuses.filter((s) => ![0, 201, 409].includes(s))).toEqual([]);
 			}
 			app = await start();
-			await assertWhole(world.dataDir);
+			await assertWhole(world.dataDir, acknowledged);
 			// After all that, issuing still works, one claim after another.
 			for (const claim of claims) expect(await issue(app, claim), app.output()).toBe(201);
 			await app.stop();
 			app = null;
-			await assertWhole(world.dataDir);
+			await assertWhole(world.dataDir, acknowledged);
 			expect(acknowledged.size).toBeGreaterThanOrEqual(claims.length);
+		}
+	);
+});
+
+/** A counts file of its own for every upload (d = 5, three bases): no two share bytes. */
+let files = 0;
+function nextCountsFile(): string {
+	files += 1;
+	const tables = sampledCounts(states.isotropic(5, 0.9), [0, 1, 2], 20_000, 1000 + files);
+	return toCountsCsv(tables, [`upload ${files}`]);
+}
+
+/** Uploads one file, as multipart (even uploads) or as a raw text/csv body (odd ones). */
+async function upload(server: AppServer, claimId: string, multipart: boolean): Promise<number> {
+	const csv = nextCountsFile();
+	const url = `${server.origin}/api/v1/claims/${claimId}/datasets`;
+	const boundary = `rankseal-crash-${files}`;
+	const body = multipart
+		? `--${boundary}\r\nContent-Disposition: form-data; name="counts"; filename="up${files}.csv"\r\n` +
+			`Content-Type: text/csv\r\n\r\n${csv}\r\n--${boundary}--\r\n`
+		: csv;
+	const type = multipart ? `multipart/form-data; boundary=${boundary}` : 'text/csv';
+	const headers = { ...bearer(), 'content-type': type, 'content-length': Buffer.byteLength(body) };
+	const answer = await send(url, 'POST', headers, body);
+	if (answer.status === 201) uploaded.add(JSON.parse(answer.body).id);
+	return answer.status;
+}
+
+async function draftClaim(server: AppServer, title: string): Promise<string> {
+	const fields = { title, sourceDescription: 'simulated', dimension: 5, method: 'mub-correlation' };
+	const body = JSON.stringify({ ...fields, claimedSchmidtNumber: 3 });
+	const headers = { ...bearer(), 'content-type': 'application/json' };
+	const url = `${server.origin}/api/v1/claims`;
+	const answer = await send(url, 'POST', { ...headers, 'content-length': body.length }, body);
+	expect(answer.status, answer.body).toBe(201);
+	return JSON.parse(answer.body).id;
+}
+
+describe('killed while uploading', () => {
+	it(
+		'leaves each upload stored with its row or not at all, and no temporary file',
+		{ timeout: 600_000 },
+		async () => {
+			const next = uniforms(SEED + 1);
+			app = await start();
+			const targets = [await draftClaim(app, 'Uploads A'), await draftClaim(app, 'Uploads B')];
+			for (let round = 0; round < ROUNDS; round++) {
+				if (round > 0) {
+					app = await start();
+					await assertWhole(world.dataDir, acknowledged);
+				}
+				const requests = Array.from({ length: 2 * IN_FLIGHT }, (_, i) =>
+					upload(app!, targets[i % 2], i % 4 < 2)
+				);
+				// Each upload writes files/<xx>/<sha>.<random>.part, renames it, then commits.
+				const statuses = await killDuring(
+					app,
+					path.join(world.dataDir, 'files'),
+					1 + Math.floor(next() * 30),
+					requests
+				);
+				expect(statuses.filter((s) => ![0, 201].includes(s))).toEqual([]);
+			}
+			app = await start();
+			await assertWhole(world.dataDir, acknowledged);
+			expect(await upload(app, targets[0], true), app.output()).toBe(201);
+			await app.stop();
+			app = null;
+			await assertWhole(world.dataDir, acknowledged);
+			// Every upload answered 201 is there.
+			const rows = await withDatabase(world.dataDir, (database) =>
+				database.models.Dataset.findAll({ attributes: ['id'] })
+			);
+			const ids = new Set(rows.map((r) => r.get('id') as string));
+			expect([...uploaded].filter((id) => !ids.has(id))).toEqual([]);
+			expect(uploaded.size).toBeGreaterThan(0);
 		}
 	);
 });

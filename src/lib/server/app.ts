@@ -12,6 +12,7 @@ import { abortCheckRunner, startCheckRunner } from './checks/runner';
 import { startMailRunner, type MailRunner } from './mail-runner';
 import { serviceKey } from './evidence/keys';
 import { sweepOrphanFiles } from './services/certificate-files';
+import { sweepUploadFiles } from './services/upload-files';
 import { seedDemo } from './demo/seed';
 
 export interface AppServices {
@@ -40,14 +41,16 @@ async function startMail(
 export function app(): Promise<AppServices> {
 	services ??= (async () => {
 		const database = await db();
-		// The signing key exists from the first start; files of an issue cut short are removed.
+		// The signing key exists from the first start; files of an upload or issue cut short go.
 		serviceKey();
-		await sweepOrphanFiles(database);
+		await sweepFiles(database);
 		const lucia = createLucia(database, !dev && config().origin.startsWith('https:'));
 		const mail = await startMail(database);
 		// Checks left queued or running by an earlier process resume now.
 		await startCheckRunner(database);
 		if (config().demo) console.log(`Demo scenario: ${await seedDemo(database, mail.mailer)}`);
+		process.once('SIGTERM', beginStop);
+		process.once('SIGINT', beginStop);
 		// adapter-node emits this once the HTTP server has closed (SIGINT, SIGTERM).
 		process.once('sveltekit:shutdown' as 'beforeExit', () => void shutDown());
 		return { database, lucia, ...mail };
@@ -57,30 +60,58 @@ export function app(): Promise<AppServices> {
 
 /**
  * Stops what app() started — mail, worker threads, database — so that the process can end.
- * Checks cut short stay queued or running and resume at the next start.
+ * Checks cut short are queued again and resume at the next start (checks/runner.ts abort).
  */
 export async function stopApp(): Promise<void> {
 	if (!services) return;
 	const current = await services;
 	services = null;
-	await current.mailRunner.stop();
+	await current.mailRunner.stop(2000);
 	current.mailer.close();
 	await Promise.all([current.mailCatcher?.close(), abortCheckRunner(current.database)]);
 	await closeDb();
 }
 
-/** A last resort if some handle still holds the process: exit this long after the signal. */
-const EXIT_GRACE_MS = 5000;
+/**
+ * The whole stop fits in STOP_BOUND_MS: adapter-node lets requests in flight finish for at most
+ * SHUTDOWN_TIMEOUT seconds (its default, 30, is too long), then the mail runner gets 2 s and the
+ * worker threads and database close. Read by adapter-node after init, so set here.
+ */
+process.env.SHUTDOWN_TIMEOUT ??= '5';
+const STOP_BOUND_MS = 9500;
+let stopping = false;
+
+/** True from SIGTERM/SIGINT on: hooks answer new requests 503 while the server drains. */
+export const isStopping = (): boolean => stopping;
+
+/** A last resort if some handle still holds the process: exit STOP_BOUND_MS after the signal. */
+function beginStop(signal?: string): void {
+	if (stopping) return;
+	stopping = true;
+	// Said after adapter-node's own listener has closed the listening socket (same signal).
+	const said = `${signal}: stopping; no new connections, at most ${STOP_BOUND_MS} ms`;
+	if (signal) setImmediate(() => console.log(said));
+	setTimeout(() => {
+		console.error(`shutdown: something still held the process after ${STOP_BOUND_MS} ms`);
+		process.exit(1);
+	}, STOP_BOUND_MS).unref();
+}
 
 async function shutDown(): Promise<void> {
-	setTimeout(() => {
-		console.error(`shutdown: something still held the process after ${EXIT_GRACE_MS} ms`);
-		process.exit(1);
-	}, EXIT_GRACE_MS).unref();
+	beginStop();
 	try {
 		await stopApp();
 	} catch (error) {
 		console.error('shutdown:', error);
 		process.exitCode = 1;
 	}
+}
+
+/** Start-up sweep: temporary and unowned files go; rows whose files are gone are named loudly. */
+async function sweepFiles(database: Database): Promise<void> {
+	const certificates = await sweepOrphanFiles(database);
+	const uploads = await sweepUploadFiles(database);
+	const removed = certificates.length + uploads.removed.length;
+	if (removed) console.log(`start-up sweep: removed ${removed} file(s) no row owns`);
+	for (const file of uploads.missing) console.error(`start-up sweep: ${file} is missing`);
 }

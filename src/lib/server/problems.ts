@@ -24,7 +24,8 @@ export const PROBLEM_CODES = [
 	'conflict',
 	'too_large',
 	'unsupported_media_type',
-	'rate_limited'
+	'rate_limited',
+	'unavailable'
 ] as const;
 
 export type ProblemCode = (typeof PROBLEM_CODES)[number];

@@ -88,11 +88,18 @@ export class CheckRunner {
 		await Promise.all([this.pool.destroy(), this.readers.destroy()]);
 	}
 
-	/** Stops the threads now; checks cut short stay queued or running and resume at the next start. */
+	/** Stops the threads now; checks cut short are queued again and resume at the next start. */
 	async abort(): Promise<void> {
 		this.stopping = true;
+		const cut = [...this.active.keys()];
 		await Promise.all([this.pool.destroy(), this.readers.destroy()]);
 		await Promise.allSettled([...this.active.values()]);
+		// The rows then say what happened (a SIGKILL leaves them `running`; resume() handles that).
+		if (cut.length)
+			await this.database.models.Check.update(
+				{ status: 'queued', progress: 0, startedAt: null },
+				{ where: { id: cut, status: ['queued', 'running'] } }
+			);
 	}
 
 	private async run(checkId: string): Promise<void> {

@@ -41,7 +41,8 @@ export const schemas = {
 							'bad_input 400 (a field of the body or query), bad_counts 400 (the counts file), ' +
 							'unauthorised 401, forbidden 403 (visible but not yours to do), not_found 404, ' +
 							'conflict 409 (not in a state that allows it, e.g. no counts file yet), too_large 413, ' +
-							'unsupported_media_type 415, rate_limited 429 (see Retry-After).'
+							'unsupported_media_type 415, rate_limited 429 (see Retry-After), ' +
+							'unavailable 503 (the service is stopping; see Retry-After).'
 					},
 					message: {
 						type: 'string',
