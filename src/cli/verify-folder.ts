@@ -11,10 +11,16 @@ import type { EvidenceFiles } from '../lib/evidence/layout';
 import { verifyEvidence } from '../lib/evidence/verify';
 import { reportLines, trustedKeyIds } from './verify-report';
 
-function readFolder(folder: string): EvidenceFiles {
+/**
+ * The bundle's files in the folder. Left out: hidden files (the desktop's own, like .DS_Store)
+ * and the key list given with --keys, which the README says to save beside the bundle.
+ */
+function readFolder(folder: string, keysFile: string | undefined): EvidenceFiles {
 	const files: EvidenceFiles = {};
+	const keys = keysFile ? path.resolve(keysFile) : null;
 	for (const name of readdirSync(folder)) {
 		const file = path.join(folder, name);
+		if (name.startsWith('.') || path.resolve(file) === keys) continue;
 		if (statSync(file).isFile()) files[name] = readFileSync(file);
 	}
 	return files;
@@ -27,7 +33,9 @@ function main(): number {
 	});
 	const here = path.dirname(fileURLToPath(import.meta.url));
 	const folder = positionals[0] ?? (existsSync('manifest.json') ? '.' : here);
-	const report = verifyEvidence(readFolder(folder), { trustedKeyIds: trustedKeyIds(values.keys) });
+	const report = verifyEvidence(readFolder(folder, values.keys), {
+		trustedKeyIds: trustedKeyIds(values.keys)
+	});
 	console.log(reportLines(report).join('\n'));
 	return report.valid ? 0 : 1;
 }

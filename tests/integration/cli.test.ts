@@ -132,6 +132,24 @@ describe('npm run certify (the command line of issue 2)', () => {
 		expect(stdout).toMatch(/not a substitute for peer review/);
 	});
 
+	it('gives the same result on 1 and 3 worker threads as certify() in one thread (engine 2.1.0 blocks)', async () => {
+		// Blocks of resamples each draw from their own stream, so the thread count cannot matter.
+		const args = ['--counts', d7, '--dimension', '7', '--method', 'fidelity-two-basis'];
+		const more = ['--resamples', '4500', '--seed', '12', '--json'];
+		const one = await cli([...args, ...more, '--threads', '1']);
+		const three = await cli([...args, ...more, '--threads', '3']);
+		expect(one.code).toBe(0);
+		expect(three.stdout).toBe(one.stdout);
+		const bytes = readFileSync(d7);
+		const inProcess = certify(parseCounts(bytes, 7), {
+			method: 'fidelity-two-basis',
+			resamples: 4500,
+			seed: 12,
+			inputSha256: sha256Hex(bytes)
+		});
+		expect(JSON.parse(one.stdout)).toEqual(JSON.parse(JSON.stringify(inProcess)));
+	});
+
 	const bad: [string, string[], RegExp][] = [
 		[
 			'a bad count',

@@ -42,10 +42,11 @@ function runBundled(dir = folder, args: string[] = []) {
 	return { status: run.status, out: run.stdout + run.stderr };
 }
 
-/** `npm run --silent verify -- BUNDLE.zip` (the script it runs, through tsx). */
+/** `npm run --silent verify -- BUNDLE.zip` (the script it runs: the launcher and bundle). */
 function runCli(zipFile: string, args: string[] = []) {
-	const tsx = path.resolve('node_modules/.bin/tsx');
-	const run = spawnSync(tsx, ['src/cli/verify.ts', zipFile, ...args], { encoding: 'utf8' });
+	const run = spawnSync(process.execPath, ['scripts/cli.mjs', 'verify', zipFile, ...args], {
+		encoding: 'utf8'
+	});
 	return { status: run.status, out: run.stdout + run.stderr };
 }
 

@@ -23,10 +23,9 @@ let otherCheck: string;
 const sql = (query: string, replacements: Record<string, unknown> = {}) =>
 	world.database.sequelize.query(query, { replacements, type: QueryTypes.RAW });
 
-/** Runs `npm run --silent ledger:verify` (its script, through tsx) against the test's data folder. */
+/** Runs `npm run --silent ledger:verify` (its script: the launcher and bundle) against the test's data folder. */
 function ledgerCli() {
-	const tsx = path.resolve('node_modules/.bin/tsx');
-	const run = spawnSync(tsx, ['src/cli/ledger-verify.ts'], {
+	const run = spawnSync(process.execPath, ['scripts/cli.mjs', 'ledger-verify'], {
 		encoding: 'utf8',
 		env: { ...process.env }
 	});

@@ -139,7 +139,7 @@ describe('the fidelity floor and the cell limits (docs/statistics.md)', () => {
 		expect(s.interval95[1]).toBeGreaterThanOrEqual(s.value);
 		expect(['fidelity-floor', 'fidelity-cell-limits']).toContain(s.boundMethod);
 		expect(s.floorValue).toBeCloseTo(s.value, 9); // white noise: F̃ equals the floor
-		expect(r.engine.version).toBe('2.0.0');
+		expect(r.engine.version).toBe('2.1.0');
 	});
 });
 

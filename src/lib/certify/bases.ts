@@ -49,10 +49,15 @@ export function fourierProblem(d: number, fourier: FourierConvention): string | 
  * cyclic → 0..d for prime d, else 0 and 1. An impossible convention (field, d = 6) has none.
  */
 export function availableBases(d: number, fourier: FourierConvention = DEFAULT_FOURIER): number[] {
-	if (fourierProblem(d, fourier)) return [];
+	return Array.from({ length: basisCount(d, fourier) }, (_, t) => t);
+}
+
+/** How many bases availableBases lists; no array, because the parsers ask once per row. */
+function basisCount(d: number, fourier: FourierConvention): number {
+	if (fourierProblem(d, fourier)) return 0;
 	const pp = primePower(d);
 	const complete = fourier === 'field' ? pp !== null : pp !== null && pp.exponent === 1;
-	return Array.from({ length: complete ? d + 1 : 2 }, (_, t) => t);
+	return complete ? d + 1 : 2;
 }
 
 export function basisExists(
@@ -60,7 +65,7 @@ export function basisExists(
 	t: number,
 	fourier: FourierConvention = DEFAULT_FOURIER
 ): boolean {
-	return Number.isInteger(t) && t >= 0 && t < availableBases(d, fourier).length;
+	return Number.isInteger(t) && t >= 0 && t < basisCount(d, fourier);
 }
 
 /** Basis t exists in dimension d under at least one convention (what a counts file may hold). */

@@ -2,50 +2,23 @@
  * From count tables and a method to a Schmidt-number certificate (witnesses.md §3–§7).
  */
 import normalQuantile from '@stdlib/stats-base-dists-normal-quantile';
-import { hasUnequalDurations } from './cell-model';
-import {
-	DEFAULT_FOURIER,
-	fourierProblem,
-	isFourierConvention,
-	type FourierConvention
-} from './bases';
-import {
-	checkDeclaredFourier,
-	InputError,
-	requireCompleteTables,
-	type CountsDataset
-} from './counts';
+import type { FourierConvention } from './bases';
+import type { DrawSpec, Replicates } from './confidence';
+import type { CountsDataset } from './counts';
 import { claimVerdict, ladderPosition, marginsInStandardErrors, type ClaimVerdict } from './ladder';
-import { CONFIDENCE, RESAMPLES } from './limits';
-import { checkQuantumMarginals, type EntropicSum } from './physical';
-import { checkSeed } from './poisson';
+import type { EntropicSum } from './physical';
+import { planCertification, type CertificationPlan, type CertifyOptions } from './plan';
 import { correlationSumBound, fidelityBound, type StatisticBound } from './statistic-bound';
 import { warningsFor } from './warnings';
 import { noiseScale, visibilityOf } from './visibility';
-import { isMethodId, witnessFamilies, type MethodId, type Trust } from './witnesses';
+import type { MethodId, Trust } from './witnesses';
 
-export const ENGINE_VERSION = '2.0.0';
+export { DEFAULTS, planCertification, type CertificationPlan, type CertifyOptions } from './plan';
 
-export const DEFAULTS = {
-	confidence: CONFIDENCE.default,
-	resamples: RESAMPLES.default,
-	seed: 1
-} as const;
+/** Draws all blocks of replicates of a spec (in any threads) and returns them in order. */
+export type BlockRunner = (spec: DrawSpec, resamples: number, seed: number) => Promise<Replicates>;
 
-export interface CertifyOptions {
-	method: MethodId | string;
-	bases?: number[];
-	/** Which Fourier basis basis 1 is; default: the file's declaration, else cyclic. */
-	fourier?: FourierConvention;
-	confidence?: number;
-	resamples?: number;
-	seed?: number;
-	claim?: number;
-	/** Subtract the file's accidental estimates; the result is then labelled background-subtracted. */
-	subtractAccidentals?: boolean;
-	inputSha256?: string;
-	onProgress?: (fraction: number) => void;
-}
+export const ENGINE_VERSION = '2.1.0';
 
 export interface BoundRung {
 	upToSchmidtNumber: number;
@@ -82,72 +55,37 @@ export interface CertificationResult {
 	engine: { version: string; generator: string; poisson: string; gamma: string };
 }
 
-function checkOptions(options: CertifyOptions, d: number) {
-	if (!isMethodId(options.method)) {
-		throw new InputError(
-			`method must be one of ${Object.keys(witnessFamilies).join(', ')}, got '${options.method}'`
-		);
-	}
-	const confidence = options.confidence ?? DEFAULTS.confidence;
-	if (!(confidence > CONFIDENCE.above && confidence < CONFIDENCE.below))
-		throw new InputError(
-			`confidence must lie strictly between ${CONFIDENCE.above} and ${CONFIDENCE.below}, got ${confidence}`
-		);
-	const resamples = options.resamples ?? DEFAULTS.resamples;
-	if (!Number.isInteger(resamples) || resamples < RESAMPLES.min || resamples > RESAMPLES.max) {
-		throw new InputError(
-			`resamples must be a whole number from ${RESAMPLES.min} to ${RESAMPLES.max}, got ${resamples}`
-		);
-	}
-	const seed = options.seed ?? DEFAULTS.seed;
-	try {
-		checkSeed(seed);
-	} catch (error) {
-		throw new InputError((error as Error).message);
-	}
-	const claim = options.claim;
-	if (claim !== undefined && (!Number.isInteger(claim) || claim < 1 || claim > d)) {
-		throw new InputError(
-			`claim must be a Schmidt number from 1 to the dimension ${d}, got ${claim}`
-		);
-	}
-	return { method: options.method, confidence, resamples, seed, claim };
+export function certify(dataset: CountsDataset, options: CertifyOptions): CertificationResult {
+	const plan = planCertification(dataset, options);
+	return finishCertification(plan);
 }
 
-export function certify(dataset: CountsDataset, options: CertifyOptions): CertificationResult {
-	const d = dataset.dimension;
-	const { method, confidence, resamples, seed, claim } = checkOptions(options, d);
-	const family = witnessFamilies[method];
-	const fourier = fourierOf(dataset, options.fourier);
-	const present = dataset.tables.map((t) => t.basis);
-	const bases = options.bases ?? family.defaultBases(present, d);
-	try {
-		family.checkBases(bases, d, fourier);
-	} catch (error) {
-		throw new InputError(`bases: ${(error as Error).message}`);
-	}
-	requireCompleteTables(dataset, bases, method);
-	const tables = bases.map((t) => dataset.tables.find((x) => x.basis === t)!);
-	const subtract = !!options.subtractAccidentals && tables.some((t) => t.accidentals !== null);
-	if (options.subtractAccidentals && !subtract)
-		throw new InputError('subtracting accidentals needs an accidentals column');
-	const rates = hasUnequalDurations(tables);
-	const entropicSums = rates
-		? []
-		: checkQuantumMarginals(tables, d, family.trust === 'device-dependent' ? ['A', 'B'] : ['B']);
+/** Draws the blocks of replicates with `runBlocks` (worker threads in the CLI): same numbers. */
+export async function certifyInBlocks(
+	dataset: CountsDataset,
+	options: CertifyOptions,
+	runBlocks: BlockRunner
+): Promise<CertificationResult> {
+	const plan = planCertification(dataset, options);
+	const replicates = await runBlocks(plan.draws, plan.resamples, plan.seed);
+	if (replicates.lower.length !== plan.resamples || replicates.upper.length !== plan.resamples)
+		throw new Error(
+			`the block runner returned ${replicates.lower.length} replicates, not ${plan.resamples}`
+		);
+	return finishCertification(plan, replicates);
+}
+
+/** The second half of a check: the bound from the replicates (drawn here unless given), the words. */
+export function finishCertification(
+	plan: CertificationPlan,
+	replicates?: Replicates
+): CertificationResult {
+	const { method, family, d, bases, fourier, tables, confidence, resamples, seed, claim } = plan;
+	const { subtract, rates, entropicSums } = plan;
 	const fidelity = method === 'fidelity-two-basis';
 	const statistic = (fidelity ? fidelityBound : correlationSumBound)({
-		family,
-		tables,
-		d,
-		bases,
-		fourier,
-		confidence,
-		resamples,
-		seed,
-		onProgress: options.onProgress,
-		perCell: subtract || rates,
-		subtractAccidentals: subtract
+		...plan.inputs,
+		replicates
 	});
 	const { value, lower, standardError } = statistic;
 	const bounds = family.bounds(d, bases);
@@ -175,7 +113,7 @@ export function certify(dataset: CountsDataset, options: CertifyOptions): Certif
 		confidence,
 		resamples,
 		seed,
-		inputSha256: options.inputSha256 ?? null,
+		inputSha256: plan.inputSha256,
 		claim:
 			claim === undefined
 				? null
@@ -206,22 +144,12 @@ export function certify(dataset: CountsDataset, options: CertifyOptions): Certif
 		warnings: warningsFor({ method, d, fourier, subtract, rates, resamples, confidence }),
 		engine: {
 			version: ENGINE_VERSION,
-			generator: 'xoroshiro128+ (pure-rand) seeded through SplitMix32, 32-bit uniforms',
+			generator:
+				'xoroshiro128+ (pure-rand), one stream per block of 1000 resamples seeded through SplitMix32 from (seed, block), 32-bit uniforms',
 			poisson:
 				'inversion by sequential search below mean 10, PTRS (Hörmann 1993) from 10 (simulator)',
 			gamma:
-				'Marsaglia–Tsang (2000) with Box–Muller normals; bounds from Beta/Gamma confidence-distribution draws'
+				'−ln of a product of uniforms for whole shapes up to 4, Marsaglia–Tsang (2000) with Box–Muller normals above; bounds from Beta/Gamma confidence-distribution draws'
 		}
 	};
-}
-
-/** The convention in force: the option, else the file's declaration, else cyclic; checked against both. */
-function fourierOf(dataset: CountsDataset, requested: unknown): FourierConvention {
-	if (requested !== undefined && !isFourierConvention(requested))
-		throw new InputError(`fourier must be cyclic or field, got '${String(requested)}'`);
-	const fourier = requested ?? dataset.declaredFourier?.convention ?? DEFAULT_FOURIER;
-	const problem = fourierProblem(dataset.dimension, fourier);
-	if (problem) throw new InputError(problem);
-	checkDeclaredFourier(dataset, fourier, 'the check');
-	return fourier;
 }

@@ -8,7 +8,9 @@
  *   ~ Gamma(n + 1) below and the other way round above (Garwood, Biometrika 28, 437 (1936));
  *   the sum is monotone in those directions. Accidental estimates are taken as exact.
  * Draw order per replicate: the lower replicate's variables, then the upper one's, tables in
- * the claim's basis order (per cell: row-major).
+ * the claim's basis order (per cell: row-major). Engine 2.1.0: replicates come in fixed blocks of
+ * BLOCK_RESAMPLES, block b from its own stream (GammaSampler(seed, b)), so that blocks may run on
+ * any number of threads and give the same numbers.
  */
 import type { CountTable } from './counts';
 import { GammaSampler } from './gamma';
@@ -84,6 +86,33 @@ export function perCellDraws(
 	};
 }
 
+/** Everything a thread needs to rebuild the draws (plain data: it crosses worker boundaries). */
+export interface DrawSpec {
+	kind: 'sufficient' | 'per-cell';
+	tables: CountTable[];
+	d: number;
+	subtractAccidentals: boolean;
+	weights?: DrawWeights;
+}
+
+export function drawsOf(spec: DrawSpec): MatchingSumDraws {
+	return spec.kind === 'sufficient'
+		? sufficientDraws(spec.tables, spec.d, spec.weights)
+		: perCellDraws(spec.tables, spec.d, spec.subtractAccidentals, spec.weights);
+}
+
+/** Gamma variates one replicate (lower and upper) costs: a guide for splitting work over threads. */
+export function drawsPerReplicate(spec: DrawSpec): number {
+	return spec.kind === 'sufficient' ? 8 * spec.tables.length : 2 * spec.d ** 2 * spec.tables.length;
+}
+
+/** Resamples per block; part of the reproducibility contract (changing it changes the numbers). */
+export const BLOCK_RESAMPLES = 1000;
+
+export function blockCount(resamples: number): number {
+	return Math.ceil(resamples / BLOCK_RESAMPLES);
+}
+
 export interface Replicates {
 	lower: Float64Array;
 	upper: Float64Array;
@@ -96,16 +125,44 @@ export interface ReplicateOptions {
 	onProgress?: (fraction: number) => void;
 }
 
-/** Replicate r = 0, 1, …: its lower draw, then its upper draw, from one seeded source. */
-export function drawReplicates(draws: MatchingSumDraws, options: ReplicateOptions): Replicates {
-	const g = new GammaSampler(options.seed);
-	const lower = new Float64Array(options.resamples);
-	const upper = new Float64Array(options.resamples);
-	const step = Math.max(1, Math.floor(options.resamples / 100));
-	for (let r = 0; r < options.resamples; r++) {
-		lower[r] = draws.lower(g);
-		upper[r] = draws.upper(g);
-		if (options.onProgress && (r + 1) % step === 0) options.onProgress((r + 1) / options.resamples);
+/**
+ * Blocks [from, to) of a run of `resamples`: block b holds replicates b·BLOCK_RESAMPLES onwards,
+ * each its lower draw, then its upper draw, from the block's stream. Returns that slice.
+ */
+export function drawBlocks(
+	draws: MatchingSumDraws,
+	resamples: number,
+	seed: number,
+	from: number,
+	to: number,
+	onReplicate?: () => void
+): Replicates {
+	const first = from * BLOCK_RESAMPLES;
+	const end = Math.min(resamples, to * BLOCK_RESAMPLES);
+	const lower = new Float64Array(Math.max(0, end - first));
+	const upper = new Float64Array(lower.length);
+	for (let b = from; b < to; b++) {
+		const g = new GammaSampler(seed, b);
+		const stop = Math.min(end, (b + 1) * BLOCK_RESAMPLES);
+		for (let r = b * BLOCK_RESAMPLES; r < stop; r++) {
+			lower[r - first] = draws.lower(g);
+			upper[r - first] = draws.upper(g);
+			onReplicate?.();
+		}
 	}
 	return { lower, upper };
+}
+
+/** All blocks of a run in this thread (the server's check worker, the browser, the tests). */
+export function drawReplicates(draws: MatchingSumDraws, options: ReplicateOptions): Replicates {
+	const { resamples, onProgress } = options;
+	const step = Math.max(1, Math.floor(resamples / 100));
+	let done = 0;
+	const tick = onProgress
+		? () => {
+				done++;
+				if (done % step === 0) onProgress(done / resamples);
+			}
+		: undefined;
+	return drawBlocks(draws, resamples, options.seed, 0, blockCount(resamples), tick);
 }

@@ -69,76 +69,139 @@ function readHeader(fields: string[], line: number): Map<Column, number> {
 	return columns;
 }
 
+/** An outcome label in 0..d − 1 from field `index` (0-based) of a row. */
+function outcome(fields: string[], index: number, name: Column, line: number, d: number): number {
+	const value = wholeNumber(fields[index], name, line, index + 1);
+	if (value >= d) throw new InputError(`${name} ${value} is outside 0..${d - 1}`, line, index + 1);
+	return value;
+}
+
+interface ParseState {
+	d: number;
+	columns: Map<Column, number> | null;
+	tables: Map<number, CountTable>;
+	/** Per basis, the line that first filled each cell (0: not yet), for the duplicate message. */
+	firstLine: Map<number, Int32Array>;
+}
+
 export function parseCountsCsv(input: Uint8Array | string, dimension: number): CountsDataset {
 	const d = checkDimension(dimension);
-	const lines = decodeCountsText(input).split(/\r?\n/);
-	let columns: Map<Column, number> | null = null;
-	const tables = new Map<number, CountTable>();
-	const firstLine = new Map<string, number>();
-	for (let i = 0; i < lines.length; i++) {
-		const lineNo = i + 1;
-		const raw = lines[i].trim();
-		if (raw === '' || raw.startsWith('#')) continue;
-		const fields = raw.split(',').map((f) => f.trim());
-		if (!columns) {
-			columns = readHeader(fields, lineNo);
-			continue;
-		}
-		if (fields.length !== columns.size) {
-			throw new InputError(`expected ${columns.size} fields, found ${fields.length}`, lineNo);
-		}
-		const at = (name: Column) => columns!.get(name)!;
-		const basis = wholeNumber(fields[at('basis')], 'basis', lineNo, at('basis') + 1);
-		checkBasis(d, basis, 'basis', lineNo, at('basis') + 1);
-		const a = wholeNumber(fields[at('outcome_a')], 'outcome_a', lineNo, at('outcome_a') + 1);
-		const b = wholeNumber(fields[at('outcome_b')], 'outcome_b', lineNo, at('outcome_b') + 1);
-		for (const [value, name] of [
-			[a, 'outcome_a'],
-			[b, 'outcome_b']
-		] as const) {
-			if (value >= d)
-				throw new InputError(`${name} ${value} is outside 0..${d - 1}`, lineNo, at(name) + 1);
-		}
-		const key = `${basis},${a},${b}`;
-		const earlier = firstLine.get(key);
-		if (earlier !== undefined) {
-			throw new InputError(
-				`duplicate cell basis=${basis}, outcome_a=${a}, outcome_b=${b} (first on line ${earlier})`,
-				lineNo
-			);
-		}
-		firstLine.set(key, lineNo);
-		let table = tables.get(basis);
-		if (!table) {
-			table = emptyTable(d, basis, {
-				accidentals: columns.has('accidentals'),
-				durations: columns.has('duration_s')
-			});
-			tables.set(basis, table);
-		}
-		const cell = a * d + b;
-		table.present[cell] = 1;
-		table.counts[cell] = wholeNumber(fields[at('counts')], 'counts', lineNo, at('counts') + 1);
-		if (table.accidentals) {
-			table.accidentals[cell] = decimal(
-				fields[at('accidentals')],
-				'accidentals',
-				lineNo,
-				at('accidentals') + 1,
-				false
-			);
-		}
-		if (table.durations) {
-			table.durations[cell] = decimal(
-				fields[at('duration_s')],
-				'duration_s',
-				lineNo,
-				at('duration_s') + 1,
-				true
-			);
-		}
+	const text = decodeCountsText(input);
+	const state: ParseState = { d, columns: null, tables: new Map(), firstLine: new Map() };
+	const values = new Float64Array(REQUIRED.length + OPTIONAL.length);
+	let lineNo = 0;
+	for (let start = 0; start <= text.length;) {
+		let end = text.indexOf('\n', start);
+		if (end < 0) end = text.length;
+		lineNo++;
+		if (!plainRow(state, text, start, end, lineNo, values))
+			anyRow(state, text.slice(start, end), lineNo);
+		start = end + 1;
 	}
-	if (!columns) throw new InputError('the file has no header line');
-	if (tables.size === 0) throw new InputError('the file has a header but no data rows');
-	return { dimension: d, tables: [...tables.values()].sort((x, y) => x.basis - y.basis) };
+	if (!state.columns) throw new InputError('the file has no header line');
+	if (state.tables.size === 0) throw new InputError('the file has a header but no data rows');
+	const tables = [...state.tables.values()];
+	return { dimension: d, tables: tables.sort((x, y) => x.basis - y.basis) };
+}
+
+/**
+ * The common row, stored without making strings: whole numbers only, no spaces, an existing
+ * basis, outcomes in range, a new cell, no extra columns. False leaves the row to anyRow, which
+ * stores it or words the error.
+ */
+function plainRow(
+	state: ParseState,
+	text: string,
+	start: number,
+	end: number,
+	lineNo: number,
+	values: Float64Array
+): boolean {
+	const { columns, d } = state;
+	if (!columns || columns.size !== REQUIRED.length) return false;
+	if (end > start && text.charCodeAt(end - 1) === 13) end--; // CRLF
+	let field = 0;
+	let value = 0;
+	let digits = 0;
+	for (let i = start; i <= end; i++) {
+		const c = i < end ? text.charCodeAt(i) : 44;
+		if (c >= 48 && c <= 57 && digits < 15) {
+			value = value * 10 + (c - 48);
+			digits++;
+		} else if (c === 44 && digits > 0 && field < REQUIRED.length) {
+			values[field++] = value;
+			value = 0;
+			digits = 0;
+		} else return false;
+	}
+	if (field !== REQUIRED.length) return false;
+	const basis = values[columns.get('basis')!];
+	const a = values[columns.get('outcome_a')!];
+	const b = values[columns.get('outcome_b')!];
+	const table = state.tables.get(basis);
+	const filledBy = state.firstLine.get(basis);
+	if (!table || !filledBy || a >= d || b >= d || filledBy[a * d + b] !== 0) return false;
+	filledBy[a * d + b] = lineNo;
+	table.present[a * d + b] = 1;
+	table.counts[a * d + b] = values[columns.get('counts')!];
+	return true;
+}
+
+/** Any line: blank, comment, header or row, with every check worded (line and column). */
+function anyRow(state: ParseState, line: string, lineNo: number): void {
+	const { d, tables, firstLine } = state;
+	const raw = line.trim();
+	if (raw === '' || raw.startsWith('#')) return;
+	const fields = raw.split(',').map((f) => f.trim());
+	const columns = state.columns;
+	if (!columns) {
+		state.columns = readHeader(fields, lineNo);
+		return;
+	}
+	if (fields.length !== columns.size) {
+		throw new InputError(`expected ${columns.size} fields, found ${fields.length}`, lineNo);
+	}
+	const at = (name: Column) => columns.get(name)!;
+	const basis = wholeNumber(fields[at('basis')], 'basis', lineNo, at('basis') + 1);
+	if (!tables.has(basis)) checkBasis(d, basis, 'basis', lineNo, at('basis') + 1);
+	const a = outcome(fields, at('outcome_a'), 'outcome_a', lineNo, d);
+	const b = outcome(fields, at('outcome_b'), 'outcome_b', lineNo, d);
+	let table = tables.get(basis);
+	if (!table) {
+		table = emptyTable(d, basis, {
+			accidentals: columns.has('accidentals'),
+			durations: columns.has('duration_s')
+		});
+		tables.set(basis, table);
+		firstLine.set(basis, new Int32Array(d * d));
+	}
+	const cell = a * d + b;
+	const filledBy = firstLine.get(basis)!;
+	if (filledBy[cell] !== 0) {
+		throw new InputError(
+			`duplicate cell basis=${basis}, outcome_a=${a}, outcome_b=${b} (first on line ${filledBy[cell]})`,
+			lineNo
+		);
+	}
+	filledBy[cell] = lineNo;
+	table.present[cell] = 1;
+	table.counts[cell] = wholeNumber(fields[at('counts')], 'counts', lineNo, at('counts') + 1);
+	if (table.accidentals) {
+		table.accidentals[cell] = decimal(
+			fields[at('accidentals')],
+			'accidentals',
+			lineNo,
+			at('accidentals') + 1,
+			false
+		);
+	}
+	if (table.durations) {
+		table.durations[cell] = decimal(
+			fields[at('duration_s')],
+			'duration_s',
+			lineNo,
+			at('duration_s') + 1,
+			true
+		);
+	}
 }

@@ -136,6 +136,31 @@ export function requireCompleteTables(
 }
 
 /** Decodes bytes as UTF-8 (rejecting invalid sequences) and drops a leading byte-order mark. */
+/** The line holding the first byte that is not UTF-8: the longest valid prefix, by bisection. */
+function lineOfFirstBadByte(bytes: Uint8Array): number {
+	const valid = (end: number) => {
+		try {
+			new TextDecoder('utf-8', { fatal: true }).decode(bytes.subarray(0, end), { stream: true });
+			return true;
+		} catch {
+			return false;
+		}
+	};
+	// A sequence cut off by the end of the file fails only when the stream closes.
+	let bad = bytes.length;
+	if (!valid(bytes.length)) {
+		let good = 0;
+		while (bad - good > 1) {
+			const middle = (good + bad) >>> 1;
+			if (valid(middle)) good = middle;
+			else bad = middle;
+		}
+	}
+	let line = 1;
+	for (let i = 0; i < bad - 1; i++) if (bytes[i] === 0x0a) line++;
+	return line;
+}
+
 export function decodeCountsText(input: Uint8Array | string): string {
 	const size =
 		typeof input === 'string' ? new TextEncoder().encode(input).length : input.byteLength;
@@ -149,7 +174,7 @@ export function decodeCountsText(input: Uint8Array | string): string {
 		text =
 			typeof input === 'string' ? input : new TextDecoder('utf-8', { fatal: true }).decode(input);
 	} catch {
-		throw new InputError('the file is not valid UTF-8 text');
+		throw new InputError('not valid UTF-8 text', lineOfFirstBadByte(input as Uint8Array));
 	}
 	if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
 	if (text.trim() === '') throw new InputError('the file is empty');

@@ -15,8 +15,13 @@ export {
 } from './bases';
 export {
 	certify,
+	certifyInBlocks,
 	DEFAULTS,
 	ENGINE_VERSION,
+	finishCertification,
+	planCertification,
+	type BlockRunner,
+	type CertificationPlan,
 	type CertificationResult,
 	type CertifyOptions,
 	type BoundRung

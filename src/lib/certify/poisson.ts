@@ -78,8 +78,26 @@ type Generator = ReturnType<typeof xoroshiro128plusFromState>;
  * close to 1: the first Poisson draw of seed 1, 2, 3 … was then far in the upper tail.
  */
 export function seededGenerator(seed: number): Generator {
-	let a = checkSeed(seed) | 0;
-	const next = () => {
+	const next = splitMix32(checkSeed(seed));
+	return fromState([next(), next(), next(), next()]);
+}
+
+/**
+ * The stream of block `block` of resamples (engine 2.1.0): state words 0–1 are the first two
+ * SplitMix32 outputs on the seed, words 2–3 the first two on the block index, so every (seed,
+ * block) pair has its own state and a block's numbers do not depend on which thread draws it.
+ */
+export function blockGenerator(seed: number, block: number): Generator {
+	if (!Number.isInteger(block) || block < 0 || block > MAX_SEED)
+		throw new RangeError(`block must be a whole number from 0 to ${MAX_SEED}, got ${block}`);
+	const fromSeed = splitMix32(checkSeed(seed));
+	const fromBlock = splitMix32(block);
+	return fromState([fromSeed(), fromSeed(), fromBlock(), fromBlock()]);
+}
+
+function splitMix32(start: number): () => number {
+	let a = start | 0;
+	return () => {
 		a = (a + 0x9e3779b9) | 0;
 		let t = a ^ (a >>> 16);
 		t = Math.imul(t, 0x21f0aaad);
@@ -87,7 +105,9 @@ export function seededGenerator(seed: number): Generator {
 		t = Math.imul(t, 0x735a2d97);
 		return (t ^ (t >>> 15)) | 0;
 	};
-	const state = [next(), next(), next(), next()];
+}
+
+function fromState(state: number[]): Generator {
 	if (!state.some((w) => w !== 0)) state[0] = 1; // the all-zero state is the generator's fixed point
 	return xoroshiro128plusFromState(state);
 }

@@ -12,10 +12,10 @@ import {
 import { perCellModel } from './cell-model';
 import {
 	drawReplicates,
-	perCellDraws,
-	sufficientDraws,
-	type DrawWeights,
-	type ReplicateOptions
+	drawsOf,
+	type DrawSpec,
+	type ReplicateOptions,
+	type Replicates
 } from './confidence';
 import type { CountTable } from './counts';
 import { fidelityCellLimits } from './fidelity-limits';
@@ -50,6 +50,8 @@ export interface BoundInputs extends ReplicateOptions {
 	/** Rates or accidental subtraction: per-cell draws, no exact cell limits. */
 	perCell: boolean;
 	subtractAccidentals: boolean;
+	/** Replicates drawn elsewhere (worker threads) from boundDrawSpec; else drawn here. */
+	replicates?: Replicates;
 }
 
 const sorted = (x: Float64Array) => Float64Array.from(x).sort();
@@ -60,15 +62,29 @@ function pointModel(o: BoundInputs, statistic: (p: Float64Array[]) => number): P
 		: o.family.sufficientModel(o.tables, o.d, o.bases, o.fourier);
 }
 
-function draws(o: BoundInputs, weights?: DrawWeights) {
-	return o.perCell
-		? perCellDraws(o.tables, o.d, o.subtractAccidentals, weights)
-		: sufficientDraws(o.tables, o.d, weights);
+type SpecInputs = Pick<BoundInputs, 'perCell' | 'tables' | 'd' | 'subtractAccidentals'>;
+
+/**
+ * What a bound draws: correlation sums the plain matching sum; the fidelity method lower
+ * replicates of P_0 + P_1 (the floor + 1) and upper ones of P_0 + d·P_1 (F̃·d + 1 + Γ).
+ */
+export function boundDrawSpec(o: SpecInputs, fidelity: boolean): DrawSpec {
+	return {
+		kind: o.perCell ? 'per-cell' : 'sufficient',
+		tables: o.tables,
+		d: o.d,
+		subtractAccidentals: o.subtractAccidentals,
+		weights: fidelity ? { lower: [1, 1], upper: [1, o.d] } : undefined
+	};
+}
+
+function replicatesOf(o: BoundInputs, fidelity: boolean): Replicates {
+	return o.replicates ?? drawReplicates(drawsOf(boundDrawSpec(o, fidelity)), o);
 }
 
 export function correlationSumBound(o: BoundInputs): StatisticBound {
 	const model = pointModel(o, (p) => o.family.statistic(p, o.d, o.bases, o.fourier));
-	const reps = drawReplicates(draws(o), o);
+	const reps = replicatesOf(o, false);
 	const [lower, upper] = [sorted(reps.lower), sorted(reps.upper)];
 	const exact = !o.perCell;
 	return {
@@ -88,8 +104,7 @@ export function fidelityBound(o: BoundInputs): StatisticBound {
 	const { d } = o;
 	const alpha = 1 - o.confidence;
 	const model = pointModel(o, (p) => o.family.statistic(p, d, o.bases, o.fourier));
-	// Lower replicates of P_0 + P_1 (the floor + 1), upper replicates of P_0 + d·P_1 (F̃·d + 1 + Γ).
-	const reps = drawReplicates(draws(o, { lower: [1, 1], upper: [1, d] }), o);
+	const reps = replicatesOf(o, true);
 	const [lower, upper] = [sorted(reps.lower), sorted(reps.upper)];
 	const floorLower = below(lower, alpha / 2) - 1;
 	const cells = (error: number) =>

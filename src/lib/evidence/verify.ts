@@ -106,6 +106,11 @@ function checkContents(s: State) {
 			throw new Failure(name, 'its SHA-256 differs from the signed file list');
 		s.passed.push(name);
 	}
+	// A file the signed list does not name was put there by someone else: the bundle is not as made.
+	const signed = new Set([...Object.keys(contents.files), BUNDLE_FILES.contents]);
+	signed.add(BUNDLE_FILES.contentsSignature);
+	const planted = Object.keys(s.files).find((name) => !signed.has(name));
+	if (planted) throw new Failure(planted, 'the file is not in the signed file list');
 }
 
 function checkManifest(s: State) {

@@ -127,6 +127,8 @@ export async function readCountsUpload(
 		const fallback = type === 'text/csv' ? 'counts.csv' : 'counts.json';
 		return { bytes, originalName: url.searchParams.get('name')?.trim() || fallback };
 	}
+	// Read what was sent first: answering before the body is in resets the connection mid-upload.
+	await readBody(request, MAX_COUNTS_FILE_BYTES).catch(() => undefined);
 	throw new ApiError(
 		415,
 		'unsupported_media_type',

@@ -11,11 +11,17 @@ import { labelDifference, type FourierConvention } from '../bases';
 import type { PoissonModel } from '../model';
 import type { WitnessFamily } from './types';
 
-/** For each cell a·d + b of the computational table, the group difference a − b. */
+const differenceCache = new Map<string, Int32Array>();
+
+/** For each cell a·d + b of the computational table, the group difference a − b (cached: read-only). */
 function differenceOfCells(d: number, fourier?: FourierConvention): Int32Array {
+	const key = `${d}:${fourier ?? ''}`;
+	const cached = differenceCache.get(key);
+	if (cached) return cached;
 	const minus = labelDifference(d, fourier);
 	const out = new Int32Array(d * d);
 	for (let a = 0; a < d; a++) for (let b = 0; b < d; b++) out[a * d + b] = minus(a, b);
+	differenceCache.set(key, out);
 	return out;
 }
 

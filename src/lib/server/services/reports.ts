@@ -8,6 +8,7 @@ import { booleanFrom, type ValueSource } from '$lib/schema-numbers';
 import { accountIdOf, type Actor } from '../access/actor';
 import { requireClaim } from '../access/permissions';
 import type { Database } from '../db';
+import { writeTransaction } from '../db/transactions';
 import { RECOMMENDATIONS, type ReportAttributes } from '../db/models/Report';
 import { mailLink, type Mailer } from '../mail';
 import { audit } from './audit';
@@ -74,7 +75,7 @@ export async function saveReport(
 	const claim = await requireClaim(database, actor, actor.claimId, 'file-report');
 	const { recommendation, comments, submit } = reportInputSchema.parse(input);
 	const { Report } = database.models;
-	const id = await database.sequelize.transaction(async (transaction) => {
+	const id = await writeTransaction(database, async (transaction) => {
 		const row = await Report.findOne({ where: { reviewLinkId: actor.linkId }, transaction });
 		if (row?.get('submittedAt'))
 			throw new ConflictError('This report has been filed and can no longer be changed.');
@@ -147,7 +148,7 @@ export async function releaseReport(
 	if (share.editorId !== accountIdOf(actor)) throw new NotFoundError('No such report.');
 	if (!report.submittedAt) throw new ConflictError('The referee has not filed this report yet.');
 	if (!report.releasedAt) {
-		await database.sequelize.transaction(async (transaction) => {
+		await writeTransaction(database, async (transaction) => {
 			await Report.update({ releasedAt: new Date() }, { where: { id: reportId }, transaction });
 			const entry = { actorId: accountIdOf(actor), groupId: claim.groupId, subjectType: 'report' };
 			await audit(

@@ -8,6 +8,7 @@ import { accountIdOf, type Actor, type RefereeActor } from '../access/actor';
 import { requireClaim } from '../access/permissions';
 import { config } from '../config';
 import type { Database } from '../db';
+import { writeTransaction } from '../db/transactions';
 import type { ReviewLinkAttributes } from '../db/models/ReviewLink';
 import { audit } from './audit';
 import { NotFoundError } from './errors';
@@ -89,7 +90,7 @@ export async function createReviewLink(
 	const id = newId();
 	const expiresAt = new Date(Date.now() + (expiresInDays ?? REVIEW_LINK_DEFAULT_DAYS) * DAY_MS);
 	const createdBy = accountIdOf(actor)!;
-	await database.sequelize.transaction(async (transaction) => {
+	await writeTransaction(database, async (transaction) => {
 		await database.models.ReviewLink.create(
 			{
 				id,
@@ -128,7 +129,7 @@ export async function revokeReviewLink(
 	});
 	const share = await editorShare(database, actor, link.claimId).catch(() => null);
 	if (!share || share.id !== link.shareId) throw new NotFoundError('No such review link.');
-	await database.sequelize.transaction(async (transaction) => {
+	await writeTransaction(database, async (transaction) => {
 		await ReviewLink.update(
 			{ revokedAt: new Date() },
 			{ where: { id: linkId, revokedAt: null }, transaction }

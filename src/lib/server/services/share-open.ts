@@ -7,6 +7,7 @@ import { UniqueConstraintError } from 'sequelize';
 import type { Actor } from '../access/actor';
 import { hashPassword } from '../auth';
 import type { Database } from '../db';
+import { writeTransaction } from '../db/transactions';
 import { PASSWORD_MAX_LENGTH, PASSWORD_MIN_LENGTH } from './accounts';
 import { audit } from './audit';
 import { NotFoundError } from './errors';
@@ -50,7 +51,7 @@ export async function openShare(database: Database, actor: Actor, token: string)
 	if (user.accountRole !== 'editor')
 		throw new FieldError('share', 'This address belongs to an account that is not an editor’s.');
 	if (share.editorId !== user.id) {
-		await database.sequelize.transaction(async (transaction) => {
+		await writeTransaction(database, async (transaction) => {
 			await database.models.Share.update(
 				{ editorId: user.id },
 				{ where: { id: share.id }, transaction }
@@ -80,7 +81,7 @@ export async function signUpEditor(
 	const userId = newId();
 	const email = share.editorEmail;
 	try {
-		await database.sequelize.transaction(async (transaction) => {
+		await writeTransaction(database, async (transaction) => {
 			const { User, Share } = database.models;
 			const account = { id: userId, email, name, passwordHash, accountRole: 'editor' as const };
 			await User.create({ ...account, emailVerifiedAt: new Date() }, { transaction });

@@ -6,6 +6,7 @@ import { z } from 'zod';
 import { accountIdOf, type Actor } from '../access/actor';
 import { requireClaim } from '../access/permissions';
 import type { Database } from '../db';
+import { writeTransaction } from '../db/transactions';
 import type { ShareAttributes } from '../db/models/Share';
 import { mailLink, type Mailer } from '../mail';
 import { audit } from './audit';
@@ -66,7 +67,7 @@ export async function shareClaim(
 	const sharedBy = accountIdOf(actor)!;
 	const { token, hash } = newSecret('shr_');
 	const id = newId();
-	await database.sequelize.transaction(async (transaction) => {
+	await writeTransaction(database, async (transaction) => {
 		const editor = await User.findOne({ where: { email, accountRole: 'editor' }, transaction });
 		const editorId = (editor?.get('id') as string | undefined) ?? null;
 		await Share.create(
@@ -123,7 +124,7 @@ export async function withdrawShare(
 	const claim = await requireClaim(database, actor, found.claimId, 'share').catch((problem) => {
 		throw problem instanceof NotFoundError ? new NotFoundError('No such share.') : problem;
 	});
-	await database.sequelize.transaction(async (transaction) => {
+	await writeTransaction(database, async (transaction) => {
 		const now = new Date();
 		await Share.update(
 			{ withdrawnAt: now },

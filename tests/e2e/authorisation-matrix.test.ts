@@ -1,0 +1,199 @@
+/**
+ * The authorisation matrix: every page, form action and API method (found in src/routes, so a new
+ * one with no row fails here by name) × every kind of caller, over real HTTP against the built app.
+ * Each column has its own seeded kit; rows run top to bottom, so the ones that take things away
+ * and the ones that end the session come last.
+ *
+ * Codes: the status, or L for a 303 to the sign-in page. Callers: anon (nobody), othr (lead of
+ * another group), auth (the claim's author), lead (its group's lead), edNo / edSh (an editor the
+ * claim is not / is shared with), rfOk / rfEx / rfRv (a referee with a valid, expired or revoked
+ * review link, and no cookie), tkOk / tkEx / tkRv (the author's API token: valid, expired,
+ * revoked; sent as a bearer header on every route), admn (an admin in no group). Callers without a
+ * review link use a well-formed unknown one on review routes.
+ *
+ * A new route: add its line below where it belongs in the order (reads before changes, changes
+ * before removals); if it has a new [parameter] or needs a body, add it in matrix-cells.ts.
+ */
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { CALLERS, cellRequest, outcome, type Caller } from './matrix-cells';
+import { seedMatrixWorld, type MatrixWorld } from './matrix-world';
+import { discoverRoutes } from './routes';
+import { startApp, type AppServer } from './server';
+
+const MATRIX = `
+route                                           anon othr auth lead edNo edSh rfOk rfEx rfRv tkOk tkEx tkRv admn
+# public pages and documents
+GET /                                           200  200  200  200  200  200  200  200  200  200  200  200  200
+GET /login                                      200  303  303  303  303  303  200  200  200  200  200  200  303
+GET /signup                                     200  303  303  303  303  303  200  200  200  200  200  200  303
+GET /reset                                      200  200  200  200  200  200  200  200  200  200  200  200  200
+GET /seal                                       200  200  200  200  200  200  200  200  200  200  200  200  200
+GET /seal/[id]                                  200  200  200  200  200  200  200  200  200  200  200  200  200
+GET /invite/[token]                             200  200  200  200  200  200  200  200  200  200  200  200  200
+GET /reset/[token]                              200  200  200  200  200  200  200  200  200  200  200  200  200
+GET /verify/[token]                             200  200  200  200  200  200  200  200  200  200  200  200  200
+GET /shared/[token]                             200  200  200  200  200  200  200  200  200  200  200  200  200
+GET /api/v1/openapi.json                        200  200  200  200  200  200  200  200  200  200  200  200  200
+GET /api/v1/signing-keys                        200  200  200  200  200  200  200  200  200  200  200  200  200
+GET /api/v1/ledger                              200  200  200  200  200  200  200  200  200  200  200  200  200
+# signed-in pages
+GET /account                                    L    200  200  200  200  200  L    L    L    L    L    L    200
+GET /group                                      L    200  200  200  200  200  L    L    L    L    L    L    200
+GET /group/[id]                                 L    404  200  200  404  404  L    L    L    L    L    L    404
+GET /claims                                     L    200  200  200  200  200  L    L    L    L    L    L    200
+GET /claims/new                                 L    200  200  200  200  200  L    L    L    L    L    L    200
+GET /claims/[id]                                L    404  200  200  404  200  L    L    L    L    L    L    404
+GET /claims/[id]/edit                           L    404  200  200  404  403  L    L    L    L    L    L    404
+GET /claims/[id]/sharing                        L    404  200  200  404  403  L    L    L    L    L    L    404
+GET /claims/[id]/checks/[checkId]               L    404  200  200  404  200  L    L    L    L    L    L    404
+GET /claims/[id]/checks/[checkId]/counts        404  404  200  200  404  200  404  404  404  404  404  404  404
+GET /claims/[id]/checks/[checkId]/result.json   404  404  200  200  404  200  404  404  404  404  404  404  404
+GET /claims/[id]/certificates/[certificateId]   L    404  200  200  404  200  L    L    L    L    L    L    404
+GET /archive                                    L    200  200  200  200  200  L    L    L    L    L    L    200
+GET /editor                                     L    200  200  200  200  200  L    L    L    L    L    L    200
+GET /settings/tokens                            L    200  200  200  200  200  L    L    L    L    L    L    200
+GET /admin/users                                L    403  403  403  403  403  L    L    L    L    L    L    200
+GET /admin/outbox                               L    403  403  403  403  403  L    L    L    L    L    L    200
+GET /admin/outbox/[id]                          L    403  403  403  403  403  L    L    L    L    L    L    200
+# review links
+GET /review/[token]                             404  404  404  404  404  404  200  404  404  404  404  404  404
+GET /api/v1/review/[token]                      404  404  404  404  404  404  200  404  404  404  404  404  404
+GET /api/v1/review/[token]/bundle               404  404  404  404  404  404  200  404  404  404  404  404  404
+GET /api/v1/review/[token]/checks/[checkId]     404  404  404  404  404  404  200  404  404  404  404  404  404
+GET /api/v1/review/[token]/report               404  404  404  404  404  404  200  404  404  404  404  404  404
+# API reads
+GET /api/v1/claims                              401  200  200  200  200  200  401  401  401  200  401  401  200
+GET /api/v1/claims/[id]                         401  404  200  200  404  200  401  401  401  200  401  401  404
+GET /api/v1/claims/[id]/datasets                401  404  200  200  404  200  401  401  401  200  401  401  404
+GET /api/v1/claims/[id]/certificates            401  404  200  200  404  200  401  401  401  200  401  401  404
+GET /api/v1/claims/[id]/shares                  401  404  200  200  404  403  401  401  401  200  401  401  404
+GET /api/v1/checks/[id]                         401  404  200  200  404  200  401  401  401  200  401  401  404
+GET /api/v1/certificates/[id]                   401  404  200  200  404  200  401  401  401  200  401  401  404
+GET /api/v1/certificates/[id]/pdf               401  404  200  200  404  200  401  401  401  200  401  401  404
+GET /api/v1/certificates/[id]/bundle            401  404  200  200  404  200  401  401  401  200  401  401  404
+GET /api/v1/archive                             401  200  200  200  404  404  401  401  401  200  401  401  404
+GET /api/v1/tokens                              401  200  200  200  200  200  401  401  401  403  401  401  200
+# things that add
+POST /login?/login                              400  303  303  303  303  303  400  400  400  400  400  400  303
+POST /signup?/signup                            303  303  303  303  303  303  303  303  303  303  303  303  303
+POST /reset?/request                            303  303  303  303  303  303  303  303  303  303  303  303  303
+POST /seal?/bundle                              200  200  200  200  200  200  200  200  200  200  200  200  200
+POST /account?/resend                           L    303  303  303  303  303  L    L    L    L    L    L    303
+POST /group/[id]?/invite                        L    404  403  303  404  404  L    L    L    L    L    L    404
+POST /claims/new?/create                        L    303  303  303  403  403  L    L    L    L    L    L    403
+POST /api/v1/claims                             401  201  201  201  403  403  401  401  401  201  401  401  403
+POST /group?/create                             L    303  303  303  303  303  L    L    L    L    L    L    303
+POST /claims/[id]/edit?/save                    L    404  303  303  404  404  L    L    L    L    L    L    404
+PUT /api/v1/claims/[id]                         401  404  200  200  404  404  401  401  401  200  401  401  404
+POST /claims/[id]?/upload                       L    404  303  303  404  403  L    L    L    L    L    L    404
+POST /api/v1/claims/[id]/datasets               401  404  201  201  404  403  401  401  401  201  401  401  404
+POST /claims/[id]?/check                        L    404  303  303  404  403  L    L    L    L    L    L    404
+POST /api/v1/claims/[id]/checks                 401  404  202  202  404  403  401  401  401  202  401  401  404
+POST /claims/[id]/checks/[checkId]?/issue       L    404  303  303  404  403  L    L    L    L    L    L    404
+POST /api/v1/claims/[id]/certificates           401  404  201  201  404  403  401  401  401  201  401  401  404
+POST /claims/[id]/sharing?/share                L    404  303  303  404  403  L    L    L    L    L    L    404
+POST /api/v1/claims/[id]/shares                 401  404  201  201  404  403  401  401  401  201  401  401  404
+POST /editor?/createLink                        L    404  403  403  404  200  L    L    L    L    L    L    404
+POST /api/v1/claims/[id]/review-links           401  404  403  403  404  201  401  401  401  403  401  401  404
+POST /review/[token]?/rerun                     404  404  404  404  404  404  303  404  404  404  404  404  404
+POST /api/v1/review/[token]/checks              404  404  404  404  404  404  202  404  404  404  404  404  404
+POST /review/[token]?/report                    404  404  404  404  404  404  303  404  404  404  404  404  404
+POST /api/v1/review/[token]/report              404  404  404  404  404  404  200  404  404  404  404  404  404
+POST /editor?/release                           L    404  403  403  404  200  L    L    L    L    L    L    404
+POST /api/v1/reports/[id]/release               401  404  403  403  404  200  401  401  401  403  401  401  404
+POST /settings/tokens?/create                   L    200  200  200  200  200  L    L    L    L    L    L    200
+POST /api/v1/tokens                             401  201  201  201  201  201  401  401  401  403  401  401  201
+POST /admin/outbox/[id]?/requeue                L    403  403  403  403  403  L    L    L    L    L    L    303
+POST /shared/[token]?/signup                    303  303  303  303  303  303  303  303  303  303  303  303  303
+POST /invite/[token]?/accept                    L    400  400  400  400  400  L    L    L    L    L    L    400
+POST /verify/[token]?/confirm                   L    303  303  303  303  303  L    L    L    L    L    L    303
+POST /reset/[token]?/reset                      L    L    L    L    L    L    L    L    L    L    L    L    L
+# things that take away (each column on its own kit)
+POST /claims/[id]?/removeDataset                L    404  303  303  404  403  L    L    L    L    L    L    404
+DELETE /api/v1/claims/[id]/datasets/[datasetId] 401  404  204  204  404  403  401  401  401  204  401  401  404
+POST /editor?/revokeLink                        L    404  403  403  404  200  L    L    L    L    L    L    404
+DELETE /api/v1/review-links/[id]                401  404  403  403  404  200  401  401  401  403  401  401  404
+POST /claims/[id]/sharing?/withdraw             L    404  303  303  404  403  L    L    L    L    L    L    404
+DELETE /api/v1/shares/[id]                      401  404  200  200  404  403  401  401  401  200  401  401  404
+POST /settings/tokens?/revoke                   L    404  303  404  404  404  L    L    L    L    L    L    404
+DELETE /api/v1/tokens/[id]                      401  404  204  404  404  404  401  401  401  403  401  401  404
+POST /group/[id]?/revoke                        L    404  403  303  404  404  L    L    L    L    L    L    404
+POST /group/[id]?/role                          L    404  403  303  404  404  L    L    L    L    L    L    404
+POST /group/[id]?/remove                        L    404  403  303  404  404  L    L    L    L    L    L    404
+POST /admin/users?/role                         L    403  403  403  403  403  L    L    L    L    L    L    303
+POST /archive?/withdraw                         L    404  303  303  404  403  L    L    L    L    L    L    404
+POST /api/v1/claims/[id]/withdraw               401  404  200  200  404  404  401  401  401  200  401  401  404
+# last: these end the caller's session
+POST /invite/[token]?/switch                    L    L    L    L    L    L    L    L    L    L    L    L    L
+POST /account?/signoutEverywhere                L    L    L    L    L    L    L    L    L    L    L    L    L
+POST /account?/signout                          L    L    L    L    L    L    L    L    L    L    L    L    L
+`;
+
+interface Row {
+	route: string;
+	expected: string[];
+}
+
+function parseMatrix(text: string): Row[] {
+	const lines = text.split('\n').filter((line) => line.trim() && !line.startsWith('#'));
+	const [header, ...rows] = lines;
+	expect(header.split(/\s+/).slice(1)).toEqual([...CALLERS]);
+	return rows.map((line) => {
+		const cells = line.trim().split(/\s+/);
+		const route = cells.slice(0, 2).join(' ');
+		expect(cells.length, `${route}: one code per caller`).toBe(CALLERS.length + 2);
+		return { route, expected: cells.slice(2) };
+	});
+}
+
+const rows = parseMatrix(MATRIX);
+let app: AppServer;
+let world: MatrixWorld;
+
+beforeAll(async () => {
+	world = await seedMatrixWorld(CALLERS);
+	app = await startApp({ RANKSEAL_DATA_DIR: world.dataDir });
+}, 600_000);
+
+afterAll(async () => {
+	await app?.stop();
+});
+
+describe('the authorisation matrix', () => {
+	it('has one row for every page, form action and API method, and no other rows', () => {
+		const listed = rows.map((row) => row.route);
+		expect(new Set(listed).size, 'a route is listed twice').toBe(listed.length);
+		expect([...listed].sort()).toEqual(discoverRoutes());
+	});
+
+	it('answers every caller as the table says', async () => {
+		const actual: string[][] = [];
+		// Columns are separate kits, so one row's callers may ask at once.
+		for (const { route } of rows) {
+			const codes = await Promise.all(
+				CALLERS.map(async (caller: Caller) => {
+					const { url, init } = cellRequest(app.origin, route, caller, world.kits[caller]);
+					const response = await fetch(url, init);
+					await response.arrayBuffer();
+					return outcome(response);
+				})
+			);
+			actual.push(codes);
+		}
+		const width = Math.max(...rows.map((row) => row.route.length)) + 1;
+		const line = (route: string, codes: string[]) =>
+			route.padEnd(width) +
+			codes
+				.map((code) => code.padEnd(4))
+				.join(' ')
+				.trimEnd();
+		const wrong = rows
+			.map((row, i) => ({ row, codes: actual[i] }))
+			.filter(({ row, codes }) => codes.join() !== row.expected.join())
+			.map(
+				({ row, codes }) =>
+					`expected ${line(row.route, row.expected)}\n     got ${line(row.route, codes)}`
+			);
+		expect(wrong.join('\n'), app.output().slice(-2000)).toBe('');
+	}, 600_000);
+});
