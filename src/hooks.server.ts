@@ -1,10 +1,10 @@
-import type { Handle, ServerInit } from '@sveltejs/kit';
+import type { Handle, HandleServerError, ServerInit } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
 import { app, isStopping } from '$lib/server/app';
-import { formOriginCheck } from '$lib/server/api';
 import { ANONYMOUS } from '$lib/server/access/actor';
 import { reviewLink } from '$lib/server/access/review-handle';
-import { rejectControlCharacters } from '$lib/server/request-guards';
+import { originCheck, rejectControlCharacters } from '$lib/server/request-guards';
+import { securityHeaders } from '$lib/server/response-headers';
 import { authenticate } from '$lib/server/services/tokens';
 
 /**
@@ -68,9 +68,21 @@ export const init: ServerInit = async () => {
 	await app();
 };
 
+/** A body over BODY_SIZE_LIMIT (form posts meet it) in our words; anything else is logged. */
+export const handleError: HandleServerError = ({ error, status, message }) => {
+	if (status === 413)
+		return {
+			code: 'too_large',
+			message: 'What was sent is larger than this server accepts; nothing of it was kept.'
+		};
+	if (status !== 404) console.error(error);
+	return { message };
+};
+
 export const handle: Handle = sequence(
+	securityHeaders,
 	draining,
-	formOriginCheck,
+	originCheck,
 	rejectControlCharacters,
 	session,
 	bearer,

@@ -88,7 +88,8 @@ export async function startApp(env: Record<string, string> = {}): Promise<AppSer
 			...env,
 			PORT: String(port),
 			HOST: '127.0.0.1',
-			ORIGIN: origin
+			// A test may name another ORIGIN (https, to see Secure cookies); requests still go to `origin`.
+			ORIGIN: env.ORIGIN ?? origin
 		},
 		stdio: ['ignore', 'pipe', 'pipe']
 	});

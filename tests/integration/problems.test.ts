@@ -62,7 +62,10 @@ afterAll(async () => {
 
 // The handlers read only these fields of the request event; each route types its own event.
 function event(actor: Actor, url: string, init?: RequestInit, params = {}): never {
-	const request = new Request(url, { method: 'POST', ...init });
+	// A text body is JSON unless the call says otherwise: JSON endpoints answer 415 to other types.
+	const json = typeof init?.body === 'string' && !init.headers;
+	const headers = json ? { 'content-type': 'application/json' } : undefined;
+	const request = new Request(url, { method: 'POST', headers, ...init });
 	const locals = { actor, user: null, session: null };
 	return { locals, url: new URL(url), params, request } as never;
 }

@@ -39,7 +39,8 @@ afterAll(async () => {
 
 function event(actor: Actor, method: string, body?: unknown, params = {}): never {
 	const url = 'http://localhost/api/v1/tokens';
-	const init = body === undefined ? { method } : { method, body: JSON.stringify(body) };
+	const headers = { 'content-type': 'application/json' };
+	const init = body === undefined ? { method } : { method, headers, body: JSON.stringify(body) };
 	const locals = { actor, user: null, session: null };
 	return { locals, url: new URL(url), params, request: new Request(url, init) } as never;
 }

@@ -18,6 +18,7 @@ import {
 } from '$lib/certify';
 import { basisProblem } from '$lib/certify/bases';
 import { MAX_SEED } from '$lib/certify/poisson';
+import { booleanFrom, numberFrom, wholeNumber, type ValueSource } from '$lib/schema-numbers';
 import { CLAIM_STATES } from './states';
 
 export { CLAIM_STATES } from './states';
@@ -33,35 +34,38 @@ export const CLAIM_SORTS = [
 const blankToUndefined = (value: unknown) =>
 	typeof value === 'string' && value.trim() === '' ? undefined : value;
 
-const wholeNumber = (label: string, min: number, max: number) =>
-	z.coerce
-		.number({ error: `${label} must be a number.` })
-		.int(`${label} must be a whole number.`)
-		.min(min, `${label} must be at least ${min}.`)
-		.max(max, `${label} must be at most ${max}.`);
-
 /** A whole number a claim needs: blank or missing reads as "not given", not as 0 (too small). */
-const requiredWholeNumber = (label: string, missing: string, min: number, max: number) =>
+const requiredWholeNumber = (
+	label: string,
+	missing: string,
+	min: number,
+	max: number,
+	source: ValueSource
+) =>
 	z.preprocess(
 		(value, ctx) => {
 			const blank = value == null || (typeof value === 'string' && value.trim() === '');
 			if (blank) ctx.addIssue({ code: 'custom', message: missing, input: value });
 			return value;
 		},
-		wholeNumber(label, min, max)
+		wholeNumber(label, min, max, source)
 	);
 
-/** "0,1,2", "0 1", ["0", "1"] or [0, 1] → [0, 1, …]; blank → undefined (the method's default). */
-const basesField = z.preprocess(
-	(value) => {
-		if (typeof value === 'string') value = value.split(/[\s,]+/).filter((part) => part !== '');
-		if (Array.isArray(value)) return value.length ? value : undefined;
-		return value;
-	},
-	z
-		.array(wholeNumber('Each basis', 0, 256), { error: 'Bases must be a list of basis numbers.' })
-		.optional()
-);
+/** Forms: "0,1,2", "0 1" or ["0", "1"]; JSON: [0, 1] only. Empty → undefined (the default). */
+const basesField = (source: ValueSource) =>
+	z.preprocess(
+		(value) => {
+			if (source === 'form' && typeof value === 'string')
+				value = value.split(/[\s,]+/).filter((part) => part !== '');
+			if (Array.isArray(value)) return value.length ? value : undefined;
+			return value;
+		},
+		z
+			.array(wholeNumber('Each basis', 0, 256, source), {
+				error: 'Bases must be a list of basis numbers.'
+			})
+			.optional()
+	);
 
 /** An engine message as a sentence for a form: capital first letter, full stop. */
 const sentence = (reason: string) => reason.charAt(0).toUpperCase() + reason.slice(1) + '.';
@@ -83,85 +87,98 @@ export const CLAIM_FIELDS = [
 	'manuscriptReference'
 ] as const;
 
-export const claimInputSchema = z
-	.object({
-		groupId: z.preprocess(blankToUndefined, z.string().max(100).optional()),
-		title: z
-			.string({ error: 'Give the claim a title.' })
-			.trim()
-			.min(1, 'Give the claim a title.')
-			.max(200, 'Keep the title under 200 characters.'),
-		sourceDescription: z
-			.string({ error: 'Describe the source.' })
-			.trim()
-			.min(1, 'Describe the source.')
-			.max(5000, 'Keep the source description under 5000 characters.'),
-		dimension: requiredWholeNumber('The dimension', 'Give the local dimension d.', 2, 256),
-		method: z.enum(METHOD_IDS, { error: `Choose a method: ${METHOD_IDS.join(', ')}.` }),
-		bases: basesField,
-		fourier: z.preprocess(
-			blankToUndefined,
-			z
-				.enum(FOURIER_CONVENTIONS, {
-					error: `The Fourier convention must be ${FOURIER_CONVENTIONS.join(' or ')}.`
-				})
-				.optional()
-		),
-		claimedSchmidtNumber: requiredWholeNumber(
-			'The claimed Schmidt number',
-			'Give the claimed Schmidt number.',
-			1,
-			256
-		),
-		manuscriptReference: z
-			.string()
-			.trim()
-			.max(300, 'Keep the manuscript reference under 300 characters.')
-			.nullish()
-			.transform((value) => value || null)
-	})
-	.superRefine((claim, ctx) => {
-		const d = claim.dimension;
-		if (claim.claimedSchmidtNumber > d) {
-			ctx.addIssue({
-				code: 'custom',
-				path: ['claimedSchmidtNumber'],
-				message: `The claimed Schmidt number cannot exceed the dimension (${d}).`
-			});
-		}
-		const fourier = claim.fourier ?? DEFAULT_FOURIER;
-		const problem = fourierProblem(d, fourier);
-		if (problem) {
-			ctx.addIssue({ code: 'custom', path: ['fourier'], message: sentence(problem) });
-			return;
-		}
-		if (!claim.bases) return;
-		const available = availableBases(d, fourier);
-		const missing = claim.bases.filter((b) => !available.includes(b));
-		if (missing.length) {
-			const reason = basisProblem(d, missing[0], fourier) ?? '';
-			ctx.addIssue({
-				code: 'custom',
-				path: ['bases'],
-				message: `${sentence(reason)} Available with fourier=${fourier}: ${available.join(', ')}.`
-			});
-			return;
-		}
-		try {
-			witnessFamilies[claim.method].checkBases(claim.bases, d, fourier);
-		} catch (error) {
-			ctx.addIssue({
-				code: 'custom',
-				path: ['bases'],
-				message: sentence((error as Error).message)
-			});
-		}
-	})
-	.transform((claim) => ({
-		...claim,
-		bases: claim.bases ?? defaultBasesFor(claim.method, claim.dimension),
-		fourier: claim.fourier ?? DEFAULT_FOURIER
-	}));
+/** A claim as a form (text, read as numbers) or a JSON body (numbers as sent) gives it. */
+const claimInput = (source: ValueSource) =>
+	z
+		.object({
+			groupId: z.preprocess(blankToUndefined, z.string().max(100).optional()),
+			title: z
+				.string({ error: 'Give the claim a title.' })
+				.trim()
+				.min(1, 'Give the claim a title.')
+				.max(200, 'Keep the title under 200 characters.'),
+			sourceDescription: z
+				.string({ error: 'Describe the source.' })
+				.trim()
+				.min(1, 'Describe the source.')
+				.max(5000, 'Keep the source description under 5000 characters.'),
+			dimension: requiredWholeNumber(
+				'The dimension',
+				'Give the local dimension d.',
+				2,
+				256,
+				source
+			),
+			method: z.enum(METHOD_IDS, { error: `Choose a method: ${METHOD_IDS.join(', ')}.` }),
+			bases: basesField(source),
+			fourier: z.preprocess(
+				blankToUndefined,
+				z
+					.enum(FOURIER_CONVENTIONS, {
+						error: `The Fourier convention must be ${FOURIER_CONVENTIONS.join(' or ')}.`
+					})
+					.optional()
+			),
+			claimedSchmidtNumber: requiredWholeNumber(
+				'The claimed Schmidt number',
+				'Give the claimed Schmidt number.',
+				1,
+				256,
+				source
+			),
+			manuscriptReference: z
+				.string()
+				.trim()
+				.max(300, 'Keep the manuscript reference under 300 characters.')
+				.nullish()
+				.transform((value) => value || null)
+		})
+		.superRefine((claim, ctx) => {
+			const d = claim.dimension;
+			if (claim.claimedSchmidtNumber > d) {
+				ctx.addIssue({
+					code: 'custom',
+					path: ['claimedSchmidtNumber'],
+					message: `The claimed Schmidt number cannot exceed the dimension (${d}).`
+				});
+			}
+			const fourier = claim.fourier ?? DEFAULT_FOURIER;
+			const problem = fourierProblem(d, fourier);
+			if (problem) {
+				ctx.addIssue({ code: 'custom', path: ['fourier'], message: sentence(problem) });
+				return;
+			}
+			if (!claim.bases) return;
+			const available = availableBases(d, fourier);
+			const missing = claim.bases.filter((b) => !available.includes(b));
+			if (missing.length) {
+				const reason = basisProblem(d, missing[0], fourier) ?? '';
+				ctx.addIssue({
+					code: 'custom',
+					path: ['bases'],
+					message: `${sentence(reason)} Available with fourier=${fourier}: ${available.join(', ')}.`
+				});
+				return;
+			}
+			try {
+				witnessFamilies[claim.method].checkBases(claim.bases, d, fourier);
+			} catch (error) {
+				ctx.addIssue({
+					code: 'custom',
+					path: ['bases'],
+					message: sentence((error as Error).message)
+				});
+			}
+		})
+		.transform((claim) => ({
+			...claim,
+			bases: claim.bases ?? defaultBasesFor(claim.method, claim.dimension),
+			fourier: claim.fourier ?? DEFAULT_FOURIER
+		}));
+
+export const claimInputSchema = claimInput('form');
+/** The API's claim body: the same rules, numbers only as JSON numbers. */
+export const claimJsonSchema = claimInput('json');
 
 /** A valid claim, with its bases filled in. */
 export type ClaimInput = z.output<typeof claimInputSchema>;
@@ -186,35 +203,35 @@ export const claimQuerySchema = z.object({
 		blankToUndefined,
 		z.enum(['asc', 'desc'], { error: 'Order must be asc or desc.' }).optional()
 	),
-	page: z.preprocess(blankToUndefined, wholeNumber('The page', 1, 1_000_000).optional()),
-	pageSize: z.preprocess(blankToUndefined, wholeNumber('The page size', 1, 100).optional())
+	page: z.preprocess(blankToUndefined, wholeNumber('The page', 1, 1_000_000, 'form').optional()),
+	pageSize: z.preprocess(blankToUndefined, wholeNumber('The page size', 1, 100, 'form').optional())
 });
 
 export type ClaimQuery = z.output<typeof claimQuerySchema>;
 
 const confidenceRange = `Confidence must lie strictly between ${CONFIDENCE.above} and ${CONFIDENCE.below}.`;
 
-export const checkRequestSchema = z.object({
-	datasetId: z.preprocess(blankToUndefined, z.string().max(100).optional()),
-	resamples: z.preprocess(
-		blankToUndefined,
-		wholeNumber('Resamples', RESAMPLES.min, RESAMPLES.max).optional()
-	),
-	confidence: z.preprocess(
-		blankToUndefined,
-		z.coerce
-			.number({ error: 'Confidence must be a number.' })
-			.gt(CONFIDENCE.above, confidenceRange)
-			.lt(CONFIDENCE.below, confidenceRange)
-			.optional()
-	),
-	seed: z.preprocess(blankToUndefined, wholeNumber('The seed', 1, MAX_SEED).optional()),
-	// A form checkbox sends "on" or nothing; the API sends a boolean.
-	subtractAccidentals: z.preprocess(
-		(v) => (v === 'on' || v === 'true' ? true : v === '' || v === 'false' ? false : v),
-		z.boolean({ error: 'subtractAccidentals must be true or false.' }).optional()
-	)
-});
+/** A form's text is trimmed to "not given"; a JSON body leaves a field out instead. */
+const optionalFrom = <T extends z.ZodType>(schema: T, source: ValueSource) =>
+	source === 'form' ? z.preprocess(blankToUndefined, schema.optional()) : schema.optional();
+
+const checkRequest = (source: ValueSource) =>
+	z.object({
+		datasetId: z.preprocess(blankToUndefined, z.string().max(100).optional()),
+		resamples: optionalFrom(wholeNumber('Resamples', RESAMPLES.min, RESAMPLES.max, source), source),
+		confidence: optionalFrom(
+			numberFrom('Confidence', source)
+				.gt(CONFIDENCE.above, confidenceRange)
+				.lt(CONFIDENCE.below, confidenceRange),
+			source
+		),
+		seed: optionalFrom(wholeNumber('The seed', 1, MAX_SEED, source), source),
+		subtractAccidentals: booleanFrom('subtractAccidentals', source).optional()
+	});
+
+export const checkRequestSchema = checkRequest('form');
+/** The API's check body: numbers and booleans only as JSON sends them. */
+export const checkRequestJsonSchema = checkRequest('json');
 
 export type CheckRequest = z.output<typeof checkRequestSchema>;
 

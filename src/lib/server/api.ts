@@ -1,14 +1,15 @@
 /**
  * Helpers for the JSON API (routes/api/v1): the caller requirement (a session cookie or a bearer
- * token, both resolved into locals.actor), bounded body reading, and the form-origin check.
+ * token, both resolved into locals.actor) and bounded body reading: JSON bodies and counts uploads.
  * Errors answer through problems.ts, as everywhere.
  */
-import { text, type Handle, type RequestEvent, type RequestHandler } from '@sveltejs/kit';
+import type { RequestEvent, RequestHandler } from '@sveltejs/kit';
 import type { ZodType } from 'zod';
 import { MAX_COUNTS_FILE_BYTES } from '$lib/certify';
 import type { Actor } from './access/actor';
 import { app } from './app';
 import type { Database } from './db';
+import { isJsonType, JSON_BODY_LIMIT, jsonValue, notJson } from './json-body';
 import { ApiError, apiProblem, problemResponse } from './problems';
 
 export { ApiError, describeIssues } from './problems';
@@ -38,40 +39,49 @@ export function apiEndpoint(handler: (context: Context) => Promise<Response>): R
 	};
 }
 
-/** The request body, refusing more than `limit` bytes (413) whatever Content-Length says. */
+/** Kit's adapter errors the body stream with a 413 once BODY_SIZE_LIMIT is passed. */
+const overLimit = (error: unknown) =>
+	typeof error === 'object' && error !== null && (error as { status?: unknown }).status === 413;
+
+/**
+ * The request body, refusing more than `limit` bytes (413) whatever Content-Length says. An
+ * over-size body is read to its end and dropped, not cut off: cancelling the stream would reset
+ * the connection before the client sees the 413. Kit's BODY_SIZE_LIMIT bounds that reading.
+ */
 export async function readBody(request: Request, limit: number): Promise<Uint8Array<ArrayBuffer>> {
 	const tooLarge = () =>
 		new ApiError(413, 'too_large', `The body is larger than the limit of ${limit} bytes.`);
-	if (Number(request.headers.get('content-length') ?? 0) > limit) throw tooLarge();
-	if (!request.body) return new Uint8Array(0);
+	let over = Number(request.headers.get('content-length') ?? 0) > limit;
+	if (!request.body) {
+		if (over) throw tooLarge();
+		return new Uint8Array(0);
+	}
 	const chunks: Uint8Array<ArrayBuffer>[] = [];
 	let size = 0;
 	const reader = request.body.getReader();
 	for (;;) {
-		const { done, value } = await reader.read();
+		const { done, value } = await reader.read().catch((error: unknown) => {
+			throw overLimit(error) ? tooLarge() : error;
+		});
 		if (done) break;
 		size += value.byteLength;
-		if (size > limit) {
-			await reader.cancel();
-			throw tooLarge();
-		}
-		chunks.push(value);
+		over ||= size > limit;
+		if (!over) chunks.push(value);
 	}
+	if (over) throw tooLarge();
 	return Buffer.concat(chunks);
 }
 
-/** A JSON body (blank counts as `{}`) validated by the schema; 400 with field names otherwise. */
+/**
+ * A JSON body validated by the schema: 415 unless it is declared as JSON, 400 naming the field
+ * for a number written loosely or a value of the wrong kind. A blank body is `{}`, whatever its type.
+ */
 export async function readJson<T>(request: Request, schema: ZodType<T>): Promise<T> {
-	const text = new TextDecoder().decode(await readBody(request, 1024 * 1024)).trim();
-	let value: unknown = {};
-	if (text) {
-		try {
-			value = JSON.parse(text);
-		} catch {
-			throw new ApiError(400, 'bad_input', 'The body is not valid JSON.');
-		}
-	}
-	return schema.parse(value);
+	const type = request.headers.get('content-type');
+	const text = new TextDecoder().decode(await readBody(request, JSON_BODY_LIMIT)).trim();
+	if (!text) return schema.parse({});
+	if (!isJsonType(type)) throw notJson(type);
+	return schema.parse(jsonValue(text));
 }
 
 const MULTIPART_OVERHEAD = 64 * 1024;
@@ -125,34 +135,3 @@ export async function readCountsUpload(
 		'Send the counts as multipart/form-data (field "counts"), text/csv or application/json.'
 	);
 }
-
-const FORM_TYPES = [
-	'application/x-www-form-urlencoded',
-	'multipart/form-data',
-	'text/plain',
-	'application/x-sveltekit-formdata'
-];
-
-/**
- * Kit's cross-site form check, except for /api/ calls that carry a bearer token: a browser
- * cannot add that header to a cross-site form, and such calls ignore cookies. Kit's own check
- * refuses every multipart upload from a script (no Origin header). To use it, set
- * `kit.csrf.trustedOrigins: ['*']` in svelte.config.js and put this handle first in hooks.
- */
-export const formOriginCheck: Handle = async ({ event, resolve }) => {
-	const { request, url } = event;
-	const type = (request.headers.get('content-type') ?? '').split(';')[0].trim().toLowerCase();
-	const changing = ['POST', 'PUT', 'PATCH', 'DELETE'].includes(request.method);
-	const bearer =
-		url.pathname.startsWith('/api/') &&
-		/^Bearer\s/i.test(request.headers.get('authorization') ?? '');
-	if (
-		FORM_TYPES.includes(type) &&
-		changing &&
-		!bearer &&
-		request.headers.get('origin') !== url.origin
-	) {
-		return text(`Cross-site ${request.method} form submissions are forbidden`, { status: 403 });
-	}
-	return resolve(event);
-};

@@ -4,7 +4,7 @@
  */
 import { readFile } from 'node:fs/promises';
 import type { CertificationResult } from '$lib/certify';
-import { checkRequestSchema } from '$lib/claims/schema';
+import { checkRequestJsonSchema, checkRequestSchema } from '$lib/claims/schema';
 import { firstDifference } from '$lib/evidence/compare';
 import type { Actor, RefereeActor } from '../access/actor';
 import { requireClaim } from '../access/permissions';
@@ -20,6 +20,8 @@ import { ownReport, type ReportView } from './reports';
 
 /** A referee chooses only the seed; everything else is the certified check's. */
 export const refereeCheckSchema = checkRequestSchema.pick({ seed: true }).strict();
+/** The API's body: the seed as a JSON number. */
+export const refereeCheckJsonSchema = checkRequestJsonSchema.pick({ seed: true }).strict();
 export type RefereeCheckInput = { seed?: number | string | null };
 
 /** How a re-run compares with the certified check. */

@@ -4,6 +4,7 @@
  */
 import { Op } from 'sequelize';
 import { z } from 'zod';
+import { booleanFrom, type ValueSource } from '$lib/schema-numbers';
 import { accountIdOf, type Actor } from '../access/actor';
 import { requireClaim } from '../access/permissions';
 import type { Database } from '../db';
@@ -15,14 +16,21 @@ import { ConflictError, NotFoundError } from './errors';
 import { newId } from './ids';
 import { sendNotice } from './notices';
 
-export const reportInputSchema = z.object({
-	recommendation: z.enum(RECOMMENDATIONS, {
-		error: 'Choose sound, needs-revision or unsound.'
-	}),
-	comments: z.string().trim().max(50_000, 'Keep the comments under 50 000 characters.'),
-	/** false keeps it as a draft; true files it for good. */
-	submit: z.preprocess((v) => v === true || v === 'true' || v === 'on', z.boolean()).default(true)
-});
+const reportInput = (source: ValueSource) =>
+	z.object({
+		recommendation: z.enum(RECOMMENDATIONS, {
+			error: 'Choose sound, needs-revision or unsound.'
+		}),
+		comments: z.string().trim().max(50_000, 'Keep the comments under 50 000 characters.'),
+		/** false keeps it as a draft; true files it for good. */
+		submit:
+			source === 'form'
+				? z.preprocess((v) => v === true || v === 'true' || v === 'on', z.boolean()).default(true)
+				: booleanFrom('submit', 'json').default(true)
+	});
+export const reportInputSchema = reportInput('form');
+/** The API's body: submit as JSON's true or false only. */
+export const reportJsonSchema = reportInput('json');
 export type ReportInput = z.input<typeof reportInputSchema>;
 
 export type ReportState = 'draft' | 'submitted' | 'released';

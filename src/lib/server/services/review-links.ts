@@ -3,6 +3,7 @@
  * claim. The token (rvw_ + 32 random bytes) is shown once; only its SHA-256 is stored.
  */
 import { z } from 'zod';
+import { numberFrom, type ValueSource } from '$lib/schema-numbers';
 import { accountIdOf, type Actor, type RefereeActor } from '../access/actor';
 import { requireClaim } from '../access/permissions';
 import { config } from '../config';
@@ -17,21 +18,24 @@ export const REVIEW_LINK_DEFAULT_DAYS = 30;
 export const REVIEW_LINK_MAX_DAYS = 180;
 const DAY_MS = 24 * 60 * 60 * 1000;
 
-export const reviewLinkInputSchema = z.object({
-	label: z.preprocess(
-		(v) => (typeof v === 'string' && v.trim() === '' ? undefined : v),
-		z.string().trim().max(200, 'Keep the label under 200 characters.').optional()
-	),
-	expiresInDays: z.preprocess(
-		(v) => (v === '' || v === null ? undefined : v),
-		z.coerce
-			.number({ error: 'Days must be a whole number.' })
-			.int('Days must be a whole number.')
-			.min(1, 'A link lasts at least 1 day.')
-			.max(REVIEW_LINK_MAX_DAYS, `A link lasts at most ${REVIEW_LINK_MAX_DAYS} days.`)
-			.optional()
-	)
-});
+const reviewLinkInput = (source: ValueSource) =>
+	z.object({
+		label: z.preprocess(
+			(v) => (typeof v === 'string' && v.trim() === '' ? undefined : v),
+			z.string().trim().max(200, 'Keep the label under 200 characters.').optional()
+		),
+		expiresInDays: z.preprocess(
+			(v) => (source === 'form' && (v === '' || v === null) ? undefined : v),
+			numberFrom('Days', source)
+				.int('Days must be a whole number.')
+				.min(1, 'A link lasts at least 1 day.')
+				.max(REVIEW_LINK_MAX_DAYS, `A link lasts at most ${REVIEW_LINK_MAX_DAYS} days.`)
+				.optional()
+		)
+	});
+export const reviewLinkInputSchema = reviewLinkInput('form');
+/** The API's body: the days as a JSON number, never as text. */
+export const reviewLinkJsonSchema = reviewLinkInput('json');
 export type ReviewLinkInput = z.input<typeof reviewLinkInputSchema>;
 
 export type ReviewLinkState = 'active' | 'expired' | 'revoked';

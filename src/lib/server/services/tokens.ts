@@ -5,6 +5,7 @@
  */
 import { Op, type Transaction } from 'sequelize';
 import { z } from 'zod';
+import { numberFrom, type ValueSource } from '$lib/schema-numbers';
 import type { Actor, TokenActor } from '../access/actor';
 import { decideToken, requireService } from '../access/permissions';
 import type { Database } from '../db';
@@ -21,24 +22,28 @@ const DAY_MS = 24 * 60 * 60 * 1000;
 /** lastUsedAt is refreshed at most this often, so that busy scripts do not write on every call. */
 const LAST_USED_RESOLUTION_MS = 60_000;
 
-export const tokenInputSchema = z.object({
-	name: z
-		.string({ error: 'Name the token.' })
-		.trim()
-		.min(1, 'Name the token.')
-		.max(80, 'Keep the name under 80 characters.'),
-	/** Whole days until it is refused, or 'never'. */
-	expiresInDays: z
-		.union([
-			z.literal('never'),
-			z.coerce
-				.number({ error: 'Give the days until it expires.' })
-				.int('Give whole days.')
-				.min(1, 'At least 1 day.')
-				.max(TOKEN_MAX_DAYS, `At most ${TOKEN_MAX_DAYS} days, or “never”.`)
-		])
-		.default(TOKEN_DEFAULT_DAYS)
-});
+const tokenInput = (source: ValueSource) =>
+	z.object({
+		name: z
+			.string({ error: 'Name the token.' })
+			.trim()
+			.min(1, 'Name the token.')
+			.max(80, 'Keep the name under 80 characters.'),
+		/** Whole days until it is refused, or 'never'. */
+		expiresInDays: z
+			.union([
+				z.literal('never'),
+				numberFrom('The days until it expires', source)
+					.int('Give whole days.')
+					.min(1, 'At least 1 day.')
+					.max(TOKEN_MAX_DAYS, `At most ${TOKEN_MAX_DAYS} days, or “never”.`)
+			])
+			.default(TOKEN_DEFAULT_DAYS)
+	});
+
+export const tokenInputSchema = tokenInput('form');
+/** The API's body: the days as a JSON number (or "never"), never as text. */
+export const tokenJsonSchema = tokenInput('json');
 
 /** A name, and the days until it expires (a number or its text, or 'never'; default 90). */
 export interface TokenInput {

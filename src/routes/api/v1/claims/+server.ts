@@ -1,5 +1,5 @@
 import { json } from '@sveltejs/kit';
-import { claimInputSchema, claimQuerySchema } from '$lib/claims/schema';
+import { claimJsonSchema, claimQuerySchema } from '$lib/claims/schema';
 import { apiEndpoint, readJson } from '$lib/server/api';
 import { createClaim, listClaims } from '$lib/server/services/claims';
 
@@ -10,7 +10,7 @@ export const GET = apiEndpoint(async ({ event, actor, database }) => {
 });
 
 export const POST = apiEndpoint(async ({ event, actor, database }) => {
-	const input = await readJson(event.request, claimInputSchema);
+	const input = await readJson(event.request, claimJsonSchema);
 	const claim = await createClaim(database, actor, input);
 	return json(claim, { status: 201, headers: { location: `/api/v1/claims/${claim.id}` } });
 });

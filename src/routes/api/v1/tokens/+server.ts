@@ -1,6 +1,6 @@
 import { json } from '@sveltejs/kit';
 import { apiEndpoint, readJson } from '$lib/server/api';
-import { createToken, listTokens, tokenInputSchema } from '$lib/server/services/tokens';
+import { createToken, listTokens, tokenJsonSchema } from '$lib/server/services/tokens';
 
 /** The signed-in caller's tokens (a session, not a token: tokens do not manage tokens). */
 export const GET = apiEndpoint(async ({ actor, database }) => {
@@ -9,6 +9,6 @@ export const GET = apiEndpoint(async ({ actor, database }) => {
 
 /** Issues a token: `{ name, expiresInDays? }`, 1–365 days or "never", 90 by default. */
 export const POST = apiEndpoint(async ({ event, actor, database }) => {
-	const input = await readJson(event.request, tokenInputSchema);
+	const input = await readJson(event.request, tokenJsonSchema);
 	return json(await createToken(database, actor, input), { status: 201 });
 });

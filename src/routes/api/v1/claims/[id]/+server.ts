@@ -1,5 +1,5 @@
 import { json } from '@sveltejs/kit';
-import { claimInputSchema } from '$lib/claims/schema';
+import { claimJsonSchema } from '$lib/claims/schema';
 import { apiEndpoint, readJson } from '$lib/server/api';
 import { updateClaim } from '$lib/server/services/claim-edit';
 import { getClaim } from '$lib/server/services/claims';
@@ -10,6 +10,6 @@ export const GET = apiEndpoint(async ({ event, actor, database }) => {
 
 /** Replaces the claim's fields before its first check (409 after one). */
 export const PUT = apiEndpoint(async ({ event, actor, database }) => {
-	const input = await readJson(event.request, claimInputSchema);
+	const input = await readJson(event.request, claimJsonSchema);
 	return json(await updateClaim(database, actor, event.params.id!, input));
 });

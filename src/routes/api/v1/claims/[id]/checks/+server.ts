@@ -1,11 +1,11 @@
 import { json } from '@sveltejs/kit';
-import { checkRequestSchema } from '$lib/claims/schema';
+import { checkRequestJsonSchema } from '$lib/claims/schema';
 import { apiEndpoint, readJson } from '$lib/server/api';
 import { startCheck } from '$lib/server/services/checks';
 
 /** Queues a check; poll GET /api/v1/checks/{id} for progress and the result. */
 export const POST = apiEndpoint(async ({ event, actor, database }) => {
-	const request = await readJson(event.request, checkRequestSchema);
+	const request = await readJson(event.request, checkRequestJsonSchema);
 	const check = await startCheck(database, actor, event.params.id!, request);
 	return json(check, { status: 202, headers: { location: `/api/v1/checks/${check.id}` } });
 });

@@ -1,10 +1,10 @@
 import { json } from '@sveltejs/kit';
 import { apiEndpoint, readJson } from '$lib/server/api';
-import { createReviewLink, reviewLinkInputSchema } from '$lib/server/services/review-links';
+import { createReviewLink, reviewLinkJsonSchema } from '$lib/server/services/review-links';
 import type { RequestHandler } from './$types';
 
 /** An editor's new review link: `{ label?, expiresInDays? }` → 201 `{ id, url, expiresAt }`. */
 export const POST: RequestHandler = apiEndpoint(async ({ event, database, actor }) => {
-	const input = await readJson(event.request, reviewLinkInputSchema);
+	const input = await readJson(event.request, reviewLinkJsonSchema);
 	return json(await createReviewLink(database, actor, event.params.id!, input), { status: 201 });
 });

@@ -2,7 +2,7 @@ import { json } from '@sveltejs/kit';
 import { readJson } from '$lib/server/api';
 import { app } from '$lib/server/app';
 import { reviewEndpoint } from '$lib/server/review-api';
-import { ownReport, reportInputSchema, saveReport } from '$lib/server/services/reports';
+import { ownReport, reportJsonSchema, saveReport } from '$lib/server/services/reports';
 import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = reviewEndpoint(async ({ database, actor }) =>
@@ -11,7 +11,7 @@ export const GET: RequestHandler = reviewEndpoint(async ({ database, actor }) =>
 
 /** Saves the report; `submit: false` keeps a draft, anything else files it (then it is fixed). */
 export const POST: RequestHandler = reviewEndpoint(async ({ event, database, actor }) => {
-	const input = await readJson(event.request, reportInputSchema);
+	const input = await readJson(event.request, reportJsonSchema);
 	const report = await saveReport(database, (await app()).mailer, actor, input);
 	return json(report, { status: report.state === 'draft' ? 200 : 201 });
 });
