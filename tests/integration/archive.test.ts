@@ -12,7 +12,11 @@ import { groupArchive } from '../../src/lib/server/services/archive';
 import { archiveCsv, archiveJson, csvField } from '../../src/lib/server/services/archive-export';
 import { lookupCertificate } from '../../src/lib/server/services/certificate-reads';
 import { issueCertificate } from '../../src/lib/server/services/certificates';
+import { updateClaim } from '../../src/lib/server/services/claim-edit';
 import { withdrawClaim } from '../../src/lib/server/services/claim-withdraw';
+import { startCheck } from '../../src/lib/server/services/checks';
+import { removeDataset } from '../../src/lib/server/services/dataset-removal';
+import { addDataset } from '../../src/lib/server/services/datasets';
 import { createClaim } from '../../src/lib/server/services/claims';
 import { ConflictError, ForbiddenError, NotFoundError } from '../../src/lib/server/services/errors';
 import { FieldError } from '../../src/lib/server/services/field-error';
@@ -230,5 +234,29 @@ describe('withdrawing a claim', () => {
 		await expect(
 			withdrawClaim(world.database, world.lead, world.claimId, 'again')
 		).rejects.toBeInstanceOf(ConflictError);
+	});
+
+	it('takes no new counts, corrections, checks or certificates once withdrawn, and stays withdrawn', async () => {
+		// A check that finished after the withdrawal (it was running when the claim was withdrawn).
+		const late = await finishedCheck(world, 3);
+		const { database, author, lead, claimId, datasetId } = world;
+		const bytes = new TextEncoder().encode('basis,a,b,count\n0,0,0,1\n');
+		const refusals = [
+			() => issueCertificate(database, author, claimId, late.id),
+			() => startCheck(database, author, claimId, { datasetId, resamples: 100 }),
+			() => addDataset(database, lead, claimId, { bytes, originalName: 'late.csv' }),
+			() => updateClaim(database, author, claimId, { ...claimFields, title: 'Renamed' }),
+			() => removeDataset(database, lead, claimId, datasetId)
+		];
+		for (const refusal of refusals) {
+			await expect(refusal()).rejects.toSatisfy(
+				(e) => e instanceof ConflictError && /withdrawn .*Detector 3 was saturated/.test(e.message)
+			);
+		}
+		const claim = (await database.models.Claim.findByPk(claimId))!;
+		expect(claim.get('state')).toBe('withdrawn');
+		expect(claim.get('title')).not.toBe('Renamed');
+		expect(await database.models.Certificate.count({ where: { checkId: late.id } })).toBe(0);
+		expect(await verifyLedger(database)).toMatchObject({ valid: true });
 	});
 });

@@ -7,7 +7,7 @@ import { Op, type Transaction, type WhereOptions } from 'sequelize';
 import type { Database } from '../db';
 import type { ClaimAttributes } from '../db/models/Claim';
 import type { GroupRole } from '../db/models/Membership';
-import { ForbiddenError, NotFoundError } from '../services/errors';
+import { ConflictError, ForbiddenError, NotFoundError } from '../services/errors';
 import type { AccountActor, Actor } from './actor';
 
 export type Decision = 'allowed' | 'denied' | 'hidden';
@@ -54,6 +54,15 @@ const CLAIM_RULES = {
 	// The counts are in the evidence bundle the referee downloads anyway.
 	referee: ['read', 'read-datasets', 'start-check', 'cancel-check', 'file-report']
 } satisfies Record<string, ClaimAction[]>;
+
+/** What a withdrawn claim no longer takes: it stays readable, shareable and reviewable as it was. */
+const CLOSED_BY_WITHDRAWAL: readonly ClaimAction[] = [
+	'add-dataset',
+	'remove-dataset',
+	'edit-claim',
+	'start-check',
+	'issue-certificate'
+];
 
 const CLAIM_DENIALS: Record<ClaimAction, string> = {
 	read: 'You may not see this claim.',
@@ -158,7 +167,20 @@ export async function requireClaim(
 		: 'hidden';
 	if (decision === 'hidden') throw new NotFoundError('No such claim.');
 	if (decision === 'denied') throw new ForbiddenError(CLAIM_DENIALS[action]);
+	requireOpen(claim!, action);
 	return claim!;
+}
+
+/** ConflictError when a withdrawn claim is asked for new counts, corrections, checks or certificates. */
+export function requireOpen(
+	claim: Pick<ClaimAttributes, 'state' | 'withdrawnReason'>,
+	action: ClaimAction
+): void {
+	if (claim.state !== 'withdrawn' || !CLOSED_BY_WITHDRAWAL.includes(action)) return;
+	const why = claim.withdrawnReason ? ` (“${claim.withdrawnReason}”)` : '';
+	throw new ConflictError(
+		`This claim was withdrawn${why}; it takes no new counts, corrections, checks or certificates.`
+	);
 }
 
 /**

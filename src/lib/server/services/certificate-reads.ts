@@ -67,6 +67,7 @@ export async function mayIssueCertificate(
 	claimId: string
 ): Promise<boolean> {
 	const claim = await requireClaim(database, caller, claimId, 'read');
+	if (claim.state === 'withdrawn') return false;
 	return (await decideClaim(database, caller, claim, 'issue-certificate')) === 'allowed';
 }
 

@@ -13,7 +13,7 @@ import { makeEvidence, selfCheck, type Evidence, type EvidenceInput } from '../e
 import { publishedKeys, serviceKey } from '../evidence/keys';
 import type { SigningKey } from '../../evidence/signing';
 import { accountIdOf, type Actor } from '../access/actor';
-import { requireClaim } from '../access/permissions';
+import { requireClaim, requireOpen } from '../access/permissions';
 import { audit } from './audit';
 import { certificatePaths, placeFiles, removeFiles } from './certificate-files';
 import { certificateRow, issueDetails } from './certificate-rows';
@@ -138,6 +138,8 @@ async function store(
 		await appendLedger(database, { ...event, details: { supersededBy: id } }, key, transaction);
 	}
 	const claim = await database.models.Claim.findByPk(row.claimId, { transaction });
+	// Read inside the transaction: a withdrawal that landed meanwhile is never undone by an issue.
+	requireOpen(claim!.get({ plain: true }), 'issue-certificate');
 	await claim!.update({ state: 'certified' }, { transaction });
 	const entry = { actorId: userId, groupId, subjectType: 'certificate', subjectId: id };
 	const action = 'certificate.issued';

@@ -37,6 +37,8 @@ export interface ClaimView {
 	claimedSchmidtNumber: number;
 	manuscriptReference: string | null;
 	state: ClaimState;
+	/** Why and when the claim was withdrawn; null while it stands. */
+	withdrawal: { reason: string; at: string } | null;
 	createdBy: { id: string; name: string };
 	createdAt: string;
 	updatedAt: string;
@@ -98,6 +100,7 @@ async function claimViews(database: Database, claims: ClaimAttributes[]): Promis
 		claimedSchmidtNumber: c.claimedSchmidtNumber,
 		manuscriptReference: c.manuscriptReference,
 		state: c.state,
+		withdrawal: c.withdrawnAt ? { reason: c.withdrawnReason ?? '', at: iso(c.withdrawnAt) } : null,
 		createdBy: { id: c.createdBy, name: userName.get(c.createdBy) ?? '' },
 		createdAt: iso(c.createdAt),
 		updatedAt: iso(c.updatedAt),

@@ -30,7 +30,9 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 		certificates,
 		// The list needs only a line per check, not each full result.
 		// Files no check has used yet may still be taken back.
-		removable: datasets.filter((d) => !checks.some((c) => c.datasetId === d.id)).map((d) => d.id),
+		removable: claim.withdrawal
+			? []
+			: datasets.filter((d) => !checks.some((c) => c.datasetId === d.id)).map((d) => d.id),
 		checks: checks.map((c) => ({
 			id: c.id,
 			datasetId: c.datasetId,

@@ -148,6 +148,12 @@ export const schemas = {
 			claimedSchmidtNumber: whole,
 			manuscriptReference: nullable(text),
 			state: { type: 'string', enum: CLAIM_STATES },
+			withdrawal: nullable({
+				type: 'object',
+				description:
+					'Why and when the claim was withdrawn; it then takes no new counts, checks or certificates (409).',
+				properties: { reason: text, at: timestamp }
+			}),
 			createdBy: { type: 'object', properties: { id: text, name: text } },
 			createdAt: timestamp,
 			updatedAt: timestamp,
