@@ -26,9 +26,9 @@ let claims: FinishedClaim[];
 let app: AppServer | null = null;
 const started: string[] = [];
 
-// Checks cut in one round are still queued when the next round adds three: not a fair-use test.
-const roomy = { RANKSEAL_CHECKS_PER_USER: '100', RANKSEAL_CHECKS_PER_GROUP: '100' };
-const start = () => startApp({ RANKSEAL_DATA_DIR: world.dataDir, RANKSEAL_DEMO: '0', ...roomy });
+// Checks cut in one round are still queued when the next round adds three: startApp's check
+// limits are roomy unless a test names its own.
+const start = () => startApp({ RANKSEAL_DATA_DIR: world.dataDir, RANKSEAL_DEMO: '0' });
 
 /** Kills the server once `extra` more changes came in the data folder, or once `settled()`. */
 async function killAfter(
