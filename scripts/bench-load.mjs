@@ -1,10 +1,10 @@
-// npm run bench:load — a benchmark, never a test. Starts the production build (build/index.js)
-// on loopback over a fresh data folder seeded with the demo scenario, starts four long checks,
-// then loads a claim page (signed in), an API GET (token), a review-link page and a static file
-// one after another with autocannon, and prints requests/s, p50/p95/p99 latency, the ratio to the static
-// file and the error/non-2xx count of each. Options: --connections N (per target, default 50),
-// --duration S (default 30), --resamples R (each long check, default 1000000), --timeout S (one
-// request, default 30; a request slower than that counts as an error).
+// npm run bench:load — a benchmark, never a test. Starts the production build as npm start does
+// (scripts/server.mjs) on loopback over a fresh data folder seeded with the demo scenario, starts
+// four long checks, then loads a claim page (signed in), an API GET (token), a review-link page and
+// a static file one after another with autocannon, and prints requests/s, p50/p95/p99 latency, the
+// ratio to the static file and the error/non-2xx count of each. Options: --connections N (per
+// target, default 50), --duration S (default 30), --resamples R (each long check, default 1000000),
+// --timeout S (one request, default 30; a request slower than that counts as an error).
 import autocannon from 'autocannon';
 import { spawn } from 'node:child_process';
 import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
@@ -21,7 +21,8 @@ const connections = arg('connections', 50);
 const duration = arg('duration', 30);
 const resamples = arg('resamples', 1_000_000);
 const timeout = arg('timeout', 30);
-const ENTRY = path.resolve('build/index.js');
+const BUILD = path.resolve('build/index.js');
+const ENTRY = path.resolve('scripts/server.mjs');
 // The bench must not meet a limit: every one is raised far above what it sends.
 const ROOMY = { free: 1e9, cap: 2e9 };
 const LIMITS = {
@@ -31,8 +32,8 @@ const LIMITS = {
 	reviewRefused: ROOMY
 };
 
-if (!existsSync(ENTRY)) {
-	console.error(`${ENTRY} is missing: run npm run build first.`);
+if (!existsSync(BUILD)) {
+	console.error(`${BUILD} is missing: run npm run build first.`);
 	process.exit(2);
 }
 

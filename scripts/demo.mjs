@@ -19,6 +19,6 @@ const env = {
 	BODY_SIZE_LIMIT: process.env.BODY_SIZE_LIMIT ?? '25M'
 };
 console.log(`Rankseal runs at ${env.ORIGIN} (Ctrl-C stops it)`);
-const app = spawn('node', ['build/index.js'], { stdio: 'inherit', env });
+const app = spawn('node', ['scripts/server.mjs'], { stdio: 'inherit', env });
 for (const signal of ['SIGINT', 'SIGTERM']) process.on(signal, () => app.kill(signal));
 app.on('exit', (code) => process.exit(code ?? 0));

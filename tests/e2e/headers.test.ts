@@ -107,6 +107,30 @@ describe('security headers', () => {
 		}
 	});
 
+	it('sends them on the files adapter-node serves before any hook: scripts, styles, fonts, static/', async () => {
+		const html = await (await call('/')).text();
+		const script = html.match(/\/_app\/immutable\/[^"'\s]+\.js/)?.[0];
+		const style = html.match(/\/_app\/immutable\/[^"'\s]+\.css/)?.[0];
+		expect(script, 'a script of the built client named in the landing page').toBeTruthy();
+		expect(style, 'a stylesheet named in the landing page').toBeTruthy();
+		const css = await (await call(style!)).text();
+		const fontUrl = css.match(/url\(([^)]+\.woff2)\)/)?.[1];
+		expect(fontUrl, 'a font named in the stylesheet').toBeTruthy();
+		const font = new URL(fontUrl!.replace(/["']/g, ''), app.origin + style).pathname;
+		for (const route of [script!, style!, font, '/_app/version.json', '/favicon.svg']) {
+			const response = await call(route);
+			expect(response.status, route).toBe(200);
+			expect(response.headers.get('x-content-type-options'), route).toBe('nosniff');
+			expect(response.headers.get('x-frame-options'), route).toBe('DENY');
+			expect(response.headers.get('referrer-policy'), route).toBe(
+				'strict-origin-when-cross-origin'
+			);
+		}
+		// adapter-node's own long cache on hashed files stays.
+		const immutable = 'public,max-age=31536000,immutable';
+		expect((await call(script!)).headers.get('cache-control')).toBe(immutable);
+	});
+
 	it('forbids caching for signed-in callers, token calls and secrets shown once', async () => {
 		const privateAnswers: [string, RequestInit][] = [
 			['/claims', { headers: cookie() }],

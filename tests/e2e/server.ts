@@ -1,5 +1,6 @@
 /**
- * Runs the built app (`node build/index.js`, adapter-node) on a free local port for page tests.
+ * Runs the built app (`node scripts/server.mjs`: adapter-node's build/index.js) on a free local
+ * port for page tests.
  * The test script builds first; here a missing build is an error that says so.
  */
 import { spawn, type ChildProcess } from 'node:child_process';
@@ -8,7 +9,9 @@ import { tmpdir } from 'node:os';
 import { createServer } from 'node:net';
 import path, { resolve } from 'node:path';
 
-const ENTRY = resolve('build/index.js');
+const BUILD = resolve('build/index.js');
+/** adapter-node's server with the security headers on its own files (npm start). */
+const ENTRY = resolve('scripts/server.mjs');
 
 export interface AppServer {
 	origin: string;
@@ -74,8 +77,8 @@ export const ROOMY_RATE_LIMITS = JSON.stringify({
 });
 
 export async function startApp(env: Record<string, string> = {}): Promise<AppServer> {
-	if (!existsSync(ENTRY)) {
-		throw new Error(`${ENTRY} is missing: build the app first (npx vite build, or npm test)`);
+	if (!existsSync(BUILD)) {
+		throw new Error(`${BUILD} is missing: build the app first (npx vite build, or npm test)`);
 	}
 	const port = await freePort();
 	const origin = `http://127.0.0.1:${port}`;

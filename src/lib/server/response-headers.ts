@@ -1,12 +1,11 @@
 /**
  * Headers on every answer Kit makes (the Content-Security-Policy itself is Kit's, from
  * svelte.config.js): no type sniffing, no framing, a referrer policy, and no caching of anything
- * private. Files under /_app and static/ are served by adapter-node before any hook runs.
+ * private. Files under /_app and static/ are served by adapter-node before any hook runs: they get
+ * the same headers from scripts/server.mjs.
  */
 import { isHttpError, text, type Handle, type RequestEvent } from '@sveltejs/kit';
-
-/** Addresses that carry a secret: the referee's link and the one-use account links. */
-const SECRET_IN_PATH = /^\/(review|api\/v1\/review|invite|verify|shared|reset)\/[^/]/;
+import { SECRET_IN_PATH, securityHeadersFor } from './security-headers.js';
 
 /** Whether this answer may hold something private: a caller's own data or a secret in the URL. */
 function isPrivate(event: RequestEvent): boolean {
@@ -18,12 +17,8 @@ function isPrivate(event: RequestEvent): boolean {
 
 function decorate(event: RequestEvent, response: Response): Response {
 	const headers = response.headers;
-	headers.set('x-content-type-options', 'nosniff');
-	headers.set('x-frame-options', 'DENY');
-	// A review or invitation link never travels to another site in a Referer. Not no-referrer:
-	// that makes the browser send `Origin: null` with the page's own forms, which we refuse.
-	const secret = SECRET_IN_PATH.test(event.url.pathname);
-	headers.set('referrer-policy', secret ? 'same-origin' : 'strict-origin-when-cross-origin');
+	for (const [name, value] of Object.entries(securityHeadersFor(event.url.pathname)))
+		headers.set(name, value);
 	if (isPrivate(event)) headers.set('cache-control', 'no-store');
 	return response;
 }
