@@ -35,22 +35,27 @@ function diagonalAndRest(table: CountTable, d: number): [number, number] {
 	return [diagonal, total - diagonal];
 }
 
-/** Beta draws on the per-basis totals (D_t, O_t) of raw counts. */
+/** Beta draws on the per-basis totals (D_t, O_t) of raw counts; plain loops: the CLI's hot path. */
 export function sufficientDraws(
 	tables: CountTable[],
 	d: number,
 	weights: DrawWeights = { lower: ones(tables.length), upper: ones(tables.length) }
 ): MatchingSumDraws {
-	const totals = tables.map((t) => diagonalAndRest(t, d));
+	const n = tables.length;
+	const diagonal = new Float64Array(n);
+	const rest = new Float64Array(n);
+	tables.forEach((t, i) => ([diagonal[i], rest[i]] = diagonalAndRest(t, d)));
+	const lowerWeights = Float64Array.from(weights.lower);
+	const upperWeights = Float64Array.from(weights.upper);
 	return {
 		lower(g) {
 			let s = 0;
-			totals.forEach(([D, O], i) => (s += weights.lower[i] * g.beta(D, O + 1)));
+			for (let i = 0; i < n; i++) s += lowerWeights[i] * g.beta(diagonal[i], rest[i] + 1);
 			return s;
 		},
 		upper(g) {
 			let s = 0;
-			totals.forEach(([D, O], i) => (s += weights.upper[i] * g.beta(D + 1, O)));
+			for (let i = 0; i < n; i++) s += upperWeights[i] * g.beta(diagonal[i] + 1, rest[i]);
 			return s;
 		}
 	};

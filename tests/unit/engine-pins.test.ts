@@ -1,0 +1,91 @@
+/**
+ * The reproducibility contract (DEVELOPERS.md): the same counts, options, seed and engine version
+ * give the same numbers, bit for bit, so that a referee re-running a certificate years later gets
+ * what it says. These values are the engine's own output, recorded from engine 2.1.0 at commit
+ * a5da8ba: a pin against silent drift (a faster loop that draws in another order), not a check
+ * of correctness, which the witness, coverage and reference-library tests make. A change that
+ * moves them needs a new ENGINE_VERSION and a re-run of the coverage table (docs/statistics.md).
+ */
+import { describe, expect, it } from 'vitest';
+import {
+	certify,
+	ENGINE_VERSION,
+	sampledCounts,
+	states,
+	type CertifyOptions,
+	type CountsDataset
+} from '../../src/lib/certify';
+
+const d5 = sampledCounts(states.isotropic(5, 0.85), [0, 1, 2], 30_000, 3);
+const withRates: CountsDataset = {
+	...d5,
+	tables: d5.tables.map((t, i) => ({
+		...t,
+		durations: new Float64Array(t.counts.length).fill(1 + i / 2),
+		accidentals: new Float64Array(t.counts.length).fill(0.5)
+	}))
+};
+
+interface Pin {
+	name: string;
+	data: CountsDataset;
+	options: Pick<CertifyOptions, 'method' | 'bases' | 'subtractAccidentals'>;
+	lower: number;
+	interval95: [number, number];
+	standardError: number;
+	certified: number;
+}
+
+const PINNED_ENGINE = '2.1.0';
+const PINS: Pin[] = [
+	{
+		name: 'correlation sum, sufficient totals',
+		data: d5,
+		options: { method: 'mub-correlation', bases: [0, 1, 2] },
+		lower: 2.628458654012965,
+		interval95: [2.6323185774762683, 2.6454870386506846],
+		standardError: 0.0032564214658316925,
+		certified: 5
+	},
+	{
+		name: 'steering, sufficient totals',
+		data: d5,
+		options: { method: 'steering-2mub', bases: [0, 1] },
+		lower: 1.7500476620177927,
+		interval95: [1.752916240474244, 1.7630645863252488],
+		standardError: 0.002627344534029903,
+		certified: 3
+	},
+	{
+		name: 'fidelity floor and cell limits',
+		data: d5,
+		options: { method: 'fidelity-two-basis', bases: [0, 1] },
+		lower: 0.7490087797549128,
+		interval95: [0.7519770697308132, 0.8593669456993673],
+		standardError: 0.002627344534029903,
+		certified: 4
+	},
+	{
+		name: 'per cell: rates, accidentals subtracted',
+		data: withRates,
+		options: { method: 'mub-correlation', bases: [0, 1, 2], subtractAccidentals: true },
+		lower: 2.627427839501846,
+		interval95: [2.631782791420097, 2.6462226362884227],
+		standardError: 0.0032055210517045836,
+		certified: 5
+	}
+];
+
+describe(`numbers pinned for engine ${PINNED_ENGINE}`, () => {
+	it('belong to the engine version in use (a new version records its own pins)', () => {
+		expect(ENGINE_VERSION).toBe(PINNED_ENGINE);
+	});
+
+	it.each(PINS)('$name: bit for bit', ({ data, options, ...pin }) => {
+		const r = certify(data, { ...options, resamples: 3000, seed: 20261202 });
+		expect(r.statistic.lower).toBe(pin.lower);
+		expect(r.statistic.interval95).toEqual(pin.interval95);
+		expect(r.statistic.standardError).toBe(pin.standardError);
+		expect(r.certifiedSchmidtNumber).toBe(pin.certified);
+	});
+});
