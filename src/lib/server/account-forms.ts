@@ -1,6 +1,6 @@
 /** zod schemas for the account, group and admin forms (the boundary; services re-check the rules). */
 import { z } from 'zod';
-import { PASSWORD_MAX_LENGTH, PASSWORD_MIN_LENGTH } from './services/accounts';
+import { NAME_MAX_LENGTH, PASSWORD_MAX_LENGTH, PASSWORD_MIN_LENGTH } from '$lib/account-limits';
 
 export const emailField = z
 	.string('Enter your e-mail address.')
@@ -18,7 +18,7 @@ export const signUpForm = z.object({
 		.string('Enter your name.')
 		.trim()
 		.min(1, 'Enter your name.')
-		.max(120, 'Use at most 120 characters.'),
+		.max(NAME_MAX_LENGTH, `Use at most ${NAME_MAX_LENGTH} characters.`),
 	email: emailField,
 	password: newPasswordField
 });

@@ -1,8 +1,10 @@
 /**
  * E-mail templates under templates/mail/: <name>.txt (a first line "Subject: …", a blank line, the
- * plain-text body) and <name>.html (the HTML body), with {{placeholder}} fields. Every value but
- * `link` is text: HTML-escaped in the HTML body, and defused in both bodies when it looks like an
- * address, so that a name a user chose never becomes a link. Bundled at build time.
+ * plain-text body) and <name>.html (a first line "Title: …", a blank line, the HTML body that
+ * layout.html frames; the notices have no title line and go out unframed), with {{placeholder}}
+ * fields. Every value but `link` is text: HTML-escaped in the HTML body, and defused in both bodies
+ * when it looks like an address, so that a name a user chose never becomes a link. Bundled at
+ * build time.
  */
 const sources = import.meta.glob('/templates/mail/*.{txt,html}', {
 	query: '?raw',
@@ -72,10 +74,22 @@ export function defuseLinks(value: string): string {
 const asText = (value: string, key: string) => (key === LINK_FIELD ? value : defuseLinks(value));
 const asHtml = (value: string, key: string) => escapeHtml(asText(value, key));
 
-function source(name: MailTemplate, extension: 'txt' | 'html'): string {
+function source(name: MailTemplate | 'layout', extension: 'txt' | 'html'): string {
 	const text = sources[`/templates/mail/${name}.${extension}`];
 	if (text === undefined) throw new Error(`mail template ${name}.${extension} is missing`);
 	return text.replace(/\r\n/g, '\n');
+}
+
+/** The HTML source put together before any value goes in, so every value is escaped alike. */
+function htmlSource(name: MailTemplate): string {
+	const own = source(name, 'html');
+	const match = /^Title:[ \t]*(.*)\n\n?/.exec(own);
+	if (!match) return own;
+	const parts = {
+		'mail-title': match[1].trim(),
+		'mail-body': own.slice(match[0].length).trimEnd()
+	};
+	return fillPlaceholders(source('layout', 'html'), parts);
 }
 
 /** Subject, text and HTML bodies of one message; the subject is plain text like the text body. */
@@ -84,6 +98,6 @@ export function renderTemplate(name: MailTemplate, values: Record<string, string
 	const match = /^Subject:[ \t]*(.*)\n\n?/.exec(filled);
 	if (!match) throw new Error(`mail template ${name}.txt must start with a "Subject:" line`);
 	const subject = match[1].trim().replace(/[\r\n]/g, ' ');
-	const html = fillPlaceholders(source(name, 'html'), values, asHtml);
+	const html = fillPlaceholders(htmlSource(name), values, asHtml);
 	return { subject, text: filled.slice(match[0].length), html };
 }
