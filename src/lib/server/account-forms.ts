@@ -1,12 +1,19 @@
 /** zod schemas for the account, group and admin forms (the boundary; services re-check the rules). */
 import { z } from 'zod';
-import { NAME_MAX_LENGTH, PASSWORD_MAX_LENGTH, PASSWORD_MIN_LENGTH } from '$lib/account-limits';
+import {
+	EMAIL_MAX_LENGTH,
+	NAME_MAX_LENGTH,
+	PASSWORD_MAX_LENGTH,
+	PASSWORD_MIN_LENGTH
+} from '$lib/account-limits';
 
 export const emailField = z
 	.string('Enter your e-mail address.')
 	.trim()
 	.toLowerCase()
-	.pipe(z.email('Enter a valid e-mail address.').max(254, 'This address is too long.'));
+	.pipe(
+		z.email('Enter a valid e-mail address.').max(EMAIL_MAX_LENGTH, 'This address is too long.')
+	);
 
 export const newPasswordField = z
 	.string('Choose a password.')

@@ -3,6 +3,7 @@
  * The notice's link lets the editor open it (and make an editor's account if they have none).
  */
 import { z } from 'zod';
+import { EMAIL_MAX_LENGTH } from '$lib/account-limits';
 import { accountIdOf, type Actor } from '../access/actor';
 import { requireClaim } from '../access/permissions';
 import type { Database } from '../db';
@@ -15,7 +16,12 @@ import { hashSecret, newId, newSecret } from './ids';
 import { sendNotice } from './notices';
 
 export const shareInputSchema = z.object({
-	email: z.string().trim().toLowerCase().email('Enter the editor’s e-mail address.').max(254),
+	email: z
+		.string()
+		.trim()
+		.toLowerCase()
+		.email('Enter the editor’s e-mail address.')
+		.max(EMAIL_MAX_LENGTH),
 	journal: z.string().trim().min(1, 'Name the journal.').max(200),
 	manuscript: z.string().trim().min(1, 'Give the manuscript reference.').max(200)
 });
