@@ -24,7 +24,8 @@ describe('database', () => {
 			'0006-sharing-review',
 			'0007-outbox-archive',
 			'0008-check-fair-use',
-			'0009-mail-cap'
+			'0009-mail-cap',
+			'0010-check-attempts'
 		]);
 	});
 

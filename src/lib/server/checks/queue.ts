@@ -16,7 +16,10 @@ export interface CheckQueue {
 	enqueue(check: QueuedCheck): void;
 	/** Takes a waiting check out or aborts a running one; false when this queue does not hold it. */
 	cancel(checkId: string): boolean;
-	/** Re-queues the checks a previous process left queued or running; returns their ids. */
+	/**
+	 * Re-queues the checks a previous process left queued or running, but fails one cut off while
+	 * running MAX_CHECK_STARTS times (checks/left-behind.ts); returns the ids queued again.
+	 */
 	resume(): Promise<string[]>;
 	/** Resolves when nothing is queued or running (tests, demo). */
 	idle(): Promise<void>;

@@ -7,21 +7,26 @@
 import { MessageChannel, type MessagePort } from 'node:worker_threads';
 import { pathToFileURL } from 'node:url';
 import { Piscina } from 'piscina';
+import { literal } from 'sequelize';
 import type { CertificationResult } from '$lib/certify';
 import { config } from '../config';
 import type { Database } from '../db';
-import { ACTIVE_CHECK_STATUSES, type CheckAttributes } from '../db/models/Check';
+import { ACTIVE_CHECK_STATUSES, type CheckAttributes, type CheckModel } from '../db/models/Check';
 import { datasetFilePath } from '../services/datasets';
 import { FairScheduler } from './fair-scheduler';
 import { checkWorkerFile } from './locate';
 import { recordOutcome } from './outcome';
-import { CheckCancelled, checkBucket, type CheckQueue, type QueuedCheck } from './queue';
+import { sweepLeftChecks } from './left-behind';
+import { CheckCancelled, type CheckQueue, type QueuedCheck } from './queue';
 import type { SummaryOutcome, SummaryTask } from './summary';
 import type { CheckMessage, CheckTask } from './task';
 
 export type { CheckQueue, QueuedCheck } from './queue';
 
 const PROGRESS_STEP = 0.02;
+
+/** Values of a conditional update of the row (a column may be an SQL expression). */
+type CheckUpdate = Parameters<CheckModel['update']>[0];
 
 export class CheckRunner implements CheckQueue {
 	private readonly pool: Piscina;
@@ -87,25 +92,10 @@ export class CheckRunner implements CheckQueue {
 	}
 
 	async resume(): Promise<string[]> {
-		const { Check, Claim } = this.database.models;
-		const rows = await Check.findAll({
-			where: { status: ACTIVE_CHECK_STATUSES },
-			order: [['createdAt', 'ASC']]
-		});
-		const checks = rows
-			.map((r) => r.get({ plain: true }))
-			.filter((c) => !this.active.has(c.id) && !this.waiting.has(c.id));
-		if (!checks.length) return [];
-		const ids = checks.map((c) => c.id);
-		await Check.update({ status: 'queued', progress: 0, startedAt: null }, { where: { id: ids } });
-		const claims = await Claim.findAll({
-			where: { id: [...new Set(checks.map((c) => c.claimId))] },
-			attributes: ['id', 'groupId']
-		});
-		const groupOf = new Map(claims.map((c) => [c.get('id') as string, c.get('groupId') as string]));
-		for (const c of checks)
-			this.enqueue({ id: c.id, bucket: checkBucket(groupOf.get(c.claimId)!, c.reviewLinkId) });
-		return ids;
+		const held = (id: string) => this.active.has(id) || this.waiting.has(id);
+		const again = await sweepLeftChecks(this.database, held);
+		for (const check of again) this.enqueue(check);
+		return again.map((c) => c.id);
 	}
 
 	summarise(task: SummaryTask): Promise<SummaryOutcome> {
@@ -135,10 +125,16 @@ export class CheckRunner implements CheckQueue {
 		await Promise.all([this.pool.destroy(), this.readers.destroy()]);
 		await Promise.allSettled([...this.active.values()]);
 		// The rows then say what happened (a SIGKILL leaves them `running`; resume() handles that).
+		// A clean stop is not the check's fault: it gives back the start that counts towards the limit.
 		if (cut.length)
 			await this.database.models.Check.update(
-				{ status: 'queued', progress: 0, startedAt: null },
-				{ where: { id: cut, status: ACTIVE_CHECK_STATUSES } }
+				{
+					status: 'queued',
+					progress: 0,
+					startedAt: null,
+					attempts: literal('max(attempts - 1, 0)')
+				},
+				{ where: { id: cut, status: 'running' } }
 			);
 	}
 
@@ -170,14 +166,15 @@ export class CheckRunner implements CheckQueue {
 		let startedAt: Date | null = null;
 		let written = 0;
 		let writes: Promise<unknown> = Promise.resolve();
-		const write = (values: Partial<CheckAttributes>) => {
+		const write = (values: CheckUpdate) => {
 			const where = { id: checkId, status: ACTIVE_CHECK_STATUSES };
 			writes = writes.then(() => Check.update(values, { where })).catch((e) => console.error(e));
 		};
 		channel.port1.on('message', (message: CheckMessage) => {
 			if (message.type === 'started') {
 				startedAt = new Date();
-				write({ status: 'running', startedAt, progress: 0 });
+				// Counted with the very write that marks it running: a kill after it counts as a cut.
+				write({ status: 'running', startedAt, progress: 0, attempts: literal('attempts + 1') });
 			} else if (message.fraction - written >= PROGRESS_STEP && message.fraction < 1) {
 				written = message.fraction;
 				write({ progress: message.fraction });

@@ -10,6 +10,12 @@ import type { Database } from '../db';
 import { ACTIVE_CHECK_STATUSES } from '../db/models/Check';
 import { RateLimitedError } from './errors';
 
+/**
+ * Starts a check may have: one found cut off while running (a kill, a crash of the process)
+ * this many times is failed at the next start instead of queued again (checks/left-behind.ts).
+ */
+export const MAX_CHECK_STARTS = 3;
+
 /** Refuses a new check over either limit, naming it; run inside the transaction that queues it. */
 export async function refuseOverCheckLimits(
 	database: Database,

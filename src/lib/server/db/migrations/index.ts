@@ -8,6 +8,7 @@ import * as sharingReview from './0006-sharing-review';
 import * as outboxArchive from './0007-outbox-archive';
 import * as checkFairUse from './0008-check-fair-use';
 import * as mailCap from './0009-mail-cap';
+import * as checkAttempts from './0010-check-attempts';
 
 export const migrations = [
 	{ name: '0001-initial', ...initial },
@@ -18,5 +19,6 @@ export const migrations = [
 	{ name: '0006-sharing-review', ...sharingReview },
 	{ name: '0007-outbox-archive', ...outboxArchive },
 	{ name: '0008-check-fair-use', ...checkFairUse },
-	{ name: '0009-mail-cap', ...mailCap }
+	{ name: '0009-mail-cap', ...mailCap },
+	{ name: '0010-check-attempts', ...checkAttempts }
 ];

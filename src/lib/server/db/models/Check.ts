@@ -24,6 +24,8 @@ export interface CheckAttributes {
 	cancelledAt?: Date | null;
 	/** The account that cancelled it; null with cancelledAt set: the referee's link. */
 	cancelledBy?: string | null;
+	/** Times the runner started it (migration 0010); a clean stop gives its start back. */
+	attempts?: number;
 	result: CertificationResult | null;
 	error: string | null;
 	startedAt: Date | null;
@@ -54,6 +56,7 @@ export function defineCheck(sequelize: Sequelize): CheckModel {
 			reviewLinkId: { type: DataTypes.STRING, allowNull: true },
 			cancelledAt: { type: DataTypes.DATE, allowNull: true },
 			cancelledBy: { type: DataTypes.STRING, allowNull: true },
+			attempts: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
 			result: { type: DataTypes.JSON, allowNull: true },
 			error: { type: DataTypes.TEXT, allowNull: true },
 			startedAt: { type: DataTypes.DATE, allowNull: true },
