@@ -49,7 +49,8 @@ GET /claims/[id]/checks/[checkId]               L    404  200  200  404  200  L 
 GET /claims/[id]/checks/[checkId]/counts        404  404  200  200  404  200  404  404  404  404  404  404  404
 GET /claims/[id]/checks/[checkId]/result.json   404  404  200  200  404  200  404  404  404  404  404  404  404
 GET /claims/[id]/certificates/[certificateId]   L    404  200  200  404  200  L    L    L    L    L    L    404
-GET /archive                                    L    200  200  200  200  200  L    L    L    L    L    L    200
+# the archive is a group's: someone in no group (editors, the admin) is told so with 403
+GET /archive                                    L    200  200  200  403  403  L    L    L    L    L    L    403
 GET /editor                                     L    200  200  200  200  200  L    L    L    L    L    L    200
 GET /settings/tokens                            L    200  200  200  200  200  L    L    L    L    L    L    200
 GET /admin/users                                L    403  403  403  403  403  L    L    L    L    L    L    200
@@ -71,7 +72,8 @@ GET /api/v1/checks/[id]                         401  404  200  200  404  200  40
 GET /api/v1/certificates/[id]                   401  404  200  200  404  200  401  401  401  200  401  401  404
 GET /api/v1/certificates/[id]/pdf               401  404  200  200  404  200  401  401  401  200  401  401  404
 GET /api/v1/certificates/[id]/bundle            401  404  200  200  404  200  401  401  401  200  401  401  404
-GET /api/v1/archive                             401  200  200  200  404  404  401  401  401  200  401  401  404
+# the archive, as on its page: 403 for someone in no group
+GET /api/v1/archive                             401  200  200  200  403  403  401  401  401  200  401  401  403
 GET /api/v1/tokens                              401  200  200  200  200  200  401  401  401  403  401  401  200
 # things that add
 POST /login?/login                              400  303  303  303  303  303  400  400  400  400  400  400  303
@@ -95,6 +97,7 @@ POST /claims/[id]/sharing?/share                L    404  303  303  404  403  L 
 POST /api/v1/claims/[id]/shares                 401  404  201  201  404  403  401  401  401  201  401  401  404
 POST /editor?/createLink                        L    404  403  403  404  200  L    L    L    L    L    L    404
 POST /api/v1/claims/[id]/review-links           401  404  403  403  404  201  401  401  401  403  401  401  404
+# one re-run per link at a time (429 over it), so the API re-runs through the link's twin
 POST /review/[token]?/rerun                     404  404  404  404  404  404  303  404  404  404  404  404  404
 POST /api/v1/review/[token]/checks              404  404  404  404  404  404  202  404  404  404  404  404  404
 POST /review/[token]?/report                    404  404  404  404  404  404  303  404  404  404  404  404  404
@@ -105,13 +108,17 @@ POST /settings/tokens?/create                   L    200  200  200  200  200  L 
 POST /api/v1/tokens                             401  201  201  201  201  201  401  401  401  403  401  401  201
 POST /admin/outbox/[id]?/requeue                L    403  403  403  403  403  L    L    L    L    L    L    303
 POST /shared/[token]?/signup                    303  303  303  303  303  303  303  303  303  303  303  303  303
-POST /invite/[token]?/accept                    L    400  400  400  400  400  L    L    L    L    L    L    400
+# the invitation goes to another address than any caller's: 403, the address masked
+POST /invite/[token]?/accept                    L    403  403  403  403  403  L    L    L    L    L    L    403
 POST /verify/[token]?/confirm                   L    303  303  303  303  303  L    L    L    L    L    L    303
 POST /reset/[token]?/reset                      L    L    L    L    L    L    L    L    L    L    L    L    L
 # things that take away (each column on its own kit)
 # cancelling a finished check: allowed callers reach the state rule (409), others are refused
 POST /claims/[id]/checks/[checkId]?/cancel      L    404  409  409  404  403  L    L    L    L    L    L    404
 DELETE /api/v1/checks/[id]                      401  404  409  409  404  403  401  401  401  409  401  401  404
+# a referee cancels only its own link's re-runs; the seeded one is done (409)
+POST /review/[token]?/cancel                    404  404  404  404  404  404  409  404  404  404  404  404  404
+DELETE /api/v1/review/[token]/checks/[checkId]  404  404  404  404  404  404  409  404  404  404  404  404  404
 POST /claims/[id]?/removeDataset                L    404  303  303  404  403  L    L    L    L    L    L    404
 DELETE /api/v1/claims/[id]/datasets/[datasetId] 401  404  204  204  404  403  401  401  401  204  401  401  404
 POST /editor?/revokeLink                        L    404  403  403  404  200  L    L    L    L    L    L    404

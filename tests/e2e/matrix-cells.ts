@@ -129,6 +129,7 @@ function body(route: string, caller: Caller, kit: Kit): Body | undefined {
 			form: { recommendation: 'sound', comments: 'Fine.', intent: 'save' }
 		}),
 		'POST /review/[token]?/rerun': () => ({ form: { seed: '9' } }),
+		'POST /review/[token]?/cancel': () => ({ form: { checkId: kit.rerun } }),
 		'POST /seal?/bundle': () => ({
 			multipart: { bundle: new File(['not a zip'], 'bundle.zip', { type: 'application/zip' }) }
 		}),

@@ -97,7 +97,8 @@ async function seedReview(db: Database, people: People, claimId: string, rerun: 
 		await db.models.Report.create({ ...report, comments: 'Sound.', submittedAt: new Date() });
 		reports.push(report.id);
 	}
-	// The referee's own re-run, as startRefereeCheck records it.
+	// The referee's own re-run, as startRefereeCheck records it (the row and the log).
+	await db.models.Check.update({ reviewLinkId: links.valid.id }, { where: { id: rerun } });
 	const started = { subjectType: 'check', subjectId: rerun, action: 'review.check-started' };
 	await audit(db, { actorId: null, ...started, details: { reviewLinkId: links.valid.id } });
 	return { editorShare, openShares, links, spareLinks, reports, rerun };

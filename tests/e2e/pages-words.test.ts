@@ -136,6 +136,22 @@ describe('finding one’s way', () => {
 		expect(await page.textContent('[data-testid=no-claims]')).toContain('not in a research group');
 	});
 
+	it('tells someone in no group why there is no archive, on the page and in the API alike', async () => {
+		await signedInAs('loner');
+		const response = await page.goto(`${origin}/archive`);
+		expect(response!.status()).toBe(403);
+		const why = 'You belong to no group, so there is no group archive to list.';
+		expect(await page.textContent('[data-testid=error-page]')).toContain(why);
+		const api = await fetch(`${origin}/api/v1/archive`, {
+			headers: { cookie: `rankseal_session=${session.world.sessions.loner}` }
+		});
+		expect(api.status).toBe(403);
+		expect((await api.json()).error).toMatchObject({
+			code: 'forbidden',
+			message: expect.stringContaining(why)
+		});
+	});
+
 	it('gives an editor pages meant for an editor', async () => {
 		await signedInAs('editor');
 		await page.goto(`${origin}/claims`);

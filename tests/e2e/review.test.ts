@@ -2,13 +2,18 @@
  * Sharing and review in a real browser against the built app (issue 9): an author shares a
  * certified claim; the editor reads the notice in the admin outbox, makes an account from it and
  * a review link; a referee with no cookies re-runs the check with the recorded seed (identical
- * numbers), downloads the bundle and files a report; the editor is told and releases it; the
- * author reads it. Every wait is for a state on the page, never for a time.
+ * numbers), downloads the bundle and files a report; a second re-run while one is going is
+ * answered 429, and the referee cancels their own; the editor is told and releases the report;
+ * the author reads it. Every wait is for a state on the page, never for a time: the re-run with
+ * PACED_SEED starts and then waits until it is cancelled (the app's worker says so).
  */
 import { createHash } from 'node:crypto';
-import { readFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
+import { bundleCheckWorker } from '../../src/lib/server/checks/locate';
 import { launchBrowser, type TestBrowser } from './browser';
 import { seedReviewFlow, type ReviewFlowWorld } from './review-world';
 import { startApp, type AppServer } from './server';
@@ -18,7 +23,9 @@ vi.setConfig({ testTimeout: 300_000, hookTimeout: 300_000 });
 const STATE_WAIT = { timeout: 240_000 };
 
 const editorEmail = 'harriet.vell@journal.example';
+const PACED_SEED = 777;
 let app: AppServer;
+let workerFolder: string;
 let world: ReviewFlowWorld;
 const browsers: TestBrowser[] = [];
 let reviewUrl = '';
@@ -46,13 +53,34 @@ async function newestMail(admin: Page, to: string, subject: RegExp): Promise<str
 	return (await admin.textContent('[data-testid=message-text]')) ?? '';
 }
 
+/** The real check worker, except that a check with PACED_SEED waits until it is aborted. */
+async function pacedWorker(): Promise<string> {
+	workerFolder = mkdtempSync(path.join(tmpdir(), 'rankseal-review-worker-'));
+	await bundleCheckWorker(path.join(workerFolder, 'check-worker.mjs'));
+	const paced = path.join(workerFolder, 'paced-worker.mjs');
+	writeFileSync(
+		paced,
+		"import runCheck from './check-worker.mjs';\n" +
+			"export { summariseCounts } from './check-worker.mjs';\n" +
+			`export default (task) => task.seed !== ${PACED_SEED} ? runCheck(task) : ` +
+			"(task.port?.postMessage({ type: 'started' }), new Promise(() => {}));\n"
+	);
+	return paced;
+}
+
 beforeAll(async () => {
 	world = await seedReviewFlow();
-	app = await startApp({ RANKSEAL_DATA_DIR: world.dataDir });
+	const worker = await pacedWorker();
+	app = await startApp({
+		RANKSEAL_DATA_DIR: world.dataDir,
+		RANKSEAL_CHECK_WORKER: worker,
+		RANKSEAL_CHECK_RETRY_AFTER_S: '30'
+	});
 });
 afterAll(async () => {
 	for (const browser of browsers) await browser.close();
 	await app?.stop();
+	if (workerFolder) rmSync(workerFolder, { recursive: true, force: true });
 });
 
 describe('sharing and review in Chromium', () => {
@@ -120,6 +148,54 @@ describe('sharing and review in Chromium', () => {
 		await referee.fill('textarea[name=comments]', 'Please state the detector dead time.');
 		await referee.click('[data-testid=file-report]');
 		await referee.locator('[data-testid=report-state][data-state=submitted]').waitFor(STATE_WAIT);
+	});
+
+	it('a second re-run while one is going is answered 429; the referee cancels their own', async () => {
+		const referee = await pageAs(null);
+		const api = reviewUrl.replace('/review/', '/api/v1/review/');
+		await referee.goto(reviewUrl);
+		await referee.fill('input[name=seed]', String(PACED_SEED));
+		await referee.click('[data-testid=rerun-button]');
+		const going = referee.locator('[data-testid=rerun]', { hasText: `Seed ${PACED_SEED}` });
+		await going.getByTestId('cancel-rerun').waitFor(STATE_WAIT);
+
+		const [refused] = await Promise.all([
+			referee.waitForResponse((r) => r.request().method() === 'POST' && /\?\/rerun/.test(r.url())),
+			referee.click('[data-testid=rerun-button]')
+		]);
+		expect(refused.status()).toBe(429);
+		expect(refused.headers()['retry-after']).toBe('30');
+		const words = 'A re-run from this review link is still queued or running';
+		await referee.getByRole('alert').filter({ hasText: words }).waitFor(STATE_WAIT);
+		const viaApi = await fetch(`${api}/checks`, {
+			method: 'POST',
+			headers: { 'content-type': 'application/json' },
+			body: '{}'
+		});
+		expect(viaApi.status).toBe(429);
+		expect(viaApi.headers.get('retry-after')).toBe('30');
+		expect((await viaApi.json()).error).toMatchObject({ code: 'rate_limited' });
+
+		await referee.goto(reviewUrl);
+		await going.getByRole('button', { name: 'Cancel this re-run' }).click();
+		await going.getByTestId('rerun-cancelled').waitFor(STATE_WAIT);
+		expect(await going.getAttribute('data-status')).toBe('cancelled');
+		expect(await referee.getByTestId('cancel-rerun').count()).toBe(0);
+		const view = await (await fetch(api)).json();
+		const cancelled = view.checks.find((c: { seed: number }) => c.seed === PACED_SEED);
+		expect(cancelled).toMatchObject({ status: 'cancelled', cancelledBy: 'the referee' });
+
+		// The link's place is free again; a script cancels the same way.
+		const again = await fetch(`${api}/checks`, {
+			method: 'POST',
+			headers: { 'content-type': 'application/json' },
+			body: JSON.stringify({ seed: PACED_SEED })
+		});
+		expect(again.status).toBe(202);
+		const { id } = await again.json();
+		const stopped = await fetch(`${api}/checks/${id}`, { method: 'DELETE' });
+		expect(stopped.status).toBe(200);
+		expect(await stopped.json()).toMatchObject({ id, status: 'cancelled' });
 	});
 
 	it('the editor is told, and releases the report', async () => {

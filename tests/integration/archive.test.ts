@@ -21,7 +21,9 @@ import { createClaim } from '../../src/lib/server/services/claims';
 import { ConflictError, ForbiddenError, NotFoundError } from '../../src/lib/server/services/errors';
 import { FieldError } from '../../src/lib/server/services/field-error';
 import { verifyLedger } from '../../src/lib/server/services/ledger-verify';
-import { claimFields } from './backend-fixtures';
+import { problemOf } from '../../src/lib/server/problems';
+import { asUser } from './actors';
+import { addUser, claimFields } from './backend-fixtures';
 import { evidenceWorld, finishedCheck, type EvidenceWorld } from './evidence-world';
 
 // Safety limits for bundling and issuing on a busy machine, not speed checks.
@@ -103,6 +105,25 @@ describe('versions', () => {
 		await expect(
 			groupArchive(world.database, world.outsider, filter({ group: archive.group.id }))
 		).rejects.toBeInstanceOf(NotFoundError);
+	});
+});
+
+describe('callers in no group', () => {
+	it('are refused with 403 saying why, for their own archive and any named one', async () => {
+		const newcomer = asUser(await addUser(world.database, 'Nia Newcomer'));
+		const editor = asUser(await addUser(world.database, 'Eda Kern'), 'editor');
+		const admin = asUser(await addUser(world.database, 'Ola Admin'), 'admin');
+		const lakeGroup = (await groupArchive(world.database, world.lead, filter({}))).group.id;
+		for (const caller of [newcomer, editor, admin])
+			for (const query of [{}, { group: lakeGroup }] as Record<string, string>[]) {
+				const refused = await groupArchive(world.database, caller, filter(query)).catch((e) => e);
+				expect(refused).toBeInstanceOf(ForbiddenError);
+				expect(problemOf(refused)).toMatchObject({
+					status: 403,
+					code: 'forbidden',
+					message: expect.stringMatching(/^You belong to no group, so there is no group archive/)
+				});
+			}
 	});
 });
 

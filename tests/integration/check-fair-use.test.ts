@@ -128,7 +128,7 @@ describe('fair scheduling between groups', () => {
 });
 
 describe('limits on queued and running checks', () => {
-	it('refuses a person’s and a group’s check over the limit with 429 words and a wait, then lets one in after a cancel', async () => {
+	it('refuses a person’s, a group’s and a review link’s check over the limit with 429 words and a wait, then lets one in after a cancel', async () => {
 		const env = {
 			RANKSEAL_CHECKS_PER_USER: '2',
 			RANKSEAL_CHECKS_PER_GROUP: '3',
@@ -153,6 +153,19 @@ describe('limits on queued and running checks', () => {
 			expect((await ctx.database.models.Check.findByPk(rerun.id))!.get('reviewLinkId')).toBe(
 				'review-link-under-test'
 			);
+			// One re-run per link at a time: the same 429 words and wait as the other limits.
+			const referee = asReferee(lakeClaim);
+			const twice = await startCheck(ctx.database, referee, lakeClaim).catch((e) => e);
+			expect(twice).toBeInstanceOf(RateLimitedError);
+			expect(twice.message).toMatch(
+				/^A re-run from this review link is still queued or running; the limit is 1 at a time per link\. Wait for it to finish or cancel it\.$/
+			);
+			expect(twice.retryAfterSeconds).toBe(45);
+			await cancelCheck(ctx.database, referee, rerun.id);
+			await (await runner()).settled(rerun.id);
+			await expect(startCheck(ctx.database, referee, lakeClaim)).resolves.toMatchObject({
+				status: 'queued'
+			});
 			await cancelAndSettle(ada, first.id);
 			await expect(start(ada)).resolves.toMatchObject({ status: 'queued' });
 			expect(await ctx.database.models.Check.count({ where: { createdBy: ada } })).toBeGreaterThan(

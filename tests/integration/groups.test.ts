@@ -129,7 +129,7 @@ describe('groups, invitations and roles', () => {
 		const token = await invite('ane@fjordlight.test', 'lead');
 		const otherId = await verifiedUser('per@fjordlight.test', 'Per Dahl');
 		await expect(acceptInvitation(world.database, asUser(otherId), token)).rejects.toBeInstanceOf(
-			FieldError
+			ForbiddenError
 		);
 		expect((await findInvitation(world.database, token))!.state).toBe('valid');
 		expect(await groupsOf(world.database, asUser(otherId))).toEqual([]);

@@ -10,7 +10,9 @@ import {
 	acceptInvitation,
 	invitationTokenIn
 } from '../../src/lib/server/services/invitation-links';
+import { ForbiddenError } from '../../src/lib/server/services/errors';
 import { inviteMember } from '../../src/lib/server/services/invitations';
+import { problemOf } from '../../src/lib/server/problems';
 import { asUser } from './actors';
 import { addUser } from './backend-fixtures';
 import { linkToken, mailTo, mailWorld, type MailWorld } from './mail-world';
@@ -74,5 +76,32 @@ describe('signing up through an invitation', () => {
 			expect(await isVerified(userId)).toBe(false);
 			expect((await mailTo(world, email)).length).toBe(1);
 		}
+	});
+});
+
+describe('an invitation opened by someone else', () => {
+	it('answers 403 naming the address only masked, writes nothing, and stays usable by the invitee', async () => {
+		const email = 'xenia.quell@basalt.example';
+		const token = await invite(email);
+		const other = await addUser(world.database, 'Yves Other');
+		const refused = await acceptInvitation(world.database, asUser(other), token).catch((e) => e);
+		expect(refused).toBeInstanceOf(ForbiddenError);
+		expect(problemOf(refused)).toMatchObject({ status: 403, code: 'forbidden' });
+		expect(refused.message).toBe(
+			'This invitation was sent to another address; sign in as x***@b***.example to accept it.'
+		);
+		const { Membership, Invitation } = world.database.models;
+		expect(await Membership.count({ where: { groupId, userId: other } })).toBe(0);
+		expect(await Invitation.count({ where: { email, acceptedAt: null } })).toBe(1);
+		const { userId } = await signUp(
+			world.database,
+			world.mailer,
+			{ email, name: 'Xenia Quell', password: PASSWORD },
+			{ invitationToken: token }
+		);
+		await expect(acceptInvitation(world.database, asUser(userId), token)).resolves.toEqual({
+			groupId,
+			role: 'author'
+		});
 	});
 });

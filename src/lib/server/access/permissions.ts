@@ -8,7 +8,8 @@ import type { Database } from '../db';
 import type { ClaimAttributes } from '../db/models/Claim';
 import type { GroupRole } from '../db/models/Membership';
 import { ConflictError, ForbiddenError, NotFoundError } from '../services/errors';
-import type { AccountActor, Actor } from './actor';
+import { isAccount, type AccountActor, type Actor } from './actor';
+import { maskedAddress } from './masked-address';
 
 export type Decision = 'allowed' | 'denied' | 'hidden';
 
@@ -34,7 +35,8 @@ export type ServiceAction =
 	| 'issue-token'
 	| 'manage-tokens'
 	| 'manage-accounts'
-	| 'read-outbox';
+	| 'read-outbox'
+	| 'read-archive';
 
 /** What each kind of claim viewer may do once the claim is visible to them. */
 const CLAIM_RULES = {
@@ -86,7 +88,9 @@ const SERVICE_DENIALS: Record<ServiceAction, string> = {
 	'issue-token': 'Only editors and members of a group issue API tokens.',
 	'manage-tokens': 'Sign in to see or revoke your API tokens.',
 	'manage-accounts': 'Only admins may do this.',
-	'read-outbox': 'Only admins may do this.'
+	'read-outbox': 'Only admins may do this.',
+	'read-archive':
+		'You belong to no group, so there is no group archive to list. Start a group or accept an invitation to one first.'
 };
 
 /** The actor's role in the group, from the database as it is now (or in the transaction). */
@@ -265,6 +269,11 @@ export async function decideService(
 	actor: Actor,
 	action: ServiceAction
 ): Promise<Decision> {
+	// A group's archive is its claims: a token reads it as its owner would.
+	if (action === 'read-archive')
+		return isAccount(actor) && (await groupIdsOf(database, actor)).length > 0
+			? 'allowed'
+			: 'denied';
 	// Tokens act on claims only; accounts, groups and tokens need a person signed in.
 	if (actor.kind !== 'user') return 'denied';
 	if (action === 'manage-accounts' || action === 'read-outbox') {
@@ -288,6 +297,17 @@ export async function requireService(
 	if ((await decideService(database, actor, action)) !== 'allowed')
 		throw new ForbiddenError(SERVICE_DENIALS[action]);
 	return actor as AccountActor;
+}
+
+/**
+ * An invitation is used only by the account with the invited address; anyone else holding the
+ * link is told which address to sign in with, masked, as the link may have been passed on.
+ */
+export function requireInvitee(account: { email: string }, invitation: { email: string }): void {
+	if (account.email === invitation.email) return;
+	throw new ForbiddenError(
+		`This invitation was sent to another address; sign in as ${maskedAddress(invitation.email)} to accept it.`
+	);
 }
 
 /** A token is seen only by its owner, signed in; anyone else is told it does not exist. */

@@ -7,8 +7,8 @@ import { Op, col, fn, where as sqlWhere, type WhereOptions } from 'sequelize';
 import type { ArchiveFilter } from '$lib/archive/schema';
 import type { Database } from '../db';
 import type { ClaimAttributes } from '../db/models/Claim';
-import { isAccount, type Actor } from '../access/actor';
-import { requireGroup } from '../access/permissions';
+import type { AccountActor, Actor } from '../access/actor';
+import { requireGroup, requireService } from '../access/permissions';
 import { NotFoundError } from './errors';
 
 export interface ArchiveVersion {
@@ -129,25 +129,30 @@ async function versionsOf(database: Database, claimIds: string[]) {
 }
 
 /** The caller's first group by name, for an archive asked for without one. */
-async function firstGroupOf(database: Database, actor: Actor): Promise<string> {
-	if (!isAccount(actor)) throw new NotFoundError('No such group.');
+async function firstGroupOf(database: Database, actor: AccountActor): Promise<string> {
 	const { Group, Membership } = database.models;
 	const rows = await Membership.findAll({
 		where: { userId: actor.userId },
 		include: [{ model: Group, attributes: ['name'] }],
 		order: [[Group, 'name', 'ASC']]
 	});
-	if (!rows.length) throw new NotFoundError('You belong to no group yet, so there is no archive.');
+	// Left the last group since read-archive was decided: as if the group were gone.
+	if (!rows.length) throw new NotFoundError('No such group.');
 	return rows[0].get('groupId') as string;
 }
 
-/** The archive of one group of the caller's (their first group by name when none is named). */
+/**
+ * The archive of one group of the caller's (their first group by name when none is named).
+ * ForbiddenError for a caller in no group (an editor, an admin, a newcomer): there is no archive
+ * of theirs, and an empty list would hide why.
+ */
 export async function groupArchive(
 	database: Database,
 	actor: Actor,
 	filter: ArchiveFilter
 ): Promise<Archive> {
-	const groupId = filter.group ?? (await firstGroupOf(database, actor));
+	const account = await requireService(database, actor, 'read-archive');
+	const groupId = filter.group ?? (await firstGroupOf(database, account));
 	await requireGroup(database, actor, groupId, 'read');
 	const group = (await database.models.Group.findByPk(groupId))!;
 	const rows = await database.models.Claim.findAll({

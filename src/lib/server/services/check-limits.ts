@@ -1,10 +1,10 @@
 /**
- * Fair use of the workers: how many checks one person and one group may have queued or running
- * at once. Review re-runs count in their link's own bucket (one at a time, referee.ts), not
- * against the group, so that neither side can crowd out the other.
+ * Fair use of the workers: how many checks one person, one group and one review link may have
+ * queued or running at once. Review re-runs count in their link's own bucket, not against the
+ * group, so that neither side can crowd out the other.
  */
 import { Op, type Transaction } from 'sequelize';
-import type { Actor } from '../access/actor';
+import type { Actor, RefereeActor } from '../access/actor';
 import { config } from '../config';
 import type { Database } from '../db';
 import { ACTIVE_CHECK_STATUSES } from '../db/models/Check';
@@ -16,13 +16,17 @@ import { RateLimitedError } from './errors';
  */
 export const MAX_CHECK_STARTS = 3;
 
-/** Refuses a new check over either limit, naming it; run inside the transaction that queues it. */
+/** A referee re-runs one check at a time: a link cannot queue up the service's workers. */
+export const RERUNS_PER_REVIEW_LINK = 1;
+
+/** Refuses a new check over any limit, naming it; run inside the transaction that queues it. */
 export async function refuseOverCheckLimits(
 	database: Database,
 	actor: Actor,
 	groupId: string,
 	transaction: Transaction
 ): Promise<void> {
+	if (actor.kind === 'referee') return refuseOverLinkLimit(database, actor, transaction);
 	if (actor.kind !== 'user' && actor.kind !== 'token') return;
 	const { checksPerUser, checksPerGroup, checkRetryAfterSeconds: wait } = config();
 	const { Check, Claim } = database.models;
@@ -42,4 +46,18 @@ export async function refuseOverCheckLimits(
 			`This group has ${group} checks queued or running; the limit is ${checksPerGroup} per group. Wait for one to finish or cancel one.`,
 			wait
 		);
+}
+
+async function refuseOverLinkLimit(
+	database: Database,
+	referee: RefereeActor,
+	transaction: Transaction
+): Promise<void> {
+	const where = { status: ACTIVE_CHECK_STATUSES, reviewLinkId: referee.linkId };
+	const running = await database.models.Check.count({ where, transaction });
+	if (running < RERUNS_PER_REVIEW_LINK) return;
+	throw new RateLimitedError(
+		`A re-run from this review link is still queued or running; the limit is ${RERUNS_PER_REVIEW_LINK} at a time per link. Wait for it to finish or cancel it.`,
+		config().checkRetryAfterSeconds
+	);
 }

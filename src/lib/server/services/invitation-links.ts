@@ -1,10 +1,10 @@
 /**
  * Invitations, the invitee's side: what a link stands for, and using it. A link works once
- * within 7 days, and only for a signed-in user with the invited address.
+ * within 7 days, and only for a signed-in user with the invited address (anyone else: 403).
  */
 import { Op, type Transaction } from 'sequelize';
 import type { Actor } from '../access/actor';
-import { requireService } from '../access/permissions';
+import { requireInvitee, requireService } from '../access/permissions';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
 import type { GroupRole } from '../db/models/Membership';
@@ -99,12 +99,7 @@ export async function acceptInvitation(
 			);
 		const user = (await User.findByPk(userId, { transaction }))?.get({ plain: true });
 		if (!user) throw new NotFoundError('No such user.');
-		if (user.email !== i.email) {
-			throw new FieldError(
-				'invitation',
-				`This invitation was sent to ${i.email}, but you are signed in as ${user.email}.`
-			);
-		}
+		requireInvitee(user, i);
 		const [used] = await Invitation.update(
 			{ acceptedAt: now },
 			{ where: { id: i.id, acceptedAt: null }, transaction }

@@ -13,9 +13,9 @@ import type { CertificateAttributes } from '../db/models/Certificate';
 import { audit } from './audit';
 import { absolute } from './certificate-files';
 import { certificateView, type CertificateView } from './certificate-views';
-import { getCheck, startCheck, type CheckView } from './checks';
+import { cancelCheck, getCheck, mayCancelCheck, startCheck, type CheckView } from './checks';
 import { datasetTables, getDataset, type DatasetTables, type DatasetView } from './datasets';
-import { ConflictError, NotFoundError } from './errors';
+import { NotFoundError } from './errors';
 import { ownReport, type ReportView } from './reports';
 
 /** A referee chooses only the seed; everything else is the certified check's. */
@@ -146,11 +146,7 @@ export async function startRefereeCheck(
 	const referee = asReferee(actor);
 	const { seed: freshSeed } = refereeCheckSchema.parse(input);
 	const claim = await requireClaim(database, referee, referee.claimId, 'start-check');
-	const ids = await ownCheckIds(database, referee);
-	const { Check } = database.models;
-	// One re-run at a time per link: a referee cannot queue up the service's workers.
-	if (await Check.count({ where: { id: ids, status: ['queued', 'running'] } }))
-		throw new ConflictError('A re-run from this link is still going; wait for it to finish.');
+	// startCheck holds the link to one re-run at a time (check-limits.ts): 429 over it.
 	const certificate = await currentCertificate(database, referee.claimId);
 	const certified = await getCheck(database, referee, certificate.checkId);
 	const { resamples, confidence, datasetId } = certified;
@@ -165,6 +161,28 @@ export async function startRefereeCheck(
 	};
 	await audit(database, { ...entry, action: 'review.check-started', details });
 	return { ...check, comparison: compareRuns(certified, check) };
+}
+
+/** Cancels one of this link's queued or running re-runs (cancel-check); 409 once it has ended. */
+export async function cancelRefereeCheck(
+	database: Database,
+	actor: Actor,
+	checkId: string
+): Promise<RefereeCheck> {
+	const referee = asReferee(actor);
+	await cancelCheck(database, referee, checkId);
+	return refereeCheck(database, referee, checkId);
+}
+
+/** The ids of the re-runs the referee may cancel now: the page offers a button for each. */
+export async function cancellableReRuns(
+	database: Database,
+	actor: Actor,
+	checks: CheckView[]
+): Promise<string[]> {
+	const going = checks.filter((c) => c.status === 'queued' || c.status === 'running');
+	const allowed = await Promise.all(going.map((c) => mayCancelCheck(database, actor, c.id)));
+	return going.filter((_, i) => allowed[i]).map((c) => c.id);
 }
 
 /** The current certificate's evidence bundle. */

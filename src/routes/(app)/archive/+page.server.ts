@@ -16,7 +16,6 @@ export const load: PageServerLoad = async ({ locals, url }) => {
 	const { database } = await app();
 	const groups = await groupsOf(database, actor);
 	const values = Object.fromEntries(FILTER_KEYS.map((k) => [k, url.searchParams.get(k) ?? '']));
-	if (!groups.length) return { groups, values, errors: {}, archive: null };
 	const parsed = archiveFilterSchema.safeParse(values);
 	// A bad filter is shown beside its field; the archive then shows unfiltered.
 	const errors = parsed.success ? {} : fieldErrors(parsed.error);

@@ -1,8 +1,14 @@
 import { error, redirect } from '@sveltejs/kit';
 import { app } from '$lib/server/app';
+import { formRefusal } from '$lib/server/auth-web';
 import { formFailure, pageProblem } from '$lib/server/problems';
 import { INVALID_REVIEW_LINK } from '$lib/server/review-api';
-import { refereeView, startRefereeCheck } from '$lib/server/services/referee';
+import {
+	cancellableReRuns,
+	cancelRefereeCheck,
+	refereeView,
+	startRefereeCheck
+} from '$lib/server/services/referee';
 import { saveReport } from '$lib/server/services/reports';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -19,13 +25,14 @@ export const load: PageServerLoad = async ({ locals, params }) => {
 	const actor = referee(locals);
 	const { database } = await app();
 	const view = await refereeView(database, actor).catch(pageProblem);
-	return { ...view, token: params.token };
+	const cancellable = await cancellableReRuns(database, actor, view.checks);
+	return { ...view, cancellable, token: params.token };
 };
 
 const text = (form: FormData, key: string) => String(form.get(key) ?? '');
 
 export const actions: Actions = {
-	rerun: async ({ locals, request, url }) => {
+	rerun: async ({ locals, request, url, setHeaders }) => {
 		const actor = referee(locals);
 		const form = await request.formData();
 		const seed = text(form, 'seed').trim();
@@ -33,7 +40,19 @@ export const actions: Actions = {
 		try {
 			await startRefereeCheck(database, actor, { seed: seed || undefined });
 		} catch (problem) {
-			return formFailure('rerun', problem, { seed });
+			return formRefusal({ setHeaders }, 'rerun', problem, { seed });
+		}
+		redirect(303, `${url.pathname}#reruns`);
+	},
+	/** Cancels one of this link's queued or running re-runs; 409 beside it once it has ended. */
+	cancel: async ({ locals, request, url }) => {
+		const actor = referee(locals);
+		const checkId = text(await request.formData(), 'checkId');
+		const { database } = await app();
+		try {
+			await cancelRefereeCheck(database, actor, checkId);
+		} catch (problem) {
+			return formFailure('cancel', problem, { checkId });
 		}
 		redirect(303, `${url.pathname}#reruns`);
 	},

@@ -1,4 +1,5 @@
 import { error, redirect } from '@sveltejs/kit';
+import { maskedAddress } from '$lib/server/access/masked-address';
 import { app } from '$lib/server/app';
 import { clearSessionCookie, requireSignedIn } from '$lib/server/auth-web';
 import { formFailure } from '$lib/server/problems';
@@ -10,12 +11,19 @@ export const load: PageServerLoad = async ({ params, locals }) => {
 	const { database } = await app();
 	const invitation = await findInvitation(database, params.token);
 	if (!invitation) error(404, 'This invitation does not exist or was withdrawn.');
-	const here = `/invite/${params.token}`;
+	const signedInAs = locals.user?.email ?? null;
+	// Someone signed in with another address learns only the masked one, as the action tells it.
+	const email =
+		signedInAs && signedInAs !== invitation.email
+			? maskedAddress(invitation.email)
+			: invitation.email;
+	const query = `next=${encodeURIComponent(`/invite/${params.token}`)}&email=${encodeURIComponent(email)}`;
 	return {
-		invitation,
-		signedInAs: locals.user?.email ?? null,
-		loginHref: `/login?next=${encodeURIComponent(here)}&email=${encodeURIComponent(invitation.email)}`,
-		signupHref: `/signup?next=${encodeURIComponent(here)}&email=${encodeURIComponent(invitation.email)}`
+		invitation: { ...invitation, email },
+		signedInAs,
+		matches: signedInAs === invitation.email,
+		loginHref: `/login?${query}`,
+		signupHref: `/signup?${query}`
 	};
 };
 

@@ -302,6 +302,7 @@ export const openApiDocument = {
 					},
 					'400': badRequest,
 					'401': unauthorised,
+					'403': failure('The caller belongs to no group, so has no archive (code forbidden).'),
 					'404': notFound
 				}
 			}

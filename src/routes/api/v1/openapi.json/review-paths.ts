@@ -142,7 +142,9 @@ export const reviewPaths = {
 				'202': reply('Queued; poll it.', 'QueuedCheck'),
 				'400': badRequest,
 				'404': invalidLink,
-				'409': failure('A re-run from this link is still going.')
+				'429': failure(
+					'A re-run from this link is still queued or running (code rate_limited; one at a time per link); Retry-After the seconds to wait, or cancel it.'
+				)
 			}
 		}
 	},
@@ -153,6 +155,17 @@ export const reviewPaths = {
 			operationId: 'readReRun',
 			summary: 'A re-run: the shape of any check, and how it compares with the certificate',
 			responses: { '200': reply('The re-run.', 'ReRun'), '404': invalidLink }
+		},
+		delete: {
+			...referee,
+			parameters: [token, checkId],
+			operationId: 'cancelReRun',
+			summary: 'Cancel a queued or running re-run of this link',
+			responses: {
+				'200': reply('The cancelled re-run.', 'ReRun'),
+				'404': invalidLink,
+				'409': failure('The re-run has ended already (code conflict).')
+			}
 		}
 	},
 	'/api/v1/review/{token}/report': {
