@@ -7,9 +7,7 @@
  * check. The worker reports "started" and then waits to be aborted: each kill or stop is paced by
  * the check's own row, never by a time.
  */
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import path from 'node:path';
+import { rmSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { cutOffReason } from '../../src/lib/server/checks/left-behind';
 import { MAX_CHECK_STARTS } from '../../src/lib/server/services/check-limits';
@@ -17,34 +15,29 @@ import { seedApiWorld, type ApiWorld } from './api-world';
 import { addFinishedClaims, type FinishedClaim } from './certificate-world';
 import { apiPost, assertWhole, readRows, send, whenChanged } from './fault-world';
 import { startApp, type AppServer } from './server';
+import { waitingWorker, type WaitingWorker } from '../waiting-worker';
 
 let world: ApiWorld;
 let claims: FinishedClaim[];
-let workerFolder: string;
+let worker: WaitingWorker | undefined;
 let app: AppServer | null = null;
 
 beforeAll(async () => {
 	world = await seedApiWorld();
 	claims = await addFinishedClaims(world.dataDir, 2);
-	workerFolder = mkdtempSync(path.join(tmpdir(), 'rankseal-crash-loop-'));
-	const built = path.resolve('build/workers/check-worker.mjs');
-	writeFileSync(
-		path.join(workerFolder, 'waiting-worker.mjs'),
-		`export { summariseCounts } from ${JSON.stringify(built)};\n` +
-			"export default (task) => { task.port?.postMessage({ type: 'started' }); return new Promise(() => {}); };\n"
-	);
+	worker = await waitingWorker();
 });
 afterAll(async () => {
 	await app?.stop();
 	if (world) rmSync(world.dataDir, { recursive: true, force: true });
-	if (workerFolder) rmSync(workerFolder, { recursive: true, force: true });
+	worker?.remove();
 });
 
 const start = () =>
 	startApp({
 		RANKSEAL_DATA_DIR: world.dataDir,
 		RANKSEAL_DEMO: '0',
-		RANKSEAL_CHECK_WORKER: path.join(workerFolder, 'waiting-worker.mjs')
+		RANKSEAL_CHECK_WORKER: worker!.file
 	});
 
 async function checkRow(id: string) {

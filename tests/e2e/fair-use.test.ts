@@ -4,12 +4,11 @@
  * claim; the group page shows the lead the storage used against the quota. The app's check
  * worker waits until it is aborted, so the check is still running whenever the test looks.
  */
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { bundleCheckWorker } from '../../src/lib/server/checks/locate';
 import { stopCheckRunner } from '../../src/lib/server/checks/runner';
 import { openDatabase } from '../../src/lib/server/db';
 import { createClaim } from '../../src/lib/server/services/claims';
@@ -25,18 +24,20 @@ import {
 } from '../integration/backend-fixtures';
 import { launchBrowser, type TestBrowser } from './browser';
 import { startApp, type AppServer } from './server';
+import { waitingWorker, type WaitingWorker } from '../waiting-worker';
 
 let app: AppServer;
 let browser: TestBrowser;
 let page: Page;
-let workerFolder: string;
+let worker: WaitingWorker;
+let dataDir: string;
 const ids = { group: '', claim: '', check: '', session: '' };
 
 /** A group with one claim, its counts and one queued check, written before the app starts. */
 async function seed(dataDir: string): Promise<void> {
 	const saved = { ...process.env };
 	process.env.RANKSEAL_DATA_DIR = dataDir;
-	process.env.RANKSEAL_CHECK_WORKER = path.join(workerFolder, 'check-worker.mjs');
+	process.env.RANKSEAL_CHECK_WORKER = worker.realWorker;
 	const database = await openDatabase(path.join(dataDir, 'rankseal.sqlite'));
 	try {
 		ids.group = await addGroup(database, 'Tarn Photonics (fictional)');
@@ -60,19 +61,12 @@ async function seed(dataDir: string): Promise<void> {
 }
 
 beforeAll(async () => {
-	workerFolder = mkdtempSync(path.join(tmpdir(), 'rankseal-fair-use-worker-'));
-	await bundleCheckWorker(path.join(workerFolder, 'check-worker.mjs'));
-	const waiting = path.join(workerFolder, 'waiting-worker.mjs');
-	writeFileSync(
-		waiting,
-		"export { summariseCounts } from './check-worker.mjs';\n" +
-			"export default (task) => { task.port?.postMessage({ type: 'started' }); return new Promise(() => {}); };\n"
-	);
-	const dataDir = mkdtempSync(path.join(tmpdir(), 'rankseal-fair-use-'));
+	worker = await waitingWorker();
+	dataDir = mkdtempSync(path.join(tmpdir(), 'rankseal-fair-use-'));
 	await seed(dataDir);
 	app = await startApp({
 		RANKSEAL_DATA_DIR: dataDir,
-		RANKSEAL_CHECK_WORKER: waiting,
+		RANKSEAL_CHECK_WORKER: worker.file,
 		RANKSEAL_CHECK_WORKERS: '1',
 		RANKSEAL_CHECKS_PER_USER: '1',
 		RANKSEAL_CHECK_RETRY_AFTER_S: '30'
@@ -87,7 +81,8 @@ beforeAll(async () => {
 afterAll(async () => {
 	await browser?.close();
 	await app?.stop();
-	rmSync(workerFolder, { recursive: true, force: true });
+	worker?.remove();
+	if (dataDir) rmSync(dataDir, { recursive: true, force: true });
 });
 
 describe('fair use pages', () => {

@@ -8,15 +8,13 @@
  * PACED_SEED starts and then waits until it is cancelled (the app's worker says so).
  */
 import { createHash } from 'node:crypto';
-import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import path from 'node:path';
+import { readFileSync } from 'node:fs';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
-import { bundleCheckWorker } from '../../src/lib/server/checks/locate';
 import { launchBrowser, type TestBrowser } from './browser';
 import { seedReviewFlow, type ReviewFlowWorld } from './review-world';
 import { startApp, type AppServer } from './server';
+import { waitingWorker, type WaitingWorker } from '../waiting-worker';
 
 // Safety limits for a busy machine (seeding bundles the verifier), not speed checks.
 vi.setConfig({ testTimeout: 300_000, hookTimeout: 300_000 });
@@ -25,7 +23,7 @@ const STATE_WAIT = { timeout: 240_000 };
 const editorEmail = 'harriet.vell@journal.example';
 const PACED_SEED = 777;
 let app: AppServer;
-let workerFolder: string;
+let worker: WaitingWorker | undefined;
 let world: ReviewFlowWorld;
 const browsers: TestBrowser[] = [];
 let reviewUrl = '';
@@ -53,34 +51,20 @@ async function newestMail(admin: Page, to: string, subject: RegExp): Promise<str
 	return (await admin.textContent('[data-testid=message-text]')) ?? '';
 }
 
-/** The real check worker, except that a check with PACED_SEED waits until it is aborted. */
-async function pacedWorker(): Promise<string> {
-	workerFolder = mkdtempSync(path.join(tmpdir(), 'rankseal-review-worker-'));
-	await bundleCheckWorker(path.join(workerFolder, 'check-worker.mjs'));
-	const paced = path.join(workerFolder, 'paced-worker.mjs');
-	writeFileSync(
-		paced,
-		"import runCheck from './check-worker.mjs';\n" +
-			"export { summariseCounts } from './check-worker.mjs';\n" +
-			`export default (task) => task.seed !== ${PACED_SEED} ? runCheck(task) : ` +
-			"(task.port?.postMessage({ type: 'started' }), new Promise(() => {}));\n"
-	);
-	return paced;
-}
-
 beforeAll(async () => {
 	world = await seedReviewFlow();
-	const worker = await pacedWorker();
+	// The real check worker, except that a re-run with PACED_SEED waits until it is cancelled.
+	worker = await waitingWorker({ onlySeed: PACED_SEED });
 	app = await startApp({
 		RANKSEAL_DATA_DIR: world.dataDir,
-		RANKSEAL_CHECK_WORKER: worker,
+		RANKSEAL_CHECK_WORKER: worker.file,
 		RANKSEAL_CHECK_RETRY_AFTER_S: '30'
 	});
 });
 afterAll(async () => {
 	for (const browser of browsers) await browser.close();
 	await app?.stop();
-	if (workerFolder) rmSync(workerFolder, { recursive: true, force: true });
+	worker?.remove();
 });
 
 describe('sharing and review in Chromium', () => {

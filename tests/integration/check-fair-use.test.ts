@@ -3,11 +3,8 @@
  * never finish by themselves: the worker under test reports "started" and then waits until it
  * is aborted, so every start is caused by a cancel the test makes, never by a time.
  */
-import { existsSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import path from 'node:path';
+import { existsSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { bundleCheckWorker } from '../../src/lib/server/checks/locate';
 import {
 	startCheckRunner,
 	stopCheckRunner,
@@ -28,9 +25,10 @@ import { sha256Hex } from '../../src/lib/evidence/hash';
 import { addGroup, addUser, bytesOf, claimFields, countsCsv } from './backend-fixtures';
 import { asReferee, asUser } from './actors';
 import { temporaryDatabase } from './db';
+import { waitingWorker, type WaitingWorker } from '../waiting-worker';
 
 let ctx: Awaited<ReturnType<typeof temporaryDatabase>>;
-let workerFolder: string;
+let worker: WaitingWorker;
 let lake: string, ada: string, ben: string, cyd: string, lakeClaim: string, ridgeClaim: string;
 const saved = { ...process.env };
 
@@ -64,18 +62,11 @@ async function cancelEverything() {
 
 beforeAll(async () => {
 	ctx = await temporaryDatabase();
-	workerFolder = mkdtempSync(path.join(tmpdir(), 'rankseal-fair-use-'));
-	await bundleCheckWorker(path.join(workerFolder, 'check-worker.mjs'));
 	// Uploads still read through the real engine; checks wait for their abort.
-	const waiting = path.join(workerFolder, 'waiting-worker.mjs');
-	writeFileSync(
-		waiting,
-		"export { summariseCounts } from './check-worker.mjs';\n" +
-			"export default (task) => { task.port?.postMessage({ type: 'started' }); return new Promise(() => {}); };\n"
-	);
+	worker = await waitingWorker();
 	process.env.RANKSEAL_DATA_DIR = ctx.folder;
 	process.env.RANKSEAL_CHECK_WORKERS = '1';
-	process.env.RANKSEAL_CHECK_WORKER = waiting;
+	process.env.RANKSEAL_CHECK_WORKER = worker.file;
 	lake = await addGroup(ctx.database, 'Lake optics');
 	const ridge = await addGroup(ctx.database, 'Ridge qudits');
 	ada = await addUser(ctx.database, 'Ada Lind', [[lake, 'lead']]);
@@ -96,7 +87,7 @@ afterAll(async () => {
 	await cancelEverything();
 	await stopCheckRunner(ctx.database);
 	await ctx.close();
-	rmSync(workerFolder, { recursive: true, force: true });
+	worker?.remove();
 	process.env = saved;
 });
 

@@ -4,12 +4,8 @@
  * worker threads; the worker under test reports "started" and then waits until it is aborted,
  * so nothing here depends on how fast a check runs.
  */
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { cutOffReason } from '../../src/lib/server/checks/left-behind';
-import { bundleCheckWorker } from '../../src/lib/server/checks/locate';
 import { CheckRunner, stopCheckRunner } from '../../src/lib/server/checks/runner';
 import type { CheckStatus } from '../../src/lib/server/db/models/Check';
 import { MAX_CHECK_STARTS } from '../../src/lib/server/services/check-limits';
@@ -20,25 +16,18 @@ import { newId } from '../../src/lib/server/services/ids';
 import { asUser } from './actors';
 import { addGroup, addUser, bytesOf, claimFields, countsCsv } from './backend-fixtures';
 import { temporaryDatabase } from './db';
+import { waitingWorker, type WaitingWorker } from '../waiting-worker';
 
 let ctx: Awaited<ReturnType<typeof temporaryDatabase>>;
-let workerFolder: string;
-let waitingWorker: string;
+let worker: WaitingWorker;
 let ada: string, claimId: string, datasetId: string;
 const saved = { ...process.env };
 
 beforeAll(async () => {
 	ctx = await temporaryDatabase();
-	workerFolder = mkdtempSync(path.join(tmpdir(), 'rankseal-restarts-'));
-	await bundleCheckWorker(path.join(workerFolder, 'check-worker.mjs'));
-	waitingWorker = path.join(workerFolder, 'waiting-worker.mjs');
-	writeFileSync(
-		waitingWorker,
-		"export { summariseCounts } from './check-worker.mjs';\n" +
-			"export default (task) => { task.port?.postMessage({ type: 'started' }); return new Promise(() => {}); };\n"
-	);
+	worker = await waitingWorker();
 	process.env.RANKSEAL_DATA_DIR = ctx.folder;
-	process.env.RANKSEAL_CHECK_WORKER = waitingWorker;
+	process.env.RANKSEAL_CHECK_WORKER = worker.file;
 	const lake = await addGroup(ctx.database, 'Lake optics');
 	ada = await addUser(ctx.database, 'Ada Lind', [[lake, 'lead']]);
 	claimId = (await createClaim(ctx.database, asUser(ada), claimFields)).id;
@@ -52,7 +41,7 @@ beforeAll(async () => {
 
 afterAll(async () => {
 	await ctx.close();
-	rmSync(workerFolder, { recursive: true, force: true });
+	worker?.remove();
 	process.env = saved;
 });
 
@@ -88,7 +77,7 @@ describe('the start-up sweep of checks cut off while running', () => {
 		const again = await leftBehind('running', MAX_CHECK_STARTS - 1);
 		const spent = await leftBehind('running', MAX_CHECK_STARTS);
 		const waiting = await leftBehind('queued', 0);
-		const runner = new CheckRunner(ctx.database, waitingWorker, 1);
+		const runner = new CheckRunner(ctx.database, worker.file, 1);
 		const queued = await runner.resume();
 		// A clean stop: whichever of them had started gives its start back.
 		await runner.abort();
@@ -111,7 +100,7 @@ describe('the start-up sweep of checks cut off while running', () => {
 		const event = await AuditEvent.findOne({ where: { subjectId: spent, action: 'check.failed' } });
 		expect(event?.get('details')).toEqual({ error: cutOffReason(MAX_CHECK_STARTS) });
 		// The failed check is not queued again at the following start.
-		const next = new CheckRunner(ctx.database, waitingWorker, 1);
+		const next = new CheckRunner(ctx.database, worker.file, 1);
 		expect(await next.resume()).not.toContain(spent);
 		await next.abort();
 		await ctx.database.models.Check.update({ status: 'cancelled' }, { where: { claimId } });
@@ -121,7 +110,7 @@ describe('the start-up sweep of checks cut off while running', () => {
 describe('counting starts', () => {
 	it('counts a start in the write that marks the check running; a clean stop gives it back', async () => {
 		const id = await leftBehind('queued', 1);
-		const runner = new CheckRunner(ctx.database, waitingWorker, 1);
+		const runner = new CheckRunner(ctx.database, worker.file, 1);
 		const running = markedRunning(id);
 		expect(await runner.resume()).toEqual([id]);
 		await running;

@@ -3,28 +3,23 @@
  * for the header, RFC 6585 §4 for the status), DELETE cancelling (200, then 409 Conflict).
  * The worker under test waits until aborted, so no check ends by itself.
  */
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import type { RequestEvent } from '@sveltejs/kit';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Actor } from '../../src/lib/server/access/actor';
-import { bundleCheckWorker } from '../../src/lib/server/checks/locate';
 import { asUser } from './actors';
 import { addGroup, addUser, bytesOf, claimFields, countsCsv } from './backend-fixtures';
+import { waitingWorker } from '../waiting-worker';
 
 const folder = mkdtempSync(path.join(tmpdir(), 'rankseal-checks-api-'));
-await bundleCheckWorker(path.join(folder, 'check-worker.mjs'));
-writeFileSync(
-	path.join(folder, 'waiting-worker.mjs'),
-	"export { summariseCounts } from './check-worker.mjs';\n" +
-		'export default () => new Promise(() => {});\n'
-);
+const worker = await waitingWorker({ announce: false });
 Object.assign(process.env, {
 	RANKSEAL_DATA_DIR: path.join(folder, 'data'),
 	MAIL_CATCHER_PORT: '0',
 	RANKSEAL_CHECK_WORKERS: '1',
-	RANKSEAL_CHECK_WORKER: path.join(folder, 'waiting-worker.mjs'),
+	RANKSEAL_CHECK_WORKER: worker.file,
 	RANKSEAL_CHECKS_PER_USER: '1',
 	RANKSEAL_CHECK_RETRY_AFTER_S: '30'
 });
@@ -50,6 +45,7 @@ beforeAll(async () => {
 afterAll(async () => {
 	await stopApp();
 	rmSync(folder, { recursive: true, force: true });
+	worker.remove();
 });
 
 function event(actor: Actor, method: string, url: string, params: object, body?: unknown): never {
