@@ -49,11 +49,12 @@ export function upperOrderStatistic(sorted: Float64Array, q: number): number {
 }
 
 export function standardDeviation(values: Float64Array): number {
+	// Indexed loops: a typed array's iterator stays slow until V8 optimises it (the CLI's start).
 	let mean = 0;
-	for (const v of values) mean += v;
+	for (let i = 0; i < values.length; i++) mean += values[i];
 	mean /= values.length;
 	let sum = 0;
-	for (const v of values) sum += (v - mean) * (v - mean);
+	for (let i = 0; i < values.length; i++) sum += (values[i] - mean) * (values[i] - mean);
 	return Math.sqrt(sum / Math.max(1, values.length - 1));
 }
 
