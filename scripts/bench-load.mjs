@@ -56,8 +56,10 @@ async function startApp(dataDir) {
 		...process.env,
 		...{ PORT: String(port), HOST: '127.0.0.1', ORIGIN: origin, RANKSEAL_DATA_DIR: dataDir },
 		...{ RANKSEAL_DEMO: '1', MAIL_CATCHER_PORT: '0', RANKSEAL_RATE_LIMITS: JSON.stringify(LIMITS) },
-		// The four long checks must all start, even while the demo's own checks still run.
-		...{ RANKSEAL_CHECKS_PER_USER: '16', RANKSEAL_CHECKS_PER_GROUP: '16' }
+		// The four long checks must all start, even while the demo's own checks still run, and run
+		// at once: four worker threads (the default is two) on however many cores there are.
+		...{ RANKSEAL_CHECKS_PER_USER: '16', RANKSEAL_CHECKS_PER_GROUP: '16' },
+		RANKSEAL_CHECK_WORKERS: '4'
 	};
 	const child = spawn(process.execPath, [ENTRY], { env, stdio: ['ignore', 'pipe', 'pipe'] });
 	let log = '';
