@@ -1,7 +1,8 @@
 /**
  * An invitation opened by someone signed in with another address, in Chromium against the built
  * app: the page names the invited address only masked, and accepting is refused with 403 in the
- * same masked words; the invitee, signed in, joins with the page's button.
+ * same masked words; the invitee, signed in, joins with the page's button, and only then does the
+ * header offer the archive.
  */
 import { mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
@@ -96,12 +97,20 @@ describe('an invitation opened by someone else', () => {
 		expect(html).not.toContain(world.inviteeEmail);
 	});
 
-	it('lets the invitee join with the page’s button', async () => {
+	it('lets the invitee join with the page’s button; the header offers the archive only then', async () => {
 		const page = await pageAs(world.invitee);
 		await page.goto(`${app.origin}/invite/${world.token}`);
+		const headerLink = (href: string) => page.locator(`nav[aria-label=Main] a[href="${href}"]`);
+		// In no group yet: the archive would answer 403, so the header does not offer it.
+		expect(await headerLink('/archive').count()).toBe(0);
+		expect(await headerLink('/group').count()).toBe(1);
 		await Promise.all([
 			page.waitForURL(`${app.origin}/group/${world.group}`, { timeout: 0 }),
 			page.getByRole('button', { name: 'Join Fjord Optics (fictional)' }).click()
 		]);
+		await headerLink('/archive').waitFor({ timeout: 0 });
+		await headerLink('/archive').click();
+		await page.waitForURL(`${app.origin}/archive`, { timeout: 0 });
+		expect(await page.locator('[data-testid=error-page]').count()).toBe(0);
 	});
 });

@@ -142,6 +142,7 @@ describe('finding one’s way', () => {
 		expect(response!.status()).toBe(403);
 		const why = 'You belong to no group, so there is no group archive to list.';
 		expect(await page.textContent('[data-testid=error-page]')).toContain(why);
+		expect(await page.locator('nav a[href="/archive"]').count()).toBe(0);
 		const api = await fetch(`${origin}/api/v1/archive`, {
 			headers: { cookie: `rankseal_session=${session.world.sessions.loner}` }
 		});
