@@ -9,7 +9,7 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { stopCheckRunner } from '../../src/lib/server/checks/runner';
+import { stopCheckRunner } from '../../src/lib/server/checks/registry';
 import { openDatabase } from '../../src/lib/server/db';
 import { createClaim } from '../../src/lib/server/services/claims';
 import { addDataset } from '../../src/lib/server/services/datasets';

@@ -7,7 +7,7 @@ import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { bundleCheckWorker } from '../../src/lib/server/checks/locate';
-import { startCheckRunner, stopCheckRunner } from '../../src/lib/server/checks/runner';
+import { startCheckRunner, stopCheckRunner } from '../../src/lib/server/checks/registry';
 import { openDatabase } from '../../src/lib/server/db';
 import { DEMO_PEOPLE } from '../../src/lib/server/demo/scenario';
 import { seedDemo } from '../../src/lib/server/demo/seed';

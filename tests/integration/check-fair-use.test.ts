@@ -5,11 +5,8 @@
  */
 import { existsSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import {
-	startCheckRunner,
-	stopCheckRunner,
-	type CheckRunner
-} from '../../src/lib/server/checks/runner';
+import { startCheckRunner, stopCheckRunner } from '../../src/lib/server/checks/registry';
+import type { CheckRunner } from '../../src/lib/server/checks/runner';
 import { cancelCheck, getCheck, startCheck } from '../../src/lib/server/services/checks';
 import { createClaim } from '../../src/lib/server/services/claims';
 import { addDataset, datasetFilePath } from '../../src/lib/server/services/datasets';

@@ -6,7 +6,8 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { cutOffReason } from '../../src/lib/server/checks/left-behind';
-import { CheckRunner, stopCheckRunner } from '../../src/lib/server/checks/runner';
+import { stopCheckRunner } from '../../src/lib/server/checks/registry';
+import { CheckRunner } from '../../src/lib/server/checks/runner';
 import type { CheckStatus } from '../../src/lib/server/db/models/Check';
 import { MAX_CHECK_STARTS } from '../../src/lib/server/services/check-limits';
 import { getCheck } from '../../src/lib/server/services/checks';

@@ -5,7 +5,7 @@ import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { certify, parseCounts } from '../../src/lib/certify';
 import { bundleCheckWorker } from '../../src/lib/server/checks/locate';
-import { startCheckRunner, stopCheckRunner } from '../../src/lib/server/checks/runner';
+import { startCheckRunner, stopCheckRunner } from '../../src/lib/server/checks/registry';
 import {
 	getCheck,
 	listChecks,

@@ -7,7 +7,7 @@
 import { existsSync, renameSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { InputError, sampledCounts, states, toCountsCsv } from '../../src/lib/certify';
-import { stopCheckRunner } from '../../src/lib/server/checks/runner';
+import { stopCheckRunner } from '../../src/lib/server/checks/registry';
 import { updateClaim } from '../../src/lib/server/services/claim-edit';
 import { getCheck, startCheck } from '../../src/lib/server/services/checks';
 import { createClaim, getClaim } from '../../src/lib/server/services/claims';

@@ -12,7 +12,7 @@ import { QueryTypes } from 'sequelize';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { writeTransaction } from '../../src/lib/server/db/transactions';
 import { bundleCheckWorker } from '../../src/lib/server/checks/locate';
-import { stopCheckRunner } from '../../src/lib/server/checks/runner';
+import { stopCheckRunner } from '../../src/lib/server/checks/registry';
 import { listChecks, startCheck } from '../../src/lib/server/services/checks';
 import { createClaim } from '../../src/lib/server/services/claims';
 import { addDataset } from '../../src/lib/server/services/datasets';

@@ -10,7 +10,7 @@ import {
 	getDataset,
 	listDatasets
 } from '../../src/lib/server/services/datasets';
-import { stopCheckRunner } from '../../src/lib/server/checks/runner';
+import { stopCheckRunner } from '../../src/lib/server/checks/registry';
 import { ConflictError, NotFoundError } from '../../src/lib/server/services/errors';
 import { addGroup, addUser, bytesOf, claimFields, countsCsv } from './backend-fixtures';
 import { asUser } from './actors';

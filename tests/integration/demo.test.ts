@@ -9,7 +9,7 @@ import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { signIn } from '../../src/lib/server/services/accounts';
 import { bundleCheckWorker } from '../../src/lib/server/checks/locate';
-import { stopCheckRunner } from '../../src/lib/server/checks/runner';
+import { stopCheckRunner } from '../../src/lib/server/checks/registry';
 import { verifyEvidence } from '../../src/lib/evidence/verify';
 import { readZip } from '../../src/lib/server/evidence/zip-read';
 import { certificateFile, listCertificates } from '../../src/lib/server/services/certificate-reads';

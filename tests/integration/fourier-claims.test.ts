@@ -16,7 +16,7 @@ import {
 	toCountsCsv
 } from '../../src/lib/certify';
 import { bundleCheckWorker } from '../../src/lib/server/checks/locate';
-import { startCheckRunner, stopCheckRunner } from '../../src/lib/server/checks/runner';
+import { startCheckRunner, stopCheckRunner } from '../../src/lib/server/checks/registry';
 import { getCheck, startCheck } from '../../src/lib/server/services/checks';
 import { createClaim, getClaim } from '../../src/lib/server/services/claims';
 import { addDataset, listDatasets } from '../../src/lib/server/services/datasets';

@@ -8,7 +8,7 @@ import path from 'node:path';
 import fc from 'fast-check';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { InputError, parseCounts } from '../../src/lib/certify';
-import { stopCheckRunner } from '../../src/lib/server/checks/runner';
+import { stopCheckRunner } from '../../src/lib/server/checks/registry';
 import { problemOf } from '../../src/lib/server/problems';
 import { createClaim } from '../../src/lib/server/services/claims';
 import { addDataset } from '../../src/lib/server/services/datasets';

@@ -6,7 +6,7 @@ import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { bundleCheckWorker } from '../../src/lib/server/checks/locate';
-import { stopCheckRunner } from '../../src/lib/server/checks/runner';
+import { stopCheckRunner } from '../../src/lib/server/checks/registry';
 import { bundleVerifier } from '../../src/lib/server/evidence/verifier-file';
 import { issueCertificate } from '../../src/lib/server/services/certificates';
 import { createClaim } from '../../src/lib/server/services/claims';

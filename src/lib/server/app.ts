@@ -8,7 +8,7 @@ import { config } from './config';
 import { closeDb, db, type Database } from './db';
 import { catcherTransport, createMailer, type Mailer } from './mail';
 import { startMailCatcher, type MailCatcher } from './mail-catcher';
-import { abortCheckRunner, startCheckRunner } from './checks/runner';
+import { abortCheckRunner, startCheckRunner } from './checks/registry';
 import { startMailRunner, type MailRunner } from './mail-runner';
 import { serviceKey } from './evidence/keys';
 import { sweepOrphanFiles } from './services/certificate-files';

@@ -9,12 +9,10 @@ import { pathToFileURL } from 'node:url';
 import { Piscina } from 'piscina';
 import { literal } from 'sequelize';
 import type { CertificationResult } from '$lib/certify';
-import { config } from '../config';
 import type { Database } from '../db';
 import { ACTIVE_CHECK_STATUSES, type CheckAttributes, type CheckModel } from '../db/models/Check';
 import { datasetFilePath } from '../services/datasets';
 import { FairScheduler } from './fair-scheduler';
-import { checkWorkerFile } from './locate';
 import { recordOutcome } from './outcome';
 import { sweepLeftChecks } from './left-behind';
 import { CheckCancelled, type CheckQueue, type QueuedCheck } from './queue';
@@ -204,42 +202,4 @@ export class CheckRunner implements CheckQueue {
 			failure
 		});
 	}
-}
-
-const runners = new WeakMap<Database, Promise<CheckQueue>>();
-
-/**
- * The runner of this database, started on first use; starting it re-queues the checks a
- * previous process left behind. Call it once at start-up so that those resume promptly.
- */
-export function startCheckRunner(database: Database): Promise<CheckQueue> {
-	let runner = runners.get(database);
-	if (!runner) {
-		runner = (async () => {
-			const started = new CheckRunner(database, await checkWorkerFile(), config().checkWorkers);
-			await started.resume();
-			return started;
-		})();
-		runners.set(database, runner);
-		runner.catch(() => runners.delete(database));
-	}
-	return runner;
-}
-
-export const hasCheckRunner = (database: Database): boolean => runners.has(database);
-
-/** Waits for running checks, then stops the worker threads. */
-export async function stopCheckRunner(database: Database): Promise<void> {
-	const runner = runners.get(database);
-	if (!runner) return;
-	runners.delete(database);
-	await (await runner).close();
-}
-
-/** For shutdown: stops the worker threads without waiting for running checks (they resume later). */
-export async function abortCheckRunner(database: Database): Promise<void> {
-	const runner = runners.get(database);
-	if (!runner) return;
-	runners.delete(database);
-	await (await runner).abort();
 }

@@ -5,7 +5,7 @@
  */
 import type { CertificationResult } from '$lib/certify';
 import { userActor } from '../access/actor';
-import { startCheckRunner } from '../checks/runner';
+import { startCheckRunner } from '../checks/registry';
 import type { Database } from '../db';
 import { issueCertificate } from '../services/certificates';
 import { DEMO_CLAIMS } from './scenario';

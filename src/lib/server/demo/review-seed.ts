@@ -6,7 +6,7 @@
 import { mkdirSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { userActor } from '../access/actor';
-import { startCheckRunner } from '../checks/runner';
+import { startCheckRunner } from '../checks/registry';
 import { config } from '../config';
 import type { Database } from '../db';
 import type { Mailer } from '../mail';

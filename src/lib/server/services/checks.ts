@@ -8,7 +8,7 @@ import { DEFAULTS, type CertificationResult } from '$lib/certify';
 import { accountIdOf, type Actor } from '../access/actor';
 import { requireCheckCancel, requireClaim } from '../access/permissions';
 import { checkBucket } from '../checks/queue';
-import { hasCheckRunner, startCheckRunner } from '../checks/runner';
+import { hasCheckRunner, startCheckRunner } from '../checks/registry';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
 import { ACTIVE_CHECK_STATUSES, type CheckAttributes, type CheckStatus } from '../db/models/Check';

@@ -10,7 +10,7 @@ import { InputError } from '$lib/certify';
 import { sha256Hex } from '$lib/evidence/hash';
 import { accountIdOf, type Actor } from '../access/actor';
 import { requireClaim } from '../access/permissions';
-import { startCheckRunner } from '../checks/runner';
+import { startCheckRunner } from '../checks/registry';
 import { config } from '../config';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
