@@ -11,6 +11,7 @@ export default defineConfig({
 				test: {
 					name: 'unit',
 					include: ['tests/unit/**/*.test.ts', 'tests/integration/**/*.test.ts'],
+					setupFiles: ['tests/own-data-folder.ts'],
 					environment: 'node',
 					testTimeout: 60_000
 				}
