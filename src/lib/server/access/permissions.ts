@@ -19,6 +19,8 @@ export { decideGroup, requireGroup, type GroupAction } from './group-rules';
 export {
 	decideService,
 	decideToken,
+	invitedAddressFor,
+	isInvitee,
 	requireInvitee,
 	requireService,
 	type ServiceAction

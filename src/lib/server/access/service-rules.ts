@@ -67,12 +67,33 @@ export async function requireService(
 	return actor as AccountActor;
 }
 
+/** Whether this account is the one the invitation was sent to. */
+export function isInvitee(
+	account: { email: string } | null,
+	invitation: { email: string }
+): boolean {
+	return account?.email === invitation.email;
+}
+
+/**
+ * The invited address as this viewer may see it: whole to the invitee and to someone not signed
+ * in (the link stands for the mailbox), masked to anyone signed in with another address.
+ */
+export function invitedAddressFor(
+	account: { email: string } | null,
+	invitation: { email: string }
+): string {
+	return account && !isInvitee(account, invitation)
+		? maskedAddress(invitation.email)
+		: invitation.email;
+}
+
 /**
  * An invitation is used only by the account with the invited address; anyone else holding the
  * link is told which address to sign in with, masked, as the link may have been passed on.
  */
 export function requireInvitee(account: { email: string }, invitation: { email: string }): void {
-	if (account.email === invitation.email) return;
+	if (isInvitee(account, invitation)) return;
 	throw new ForbiddenError(
 		`This invitation was sent to another address; sign in as ${maskedAddress(invitation.email)} to accept it.`
 	);

@@ -1,5 +1,5 @@
 import { error, redirect } from '@sveltejs/kit';
-import { maskedAddress } from '$lib/server/access/masked-address';
+import { invitedAddressFor, isInvitee } from '$lib/server/access/permissions';
 import { app } from '$lib/server/app';
 import { clearSessionCookie, requireSignedIn } from '$lib/server/auth-web';
 import { formFailure } from '$lib/server/problems';
@@ -11,17 +11,14 @@ export const load: PageServerLoad = async ({ params, locals }) => {
 	const { database } = await app();
 	const invitation = await findInvitation(database, params.token);
 	if (!invitation) error(404, 'This invitation does not exist or was withdrawn.');
-	const signedInAs = locals.user?.email ?? null;
+	const account = locals.user ?? null;
 	// Someone signed in with another address learns only the masked one, as the action tells it.
-	const email =
-		signedInAs && signedInAs !== invitation.email
-			? maskedAddress(invitation.email)
-			: invitation.email;
+	const email = invitedAddressFor(account, invitation);
 	const query = `next=${encodeURIComponent(`/invite/${params.token}`)}&email=${encodeURIComponent(email)}`;
 	return {
 		invitation: { ...invitation, email },
-		signedInAs,
-		matches: signedInAs === invitation.email,
+		signedInAs: account?.email ?? null,
+		matches: isInvitee(account, invitation),
 		loginHref: `/login?${query}`,
 		signupHref: `/signup?${query}`
 	};
