@@ -18,6 +18,7 @@ import {
 } from '$lib/certify';
 import { basisProblem } from '$lib/certify/bases';
 import { MAX_SEED } from '$lib/certify/poisson';
+import { pageField, pageSizeField } from '$lib/paging';
 import { booleanFrom, numberFrom, wholeNumber, type ValueSource } from '$lib/schema-numbers';
 import { CLAIM_STATES } from './states';
 
@@ -203,8 +204,8 @@ export const claimQuerySchema = z.object({
 		blankToUndefined,
 		z.enum(['asc', 'desc'], { error: 'Order must be asc or desc.' }).optional()
 	),
-	page: z.preprocess(blankToUndefined, wholeNumber('The page', 1, 1_000_000, 'form').optional()),
-	pageSize: z.preprocess(blankToUndefined, wholeNumber('The page size', 1, 100, 'form').optional())
+	page: pageField(),
+	pageSize: pageSizeField(100)
 });
 
 export type ClaimQuery = z.output<typeof claimQuerySchema>;

@@ -1,4 +1,5 @@
 /** The outbox for admins: every message Rankseal wrote, with its delivery status. */
+import { MAX_PAGE } from '$lib/paging';
 import { Op } from 'sequelize';
 import type { Actor } from '../access/actor';
 import { requireService } from '../access/permissions';
@@ -54,7 +55,7 @@ export async function listOutbox(
 	status: OutboxStatus | null = null
 ): Promise<{ items: OutboxItem[]; total: number; page: number; pageSize: number }> {
 	await requireService(database, actor, 'read-outbox');
-	const current = Math.max(1, Math.floor(page) || 1);
+	const current = Math.min(MAX_PAGE, Math.max(1, Math.floor(page) || 1));
 	const { rows, count } = await database.models.OutboxMail.findAndCountAll({
 		attributes: { exclude: ['text', 'html'] },
 		where: status ? { status } : {},
