@@ -1,4 +1,5 @@
 /** Withdrawing a certificate: its status changes and the ledger records why; nothing else does. */
+import { checkedText } from '$lib/text-rules';
 import type { Transaction } from 'sequelize';
 import type { SigningKey } from '../../evidence/signing';
 import type { Database } from '../db';
@@ -16,12 +17,13 @@ export const WITHDRAW_REASON = { min: 3, max: 500 };
 
 /** The reason, trimmed; FieldError naming the field when it is too short or too long. */
 export function withdrawalReason(reason: string): string {
-	const why = reason.trim();
+	const { text: why, problem } = checkedText(reason, 'The reason', 'lines');
 	if (why.length < WITHDRAW_REASON.min || why.length > WITHDRAW_REASON.max)
 		throw new FieldError(
 			'reason',
 			`Say why in ${WITHDRAW_REASON.min} to ${WITHDRAW_REASON.max} characters.`
 		);
+	if (problem) throw new FieldError('reason', problem);
 	return why;
 }
 
