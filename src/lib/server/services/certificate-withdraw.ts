@@ -12,6 +12,7 @@ import { audit } from './audit';
 import { certificateView, type CertificateView } from './certificate-views';
 import { ConflictError, FieldError, NotFoundError } from './errors';
 import { appendLedger } from './ledger';
+import { withdrawerRole } from './ledger-roles';
 
 export const WITHDRAW_REASON = { min: 3, max: 500 };
 
@@ -40,10 +41,13 @@ export async function withdrawInTransaction(
 		{ status: 'withdrawn' },
 		{ where: { id: certificateId }, transaction }
 	);
-	const details = { reason, by: userId };
+	// The public ledger names a role; the account stays in the private audit trail.
+	const byRole = userId ? await withdrawerRole(database, userId, groupId, transaction) : null;
+	const details = { reason, byRole };
 	await appendLedger(database, { event: 'withdraw', certificateId, details }, key, transaction);
 	const entry = { actorId: userId, groupId, subjectType: 'certificate', subjectId: certificateId };
-	await audit(database, { ...entry, action: 'certificate.withdrawn', details }, transaction);
+	const action = 'certificate.withdrawn';
+	await audit(database, { ...entry, action, details: { ...details, by: userId } }, transaction);
 }
 
 /** The group's lead or the certificate's issuer may withdraw it; the reason goes in the ledger. */
