@@ -116,7 +116,8 @@ export async function resetPassword(
 	if (!result.ok) return result;
 	await lucia.invalidateUserSessions(result.userId);
 	const { User } = database.models;
-	const email = (await User.findByPk(result.userId, { attributes: ['email'] }))!.get('email');
+	const user = await User.findByPk(result.userId, { attributes: ['email'] });
+	const email = user!.get('email') as string;
 	await clearSignInPauses(normaliseEmail(email));
 	return result;
 }
