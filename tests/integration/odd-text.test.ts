@@ -4,8 +4,9 @@
  * separators, carriage returns, bidi controls, combining marks, emoji, long runs, broken
  * surrogates, NUL. Each value is either refused with a 4xx naming its field, or carried through
  * sign-up, the group, its invitation, the claim, an upload, issuing a certificate (its PDF read
- * back with pdftotext, its bundle), sharing, withdrawing, the archive export and the delivery of
- * every letter, with no 5xx and no other exception. Real SQLite file, real mail catcher.
+ * back with pdftotext, its bundle checked), sharing with an editor, their review link, a
+ * referee's report and its release, withdrawing, the archive export and the delivery of every
+ * letter, with no 5xx and no other exception. Real SQLite file, real mail catcher.
  * The bidi controls refused are those of "Trojan Source" (CVE-2021-42574).
  */
 import { execFileSync } from 'node:child_process';
@@ -30,10 +31,10 @@ import { addDataset } from '../../src/lib/server/services/datasets';
 import { createGroup } from '../../src/lib/server/services/groups';
 import { inviteMember } from '../../src/lib/server/services/invitations';
 import { shareClaim } from '../../src/lib/server/services/shares';
+import { releaseReport, saveReport } from '../../src/lib/server/services/reports';
+import { createReviewLink } from '../../src/lib/server/services/review-links';
 import { createToken } from '../../src/lib/server/services/tokens';
 import { deliverDue } from '../../src/lib/server/mail-sender';
-import { attachment } from '../../src/lib/server/attachment';
-import { renderTemplate } from '../../src/lib/server/templates';
 import { textProblem } from '../../src/lib/text-rules';
 import { doneCheck } from '../e2e/matrix-parts';
 import { asUser } from './actors';
@@ -82,10 +83,12 @@ interface Texts {
 	shareManuscript: string;
 	token: string;
 	reason: string;
+	label: string;
+	comments: string;
 }
 const texts: fc.Arbitrary<Texts> = fc.record({
 	...{ name: odd, group: odd, title: odd, source: odd, manuscript: odd, fileName: odd },
-	...{ journal: odd, shareManuscript: odd, token: odd, reason: odd }
+	...{ journal: odd, shareManuscript: odd, token: odd, reason: odd, label: odd, comments: odd }
 });
 
 /** The step's value, or the 4xx it was refused with; anything else fails the property. */
@@ -109,6 +112,24 @@ function pdfText(bytes: Uint8Array): string {
 	const file = path.join(scratch, `c${run}.pdf`);
 	writeFileSync(file, bytes);
 	return execFileSync('pdftotext', ['-enc', 'UTF-8', file, '-']).toString('utf8');
+}
+
+/** An editor account with the address a share will name, so the share binds to it. */
+async function editorNamed(email: string) {
+	const id = await addUser(world.database, `Editor ${run}`);
+	await world.database.models.User.update({ email, accountRole: 'editor' }, { where: { id } });
+	return asUser(id, 'editor');
+}
+
+/** The editor's review link (its label), the referee's report (its comments), its release. */
+async function review(editor: ReturnType<typeof asUser>, claimId: string, t: Texts) {
+	const { database: db, mailer } = world;
+	const link = await step(() => createReviewLink(db, editor, claimId, { label: t.label }));
+	const made = 'value' in link ? link.value : await createReviewLink(db, editor, claimId, {});
+	const referee = { kind: 'referee' as const, claimId, linkId: made.id };
+	const input = { recommendation: 'sound', comments: t.comments, submit: true };
+	const report = await step(() => saveReport(db, mailer, referee, input));
+	if ('value' in report) await releaseReport(db, mailer, editor, report.value.id);
 }
 
 async function flow(t: Texts): Promise<void> {
@@ -140,12 +161,11 @@ async function flow(t: Texts): Promise<void> {
 	// The bundle holds the claim's text in its signed manifest; it still checks out.
 	const bundle = await certificateFile(db, lead, certificate.id, 'bundle');
 	expect((await checkBundle(db, Buffer.from(bundle.bytes))).report).toMatchObject({ valid: true });
-	const share = {
-		email: `editor${run}@odd.test`,
-		journal: t.journal,
-		manuscript: t.shareManuscript
-	};
-	await step(() => shareClaim(db, mailer, lead, claim.id, share));
+	const editorEmail = `editor${run}@odd.test`;
+	const editor = await editorNamed(editorEmail);
+	const share = { email: editorEmail, journal: t.journal, manuscript: t.shareManuscript };
+	const shared = await step(() => shareClaim(db, mailer, lead, claim.id, share));
+	if ('value' in shared) await review(editor, claim.id, t);
 	await step(() => createToken(db, lead, { name: t.token }));
 	await step(() => withdrawClaim(db, lead, claim.id, t.reason));
 	const archive = await groupArchive(db, lead, { group: groupId });
@@ -163,7 +183,8 @@ describe('odd text in every field', () => {
 		const plain: Texts = {
 			...{ name: 'Ines Park', group: 'Halvorsen Lake Photonics', title: 'Time-bin pairs' },
 			...{ source: 'SPDC', manuscript: 'HLP-1', fileName: 'counts.csv', journal: 'J. Opt.' },
-			...{ shareManuscript: 'JO-1', token: 'laptop', reason: 'A better analysis exists.' }
+			...{ shareManuscript: 'JO-1', token: 'laptop', reason: 'A better analysis exists.' },
+			...{ label: 'Referee 2', comments: 'Sound.\nSee the second basis.' }
 		};
 		// The breaks the probe found, always tried first: CR and U+2028 in a title, CR/LF in a group.
 		const examples: [Texts][] = [
@@ -173,44 +194,4 @@ describe('odd text in every field', () => {
 		];
 		await fc.assert(fc.asyncProperty(texts, flow), { numRuns: 12, examples, endOnFailure: true });
 	}, 600_000);
-});
-
-describe('the rule for one-line and multi-line text', () => {
-	it('refuses breaks in one line, keeps them in several, and refuses controls in both', () => {
-		expect(textProblem('a\u2028b', 'line')).toBe('must be one line; remove the line break.');
-		expect(textProblem('a\u2028b\r\nc', 'lines')).toBeNull();
-		expect(textProblem('a\u202eb', 'lines')).toBe(
-			'holds a text-direction control (U+202E); remove it.'
-		);
-		expect(textProblem('a\u0000b', 'lines')).toBe('holds a control character (U+0000); remove it.');
-		expect(textProblem('a\ud800', 'line')).toMatch(/unpaired surrogate/);
-		expect(textProblem('e\u0301 👩‍🔬 日本語 \u200f', 'line')).toBeNull();
-	});
-});
-
-describe('a claim stored before the rule', () => {
-	it('still gets its letters: a title with CR or U+2028 keeps the subject on one line', () => {
-		const title = 'Pairs\r at\u2028 1550\u2029nm\r\n';
-		const values = {
-			title,
-			name: 'Ines',
-			group: 'HLP',
-			by: 'Ada',
-			reason: 'Why\u2028not',
-			link: 'x'
-		};
-		const mail = renderTemplate('claim-withdrawn', values);
-		expect(mail.subject).toBe('Claim "Pairs at 1550 nm " withdrawn');
-		expect(mail.text).toContain('Why\u2028not');
-	});
-});
-
-describe('a download named by its uploader', () => {
-	it('gets a Content-Disposition a header can hold, with the exact name in filename* (RFC 8187)', () => {
-		const name = 'données "1" 😀\u2028.csv';
-		const headers = new Headers({ 'content-disposition': attachment(name) });
-		const value = headers.get('content-disposition')!;
-		expect(value).toMatch(/^attachment; filename="donn_es _1_ __.\.csv"/);
-		expect(decodeURIComponent(value.split("filename*=UTF-8''")[1])).toBe(name);
-	});
 });
