@@ -20,7 +20,7 @@ const password = 'a long test passphrase 10';
 const email = 'ines.park@example.test';
 
 const LIMITS = {
-	signInAccount: { free: 2, cap: 50, firstDelaySeconds: 600 },
+	signInAccountAddress: { free: 2, cap: 50, firstDelaySeconds: 600 },
 	signInAddress: { free: 100, cap: 500 },
 	signUp: { points: 4 },
 	resetRequest: { points: 3 },
@@ -90,7 +90,9 @@ describe('sign-in', () => {
 		expect(answers[3].status).toBe(429);
 		expect(Number(answers[3].retryAfter)).toBeGreaterThan(0);
 		expect(Number(answers[3].retryAfter)).toBeLessThanOrEqual(600);
-		expect(answers[3].words).toMatch(/^Too many failed sign-ins for this account\. Try again in/);
+		expect(answers[3].words).toMatch(
+			/^Too many failed sign-ins for this account from your network address\. Try again in/
+		);
 	});
 
 	it('keeps another account open from the same address', async () => {

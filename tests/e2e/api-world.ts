@@ -3,6 +3,7 @@
  * built app starts on it: two groups with one lead each, their API tokens, a revoked token
  * and a browser session. Also the list of endpoints the source serves, for the OpenAPI test.
  */
+import { sessionKey } from '../../src/lib/server/auth';
 import { mkdtempSync, readdirSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
@@ -53,7 +54,11 @@ export async function seedApiWorld(): Promise<ApiWorld> {
 	const ada = await lead('Ada Lind', 'Lake optics');
 	const cyd = await lead('Cyd Marsh', 'Ridge qudits');
 	const session = newId().replaceAll('-', '');
-	await Session.create({ id: session, userId: ada, expiresAt: new Date(Date.now() + 86_400_000) });
+	await Session.create({
+		id: sessionKey(session),
+		userId: ada,
+		expiresAt: new Date(Date.now() + 86_400_000)
+	});
 	const tokens = {
 		lake: await token(ada),
 		ridge: await token(cyd),

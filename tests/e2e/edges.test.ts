@@ -6,7 +6,7 @@
 import { rmSync } from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { hashPassword } from '../../src/lib/server/auth';
+import { hashPassword, sessionKey } from '../../src/lib/server/auth';
 import { openDatabase } from '../../src/lib/server/db';
 import { newId } from '../../src/lib/server/services/ids';
 import { seedApiWorld, type ApiWorld } from './api-world';
@@ -33,7 +33,11 @@ beforeAll(async () => {
 	});
 	ageingSession = newId().replaceAll('-', '');
 	const inOneDay = new Date(Date.now() + 86_400_000);
-	await database.models.Session.create({ id: ageingSession, userId, expiresAt: inOneDay });
+	await database.models.Session.create({
+		id: sessionKey(ageingSession),
+		userId,
+		expiresAt: inOneDay
+	});
 	await database.sequelize.close();
 	app = await startApp({ RANKSEAL_DATA_DIR: world.dataDir });
 });

@@ -4,6 +4,7 @@
  * claim; the group page shows the lead the storage used against the quota. The app's check
  * worker waits until it is aborted, so the check is still running whenever the test looks.
  */
+import { sessionKey } from '../../src/lib/server/auth';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
@@ -53,7 +54,7 @@ async function seed(dataDir: string): Promise<void> {
 		});
 		ids.session = newId().replaceAll('-', '');
 		const expiresAt = new Date(Date.now() + 86_400_000);
-		await database.models.Session.create({ id: ids.session, userId: lead, expiresAt });
+		await database.models.Session.create({ id: sessionKey(ids.session), userId: lead, expiresAt });
 	} finally {
 		await database.sequelize.close();
 		process.env = saved;

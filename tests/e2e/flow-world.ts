@@ -2,6 +2,7 @@
  * People for the browser flow, written into a fresh data folder before the built app starts:
  * an admin (to read the mail outbox) and a member of another group with a claim of its own.
  */
+import { sessionKey } from '../../src/lib/server/auth';
 import { mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
@@ -30,7 +31,11 @@ export async function seedFlowWorld(): Promise<FlowWorld> {
 			emailVerifiedAt: new Date()
 		});
 		const session = newId().replaceAll('-', '');
-		await Session.create({ id: session, userId: id, expiresAt: new Date(Date.now() + 86_400_000) });
+		await Session.create({
+			id: sessionKey(session),
+			userId: id,
+			expiresAt: new Date(Date.now() + 86_400_000)
+		});
 		return { id, session };
 	};
 	const admin = await person('Ava Admin', 'admin');

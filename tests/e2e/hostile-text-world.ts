@@ -4,6 +4,7 @@
  * and manuscript, a withdrawal reason, a share's journal and manuscript, a token's name and a
  * referee's report (filed and released, so its notices are written too).
  */
+import { sessionKey } from '../../src/lib/server/auth';
 import { mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
@@ -52,7 +53,7 @@ export async function seedHostileText(): Promise<HostileTextWorld> {
 			await db.models.User.create({ ...row, emailVerifiedAt: new Date() });
 			const session = newId().replaceAll('-', '');
 			const expiresAt = new Date(Date.now() + 86_400_000);
-			await db.models.Session.create({ id: session, userId: id, expiresAt });
+			await db.models.Session.create({ id: sessionKey(session), userId: id, expiresAt });
 			const actor: UserActor = { kind: 'user', userId: id, accountRole, emailVerified: true };
 			return { id, session, actor };
 		};

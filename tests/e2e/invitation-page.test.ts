@@ -4,6 +4,7 @@
  * same masked words; the invitee, signed in, joins with the page's button, and only then does the
  * header offer the archive.
  */
+import { sessionKey } from '../../src/lib/server/auth';
 import { mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
@@ -23,7 +24,7 @@ const world = { group: '', token: '', inviteeEmail: '', invitee: '', other: '' }
 async function session(database: Database, userId: string): Promise<string> {
 	const id = newId().replaceAll('-', '');
 	const expiresAt = new Date(Date.now() + 86_400_000);
-	await database.models.Session.create({ id, userId, expiresAt });
+	await database.models.Session.create({ id: sessionKey(id), userId, expiresAt });
 	return id;
 }
 

@@ -5,7 +5,7 @@
 import { readFileSync } from 'node:fs';
 import { certify, parseCounts } from '../../src/lib/certify';
 import type { UserActor } from '../../src/lib/server/access/actor';
-import { hashPassword } from '../../src/lib/server/auth';
+import { hashPassword, sessionKey } from '../../src/lib/server/auth';
 import type { Database } from '../../src/lib/server/db';
 import type { GroupRole } from '../../src/lib/server/db/models/Membership';
 import type { AccountRole } from '../../src/lib/server/db/models/User';
@@ -41,7 +41,7 @@ export async function person(
 	await db.models.User.create({ ...user, emailVerifiedAt: new Date() });
 	const session = newId().replaceAll('-', '');
 	await db.models.Session.create({
-		id: session,
+		id: sessionKey(session),
 		userId: id,
 		expiresAt: new Date(Date.now() + DAY)
 	});

@@ -3,6 +3,7 @@
  * demo check finished (the runner is awaited, not polled), plus browser sessions for each role
  * and for a researcher who is in no group.
  */
+import { sessionKey } from '../../src/lib/server/auth';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
@@ -48,7 +49,7 @@ export async function seedPagesWorld(): Promise<PagesWorld> {
 		const open = async (key: string, userId: string) => {
 			sessions[key] = newId().replaceAll('-', '');
 			const expiresAt = new Date(Date.now() + 86_400_000);
-			await Session.create({ id: sessions[key], userId, expiresAt });
+			await Session.create({ id: sessionKey(sessions[key]), userId, expiresAt });
 		};
 		for (const person of DEMO_PEOPLE) {
 			const user = await User.findOne({ where: { email: person.email } });

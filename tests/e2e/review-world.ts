@@ -3,6 +3,7 @@
  * an admin (reads the mail outbox) and an author whose claim has a finished check and a
  * certificate. The editor has no account yet; they make one from the share notice.
  */
+import { sessionKey } from '../../src/lib/server/auth';
 import { mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
@@ -38,7 +39,11 @@ async function person(database: Database, name: string, accountRole: 'admin' | '
 		emailVerifiedAt: new Date()
 	});
 	const session = newId().replaceAll('-', '');
-	await Session.create({ id: session, userId: id, expiresAt: new Date(Date.now() + 86_400_000) });
+	await Session.create({
+		id: sessionKey(session),
+		userId: id,
+		expiresAt: new Date(Date.now() + 86_400_000)
+	});
 	const actor: UserActor = { kind: 'user', userId: id, accountRole, emailVerified: true };
 	return { id, email, session, actor };
 }

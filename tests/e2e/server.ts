@@ -65,6 +65,7 @@ function untilListening(child: ChildProcess, log: () => string): Promise<void> {
  * depends on the machine's speed, so only a test that names its own check limits meets them.
  */
 export const ROOMY_RATE_LIMITS = JSON.stringify({
+	signInAccountAddress: { free: 1000, cap: 2000 },
 	signInAccount: { free: 1000, cap: 2000 },
 	signInAddress: { free: 10000, cap: 20000 },
 	signUp: { points: 10000 },

@@ -93,7 +93,7 @@ describe('sign-in pauses', () => {
 
 	it('grows the pause after the free failures, refuses during it, and a success clears it', async () => {
 		process.env.RANKSEAL_RATE_LIMITS = JSON.stringify({
-			signInAccount: { free: 2, cap: 10, firstDelaySeconds: 5 }
+			signInAccountAddress: { free: 2, cap: 10, firstDelaySeconds: 5 }
 		});
 		resetRateLimits();
 		vi.useFakeTimers({ toFake: ['Date'] });
@@ -134,7 +134,7 @@ describe('sign-in pauses', () => {
 
 	it('pauses an address without an account exactly like one with an account', async () => {
 		process.env.RANKSEAL_RATE_LIMITS = JSON.stringify({
-			signInAccount: { free: 1, firstDelaySeconds: 30 }
+			signInAccountAddress: { free: 1, firstDelaySeconds: 30 }
 		});
 		resetRateLimits();
 		vi.useFakeTimers({ toFake: ['Date'] });

@@ -2,6 +2,7 @@
  * What a claim, a claim listing and a check request may contain: validated with zod at every
  * boundary (forms, API bodies) and shared with the browser for early, plain-worded errors.
  */
+import { textRule } from '$lib/text-rules';
 import { z } from 'zod';
 import {
 	availableBases,
@@ -18,6 +19,7 @@ import {
 } from '$lib/certify';
 import { basisProblem } from '$lib/certify/bases';
 import { MAX_SEED } from '$lib/certify/poisson';
+import { pageField, pageSizeField } from '$lib/paging';
 import { booleanFrom, numberFrom, wholeNumber, type ValueSource } from '$lib/schema-numbers';
 import { CLAIM_STATES } from './states';
 
@@ -96,12 +98,14 @@ const claimInput = (source: ValueSource) =>
 				.string({ error: 'Give the claim a title.' })
 				.trim()
 				.min(1, 'Give the claim a title.')
-				.max(200, 'Keep the title under 200 characters.'),
+				.max(200, 'Keep the title under 200 characters.')
+				.superRefine(textRule('The title', 'line')),
 			sourceDescription: z
 				.string({ error: 'Describe the source.' })
 				.trim()
 				.min(1, 'Describe the source.')
-				.max(5000, 'Keep the source description under 5000 characters.'),
+				.max(5000, 'Keep the source description under 5000 characters.')
+				.superRefine(textRule('The source description', 'lines')),
 			dimension: requiredWholeNumber(
 				'The dimension',
 				'Give the local dimension d.',
@@ -130,6 +134,7 @@ const claimInput = (source: ValueSource) =>
 				.string()
 				.trim()
 				.max(300, 'Keep the manuscript reference under 300 characters.')
+				.superRefine(textRule('The manuscript reference', 'line'))
 				.nullish()
 				.transform((value) => value || null)
 		})
@@ -203,8 +208,8 @@ export const claimQuerySchema = z.object({
 		blankToUndefined,
 		z.enum(['asc', 'desc'], { error: 'Order must be asc or desc.' }).optional()
 	),
-	page: z.preprocess(blankToUndefined, wholeNumber('The page', 1, 1_000_000, 'form').optional()),
-	pageSize: z.preprocess(blankToUndefined, wholeNumber('The page size', 1, 100, 'form').optional())
+	page: pageField(),
+	pageSize: pageSizeField(100)
 });
 
 export type ClaimQuery = z.output<typeof claimQuerySchema>;

@@ -1,4 +1,5 @@
 /** zod schemas for the account, group and admin forms (the boundary; services re-check the rules). */
+import { textRule } from '$lib/text-rules';
 import { z } from 'zod';
 import {
 	EMAIL_MAX_LENGTH,
@@ -25,7 +26,8 @@ export const signUpForm = z.object({
 		.string('Enter your name.')
 		.trim()
 		.min(1, 'Enter your name.')
-		.max(NAME_MAX_LENGTH, `Use at most ${NAME_MAX_LENGTH} characters.`),
+		.max(NAME_MAX_LENGTH, `Use at most ${NAME_MAX_LENGTH} characters.`)
+		.superRefine(textRule('Your name', 'line')),
 	email: emailField,
 	password: newPasswordField
 });
@@ -50,6 +52,7 @@ export const groupNameForm = z.object({
 		.trim()
 		.min(2, 'Use 2 to 120 characters.')
 		.max(120, 'Use 2 to 120 characters.')
+		.superRefine(textRule('The group name', 'line'))
 });
 
 export const groupRoleField = z.enum(['lead', 'author'], 'Choose lead or author.');

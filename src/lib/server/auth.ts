@@ -1,10 +1,13 @@
 /**
  * Sign-in sessions through lucia 3 with a Sequelize adapter, and Argon2id password hashes
- * (@node-rs/argon2's default algorithm).
+ * (@node-rs/argon2's default algorithm). The sessions table holds each id's SHA-256, never the
+ * cookie's value: the adapter hashes on every write and look-up, so a copy of the database
+ * (a backup) opens no session.
  */
 import { hash, verify } from '@node-rs/argon2';
 import { Lucia, TimeSpan, type Adapter, type DatabaseSession, type DatabaseUser } from 'lucia';
 import { Op } from 'sequelize';
+import { sha256Hex } from '$lib/evidence/hash';
 import type { Database } from './db';
 import type { AccountRole } from './db/models/User';
 
@@ -16,17 +19,24 @@ export interface SessionUser {
 	emailVerified: boolean;
 }
 
+/** What the sessions table stores for a session id (the cookie's value). */
+export const sessionKey = (sessionId: string): string => sha256Hex(sessionId);
+
 function sequelizeAdapter(database: Database): Adapter {
 	const { Session, User } = database.models;
-	const toSession = (row: { id: string; userId: string; expiresAt: Date }): DatabaseSession => ({
-		id: row.id,
+	/** `id` is the cookie's value where the caller knows it; getUserSessions only has the hash. */
+	const toSession = (
+		row: { id: string; userId: string; expiresAt: Date },
+		id = row.id
+	): DatabaseSession => ({
+		id,
 		userId: row.userId,
 		expiresAt: new Date(row.expiresAt),
 		attributes: {}
 	});
 	return {
 		async getSessionAndUser(sessionId) {
-			const session = await Session.findByPk(sessionId);
+			const session = await Session.findByPk(sessionKey(sessionId));
 			if (!session) return [null, null];
 			const user = await User.findByPk(session.get('userId') as string);
 			if (!user) return [null, null];
@@ -40,7 +50,7 @@ function sequelizeAdapter(database: Database): Adapter {
 					emailVerifiedAt: u.emailVerifiedAt
 				}
 			};
-			return [toSession(session.get({ plain: true })), databaseUser];
+			return [toSession(session.get({ plain: true }), sessionId), databaseUser];
 		},
 		async getUserSessions(userId) {
 			const rows = await Session.findAll({ where: { userId } });
@@ -48,16 +58,16 @@ function sequelizeAdapter(database: Database): Adapter {
 		},
 		async setSession(session) {
 			await Session.create({
-				id: session.id,
+				id: sessionKey(session.id),
 				userId: session.userId,
 				expiresAt: session.expiresAt
 			});
 		},
 		async updateSessionExpiration(sessionId, expiresAt) {
-			await Session.update({ expiresAt }, { where: { id: sessionId } });
+			await Session.update({ expiresAt }, { where: { id: sessionKey(sessionId) } });
 		},
 		async deleteSession(sessionId) {
-			await Session.destroy({ where: { id: sessionId } });
+			await Session.destroy({ where: { id: sessionKey(sessionId) } });
 		},
 		async deleteUserSessions(userId) {
 			await Session.destroy({ where: { userId } });

@@ -3,12 +3,14 @@
  * outcome. A row is claimed (queued/retrying → sending) by a conditional update before it is
  * sent and marked sent only after the SMTP server accepted it, so each row is sent once. A
  * process that stops between the server's acceptance and the mark leaves the row `sending`;
- * the next start sends it again with the same Message-ID (the one duplicate possible).
+ * the next start sends it again with the same Message-ID (the one duplicate possible). Once sent
+ * or given up, the stored copy keeps no working secret link (mail-redact.ts).
  */
 import { Op } from 'sequelize';
 import type { Database } from './db';
 import type { OutboxMailAttributes } from './db/models/OutboxMail';
 import type { Mailer } from './mail';
+import { redactSecretLinks } from './mail-redact';
 
 /** Attempts before a message is given up (an admin may queue it again). */
 export const MAX_ATTEMPTS = 12;
@@ -46,8 +48,9 @@ async function attempt(database: Database, mailer: Mailer, row: OutboxMailAttrib
 		const givenUp = attempts >= MAX_ATTEMPTS;
 		const nextAttemptAt = givenUp ? null : new Date(now.getTime() + retryDelayMs(attempts));
 		const status = givenUp ? 'failed' : 'retrying';
+		const bodies = givenUp ? redactSecretLinks(row) : {};
 		await OutboxMail.update(
-			{ status, nextAttemptAt, lastError: reason },
+			{ status, nextAttemptAt, lastError: reason, ...bodies },
 			{ where: { id: row.id } }
 		);
 		return false;
@@ -56,7 +59,8 @@ async function attempt(database: Database, mailer: Mailer, row: OutboxMailAttrib
 		status: 'sent' as const,
 		sentAt: new Date(),
 		nextAttemptAt: null,
-		lastError: null
+		lastError: null,
+		...redactSecretLinks(row)
 	};
 	await OutboxMail.update(done, { where: { id: row.id } });
 	return true;

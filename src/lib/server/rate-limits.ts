@@ -24,9 +24,20 @@ const ladderRule = z.object({
 export type WindowRule = z.infer<typeof windowRule>;
 export type LadderRule = z.infer<typeof ladderRule>;
 
-/** Keys: sign-in per account (address typed) and per client address, the rest as named. */
+/**
+ * Keys: sign-in per account and client address (the pause a person meets), per account from
+ * every address (a much higher ceiling, waived for an address the account signed in from), per
+ * client address; the rest as named.
+ */
 export const RATE_LIMITS = {
-	signInAccount: { kind: 'ladder', free: 5, cap: 20, windowSeconds: 3600, firstDelaySeconds: 2 },
+	signInAccountAddress: {
+		kind: 'ladder',
+		free: 5,
+		cap: 20,
+		windowSeconds: 3600,
+		firstDelaySeconds: 2
+	},
+	signInAccount: { kind: 'ladder', free: 30, cap: 300, windowSeconds: 3600, firstDelaySeconds: 1 },
 	signInAddress: { kind: 'ladder', free: 20, cap: 200, windowSeconds: 3600, firstDelaySeconds: 1 },
 	signUp: { kind: 'window', points: 10, windowSeconds: 3600 },
 	resetRequest: { kind: 'window', points: 10, windowSeconds: 3600 },

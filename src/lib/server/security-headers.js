@@ -1,7 +1,12 @@
 // Plain JavaScript: scripts/server.mjs reads it at run time, where there is no TypeScript loader.
 
+/** The first path segments of addresses that carry a secret: review, share and account links. */
+export const SECRET_PATHS = ['review', 'api/v1/review', 'invite', 'verify', 'shared', 'reset'];
+
 /** Addresses that carry a secret: the referee's link and the one-use account links. */
-export const SECRET_IN_PATH = /^\/(review|api\/v1\/review|invite|verify|shared|reset)\/[^/]/;
+export const SECRET_IN_PATH = new RegExp(
+	`^/(${SECRET_PATHS.map((p) => p.replaceAll('/', '\\/')).join('|')})/[^/]`
+);
 
 /**
  * The headers every answer carries, Kit's (response-headers.ts) and the files adapter-node serves

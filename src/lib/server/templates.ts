@@ -80,10 +80,13 @@ function source(name: MailTemplate | 'layout', extension: 'txt' | 'html'): strin
 	return text.replace(/\r\n/g, '\n');
 }
 
+/** A header value on one line: each run of breaks, spaces and control characters, one space. */
+const oneLine = (value: string) => value.replace(/[\s\u0000-\u001f\u007f-\u009f]+/g, ' ').trim();
+
 /** The HTML source put together before any value goes in, so every value is escaped alike. */
 function htmlSource(name: MailTemplate): string {
 	const own = source(name, 'html');
-	const match = /^Title:[ \t]*(.*)\n\n?/.exec(own);
+	const match = /^Title:[ \t]*([^\n]*)\n\n?/.exec(own);
 	if (!match) return own;
 	const parts = {
 		'mail-title': match[1].trim(),
@@ -94,10 +97,12 @@ function htmlSource(name: MailTemplate): string {
 
 /** Subject, text and HTML bodies of one message; the subject is plain text like the text body. */
 export function renderTemplate(name: MailTemplate, values: Record<string, string>): RenderedMail {
-	const filled = fillPlaceholders(source(name, 'txt'), values, asText);
-	const match = /^Subject:[ \t]*(.*)\n\n?/.exec(filled);
+	const own = source(name, 'txt');
+	// Split before filling: a value with a line break (CR, U+2028…) must not move the subject line.
+	const match = /^Subject:[ \t]*([^\n]*)\n\n?/.exec(own);
 	if (!match) throw new Error(`mail template ${name}.txt must start with a "Subject:" line`);
-	const subject = match[1].trim().replace(/[\r\n]/g, ' ');
+	const subject = oneLine(fillPlaceholders(match[1], values, asText));
+	const text = fillPlaceholders(own.slice(match[0].length), values, asText);
 	const html = fillPlaceholders(htmlSource(name), values, asHtml);
-	return { subject, text: filled.slice(match[0].length), html };
+	return { subject, text, html };
 }

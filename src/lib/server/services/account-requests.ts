@@ -4,6 +4,7 @@
  * argon2 hash for a sign-up, one transaction with an audit row and one outbox mail for both),
  * so neither the words nor a stopwatch tell who has an account. The mail says which it was.
  */
+import { checkedText } from '$lib/text-rules';
 import { UniqueConstraintError, type Transaction } from 'sequelize';
 import { hashPassword } from '../auth';
 import type { Database } from '../db';
@@ -65,8 +66,10 @@ export async function signUp(
 	proof: { invitationToken?: string | null } = {}
 ): Promise<SignUpOutcome> {
 	const { User } = database.models;
-	const person = { email: normaliseEmail(input.email), name: input.name.trim() };
+	const named = checkedText(input.name, 'Your name', 'line');
+	const person = { email: normaliseEmail(input.email), name: named.text };
 	if (!person.name) throw new FieldError('name', 'Enter your name.');
+	if (named.problem) throw new FieldError('name', named.problem);
 	checkPassword(input.password);
 	// Hashed on both paths: an existing address must cost what a new one costs.
 	const passwordHash = await hashPassword(input.password);

@@ -15,6 +15,7 @@ import { audit } from './audit';
 import { confirmAddress, emailTokenState, useEmailToken, type TokenState } from './email-tokens';
 import { newId } from './ids';
 import { queueMail } from './mail-queue';
+import { clearSignInPauses } from './sign-in-pauses';
 import { revokeAllTokens } from './tokens';
 
 export { PASSWORD_MAX_LENGTH, PASSWORD_MIN_LENGTH, normaliseEmail } from './account-rules';
@@ -114,6 +115,10 @@ export async function resetPassword(
 	});
 	if (!result.ok) return result;
 	await lucia.invalidateUserSessions(result.userId);
+	const { User } = database.models;
+	const user = await User.findByPk(result.userId, { attributes: ['email'] });
+	const email = user!.get('email') as string;
+	await clearSignInPauses(normaliseEmail(email));
 	return result;
 }
 

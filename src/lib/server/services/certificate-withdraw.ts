@@ -1,4 +1,5 @@
 /** Withdrawing a certificate: its status changes and the ledger records why; nothing else does. */
+import { checkedText } from '$lib/text-rules';
 import type { Transaction } from 'sequelize';
 import type { SigningKey } from '../../evidence/signing';
 import type { Database } from '../db';
@@ -11,17 +12,19 @@ import { audit } from './audit';
 import { certificateView, type CertificateView } from './certificate-views';
 import { ConflictError, FieldError, NotFoundError } from './errors';
 import { appendLedger } from './ledger';
+import { withdrawerRole } from './ledger-roles';
 
 export const WITHDRAW_REASON = { min: 3, max: 500 };
 
 /** The reason, trimmed; FieldError naming the field when it is too short or too long. */
 export function withdrawalReason(reason: string): string {
-	const why = reason.trim();
+	const { text: why, problem } = checkedText(reason, 'The reason', 'lines');
 	if (why.length < WITHDRAW_REASON.min || why.length > WITHDRAW_REASON.max)
 		throw new FieldError(
 			'reason',
 			`Say why in ${WITHDRAW_REASON.min} to ${WITHDRAW_REASON.max} characters.`
 		);
+	if (problem) throw new FieldError('reason', problem);
 	return why;
 }
 
@@ -38,10 +41,13 @@ export async function withdrawInTransaction(
 		{ status: 'withdrawn' },
 		{ where: { id: certificateId }, transaction }
 	);
-	const details = { reason, by: userId };
+	// The public ledger names a role; the account stays in the private audit trail.
+	const byRole = userId ? await withdrawerRole(database, userId, groupId, transaction) : null;
+	const details = { reason, byRole };
 	await appendLedger(database, { event: 'withdraw', certificateId, details }, key, transaction);
 	const entry = { actorId: userId, groupId, subjectType: 'certificate', subjectId: certificateId };
-	await audit(database, { ...entry, action: 'certificate.withdrawn', details }, transaction);
+	const action = 'certificate.withdrawn';
+	await audit(database, { ...entry, action, details: { ...details, by: userId } }, transaction);
 }
 
 /** The group's lead or the certificate's issuer may withdraw it; the reason goes in the ledger. */

@@ -2,6 +2,7 @@
  * Claims: create, list (search, filter, sort, page) and read, always as permissions.ts lets the
  * caller see them.
  */
+import { MAX_PAGE } from '$lib/paging';
 import { col, fn, Op, where as sqlWhere, type Order, type WhereOptions } from 'sequelize';
 import { claimInputSchema, type ClaimInputValues, type ClaimQuery } from '$lib/claims/schema';
 import type { FourierConvention, MethodId } from '$lib/certify';
@@ -172,7 +173,7 @@ export async function listClaims(
 	actor: Actor,
 	query: ClaimQuery = {}
 ): Promise<ClaimPage> {
-	const page = Math.max(1, Math.floor(query.page ?? 1));
+	const page = Math.min(MAX_PAGE, Math.max(1, Math.floor(query.page ?? 1) || 1));
 	const pageSize = Math.min(100, Math.max(1, Math.floor(query.pageSize ?? DEFAULT_PAGE_SIZE)));
 	const where: WhereOptions = { [Op.and]: [await visibleClaimsWhere(database, actor)] };
 	if (query.state) Object.assign(where, { state: query.state });

@@ -2,6 +2,7 @@
  * Datasets: uploaded counts files, parsed before anything is stored, kept content-addressed on
  * disk (files/<sha[0:2]>/<sha>) with their row and audit event written in one transaction.
  */
+import { tidyFileName } from '$lib/text-rules';
 import { randomBytes } from 'node:crypto';
 import { mkdir, readFile, rename, rm, stat, writeFile } from 'node:fs/promises';
 import path from 'node:path';
@@ -123,7 +124,7 @@ export async function addDataset(
 	if (!read.ok)
 		throw new InputError(read.message, read.line ?? undefined, read.column ?? undefined);
 	const sha256 = sha256Hex(bytes);
-	const originalName = (upload.originalName.trim() || 'counts').slice(0, 200);
+	const originalName = tidyFileName(upload.originalName, 'counts');
 	const id = newId();
 	let wrote = false;
 	try {

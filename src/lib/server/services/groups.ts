@@ -3,6 +3,7 @@
  * the member list (rules in permissions.ts). Every change re-reads the actor's role inside its
  * transaction.
  */
+import { checkedText } from '$lib/text-rules';
 import type { Transaction } from 'sequelize';
 import { accountIdOf, isAccount, type Actor } from '../access/actor';
 import { requireGroup, requireService } from '../access/permissions';
@@ -60,9 +61,10 @@ export async function createGroup(
 	name: string
 ): Promise<GroupSummary> {
 	const { userId } = await requireService(database, actor, 'create-group');
-	const trimmed = name.trim();
+	const { text: trimmed, problem } = checkedText(name, 'The group name', 'line');
 	if (trimmed.length < 2 || trimmed.length > 120)
 		throw new FieldError('name', 'Use 2 to 120 characters.');
+	if (problem) throw new FieldError('name', problem);
 	const { Group, Membership, User } = database.models;
 	const user = await User.findByPk(userId);
 	if (!user) throw new NotFoundError('No such user.');

@@ -2,6 +2,7 @@
  * The ledger: an append-only hash chain of issue, supersede and withdraw events. Each entry's
  * canonical payload names the previous entry's hash and is signed with the service key.
  */
+import { MAX_PAGE } from '$lib/paging';
 import type { Transaction } from 'sequelize';
 import { canonicalJson } from '../../evidence/canonical';
 import { sha256Hex } from '../../evidence/hash';
@@ -92,7 +93,7 @@ export async function listLedger(
 	pageSize = LEDGER_PAGE_SIZE
 ): Promise<{ items: LedgerEntryView[]; total: number; page: number; pageSize: number }> {
 	const size = Math.min(Math.max(1, Math.floor(pageSize)), 200);
-	const current = Math.max(1, Math.floor(page));
+	const current = Math.min(MAX_PAGE, Math.max(1, Math.floor(page) || 1));
 	const { rows, count } = await database.models.LedgerEntry.findAndCountAll({
 		order: [['seq', 'ASC']],
 		limit: size,

@@ -1,8 +1,10 @@
 /** The outbox for admins: every message Rankseal wrote, with its delivery status. */
-import { Op } from 'sequelize';
+import { MAX_PAGE } from '$lib/paging';
+import { Op, col, fn, where as sqlWhere } from 'sequelize';
 import type { Actor } from '../access/actor';
 import { requireService } from '../access/permissions';
 import type { Database } from '../db';
+import { redactSecretLinks } from '../mail-redact';
 import type { OutboxMailAttributes, OutboxStatus } from '../db/models/OutboxMail';
 import { ConflictError, NotFoundError } from './errors';
 
@@ -26,9 +28,8 @@ export interface OutboxMessage extends OutboxItem {
 
 export const OUTBOX_PAGE_SIZE = 50;
 
-/** Kinds whose one link is a secret (a sign-in, reset or invitation token). */
-const SECRET_LINK_KINDS = new Set(['verify-email', 'reset-password', 'invitation']);
-const HIDDEN_LINK = '[link hidden: it opens the recipient’s account]';
+/** In place of a link that opens something (an account, an invitation, a share, a review). */
+const HIDDEN_LINK = '[link hidden: it opens something for its recipient]';
 
 const iso = (date: Date | null | undefined) => (date ? new Date(date).toISOString() : null);
 
@@ -54,7 +55,7 @@ export async function listOutbox(
 	status: OutboxStatus | null = null
 ): Promise<{ items: OutboxItem[]; total: number; page: number; pageSize: number }> {
 	await requireService(database, actor, 'read-outbox');
-	const current = Math.max(1, Math.floor(page) || 1);
+	const current = Math.min(MAX_PAGE, Math.max(1, Math.floor(page) || 1));
 	const { rows, count } = await database.models.OutboxMail.findAndCountAll({
 		attributes: { exclude: ['text', 'html'] },
 		where: status ? { status } : {},
@@ -66,9 +67,17 @@ export async function listOutbox(
 	return { items, total: count, page: current, pageSize: OUTBOX_PAGE_SIZE };
 }
 
+/** The local catcher's copy of a delivered message, found by the Message-ID the sender gave it. */
+async function caughtCopy(database: Database, id: string) {
+	const where = sqlWhere(fn('instr', col('raw'), `<${id}@`), Op.gt, 0);
+	const row = await database.models.MailMessage.findOne({ where });
+	return row ? { text: row.get('text') as string, html: (row.get('html') as string) ?? '' } : null;
+}
+
 /**
- * One message with its bodies. With a real mail server, secret links are hidden from admins;
- * with the local catcher (development, demo) the outbox is the only inbox, so they show.
+ * One message with its bodies. With a real mail server, secret links are hidden from admins (and
+ * gone from a sent message's stored copy anyway); with the local catcher (development, demo) the
+ * outbox is the only inbox, so they show, a delivered message's from the catcher's copy.
  */
 export async function getOutboxMessage(
 	database: Database,
@@ -80,10 +89,9 @@ export async function getOutboxMessage(
 	const row = await database.models.OutboxMail.findByPk(id);
 	if (!row) throw new NotFoundError('No such message.');
 	const m = row.get({ plain: true });
-	const hide = !options.revealSecretLinks && SECRET_LINK_KINDS.has(m.kind);
-	const text = hide ? m.text.replace(/https?:\/\/\S+/g, HIDDEN_LINK) : m.text;
-	const html = hide ? m.html.replace(/href="[^"]*"/g, 'href="#"') : m.html;
-	return { ...item(m), text, html };
+	if (!options.revealSecretLinks) return { ...item(m), ...redactSecretLinks(m, HIDDEN_LINK) };
+	const caught = m.status === 'sent' ? await caughtCopy(database, m.id) : null;
+	return { ...item(m), ...(caught ?? { text: m.text, html: m.html }) };
 }
 
 /** Sends a given-up or held-back message from the next pass of the sender. */

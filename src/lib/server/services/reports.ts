@@ -2,6 +2,7 @@
  * Referees' reports: one per review link, editable until submitted; the editor is told when one
  * is filed and releases it to the authors when they choose. Authors never see the link's label.
  */
+import { textRule } from '$lib/text-rules';
 import { Op } from 'sequelize';
 import { z } from 'zod';
 import { booleanFrom, type ValueSource } from '$lib/schema-numbers';
@@ -21,7 +22,11 @@ const reportInput = (source: ValueSource) =>
 		recommendation: z.enum(RECOMMENDATIONS, {
 			error: 'Choose sound, needs-revision or unsound.'
 		}),
-		comments: z.string().trim().max(50_000, 'Keep the comments under 50 000 characters.'),
+		comments: z
+			.string()
+			.trim()
+			.max(50_000, 'Keep the comments under 50 000 characters.')
+			.superRefine(textRule('The comments', 'lines')),
 		/** false keeps it as a draft; true files it for good. */
 		submit:
 			source === 'form'

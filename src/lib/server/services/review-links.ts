@@ -2,6 +2,7 @@
  * Review links: an editor's scoped, expiring, revocable way in for one referee to one shared
  * claim. The token (rvw_ + 32 random bytes) is shown once; only its SHA-256 is stored.
  */
+import { textRule } from '$lib/text-rules';
 import { z } from 'zod';
 import { numberFrom, type ValueSource } from '$lib/schema-numbers';
 import { accountIdOf, type Actor, type RefereeActor } from '../access/actor';
@@ -22,7 +23,12 @@ const reviewLinkInput = (source: ValueSource) =>
 	z.object({
 		label: z.preprocess(
 			(v) => (typeof v === 'string' && v.trim() === '' ? undefined : v),
-			z.string().trim().max(200, 'Keep the label under 200 characters.').optional()
+			z
+				.string()
+				.trim()
+				.max(200, 'Keep the label under 200 characters.')
+				.superRefine(textRule('The label', 'line'))
+				.optional()
 		),
 		expiresInDays: z.preprocess(
 			(v) => (source === 'form' && (v === '' || v === null) ? undefined : v),

@@ -3,6 +3,7 @@
  * editor without an account makes one from the link (the link came to that mailbox, so the
  * address counts as confirmed).
  */
+import { checkedText } from '$lib/text-rules';
 import { UniqueConstraintError } from 'sequelize';
 import type { Actor } from '../access/actor';
 import { hashPassword } from '../auth';
@@ -71,8 +72,9 @@ export async function signUpEditor(
 ): Promise<{ userId: string; claimId: string }> {
 	const share = await findShareByToken(database, token);
 	if (!share) throw new NotFoundError(GONE);
-	const name = input.name.trim();
+	const { text: name, problem } = checkedText(input.name, 'Your name', 'line');
 	if (!name) throw new FieldError('name', 'Enter your name.');
+	if (problem) throw new FieldError('name', problem);
 	if (input.password.length < PASSWORD_MIN_LENGTH)
 		throw new FieldError('password', `Use at least ${PASSWORD_MIN_LENGTH} characters.`);
 	if (input.password.length > PASSWORD_MAX_LENGTH)

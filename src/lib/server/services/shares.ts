@@ -2,6 +2,7 @@
  * Sharing a certified claim with a journal editor: by address, with the journal and manuscript.
  * The notice's link lets the editor open it (and make an editor's account if they have none).
  */
+import { textRule } from '$lib/text-rules';
 import { z } from 'zod';
 import { EMAIL_MAX_LENGTH } from '$lib/account-limits';
 import { accountIdOf, type Actor } from '../access/actor';
@@ -22,8 +23,18 @@ export const shareInputSchema = z.object({
 		.toLowerCase()
 		.email('Enter the editor’s e-mail address.')
 		.max(EMAIL_MAX_LENGTH),
-	journal: z.string().trim().min(1, 'Name the journal.').max(200),
-	manuscript: z.string().trim().min(1, 'Give the manuscript reference.').max(200)
+	journal: z
+		.string()
+		.trim()
+		.min(1, 'Name the journal.')
+		.max(200)
+		.superRefine(textRule('The journal', 'line')),
+	manuscript: z
+		.string()
+		.trim()
+		.min(1, 'Give the manuscript reference.')
+		.max(200)
+		.superRefine(textRule('The manuscript reference', 'line'))
 });
 export type ShareInput = z.input<typeof shareInputSchema>;
 

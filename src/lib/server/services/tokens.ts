@@ -3,6 +3,7 @@
  * acts as its owner on claims (TokenScope); it expires (default 90 days) and is revoked by its
  * owner, by a password reset and by signing out everywhere. Who may do what: permissions.ts.
  */
+import { textRule } from '$lib/text-rules';
 import { Op, type Transaction } from 'sequelize';
 import { z } from 'zod';
 import { numberFrom, type ValueSource } from '$lib/schema-numbers';
@@ -28,7 +29,8 @@ const tokenInput = (source: ValueSource) =>
 			.string({ error: 'Name the token.' })
 			.trim()
 			.min(1, 'Name the token.')
-			.max(80, 'Keep the name under 80 characters.'),
+			.max(80, 'Keep the name under 80 characters.')
+			.superRefine(textRule('The token name', 'line')),
 		/** Whole days until it is refused, or 'never'. */
 		expiresInDays: z
 			.union([

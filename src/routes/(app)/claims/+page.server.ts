@@ -1,6 +1,8 @@
 import { claimQuerySchema } from '$lib/claims/schema';
+import { pagingSchema } from '$lib/paging';
 import { app } from '$lib/server/app';
 import { requireSignedIn } from '$lib/server/auth-web';
+import { pageProblem } from '$lib/server/problems';
 import { listClaims } from '$lib/server/services/claims';
 import { firstOrder, DEFAULT_SORT, type ListQuery } from './query';
 import type { PageServerLoad } from './$types';
@@ -8,6 +10,8 @@ import type { PageServerLoad } from './$types';
 /** The first page as the server sees it, so the list shows without JavaScript too. */
 export const load: PageServerLoad = async ({ locals, url }) => {
 	const actor = requireSignedIn(locals, url);
+	const paging = pagingSchema(100).safeParse(Object.fromEntries(url.searchParams));
+	if (!paging.success) pageProblem(paging.error);
 	const parsed = claimQuerySchema.safeParse(Object.fromEntries(url.searchParams));
 	const asked = parsed.success ? parsed.data : {};
 	const sort = asked.sort ?? DEFAULT_SORT;

@@ -1,19 +1,23 @@
 import { json } from '@sveltejs/kit';
-import { z } from 'zod';
+import { pagingSchema } from '$lib/paging';
 import { app } from '$lib/server/app';
 import { apiProblem } from '$lib/server/problems';
-import { LEDGER_PAGE_SIZE, listLedger } from '$lib/server/services/ledger';
+import { LEDGER_PAGE_SIZE } from '$lib/server/services/ledger';
+import { publicLedgerPage } from '$lib/server/services/ledger-roles';
 import type { RequestHandler } from './$types';
 
-const pageQuery = z.object({
-	page: z.coerce.number().int().min(1).default(1),
-	pageSize: z.coerce.number().int().min(1).max(200).default(LEDGER_PAGE_SIZE)
-});
+const pageQuery = pagingSchema(200);
 
-/** Public: one page of the ledger, oldest first (ids, hashes and signatures, nothing private). */
+/** Public: one page of the ledger, oldest first (ids, hashes, signatures, roles; no accounts). */
 export const GET: RequestHandler = async ({ url }) => {
 	const parsed = pageQuery.safeParse(Object.fromEntries(url.searchParams));
 	if (!parsed.success) return apiProblem(parsed.error);
 	const { database } = await app();
-	return json(await listLedger(database, parsed.data.page, parsed.data.pageSize));
+	return json(
+		await publicLedgerPage(
+			database,
+			parsed.data.page ?? 1,
+			parsed.data.pageSize ?? LEDGER_PAGE_SIZE
+		)
+	);
 };

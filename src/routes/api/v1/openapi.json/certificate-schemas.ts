@@ -54,7 +54,17 @@ export const certificateSchemas = {
 				hash: hex64,
 				keyId: hex64,
 				signature: text,
-				payload: { type: 'string', description: 'The canonical JSON that was hashed and signed.' }
+				payload: {
+					type: 'string',
+					description:
+						'The canonical JSON that was hashed and signed, except for the fields named in redacted.'
+				},
+				redacted: {
+					type: 'array',
+					items: { type: 'string' },
+					description:
+						'Payload fields shown otherwise than signed: an old withdraw entry names its withdrawer by role (details.byRole) in place of an account id (details.by). Usually empty.'
+				}
 			})
 		},
 		total: { type: 'integer' },

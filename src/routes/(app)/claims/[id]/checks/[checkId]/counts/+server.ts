@@ -1,3 +1,4 @@
+import { attachment } from '$lib/server/attachment';
 import { app } from '$lib/server/app';
 import { pageProblem } from '$lib/server/problems';
 import { checkCountsFile } from '$lib/server/services/check-exports';
@@ -9,11 +10,10 @@ export const GET: RequestHandler = async ({ locals, params }) => {
 	const file = await checkCountsFile(database, locals.actor, params.id, params.checkId).catch(
 		pageProblem
 	);
-	const name = file.name.replace(/["\\\r\n]/g, '_');
 	return new Response(new Uint8Array(file.bytes), {
 		headers: {
 			'content-type': `${file.contentType}; charset=utf-8`,
-			'content-disposition': `attachment; filename="${name}"; filename*=UTF-8''${encodeURIComponent(file.name)}`,
+			'content-disposition': attachment(file.name),
 			'x-content-sha256': file.sha256
 		}
 	});
