@@ -13,6 +13,8 @@ import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
 import { ACTIVE_CHECK_STATUSES, type CheckAttributes, type CheckStatus } from '../db/models/Check';
 import type { DatasetAttributes } from '../db/models/Dataset';
+import { derivedSeed } from '$lib/evidence/analyses';
+import { countsSha256Of, settingsOf } from './analyses';
 import { audit } from './audit';
 import { refuseOverCheckLimits } from './check-limits';
 import { ConflictError, FieldError, NotFoundError } from './errors';
@@ -120,12 +122,15 @@ export async function startCheck(
 	const subtractAccidentals = options.subtractAccidentals ?? false;
 	requireAccidentals(dataset.get({ plain: true }), subtractAccidentals);
 	const id = newId();
-	const settings = {
+	const chosen = {
 		resamples: options.resamples ?? DEFAULTS.resamples,
 		confidence: options.confidence ?? DEFAULTS.confidence,
-		seed: options.seed ?? DEFAULTS.seed,
 		subtractAccidentals
 	};
+	// No seed chosen: one derived from the counts and the settings (re-running gives the same numbers).
+	const counts = await countsSha256Of(database, dataset.get({ plain: true }));
+	const seed = options.seed ?? derivedSeed(counts, settingsOf(claim, chosen));
+	const settings = { ...chosen, seed };
 	const reviewLinkId = actor.kind === 'referee' ? actor.linkId : null;
 	await writeTransaction(database, async (transaction) => {
 		await refuseOverCheckLimits(database, actor, claim.groupId, transaction);
@@ -171,6 +176,9 @@ export async function getCheck(
 	const row = await database.models.Check.findByPk(checkId);
 	if (!row) throw new NotFoundError('No such check.');
 	const check = row.get({ plain: true });
+	// A referee's re-run is seen through its own review link only, never as the authors' check.
+	const ownLink = actor.kind === 'referee' && actor.linkId === check.reviewLinkId;
+	if (check.reviewLinkId && !ownLink) throw new NotFoundError('No such check.');
 	await requireClaim(database, actor, check.claimId, 'read').catch((problem) => {
 		throw problem instanceof NotFoundError ? new NotFoundError('No such check.') : problem;
 	});
@@ -181,7 +189,10 @@ export async function getCheck(
 	return (await views(database, [check]))[0];
 }
 
-/** The claim's checks, newest first; NotFoundError when the claim is not visible. */
+/**
+ * The authors' checks of the claim, newest first; referee re-runs are the referee's and stay on
+ * the review page. NotFoundError when the claim is not visible.
+ */
 export async function listChecks(
 	database: Database,
 	actor: Actor,
@@ -189,7 +200,7 @@ export async function listChecks(
 ): Promise<CheckView[]> {
 	await requireClaim(database, actor, claimId, 'read');
 	const rows = await database.models.Check.findAll({
-		where: { claimId },
+		where: { claimId, reviewLinkId: null },
 		order: [
 			['createdAt', 'DESC'],
 			[col('rowid'), 'DESC']
