@@ -23,6 +23,7 @@ import { queueCertificateNotice } from './claim-notices';
 import { datasetFilePath } from './datasets';
 import { ConflictError, NotFoundError } from './errors';
 import { newId } from './ids';
+import { queueReviewNotices } from './review-notices';
 import { appendLedger } from './ledger';
 
 export type { CertificateView } from './certificate-views';
@@ -152,6 +153,7 @@ async function store(
 	const action = 'certificate.issued';
 	await audit(database, { ...entry, action, details: { fingerprint, supersedes } }, transaction);
 	await queueCertificateNotice(database, row, transaction);
+	await queueReviewNotices(database, row.claimId, id, transaction);
 	return row;
 }
 
