@@ -3,7 +3,8 @@
  * of one counts file (matched by its canonical SHA-256 across the claims of a group), the derived
  * seed, the declared analysis, and the Bonferroni-corrected level of an exploratory certificate.
  */
-import { mkdtempSync, rmSync } from 'node:fs';
+import { execFileSync } from 'node:child_process';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
@@ -20,7 +21,11 @@ import { canonicalCountsText, type EvidenceManifest } from '../../src/lib/eviden
 import { bundleCheckWorker } from '../../src/lib/server/checks/locate';
 import { startCheckRunner, stopCheckRunner } from '../../src/lib/server/checks/registry';
 import type { UserActor } from '../../src/lib/server/access/actor';
-import { certificateFile, getCertificate } from '../../src/lib/server/services/certificate-reads';
+import {
+	certificateFile,
+	getCertificate,
+	lookupCertificate
+} from '../../src/lib/server/services/certificate-reads';
 import { issueCertificate } from '../../src/lib/server/services/certificates';
 import { getCheck, startCheck } from '../../src/lib/server/services/checks';
 import { createClaim } from '../../src/lib/server/services/claims';
@@ -65,6 +70,15 @@ async function certified(actor: UserActor, claimId: string, checkId: string) {
 	const row = await ctx.database.models.Certificate.findByPk(issued.id);
 	const manifest = JSON.parse(row!.get('manifest') as string) as EvidenceManifest;
 	return { view: await getCertificate(ctx.database, actor, issued.id), manifest };
+}
+
+/** The PDF's text as poppler's pdftotext reads it. */
+function pdfText(bytes: Uint8Array): string {
+	const folder = mkdtempSync(path.join(tmpdir(), 'rankseal-pdf-'));
+	writeFileSync(path.join(folder, 'c.pdf'), bytes);
+	const text = execFileSync('pdftotext', [path.join(folder, 'c.pdf'), '-'], { encoding: 'utf8' });
+	rmSync(folder, { recursive: true, force: true });
+	return text;
 }
 
 const utf8 = (text: string) => new TextEncoder().encode(text);
@@ -153,6 +167,17 @@ describe('analyses of one counts file', () => {
 			[0.95, 'derived'],
 			[0.99, 12345]
 		]);
+		// The PDF and the public record (/seal) say the same.
+		const text = pdfText((await certificateFile(ctx.database, author, view.id, 'pdf')).bytes);
+		expect(text).toContain('Distinct analyses up to this certificate: 3');
+		expect(text.replace(/\s+/g, ' ')).toContain(
+			`stated at confidence ${1 - 0.01 / 3} = 1 − (1 − 0.99)/3 (Bonferroni)`
+		);
+		expect(text).toContain(
+			'3. mub-correlation, bases 0 1 2, cyclic, confidence 0.99, 400 resamples, seed 12345'
+		);
+		const record = await lookupCertificate(ctx.database, view.id);
+		expect(record).toMatchObject({ analyses: { total: 3, declared: true, exploratory: true } });
 	});
 
 	it('matches the same counts uploaded to another claim of the group in another layout', async () => {
