@@ -42,6 +42,8 @@ export interface CheckView {
 	cancelledAt: string | null;
 	/** Who cancelled it: an account's name, or "the referee" for a review link. */
 	cancelledBy: string | null;
+	/** A referee's re-run from a review link: the referee's, never listed as the authors', never certified. */
+	byReferee: boolean;
 }
 
 const isoOrNull = (value: Date | string | null | undefined) =>
@@ -63,7 +65,8 @@ const view = (c: CheckAttributes, cancelledBy: string | null = null): CheckView 
 	error: c.error,
 	result: c.result,
 	cancelledAt: isoOrNull(c.cancelledAt),
-	cancelledBy
+	cancelledBy,
+	byReferee: !!c.reviewLinkId
 });
 
 /** The rows as views, with the name of whoever cancelled each (one query for all). */
@@ -176,9 +179,6 @@ export async function getCheck(
 	const row = await database.models.Check.findByPk(checkId);
 	if (!row) throw new NotFoundError('No such check.');
 	const check = row.get({ plain: true });
-	// A referee's re-run is seen through its own review link only, never as the authors' check.
-	const ownLink = actor.kind === 'referee' && actor.linkId === check.reviewLinkId;
-	if (check.reviewLinkId && !ownLink) throw new NotFoundError('No such check.');
 	await requireClaim(database, actor, check.claimId, 'read').catch((problem) => {
 		throw problem instanceof NotFoundError ? new NotFoundError('No such check.') : problem;
 	});

@@ -289,6 +289,11 @@ export const schemas = {
 			cancelledBy: {
 				...nullable(text),
 				description: 'Who cancelled it: the account’s name, or "the referee" for a review link.'
+			},
+			byReferee: {
+				type: 'boolean',
+				description:
+					"A referee's re-run from a review link: never listed among the authors' checks, never certified."
 			}
 		}
 	},
