@@ -7,7 +7,8 @@
  * Many experiments drive the service's own correction (analyses.ts, certificate-analyses.ts);
  * one goes the whole way: 31 claims, uploads, checks on the worker threads, the certificate.
  */
-import { mkdtempSync, rmSync } from 'node:fs';
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
@@ -18,6 +19,8 @@ import { canonicalCountsText } from '../../src/lib/evidence/manifest';
 import { verifyEvidence } from '../../src/lib/evidence/verify';
 import { bundleCheckWorker } from '../../src/lib/server/checks/locate';
 import { startCheckRunner, stopCheckRunner } from '../../src/lib/server/checks/registry';
+import { publishedKeys } from '../../src/lib/server/evidence/keys';
+import { bundleVerifier } from '../../src/lib/server/evidence/verifier-file';
 import { readZip } from '../../src/lib/server/evidence/zip-read';
 import { distinctAnalyses, type AnalysisRun } from '../../src/lib/server/services/analyses';
 import { resultAtLevel } from '../../src/lib/server/services/certificate-analyses';
@@ -125,6 +128,7 @@ describe('the same experiment through the services and a real SQLite file', () =
 		process.env.RANKSEAL_CHECK_WORKER = await bundleCheckWorker(
 			path.join(workerFolder, 'check-worker.mjs')
 		);
+		process.env.RANKSEAL_VERIFIER = await bundleVerifier(path.join(workerFolder, 'verify.mjs'));
 	});
 	afterAll(async () => {
 		await stopCheckRunner(ctx.database);
@@ -171,8 +175,20 @@ describe('the same experiment through the services and a real SQLite file', () =
 		expect(cert.analyses!.statedConfidence).toBe(e.level);
 		expect(cert.certifiedSchmidtNumber).toBe(e.stated);
 		const bundle = await certificateFile(database, author, issued.id, 'bundle');
-		const report = verifyEvidence(readZip(bundle.bytes));
+		const files = readZip(bundle.bytes);
+		const report = verifyEvidence(files);
 		expect(report).toMatchObject({ valid: true });
 		expect(report.passed).toContain('analyses');
+		// The bundle's own verify.mjs, offline, re-runs at the corrected level too.
+		const folder = mkdtempSync(path.join(workerFolder, 'bundle-'));
+		for (const [name, bytes] of Object.entries(files))
+			writeFileSync(path.join(folder, name), bytes);
+		writeFileSync(path.join(workerFolder, 'keys.json'), JSON.stringify({ keys: publishedKeys() }));
+		const run = spawnSync(
+			process.execPath,
+			['verify.mjs', '--keys', path.join(workerFolder, 'keys.json')],
+			{ cwd: folder, encoding: 'utf8' }
+		);
+		expect(run.status).toBe(0);
 	});
 });
