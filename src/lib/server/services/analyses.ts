@@ -8,6 +8,7 @@ import { col, Op, type Transaction } from 'sequelize';
 import { InputError } from '$lib/certify';
 import {
 	analysisKey,
+	derivedSeed,
 	seedChoice,
 	type AnalysisEntry,
 	type AnalysisSettings,
@@ -62,6 +63,18 @@ export async function countsSha256Of(
 		{ where: { id: dataset.id } }
 	);
 	return read.countsSha256;
+}
+
+/** The seed a check runs with: the one chosen, or one derived from the counts and the settings. */
+export async function seedFor(
+	database: Database,
+	claim: ClaimSettings,
+	dataset: DatasetAttributes,
+	check: CheckSettings,
+	chosen: number | undefined
+): Promise<number> {
+	if (chosen !== undefined) return chosen;
+	return derivedSeed(await countsSha256Of(database, dataset), settingsOf(claim, check));
 }
 
 /** The group's datasets holding these counts (legacy rows of the group are read first). */

@@ -13,8 +13,7 @@ import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
 import { ACTIVE_CHECK_STATUSES, type CheckAttributes, type CheckStatus } from '../db/models/Check';
 import type { DatasetAttributes } from '../db/models/Dataset';
-import { derivedSeed } from '$lib/evidence/analyses';
-import { countsSha256Of, settingsOf } from './analyses';
+import { seedFor } from './analyses';
 import { audit } from './audit';
 import { refuseOverCheckLimits } from './check-limits';
 import { ConflictError, FieldError, NotFoundError } from './errors';
@@ -130,10 +129,8 @@ export async function startCheck(
 		confidence: options.confidence ?? DEFAULTS.confidence,
 		subtractAccidentals
 	};
-	// No seed chosen: one derived from the counts and the settings (re-running gives the same numbers).
-	const counts = await countsSha256Of(database, dataset.get({ plain: true }));
-	const seed = options.seed ?? derivedSeed(counts, settingsOf(claim, chosen));
-	const settings = { ...chosen, seed };
+	const plain = dataset.get({ plain: true });
+	const settings = { ...chosen, seed: await seedFor(database, claim, plain, chosen, options.seed) };
 	const reviewLinkId = actor.kind === 'referee' ? actor.linkId : null;
 	await writeTransaction(database, async (transaction) => {
 		await refuseOverCheckLimits(database, actor, claim.groupId, transaction);
