@@ -29,7 +29,9 @@ import {
 import { issueCertificate } from '../../src/lib/server/services/certificates';
 import { getCheck, startCheck } from '../../src/lib/server/services/checks';
 import { createClaim } from '../../src/lib/server/services/claims';
+import { countsRecord } from '../../src/lib/server/services/counts-record';
 import { addDataset } from '../../src/lib/server/services/datasets';
+import { NotFoundError } from '../../src/lib/server/services/errors';
 import { asUser } from './actors';
 import { addGroup, addUser, bytesOf, claimFields, countsCsv } from './backend-fixtures';
 import { temporaryDatabase } from './db';
@@ -207,6 +209,21 @@ describe('analyses of one counts file', () => {
 		const hidden = { ...manifest.analyses!, total: 1, list: manifest.analyses!.list.slice(-1) };
 		resign(files, { ...manifest, analyses: hidden });
 		expect(verifyEvidence(files)).toMatchObject({ valid: false, failedItem: 'analyses' });
+	});
+
+	it('keeps the record of every check on the counts, for members of the group only', async () => {
+		const record = await countsRecord(ctx.database, author, first.datasetId);
+		expect(record.countsSha256).toBe(countsSha256);
+		// first: 0.99 twice, 0.95, seed 12345, seed 999; the JSON claim's own check: 6 checks.
+		expect(record.runs).toHaveLength(6);
+		expect(record.distinct).toBe(5);
+		expect(record.runs.every((r) => r.ranByName === 'Ingrid Halvorsen')).toBe(true);
+		expect(new Set(record.runs.map((r) => r.settings.bases.join(' ')))).toEqual(
+			new Set(['0 1 2', '0 1'])
+		);
+		await expect(countsRecord(ctx.database, outsider, first.datasetId)).rejects.toBeInstanceOf(
+			NotFoundError
+		);
 	});
 
 	it("leaves another group's analyses of the same counts out", async () => {
