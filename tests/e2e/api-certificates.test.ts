@@ -63,6 +63,9 @@ describe('certificates in the API', () => {
 		expect(certificate.fingerprint).toMatch(/^[0-9a-f]{64}$/);
 		expect(response.headers.get('location')).toBe(`/api/v1/certificates/${id}`);
 		expect(await (await call(`/api/v1/certificates/${id}`)).json()).toEqual(certificate);
+		// Issue 15: how many analyses of these counts came before it, and whether it is the declared one.
+		expect(certificate.analyses).toMatchObject({ total: expect.any(Number), declared: true });
+		expect(certificate.analyses.total).toBeGreaterThanOrEqual(1);
 		issued.push(certificate);
 	});
 

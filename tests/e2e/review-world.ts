@@ -21,6 +21,8 @@ export interface ReviewFlowWorld {
 	authorSession: string;
 	authorEmail: string;
 	claimId: string;
+	/** The certified check (an author may issue a newer certificate from it). */
+	checkId: string;
 	/** The certified check's lower bound, as the engine computed it. */
 	certifiedLower: number;
 	bundleSha256: string;
@@ -116,6 +118,7 @@ export async function seedReviewFlow(): Promise<ReviewFlowWorld> {
 		authorSession: author.session,
 		authorEmail: author.email,
 		claimId: claim.id,
+		checkId: check.id,
 		certifiedLower: check.result.statistic.lower,
 		bundleSha256: row!.get('bundleSha256') as string
 	};

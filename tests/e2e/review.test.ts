@@ -200,4 +200,23 @@ describe('sharing and review in Chromium', () => {
 		const text = await newestMail(admin, world.authorEmail, /released/);
 		expect(text).toContain(`/claims/${world.claimId}/sharing`);
 	});
+
+	it('a newer certificate while the link is open: the editor is told, the review page names both, /seal counts the analyses', async () => {
+		await author.goto(`${app.origin}/claims/${world.claimId}/checks/${world.checkId}`);
+		await author.click('[data-testid=issue-certificate] button');
+		await author.waitForURL(/\/certificates\//, STATE_WAIT);
+		const newer = author.url().split('/').at(-1)!;
+		const text = await newestMail(admin, editorEmail, /under review has a new certificate/);
+		expect(text).toContain(newer);
+		const referee = await pageAs(null);
+		await referee.goto(reviewUrl);
+		const note = referee.locator('[data-testid=newer-certificate]');
+		await note.waitFor(STATE_WAIT);
+		await expect(note.textContent()).resolves.toContain(newer);
+		// The referee's re-runs were not counted: the certificate is still the declared analysis alone.
+		await referee.goto(`${app.origin}/seal/${newer}`);
+		await expect(referee.textContent('[data-testid=seal-analyses]')).resolves.toContain(
+			'1 distinct up to this certificate'
+		);
+	});
 });

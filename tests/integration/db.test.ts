@@ -26,6 +26,7 @@ describe('database', () => {
 			'0008-check-fair-use',
 			'0009-mail-cap',
 			'0010-check-attempts',
+			'0011-analyses',
 			'0014-no-live-secrets'
 		]);
 	});

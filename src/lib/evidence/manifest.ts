@@ -10,6 +10,7 @@ import {
 	type FourierConvention,
 	type MethodId
 } from '../certify';
+import type { EvidenceAnalyses } from './analyses';
 import { canonicalJson, jsonRoundTrip } from './canonical';
 import { sha256Hex } from './hash';
 
@@ -55,6 +56,11 @@ export interface EvidenceManifest {
 	parameters: EvidenceParameters;
 	counts: EvidenceCounts;
 	result: CertificationResult;
+	/**
+	 * Every distinct analysis of these counts up to this certificate (issue 15); absent in
+	 * certificates made before it. `parameters.confidence` is then the corrected level.
+	 */
+	analyses?: EvidenceAnalyses;
 }
 
 export type ManifestInput = Omit<EvidenceManifest, 'format' | 'result' | 'claim'> & {

@@ -5,6 +5,7 @@
  * and the server.
  */
 import { certify, ENGINE_VERSION, parseCounts } from '../certify';
+import { analysesProblem } from './analyses';
 import { canonicalJson, jsonRoundTrip, parseCanonical } from './canonical';
 import { firstDifference } from './compare';
 import { sha256Hex } from './hash';
@@ -166,6 +167,15 @@ function checkCounts(s: State) {
 	s.passed.push(BUNDLE_FILES.result);
 }
 
+/** The stated level must be the one corrected for the analyses the certificate lists. */
+function checkAnalyses(s: State) {
+	const m = s.manifest!;
+	if (!m.analyses) return;
+	const problem = analysesProblem(m.analyses, m.parameters.confidence);
+	if (problem) throw new Failure('analyses', problem);
+	s.passed.push('analyses');
+}
+
 function checkRerun(s: State) {
 	const m = s.manifest!;
 	if (m.engineVersion !== ENGINE_VERSION || m.result.engine?.version !== ENGINE_VERSION)
@@ -210,6 +220,7 @@ export function verifyEvidence(
 		checkContents(s);
 		checkManifest(s);
 		checkCounts(s);
+		checkAnalyses(s);
 		checkRerun(s);
 	} catch (error) {
 		if (error instanceof Failure) return report(error.item, error.message);

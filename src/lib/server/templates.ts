@@ -13,7 +13,10 @@ const sources = import.meta.glob('/templates/mail/*.{txt,html}', {
 }) as Record<string, string>;
 
 export type NoticeTemplate =
-	'notice-claim-shared' | 'notice-report-filed' | 'notice-report-released';
+	| 'notice-claim-shared'
+	| 'notice-report-filed'
+	| 'notice-report-released'
+	| 'notice-certificate-under-review';
 
 export type MailTemplate =
 	| 'verify-email'

@@ -20,6 +20,7 @@ export type ClaimAction =
 	| 'start-check'
 	| 'cancel-check'
 	| 'issue-certificate'
+	| 'read-analyses'
 	| 'file-report'
 	| 'share'
 	| 'review';
@@ -36,6 +37,8 @@ const CLAIM_RULES = {
 		'start-check',
 		'cancel-check',
 		'issue-certificate',
+		// Every analysis the group ran on a counts file, across its claims (issue 15).
+		'read-analyses',
 		'share'
 	],
 	editor: ['read', 'read-datasets', 'review'],
@@ -62,6 +65,7 @@ const CLAIM_DENIALS: Record<ClaimAction, string> = {
 	'start-check': 'Only members of the claim’s group start checks.',
 	'cancel-check': 'Only those who may start a check on this claim cancel one.',
 	'issue-certificate': 'Only members of the claim’s group issue certificates.',
+	'read-analyses': 'Only members of the claim’s group see every analysis of its counts.',
 	'file-report': 'Only the referee holding a review link files a report.',
 	share: 'Only members of the claim’s group share it or read its shares.',
 	review: 'Only the editor the claim is shared with makes review links and releases reports.'

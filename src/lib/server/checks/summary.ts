@@ -16,6 +16,8 @@ import {
 import { InputError, requireCompleteTables } from '../../certify/counts';
 import { fileDimension } from '../../certify/file-dimension';
 import type { MethodId } from '../../certify/witnesses';
+import { sha256Hex } from '../../evidence/hash';
+import { canonicalCountsText } from '../../evidence/manifest';
 import type { DatasetSummary, PreviewTable } from '../db/models/Dataset';
 
 export interface SummaryTask {
@@ -28,7 +30,7 @@ export interface SummaryTask {
 }
 
 export type SummaryOutcome =
-	| { ok: true; summary: DatasetSummary; preview: PreviewTable[] }
+	| { ok: true; summary: DatasetSummary; preview: PreviewTable[]; countsSha256: string }
 	| { ok: false; message: string; line: number | null; column: number | null };
 
 /** Heat maps kept per dataset: the claim's bases first, then others while this many cells fit. */
@@ -102,7 +104,9 @@ export function summariseCounts(task: SummaryTask): SummaryOutcome {
 			return {
 				ok: true,
 				summary: summarise(parsed, task.fourier),
-				preview: previewTables(parsed, task.bases)
+				preview: previewTables(parsed, task.bases),
+				// The counts' identity whatever the layout: the same table in two files is one file.
+				countsSha256: sha256Hex(canonicalCountsText(parsed))
 			};
 		} catch (error) {
 			throw (

@@ -19,7 +19,7 @@ export async function certifyDemoClaims(database: Database): Promise<number> {
 		const claim = (await Claim.findOne({ where: { title: demo.title } }))?.get({ plain: true });
 		if (!claim || (await Certificate.count({ where: { claimId: claim.id } })) > 0) continue;
 		const check = await Check.findOne({
-			where: { claimId: claim.id, status: 'done' },
+			where: { claimId: claim.id, status: 'done', reviewLinkId: null },
 			order: [['createdAt', 'DESC']]
 		});
 		const result = check?.get('result') as CertificationResult | null | undefined;

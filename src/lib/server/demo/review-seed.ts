@@ -35,7 +35,9 @@ function writeSecret(file: string, text: string) {
  */
 async function finishedCheckId(database: Database, claimId: string): Promise<string> {
 	await (await startCheckRunner(database)).idle();
-	const check = await database.models.Check.findOne({ where: { claimId, status: 'done' } });
+	const check = await database.models.Check.findOne({
+		where: { claimId, status: 'done', reviewLinkId: null }
+	});
 	if (!check) throw new Error('demo: the check of the claim to share did not finish');
 	return check.get('id') as string;
 }

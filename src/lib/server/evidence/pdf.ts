@@ -10,6 +10,7 @@ import PDFDocument from 'pdfkit';
 import { witnessFamilies } from '../../certify';
 import { assumptionsOf } from '../../evidence/cautions';
 import type { EvidenceManifest } from '../../evidence/manifest';
+import { drawAnalyses } from './pdf-analyses';
 import { drawLadder } from './pdf-ladder';
 import { ACCENT, drawQr, field, heading, INK, MUTED, numberPages } from './pdf-parts';
 
@@ -191,6 +192,7 @@ export function certificatePdf(input: PdfInput): Promise<Buffer> {
 	statisticAndLadder(doc, input.manifest);
 	boundsTable(doc, input.manifest);
 	verdict(doc, input.manifest);
+	drawAnalyses(doc, input.manifest);
 	signatureBlock(doc, input);
 	numberPages(doc, `Certificate ${input.manifest.certificateId}`);
 	doc.end();

@@ -87,7 +87,7 @@ async function versionsOf(database: Database, claimIds: string[]) {
 	const [certificates, checks, datasets] = await Promise.all([
 		Certificate.findAll({ where: { claimId: claimIds }, order: [['issuedAt', 'ASC']] }),
 		Check.findAll({
-			where: { claimId: claimIds, status: 'done' },
+			where: { claimId: claimIds, status: 'done', reviewLinkId: null },
 			attributes: ['id', 'claimId', 'createdAt']
 		}),
 		Dataset.findAll({ where: { claimId: claimIds }, attributes: ['claimId', 'createdAt'] })

@@ -1,4 +1,5 @@
 /** What callers see of a certificate, and where its files and public page are. */
+import { isExploratory, type AnalysisEntry } from '../../evidence/analyses';
 import type { EvidenceClaim, EvidenceManifest } from '../../evidence/manifest';
 import type { CertificateAttributes, CertificateStatus } from '../db/models/Certificate';
 
@@ -7,6 +8,17 @@ export interface CertificateUrls {
 	bundle: string;
 	/** The public verification page (the QR code's target). */
 	verify: string;
+}
+
+/** The analyses of the certificate's counts up to it; null for certificates made before issue 15. */
+export interface CertificateAnalyses {
+	total: number;
+	declared: boolean;
+	/** Not the declared analysis alone: stated at the corrected level. */
+	exploratory: boolean;
+	nominalConfidence: number;
+	statedConfidence: number;
+	list: AnalysisEntry[];
 }
 
 export interface CertificateView {
@@ -21,6 +33,7 @@ export interface CertificateView {
 	issuedAt: string;
 	certifiedSchmidtNumber: number;
 	verdict: 'supported' | 'not supported' | null;
+	analyses: CertificateAnalyses | null;
 	urls: CertificateUrls;
 }
 
@@ -38,6 +51,7 @@ export interface PublicCertificate {
 	verdict: 'supported' | 'not supported' | null;
 	backgroundSubtracted: boolean;
 	engineVersion: string;
+	analyses: CertificateAnalyses | null;
 }
 
 export const PUBLIC_VERIFY_PATH = '/seal';
@@ -57,6 +71,14 @@ export const evidenceUrls = (origin: string, id: string) => ({
 
 const manifestOf = (row: CertificateAttributes) => JSON.parse(row.manifest) as EvidenceManifest;
 
+export function certificateAnalyses(m: EvidenceManifest): CertificateAnalyses | null {
+	if (!m.analyses) return null;
+	const { total, declared, nominalConfidence, list } = m.analyses;
+	const exploratory = isExploratory(m.analyses);
+	const statedConfidence = m.parameters.confidence;
+	return { total, declared, exploratory, nominalConfidence, statedConfidence, list };
+}
+
 export function certificateView(row: CertificateAttributes): CertificateView {
 	const m = manifestOf(row);
 	return {
@@ -71,6 +93,7 @@ export function certificateView(row: CertificateAttributes): CertificateView {
 		issuedAt: m.issuedAt,
 		certifiedSchmidtNumber: m.result.certifiedSchmidtNumber,
 		verdict: m.result.claim?.verdict ?? null,
+		analyses: certificateAnalyses(m),
 		urls: certificateUrls(row.id)
 	};
 }
@@ -89,6 +112,7 @@ export function publicCertificate(row: CertificateAttributes): PublicCertificate
 		certifiedSchmidtNumber: m.result.certifiedSchmidtNumber,
 		verdict: m.result.claim?.verdict ?? null,
 		backgroundSubtracted: m.result.backgroundSubtracted,
-		engineVersion: m.engineVersion
+		engineVersion: m.engineVersion,
+		analyses: certificateAnalyses(m)
 	};
 }

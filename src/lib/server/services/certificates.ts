@@ -16,12 +16,14 @@ import { accountIdOf, type Actor } from '../access/actor';
 import { requireClaim, requireOpen } from '../access/permissions';
 import { audit } from './audit';
 import { certificatePaths, placeFiles, removeFiles } from './certificate-files';
+import { statedResult, type StatedResult } from './certificate-analyses';
 import { certificateRow, issueDetails } from './certificate-rows';
 import { certificateView, evidenceUrls, type CertificateView } from './certificate-views';
 import { queueCertificateNotice } from './claim-notices';
 import { datasetFilePath } from './datasets';
 import { ConflictError, NotFoundError } from './errors';
 import { newId } from './ids';
+import { queueReviewNotices } from './review-notices';
 import { appendLedger } from './ledger';
 
 export type { CertificateView } from './certificate-views';
@@ -38,6 +40,10 @@ async function finishedCheck(database: Database, claimId: string, checkId: strin
 	const row = await database.models.Check.findOne({ where: { id: checkId, claimId } });
 	if (!row) throw new NotFoundError('No such check on this claim.');
 	const check = row.get({ plain: true });
+	if (check.reviewLinkId)
+		throw new ConflictError(
+			"This check is a referee's re-run from a review link: it is the referee's, and only the group's own checks can be certified."
+		);
 	if (check.status !== 'done' || !check.result)
 		throw new ConflictError('Only a finished check can be certified.');
 	const dataset = (await database.models.Dataset.findByPk(check.datasetId))!.get({ plain: true });
@@ -62,10 +68,10 @@ type CheckSource = Awaited<ReturnType<typeof finishedCheck>>;
 function evidenceInput(
 	claim: ClaimAttributes,
 	{ check, dataset, uploaded }: CheckSource,
+	{ result, confidence, analyses }: StatedResult,
 	certificateId: string,
 	supersedes: string | null
 ): EvidenceInput {
-	const result = check.result!;
 	return {
 		certificateId,
 		issuedAt: new Date().toISOString(),
@@ -84,11 +90,12 @@ function evidenceInput(
 		},
 		parameters: {
 			resamples: check.resamples,
-			confidence: check.confidence,
+			confidence,
 			seed: Number(check.seed),
 			subtractAccidentals: result.backgroundSubtracted
 		},
 		result,
+		analyses,
 		uploaded,
 		uploadedFormat: dataset.format
 	};
@@ -105,7 +112,8 @@ async function prepare(
 	const source = await finishedCheck(database, claimId, checkId);
 	const id = newId();
 	const supersedes = await currentCertificate(database, claimId);
-	const input = evidenceInput(claim, source, id, supersedes);
+	const stated = await statedResult(database, claim, source);
+	const input = evidenceInput(claim, source, stated, id, supersedes);
 	const urls = evidenceUrls(config().origin, id);
 	const evidence = await makeEvidence(input, key, urls, { keys: publishedKeys() });
 	const verdict = selfCheck(evidence);
@@ -145,6 +153,7 @@ async function store(
 	const action = 'certificate.issued';
 	await audit(database, { ...entry, action, details: { fingerprint, supersedes } }, transaction);
 	await queueCertificateNotice(database, row, transaction);
+	await queueReviewNotices(database, row.claimId, id, transaction);
 	return row;
 }
 

@@ -13,6 +13,7 @@ import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
 import { ACTIVE_CHECK_STATUSES, type CheckAttributes, type CheckStatus } from '../db/models/Check';
 import type { DatasetAttributes } from '../db/models/Dataset';
+import { seedFor } from './analyses';
 import { audit } from './audit';
 import { refuseOverCheckLimits } from './check-limits';
 import { ConflictError, FieldError, NotFoundError } from './errors';
@@ -40,6 +41,8 @@ export interface CheckView {
 	cancelledAt: string | null;
 	/** Who cancelled it: an account's name, or "the referee" for a review link. */
 	cancelledBy: string | null;
+	/** A referee's re-run from a review link: the referee's, never listed as the authors', never certified. */
+	byReferee: boolean;
 }
 
 const isoOrNull = (value: Date | string | null | undefined) =>
@@ -61,7 +64,8 @@ const view = (c: CheckAttributes, cancelledBy: string | null = null): CheckView 
 	error: c.error,
 	result: c.result,
 	cancelledAt: isoOrNull(c.cancelledAt),
-	cancelledBy
+	cancelledBy,
+	byReferee: !!c.reviewLinkId
 });
 
 /** The rows as views, with the name of whoever cancelled each (one query for all). */
@@ -120,12 +124,13 @@ export async function startCheck(
 	const subtractAccidentals = options.subtractAccidentals ?? false;
 	requireAccidentals(dataset.get({ plain: true }), subtractAccidentals);
 	const id = newId();
-	const settings = {
+	const chosen = {
 		resamples: options.resamples ?? DEFAULTS.resamples,
 		confidence: options.confidence ?? DEFAULTS.confidence,
-		seed: options.seed ?? DEFAULTS.seed,
 		subtractAccidentals
 	};
+	const plain = dataset.get({ plain: true });
+	const settings = { ...chosen, seed: await seedFor(database, claim, plain, chosen, options.seed) };
 	const reviewLinkId = actor.kind === 'referee' ? actor.linkId : null;
 	await writeTransaction(database, async (transaction) => {
 		await refuseOverCheckLimits(database, actor, claim.groupId, transaction);
@@ -181,7 +186,10 @@ export async function getCheck(
 	return (await views(database, [check]))[0];
 }
 
-/** The claim's checks, newest first; NotFoundError when the claim is not visible. */
+/**
+ * The authors' checks of the claim, newest first; referee re-runs are the referee's and stay on
+ * the review page. NotFoundError when the claim is not visible.
+ */
 export async function listChecks(
 	database: Database,
 	actor: Actor,
@@ -189,7 +197,7 @@ export async function listChecks(
 ): Promise<CheckView[]> {
 	await requireClaim(database, actor, claimId, 'read');
 	const rows = await database.models.Check.findAll({
-		where: { claimId },
+		where: { claimId, reviewLinkId: null },
 		order: [
 			['createdAt', 'DESC'],
 			[col('rowid'), 'DESC']

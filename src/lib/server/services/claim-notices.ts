@@ -5,6 +5,7 @@
 import type { Transaction } from 'sequelize';
 import { config } from '../config';
 import type { Database } from '../db';
+import type { EvidenceManifest } from '$lib/evidence/manifest';
 import type { CertificateAttributes } from '../db/models/Certificate';
 import type { ClaimAttributes } from '../db/models/Claim';
 import { mailLink } from '../mail';
@@ -43,13 +44,13 @@ async function context(database: Database, claimId: string, transaction: Transac
 /** One notice per issue: "issued", or "superseded" when it replaces an earlier certificate. */
 export async function queueCertificateNotice(
 	database: Database,
-	certificate: Pick<CertificateAttributes, 'claimId' | 'checkId' | 'fingerprint' | 'supersedes'>,
+	certificate: Pick<CertificateAttributes, 'claimId' | 'manifest' | 'fingerprint' | 'supersedes'>,
 	transaction: Transaction
 ): Promise<void> {
 	const { claim, group, link } = await context(database, certificate.claimId, transaction);
-	const { Certificate, Check } = database.models;
-	const check = (await Check.findByPk(certificate.checkId, { transaction }))!.get({ plain: true });
-	const r = check.result!;
+	const { Certificate } = database.models;
+	// What the certificate states: an exploratory one is at its corrected level, not the check's.
+	const r = (JSON.parse(certificate.manifest) as EvidenceManifest).result;
 	const summary = `Schmidt number at least ${r.certifiedSchmidtNumber} in local dimension ${r.dimension}, certified at confidence ${r.confidence}`;
 	const earlier = certificate.supersedes
 		? await Certificate.findByPk(certificate.supersedes, { transaction })

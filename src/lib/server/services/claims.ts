@@ -67,8 +67,9 @@ async function claimViews(database: Database, claims: ClaimAttributes[]): Promis
 			where: { id: [...new Set(claims.map((c) => c.createdBy))] },
 			attributes: ['id', 'name']
 		}),
+		// Referee re-runs are the referee's: never shown as the authors' newest check.
 		Check.findAll({
-			where: { claimId: ids },
+			where: { claimId: ids, reviewLinkId: null },
 			order: [
 				['createdAt', 'DESC'],
 				[col('rowid'), 'DESC']

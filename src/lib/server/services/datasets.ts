@@ -142,7 +142,8 @@ export async function addDataset(
 					format: formatOf(bytes),
 					originalName,
 					summary: read.summary,
-					preview: read.preview
+					preview: read.preview,
+					countsSha256: read.countsSha256
 				},
 				{ transaction }
 			);

@@ -9,7 +9,6 @@ import { firstDifference } from '$lib/evidence/compare';
 import type { Actor, RefereeActor } from '../access/actor';
 import { requireClaim } from '../access/permissions';
 import type { Database } from '../db';
-import type { CertificateAttributes } from '../db/models/Certificate';
 import { audit } from './audit';
 import { absolute } from './certificate-files';
 import { certificateView, type CertificateView } from './certificate-views';
@@ -17,6 +16,7 @@ import { cancelCheck, getCheck, mayCancelCheck, startCheck, type CheckView } fro
 import { datasetTables, getDataset, type DatasetTables, type DatasetView } from './datasets';
 import { NotFoundError } from './errors';
 import { ownReport, type ReportView } from './reports';
+import { reviewedCertificates } from './review-certificate';
 
 /** A referee chooses only the seed; everything else is the certified check's. */
 export const refereeCheckSchema = checkRequestSchema.pick({ seed: true }).strict();
@@ -47,7 +47,10 @@ export interface RefereeView {
 		fourier: string;
 		claimedSchmidtNumber: number;
 	};
+	/** The certificate under review: the one current when the link was made. */
 	certificate: CertificateView;
+	/** A certificate issued for the claim since then, if any. */
+	newerCertificate: CertificateView | null;
 	certified: CheckView;
 	dataset: DatasetView;
 	tables: DatasetTables['tables'];
@@ -60,14 +63,9 @@ function asReferee(actor: Actor): RefereeActor {
 	return actor;
 }
 
-async function currentCertificate(database: Database, claimId: string) {
-	const row = await database.models.Certificate.findOne({
-		where: { claimId, status: 'valid' },
-		order: [['issuedAt', 'DESC']]
-	});
-	if (!row) throw new NotFoundError('No such review link.');
-	return row.get({ plain: true }) as CertificateAttributes;
-}
+/** The certificate this link was made for: re-runs, comparisons and the bundle are of it. */
+const reviewedCertificate = async (database: Database, referee: RefereeActor) =>
+	(await reviewedCertificates(database, referee)).reviewed;
 
 /** Checks this link started (logged when started), oldest first. */
 async function ownCheckIds(database: Database, actor: RefereeActor): Promise<string[]> {
@@ -94,7 +92,7 @@ export function compareRuns(certified: CheckView, rerun: CheckView): Comparison 
 export async function refereeView(database: Database, actor: Actor): Promise<RefereeView> {
 	const referee = asReferee(actor);
 	const c = await requireClaim(database, referee, referee.claimId, 'read');
-	const certificate = await currentCertificate(database, c.id);
+	const { reviewed: certificate, newer } = await reviewedCertificates(database, referee);
 	const certified = await getCheck(database, referee, certificate.checkId);
 	const dataset = await getDataset(database, referee, certified.datasetId);
 	const { tables } = await datasetTables(database, referee, certified.datasetId);
@@ -114,6 +112,7 @@ export async function refereeView(database: Database, actor: Actor): Promise<Ref
 			claimedSchmidtNumber: c.claimedSchmidtNumber
 		},
 		certificate: certificateView(certificate),
+		newerCertificate: newer ? certificateView(newer) : null,
 		certified,
 		dataset,
 		tables,
@@ -131,7 +130,7 @@ export async function refereeCheck(
 	const referee = asReferee(actor);
 	if (!(await ownCheckIds(database, referee)).includes(checkId))
 		throw new NotFoundError('No such check.');
-	const certificate = await currentCertificate(database, referee.claimId);
+	const certificate = await reviewedCertificate(database, referee);
 	const certified = await getCheck(database, referee, certificate.checkId);
 	const check = await getCheck(database, referee, checkId);
 	return { ...check, comparison: compareRuns(certified, check) };
@@ -147,7 +146,7 @@ export async function startRefereeCheck(
 	const { seed: freshSeed } = refereeCheckSchema.parse(input);
 	const claim = await requireClaim(database, referee, referee.claimId, 'start-check');
 	// startCheck holds the link to one re-run at a time (check-limits.ts): 429 over it.
-	const certificate = await currentCertificate(database, referee.claimId);
+	const certificate = await reviewedCertificate(database, referee);
 	const certified = await getCheck(database, referee, certificate.checkId);
 	const { resamples, confidence, datasetId } = certified;
 	const settings = { datasetId, resamples, confidence, seed: freshSeed ?? certified.seed };
@@ -189,7 +188,7 @@ export async function cancellableReRuns(
 export async function refereeBundle(database: Database, actor: Actor) {
 	const referee = asReferee(actor);
 	await requireClaim(database, referee, referee.claimId, 'read');
-	const c = await currentCertificate(database, referee.claimId);
+	const c = await reviewedCertificate(database, referee);
 	const bytes = await readFile(absolute(c.bundlePath));
 	return { bytes, filename: `rankseal-evidence-${c.id}.zip`, contentType: 'application/zip' };
 }

@@ -12,6 +12,7 @@ import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
 import type { ReviewLinkAttributes } from '../db/models/ReviewLink';
 import { audit } from './audit';
+import { currentCertificateRow } from './review-certificate';
 import { NotFoundError } from './errors';
 import { hashSecret, newId, newSecret } from './ids';
 
@@ -105,7 +106,9 @@ export async function createReviewLink(
 				tokenHash: hash,
 				label: label ?? null,
 				expiresAt,
-				createdBy
+				createdBy,
+				// What the referee reviews, even once a newer certificate is issued.
+				certificateId: (await currentCertificateRow(database, claimId, transaction))?.id ?? null
 			},
 			{ transaction }
 		);

@@ -9,6 +9,7 @@ import * as outboxArchive from './0007-outbox-archive';
 import * as checkFairUse from './0008-check-fair-use';
 import * as mailCap from './0009-mail-cap';
 import * as checkAttempts from './0010-check-attempts';
+import * as analyses from './0011-analyses';
 import * as noLiveSecrets from './0014-no-live-secrets';
 
 export const migrations = [
@@ -22,5 +23,6 @@ export const migrations = [
 	{ name: '0008-check-fair-use', ...checkFairUse },
 	{ name: '0009-mail-cap', ...mailCap },
 	{ name: '0010-check-attempts', ...checkAttempts },
+	{ name: '0011-analyses', ...analyses },
 	{ name: '0014-no-live-secrets', ...noLiveSecrets }
 ];

@@ -29,6 +29,8 @@ export interface DatasetAttributes {
 	summary: DatasetSummary;
 	/** Heat-map tables, written at upload (migration 0004); null for rows older than that until viewed. */
 	preview?: PreviewTable[] | null;
+	/** SHA-256 of the canonical counts text (migration 0011): equal counts, one file; null until read. */
+	countsSha256?: string | null;
 	createdAt?: Date;
 	updatedAt?: Date;
 }
@@ -47,7 +49,8 @@ export function defineDataset(sequelize: Sequelize): DatasetModel {
 			format: { type: DataTypes.STRING, allowNull: false },
 			originalName: { type: DataTypes.STRING, allowNull: false },
 			summary: { type: DataTypes.JSON, allowNull: false },
-			preview: { type: DataTypes.JSON, allowNull: true }
+			preview: { type: DataTypes.JSON, allowNull: true },
+			countsSha256: { type: DataTypes.STRING(64), allowNull: true }
 		},
 		{ tableName: 'datasets', underscored: true }
 	);

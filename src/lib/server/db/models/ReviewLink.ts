@@ -11,6 +11,8 @@ export interface ReviewLinkAttributes {
 	expiresAt: Date;
 	revokedAt: Date | null;
 	createdBy: string;
+	/** The certificate current when the link was made (migration 0011): what the referee reviews. */
+	certificateId?: string | null;
 	createdAt?: Date;
 	updatedAt?: Date;
 }
@@ -33,7 +35,8 @@ export function defineReviewLink(sequelize: Sequelize): ReviewLinkModel {
 			label: { type: DataTypes.TEXT, allowNull: true },
 			expiresAt: { type: DataTypes.DATE, allowNull: false },
 			revokedAt: { type: DataTypes.DATE, allowNull: true },
-			createdBy: { type: DataTypes.STRING, allowNull: false }
+			createdBy: { type: DataTypes.STRING, allowNull: false },
+			certificateId: { type: DataTypes.STRING, allowNull: true }
 		},
 		{ tableName: 'review_links', underscored: true }
 	);

@@ -9,7 +9,13 @@ import { startCheck, listChecks } from '$lib/server/services/checks';
 import { getClaim } from '$lib/server/services/claims';
 import { addDataset, datasetTables, listDatasets } from '$lib/server/services/datasets';
 import { removeDataset } from '$lib/server/services/dataset-removal';
-import { FieldError } from '$lib/server/services/errors';
+import { countsRecord } from '$lib/server/services/counts-record';
+import { FieldError, ForbiddenError } from '$lib/server/services/errors';
+
+const membersOnly = (problem: unknown) => {
+	if (problem instanceof ForbiddenError) return null;
+	throw problem;
+};
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, params, url }) => {
@@ -23,11 +29,14 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 	]).catch(pageProblem);
 	const shown = datasets.find((d) => d.id === url.searchParams.get('dataset')) ?? datasets[0];
 	const tables = shown ? await datasetTables(database, actor, shown.id).catch(pageProblem) : null;
+	// Members see every analysis of the shown counts; editors and referees do not.
+	const record = shown ? await countsRecord(database, actor, shown.id).catch(membersOnly) : null;
 	return {
 		claim,
 		datasets,
 		preview: shown && tables ? { dataset: shown, tables: tables.tables } : null,
 		certificates,
+		countsRecord: record,
 		// The list needs only a line per check, not each full result.
 		// Files no check has used yet may still be taken back.
 		removable: claim.withdrawal

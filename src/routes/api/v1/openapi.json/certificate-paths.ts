@@ -75,7 +75,7 @@ export const certificatePaths = {
 				'403': forbidden,
 				'404': notFound,
 				'409': failure(
-					'The check is not finished or no longer re-runs, or another certificate was issued meanwhile (code conflict).'
+					"The check is not finished or no longer re-runs, is a referee's re-run from a review link, or another certificate was issued meanwhile (code conflict)."
 				)
 			}
 		}

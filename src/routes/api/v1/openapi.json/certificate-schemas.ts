@@ -24,11 +24,50 @@ export const certificateSchemas = {
 		issuedAt: timestamp,
 		certifiedSchmidtNumber: { type: 'integer' },
 		verdict: nullable({ type: 'string', enum: ['supported', 'not supported'] }),
+		analyses: nullable(
+			object(
+				{
+					total: {
+						type: 'integer',
+						description: 'Distinct analyses of these counts in the group up to this certificate.'
+					},
+					declared: {
+						type: 'boolean',
+						description: "The certified analysis is the claim's declared one."
+					},
+					exploratory: {
+						type: 'boolean',
+						description: 'Not the declared analysis alone: stated at the corrected level.'
+					},
+					nominalConfidence: { type: 'number', description: 'The level the check ran at.' },
+					statedConfidence: {
+						type: 'number',
+						description:
+							'The level the certificate states: 1 − (1 − nominal)/total when exploratory.'
+					},
+					list: { type: 'array', items: { $ref: '#/components/schemas/Analysis' } }
+				},
+				'Every distinct analysis of the counts up to this certificate (docs/statistics.md §8); null for certificates made before it was recorded.'
+			)
+		),
 		urls: object({
 			pdf: text,
 			bundle: text,
 			verify: { type: 'string', description: 'The public verification page.' }
 		})
+	}),
+	Analysis: object({
+		method: text,
+		bases: { type: 'array', items: { type: 'integer' } },
+		fourier: { type: 'string', enum: ['cyclic', 'field'] },
+		confidence: { type: 'number' },
+		resamples: { type: 'integer' },
+		subtractAccidentals: { type: 'boolean' },
+		seed: {
+			anyOf: [{ type: 'integer' }, { type: 'string', enum: ['derived'] }],
+			description: "'derived' (from the counts and the settings) or the seed chosen."
+		},
+		firstRunAt: timestamp
 	}),
 	SigningKeys: object({
 		keys: {

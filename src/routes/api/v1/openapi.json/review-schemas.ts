@@ -78,10 +78,26 @@ export const reviewSchemas = {
 	},
 	Review: {
 		type: 'object',
-		required: ['claim', 'certificate', 'certified', 'dataset', 'tables', 'checks', 'report'],
+		required: [
+			'claim',
+			'certificate',
+			'newerCertificate',
+			'certified',
+			'dataset',
+			'tables',
+			'checks',
+			'report'
+		],
 		properties: {
 			claim: { type: 'object' },
-			certificate: { type: 'object' },
+			certificate: {
+				...ref('Certificate'),
+				description: 'The certificate under review: the one current when the link was made.'
+			},
+			newerCertificate: {
+				...nullable(ref('Certificate')),
+				description: 'A certificate issued for the claim since the link was made, if any.'
+			},
 			certified: ref('Check'),
 			dataset: { type: 'object' },
 			tables: { type: 'array', items: { type: 'object' } },

@@ -240,7 +240,13 @@ export const schemas = {
 				exclusiveMaximum: CONFIDENCE.below,
 				default: DEFAULTS.confidence
 			},
-			seed: { ...whole, minimum: 1, maximum: 4294967295, default: DEFAULTS.seed },
+			seed: {
+				...whole,
+				minimum: 1,
+				maximum: 4294967295,
+				description:
+					'Omitted: derived from the SHA-256 of the canonical counts and the settings (the same analysis gives the same numbers). A chosen seed other than that one counts as another analysis of these counts.'
+			},
 			subtractAccidentals: {
 				type: 'boolean',
 				default: false,
@@ -283,6 +289,11 @@ export const schemas = {
 			cancelledBy: {
 				...nullable(text),
 				description: 'Who cancelled it: the account’s name, or "the referee" for a review link.'
+			},
+			byReferee: {
+				type: 'boolean',
+				description:
+					"A referee's re-run from a review link: never listed among the authors' checks, never certified."
 			}
 		}
 	},

@@ -31,7 +31,7 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 		dataset: { id: dataset.id, originalName: dataset.originalName, sha256: dataset.sha256 },
 		command: check.result ? reproduceCommand(check.result, dataset.originalName) : null,
 		certificates: certificates.filter((c) => c.checkId === check.id),
-		mayIssue: mayIssue && check.status === 'done',
+		mayIssue: mayIssue && check.status === 'done' && !check.byReferee,
 		mayCancel
 	};
 };
