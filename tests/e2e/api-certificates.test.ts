@@ -95,8 +95,15 @@ describe('certificates in the API', () => {
 		const zip = path.join(folder, 'bundle.zip');
 		writeFileSync(zip, bytes);
 		spawnSync('unzip', ['-q', '-o', zip, '-d', folder]);
-		const run = spawnSync(process.execPath, ['verify.mjs'], {
-			cwd: path.join(folder, `rankseal-${id}`),
+		const cwd = path.join(folder, `rankseal-${id}`);
+		const alone = spawnSync(process.execPath, ['verify.mjs'], { cwd, encoding: 'utf8' });
+		// Without a key list from outside the bundle: valid, but the key is not anchored (exit 3).
+		expect(alone.status, alone.stdout + alone.stderr).toBe(3);
+		expect(alone.stdout).toMatch(/^NOT ANCHORED/m);
+		const keys = path.join(folder, 'keys.json');
+		writeFileSync(keys, await (await call('/api/v1/signing-keys', { token: null })).text());
+		const run = spawnSync(process.execPath, ['verify.mjs', '--keys', keys], {
+			cwd,
 			encoding: 'utf8'
 		});
 		expect(run.status, run.stdout + run.stderr).toBe(0);

@@ -33,14 +33,21 @@ export interface VerificationReport {
 	certificateId: string | null;
 	fingerprint: string | null;
 	keyId: string | null;
+	/**
+	 * True when the signing key was found on a list the caller gave (a saved copy of the service's
+	 * list, a pinned fingerprint, or the service's own keys); false when only the bundle's own
+	 * signing-keys.json vouches for it, which anyone who re-signs a bundle can write.
+	 */
+	anchored: boolean;
 	/** The items that passed, in the order checked. */
 	passed: string[];
 }
 
 export interface VerifyOptions {
 	/**
-	 * Key ids the service has published (a saved copy of its list); without it, the list the
-	 * bundle carries (signing-keys.json). A key outside the list is refused.
+	 * Key ids the service has published (a saved copy of its list, or one pinned fingerprint);
+	 * without it, the list the bundle carries (signing-keys.json), and the report says the key is
+	 * not anchored. A key outside the list is refused.
 	 */
 	trustedKeyIds?: string[];
 }
@@ -204,6 +211,7 @@ export function verifyEvidence(
 		certificateId: s.manifest?.certificateId ?? s.contents?.certificateId ?? null,
 		fingerprint: s.fingerprint ?? s.contents?.fingerprint ?? null,
 		keyId: s.keyId ?? null,
+		anchored: options.trustedKeyIds !== undefined,
 		passed: s.passed
 	});
 	try {

@@ -132,6 +132,7 @@ export async function checkBundle(
 			certificateId: null,
 			fingerprint: null,
 			keyId: null,
+			anchored: false,
 			passed: []
 		};
 		return { report, record: { status: 'unknown' } };
