@@ -3,6 +3,7 @@
  * and the exit status for each.
  */
 import { readFileSync } from 'node:fs';
+import { describeCheckpoint } from '../lib/evidence/checkpoint';
 import { BUNDLE_FILES, keyIdsOfList, type EvidenceFiles } from '../lib/evidence/layout';
 import type { VerificationReport } from '../lib/evidence/verify';
 
@@ -35,6 +36,7 @@ export function reportLines(report: VerificationReport, keysUrl: string | null =
 		`fingerprint  ${report.fingerprint ?? '(unknown)'}`,
 		`signing key  ${report.keyId ?? '(unknown)'}`
 	];
+	if (report.checkpoint) lines.push(`checkpoint   ${describeCheckpoint(report.checkpoint)}`);
 	const checked = `${report.passed.length} items checked`;
 	if (!report.valid) lines.push(`FAIL at ${report.failedItem}: ${report.message}.`);
 	else if (report.anchored) lines.push(`PASS: ${report.message} (${checked}).`);

@@ -6,6 +6,7 @@
  */
 import { certify, ENGINE_VERSION, parseCounts } from '../certify';
 import { canonicalJson, jsonRoundTrip, parseCanonical } from './canonical';
+import { checkpointSigned, parseCheckpoint, type LedgerCheckpoint } from './checkpoint';
 import { firstDifference } from './compare';
 import { sha256Hex } from './hash';
 import {
@@ -39,6 +40,8 @@ export interface VerificationReport {
 	 * signing-keys.json vouches for it, which anyone who re-signs a bundle can write.
 	 */
 	anchored: boolean;
+	/** The ledger checkpoint the bundle carries, signed by its key; null in older bundles. */
+	checkpoint: LedgerCheckpoint | null;
 	/** The items that passed, in the order checked. */
 	passed: string[];
 }
@@ -90,6 +93,7 @@ interface State {
 	manifestText?: string;
 	manifest?: EvidenceManifest;
 	fingerprint?: string;
+	checkpoint?: LedgerCheckpoint;
 }
 
 function checkContents(s: State) {
@@ -143,6 +147,17 @@ function checkManifest(s: State) {
 	if (!signature || !verifyText(s.manifestText, signature, s.publicKey!))
 		throw new Failure(BUNDLE_FILES.signature, 'the manifest is not signed by this key');
 	s.passed.push(BUNDLE_FILES.signature);
+}
+
+/** The ledger checkpoint, when the signed file list names one: signed by the bundle's key. */
+function checkCheckpoint(s: State) {
+	const name = BUNDLE_FILES.checkpoint;
+	if (!s.contents!.files[name]) return;
+	const checkpoint = parseCheckpoint(text(s.files, name));
+	if (!checkpoint || checkpoint.keyId !== s.keyId || !checkpointSigned(checkpoint, s.publicKey!))
+		throw new Failure(name, 'not a ledger checkpoint signed by the bundle’s key');
+	s.checkpoint = checkpoint;
+	s.passed.push(name);
 }
 
 function checkCounts(s: State) {
@@ -212,11 +227,13 @@ export function verifyEvidence(
 		fingerprint: s.fingerprint ?? s.contents?.fingerprint ?? null,
 		keyId: s.keyId ?? null,
 		anchored: options.trustedKeyIds !== undefined,
+		checkpoint: s.checkpoint ?? null,
 		passed: s.passed
 	});
 	try {
 		checkContents(s);
 		checkManifest(s);
+		checkCheckpoint(s);
 		checkCounts(s);
 		checkRerun(s);
 	} catch (error) {

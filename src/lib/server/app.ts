@@ -12,6 +12,7 @@ import { abortCheckRunner, startCheckRunner } from './checks/registry';
 import { startMailRunner, type MailRunner } from './mail-runner';
 import { serviceKey } from './evidence/keys';
 import { sweepOrphanFiles } from './services/certificate-files';
+import { checkLedgerAtStart } from './services/ledger-alarm';
 import { sweepUploadFiles } from './services/upload-files';
 import { seedDemo } from './demo/seed';
 
@@ -44,6 +45,8 @@ export function app(): Promise<AppServices> {
 		// The signing key exists from the first start; files of an upload or issue cut short go.
 		serviceKey();
 		await sweepFiles(database);
+		// A ledger shorter than the last checkpoint published (an older database put back) is logged.
+		await checkLedgerAtStart(database);
 		const lucia = createLucia(database, !dev && config().origin.startsWith('https:'));
 		const mail = await startMail(database);
 		// Checks left queued or running by an earlier process resume now.

@@ -11,6 +11,7 @@ import { audit } from './audit';
 import { certificateView, type CertificateView } from './certificate-views';
 import { ConflictError, FieldError, NotFoundError } from './errors';
 import { appendLedger } from './ledger';
+import { publishCheckpoint } from './ledger-checkpoint';
 
 export const WITHDRAW_REASON = { min: 3, max: 500 };
 
@@ -71,6 +72,7 @@ export async function withdrawCertificate(
 			transaction
 		)
 	);
+	await publishCheckpoint(database);
 	await row.reload();
 	return certificateView(row.get({ plain: true }));
 }

@@ -23,6 +23,7 @@ import { datasetFilePath } from './datasets';
 import { ConflictError, NotFoundError } from './errors';
 import { newId } from './ids';
 import { appendLedger } from './ledger';
+import { publishCheckpoint } from './ledger-checkpoint';
 
 export type { CertificateView } from './certificate-views';
 
@@ -107,7 +108,9 @@ async function prepare(
 	const supersedes = await currentCertificate(database, claimId);
 	const input = evidenceInput(claim, source, id, supersedes);
 	const urls = evidenceUrls(config().origin, id);
-	const evidence = await makeEvidence(input, key, urls, { keys: publishedKeys() });
+	// The ledger as it stands before this issue: the bundle cannot hold a hash of its own entry.
+	const checkpoint = await publishCheckpoint(database, key);
+	const evidence = await makeEvidence(input, key, urls, { keys: publishedKeys() }, checkpoint);
 	const verdict = selfCheck(evidence);
 	if (!verdict.valid)
 		throw new ConflictError(
@@ -178,6 +181,7 @@ export async function issueCertificate(
 			]);
 			return stored;
 		});
+		await publishCheckpoint(database);
 		return certificateView(row);
 	} catch (error) {
 		await removeFiles(placed);
