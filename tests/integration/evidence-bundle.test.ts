@@ -262,7 +262,8 @@ describe('keys', () => {
 			(await finishedCheck(world, 22)).id
 		);
 		expect(next.keyId).toBe(rotated.id);
-		expect(await verifyLedger(world.database)).toMatchObject({ valid: true, entries: 3 });
+		// issue, the rotated key's introduction (signed with the key before it), issue, supersede.
+		expect(await verifyLedger(world.database)).toMatchObject({ valid: true, entries: 4 });
 	});
 });
 

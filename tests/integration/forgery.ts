@@ -1,10 +1,11 @@
 /**
  * An outside forger's bundle: a genuine bundle with one claim field changed, the manifest and the
  * file list re-signed with the forger's own Ed25519 key, and that key put in public-key.txt and
- * in the bundle's own signing-keys.json. Every hash and signature inside agrees; only a key list
+ * in the bundle's own signing-keys.json (and its ledger checkpoint re-signed with it). Every hash and signature inside agrees; only a key list
  * from outside the bundle can tell.
  */
 import { canonicalJson } from '../../src/lib/evidence/canonical';
+import { parseCheckpoint, signCheckpoint } from '../../src/lib/evidence/checkpoint';
 import { sha256Hex } from '../../src/lib/evidence/hash';
 import { BUNDLE_FILES, contentsText, type EvidenceFiles } from '../../src/lib/evidence/layout';
 import type { EvidenceManifest } from '../../src/lib/evidence/manifest';
@@ -38,6 +39,13 @@ export function forgeBundle(
 		[BUNDLE_FILES.publicKey]: utf8(forger.publicKey + '\n'),
 		[BUNDLE_FILES.signingKeys]: utf8(JSON.stringify(keys, null, '\t') + '\n')
 	};
+	// The ledger checkpoint, if the bundle has one, signed again by the forger too.
+	const checkpoint = files[BUNDLE_FILES.checkpoint];
+	if (checkpoint) {
+		const { entries, head, at } = parseCheckpoint(new TextDecoder().decode(checkpoint))!;
+		const forgedCheckpoint = signCheckpoint({ entries, head, at }, forger);
+		listed[BUNDLE_FILES.checkpoint] = utf8(JSON.stringify(forgedCheckpoint) + '\n');
+	}
 	const list = contentsText(manifest.certificateId, sha256Hex(forged), listed);
 	return {
 		forger,

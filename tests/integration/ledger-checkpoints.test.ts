@@ -143,7 +143,7 @@ describe('the newest entry rewritten and re-signed with the service key', () => 
 		} finally {
 			await sql(
 				'UPDATE ledger_entries SET payload = :payload, hash = :hash, signature = :signature WHERE seq = 3',
-				row
+				{ ...row }
 			);
 			await sql('UPDATE certificates SET issued_by = :by WHERE id = :id', {
 				id: second.id,
