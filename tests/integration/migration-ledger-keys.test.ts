@@ -16,7 +16,7 @@ import { evidenceWorld, finishedCheck, type EvidenceWorld } from './evidence-wor
 vi.setConfig({ testTimeout: 900_000, hookTimeout: 600_000 });
 
 let world: EvidenceWorld;
-const select = <T>(sql: string) =>
+const select = <T extends object = object>(sql: string) =>
 	world.database.sequelize.query<T>(sql, { type: QueryTypes.SELECT });
 const schema = async () => ({
 	columns: await select<{ name: string; notnull: number; pk: number }>(
