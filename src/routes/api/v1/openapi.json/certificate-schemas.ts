@@ -62,8 +62,13 @@ export const certificateSchemas = {
 			type: 'array',
 			items: object({
 				seq: { type: 'integer' },
-				event: { type: 'string', enum: ['issue', 'supersede', 'withdraw'] },
-				certificateId: text,
+				event: {
+					type: 'string',
+					enum: ['issue', 'supersede', 'withdraw', 'key'],
+					description:
+						'`key`: a new signing key, introduced by an entry signed with the key before it.'
+				},
+				certificateId: nullable(text),
 				at: timestamp,
 				prevHash: hex64,
 				hash: hex64,
