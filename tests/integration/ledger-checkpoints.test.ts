@@ -21,6 +21,7 @@ import { withdrawCertificate } from '../../src/lib/server/services/certificate-w
 import { issueCertificate, type CertificateView } from '../../src/lib/server/services/certificates';
 import { certificateFile, checkBundle } from '../../src/lib/server/services/certificate-reads';
 import { publishCheckpoint } from '../../src/lib/server/services/ledger-checkpoint';
+import { sendNotice } from '../../src/lib/server/services/notices';
 import { verifyLedger } from '../../src/lib/server/services/ledger-verify';
 import { evidenceWorld, finishedCheck, type EvidenceWorld } from './evidence-world';
 
@@ -91,6 +92,27 @@ describe('checkpoints as issued', () => {
 		expect(report).toMatchObject({ valid: true, checkpoint: { entries: 2 } });
 		expect(ledger).toEqual({ extends: true, where: null, problem: null });
 		expect(await newestMailCheckpoint()).toMatchObject({ entries: 3 });
+	});
+
+	it('end every sharing and review notice too, in its text and its HTML', async () => {
+		const words = {
+			sharer: 'Ada',
+			email: 'ed@journal.test',
+			manuscript: 'M-1',
+			journal: 'J',
+			claim: 'C'
+		};
+		const notice = {
+			template: 'notice-claim-shared' as const,
+			to: 'ed@journal.test',
+			link: 'https://rankseal.test/x',
+			words
+		};
+		const id = await sendNotice({ database: world.database }, notice);
+		const mail = (await world.database.models.OutboxMail.findByPk(id))!.get({ plain: true });
+		const line = mail.text.trimEnd().split('\n').at(-1)!;
+		expect(parseCheckpoint(line)).toMatchObject({ entries: 3 });
+		expect(mail.html).toContain(line.replaceAll('"', '&quot;'));
 	});
 
 	it('are extended by the ledger as it stands: ledger:verify --checkpoint exits 0', () => {
