@@ -20,7 +20,7 @@ import {
 } from '../../src/lib/server/evidence/keys';
 import { bundleVerifier } from '../../src/lib/server/evidence/verifier-file';
 import { issueCertificate } from '../../src/lib/server/services/certificates';
-import { introductionText } from '../../src/lib/server/services/key-introductions';
+import { introduceKeys, introductionText } from '../../src/lib/server/services/key-introductions';
 import { appendEntry } from '../../src/lib/server/services/ledger-append';
 import { verifyLedger } from '../../src/lib/server/services/ledger-verify';
 import { evidenceWorld, finishedCheck, type EvidenceWorld } from './evidence-world';
@@ -205,5 +205,43 @@ describe('a broken chain of keys is named by ledger:verify', () => {
 			problem: `signed with key ${rotated.id}, which no earlier entry introduces`
 		});
 		await sql('DELETE FROM ledger_entries WHERE seq = 7');
+	});
+});
+
+describe('a ledger written before key entries existed, with a rotation', () => {
+	it('fails until the keys are introduced (as app start does), then passes', async () => {
+		const old = await evidenceWorld();
+		try {
+			process.env.DATABASE_PATH = path.join(old.ctx.folder, 'rankseal.sqlite');
+			const check = await finishedCheck(old, 63);
+			const cert = await issueCertificate(old.database, old.author, old.claimId, check.id);
+			const rotated = rotateServiceKey();
+			// The way the ledger was written before: an entry signed with the new key, no introduction.
+			const event = {
+				event: 'withdraw' as const,
+				certificateId: cert.id,
+				details: { reason: 'old' }
+			};
+			const key = storedSigningKey(rotated.id);
+			await writeTransaction(old.database, (t) => appendEntry(old.database, event, key, t));
+			await old.database.models.Certificate.update(
+				{ status: 'withdrawn' },
+				{ where: { id: cert.id } }
+			);
+			expect(await verifyLedger(old.database)).toMatchObject({
+				valid: false,
+				firstBroken: 'ledger entry 2',
+				problem: `signed with key ${rotated.id}, which the ledger never introduces`
+			});
+			const introduced = await writeTransaction(old.database, (t) =>
+				introduceKeys(old.database, t)
+			);
+			expect(introduced.map((k) => k.id)).toEqual([rotated.id]);
+			expect(await verifyLedger(old.database)).toMatchObject({ valid: true, entries: 3 });
+		} finally {
+			process.env.DATABASE_PATH = path.join(world.ctx.folder, 'rankseal.sqlite');
+			process.env.RANKSEAL_DATA_DIR = world.ctx.folder;
+			await old.ctx.close();
+		}
 	});
 });
