@@ -3,12 +3,15 @@
  *   RANKSEAL_DATA_DIR=/new/data npm run --silent restore -- DIR
  * Checks every file of backup-manifest.json against its SHA-256 first and refuses a folder with
  * a missing, changed or unlisted file; copies the files, then the database last (a data folder
- * without its database is an unfinished restore). Refuses a data folder that is not empty.
+ * without its database is an unfinished restore). Refuses a data folder that is not empty, except
+ * for the old folder's published-checkpoint.json, copied in first so that the first start can say
+ * whether the backup's ledger reaches what the service had published.
  * Exit 0 done, 1 not.
  */
 import { chmod, copyFile, mkdir, readdir, readFile, rename } from 'node:fs/promises';
 import path from 'node:path';
 import { config } from '../lib/server/config';
+import { CHECKPOINT_MEMORY } from '../lib/server/services/checkpoint-memory';
 import {
 	DATABASE_NAME,
 	MANIFEST_FORMAT,
@@ -44,9 +47,10 @@ async function checkFolder(folder: string, manifest: BackupManifest): Promise<vo
 	}
 }
 
+/** Empty, absent, or holding only the last published checkpoint copied from the old folder. */
 async function emptyOrAbsent(folder: string): Promise<boolean> {
 	return readdir(folder).then(
-		(names) => names.length === 0,
+		(names) => names.every((name) => name === CHECKPOINT_MEMORY),
 		() => true
 	);
 }

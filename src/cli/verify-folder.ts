@@ -1,7 +1,9 @@
 /**
  * The standalone verifier carried in every evidence bundle (bundled into verify.mjs):
- *   node verify.mjs [FOLDER] [--keys keys.json]
- * checks the unzipped bundle in FOLDER (default: the current folder). Exit 0 valid, 1 not.
+ *   node verify.mjs [FOLDER] [--keys keys.json | --key-fingerprint HEX]
+ * checks the unzipped bundle in FOLDER (default: the current folder). Exit 0 valid with an
+ * anchored key, 1 not valid, 2 a usage mistake, 3 valid but the key is vouched for only by the
+ * bundle itself.
  */
 import { existsSync, readdirSync, readFileSync, statSync } from 'node:fs';
 import path from 'node:path';
@@ -9,7 +11,15 @@ import { fileURLToPath } from 'node:url';
 import { parseArgs } from 'node:util';
 import type { EvidenceFiles } from '../lib/evidence/layout';
 import { verifyEvidence } from '../lib/evidence/verify';
-import { reportLines, trustedKeyIds } from './verify-report';
+import {
+	EXIT,
+	exitStatus,
+	keysUrlOf,
+	reportLines,
+	trustedKeyIds,
+	UsageError,
+	USAGE_OPTIONS
+} from './verify-report';
 
 /**
  * The bundle's files in the folder. Left out: hidden files (the desktop's own, like .DS_Store)
@@ -28,21 +38,28 @@ function readFolder(folder: string, keysFile: string | undefined): EvidenceFiles
 
 function main(): number {
 	const { values, positionals } = parseArgs({
-		options: { keys: { type: 'string' } },
+		options: { keys: { type: 'string' }, 'key-fingerprint': { type: 'string' } },
 		allowPositionals: true
 	});
+	const trusted = trustedKeyIds(values);
 	const here = path.dirname(fileURLToPath(import.meta.url));
 	const folder = positionals[0] ?? (existsSync('manifest.json') ? '.' : here);
-	const report = verifyEvidence(readFolder(folder, values.keys), {
-		trustedKeyIds: trustedKeyIds(values.keys)
-	});
-	console.log(reportLines(report).join('\n'));
-	return report.valid ? 0 : 1;
+	const files = readFolder(folder, values.keys);
+	const report = verifyEvidence(files, { trustedKeyIds: trusted });
+	console.log(reportLines(report, keysUrlOf(files)).join('\n'));
+	return exitStatus(report);
 }
 
 try {
 	process.exitCode = main();
 } catch (error) {
-	console.log(`FAIL: ${(error as Error).message}`);
-	process.exitCode = 1;
+	const usage =
+		error instanceof UsageError || (error as { code?: string }).code?.startsWith('ERR_PARSE_ARGS');
+	if (usage) {
+		console.log(`usage: node verify.mjs [FOLDER] ${USAGE_OPTIONS}\n${(error as Error).message}`);
+		process.exitCode = EXIT.usage;
+	} else {
+		console.log(`FAIL: ${(error as Error).message}`);
+		process.exitCode = EXIT.fail;
+	}
 }

@@ -4,7 +4,7 @@
  * and the public signing keys, ledger and verification page.
  */
 import { spawnSync } from 'node:child_process';
-import { createHash } from 'node:crypto';
+import { createHash, createPublicKey, verify } from 'node:crypto';
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
@@ -98,8 +98,15 @@ describe('certificates in the API', () => {
 		const zip = path.join(folder, 'bundle.zip');
 		writeFileSync(zip, bytes);
 		spawnSync('unzip', ['-q', '-o', zip, '-d', folder]);
-		const run = spawnSync(process.execPath, ['verify.mjs'], {
-			cwd: path.join(folder, `rankseal-${id}`),
+		const cwd = path.join(folder, `rankseal-${id}`);
+		const alone = spawnSync(process.execPath, ['verify.mjs'], { cwd, encoding: 'utf8' });
+		// Without a key list from outside the bundle: valid, but the key is not anchored (exit 3).
+		expect(alone.status, alone.stdout + alone.stderr).toBe(3);
+		expect(alone.stdout).toMatch(/^NOT ANCHORED/m);
+		const keys = path.join(folder, 'keys.json');
+		writeFileSync(keys, await (await call('/api/v1/signing-keys', { token: null })).text());
+		const run = spawnSync(process.execPath, ['verify.mjs', '--keys', keys], {
+			cwd,
 			encoding: 'utf8'
 		});
 		expect(run.status, run.stdout + run.stderr).toBe(0);
@@ -176,5 +183,30 @@ describe('certificates in the API', () => {
 		const bad = await call('/api/v1/ledger?pageSize=0', { token: null });
 		expect(bad.status).toBe(400);
 		expect((await bad.json()).error.code).toBe('bad_input');
+	});
+
+	it('signs a checkpoint of the ledger without sign-in: entry count, head hash, time', async () => {
+		const checkpoint = await (await call('/api/v1/ledger/checkpoint', { token: null })).json();
+		const ledger = await (await call('/api/v1/ledger?pageSize=200', { token: null })).json();
+		expect(checkpoint).toMatchObject({
+			format: 'rankseal-checkpoint/1',
+			entries: ledger.total,
+			head: ledger.items.at(-1).hash
+		});
+		const { keys } = await (await call('/api/v1/signing-keys', { token: null })).json();
+		const key = keys.find((k: { id: string }) => k.id === checkpoint.keyId);
+		// Checked with Node's own Ed25519 (RFC 8032), the key wrapped as SPKI DER (RFC 8410 §4).
+		const spki = Buffer.concat([
+			Buffer.from('302a300506032b6570032100', 'hex'),
+			Buffer.from(key.publicKey, 'hex')
+		]);
+		const publicKey = createPublicKey({ key: spki, format: 'der', type: 'spki' });
+		const { at, entries, format, head, keyId } = checkpoint;
+		// These five plain values in sorted order are their RFC 8785 form.
+		const signed = Buffer.from(JSON.stringify({ at, entries, format, head, keyId }));
+		const signature = Buffer.from(checkpoint.signature, 'hex');
+		expect(verify(null, signed, publicKey, signature)).toBe(true);
+		const shifted = JSON.stringify({ at, entries: entries + 1, format, head, keyId });
+		expect(verify(null, Buffer.from(shifted), publicKey, signature)).toBe(false);
 	});
 });

@@ -36,6 +36,7 @@ GET /shared/[token]                             200  200  200  200  200  200  20
 GET /api/v1/openapi.json                        200  200  200  200  200  200  200  200  200  200  200  200  200
 GET /api/v1/signing-keys                        200  200  200  200  200  200  200  200  200  200  200  200  200
 GET /api/v1/ledger                              200  200  200  200  200  200  200  200  200  200  200  200  200
+GET /api/v1/ledger/checkpoint                   200  200  200  200  200  200  200  200  200  200  200  200  200
 # signed-in pages
 GET /account                                    L    200  200  200  200  200  L    L    L    L    L    L    200
 GET /group                                      L    200  200  200  200  200  L    L    L    L    L    L    200

@@ -64,6 +64,10 @@ describe('certificates in Chromium', () => {
 		const record = page.getByTestId('seal-record');
 		await expect(record.getAttribute('data-status')).resolves.toBe('valid');
 		await expect(page.getByTestId('seal-id').textContent()).resolves.toBe(certificateId);
+		// The signing key's fingerprint, as the published list names it (issue 15 part 4).
+		const [key] = (await (await fetch(`${app.origin}/api/v1/signing-keys`)).json()).keys;
+		await expect(page.getByTestId('bundle-key').textContent()).resolves.toContain(key.id);
+		await expect(page.getByTestId('seal-key').textContent()).resolves.toContain(key.id);
 
 		await page.goto(`${app.origin}/seal`);
 		await page.getByTestId('seal-lookup').locator('input[name=q]').fill(certificateId);

@@ -27,6 +27,7 @@ describe('database', () => {
 			'0009-mail-cap',
 			'0010-check-attempts',
 			'0011-analyses',
+			'0012-ledger-key-entries',
 			'0014-no-live-secrets'
 		]);
 	});

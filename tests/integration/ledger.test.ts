@@ -112,7 +112,7 @@ describe('ledger verification', () => {
 
 	it('finds a re-hashed entry whose signature no longer fits, and a deleted entry', async () => {
 		const row = (await world.database.models.LedgerEntry.findByPk(2))!.get({ plain: true });
-		const forged = row.payload.replace(row.certificateId, first.id);
+		const forged = row.payload.replace(row.certificateId!, first.id);
 		const { createHash } = await import('node:crypto');
 		const hash = createHash('sha256').update(forged).digest('hex');
 		await detects(

@@ -196,18 +196,19 @@ describe('accounts, tokens, the outbox and the archive', () => {
 		'manage-tokens',
 		'manage-accounts',
 		'read-outbox',
-		'read-archive'
+		'read-archive',
+		'read-service-health'
 	];
 	// read-archive: a group's archive, so only for someone in a group (a token as its owner).
 	const table: Record<string, Decision[]> = {
-		anonymous: [D, D, D, D, D, D, D, D],
-		lead: [A, A, A, A, A, D, D, A],
-		author: [A, A, A, A, A, D, D, A],
-		leadToken: [D, D, D, D, D, D, D, A],
-		editor: [A, A, A, A, A, D, D, D],
-		admin: [A, A, A, D, A, A, A, D],
-		loner: [A, A, A, D, A, D, D, D],
-		referee: [D, D, D, D, D, D, D, D]
+		anonymous: [D, D, D, D, D, D, D, D, D],
+		lead: [A, A, A, A, A, D, D, A, D],
+		author: [A, A, A, A, A, D, D, A, D],
+		leadToken: [D, D, D, D, D, D, D, A, D],
+		editor: [A, A, A, A, A, D, D, D, D],
+		admin: [A, A, A, D, A, A, A, D, A],
+		loner: [A, A, A, D, A, D, D, D, D],
+		referee: [D, D, D, D, D, D, D, D, D]
 	};
 	for (const [who, expected] of Object.entries(table)) {
 		it(`${who}: ${expected.join(' ')}`, async () => {

@@ -8,6 +8,8 @@ export const BUNDLE_FILES = {
 	publicKey: 'public-key.txt',
 	/** The service's published key list when the bundle was made (as its public endpoint gives it). */
 	signingKeys: 'signing-keys.json',
+	/** The ledger's signed checkpoint when the bundle was made (bundles since issue 15 part 5). */
+	checkpoint: 'checkpoint.json',
 	contents: 'contents.json',
 	contentsSignature: 'contents.sig',
 	canonicalCounts: 'counts-canonical.json',

@@ -7,6 +7,7 @@
 import { certify, ENGINE_VERSION, parseCounts } from '../certify';
 import { analysesProblem } from './analyses';
 import { canonicalJson, jsonRoundTrip, parseCanonical } from './canonical';
+import { checkpointSigned, parseCheckpoint, type LedgerCheckpoint } from './checkpoint';
 import { firstDifference } from './compare';
 import { sha256Hex } from './hash';
 import {
@@ -34,14 +35,23 @@ export interface VerificationReport {
 	certificateId: string | null;
 	fingerprint: string | null;
 	keyId: string | null;
+	/**
+	 * True when the signing key was found on a list the caller gave (a saved copy of the service's
+	 * list, a pinned fingerprint, or the service's own keys); false when only the bundle's own
+	 * signing-keys.json vouches for it, which anyone who re-signs a bundle can write.
+	 */
+	anchored: boolean;
+	/** The ledger checkpoint the bundle carries, signed by its key; null in older bundles. */
+	checkpoint: LedgerCheckpoint | null;
 	/** The items that passed, in the order checked. */
 	passed: string[];
 }
 
 export interface VerifyOptions {
 	/**
-	 * Key ids the service has published (a saved copy of its list); without it, the list the
-	 * bundle carries (signing-keys.json). A key outside the list is refused.
+	 * Key ids the service has published (a saved copy of its list, or one pinned fingerprint);
+	 * without it, the list the bundle carries (signing-keys.json), and the report says the key is
+	 * not anchored. A key outside the list is refused.
 	 */
 	trustedKeyIds?: string[];
 }
@@ -84,6 +94,7 @@ interface State {
 	manifestText?: string;
 	manifest?: EvidenceManifest;
 	fingerprint?: string;
+	checkpoint?: LedgerCheckpoint;
 }
 
 function checkContents(s: State) {
@@ -137,6 +148,17 @@ function checkManifest(s: State) {
 	if (!signature || !verifyText(s.manifestText, signature, s.publicKey!))
 		throw new Failure(BUNDLE_FILES.signature, 'the manifest is not signed by this key');
 	s.passed.push(BUNDLE_FILES.signature);
+}
+
+/** The ledger checkpoint, when the signed file list names one: signed by the bundle's key. */
+function checkCheckpoint(s: State) {
+	const name = BUNDLE_FILES.checkpoint;
+	if (!s.contents!.files[name]) return;
+	const checkpoint = parseCheckpoint(text(s.files, name));
+	if (!checkpoint || checkpoint.keyId !== s.keyId || !checkpointSigned(checkpoint, s.publicKey!))
+		throw new Failure(name, 'not a ledger checkpoint signed by the bundle’s key');
+	s.checkpoint = checkpoint;
+	s.passed.push(name);
 }
 
 function checkCounts(s: State) {
@@ -214,11 +236,14 @@ export function verifyEvidence(
 		certificateId: s.manifest?.certificateId ?? s.contents?.certificateId ?? null,
 		fingerprint: s.fingerprint ?? s.contents?.fingerprint ?? null,
 		keyId: s.keyId ?? null,
+		anchored: options.trustedKeyIds !== undefined,
+		checkpoint: s.checkpoint ?? null,
 		passed: s.passed
 	});
 	try {
 		checkContents(s);
 		checkManifest(s);
+		checkCheckpoint(s);
 		checkCounts(s);
 		checkAnalyses(s);
 		checkRerun(s);

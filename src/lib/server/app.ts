@@ -5,13 +5,15 @@
 import { dev } from '$app/environment';
 import { createLucia, type AppLucia } from './auth';
 import { config } from './config';
-import { closeDb, db, type Database } from './db';
+import { closeDb, db, writeTransaction, type Database } from './db';
 import { catcherTransport, createMailer, type Mailer } from './mail';
 import { startMailCatcher, type MailCatcher } from './mail-catcher';
 import { abortCheckRunner, startCheckRunner } from './checks/registry';
 import { startMailRunner, type MailRunner } from './mail-runner';
 import { serviceKey } from './evidence/keys';
 import { sweepOrphanFiles } from './services/certificate-files';
+import { checkLedgerAtStart } from './services/ledger-alarm';
+import { introduceKeys } from './services/key-introductions';
 import { sweepUploadFiles } from './services/upload-files';
 import { seedDemo } from './demo/seed';
 
@@ -44,6 +46,10 @@ export function app(): Promise<AppServices> {
 		// The signing key exists from the first start; files of an upload or issue cut short go.
 		serviceKey();
 		await sweepFiles(database);
+		// A ledger shorter than the last checkpoint published (an older database put back) is logged.
+		await checkLedgerAtStart(database);
+		// A key rotated while the ledger could not be written is introduced now.
+		await writeTransaction(database, (transaction) => introduceKeys(database, transaction));
 		const lucia = createLucia(database, !dev && config().origin.startsWith('https:'));
 		const mail = await startMail(database);
 		// Checks left queued or running by an earlier process resume now.

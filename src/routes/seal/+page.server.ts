@@ -37,8 +37,9 @@ export const actions: Actions = {
 		if (file.size > MAX_BUNDLE_BYTES)
 			return refuse(413, `The file is larger than ${MAX_BUNDLE_BYTES} bytes; no bundle is.`);
 		const { database } = await app();
-		const { report, record } = await checkBundle(database, Buffer.from(await file.arrayBuffer()));
-		const checked = { fileName: file.name, report, record };
+		const bytes = Buffer.from(await file.arrayBuffer());
+		const { report, record, ledger } = await checkBundle(database, bytes);
+		const checked = { fileName: file.name, report, record, ledger };
 		return { action: 'bundle', errors: {} as Record<string, string>, checked };
 	}
 };

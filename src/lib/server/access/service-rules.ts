@@ -18,6 +18,7 @@ export type ServiceAction =
 	| 'manage-tokens'
 	| 'manage-accounts'
 	| 'read-outbox'
+	| 'read-service-health'
 	| 'read-archive';
 
 const SERVICE_DENIALS: Record<ServiceAction, string> = {
@@ -28,6 +29,7 @@ const SERVICE_DENIALS: Record<ServiceAction, string> = {
 	'manage-tokens': 'Sign in to see or revoke your API tokens.',
 	'manage-accounts': 'Only admins may do this.',
 	'read-outbox': 'Only admins may do this.',
+	'read-service-health': 'Only admins may do this.',
 	'read-archive':
 		'You belong to no group, so there is no group archive to list. Start a group or accept an invitation to one first.'
 };
@@ -44,7 +46,8 @@ export async function decideService(
 			: 'denied';
 	// Tokens act on claims only; accounts, groups and tokens need a person signed in.
 	if (actor.kind !== 'user') return 'denied';
-	if (action === 'manage-accounts' || action === 'read-outbox') {
+	const adminOnly: ServiceAction[] = ['manage-accounts', 'read-outbox', 'read-service-health'];
+	if (adminOnly.includes(action)) {
 		// Re-read: an admin demoted a moment ago must not keep admin powers for the session.
 		const user = await database.models.User.findByPk(actor.userId);
 		return user?.get('accountRole') === 'admin' ? 'allowed' : 'denied';

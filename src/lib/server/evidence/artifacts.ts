@@ -5,6 +5,7 @@
  */
 import { parseCounts } from '../../certify';
 import { canonicalJson } from '../../evidence/canonical';
+import type { LedgerCheckpoint } from '../../evidence/checkpoint';
 import { sha256Hex } from '../../evidence/hash';
 import {
 	BUNDLE_FILES,
@@ -97,7 +98,8 @@ export async function makeEvidence(
 	input: EvidenceInput,
 	key: SigningKey,
 	urls: EvidenceUrls,
-	published: { keys: { id: string }[] }
+	published: { keys: { id: string }[] },
+	checkpoint?: LedgerCheckpoint
 ): Promise<Evidence> {
 	const { canonical, counts } = countsParts(input);
 	const { uploaded, uploadedFormat, ...rest } = input;
@@ -119,6 +121,8 @@ export async function makeEvidence(
 		[BUNDLE_FILES.readme]: utf8(readmeText(manifest, fingerprint, urls)),
 		[BUNDLE_FILES.verifier]: await verifierBytes()
 	};
+	if (checkpoint)
+		files[BUNDLE_FILES.checkpoint] = utf8(JSON.stringify(checkpoint, null, '\t') + '\n');
 	signContents(files, fingerprint, manifest.certificateId, key);
 	const folder = `rankseal-${manifest.certificateId}`;
 	const zip = await zipFiles(files, new Date(manifest.issuedAt), folder);

@@ -103,6 +103,12 @@ export function publishedKeys(): PublishedKey[] {
 	}));
 }
 
+/** A key the service has signed with, secret half included (to introduce its successor). */
+export function storedSigningKey(id: string): SigningKey {
+	const { publicKey, secretKey } = readKey(id);
+	return { id, publicKey, secretKey };
+}
+
 /** The public half of a key the service has used, or null. */
 export function publicKeyById(id: string): string | null {
 	return publishedKeys().find((k) => k.id === id)?.publicKey ?? null;

@@ -22,6 +22,7 @@ import type { Actor } from '../access/actor';
 import { decideClaim, requireClaim, type ClaimAction } from '../access/permissions';
 import { NotFoundError } from './errors';
 import { withdrawalOf } from './ledger';
+import { checkAgainst, type CheckpointCheck } from './ledger-checkpoint';
 
 /** The row when the caller may do `action` to its claim; a hidden claim hides the certificate. */
 async function visibleCertificate(
@@ -119,7 +120,7 @@ export async function lookupCertificate(
 export async function checkBundle(
 	database: Database,
 	zip: Buffer
-): Promise<{ report: VerificationReport; record: Lookup }> {
+): Promise<{ report: VerificationReport; record: Lookup; ledger: CheckpointCheck | null }> {
 	let files;
 	try {
 		files = readZip(zip);
@@ -132,13 +133,18 @@ export async function checkBundle(
 			certificateId: null,
 			fingerprint: null,
 			keyId: null,
+			anchored: false,
+			checkpoint: null,
 			passed: []
 		};
-		return { report, record: { status: 'unknown' } };
+		return { report, record: { status: 'unknown' }, ledger: null };
 	}
 	const report = verifyEvidence(files, { trustedKeyIds: publishedKeys().map((k) => k.id) });
 	const record = report.fingerprint
 		? await lookupCertificate(database, report.fingerprint)
 		: { status: 'unknown' as const };
-	return { report, record };
+	// A ledger cut short since the bundle was made may have lost this certificate's withdrawal.
+	const ledger =
+		report.valid && report.checkpoint ? await checkAgainst(database, report.checkpoint) : null;
+	return { report, record, ledger };
 }

@@ -13,6 +13,7 @@ import { certificateView, type CertificateView } from './certificate-views';
 import { ConflictError, FieldError, NotFoundError } from './errors';
 import { appendLedger } from './ledger';
 import { withdrawerRole } from './ledger-roles';
+import { publishCheckpoint } from './ledger-checkpoint';
 
 export const WITHDRAW_REASON = { min: 3, max: 500 };
 
@@ -77,6 +78,7 @@ export async function withdrawCertificate(
 			transaction
 		)
 	);
+	await publishCheckpoint(database);
 	await row.reload();
 	return certificateView(row.get({ plain: true }));
 }

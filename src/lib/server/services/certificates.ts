@@ -25,6 +25,7 @@ import { ConflictError, NotFoundError } from './errors';
 import { newId } from './ids';
 import { queueReviewNotices } from './review-notices';
 import { appendLedger } from './ledger';
+import { publishCheckpoint } from './ledger-checkpoint';
 
 export type { CertificateView } from './certificate-views';
 
@@ -115,7 +116,9 @@ async function prepare(
 	const stated = await statedResult(database, claim, source);
 	const input = evidenceInput(claim, source, stated, id, supersedes);
 	const urls = evidenceUrls(config().origin, id);
-	const evidence = await makeEvidence(input, key, urls, { keys: publishedKeys() });
+	// The ledger as it stands before this issue: the bundle cannot hold a hash of its own entry.
+	const checkpoint = await publishCheckpoint(database, key);
+	const evidence = await makeEvidence(input, key, urls, { keys: publishedKeys() }, checkpoint);
 	const verdict = selfCheck(evidence);
 	if (!verdict.valid)
 		throw new ConflictError(
@@ -187,6 +190,7 @@ export async function issueCertificate(
 			]);
 			return stored;
 		});
+		await publishCheckpoint(database);
 		return certificateView(row);
 	} catch (error) {
 		await removeFiles(placed);

@@ -9,7 +9,9 @@ import type { EvidenceManifest } from '$lib/evidence/manifest';
 import type { CertificateAttributes } from '../db/models/Certificate';
 import type { ClaimAttributes } from '../db/models/Claim';
 import { mailLink } from '../mail';
-import { queueMail } from './mail-queue';
+import { renderTemplate } from '../templates';
+import { queueRendered } from './mail-queue';
+import { noticeCheckpoint, withCheckpoint } from './notice-checkpoint';
 
 interface Recipient {
 	email: string;
@@ -58,9 +60,11 @@ export async function queueCertificateNotice(
 	const template = earlier ? 'certificate-superseded' : 'certificate-issued';
 	const fingerprint =
 		(earlier?.get('fingerprint') as string | undefined) ?? certificate.fingerprint;
+	const checkpoint = await noticeCheckpoint(database, transaction);
 	for (const to of await recipients(database, claim, transaction)) {
 		const values = { name: to.name, title: claim.title, group, summary, fingerprint, link };
-		await queueMail(database, transaction, to.email, template, values);
+		const mail = withCheckpoint(renderTemplate(template, values), checkpoint);
+		await queueRendered(database, transaction, to.email, template, mail);
 	}
 }
 
@@ -74,8 +78,10 @@ export async function queueWithdrawalNotice(
 ): Promise<void> {
 	const { claim, group } = await context(database, claimId, transaction);
 	const link = mailLink(config().origin, `/archive?q=${encodeURIComponent(claim.id)}`);
+	const checkpoint = await noticeCheckpoint(database, transaction);
 	for (const to of await recipients(database, claim, transaction)) {
 		const values = { name: to.name, title: claim.title, group, by, reason, link };
-		await queueMail(database, transaction, to.email, 'claim-withdrawn', values);
+		const mail = withCheckpoint(renderTemplate('claim-withdrawn', values), checkpoint);
+		await queueRendered(database, transaction, to.email, 'claim-withdrawn', mail);
 	}
 }

@@ -13,6 +13,7 @@ import { audit } from './audit';
 import { withdrawalReason, withdrawInTransaction } from './certificate-withdraw';
 import { queueWithdrawalNotice } from './claim-notices';
 import { ConflictError } from './errors';
+import { publishCheckpoint } from './ledger-checkpoint';
 
 /** A lead of the claim's group or the claim's author may withdraw it; returns the certificates withdrawn. */
 export async function withdrawClaim(
@@ -27,7 +28,7 @@ export async function withdrawClaim(
 	const why = withdrawalReason(reason);
 	const key = serviceKey();
 	const by = ((await User.findByPk(userId!))?.get('name') as string | undefined) ?? 'A member';
-	return writeTransaction(database, async (transaction) => {
+	const done = await writeTransaction(database, async (transaction) => {
 		// Read again inside the transaction: a second withdrawal meanwhile must not run twice.
 		const current = (await Claim.findByPk(claimId, { transaction }))!;
 		if (current.get('state') === 'withdrawn')
@@ -64,4 +65,6 @@ export async function withdrawClaim(
 		await queueWithdrawalNotice(database, claimId, by, why, transaction);
 		return { withdrawnCertificates: certificates.map((c) => c.get('id') as string) };
 	});
+	await publishCheckpoint(database);
+	return done;
 }

@@ -12,6 +12,7 @@ import type { CertificateAttributes } from '../db/models/Certificate';
 import type { LedgerEntryAttributes } from '../db/models/LedgerEntry';
 import { publishedKeys } from '../evidence/keys';
 import { GENESIS_HASH, LEDGER_FORMAT, type LedgerPayload } from './ledger';
+import { KeyChain } from './ledger-keys';
 
 export interface LedgerReport {
 	valid: boolean;
@@ -73,13 +74,19 @@ async function checkChain(
 ): Promise<{ count: number; events: Events }> {
 	const rows = await database.models.LedgerEntry.findAll({ order: [['seq', 'ASC']] });
 	const events: Events = new Map();
+	const chain = new KeyChain(keys);
 	let prevHash = GENESIS_HASH;
 	rows.forEach((r, i) => {
 		const row = r.get({ plain: true });
 		const payload = checkEntry(row, i + 1, prevHash, keys);
+		const keyProblem = chain.entry(payload);
+		if (keyProblem) throw new Broken(`ledger entry ${i + 1}`, keyProblem);
 		prevHash = row.hash;
-		events.set(payload.certificateId, [...(events.get(payload.certificateId) ?? []), payload]);
+		const id = payload.certificateId;
+		if (id !== null) events.set(id, [...(events.get(id) ?? []), payload]);
 	});
+	const early = chain.finish();
+	if (early) throw new Broken(`ledger entry ${early.seq}`, early.problem);
 	return { count: rows.length, events };
 }
 

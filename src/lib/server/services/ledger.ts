@@ -1,34 +1,22 @@
 /**
- * The ledger: an append-only hash chain of issue, supersede and withdraw events. Each entry's
- * canonical payload names the previous entry's hash and is signed with the service key.
+ * The ledger: an append-only hash chain of issue, supersede and withdraw events and of the
+ * introductions of new signing keys. Each entry's canonical payload names the previous entry's
+ * hash and is signed with a service key.
  */
 import { MAX_PAGE } from '$lib/paging';
 import type { Transaction } from 'sequelize';
-import { canonicalJson } from '../../evidence/canonical';
-import { sha256Hex } from '../../evidence/hash';
-import { signText, type SigningKey } from '../../evidence/signing';
+import type { SigningKey } from '../../evidence/signing';
 import type { Database } from '../db';
 import type { LedgerEntryAttributes, LedgerEvent } from '../db/models/LedgerEntry';
+import { introduceKeys } from './key-introductions';
+import { appendEntry, type LedgerEventInput, type LedgerPayload } from './ledger-append';
 
-export const LEDGER_FORMAT = 'rankseal-ledger/1';
-/** The previous hash of the first entry. */
-export const GENESIS_HASH = '0'.repeat(64);
-
-export interface LedgerPayload {
-	format: typeof LEDGER_FORMAT;
-	seq: number;
-	event: LedgerEvent;
-	certificateId: string;
-	prevHash: string;
-	keyId: string;
-	at: string;
-	details: Record<string, string | null>;
-}
+export { GENESIS_HASH, LEDGER_FORMAT, type LedgerPayload } from './ledger-append';
 
 export interface LedgerEntryView {
 	seq: number;
 	event: LedgerEvent;
-	certificateId: string;
+	certificateId: string | null;
 	at: string;
 	prevHash: string;
 	hash: string;
@@ -38,38 +26,18 @@ export interface LedgerEntryView {
 	payload: string;
 }
 
-/** Appends one event inside the caller's transaction (which serialises writers). */
+/**
+ * Appends one certificate event inside the caller's transaction; a signing key the ledger has not
+ * introduced yet is introduced first, by an entry signed with the key before it.
+ */
 export async function appendLedger(
 	database: Database,
 	event: { event: LedgerEvent; certificateId: string; details: LedgerPayload['details'] },
 	key: SigningKey,
 	transaction: Transaction
 ): Promise<LedgerEntryAttributes> {
-	const { LedgerEntry } = database.models;
-	const last = await LedgerEntry.findOne({ order: [['seq', 'DESC']], transaction });
-	const at = new Date();
-	const body: LedgerPayload = {
-		format: LEDGER_FORMAT,
-		seq: ((last?.get('seq') as number | undefined) ?? 0) + 1,
-		prevHash: (last?.get('hash') as string | undefined) ?? GENESIS_HASH,
-		keyId: key.id,
-		at: at.toISOString(),
-		...event
-	};
-	const payload = canonicalJson(body);
-	const row = {
-		seq: body.seq,
-		event: body.event,
-		certificateId: body.certificateId,
-		payload,
-		prevHash: body.prevHash,
-		hash: sha256Hex(payload),
-		keyId: key.id,
-		signature: signText(payload, key.secretKey),
-		createdAt: at
-	};
-	await LedgerEntry.create(row, { transaction });
-	return row;
+	await introduceKeys(database, transaction);
+	return appendEntry(database, event satisfies LedgerEventInput, key, transaction);
 }
 
 const view = (row: LedgerEntryAttributes): LedgerEntryView => ({

@@ -7,6 +7,7 @@ import { writeTransaction, type Database } from '../db';
 import type { Mailer } from '../mail';
 import { renderTemplate, type NoticeTemplate } from '../templates';
 import { queueRendered } from './mail-queue';
+import { noticeCheckpoint, withCheckpoint } from './notice-checkpoint';
 
 export interface Notice {
 	template: NoticeTemplate;
@@ -28,8 +29,11 @@ export interface NoticeContext {
 /** Queues one notice (rendered text and HTML, user words defused) and returns its outbox id. */
 export async function sendNotice(context: NoticeContext, notice: Notice): Promise<string> {
 	const mail = renderTemplate(notice.template, { ...notice.words, link: notice.link });
-	const queue = (transaction: Transaction) =>
-		queueRendered(context.database, transaction, notice.to, notice.template, mail);
+	const queue = async (transaction: Transaction) => {
+		const checkpoint = await noticeCheckpoint(context.database, transaction);
+		const stamped = withCheckpoint(mail, checkpoint);
+		return queueRendered(context.database, transaction, notice.to, notice.template, stamped);
+	};
 	return context.transaction
 		? queue(context.transaction)
 		: writeTransaction(context.database, queue);

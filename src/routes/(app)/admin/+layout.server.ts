@@ -1,11 +1,13 @@
-import { requireService } from '$lib/server/access/permissions';
 import { app } from '$lib/server/app';
-import { pageProblem } from '$lib/server/problems';
+import { decideService } from '$lib/server/access/permissions';
+import { alarmText, ledgerAlarm } from '$lib/server/services/ledger-alarm';
 import type { LayoutServerLoad } from './$types';
 
-/** Admin pages: page loads stop here; each load and action also asks the service, which re-checks. */
+/** Admin pages: a ledger cut short below the last published checkpoint is shown at the top. */
 export const load: LayoutServerLoad = async ({ locals }) => {
 	const { database } = await app();
-	await requireService(database, locals.actor, 'manage-accounts').catch(pageProblem);
-	return {};
+	if ((await decideService(database, locals.actor, 'read-service-health')) !== 'allowed')
+		return { ledgerAlarm: null };
+	const alarm = await ledgerAlarm(database);
+	return { ledgerAlarm: alarm ? alarmText(alarm) : null };
 };

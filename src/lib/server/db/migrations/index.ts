@@ -10,6 +10,7 @@ import * as checkFairUse from './0008-check-fair-use';
 import * as mailCap from './0009-mail-cap';
 import * as checkAttempts from './0010-check-attempts';
 import * as analyses from './0011-analyses';
+import * as ledgerKeyEntries from './0012-ledger-key-entries';
 import * as noLiveSecrets from './0014-no-live-secrets';
 
 export const migrations = [
@@ -24,5 +25,6 @@ export const migrations = [
 	{ name: '0009-mail-cap', ...mailCap },
 	{ name: '0010-check-attempts', ...checkAttempts },
 	{ name: '0011-analyses', ...analyses },
+	{ name: '0012-ledger-key-entries', ...ledgerKeyEntries },
 	{ name: '0014-no-live-secrets', ...noLiveSecrets }
 ];

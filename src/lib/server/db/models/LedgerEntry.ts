@@ -1,15 +1,15 @@
 import { DataTypes, type Model, type ModelStatic, type Sequelize } from 'sequelize';
 
-export type LedgerEvent = 'issue' | 'supersede' | 'withdraw';
+export type LedgerEvent = 'issue' | 'supersede' | 'withdraw' | 'key';
 
 /**
- * One link of the append-only ledger: `payload` is canonical JSON naming the previous entry's
+ * One link of the append-only ledger (a certificate event, or a signing key's introduction): `payload` is canonical JSON naming the previous entry's
  * hash; `hash` is its SHA-256 and `signature` the service key's Ed25519 signature over it.
  */
 export interface LedgerEntryAttributes {
 	seq: number;
 	event: LedgerEvent;
-	certificateId: string;
+	certificateId: string | null;
 	payload: string;
 	prevHash: string;
 	hash: string;
@@ -28,7 +28,8 @@ export function defineLedgerEntry(sequelize: Sequelize): LedgerEntryModel {
 		{
 			seq: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: false },
 			event: string(),
-			certificateId: string(),
+			// Null for a key introduction (migration 0012).
+			certificateId: { type: DataTypes.STRING, allowNull: true },
 			payload: { type: DataTypes.TEXT, allowNull: false },
 			prevHash: string(),
 			hash: string(),

@@ -122,5 +122,15 @@ export const certificatePaths = {
 				'400': failure('A bad page or pageSize (code bad_input).')
 			}
 		}
+	},
+	'/api/v1/ledger/checkpoint': {
+		get: {
+			operationId: 'getLedgerCheckpoint',
+			summary: 'The ledger’s signed checkpoint now: entry count, head hash, time (public)',
+			security: [],
+			responses: {
+				'200': reply('The checkpoint; keep it to check the ledger later.', 'LedgerCheckpoint')
+			}
+		}
 	}
 };

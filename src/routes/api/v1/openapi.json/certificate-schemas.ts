@@ -81,13 +81,33 @@ export const certificateSchemas = {
 			})
 		}
 	}),
+	LedgerCheckpoint: object(
+		{
+			format: { type: 'string', enum: ['rankseal-checkpoint/1'] },
+			entries: { type: 'integer', minimum: 0, description: 'Entries in the ledger.' },
+			head: { ...hex64, description: 'Hash of the newest entry (64 zeros when empty).' },
+			at: timestamp,
+			keyId: { ...hex64, description: 'The signing key (SHA-256 of its public key).' },
+			signature: {
+				type: 'string',
+				pattern: '^[0-9a-f]{128}$',
+				description: 'Ed25519 over the RFC 8785 JSON of the other five fields.'
+			}
+		},
+		'The ledger signed as it stands; `ledger:verify --checkpoint FILE` later shows whether the ledger still extends it.'
+	),
 	LedgerPage: object({
 		items: {
 			type: 'array',
 			items: object({
 				seq: { type: 'integer' },
-				event: { type: 'string', enum: ['issue', 'supersede', 'withdraw'] },
-				certificateId: text,
+				event: {
+					type: 'string',
+					enum: ['issue', 'supersede', 'withdraw', 'key'],
+					description:
+						'`key`: a new signing key, introduced by an entry signed with the key before it.'
+				},
+				certificateId: nullable(text),
 				at: timestamp,
 				prevHash: hex64,
 				hash: hex64,

@@ -1,0 +1,58 @@
+/**
+ * An outside forger's bundle: a genuine bundle with one claim field changed, the manifest and the
+ * file list re-signed with the forger's own Ed25519 key, and that key put in public-key.txt and
+ * in the bundle's own signing-keys.json (and its ledger checkpoint re-signed with it). Every hash and signature inside agrees; only a key list
+ * from outside the bundle can tell.
+ */
+import { canonicalJson } from '../../src/lib/evidence/canonical';
+import { parseCheckpoint, signCheckpoint } from '../../src/lib/evidence/checkpoint';
+import { sha256Hex } from '../../src/lib/evidence/hash';
+import { BUNDLE_FILES, contentsText, type EvidenceFiles } from '../../src/lib/evidence/layout';
+import type { EvidenceManifest } from '../../src/lib/evidence/manifest';
+import { newSigningKey, signText, type SigningKey } from '../../src/lib/evidence/signing';
+
+const utf8 = (text: string) => new TextEncoder().encode(text);
+
+export function forgeBundle(
+	files: EvidenceFiles,
+	forger: SigningKey = newSigningKey()
+): { files: EvidenceFiles; forger: SigningKey } {
+	const manifest = JSON.parse(
+		new TextDecoder().decode(files[BUNDLE_FILES.manifest])
+	) as EvidenceManifest;
+	// The reference is not re-computed by the re-run, so the forged bundle re-runs cleanly.
+	const forged = canonicalJson({
+		...manifest,
+		claim: { ...manifest.claim, manuscriptReference: 'Nature 999, 1 (2027)' },
+		signingKeyId: forger.id
+	});
+	const keys = { keys: [{ id: forger.id, algorithm: 'Ed25519', publicKey: forger.publicKey }] };
+	const {
+		[BUNDLE_FILES.contents]: _contents,
+		[BUNDLE_FILES.contentsSignature]: _signature,
+		...rest
+	} = files;
+	const listed: EvidenceFiles = {
+		...rest,
+		[BUNDLE_FILES.manifest]: utf8(forged),
+		[BUNDLE_FILES.signature]: utf8(signText(forged, forger.secretKey) + '\n'),
+		[BUNDLE_FILES.publicKey]: utf8(forger.publicKey + '\n'),
+		[BUNDLE_FILES.signingKeys]: utf8(JSON.stringify(keys, null, '\t') + '\n')
+	};
+	// The ledger checkpoint, if the bundle has one, signed again by the forger too.
+	const checkpoint = files[BUNDLE_FILES.checkpoint];
+	if (checkpoint) {
+		const { entries, head, at } = parseCheckpoint(new TextDecoder().decode(checkpoint))!;
+		const forgedCheckpoint = signCheckpoint({ entries, head, at }, forger);
+		listed[BUNDLE_FILES.checkpoint] = utf8(JSON.stringify(forgedCheckpoint) + '\n');
+	}
+	const list = contentsText(manifest.certificateId, sha256Hex(forged), listed);
+	return {
+		forger,
+		files: {
+			...listed,
+			[BUNDLE_FILES.contents]: utf8(list),
+			[BUNDLE_FILES.contentsSignature]: utf8(signText(list, forger.secretKey) + '\n')
+		}
+	};
+}
