@@ -39,7 +39,7 @@ async function groupOfCertificate(database: Database, certificateId: string) {
 }
 
 async function publicEntry(database: Database, entry: LedgerEntryView): Promise<PublicLedgerEntry> {
-	if (entry.event !== 'withdraw') return { ...entry, redacted: [] };
+	if (entry.event !== 'withdraw' || entry.certificateId === null) return { ...entry, redacted: [] };
 	const payload = JSON.parse(entry.payload) as LedgerPayload;
 	const { by, ...details } = payload.details;
 	if (typeof by !== 'string') return { ...entry, redacted: [] };
