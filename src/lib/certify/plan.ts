@@ -19,6 +19,7 @@ import {
 } from './counts';
 import { CONFIDENCE, RESAMPLES, resamplesProblem } from './limits';
 import { checkQuantumMarginals, type EntropicSum } from './physical';
+import { calibrationSummary, type Calibration, type CalibrationSummary } from './calibration';
 import { checkSeed } from './poisson';
 import { boundDrawSpec, type BoundInputs } from './statistic-bound';
 import { isMethodId, witnessFamilies, type MethodId, type WitnessFamily } from './witnesses';
@@ -41,6 +42,10 @@ export interface CertifyOptions {
 	/** Subtract the file's accidental estimates; the result is then labelled background-subtracted. */
 	subtractAccidentals?: boolean;
 	inputSha256?: string;
+	/** Measured basis vectors (witnesses.md §4.4): the ladder then uses their overlaps. */
+	calibration?: Calibration;
+	/** SHA-256 of the calibration file's bytes, recorded on the result. */
+	calibrationSha256?: string;
 	onProgress?: (fraction: number) => void;
 }
 
@@ -62,6 +67,7 @@ export interface CertificationPlan {
 	inputs: BoundInputs;
 	draws: DrawSpec;
 	inputSha256: string | null;
+	calibration: CalibrationSummary | null;
 }
 
 function checkOptions(options: CertifyOptions, d: number) {
@@ -115,6 +121,14 @@ export function planCertification(
 	const tooMany = resamplesProblem(resamples, d, bases.length);
 	if (tooMany) throw new InputError(tooMany);
 	requireCompleteTables(dataset, bases, method);
+	const calibration = options.calibration
+		? calibrationSummary(options.calibration, {
+				method,
+				d,
+				bases,
+				sha256: options.calibrationSha256
+			})
+		: null;
 	const tables = bases.map((t) => dataset.tables.find((x) => x.basis === t)!);
 	const subtract = !!options.subtractAccidentals && tables.some((t) => t.accidentals !== null);
 	if (options.subtractAccidentals && !subtract)
@@ -154,7 +168,8 @@ export function planCertification(
 		entropicSums,
 		inputs,
 		draws,
-		inputSha256
+		inputSha256,
+		calibration
 	};
 }
 
