@@ -2,7 +2,7 @@
  * rankseal certify: check a counts file against a witness family from the command line.
  *   npm run --silent certify -- --counts FILE --dimension D --method METHOD
  *       [--fourier cyclic|field] [--bases 0,1] [--confidence 0.99865] [--resamples 10000] [--seed 1]
- *       [--claim K] [--json] [--threads N]
+ *       [--claim K] [--json] [--threads N] [--calibration FILE]
  * Blocks of resamples run on worker threads when the work repays it (same numbers for any N).
  * Exit status: 0 success, 2 bad input (one line on stderr), 1 internal error.
  */
@@ -21,12 +21,15 @@ import {
 	parseCounts,
 	type FourierConvention
 } from '../lib/certify';
+import { parseCalibration } from '../lib/certify/calibration';
 import { threadedBlocks } from './blocks';
 import { readableReport } from './report';
 
 const USAGE = `usage: npm run --silent certify -- --counts FILE --dimension D --method ${METHOD_IDS.join('|')}
        [--fourier cyclic|field] [--bases 0,1] [--confidence ${DEFAULTS.confidence}] [--resamples ${DEFAULTS.resamples}]
-       [--seed ${DEFAULTS.seed}] [--claim K] [--json] [--subtract-accidentals] [--threads N]
+       [--seed ${DEFAULTS.seed}] [--claim K] [--json] [--subtract-accidentals] [--threads N] [--calibration FILE]
+  --calibration  the basis vectors as measured (JSON, witnesses.md §4.4; mub-correlation only): the ladder then
+             uses their overlaps instead of assuming exactly unbiased bases
   --fourier  which Fourier basis basis 1 is: cyclic = the Z_d transform d^-1/2 Σ ω^jm |m⟩ (every d; the default
              unless a JSON file declares "fourier"), field = the GF(p^s) basis and its d + 1 MUBs (prime powers
              only); for prime d the two are the same bases`;
@@ -55,6 +58,22 @@ function fourierOption(text: string | undefined, d: number): FourierConvention |
 	return text;
 }
 
+function readCalibration(path: string | undefined, d: number) {
+	if (path === undefined) return {};
+	let bytes: Uint8Array;
+	try {
+		bytes = readFileSync(path);
+	} catch (error) {
+		throw new InputError(
+			`cannot read --calibration ${path}: ${(error as NodeJS.ErrnoException).code ?? 'error'}`
+		);
+	}
+	return {
+		calibration: parseCalibration(bytes, d),
+		calibrationSha256: createHash('sha256').update(bytes).digest('hex')
+	};
+}
+
 async function run(argv: string[]): Promise<number> {
 	const { values } = parseArgs({
 		args: argv,
@@ -69,6 +88,7 @@ async function run(argv: string[]): Promise<number> {
 			seed: { type: 'string' },
 			claim: { type: 'string' },
 			threads: { type: 'string' },
+			calibration: { type: 'string' },
 			json: { type: 'boolean', default: false },
 			'subtract-accidentals': { type: 'boolean', default: false },
 			help: { type: 'boolean', default: false }
@@ -101,6 +121,7 @@ async function run(argv: string[]): Promise<number> {
 	}
 	const dataset = parseCounts(bytes, dimension);
 	if (fourier) checkDeclaredFourier(dataset, fourier, `--fourier ${fourier}`);
+	const calibration = readCalibration(values.calibration, dimension);
 	const options = {
 		method: values.method!,
 		bases,
@@ -110,7 +131,8 @@ async function run(argv: string[]): Promise<number> {
 		seed: wholeNumber('seed', values.seed),
 		claim: wholeNumber('claim', values.claim),
 		subtractAccidentals: values['subtract-accidentals'],
-		inputSha256: createHash('sha256').update(bytes).digest('hex')
+		inputSha256: createHash('sha256').update(bytes).digest('hex'),
+		...calibration
 	};
 	const threads = wholeNumber('threads', values.threads);
 	const result = await certifyInBlocks(dataset, options, threadedBlocks(threads));
