@@ -10,6 +10,7 @@ import { firstDifference } from './compare';
 import { sha256Hex } from './hash';
 import {
 	BUNDLE_FILES,
+	CALIBRATION_FILE,
 	CONTENTS_FORMAT,
 	keyIdsOfList,
 	uploadedCountsName,
@@ -161,9 +162,30 @@ function checkCounts(s: State) {
 	if (canonical !== expected)
 		throw new Failure(BUNDLE_FILES.canonicalCounts, 'it does not hold the uploaded counts');
 	s.passed.push(BUNDLE_FILES.canonicalCounts);
+	checkCalibration(s);
 	if (text(s.files, BUNDLE_FILES.result) !== canonicalJson(m.result))
 		throw new Failure(BUNDLE_FILES.result, 'it differs from the result in the manifest');
 	s.passed.push(BUNDLE_FILES.result);
+}
+
+/** The calibration file the manifest names (and only then) must be there, with its hash. */
+function checkCalibration(s: State) {
+	const m = s.manifest!;
+	const name = CALIBRATION_FILE;
+	const recorded = m.result.calibration?.sha256 ?? null;
+	if (!m.calibration) {
+		if (s.files[name] || recorded)
+			throw new Failure(name, 'a calibration is present but the manifest names none');
+		return;
+	}
+	const bytes = s.files[name];
+	if (!bytes) throw new Failure(name, 'the file is missing');
+	if (
+		sha256Hex(bytes) !== m.calibration.uploadedSha256 ||
+		recorded !== m.calibration.uploadedSha256
+	)
+		throw new Failure(name, 'its SHA-256 differs from the manifest');
+	s.passed.push(`${name} (manifest hash)`);
 }
 
 function checkRerun(s: State) {
@@ -179,7 +201,7 @@ function checkRerun(s: State) {
 	);
 	let rerun: unknown;
 	try {
-		rerun = jsonRoundTrip(certify(dataset, certifyOptionsOf(m)));
+		rerun = jsonRoundTrip(certify(dataset, certifyOptionsOf(m, s.files[CALIBRATION_FILE])));
 	} catch (error) {
 		throw new Failure(
 			're-run',

@@ -1,0 +1,119 @@
+/**
+ * A calibrated check's evidence (witnesses.md §4.4): the calibration file is hashed into the
+ * manifest, carried in the bundle like the counts, and the verifier re-runs with it; a bundle whose
+ * calibration was swapped or dropped is refused naming calibration.json.
+ */
+import { mkdtempSync, readFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+import { beforeAll, describe, expect, it, vi } from 'vitest';
+import { certify, parseCounts } from '../../src/lib/certify';
+import { parseCalibration } from '../../src/lib/certify/calibration';
+import { sha256Hex } from '../../src/lib/evidence/hash';
+import {
+	BUNDLE_FILES,
+	CALIBRATION_FILE,
+	contentsText,
+	type EvidenceFiles
+} from '../../src/lib/evidence/layout';
+import { signText } from '../../src/lib/evidence/signing';
+import { verifyEvidence } from '../../src/lib/evidence/verify';
+import { makeEvidence, type Evidence } from '../../src/lib/server/evidence/artifacts';
+import { publishedKeys, serviceKey } from '../../src/lib/server/evidence/keys';
+
+vi.setConfig({ testTimeout: 300_000, hookTimeout: 300_000 });
+
+const counts = readFileSync('tests/fixtures/calibrated-d3-product.csv');
+const calibrationBytes = readFileSync('tests/fixtures/calibrated-d3-bases.json');
+let evidence: Evidence;
+
+beforeAll(async () => {
+	process.env.RANKSEAL_DATA_DIR = mkdtempSync(path.join(tmpdir(), 'rankseal-cal-evidence-'));
+	process.env.ORIGIN = 'https://rankseal.test';
+	const options = {
+		method: 'mub-correlation',
+		bases: [0, 1, 2],
+		fourier: 'cyclic' as const,
+		resamples: 1000,
+		confidence: 0.99865,
+		seed: 3,
+		subtractAccidentals: false,
+		claim: 2,
+		inputSha256: sha256Hex(counts),
+		calibration: parseCalibration(calibrationBytes, 3),
+		calibrationSha256: sha256Hex(calibrationBytes)
+	};
+	const result = certify(parseCounts(counts, 3), options);
+	evidence = await makeEvidence(
+		{
+			certificateId: 'cert-calibrated',
+			issuedAt: '2026-12-05T04:00:00.000Z',
+			claimId: 'claim-1',
+			checkId: 'check-1',
+			supersedes: null,
+			claim: {
+				title: 'Three nearly unbiased bases, d = 3',
+				dimension: 3,
+				method: 'mub-correlation',
+				bases: [0, 1, 2],
+				fourier: 'cyclic',
+				claimedSchmidtNumber: 2,
+				manuscriptReference: null
+			},
+			parameters: { resamples: 1000, confidence: 0.99865, seed: 3, subtractAccidentals: false },
+			result,
+			uploaded: counts,
+			uploadedFormat: 'csv',
+			calibrationBytes
+		},
+		serviceKey(),
+		{ verify: 'https://rankseal.test/seal/x', keys: 'https://rankseal.test/api/v1/signing-keys' },
+		{ keys: publishedKeys() }
+	);
+});
+
+/** The bundle with `files` changed and its file list signed again by the service key (an insider). */
+function resigned(files: EvidenceFiles): EvidenceFiles {
+	const out = { ...files };
+	delete out[BUNDLE_FILES.contents];
+	delete out[BUNDLE_FILES.contentsSignature];
+	const listed = contentsText(evidence.manifest.certificateId, evidence.fingerprint, out);
+	out[BUNDLE_FILES.contents] = new TextEncoder().encode(listed);
+	out[BUNDLE_FILES.contentsSignature] = new TextEncoder().encode(
+		signText(listed, serviceKey().secretKey) + '\n'
+	);
+	return out;
+}
+
+describe('evidence of a calibrated check', () => {
+	it('names the calibration in the manifest, carries it, and verifies by re-running with it', () => {
+		expect(evidence.manifest.calibration).toEqual({
+			uploadedSha256: sha256Hex(calibrationBytes),
+			uploadedBytes: calibrationBytes.byteLength
+		});
+		expect(evidence.manifest.result.certifiedSchmidtNumber).toBe(1);
+		expect(sha256Hex(evidence.files[CALIBRATION_FILE])).toBe(sha256Hex(calibrationBytes));
+		const report = verifyEvidence(evidence.files);
+		expect(report.message).toBe('every hash, both signatures and the re-run agree');
+		expect(report.passed).toContain('calibration.json (manifest hash)');
+	});
+
+	it('refuses a bundle whose calibration was swapped or dropped, even with a re-signed file list', () => {
+		const other = JSON.parse(calibrationBytes.toString());
+		other.tolerance = 0.001;
+		const swapped = resigned({
+			...evidence.files,
+			[CALIBRATION_FILE]: new TextEncoder().encode(JSON.stringify(other))
+		});
+		expect(verifyEvidence(swapped)).toMatchObject({
+			valid: false,
+			failedItem: 'calibration.json'
+		});
+		const dropped = { ...evidence.files };
+		delete dropped[CALIBRATION_FILE];
+		expect(verifyEvidence(resigned(dropped))).toMatchObject({
+			valid: false,
+			failedItem: 'calibration.json'
+		});
+	});
+});
