@@ -90,7 +90,8 @@ function evidenceInput(
 		},
 		result,
 		uploaded,
-		uploadedFormat: dataset.format
+		uploadedFormat: dataset.format,
+		calibrationBytes: dataset.calibration ? new Uint8Array(dataset.calibration) : null
 	};
 }
 

@@ -29,6 +29,9 @@ export interface DatasetAttributes {
 	summary: DatasetSummary;
 	/** Heat-map tables, written at upload (migration 0004); null for rows older than that until viewed. */
 	preview?: PreviewTable[] | null;
+	/** The calibration file as uploaded beside the counts (migration 0016), and its SHA-256. */
+	calibration?: Uint8Array | null;
+	calibrationSha256?: string | null;
 	createdAt?: Date;
 	updatedAt?: Date;
 }
@@ -47,7 +50,9 @@ export function defineDataset(sequelize: Sequelize): DatasetModel {
 			format: { type: DataTypes.STRING, allowNull: false },
 			originalName: { type: DataTypes.STRING, allowNull: false },
 			summary: { type: DataTypes.JSON, allowNull: false },
-			preview: { type: DataTypes.JSON, allowNull: true }
+			preview: { type: DataTypes.JSON, allowNull: true },
+			calibration: { type: DataTypes.BLOB, allowNull: true },
+			calibrationSha256: { type: DataTypes.STRING(64), allowNull: true }
 		},
 		{ tableName: 'datasets', underscored: true }
 	);
