@@ -25,7 +25,8 @@ describe('database', () => {
 			'0007-outbox-archive',
 			'0008-check-fair-use',
 			'0009-mail-cap',
-			'0010-check-attempts'
+			'0010-check-attempts',
+			'0016-dataset-calibration'
 		]);
 	});
 

@@ -3,7 +3,8 @@
  * manifest, carried in the bundle like the counts, and the verifier re-runs with it; a bundle whose
  * calibration was swapped or dropped is refused naming calibration.json.
  */
-import { mkdtempSync, readFileSync } from 'node:fs';
+import { execFileSync } from 'node:child_process';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { beforeAll, describe, expect, it, vi } from 'vitest';
@@ -26,6 +27,14 @@ vi.setConfig({ testTimeout: 300_000, hookTimeout: 300_000 });
 const counts = readFileSync('tests/fixtures/calibrated-d3-product.csv');
 const calibrationBytes = readFileSync('tests/fixtures/calibrated-d3-bases.json');
 let evidence: Evidence;
+let plain: Evidence;
+
+/** The PDF's text as poppler's pdftotext reads it. */
+function pdfText(pdf: Uint8Array): string {
+	const file = path.join(mkdtempSync(path.join(tmpdir(), 'rankseal-cal-pdf-')), 'c.pdf');
+	writeFileSync(file, pdf);
+	return execFileSync('pdftotext', ['-enc', 'UTF-8', file, '-'], { encoding: 'utf8' });
+}
 
 beforeAll(async () => {
 	process.env.RANKSEAL_DATA_DIR = mkdtempSync(path.join(tmpdir(), 'rankseal-cal-evidence-'));
@@ -44,32 +53,37 @@ beforeAll(async () => {
 		calibrationSha256: sha256Hex(calibrationBytes)
 	};
 	const result = certify(parseCounts(counts, 3), options);
-	evidence = await makeEvidence(
-		{
-			certificateId: 'cert-calibrated',
-			issuedAt: '2026-12-05T04:00:00.000Z',
-			claimId: 'claim-1',
-			checkId: 'check-1',
-			supersedes: null,
-			claim: {
-				title: 'Three nearly unbiased bases, d = 3',
-				dimension: 3,
-				method: 'mub-correlation',
-				bases: [0, 1, 2],
-				fourier: 'cyclic',
-				claimedSchmidtNumber: 2,
-				manuscriptReference: null
-			},
-			parameters: { resamples: 1000, confidence: 0.99865, seed: 3, subtractAccidentals: false },
-			result,
-			uploaded: counts,
-			uploadedFormat: 'csv',
-			calibrationBytes
+	const input = (r: typeof result, calibrated: boolean) => ({
+		certificateId: 'cert-calibrated',
+		issuedAt: '2026-12-05T04:00:00.000Z',
+		claimId: 'claim-1',
+		checkId: 'check-1',
+		supersedes: null,
+		claim: {
+			title: 'Three nearly unbiased bases, d = 3',
+			dimension: 3,
+			method: 'mub-correlation' as const,
+			bases: [0, 1, 2],
+			fourier: 'cyclic' as const,
+			claimedSchmidtNumber: 2,
+			manuscriptReference: null
 		},
-		serviceKey(),
-		{ verify: 'https://rankseal.test/seal/x', keys: 'https://rankseal.test/api/v1/signing-keys' },
-		{ keys: publishedKeys() }
-	);
+		parameters: { resamples: 1000, confidence: 0.99865, seed: 3, subtractAccidentals: false },
+		result: r,
+		uploaded: counts,
+		uploadedFormat: 'csv' as const,
+		calibrationBytes: calibrated ? calibrationBytes : null
+	});
+	const urls = {
+		verify: 'https://rankseal.test/seal/x',
+		keys: 'https://rankseal.test/api/v1/signing-keys'
+	};
+	evidence = await makeEvidence(input(result, true), serviceKey(), urls, { keys: publishedKeys() });
+	const { calibration: _c, calibrationSha256: _s, ...uncalibrated } = options;
+	const plainResult = certify(parseCounts(counts, 3), uncalibrated);
+	plain = await makeEvidence(input(plainResult, false), serviceKey(), urls, {
+		keys: publishedKeys()
+	});
 });
 
 /** The bundle with `files` changed and its file list signed again by the service key (an insider). */
@@ -115,5 +129,16 @@ describe('evidence of a calibrated check', () => {
 			valid: false,
 			failedItem: 'calibration.json'
 		});
+	});
+
+	it('the PDF says which bases the certificate holds for, in one line', () => {
+		expect(pdfText(evidence.pdf)).toMatch(
+			/Calibrated bases: the ladder uses the measured overlaps \(mu\+ = 1\.02361/
+		);
+		const text = pdfText(plain.pdf).replace(/\s+/g, ' ');
+		expect(plain.manifest.result.certifiedSchmidtNumber).toBe(2);
+		const tolerance = plain.manifest.result.calibrationTolerance!.value!;
+		expect(text).toContain(`Holds for bases unbiased to within ${(100 * tolerance).toFixed(2)} %`);
+		expect(verifyEvidence(plain.files).valid).toBe(true);
 	});
 });
