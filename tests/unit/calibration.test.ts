@@ -310,3 +310,30 @@ describe('the calibration file: refusals name the field or the basis', () => {
 		);
 	});
 });
+
+describe('the refusal test for data no quantum state gives uses the calibrated overlaps', () => {
+	// d = 2, basis 1 the rotation by θ = 0.3 of basis 0, state |00⟩: P₀(0) + P₁(0) = 1 + cos² 0.3 = 1.913,
+	// above 1 + 1/√2 for unbiased bases but below 1 + |⟨0|0_θ⟩| = 1 + cos 0.3 (Maassen & Uffink, PRL 60, 1103 (1988)).
+	const [c, s] = [Math.cos(0.3), Math.sin(0.3)];
+	const rotated = { basis: 1, re: Float64Array.from([c, s, -s, c]), im: new Float64Array(4) };
+	const calibration = { dimension: 2, bases: [exactBasis(2, 0), rotated], tolerance: 0 };
+	const q = [c * c, s * s];
+	const rows = [
+		'basis,outcome_a,outcome_b,counts',
+		'0,0,0,100000',
+		'0,0,1,0',
+		'0,1,0,0',
+		'0,1,1,0'
+	];
+	for (let a = 0; a < 2; a++)
+		for (let b = 0; b < 2; b++) rows.push(`1,${a},${b},${Math.round(100000 * q[a] * q[b])}`);
+	const counts = parseCounts(rows.join('\n') + '\n', 2);
+	it('refused as declared (unbiased bases), accepted with the calibration', () => {
+		expect(() => certify(counts, { method: 'mub-correlation', resamples: 1000 })).toThrow(
+			/too frequent for any quantum state measured in these unbiased bases/
+		);
+		const r = certify(counts, { method: 'mub-correlation', resamples: 1000, calibration });
+		expect(r.certifiedSchmidtNumber).toBe(1);
+		expect(r.bounds[0].bound).toBeCloseTo(1.9126678, 7);
+	});
+});

@@ -19,7 +19,12 @@ import {
 } from './counts';
 import { CONFIDENCE, RESAMPLES, resamplesProblem } from './limits';
 import { checkQuantumMarginals, type EntropicSum } from './physical';
-import { calibrationSummary, type Calibration, type CalibrationSummary } from './calibration';
+import {
+	calibratedPairLimit,
+	calibrationSummary,
+	type Calibration,
+	type CalibrationSummary
+} from './calibration';
 import { checkSeed } from './poisson';
 import { boundDrawSpec, type BoundInputs } from './statistic-bound';
 import { isMethodId, witnessFamilies, type MethodId, type WitnessFamily } from './witnesses';
@@ -136,7 +141,12 @@ export function planCertification(
 	const rates = hasUnequalDurations(tables);
 	const entropicSums = rates
 		? []
-		: checkQuantumMarginals(tables, d, family.trust === 'device-dependent' ? ['A', 'B'] : ['B']);
+		: checkQuantumMarginals(
+				tables,
+				d,
+				family.trust === 'device-dependent' ? ['A', 'B'] : ['B'],
+				options.calibration ? calibratedLimit(options.calibration, bases) : undefined
+			);
 	const inputs: BoundInputs = {
 		family,
 		tables,
@@ -182,4 +192,10 @@ function fourierOf(dataset: CountsDataset, requested: unknown): FourierConventio
 	if (problem) throw new InputError(problem);
 	checkDeclaredFourier(dataset, fourier, 'the check');
 	return fourier;
+}
+
+/** The refusal test's limits from the calibrated overlaps (the bases are in the check's order). */
+function calibratedLimit(calibration: Calibration, bases: number[]) {
+	const used = bases.map((t) => calibration.bases.find((b) => b.basis === t)!);
+	return calibratedPairLimit(used, calibration.dimension, calibration.tolerance);
 }

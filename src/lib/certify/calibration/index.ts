@@ -10,5 +10,5 @@ export {
 export { calibratedBounds, calibratedMu, gramMatrix, type CalibratedMu } from './calibrated-ladder';
 export { calibrationTolerance, percent, type CalibrationTolerance } from './calibration-tolerance';
 export { largestEigenvalueUpper } from './largest-eigenvalue';
-export { checkOrthonormal, largestBias, overlapMatrix } from './overlaps';
+export { calibratedPairLimit, checkOrthonormal, largestBias, overlapMatrix } from './overlaps';
 export { calibrationSummary, type CalibrationSummary } from './summary';

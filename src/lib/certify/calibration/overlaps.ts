@@ -66,3 +66,16 @@ export function largestBias(bases: CalibratedBasis[], d: number): number {
 				worst = Math.max(worst, Math.abs(d * x - 1));
 	return worst;
 }
+
+/**
+ * For the refusal test of physical.ts in calibrated bases: P_s(j) + P_t(l) ≤ 1 + |⟨j_s|l_t⟩| for
+ * any state, and |⟨j_s|l_t⟩|² ≤ D̂_jl + ε (the conjugate bases of side B have the same overlaps).
+ */
+export function calibratedPairLimit(bases: CalibratedBasis[], d: number, tolerance: number) {
+	const overlaps = new Map<string, Float64Array>();
+	return (i: number, k: number, j: number, l: number): number => {
+		const key = `${i}:${k}`;
+		if (!overlaps.has(key)) overlaps.set(key, overlapMatrix(bases[i], bases[k], d));
+		return 1 + Math.sqrt(Math.min(1, overlaps.get(key)![j * d + l] + tolerance));
+	};
+}
