@@ -141,4 +141,22 @@ describe('evidence of a calibrated check', () => {
 		expect(text).toContain(`Holds for bases unbiased to within ${(100 * tolerance).toFixed(2)} %`);
 		expect(verifyEvidence(plain.files).valid).toBe(true);
 	});
+
+	it('a result recorded before these fields existed (same engine version) still verifies', async () => {
+		const { calibration: _c, calibrationTolerance: _t, ...older } = plain.manifest.result;
+		const evidenceOfOlder = await makeEvidence(
+			{
+				...plain.manifest,
+				certificateId: 'cert-older',
+				result: older as typeof plain.manifest.result,
+				uploaded: counts,
+				uploadedFormat: 'csv'
+			},
+			serviceKey(),
+			{ verify: 'https://rankseal.test/seal/y', keys: 'https://rankseal.test/api/v1/signing-keys' },
+			{ keys: publishedKeys() }
+		);
+		expect(evidenceOfOlder.manifest.result).not.toHaveProperty('calibrationTolerance');
+		expect(verifyEvidence(evidenceOfOlder.files).valid).toBe(true);
+	});
 });

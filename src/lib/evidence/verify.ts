@@ -188,6 +188,9 @@ function checkCalibration(s: State) {
 	s.passed.push(`${name} (manifest hash)`);
 }
 
+/** Result fields added without an engine version change (calibrated bases, witnesses.md §4.4). */
+const LATER_RESULT_FIELDS = ['calibration', 'calibrationTolerance'];
+
 function checkRerun(s: State) {
 	const m = s.manifest!;
 	if (m.engineVersion !== ENGINE_VERSION || m.result.engine?.version !== ENGINE_VERSION)
@@ -208,6 +211,9 @@ function checkRerun(s: State) {
 			`the engine refused the recorded settings: ${(error as Error).message}`
 		);
 	}
+	// Results recorded before these fields existed (same engine version) lack them: not a difference.
+	for (const key of LATER_RESULT_FIELDS)
+		if (!(key in m.result)) delete (rerun as Record<string, unknown>)[key];
 	const differs = firstDifference(m.result, rerun);
 	if (differs)
 		throw new Failure(`re-run: ${differs}`, 'the recorded result differs from the re-run here');
