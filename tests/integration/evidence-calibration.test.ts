@@ -21,6 +21,8 @@ import { signText } from '../../src/lib/evidence/signing';
 import { verifyEvidence } from '../../src/lib/evidence/verify';
 import { makeEvidence, type Evidence } from '../../src/lib/server/evidence/artifacts';
 import { publishedKeys, serviceKey } from '../../src/lib/server/evidence/keys';
+import { compareRuns } from '../../src/lib/server/services/referee';
+import type { CheckView } from '../../src/lib/server/services/checks';
 
 vi.setConfig({ testTimeout: 300_000, hookTimeout: 300_000 });
 
@@ -158,5 +160,16 @@ describe('evidence of a calibrated check', () => {
 		);
 		expect(evidenceOfOlder.manifest.result).not.toHaveProperty('calibrationTolerance');
 		expect(verifyEvidence(evidenceOfOlder.files).valid).toBe(true);
+	});
+
+	it('a referee re-run of such an older result is still identical; a real difference still shows', () => {
+		const { calibration: _c, calibrationTolerance: _t, ...older } = plain.manifest.result;
+		const view = (result: object) => ({ seed: 3, result }) as unknown as CheckView;
+		expect(compareRuns(view(older), view(plain.manifest.result))).toMatchObject({
+			identical: true,
+			firstDifference: null
+		});
+		const shifted = { ...plain.manifest.result, certifiedSchmidtNumber: 3 };
+		expect(compareRuns(view(older), view(shifted)).firstDifference).toBe('certifiedSchmidtNumber');
 	});
 });

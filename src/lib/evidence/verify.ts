@@ -6,7 +6,7 @@
  */
 import { certify, ENGINE_VERSION, parseCounts } from '../certify';
 import { canonicalJson, jsonRoundTrip, parseCanonical } from './canonical';
-import { firstDifference } from './compare';
+import { alignedRerun, firstDifference } from './compare';
 import { sha256Hex } from './hash';
 import {
 	BUNDLE_FILES,
@@ -188,9 +188,6 @@ function checkCalibration(s: State) {
 	s.passed.push(`${name} (manifest hash)`);
 }
 
-/** Result fields added without an engine version change (calibrated bases, witnesses.md §4.4). */
-const LATER_RESULT_FIELDS = ['calibration', 'calibrationTolerance'];
-
 function checkRerun(s: State) {
 	const m = s.manifest!;
 	if (m.engineVersion !== ENGINE_VERSION || m.result.engine?.version !== ENGINE_VERSION)
@@ -211,10 +208,8 @@ function checkRerun(s: State) {
 			`the engine refused the recorded settings: ${(error as Error).message}`
 		);
 	}
-	// Results recorded before these fields existed (same engine version) lack them: not a difference.
-	for (const key of LATER_RESULT_FIELDS)
-		if (!(key in m.result)) delete (rerun as Record<string, unknown>)[key];
-	const differs = firstDifference(m.result, rerun);
+	// Results recorded before the calibration fields existed (same engine version) lack them.
+	const differs = firstDifference(m.result, alignedRerun(m.result, rerun as object));
 	if (differs)
 		throw new Failure(`re-run: ${differs}`, 'the recorded result differs from the re-run here');
 	s.passed.push('re-run');
