@@ -10,6 +10,7 @@ import path from 'node:path';
 import { promisify } from 'node:util';
 import { describe, expect, it } from 'vitest';
 import { sha256Hex } from '../../src/lib/evidence/hash';
+import { reproduceCommand } from '../../src/lib/evidence/command-line';
 
 const run = promisify(execFile);
 const counts = path.resolve('tests/fixtures/calibrated-d3-product.csv');
@@ -55,6 +56,11 @@ describe('npm run certify -- --calibration FILE', () => {
 		expect(out.claim.verdict).toBe('not supported');
 		expect(out.calibration.sha256).toBe(sha256Hex(readFileSync(calibration)));
 		expect(out.bounds[0].bound).toBeCloseTo(1.6824093, 6);
+		// The check page's take-away command names the calibration; run as printed it gives the same JSON.
+		const command = reproduceCommand(out, counts, calibration);
+		expect(command).toContain(`--calibration ${calibration}`);
+		const words = command.replace('npm run --silent certify -- ', '').split(' ');
+		expect(JSON.parse((await cli(words)).stdout)).toEqual(out);
 		const readable = await cli([...base, '--calibration', calibration]);
 		expect(readable.stdout).toMatch(/calibrated bases\s+μ ≤ 1\.02361/);
 	});
