@@ -5,12 +5,15 @@
  * and false certificates (certified above the true Schmidt number).
  */
 import { certify, InputError, witnessFamilies, type MethodId } from '../src/lib/certify';
+import type { Calibration } from '../src/lib/certify/calibration';
 import { sampleTables, type TableState } from '../src/lib/certify/simulate-tables';
 
 export interface CoverageCase {
 	method: MethodId;
 	bases: number[];
 	state: TableState;
+	/** Measured bases the ladder uses (witnesses.md §4.4); the state's tables are in these bases. */
+	calibration?: Calibration;
 }
 
 export interface CoverageSettings {
@@ -51,7 +54,8 @@ export function runCoverage(c: CoverageCase, s: CoverageSettings): CoverageOutco
 				bases: c.bases,
 				confidence: s.confidence,
 				resamples: s.resamples,
-				seed: s.firstSeed + e + 1_000_000
+				seed: s.firstSeed + e + 1_000_000,
+				calibration: c.calibration
 			});
 			if (r.statistic.lower > truth) out.misses++;
 			if (fidelity !== null && r.statistic.lower > fidelity) out.missesOfFidelity++;

@@ -15,6 +15,7 @@ import {
 	simulatedState,
 	type TableState
 } from '../src/lib/certify/simulate-tables';
+import { calibratedCases } from './coverage-calibrated';
 import { missAllowance, runCoverage, type CoverageCase } from './coverage-run';
 
 const { values } = parseArgs({
@@ -49,7 +50,8 @@ export const coverageCases: CoverageCase[] = [
 	at('fidelity-two-basis', separableFourierCorrelated(13)),
 	at('fidelity-two-basis', phi(7, 3)),
 	at('fidelity-two-basis', isotropic(11, 0.8)),
-	at('fidelity-two-basis', mixture(8, 4, 0.9))
+	at('fidelity-two-basis', mixture(8, 4, 0.9)),
+	...calibratedCases()
 ];
 
 const settings = [

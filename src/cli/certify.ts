@@ -2,7 +2,7 @@
  * rankseal certify: check a counts file against a witness family from the command line.
  *   npm run --silent certify -- --counts FILE --dimension D --method METHOD
  *       [--fourier cyclic|field] [--bases 0,1] [--confidence 0.99865] [--resamples 10000] [--seed 1]
- *       [--claim K] [--json] [--threads N]
+ *       [--claim K] [--json] [--threads N] [--calibration FILE]
  * Blocks of resamples run on worker threads when the work repays it (same numbers for any N).
  * Exit status: 0 success, 2 bad input (one line on stderr), 1 internal error.
  */
@@ -21,12 +21,18 @@ import {
 	parseCounts,
 	type FourierConvention
 } from '../lib/certify';
+import { parseCalibration } from '../lib/certify/calibration';
+import { certifyTarget } from '../lib/certify/fidelity-target';
 import { threadedBlocks } from './blocks';
 import { readableReport } from './report';
 
 const USAGE = `usage: npm run --silent certify -- --counts FILE --dimension D --method ${METHOD_IDS.join('|')}
        [--fourier cyclic|field] [--bases 0,1] [--confidence ${DEFAULTS.confidence}] [--resamples ${DEFAULTS.resamples}]
-       [--seed ${DEFAULTS.seed}] [--claim K] [--json] [--subtract-accidentals] [--threads N]
+       [--seed ${DEFAULTS.seed}] [--claim K] [--json] [--subtract-accidentals] [--threads N] [--calibration FILE]
+  --method fidelity-target --target l0,l1,…  fidelity with the declared target Σ λ_m |mm⟩ (witnesses.md §4.3′):
+             basis 0 the computational table, basis 1 the table in the tilted vectors, same integration time
+  --calibration  the basis vectors as measured (JSON, witnesses.md §4.4; mub-correlation only): the ladder then
+             uses their overlaps instead of assuming exactly unbiased bases
   --fourier  which Fourier basis basis 1 is: cyclic = the Z_d transform d^-1/2 Σ ω^jm |m⟩ (every d; the default
              unless a JSON file declares "fourier"), field = the GF(p^s) basis and its d + 1 MUBs (prime powers
              only); for prime d the two are the same bases`;
@@ -55,6 +61,58 @@ function fourierOption(text: string | undefined, d: number): FourierConvention |
 	return text;
 }
 
+function readCalibration(path: string | undefined, d: number) {
+	if (path === undefined) return {};
+	let bytes: Uint8Array;
+	try {
+		bytes = readFileSync(path);
+	} catch (error) {
+		throw new InputError(
+			`cannot read --calibration ${path}: ${(error as NodeJS.ErrnoException).code ?? 'error'}`
+		);
+	}
+	return {
+		calibration: parseCalibration(bytes, d),
+		calibrationSha256: createHash('sha256').update(bytes).digest('hex')
+	};
+}
+
+function readCounts(file: string): Uint8Array {
+	try {
+		return readFileSync(file);
+	} catch (error) {
+		throw new InputError(
+			`cannot read --counts ${file}: ${(error as NodeJS.ErrnoException).code ?? 'error'}`
+		);
+	}
+}
+
+/** `--method fidelity-target`: exact bounds, no resampling (src/lib/certify/fidelity-target). */
+function runTarget(values: Record<string, string | boolean | undefined>): number {
+	if (typeof values.target !== 'string')
+		throw new InputError('--target l0,l1,… is required with --method fidelity-target');
+	const target = values.target.split(',').map((x) => decimal('target', x)!);
+	const dimension = wholeNumber('dimension', values.dimension as string)!;
+	const bytes = readCounts(values.counts as string);
+	const result = certifyTarget(parseCounts(bytes, dimension), {
+		target,
+		confidence: decimal('confidence', values.confidence as string | undefined),
+		claim: wholeNumber('claim', values.claim as string | undefined),
+		inputSha256: createHash('sha256').update(bytes).digest('hex')
+	});
+	const s = result.statistic;
+	const readable = [
+		`Rankseal check of ${values.counts}: fidelity-target, d = ${dimension}`,
+		`  F̃ = ${s.value.toFixed(5)}, lower bound ${s.lower.toFixed(5)} at ${result.confidence}`,
+		`  ladder Σ λ² up to r: ${result.bounds.map((b) => b.bound.toFixed(5)).join(', ')}`,
+		`  certified Schmidt number ≥ ${result.certifiedSchmidtNumber}` +
+			(result.claim ? `; claim ≥ ${result.claim.schmidtNumber} ${result.claim.verdict}` : ''),
+		...result.warnings.map((w) => `  note: ${w}`)
+	].join('\n');
+	process.stdout.write((values.json ? JSON.stringify(result) : readable) + '\n');
+	return 0;
+}
+
 async function run(argv: string[]): Promise<number> {
 	const { values } = parseArgs({
 		args: argv,
@@ -69,6 +127,8 @@ async function run(argv: string[]): Promise<number> {
 			seed: { type: 'string' },
 			claim: { type: 'string' },
 			threads: { type: 'string' },
+			calibration: { type: 'string' },
+			target: { type: 'string' },
 			json: { type: 'boolean', default: false },
 			'subtract-accidentals': { type: 'boolean', default: false },
 			help: { type: 'boolean', default: false }
@@ -83,6 +143,7 @@ async function run(argv: string[]): Promise<number> {
 	for (const required of ['counts', 'dimension', 'method'] as const) {
 		if (!values[required]) throw new InputError(`--${required} is required`);
 	}
+	if (values.method === 'fidelity-target') return runTarget(values);
 	if (!isMethodId(values.method!)) {
 		throw new InputError(
 			`--method must be one of ${METHOD_IDS.join(', ')}, got '${values.method}'`
@@ -101,6 +162,7 @@ async function run(argv: string[]): Promise<number> {
 	}
 	const dataset = parseCounts(bytes, dimension);
 	if (fourier) checkDeclaredFourier(dataset, fourier, `--fourier ${fourier}`);
+	const calibration = readCalibration(values.calibration, dimension);
 	const options = {
 		method: values.method!,
 		bases,
@@ -110,7 +172,8 @@ async function run(argv: string[]): Promise<number> {
 		seed: wholeNumber('seed', values.seed),
 		claim: wholeNumber('claim', values.claim),
 		subtractAccidentals: values['subtract-accidentals'],
-		inputSha256: createHash('sha256').update(bytes).digest('hex')
+		inputSha256: createHash('sha256').update(bytes).digest('hex'),
+		...calibration
 	};
 	const threads = wholeNumber('threads', values.threads);
 	const result = await certifyInBlocks(dataset, options, threadedBlocks(threads));

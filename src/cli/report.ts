@@ -31,6 +31,11 @@ export function readableReport(r: CertificationResult, file: string): string {
 	lines.push(
 		`  certified Schmidt number           ≥ ${r.certifiedSchmidtNumber}  (${r.resamples} resamples, seed ${r.seed})`
 	);
+	if (r.calibration)
+		lines.push(
+			`  calibrated bases  μ ≤ ${fmt(r.calibration.muUpper, 6)}, μ⁺ = ${fmt(r.calibration.muPlus, 6)} with ε = ${r.calibration.tolerance} (largest bias ${fmt(r.calibration.largestBias, 4)}); calibration SHA-256 ${r.calibration.sha256}`
+		);
+	if (r.calibrationTolerance) lines.push(`  calibration       ${r.calibrationTolerance.note}`);
 	if (r.steeringRobustness)
 		lines.push(
 			`  steering robustness                ≥ ${fmt(r.steeringRobustness.lower, 4)} at the confidence bound (≥ ${fmt(r.steeringRobustness.value, 4)} at the point value; both are lower bounds)`

@@ -58,6 +58,11 @@ describe('landing page', () => {
 		expect(certified).toBeGreaterThanOrEqual(1);
 		expect(certified).toBeLessThanOrEqual(7);
 		await expect(page.getByTestId('statistic').textContent()).resolves.toMatch(/\d\.\d+ ± \d\.\d+/);
+		// Beside the certified number: how far from unbiased the bases may be (docs/statistics.md §8).
+		if (certified > 1)
+			await expect(page.getByTestId('calibration-tolerance').textContent()).resolves.toMatch(
+				/holds for bases unbiased to within \d+(\.\d+)? %/
+			);
 	});
 
 	it('draws one rung per bound: six for d = 7, and both charts', async () => {
@@ -75,6 +80,9 @@ describe('landing page', () => {
 		expect(certified).toBeGreaterThanOrEqual(1);
 		expect(certified).toBeLessThanOrEqual(7);
 		await expect(page.getByTestId('result').textContent()).resolves.toContain('seed 7');
+		await expect(page.getByTestId('calibration-tolerance').textContent()).resolves.toMatch(
+			/Side B’s tolerance is not computed/
+		);
 		expect(await page.locator('[data-testid="ladder-chart"] [data-rung]').count()).toBe(6);
 	});
 

@@ -28,7 +28,8 @@ describe('database', () => {
 			'0010-check-attempts',
 			'0011-analyses',
 			'0012-ledger-key-entries',
-			'0014-no-live-secrets'
+			'0014-no-live-secrets',
+			'0016-dataset-calibration'
 		]);
 	});
 

@@ -10,6 +10,12 @@ import type { EntropicSum } from './physical';
 import { planCertification, type CertificationPlan, type CertifyOptions } from './plan';
 import { correlationSumBound, fidelityBound, type StatisticBound } from './statistic-bound';
 import { warningsFor } from './warnings';
+import {
+	calibratedBounds,
+	calibrationTolerance,
+	type CalibrationSummary,
+	type CalibrationTolerance
+} from './calibration';
 import { noiseScale, visibilityOf } from './visibility';
 import type { MethodId, Trust } from './witnesses';
 
@@ -51,6 +57,10 @@ export interface CertificationResult {
 	totalCounts: number;
 	/** Plug-in Maassen–Uffink sums on each trusted side (information; the refusal test is exact). */
 	entropicSums: EntropicSum[];
+	/** The measured bases the ladder used (witnesses.md §4.4), or null for the declared bases. */
+	calibration: CalibrationSummary | null;
+	/** Correlation sums: how far from unbiased the bases may be for the certificate to hold. */
+	calibrationTolerance: CalibrationTolerance | null;
 	warnings: string[];
 	engine: { version: string; generator: string; poisson: string; gamma: string };
 }
@@ -88,7 +98,10 @@ export function finishCertification(
 		replicates
 	});
 	const { value, lower, standardError } = statistic;
-	const bounds = family.bounds(d, bases);
+	const calibration = plan.calibration;
+	const bounds = calibration
+		? calibratedBounds(calibration.muPlus, bases.length, d)
+		: family.bounds(d, bases);
 	const scale = noiseScale(family, d, bases);
 	const margins = marginsInStandardErrors(value, bounds, standardError);
 	const criticalVisibilities = bounds.map((b) => visibilityOf(b, scale));
@@ -141,6 +154,15 @@ export function finishCertification(
 		resampling: subtract || rates ? 'per-cell' : 'sufficient-totals',
 		totalCounts,
 		entropicSums,
+		calibration,
+		calibrationTolerance: calibrationTolerance({
+			method,
+			lower,
+			certified,
+			m: bases.length,
+			d,
+			calibrated: calibration !== null
+		}),
 		warnings: warningsFor({ method, d, fourier, subtract, rates, resamples, confidence }),
 		engine: {
 			version: ENGINE_VERSION,

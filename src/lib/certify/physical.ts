@@ -35,13 +35,17 @@ function entropyBits(counts: Float64Array): number {
 }
 
 /** Throws an InputError naming side, bases and outcomes; returns the smallest entropy sum per side. */
+/** The largest P_s(j) + P_t(k) any state gives, for tables i, k and outcomes j, l: 1 + |⟨j_s|l_t⟩|. */
+export type PairLimit = (i: number, k: number, j: number, l: number) => number;
+
 export function checkQuantumMarginals(
 	tables: CountTable[],
 	d: number,
-	sides: Side[]
+	sides: Side[],
+	pairLimit?: PairLimit
 ): EntropicSum[] {
 	const alpha = REFUSAL_ERROR / (sides.length * tables.length * d);
-	const limit = 1 + 1 / Math.sqrt(d);
+	const unbiased = 1 + 1 / Math.sqrt(d);
 	const out: EntropicSum[] = [];
 	for (const side of sides) {
 		const marginals = tables.map((t) => marginal(t, d, side));
@@ -54,11 +58,14 @@ export function checkQuantumMarginals(
 		for (let i = 0; i < tables.length; i++) {
 			for (let k = i + 1; k < tables.length; k++) {
 				const [s, t] = [tables[i].basis, tables[k].basis];
+				const limit = pairLimit ? pairLimit(i, k, best[i].outcome, best[k].outcome) : unbiased;
 				if (best[i].lower + best[k].lower > limit) {
+					const what = pairLimit
+						? `these calibrated bases (their lower limits add to ${(best[i].lower + best[k].lower).toFixed(4)}, above 1 + |⟨j|k⟩| = ${limit.toFixed(4)})`
+						: `these unbiased bases (their lower limits add to ${(best[i].lower + best[k].lower).toFixed(4)}, above 1 + 1/√${d} = ${limit.toFixed(4)})`;
 					throw new InputError(
 						`side ${side}: outcome ${best[i].outcome} in basis ${s} and outcome ${best[k].outcome} in basis ${t} ` +
-							`are too frequent for any quantum state measured in these unbiased bases ` +
-							`(their lower limits add to ${(best[i].lower + best[k].lower).toFixed(4)}, above 1 + 1/√${d} = ${limit.toFixed(4)}); ` +
+							`are too frequent for any quantum state measured in ${what}; ` +
 							`check the basis labels and the outcome order`
 					);
 				}

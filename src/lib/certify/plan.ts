@@ -19,6 +19,12 @@ import {
 } from './counts';
 import { CONFIDENCE, RESAMPLES, resamplesProblem } from './limits';
 import { checkQuantumMarginals, type EntropicSum } from './physical';
+import {
+	calibratedPairLimit,
+	calibrationSummary,
+	type Calibration,
+	type CalibrationSummary
+} from './calibration';
 import { checkSeed } from './poisson';
 import { boundDrawSpec, type BoundInputs } from './statistic-bound';
 import { isMethodId, witnessFamilies, type MethodId, type WitnessFamily } from './witnesses';
@@ -41,6 +47,10 @@ export interface CertifyOptions {
 	/** Subtract the file's accidental estimates; the result is then labelled background-subtracted. */
 	subtractAccidentals?: boolean;
 	inputSha256?: string;
+	/** Measured basis vectors (witnesses.md §4.4): the ladder then uses their overlaps. */
+	calibration?: Calibration;
+	/** SHA-256 of the calibration file's bytes, recorded on the result. */
+	calibrationSha256?: string;
 	onProgress?: (fraction: number) => void;
 }
 
@@ -62,6 +72,7 @@ export interface CertificationPlan {
 	inputs: BoundInputs;
 	draws: DrawSpec;
 	inputSha256: string | null;
+	calibration: CalibrationSummary | null;
 }
 
 function checkOptions(options: CertifyOptions, d: number) {
@@ -115,6 +126,14 @@ export function planCertification(
 	const tooMany = resamplesProblem(resamples, d, bases.length);
 	if (tooMany) throw new InputError(tooMany);
 	requireCompleteTables(dataset, bases, method);
+	const calibration = options.calibration
+		? calibrationSummary(options.calibration, {
+				method,
+				d,
+				bases,
+				sha256: options.calibrationSha256
+			})
+		: null;
 	const tables = bases.map((t) => dataset.tables.find((x) => x.basis === t)!);
 	const subtract = !!options.subtractAccidentals && tables.some((t) => t.accidentals !== null);
 	if (options.subtractAccidentals && !subtract)
@@ -122,7 +141,12 @@ export function planCertification(
 	const rates = hasUnequalDurations(tables);
 	const entropicSums = rates
 		? []
-		: checkQuantumMarginals(tables, d, family.trust === 'device-dependent' ? ['A', 'B'] : ['B']);
+		: checkQuantumMarginals(
+				tables,
+				d,
+				family.trust === 'device-dependent' ? ['A', 'B'] : ['B'],
+				options.calibration ? calibratedLimit(options.calibration, bases) : undefined
+			);
 	const inputs: BoundInputs = {
 		family,
 		tables,
@@ -154,7 +178,8 @@ export function planCertification(
 		entropicSums,
 		inputs,
 		draws,
-		inputSha256
+		inputSha256,
+		calibration
 	};
 }
 
@@ -167,4 +192,10 @@ function fourierOf(dataset: CountsDataset, requested: unknown): FourierConventio
 	if (problem) throw new InputError(problem);
 	checkDeclaredFourier(dataset, fourier, 'the check');
 	return fourier;
+}
+
+/** The refusal test's limits from the calibrated overlaps (the bases are in the check's order). */
+function calibratedLimit(calibration: Calibration, bases: number[]) {
+	const used = bases.map((t) => calibration.bases.find((b) => b.basis === t)!);
+	return calibratedPairLimit(used, calibration.dimension, calibration.tolerance);
 }

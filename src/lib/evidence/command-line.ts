@@ -9,7 +9,14 @@ export function shellWord(word: string): string {
 	return /^[A-Za-z0-9._\/+=:,-]+$/.test(word) ? word : `'${word.replaceAll("'", `'\\''`)}'`;
 }
 
-export function reproduceCommand(result: CertificationResult, countsFile: string): string {
+/** The calibration file's name in the evidence bundle, where a calibrated check's file is found. */
+export const CALIBRATION_ARGUMENT = 'calibration.json';
+
+export function reproduceCommand(
+	result: CertificationResult,
+	countsFile: string,
+	calibrationFile = CALIBRATION_ARGUMENT
+): string {
 	const options: [string, string | number | null][] = [
 		['--counts', shellWord(countsFile)],
 		['--dimension', result.dimension],
@@ -22,6 +29,7 @@ export function reproduceCommand(result: CertificationResult, countsFile: string
 	];
 	if (result.claim) options.push(['--claim', result.claim.schmidtNumber]);
 	if (result.backgroundSubtracted) options.push(['--subtract-accidentals', null]);
+	if (result.calibration) options.push(['--calibration', shellWord(calibrationFile)]);
 	options.push(['--json', null]);
 	const words = options.map(([name, value]) => (value === null ? name : `${name} ${value}`));
 	return ['npm run --silent certify --', ...words].join(' ');

@@ -23,3 +23,13 @@ export function firstDifference(expected: unknown, actual: unknown, path = ''): 
 	}
 	return null;
 }
+
+/** Result fields added without an engine version change (calibrated bases, witnesses.md §4.4). */
+const LATER_RESULT_FIELDS = ['calibration', 'calibrationTolerance'];
+
+/** The re-run without the later fields a result recorded before them lacks (a copy). */
+export function alignedRerun(recorded: object, rerun: object): Record<string, unknown> {
+	const out = { ...(rerun as Record<string, unknown>) };
+	for (const key of LATER_RESULT_FIELDS) if (!(key in recorded)) delete out[key];
+	return out;
+}

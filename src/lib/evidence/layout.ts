@@ -19,6 +19,9 @@ export const BUNDLE_FILES = {
 	verifier: 'verify.mjs'
 } as const;
 
+/** The measured basis vectors as uploaded (witnesses.md §4.4): only when the check used them. */
+export const CALIBRATION_FILE = 'calibration.json';
+
 export const uploadedCountsName = (format: 'csv' | 'json') => `counts-uploaded.${format}`;
 
 export const CONTENTS_FORMAT = 'rankseal-contents/1';

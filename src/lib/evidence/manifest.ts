@@ -11,6 +11,7 @@ import {
 	type MethodId
 } from '../certify';
 import type { EvidenceAnalyses } from './analyses';
+import { parseCalibration } from '../certify/calibration';
 import { canonicalJson, jsonRoundTrip } from './canonical';
 import { sha256Hex } from './hash';
 
@@ -43,6 +44,12 @@ export interface EvidenceCounts {
 	canonicalSha256: string;
 }
 
+/** The calibration file the check used (witnesses.md §4.4); absent when it used none. */
+export interface EvidenceCalibration {
+	uploadedSha256: string;
+	uploadedBytes: number;
+}
+
 export interface EvidenceManifest {
 	format: typeof MANIFEST_FORMAT;
 	certificateId: string;
@@ -55,6 +62,7 @@ export interface EvidenceManifest {
 	claim: EvidenceClaim;
 	parameters: EvidenceParameters;
 	counts: EvidenceCounts;
+	calibration?: EvidenceCalibration;
 	result: CertificationResult;
 	/**
 	 * Every distinct analysis of these counts up to this certificate (issue 15); absent in
@@ -82,10 +90,22 @@ export const manifestText = (manifest: EvidenceManifest): string => canonicalJso
 /** The certificate's fingerprint: SHA-256 of the canonical manifest text. */
 export const fingerprintOf = (text: string): string => sha256Hex(text);
 
-/** The engine options that reproduce the recorded result (issuance and verification alike). */
-export function certifyOptionsOf(manifest: EvidenceManifest): CertifyOptions {
+/**
+ * The engine options that reproduce the recorded result (issuance and verification alike); the
+ * calibration file's bytes when the manifest names one.
+ */
+export function certifyOptionsOf(
+	manifest: EvidenceManifest,
+	calibration?: Uint8Array
+): CertifyOptions {
 	const { claim, parameters, counts } = manifest;
 	return {
+		...(manifest.calibration && calibration
+			? {
+					calibration: parseCalibration(calibration, claim.dimension),
+					calibrationSha256: manifest.calibration.uploadedSha256
+				}
+			: {}),
 		method: claim.method,
 		bases: claim.bases,
 		fourier: claim.fourier,

@@ -8,10 +8,11 @@ import { certify, ENGINE_VERSION, parseCounts } from '../certify';
 import { analysesProblem } from './analyses';
 import { canonicalJson, jsonRoundTrip, parseCanonical } from './canonical';
 import { checkpointSigned, parseCheckpoint, type LedgerCheckpoint } from './checkpoint';
-import { firstDifference } from './compare';
+import { alignedRerun, firstDifference } from './compare';
 import { sha256Hex } from './hash';
 import {
 	BUNDLE_FILES,
+	CALIBRATION_FILE,
 	CONTENTS_FORMAT,
 	keyIdsOfList,
 	uploadedCountsName,
@@ -184,6 +185,7 @@ function checkCounts(s: State) {
 	if (canonical !== expected)
 		throw new Failure(BUNDLE_FILES.canonicalCounts, 'it does not hold the uploaded counts');
 	s.passed.push(BUNDLE_FILES.canonicalCounts);
+	checkCalibration(s);
 	if (text(s.files, BUNDLE_FILES.result) !== canonicalJson(m.result))
 		throw new Failure(BUNDLE_FILES.result, 'it differs from the result in the manifest');
 	s.passed.push(BUNDLE_FILES.result);
@@ -196,6 +198,26 @@ function checkAnalyses(s: State) {
 	const problem = analysesProblem(m.analyses, m.parameters.confidence);
 	if (problem) throw new Failure('analyses', problem);
 	s.passed.push('analyses');
+}
+
+/** The calibration file the manifest names (and only then) must be there, with its hash. */
+function checkCalibration(s: State) {
+	const m = s.manifest!;
+	const name = CALIBRATION_FILE;
+	const recorded = m.result.calibration?.sha256 ?? null;
+	if (!m.calibration) {
+		if (s.files[name] || recorded)
+			throw new Failure(name, 'a calibration is present but the manifest names none');
+		return;
+	}
+	const bytes = s.files[name];
+	if (!bytes) throw new Failure(name, 'the file is missing');
+	if (
+		sha256Hex(bytes) !== m.calibration.uploadedSha256 ||
+		recorded !== m.calibration.uploadedSha256
+	)
+		throw new Failure(name, 'its SHA-256 differs from the manifest');
+	s.passed.push(`${name} (manifest hash)`);
 }
 
 function checkRerun(s: State) {
@@ -211,14 +233,15 @@ function checkRerun(s: State) {
 	);
 	let rerun: unknown;
 	try {
-		rerun = jsonRoundTrip(certify(dataset, certifyOptionsOf(m)));
+		rerun = jsonRoundTrip(certify(dataset, certifyOptionsOf(m, s.files[CALIBRATION_FILE])));
 	} catch (error) {
 		throw new Failure(
 			're-run',
 			`the engine refused the recorded settings: ${(error as Error).message}`
 		);
 	}
-	const differs = firstDifference(m.result, rerun);
+	// Results recorded before the calibration fields existed (same engine version) lack them.
+	const differs = firstDifference(m.result, alignedRerun(m.result, rerun as object));
 	if (differs)
 		throw new Failure(`re-run: ${differs}`, 'the recorded result differs from the re-run here');
 	s.passed.push('re-run');

@@ -93,7 +93,7 @@ const MULTIPART_OVERHEAD = 64 * 1024;
 export async function readCountsUpload(
 	request: Request,
 	url: URL
-): Promise<{ bytes: Uint8Array; originalName: string }> {
+): Promise<{ bytes: Uint8Array; originalName: string; calibration?: Uint8Array }> {
 	const type = (request.headers.get('content-type') ?? '').split(';')[0].trim().toLowerCase();
 	const tooLarge = new ApiError(
 		413,
@@ -118,7 +118,15 @@ export async function readCountsUpload(
 				'counts'
 			);
 		if (file.size > MAX_COUNTS_FILE_BYTES) throw tooLarge;
-		return { bytes: new Uint8Array(await file.arrayBuffer()), originalName: file.name || 'counts' };
+		// An optional calibration file beside the counts (witnesses.md §4.4).
+		const calibration = form.get('calibration');
+		return {
+			bytes: new Uint8Array(await file.arrayBuffer()),
+			originalName: file.name || 'counts',
+			...(calibration instanceof File && calibration.size > 0
+				? { calibration: new Uint8Array(await calibration.arrayBuffer()) }
+				: {})
+		};
 	}
 	if (type === 'text/csv' || type === 'application/json') {
 		const bytes = await readBody(request, MAX_COUNTS_FILE_BYTES).catch((error) => {

@@ -152,6 +152,7 @@ export class CheckRunner implements CheckQueue {
 			seed: Number(check.seed),
 			subtractAccidentals: !!check.subtractAccidentals,
 			claim: claim.claimedSchmidtNumber,
+			calibration: dataset.calibration ? new Uint8Array(dataset.calibration) : null,
 			port
 		};
 	}

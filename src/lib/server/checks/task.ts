@@ -17,6 +17,8 @@ export interface CheckTask {
 	confidence: number;
 	seed: number;
 	subtractAccidentals?: boolean;
+	/** The calibration file stored with the dataset (witnesses.md §4.4), when there is one. */
+	calibration?: Uint8Array | null;
 	/** The claimed Schmidt number, for the verdict. */
 	claim?: number;
 	port?: MessagePort;

@@ -5,6 +5,7 @@
  */
 import { readFile } from 'node:fs/promises';
 import { certify, InputError, parseCounts, type CertificationResult } from '../../certify';
+import { parseCalibration } from '../../certify/calibration';
 import { sha256Hex } from '../../evidence/hash';
 import type { CheckMessage, CheckTask } from './task';
 
@@ -30,7 +31,14 @@ export default async function runCheck(task: CheckTask): Promise<CertificationRe
 		throw new InputError('the stored counts file no longer matches its SHA-256');
 	}
 	const dataset = parseCounts(bytes, task.dimension);
+	const calibration = task.calibration
+		? {
+				calibration: parseCalibration(task.calibration, task.dimension),
+				calibrationSha256: sha256Hex(task.calibration)
+			}
+		: {};
 	return certify(dataset, {
+		...calibration,
 		method: task.method,
 		bases: task.bases,
 		fourier: task.fourier,

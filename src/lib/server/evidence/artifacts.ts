@@ -9,6 +9,7 @@ import type { LedgerCheckpoint } from '../../evidence/checkpoint';
 import { sha256Hex } from '../../evidence/hash';
 import {
 	BUNDLE_FILES,
+	CALIBRATION_FILE,
 	contentsText,
 	uploadedCountsName,
 	type EvidenceFiles
@@ -53,9 +54,14 @@ export interface Evidence {
 	zip: Buffer;
 }
 
-export type EvidenceInput = Omit<ManifestInput, 'counts' | 'signingKeyId' | 'engineVersion'> & {
+export type EvidenceInput = Omit<
+	ManifestInput,
+	'counts' | 'signingKeyId' | 'engineVersion' | 'calibration'
+> & {
 	uploaded: Uint8Array;
 	uploadedFormat: 'csv' | 'json';
+	/** The calibration file the check used, as uploaded. */
+	calibrationBytes?: Uint8Array | null;
 };
 
 const utf8 = (text: string) => new TextEncoder().encode(text);
@@ -102,9 +108,23 @@ export async function makeEvidence(
 	checkpoint?: LedgerCheckpoint
 ): Promise<Evidence> {
 	const { canonical, counts } = countsParts(input);
-	const { uploaded, uploadedFormat, ...rest } = input;
+	const { uploaded, uploadedFormat, calibrationBytes: calibration, ...rest } = input;
+	delete (rest as { calibration?: unknown }).calibration;
 	const engineVersion = input.result.engine.version;
-	const manifest = buildManifest({ ...rest, counts, signingKeyId: key.id, engineVersion });
+	const manifest = buildManifest({
+		...rest,
+		counts,
+		...(calibration
+			? {
+					calibration: {
+						uploadedSha256: sha256Hex(calibration),
+						uploadedBytes: calibration.byteLength
+					}
+				}
+			: {}),
+		signingKeyId: key.id,
+		engineVersion
+	});
 	const text = manifestText(manifest);
 	const fingerprint = fingerprintOf(text);
 	const signature = signText(text, key.secretKey);
@@ -112,6 +132,7 @@ export async function makeEvidence(
 	const files: EvidenceFiles = {
 		[uploadedCountsName(uploadedFormat)]: uploaded,
 		[BUNDLE_FILES.canonicalCounts]: utf8(canonical),
+		...(calibration ? { [CALIBRATION_FILE]: calibration } : {}),
 		[BUNDLE_FILES.manifest]: utf8(text),
 		[BUNDLE_FILES.signature]: utf8(signature + '\n'),
 		[BUNDLE_FILES.publicKey]: utf8(key.publicKey + '\n'),

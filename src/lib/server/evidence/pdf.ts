@@ -13,6 +13,7 @@ import type { EvidenceManifest } from '../../evidence/manifest';
 import { drawAnalyses } from './pdf-analyses';
 import { drawLadder } from './pdf-ladder';
 import { ACCENT, drawQr, field, heading, INK, MUTED, numberPages } from './pdf-parts';
+import { calibrationLine } from './pdf-calibration';
 
 type Doc = PDFKit.PDFDocument;
 
@@ -135,6 +136,9 @@ function verdict(doc: Doc, m: EvidenceManifest) {
 	heading(doc, 'Result');
 	doc.font('serif-bold').fontSize(13).fillColor(ACCENT);
 	doc.text(`Certified Schmidt number: ${m.result.certifiedSchmidtNumber}`);
+	const bases = calibrationLine(m.result);
+	if (bases) doc.font('serif').fontSize(9.5).fillColor(INK).text(bases);
+	doc.font('serif-bold').fontSize(13).fillColor(ACCENT);
 	const claim = m.result.claim;
 	const said = claim
 		? `Verdict on the claimed ${claim.schmidtNumber}: ${claim.verdict}`

@@ -98,7 +98,8 @@ function evidenceInput(
 		result,
 		analyses,
 		uploaded,
-		uploadedFormat: dataset.format
+		uploadedFormat: dataset.format,
+		calibrationBytes: dataset.calibration ? new Uint8Array(dataset.calibration) : null
 	};
 }
 

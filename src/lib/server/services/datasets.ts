@@ -17,6 +17,7 @@ import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
 import type { DatasetAttributes, DatasetSummary, PreviewTable } from '../db/models/Dataset';
 import { audit } from './audit';
+import { checkCalibrationUpload } from './dataset-calibration';
 import { ConflictError, NotFoundError } from './errors';
 import { refuseOverQuota } from './group-storage';
 import { newId } from './ids';
@@ -32,6 +33,8 @@ export interface DatasetView {
 	originalName: string;
 	createdAt: string;
 	summary: DatasetSummary;
+	/** SHA-256 of the calibration file uploaded beside the counts (witnesses.md §4.4), or null. */
+	calibrationSha256: string | null;
 }
 
 export interface DatasetTables {
@@ -61,7 +64,8 @@ const view = (row: DatasetAttributes): DatasetView => ({
 	format: row.format,
 	originalName: row.originalName,
 	createdAt: new Date(row.createdAt ?? 0).toISOString(),
-	summary: row.summary
+	summary: row.summary,
+	calibrationSha256: row.calibrationSha256 ?? null
 });
 
 /** Writes the bytes under their hash unless they are there already; true when this call wrote them. */
@@ -114,9 +118,10 @@ export async function addDataset(
 	database: Database,
 	actor: Actor,
 	claimId: string,
-	upload: { bytes: Uint8Array; originalName: string }
+	upload: { bytes: Uint8Array; originalName: string; calibration?: Uint8Array | null }
 ): Promise<DatasetView> {
 	const claim = await requireClaim(database, actor, claimId, 'add-dataset');
+	const calibrated = checkCalibrationUpload(upload.calibration, claim);
 	const userId = accountIdOf(actor)!;
 	const { bytes } = upload;
 	const runner = await startCheckRunner(database);
@@ -143,12 +148,18 @@ export async function addDataset(
 					originalName,
 					summary: read.summary,
 					preview: read.preview,
-					countsSha256: read.countsSha256
+					countsSha256: read.countsSha256,
+					...calibrated
 				},
 				{ transaction }
 			);
 			wrote = (await storeBytes(sha256, bytes)) || wrote;
-			const details = { sha256, byteSize: bytes.byteLength, originalName };
+			const details = {
+				sha256,
+				byteSize: bytes.byteLength,
+				originalName,
+				...(calibrated ? { calibrationSha256: calibrated.calibrationSha256 } : {})
+			};
 			await audit(
 				database,
 				{

@@ -5,7 +5,7 @@
 import { readFile } from 'node:fs/promises';
 import type { CertificationResult } from '$lib/certify';
 import { checkRequestJsonSchema, checkRequestSchema } from '$lib/claims/schema';
-import { firstDifference } from '$lib/evidence/compare';
+import { alignedRerun, firstDifference } from '$lib/evidence/compare';
 import type { Actor, RefereeActor } from '../access/actor';
 import { requireClaim } from '../access/permissions';
 import type { Database } from '../db';
@@ -83,7 +83,7 @@ export function compareRuns(certified: CheckView, rerun: CheckView): Comparison 
 	const a = certified.result as CertificationResult;
 	const b = rerun.result;
 	if (!b) return { sameSeed, identical: null, withinError: null, firstDifference: null };
-	const difference = firstDifference(a, b);
+	const difference = firstDifference(a, alignedRerun(a, b));
 	const withinError = Math.abs(a.statistic.lower - b.statistic.lower) <= a.statistic.standardError;
 	return { sameSeed, identical: difference === null, withinError, firstDifference: difference };
 }

@@ -12,6 +12,7 @@ import * as checkAttempts from './0010-check-attempts';
 import * as analyses from './0011-analyses';
 import * as ledgerKeyEntries from './0012-ledger-key-entries';
 import * as noLiveSecrets from './0014-no-live-secrets';
+import * as datasetCalibration from './0016-dataset-calibration';
 
 export const migrations = [
 	{ name: '0001-initial', ...initial },
@@ -26,5 +27,6 @@ export const migrations = [
 	{ name: '0010-check-attempts', ...checkAttempts },
 	{ name: '0011-analyses', ...analyses },
 	{ name: '0012-ledger-key-entries', ...ledgerKeyEntries },
-	{ name: '0014-no-live-secrets', ...noLiveSecrets }
+	{ name: '0014-no-live-secrets', ...noLiveSecrets },
+	{ name: '0016-dataset-calibration', ...datasetCalibration }
 ];

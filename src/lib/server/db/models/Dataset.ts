@@ -31,6 +31,9 @@ export interface DatasetAttributes {
 	preview?: PreviewTable[] | null;
 	/** SHA-256 of the canonical counts text (migration 0011): equal counts, one file; null until read. */
 	countsSha256?: string | null;
+	/** The calibration file as uploaded beside the counts (migration 0016), and its SHA-256. */
+	calibration?: Uint8Array | null;
+	calibrationSha256?: string | null;
 	createdAt?: Date;
 	updatedAt?: Date;
 }
@@ -50,7 +53,9 @@ export function defineDataset(sequelize: Sequelize): DatasetModel {
 			originalName: { type: DataTypes.STRING, allowNull: false },
 			summary: { type: DataTypes.JSON, allowNull: false },
 			preview: { type: DataTypes.JSON, allowNull: true },
-			countsSha256: { type: DataTypes.STRING(64), allowNull: true }
+			countsSha256: { type: DataTypes.STRING(64), allowNull: true },
+			calibration: { type: DataTypes.BLOB, allowNull: true },
+			calibrationSha256: { type: DataTypes.STRING(64), allowNull: true }
 		},
 		{ tableName: 'datasets', underscored: true }
 	);

@@ -58,7 +58,9 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 export const actions: Actions = {
 	upload: async ({ request, locals, params, url }) => {
 		const actor = requireSignedIn(locals, url);
-		const file = (await request.formData()).get('counts');
+		const form = await request.formData();
+		const file = form.get('counts');
+		const calibrationFile = form.get('calibration');
 		// The file's name is the one value worth echoing: the page says which file was refused.
 		const values: Record<string, string> = file instanceof File ? { counts: file.name } : {};
 		if (!(file instanceof File) || file.size === 0) {
@@ -73,7 +75,11 @@ export const actions: Actions = {
 		let datasetId: string;
 		try {
 			const bytes = new Uint8Array(await file.arrayBuffer());
-			const upload = { bytes, originalName: file.name };
+			const calibration =
+				calibrationFile instanceof File && calibrationFile.size > 0
+					? new Uint8Array(await calibrationFile.arrayBuffer())
+					: null;
+			const upload = { bytes, originalName: file.name, calibration };
 			datasetId = (await addDataset(database, actor, params.id, upload)).id;
 		} catch (problem) {
 			return formFailure('upload', problem, values);

@@ -137,7 +137,15 @@ export const openApiDocument = {
 							schema: {
 								type: 'object',
 								required: ['counts'],
-								properties: { counts: { type: 'string', format: 'binary' } }
+								properties: {
+									counts: { type: 'string', format: 'binary' },
+									calibration: {
+										type: 'string',
+										format: 'binary',
+										description:
+											'Optional (mub-correlation only): the measured basis vectors, {"dimension": d, "bases": [{"basis": t, "vectors": [[[re, im], …]]}], "tolerance": ε}; refused with bad_input, field calibration.'
+									}
+								}
 							}
 						},
 						'text/csv': { schema: { type: 'string' } },

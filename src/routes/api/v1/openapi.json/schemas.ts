@@ -202,6 +202,10 @@ export const schemas = {
 			format: { type: 'string', enum: ['csv', 'json'] },
 			originalName: text,
 			createdAt: timestamp,
+			calibrationSha256: {
+				anyOf: [{ type: 'string', pattern: '^[0-9a-f]{64}$' }, { type: 'null' }],
+				description: 'SHA-256 of the calibration file uploaded beside the counts, or null.'
+			},
 			summary: {
 				type: 'object',
 				properties: {
@@ -367,6 +371,26 @@ export const schemas = {
 			backgroundSubtracted: { type: 'boolean' },
 			resampling: { type: 'string', enum: ['sufficient-totals', 'per-cell'] },
 			totalCounts: number,
+			calibration: nullable({
+				type: 'object',
+				description: 'The measured bases the ladder used (witnesses.md §4.4).',
+				properties: {
+					sha256: nullable(text),
+					tolerance: number,
+					bases: { type: 'array', items: whole },
+					mu: number,
+					muUpper: number,
+					muPlus: number,
+					largestBias: number,
+					eigenvalueMethod: { type: 'string', enum: ['cholesky-certified', 'gershgorin'] }
+				}
+			}),
+			calibrationTolerance: nullable({
+				type: 'object',
+				description:
+					'Correlation sums: the largest δ such that the certificate holds for any bases with every d·|⟨a_t|b_s⟩|² within 1 ± δ (null value: not computed, with the reason).',
+				properties: { value: nullable(number), note: text }
+			}),
 			warnings: { type: 'array', items: text },
 			engine: { type: 'object', properties: { version: text, generator: text, poisson: text } }
 		}

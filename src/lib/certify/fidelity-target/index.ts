@@ -1,0 +1,4 @@
+/** Fidelity with a declared non-maximally entangled target (witnesses.md §4.3′). */
+export { targetBounds, targetCoefficients, targetFidelity, whiteNoiseValue } from './statistic';
+export { targetLowerBound, targetPointValue, targetUpperBound, type TargetData } from './bound';
+export { certifyTarget, type TargetOptions, type TargetResult } from './certify-target';
