@@ -73,6 +73,8 @@ export const ROOMY_RATE_LIMITS = JSON.stringify({
 	invitations: { points: 10000 },
 	reviewUse: { points: 100000 },
 	reviewRefused: { free: 10000, cap: 20000 },
+	sealBundle: { points: 10000 },
+	sealLookup: { points: 100000 },
 	mailPerRecipient: { points: 10000 }
 });
 

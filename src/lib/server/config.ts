@@ -15,6 +15,8 @@ export interface ServerConfig {
 	/** Seed the demo scenario at start-up. */
 	demo: boolean;
 	checkWorkers: number;
+	/** Threads of the work pool kept for short tasks (uploads, /seal bundles, self-checks). */
+	shortTaskWorkers: number;
 	/** Queued + running checks one person (or token owner) may have at once. */
 	checksPerUser: number;
 	/** Queued + running checks of one group's members at once (review re-runs count apart). */
@@ -44,6 +46,7 @@ export function config(): ServerConfig {
 		mailCatcherPort: Number(env.MAIL_CATCHER_PORT ?? '2525'),
 		demo: env.RANKSEAL_DEMO === '1',
 		checkWorkers: Math.max(1, Number(env.RANKSEAL_CHECK_WORKERS ?? '2')),
+		shortTaskWorkers: positive(env.RANKSEAL_SHORT_TASK_WORKERS, 1),
 		checksPerUser: positive(env.RANKSEAL_CHECKS_PER_USER, 4),
 		checksPerGroup: positive(env.RANKSEAL_CHECKS_PER_GROUP, 8),
 		checkRetryAfterSeconds: positive(env.RANKSEAL_CHECK_RETRY_AFTER_S, 30),

@@ -1,7 +1,8 @@
 /**
  * Everything a certificate consists of, made in memory before anything is stored: the signed
- * manifest, the PDF, the bundle's files and the zip. The bundle is checked with the same
- * verifier a stranger runs, so that no certificate is issued that would not verify.
+ * manifest, the PDF, the bundle's files and the zip. Issuing then checks the bundle with the same
+ * verifier a stranger runs, on the work pool (services/certificates.ts), so that no certificate
+ * is issued that would not verify.
  */
 import { parseCounts } from '../../certify';
 import { canonicalJson } from '../../evidence/canonical';
@@ -21,7 +22,6 @@ import {
 	type ManifestInput
 } from '../../evidence/manifest';
 import { signText, type SigningKey } from '../../evidence/signing';
-import { verifyEvidence } from '../../evidence/verify';
 import { fillPlaceholders } from '../templates';
 import { certificatePdf } from './pdf';
 import { verifierBytes } from './verifier-file';
@@ -123,9 +123,4 @@ export async function makeEvidence(
 	const folder = `rankseal-${manifest.certificateId}`;
 	const zip = await zipFiles(files, new Date(manifest.issuedAt), folder);
 	return { manifest, manifestText: text, fingerprint, signature, pdf, files, zip };
-}
-
-/** The verifier's verdict on freshly made evidence; a failure here is a reason not to issue. */
-export function selfCheck(evidence: Evidence) {
-	return verifyEvidence(evidence.files);
 }
