@@ -72,7 +72,7 @@ export function pacedBundles(name: string) {
 	let released = false;
 	let listeners: (() => void)[] = [];
 	channel.onmessage = (event) => {
-		const n = (event as MessageEvent).data?.started;
+		const n = (event as unknown as { data?: { started?: string } }).data?.started;
 		if (n === undefined) return;
 		started.push(n);
 		if (released) channel.postMessage({ go: n });

@@ -28,7 +28,9 @@ const unreadable = (message: string): VerificationReport => ({
 export async function verifyBundle(task: BundleTask): Promise<VerificationReport> {
 	let files: EvidenceFiles;
 	try {
-		files = await readZipStreamed(Buffer.from(task.zip.buffer, task.zip.byteOffset, task.zip.byteLength));
+		files = await readZipStreamed(
+			Buffer.from(task.zip.buffer, task.zip.byteOffset, task.zip.byteLength)
+		);
 	} catch (error) {
 		if (!(error instanceof ZipError)) throw error;
 		return unreadable(error.message);

@@ -50,13 +50,12 @@ function entryRaw(zip: Buffer, local: number, compressed: number): Buffer {
 	return zip.subarray(start, start + compressed);
 }
 
-/** Every file entry, with the caps on count, names and declared sizes checked before any inflating. */
-function listEntries(zip: Buffer): Entry[] {
+/** Each file entry in turn, its name and declared size checked before the caller inflates it. */
+function* listEntries(zip: Buffer): Generator<Entry> {
 	const end = endOfCentralDirectory(zip);
 	const count = zip.readUInt16LE(end + 10);
 	if (count > MAX_ENTRIES) throw new ZipError(`${count} entries is far more than a bundle holds`);
 	let at = zip.readUInt32LE(end + 16);
-	const entries: Entry[] = [];
 	const seen = new Set<string>();
 	let total = 0;
 	for (let i = 0; i < count; i++) {
@@ -76,10 +75,10 @@ function listEntries(zip: Buffer): Entry[] {
 		total += size;
 		if (size > MAX_ENTRY_BYTES || total > MAX_INFLATED_BYTES)
 			throw new ZipError('the archive inflates to more than any bundle holds');
-		if (method !== 0 && method !== 8) throw new ZipError(`unsupported compression method ${method}`);
-		entries.push({ name, method, size, raw: entryRaw(zip, local, compressed) });
+		if (method !== 0 && method !== 8)
+			throw new ZipError(`unsupported compression method ${method}`);
+		yield { name, method, size, raw: entryRaw(zip, local, compressed) };
 	}
-	return entries;
 }
 
 function sizeChecked(bytes: Buffer, size: number): Buffer {
@@ -107,7 +106,8 @@ function inflatedAsStream({ method, raw, size }: Entry): Promise<Buffer> {
 		let total = 0;
 		inflater.on('data', (chunk: Buffer) => {
 			total += chunk.length;
-			if (total > size) inflater.destroy(new ZipError('an entry is not the size the archive declares'));
+			if (total > size)
+				inflater.destroy(new ZipError('an entry is not the size the archive declares'));
 			else chunks.push(chunk);
 		});
 		inflater.on('error', (error) =>

@@ -110,7 +110,10 @@ async function prepare(
 	const urls = evidenceUrls(config().origin, id);
 	const evidence = await makeEvidence(input, key, urls, { keys: publishedKeys() });
 	const runner = await startCheckRunner(database);
-	const verdict = await runner.selfCheck(evidence.files, `issue:${accountIdOf(caller) ?? 'service'}`);
+	const verdict = await runner.selfCheck(
+		evidence.files,
+		`issue:${accountIdOf(caller) ?? 'service'}`
+	);
 	if (!verdict.valid)
 		throw new ConflictError(
 			`This check cannot be certified (${verdict.failedItem}: ${verdict.message}); run the check again`
