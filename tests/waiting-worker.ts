@@ -3,9 +3,9 @@
  * (summariseCounts), but a check reports 'started' (its row says running) and then waits until the
  * runner aborts it: a cancel, a stop or a kill moves it on, never a time. With `onlySeed`, only
  * checks of that seed wait and the others run for real; with `announce: false` the check never
- * reports 'started', so its row stays queued. With `bundleChannel`, a /seal bundle check too
- * waits: it says `{ started: n }` on that BroadcastChannel and runs for real once it hears
- * `{ go: n }` (pacedBundles below is the test's end).
+ * reports 'started', so its row stays queued. With `held`, the named short tasks (a /seal bundle
+ * check, reading an upload) wait too: each says `{ started: n }` on that BroadcastChannel and runs
+ * for real once it hears `{ go: n }` (pacedTasks below is the test's end).
  */
 import { BroadcastChannel } from 'node:worker_threads';
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
@@ -22,7 +22,11 @@ export interface WaitingWorker {
 }
 
 export async function waitingWorker(
-	options: { onlySeed?: number; announce?: boolean; bundleChannel?: string } = {}
+	options: {
+		onlySeed?: number;
+		announce?: boolean;
+		held?: { channel: string; tasks: ('verifyBundle' | 'summariseCounts')[] };
+	} = {}
 ): Promise<WaitingWorker> {
 	const folder = mkdtempSync(path.join(tmpdir(), 'rankseal-waiting-worker-'));
 	const realWorker = await bundleCheckWorker(path.join(folder, 'check-worker.mjs'));
@@ -34,26 +38,28 @@ export async function waitingWorker(
 		options.onlySeed === undefined
 			? ''
 			: `if (task.seed !== ${options.onlySeed}) return real.default(task); `;
-	const bundles = options.bundleChannel
-		? heldBundles(options.bundleChannel)
-		: 'export const verifyBundle = real.verifyBundle;\n';
+	const heldTasks = options.held?.tasks ?? [];
+	const named = (['summariseCounts', 'selfCheck', 'verifyBundle'] as const).map((name) =>
+		heldTasks.includes(name as never)
+			? `export const ${name} = (task) => held(real.${name}, task);\n`
+			: `export const ${name} = real.${name};\n`
+	);
 	// Through the namespace: a task the real worker lacks fails when asked for, not at loading.
 	writeFileSync(
 		file,
 		"import * as real from './check-worker.mjs';\n" +
-			'export const summariseCounts = real.summariseCounts;\n' +
-			'export const selfCheck = real.selfCheck;\n' +
-			bundles +
+			(options.held ? heldRunner(options.held.channel) : '') +
+			named.join('') +
 			`export default (task) => { ${seedTest}${held} };\n`
 	);
 	return { file, realWorker, remove: () => rmSync(folder, { recursive: true, force: true }) };
 }
 
-/** A verifyBundle that waits for its `go` on the channel before it runs the real one. */
-const heldBundles = (channel: string) => `
+/** Runs a real task once the test's `go` for it comes on the channel. */
+const heldRunner = (channel: string) => `
 import { BroadcastChannel, threadId } from 'node:worker_threads';
 let counter = 0;
-export async function verifyBundle(task) {
+async function held(run, task) {
 	const n = \`\${threadId}-\${++counter}\`;
 	const channel = new BroadcastChannel(${JSON.stringify(channel)});
 	await new Promise((go) => {
@@ -61,12 +67,12 @@ export async function verifyBundle(task) {
 		channel.postMessage({ started: n });
 	});
 	channel.close();
-	return real.verifyBundle(task);
+	return run(task);
 }
 `;
 
-/** The test's end of a bundleChannel: which bundle checks have started, and letting them run. */
-export function pacedBundles(name: string) {
+/** The test's end of a `held` channel: which tasks have started, and letting them run. */
+export function pacedTasks(name: string) {
 	const channel = new BroadcastChannel(name);
 	const started: string[] = [];
 	let released = false;
@@ -80,7 +86,7 @@ export function pacedBundles(name: string) {
 	};
 	return {
 		started,
-		/** Resolves once `count` bundle checks are held on worker threads. */
+		/** Resolves once `count` tasks are held on worker threads. */
 		whenStarted(count: number): Promise<void> {
 			return new Promise((done) => {
 				const heard = () => started.length >= count && done();
@@ -88,7 +94,7 @@ export function pacedBundles(name: string) {
 				heard();
 			});
 		},
-		/** Lets every held bundle check run, and every later one at once. */
+		/** Lets every held task run, and every later one at once. */
 		release(): void {
 			released = true;
 			for (const n of started) channel.postMessage({ go: n });

@@ -13,14 +13,14 @@ import type { UserActor } from '../../src/lib/server/access/actor';
 import { asUser } from './actors';
 import { addGroup, addUser, bytesOf, claimFields, countsCsv } from './backend-fixtures';
 import { finishedCheck, type EvidenceWorld } from './evidence-world';
-import { pacedBundles, waitingWorker } from '../waiting-worker';
+import { pacedTasks, waitingWorker } from '../waiting-worker';
 
 // Safety limits for bundling the worker and issuing on a busy machine, not speed checks.
 vi.setConfig({ testTimeout: 300_000, hookTimeout: 300_000 });
 
 const folder = mkdtempSync(path.join(tmpdir(), 'rankseal-seal-pool-'));
 const CHANNEL = `rankseal-seal-pool-${process.pid}`;
-const worker = await waitingWorker({ bundleChannel: CHANNEL });
+const worker = await waitingWorker({ held: { channel: CHANNEL, tasks: ['verifyBundle'] } });
 Object.assign(process.env, {
 	RANKSEAL_DATA_DIR: path.join(folder, 'data'),
 	ORIGIN: 'https://rankseal.test',
@@ -47,7 +47,7 @@ let claimId: string;
 let bundle: Uint8Array;
 let certificateId: string;
 /** Bundle checks wait on their thread until released (the first test); later ones run at once. */
-const paced = pacedBundles(CHANNEL);
+const paced = pacedTasks(CHANNEL);
 
 beforeAll(async () => {
 	resetRateLimits();

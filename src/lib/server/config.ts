@@ -23,6 +23,12 @@ export interface ServerConfig {
 	checksPerGroup: number;
 	/** Seconds a refused check start suggests waiting (Retry-After). */
 	checkRetryAfterSeconds: number;
+	/** Counts uploads one person may have in progress at once (each holds its file in memory). */
+	uploadsPerUser: number;
+	/** Counts uploads a group's members may have in progress at once. */
+	uploadsPerGroup: number;
+	/** Seconds a refused upload suggests waiting (Retry-After). */
+	uploadRetryAfterSeconds: number;
 	/** Bytes of counts files a group may store. */
 	groupQuotaBytes: number;
 }
@@ -50,6 +56,9 @@ export function config(): ServerConfig {
 		checksPerUser: positive(env.RANKSEAL_CHECKS_PER_USER, 4),
 		checksPerGroup: positive(env.RANKSEAL_CHECKS_PER_GROUP, 8),
 		checkRetryAfterSeconds: positive(env.RANKSEAL_CHECK_RETRY_AFTER_S, 30),
+		uploadsPerUser: positive(env.RANKSEAL_UPLOADS_PER_USER, 2),
+		uploadsPerGroup: positive(env.RANKSEAL_UPLOADS_PER_GROUP, 4),
+		uploadRetryAfterSeconds: positive(env.RANKSEAL_UPLOAD_RETRY_AFTER_S, 10),
 		groupQuotaBytes: positive(env.RANKSEAL_GROUP_QUOTA_BYTES, 2 ** 30)
 	};
 }
