@@ -71,7 +71,7 @@ async function startApp(dataDir) {
 		// at once: four worker threads (the default is two) on however many cores there are.
 		...{ RANKSEAL_CHECKS_PER_USER: '16', RANKSEAL_CHECKS_PER_GROUP: '16' },
 		...{ RANKSEAL_UPLOADS_PER_USER: '8', RANKSEAL_UPLOADS_PER_GROUP: '8', BODY_SIZE_LIMIT: '25M' },
-		RANKSEAL_CHECK_WORKERS: '4'
+		RANKSEAL_CHECK_WORKERS: process.env.RANKSEAL_CHECK_WORKERS ?? '4'
 	};
 	const child = spawn(process.execPath, [ENTRY], { env, stdio: ['ignore', 'pipe', 'pipe'] });
 	let log = '';
@@ -227,7 +227,11 @@ try {
 	const bad = table(runs);
 	if (bad > 0) process.exitCode = 1;
 } catch (error) {
-	if (!(error instanceof Done)) throw error;
+	if (error instanceof Done) process.exitCode ??= 0;
+	else {
+		console.error(`the server said:\n${app.log().slice(-4000)}`);
+		throw error;
+	}
 } finally {
 	app.child.kill('SIGTERM');
 	await new Promise((done) => app.child.once('exit', done));

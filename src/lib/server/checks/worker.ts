@@ -8,6 +8,10 @@ import { readFile } from 'node:fs/promises';
 import { certify, InputError, parseCounts, type CertificationResult } from '../../certify';
 import { sha256Hex } from '../../evidence/hash';
 import type { CheckMessage, CheckTask } from './task';
+import { lowerThisThread } from './thread-priority';
+
+// Once per thread, as the module loads: the request thread keeps the processor first.
+lowerThisThread();
 
 /** Named tasks (piscina `name`): an upload read against its claim; a bundle; a self-check. */
 export { summariseCounts } from './summary';
