@@ -193,12 +193,16 @@ export async function uploadTarget(api, bearer, pid) {
 		method: 'mub-correlation',
 		bases: [0, 1]
 	};
+	// Made first: an idle keep-alive connection is closed by the server after 5 s, and reusing
+	// it as that happens cuts the upload (EPIPE), not the server's doing.
+	const files = hostileFiles();
+	const four = Array.from({ length: 4 }, (_, i) => bigJson(20 * MIB, i + 1));
 	const id = await newClaim(api, bearer, { ...fields, claimedSchmidtNumber: 2 });
 	// Warm the pool's threads first: their start is not the upload's cost.
 	await call(api, bearer, 'POST', `/claims/${id}/datasets`, bigJson(MIB, 99), 'application/json');
 	console.log('\nuploads: peak resident growth of the server (VmHWM after a reset to VmRSS)');
 	let fine = true;
-	for (const [name, text, type] of hostileFiles()) {
+	for (const [name, text, type] of files) {
 		const size = Buffer.byteLength(text);
 		const { result, growth: grew } = await growth(pid, () =>
 			call(api, bearer, 'POST', `/claims/${id}/datasets`, text, type)
@@ -209,7 +213,6 @@ export async function uploadTarget(api, bearer, pid) {
 		);
 		fine &&= grew <= 10 * size;
 	}
-	const four = Array.from({ length: 4 }, (_, i) => bigJson(20 * MIB, i + 1));
 	const { result, growth: grew } = await growth(pid, () =>
 		Promise.all(
 			four.map((text) =>

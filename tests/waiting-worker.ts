@@ -39,10 +39,11 @@ export async function waitingWorker(
 			? ''
 			: `if (task.seed !== ${options.onlySeed}) return real.default(task); `;
 	const heldTasks = options.held?.tasks ?? [];
-	const named = (['summariseCounts', 'selfCheck', 'verifyBundle'] as const).map((name) =>
-		heldTasks.includes(name as never)
-			? `export const ${name} = (task) => held(real.${name}, task);\n`
-			: `export const ${name} = real.${name};\n`
+	const named = (['summariseCounts', 'selfCheck', 'verifyBundle', 'canonicalCounts'] as const).map(
+		(name) =>
+			heldTasks.includes(name as never)
+				? `export const ${name} = (task) => held(real.${name}, task);\n`
+				: `export const ${name} = real.${name};\n`
 	);
 	// Through the namespace: a task the real worker lacks fails when asked for, not at loading.
 	writeFileSync(

@@ -1,9 +1,11 @@
 /**
- * The evidence tasks a worker thread runs: checking a stranger's bundle (/seal) and the
- * self-check of a certificate about to be issued. Both re-run the engine, so neither may run on
- * the request thread. Relative imports only: this is bundled into the worker.
+ * The evidence tasks a worker thread runs: checking a stranger's bundle (/seal), and for a
+ * certificate about to be issued its canonical counts and its self-check. They parse counts or
+ * re-run the engine, so none may run on the request thread. Relative imports only: this is bundled into the worker.
  */
+import { parseCounts } from '../../certify';
 import type { EvidenceFiles } from '../../evidence/layout';
+import { canonicalCountsText } from '../../evidence/manifest';
 import { verifyEvidence, type VerificationReport } from '../../evidence/verify';
 import { readZipStreamed, ZipError } from '../evidence/zip-read';
 
@@ -41,4 +43,9 @@ export async function verifyBundle(task: BundleTask): Promise<VerificationReport
 /** Named task `selfCheck`: freshly made evidence, checked as a stranger would check it. */
 export function selfCheck(task: { files: EvidenceFiles }): VerificationReport {
 	return verifyEvidence(task.files);
+}
+
+/** Named task `canonicalCounts`: the uploaded counts as the manifest records them. */
+export function canonicalCounts(task: { bytes: Uint8Array; dimension: number }): string {
+	return canonicalCountsText(parseCounts(task.bytes, task.dimension));
 }

@@ -34,6 +34,8 @@ export interface CheckQueue {
 	summarise(task: SummaryTask, bucket?: string): Promise<SummaryOutcome>;
 	/** Checks a bundle a stranger uploaded (/seal): inflated and re-run off the request thread. */
 	verifyBundle(task: BundleTask, bucket: string): Promise<VerificationReport>;
+	/** The canonical text of a certificate's counts (parsing them), off the request thread. */
+	canonicalCounts(task: { bytes: Uint8Array; dimension: number }, bucket: string): Promise<string>;
 	/** Checks a certificate's evidence before it is issued, off the request thread. */
 	selfCheck(files: EvidenceFiles, bucket: string): Promise<VerificationReport>;
 }

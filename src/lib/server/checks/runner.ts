@@ -101,6 +101,10 @@ export class CheckRunner implements CheckQueue {
 		return this.work.runShort('verifyBundle', task, bucket);
 	}
 
+	canonicalCounts(task: { bytes: Uint8Array; dimension: number }, bucket: string): Promise<string> {
+		return this.work.runShort('canonicalCounts', task, bucket);
+	}
+
 	selfCheck(files: EvidenceFiles, bucket: string): Promise<VerificationReport> {
 		return this.work.runShort('selfCheck', { files }, bucket);
 	}

@@ -12,7 +12,7 @@ import { Piscina } from 'piscina';
 import { FairScheduler } from './fair-scheduler';
 
 /** The worker's named exports (checks/worker.ts); the check itself is its default export. */
-export type ShortTaskName = 'summariseCounts' | 'verifyBundle' | 'selfCheck';
+export type ShortTaskName = 'summariseCounts' | 'verifyBundle' | 'selfCheck' | 'canonicalCounts';
 
 type RunOptions = Parameters<Piscina['run']>[1];
 

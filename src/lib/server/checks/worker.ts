@@ -15,7 +15,7 @@ lowerThisThread();
 
 /** Named tasks (piscina `name`): an upload read against its claim; a bundle; a self-check. */
 export { summariseCounts } from './summary';
-export { selfCheck, verifyBundle } from './evidence-tasks';
+export { canonicalCounts, selfCheck, verifyBundle } from './evidence-tasks';
 
 async function readStored(file: string): Promise<Uint8Array> {
 	try {

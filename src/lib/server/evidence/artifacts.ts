@@ -55,12 +55,15 @@ export interface Evidence {
 export type EvidenceInput = Omit<ManifestInput, 'counts' | 'signingKeyId' | 'engineVersion'> & {
 	uploaded: Uint8Array;
 	uploadedFormat: 'csv' | 'json';
+	/** The canonical counts text when the caller has it (the service reads it on the work pool). */
+	canonical?: string;
 };
 
 const utf8 = (text: string) => new TextEncoder().encode(text);
 
 function countsParts(input: EvidenceInput) {
-	const canonical = canonicalCountsText(parseCounts(input.uploaded, input.claim.dimension));
+	const canonical =
+		input.canonical ?? canonicalCountsText(parseCounts(input.uploaded, input.claim.dimension));
 	const counts = {
 		uploadedSha256: sha256Hex(input.uploaded),
 		uploadedFormat: input.uploadedFormat,
@@ -100,7 +103,7 @@ export async function makeEvidence(
 	published: { keys: { id: string }[] }
 ): Promise<Evidence> {
 	const { canonical, counts } = countsParts(input);
-	const { uploaded, uploadedFormat, ...rest } = input;
+	const { uploaded, uploadedFormat, canonical: _, ...rest } = input;
 	const engineVersion = input.result.engine.version;
 	const manifest = buildManifest({ ...rest, counts, signingKeyId: key.id, engineVersion });
 	const text = manifestText(manifest);
