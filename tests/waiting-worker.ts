@@ -25,7 +25,10 @@ export async function waitingWorker(
 	options: {
 		onlySeed?: number;
 		announce?: boolean;
-		held?: { channel: string; tasks: ('verifyBundle' | 'summariseCounts')[] };
+		held?: {
+			channel: string;
+			tasks: ('verifyBundle' | 'summariseCounts' | 'selfCheck' | 'canonicalCounts')[];
+		};
 	} = {}
 ): Promise<WaitingWorker> {
 	const folder = mkdtempSync(path.join(tmpdir(), 'rankseal-waiting-worker-'));
