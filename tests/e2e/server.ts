@@ -61,8 +61,9 @@ function untilListening(child: ChildProcess, log: () => string): Promise<void> {
 /**
  * Page tests share one client address (127.0.0.1) and make many requests: the limits are raised
  * far above what they do, so only a test that names its own RANKSEAL_RATE_LIMITS meets them.
- * The same for checks queued at once: how many are still queued when the next one is asked for
- * depends on the machine's speed, so only a test that names its own check limits meets them.
+ * The same for checks queued and uploads in progress at once: how many are still at work when the
+ * next one is asked for depends on the machine's speed, so only a test that names its own limits
+ * meets them.
  */
 export const ROOMY_RATE_LIMITS = JSON.stringify({
 	signInAccountAddress: { free: 1000, cap: 2000 },
@@ -74,6 +75,8 @@ export const ROOMY_RATE_LIMITS = JSON.stringify({
 	invitations: { points: 10000 },
 	reviewUse: { points: 100000 },
 	reviewRefused: { free: 10000, cap: 20000 },
+	sealBundle: { points: 10000 },
+	sealLookup: { points: 100000 },
 	mailPerRecipient: { points: 10000 }
 });
 
@@ -93,6 +96,8 @@ export async function startApp(env: Record<string, string> = {}): Promise<AppSer
 			RANKSEAL_RATE_LIMITS: ROOMY_RATE_LIMITS,
 			RANKSEAL_CHECKS_PER_USER: '1000',
 			RANKSEAL_CHECKS_PER_GROUP: '1000',
+			RANKSEAL_UPLOADS_PER_USER: '1000',
+			RANKSEAL_UPLOADS_PER_GROUP: '1000',
 			...env,
 			PORT: String(port),
 			HOST: '127.0.0.1',

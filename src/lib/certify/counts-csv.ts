@@ -12,6 +12,8 @@ import {
 	type CountTable,
 	WHOLE_NUMBER_TEXT
 } from './counts';
+import { TableBudget } from './counts-budget';
+import { fieldCount, firstLineOf, splitFields } from './csv-lines';
 
 const REQUIRED = ['basis', 'outcome_a', 'outcome_b', 'counts'] as const;
 const OPTIONAL = ['accidentals', 'duration_s'] as const;
@@ -78,16 +80,20 @@ function outcome(fields: string[], index: number, name: Column, line: number, d:
 
 interface ParseState {
 	d: number;
+	text: string;
 	columns: Map<Column, number> | null;
 	tables: Map<number, CountTable>;
-	/** Per basis, the line that first filled each cell (0: not yet), for the duplicate message. */
-	firstLine: Map<number, Int32Array>;
+	budget: TableBudget;
 }
 
-export function parseCountsCsv(input: Uint8Array | string, dimension: number): CountsDataset {
+export function parseCountsCsv(
+	input: Uint8Array | string,
+	dimension: number,
+	budget = new TableBudget()
+): CountsDataset {
 	const d = checkDimension(dimension);
 	const text = decodeCountsText(input);
-	const state: ParseState = { d, columns: null, tables: new Map(), firstLine: new Map() };
+	const state: ParseState = { d, text, columns: null, tables: new Map(), budget };
 	const values = new Float64Array(REQUIRED.length + OPTIONAL.length);
 	let lineNo = 0;
 	for (let start = 0; start <= text.length;) {
@@ -139,9 +145,7 @@ function plainRow(
 	const a = values[columns.get('outcome_a')!];
 	const b = values[columns.get('outcome_b')!];
 	const table = state.tables.get(basis);
-	const filledBy = state.firstLine.get(basis);
-	if (!table || !filledBy || a >= d || b >= d || filledBy[a * d + b] !== 0) return false;
-	filledBy[a * d + b] = lineNo;
+	if (!table || a >= d || b >= d || table.present[a * d + b] !== 0) return false;
 	table.present[a * d + b] = 1;
 	table.counts[a * d + b] = values[columns.get('counts')!];
 	return true;
@@ -149,41 +153,36 @@ function plainRow(
 
 /** Any line: blank, comment, header or row, with every check worded (line and column). */
 function anyRow(state: ParseState, line: string, lineNo: number): void {
-	const { d, tables, firstLine } = state;
+	const { d, tables } = state;
 	const raw = line.trim();
 	if (raw === '' || raw.startsWith('#')) return;
-	const fields = raw.split(',').map((f) => f.trim());
 	const columns = state.columns;
 	if (!columns) {
-		state.columns = readHeader(fields, lineNo);
+		// Seven fields always hold the header's first fault: only six names are known.
+		state.columns = readHeader(splitFields(raw, OPTIONAL.length + REQUIRED.length + 1), lineNo);
 		return;
 	}
-	if (fields.length !== columns.size) {
-		throw new InputError(`expected ${columns.size} fields, found ${fields.length}`, lineNo);
+	// Counted before splitting: a row of ten million fields must not become ten million strings.
+	const found = fieldCount(raw);
+	if (found !== columns.size) {
+		throw new InputError(`expected ${columns.size} fields, found ${found}`, lineNo);
 	}
+	const fields = splitFields(raw, columns.size);
 	const at = (name: Column) => columns.get(name)!;
 	const basis = wholeNumber(fields[at('basis')], 'basis', lineNo, at('basis') + 1);
 	if (!tables.has(basis)) checkBasis(d, basis, 'basis', lineNo, at('basis') + 1);
 	const a = outcome(fields, at('outcome_a'), 'outcome_a', lineNo, d);
 	const b = outcome(fields, at('outcome_b'), 'outcome_b', lineNo, d);
-	let table = tables.get(basis);
-	if (!table) {
-		table = emptyTable(d, basis, {
-			accidentals: columns.has('accidentals'),
-			durations: columns.has('duration_s')
-		});
-		tables.set(basis, table);
-		firstLine.set(basis, new Int32Array(d * d));
-	}
+	const table = tables.get(basis) ?? newTable(state, basis, lineNo);
 	const cell = a * d + b;
-	const filledBy = firstLine.get(basis)!;
-	if (filledBy[cell] !== 0) {
+	if (table.present[cell] !== 0) {
+		const at = (['basis', 'outcome_a', 'outcome_b'] as const).map((name) => columns.get(name)!);
+		const first = firstLineOf(state.text, columns.size, at, [basis, a, b]);
 		throw new InputError(
-			`duplicate cell basis=${basis}, outcome_a=${a}, outcome_b=${b} (first on line ${filledBy[cell]})`,
+			`duplicate cell basis=${basis}, outcome_a=${a}, outcome_b=${b} (first on line ${first})`,
 			lineNo
 		);
 	}
-	filledBy[cell] = lineNo;
 	table.present[cell] = 1;
 	table.counts[cell] = wholeNumber(fields[at('counts')], 'counts', lineNo, at('counts') + 1);
 	if (table.accidentals) {
@@ -204,4 +203,18 @@ function anyRow(state: ParseState, line: string, lineNo: number): void {
 			true
 		);
 	}
+}
+
+/** A basis's table, once its numbers fit the file's budget (tables are d² each, however few rows). */
+function newTable(state: ParseState, basis: number, lineNo: number): CountTable {
+	const extras = {
+		accidentals: state.columns!.has('accidentals'),
+		durations: state.columns!.has('duration_s')
+	};
+	const kinds = 1 + Number(extras.accidentals) + Number(extras.durations);
+	if (!state.budget.take(kinds * state.d * state.d))
+		throw new InputError(`basis ${basis}: ${state.budget.refusal}`, lineNo);
+	const table = emptyTable(state.d, basis, extras);
+	state.tables.set(basis, table);
+	return table;
 }

@@ -4,16 +4,24 @@
  * reaches outcome d − 1). Null when the file is too broken to tell.
  */
 import { decodeCountsText } from './counts';
+import { splitFields } from './csv-lines';
 
 const JSON_DIMENSION = /^\s*\{[\s\S]*?"dimension"\s*:\s*(\d+)\s*[,}]/;
+
+/** Columns a header may name: more fields than this on a line are never read (a hostile row). */
+const MAX_COLUMNS = 8;
 
 function csvDimension(text: string): number | null {
 	let columns: string[] | null = null;
 	let largest = -1;
-	for (const line of text.split(/\r?\n/)) {
-		const raw = line.trim();
+	// Line by line in place: splitting a 20 MiB file at once would copy it into millions of strings.
+	for (let start = 0; start <= text.length;) {
+		let end = text.indexOf('\n', start);
+		if (end < 0) end = text.length;
+		const raw = text.slice(start, end).trim();
+		start = end + 1;
 		if (raw === '' || raw.startsWith('#')) continue;
-		const fields = raw.split(',').map((f) => f.trim());
+		const fields = splitFields(raw, MAX_COLUMNS);
 		if (!columns) {
 			columns = fields;
 			continue;

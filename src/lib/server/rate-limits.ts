@@ -47,6 +47,10 @@ export const RATE_LIMITS = {
 	reviewUse: { kind: 'window', points: 300, windowSeconds: 60 },
 	/** Unknown, expired or revoked review links, per client address (guessing tokens). */
 	reviewRefused: { kind: 'ladder', free: 20, cap: 100, windowSeconds: 3600, firstDelaySeconds: 1 },
+	/** Bundles checked on the public /seal page, per client address (each costs a worker thread). */
+	sealBundle: { kind: 'window', points: 20, windowSeconds: 600 },
+	/** Certificates looked up on /seal by ID or fingerprint, per client address. */
+	sealLookup: { kind: 'window', points: 120, windowSeconds: 60 },
 	/** Mails written to one recipient; enforced by the outbox (services/mail-queue.ts). */
 	mailPerRecipient: { kind: 'window', points: 20, windowSeconds: 3600 }
 } as const satisfies Record<string, WindowRule | LadderRule>;

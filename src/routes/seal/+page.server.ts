@@ -1,6 +1,7 @@
 import { fail } from '@sveltejs/kit';
 import { z } from 'zod';
 import { app } from '$lib/server/app';
+import { countSealLookup, sealRefusal } from '$lib/server/seal-limits';
 import { checkBundle, lookupCertificate } from '$lib/server/services/certificate-reads';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -10,10 +11,11 @@ const MAX_BUNDLE_BYTES = 20 * 1024 * 1024;
 const lookupQuery = z.string().trim().max(128);
 
 /** Public (no sign-in): a certificate looked up by ID or fingerprint given as ?q=. */
-export const load: PageServerLoad = async ({ url }) => {
-	const parsed = lookupQuery.safeParse(url.searchParams.get('q') ?? '');
+export const load: PageServerLoad = async (event) => {
+	const parsed = lookupQuery.safeParse(event.url.searchParams.get('q') ?? '');
 	const query = parsed.success ? parsed.data : '';
 	if (!query) return { query, lookup: null };
+	await countSealLookup(event);
 	const { database } = await app();
 	return { query, lookup: await lookupCertificate(database, query) };
 };
@@ -29,16 +31,18 @@ const refuse = (status: number, message: string) =>
 
 export const actions: Actions = {
 	/** Public: checks an uploaded evidence bundle against the keys this service has published. */
-	bundle: async ({ request }) => {
-		const form = await request.formData().catch(() => null);
+	bundle: async (event) => {
+		const refusal = await sealRefusal(event, 'sealBundle');
+		if (refusal) return refuse(429, refusal.message);
+		const form = await event.request.formData().catch(() => null);
 		const file = form?.get('bundle');
 		if (!(file instanceof File) || file.size === 0)
 			return refuse(400, 'Choose an evidence bundle (the .zip file) to check.');
 		if (file.size > MAX_BUNDLE_BYTES)
 			return refuse(413, `The file is larger than ${MAX_BUNDLE_BYTES} bytes; no bundle is.`);
 		const { database } = await app();
-		const bytes = Buffer.from(await file.arrayBuffer());
-		const { report, record, ledger } = await checkBundle(database, bytes);
+		const zip = Buffer.from(await file.arrayBuffer());
+		const { report, record, ledger } = await checkBundle(database, zip, event.getClientAddress());
 		const checked = { fileName: file.name, report, record, ledger };
 		return { action: 'bundle', errors: {} as Record<string, string>, checked };
 	}

@@ -18,7 +18,9 @@ export function startCheckRunner(database: Database): Promise<CheckQueue> {
 	let runner = runners.get(database);
 	if (!runner) {
 		runner = (async () => {
-			const started = new CheckRunner(database, await checkWorkerFile(), config().checkWorkers);
+			const { checkWorkers, shortTaskWorkers } = config();
+			const file = await checkWorkerFile();
+			const started = new CheckRunner(database, file, checkWorkers, shortTaskWorkers);
 			await started.resume();
 			return started;
 		})();

@@ -1,14 +1,14 @@
 /**
- * The embedded CheckQueue: the fair scheduler hands checks to a piscina pool of worker threads
- * only when a thread is free, while this side moves the Check row through queued → running →
+ * The embedded CheckQueue: the fair scheduler hands checks to the work pool (work-pool.ts) only
+ * when a check thread is free, while this side moves the Check row through queued → running →
  * done | failed (or cancelled, by checks service), writes progress about every 2 %, and marks
  * the claim checked when a check is done.
  */
 import { MessageChannel, type MessagePort } from 'node:worker_threads';
-import { pathToFileURL } from 'node:url';
-import { Piscina } from 'piscina';
 import { literal } from 'sequelize';
 import type { CertificationResult } from '$lib/certify';
+import type { EvidenceFiles } from '$lib/evidence/layout';
+import type { VerificationReport } from '$lib/evidence/verify';
 import type { Database } from '../db';
 import { ACTIVE_CHECK_STATUSES, type CheckAttributes, type CheckModel } from '../db/models/Check';
 import { datasetFilePath } from '../services/datasets';
@@ -18,6 +18,8 @@ import { sweepLeftChecks } from './left-behind';
 import { CheckCancelled, type CheckQueue, type QueuedCheck } from './queue';
 import type { SummaryOutcome, SummaryTask } from './summary';
 import type { CheckMessage, CheckTask } from './task';
+import type { BundleTask } from './evidence-tasks';
+import { WorkPool } from './work-pool';
 
 export type { CheckQueue, QueuedCheck } from './queue';
 
@@ -27,9 +29,8 @@ const PROGRESS_STEP = 0.02;
 type CheckUpdate = Parameters<CheckModel['update']>[0];
 
 export class CheckRunner implements CheckQueue {
-	private readonly pool: Piscina;
-	/** Threads for reading uploads, apart from the checks' so that an upload never queues behind one. */
-	private readonly readers: Piscina;
+	/** The one pool for every engine task: checks here, short tasks through the methods below. */
+	private readonly work: WorkPool;
 	private readonly waiting = new FairScheduler();
 	private readonly active = new Map<string, Promise<void>>();
 	private readonly aborts = new Map<string, AbortController>();
@@ -40,18 +41,13 @@ export class CheckRunner implements CheckQueue {
 	constructor(
 		private readonly database: Database,
 		workerFile: string,
-		private readonly threads: number
+		threads: number,
+		shortThreads = 1
 	) {
-		const options = {
-			filename: pathToFileURL(workerFile).href,
-			minThreads: 0,
-			maxThreads: threads,
-			idleTimeout: 60_000
-		};
-		this.pool = new Piscina(options);
-		this.readers = new Piscina(options);
+		this.work = new WorkPool(workerFile, threads, shortThreads);
+		this.work.onFree = () => this.dispatch();
 		// A worker that dies outside a task (e.g. a broken bundle) would leave its tasks waiting forever.
-		this.pool.on('error', (error: Error) => {
+		this.work.onError((error: Error) => {
 			console.error('check worker:', error);
 			for (const abort of this.aborts.values()) abort.abort(error);
 		});
@@ -63,20 +59,21 @@ export class CheckRunner implements CheckQueue {
 		this.dispatch();
 	}
 
-	/** Starts waiting checks while a thread is free: the pool itself never holds a queue. */
+	/** Starts waiting checks while a check thread is free: the pool itself never holds a queue. */
 	private dispatch(): void {
-		while (!this.stopping && this.active.size < this.threads) {
+		while (!this.stopping && this.work.checkSlotFree) {
 			const id = this.waiting.next();
 			if (id === undefined) return;
 			this.started.push(id);
 			const abort = new AbortController();
 			this.aborts.set(id, abort);
+			const release = this.work.holdCheckSlot();
 			const run = this.run(id, abort)
 				.catch((error) => console.error(`check ${id}:`, error))
 				.finally(() => {
 					this.aborts.delete(id);
 					this.active.delete(id);
-					this.dispatch();
+					release();
 				});
 			this.active.set(id, run);
 		}
@@ -96,8 +93,20 @@ export class CheckRunner implements CheckQueue {
 		return again.map((c) => c.id);
 	}
 
-	summarise(task: SummaryTask): Promise<SummaryOutcome> {
-		return this.readers.run(task, { name: 'summariseCounts' }) as Promise<SummaryOutcome>;
+	summarise(task: SummaryTask, bucket = 'upload'): Promise<SummaryOutcome> {
+		return this.work.runShort('summariseCounts', task, bucket);
+	}
+
+	verifyBundle(task: BundleTask, bucket: string): Promise<VerificationReport> {
+		return this.work.runShort('verifyBundle', task, bucket);
+	}
+
+	canonicalCounts(task: { bytes: Uint8Array; dimension: number }, bucket: string): Promise<string> {
+		return this.work.runShort('canonicalCounts', task, bucket);
+	}
+
+	selfCheck(files: EvidenceFiles, bucket: string): Promise<VerificationReport> {
+		return this.work.runShort('selfCheck', { files }, bucket);
 	}
 
 	/** Resolves once this check's run has ended here and the next waiting one was handed on. */
@@ -111,7 +120,7 @@ export class CheckRunner implements CheckQueue {
 
 	async close(): Promise<void> {
 		await this.idle();
-		await Promise.all([this.pool.destroy(), this.readers.destroy()]);
+		await this.work.destroy();
 	}
 
 	/** Stops the threads now; checks cut short are queued again and resume at the next start. */
@@ -120,7 +129,7 @@ export class CheckRunner implements CheckQueue {
 		// Waiting checks stay `queued` in the database and resume at the next start.
 		this.waiting.clear();
 		const cut = [...this.active.keys()];
-		await Promise.all([this.pool.destroy(), this.readers.destroy()]);
+		await this.work.destroy();
 		await Promise.allSettled([...this.active.values()]);
 		// The rows then say what happened (a SIGKILL leaves them `running`; resume() handles that).
 		// A clean stop is not the check's fault: it gives back the start that counts towards the limit.
@@ -184,7 +193,7 @@ export class CheckRunner implements CheckQueue {
 		try {
 			const task = await this.task(check, channel.port2);
 			const options = { transferList: [channel.port2], signal: abort.signal };
-			result = (await this.pool.run(task, options)) as CertificationResult;
+			result = (await this.work.runCheck(task, options)) as CertificationResult;
 			if (result.inputSha256 !== task.sha256)
 				throw new Error('the result does not name the dataset’s SHA-256');
 		} catch (error) {

@@ -1,6 +1,7 @@
 /**
  * The worker-thread entry of the check runner, bundled by esbuild into one ES module
- * (scripts/build-worker.mjs): reads the counts, runs the engine and reports progress on a port.
+ * (scripts/build-worker.mjs): the default task reads the counts, runs the engine and reports
+ * progress on a port; the named ones are the pool's short tasks (checks/work-pool.ts).
  * Relative imports only, so that the bundle needs no Kit aliases.
  */
 import { readFile } from 'node:fs/promises';
@@ -8,9 +9,14 @@ import { certify, InputError, parseCounts, type CertificationResult } from '../.
 import { parseCalibration } from '../../certify/calibration';
 import { sha256Hex } from '../../evidence/hash';
 import type { CheckMessage, CheckTask } from './task';
+import { lowerThisThread } from './thread-priority';
 
-/** Named task (piscina `name`): reads an uploaded file against its claim. */
+// Once per thread, as the module loads: the request thread keeps the processor first.
+lowerThisThread();
+
+/** Named tasks (piscina `name`): an upload read against its claim; a bundle; a self-check. */
 export { summariseCounts } from './summary';
+export { canonicalCounts, selfCheck, verifyBundle } from './evidence-tasks';
 
 async function readStored(file: string): Promise<Uint8Array> {
 	try {

@@ -1,7 +1,8 @@
 /**
  * Everything a certificate consists of, made in memory before anything is stored: the signed
- * manifest, the PDF, the bundle's files and the zip. The bundle is checked with the same
- * verifier a stranger runs, so that no certificate is issued that would not verify.
+ * manifest, the PDF, the bundle's files and the zip. Issuing then checks the bundle with the same
+ * verifier a stranger runs, on the work pool (services/certificates.ts), so that no certificate
+ * is issued that would not verify.
  */
 import { parseCounts } from '../../certify';
 import { canonicalJson } from '../../evidence/canonical';
@@ -23,7 +24,6 @@ import {
 	type ManifestInput
 } from '../../evidence/manifest';
 import { signText, type SigningKey } from '../../evidence/signing';
-import { verifyEvidence } from '../../evidence/verify';
 import { fillPlaceholders } from '../templates';
 import { certificatePdf } from './pdf';
 import { verifierBytes } from './verifier-file';
@@ -62,12 +62,15 @@ export type EvidenceInput = Omit<
 	uploadedFormat: 'csv' | 'json';
 	/** The calibration file the check used, as uploaded. */
 	calibrationBytes?: Uint8Array | null;
+	/** The canonical counts text when the caller has it (the service reads it on the work pool). */
+	canonical?: string;
 };
 
 const utf8 = (text: string) => new TextEncoder().encode(text);
 
 function countsParts(input: EvidenceInput) {
-	const canonical = canonicalCountsText(parseCounts(input.uploaded, input.claim.dimension));
+	const canonical =
+		input.canonical ?? canonicalCountsText(parseCounts(input.uploaded, input.claim.dimension));
 	const counts = {
 		uploadedSha256: sha256Hex(input.uploaded),
 		uploadedFormat: input.uploadedFormat,
@@ -108,7 +111,7 @@ export async function makeEvidence(
 	checkpoint?: LedgerCheckpoint
 ): Promise<Evidence> {
 	const { canonical, counts } = countsParts(input);
-	const { uploaded, uploadedFormat, calibrationBytes: calibration, ...rest } = input;
+	const { uploaded, uploadedFormat, calibrationBytes: calibration, canonical: _, ...rest } = input;
 	delete (rest as { calibration?: unknown }).calibration;
 	const engineVersion = input.result.engine.version;
 	const manifest = buildManifest({
@@ -148,9 +151,4 @@ export async function makeEvidence(
 	const folder = `rankseal-${manifest.certificateId}`;
 	const zip = await zipFiles(files, new Date(manifest.issuedAt), folder);
 	return { manifest, manifestText: text, fingerprint, signature, pdf, files, zip };
-}
-
-/** The verifier's verdict on freshly made evidence; a failure here is a reason not to issue. */
-export function selfCheck(evidence: Evidence) {
-	return verifyEvidence(evidence.files);
 }

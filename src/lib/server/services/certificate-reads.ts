@@ -6,11 +6,10 @@
 import { readFile } from 'node:fs/promises';
 import { Op } from 'sequelize';
 import type { VerificationReport } from '../../evidence/verify';
-import { verifyEvidence } from '../../evidence/verify';
 import type { Database } from '../db';
 import type { CertificateAttributes } from '../db/models/Certificate';
 import { publishedKeys } from '../evidence/keys';
-import { readZip, ZipError } from '../evidence/zip-read';
+import { startCheckRunner } from '../checks/registry';
 import { absolute } from './certificate-files';
 import {
 	certificateView,
@@ -116,30 +115,19 @@ export async function lookupCertificate(
 	return { ...publicCertificate(certificate), withdrawal };
 }
 
-/** Public: checks an uploaded bundle against the service's keys, then says what is on record. */
+/**
+ * Public: checks an uploaded bundle against the service's keys on the work pool (inflating and
+ * re-running it would block every other request), then says what is on record. `from` is the
+ * client address: bundles queue fairly by it.
+ */
 export async function checkBundle(
 	database: Database,
-	zip: Buffer
+	zip: Buffer,
+	from = 'unknown'
 ): Promise<{ report: VerificationReport; record: Lookup; ledger: CheckpointCheck | null }> {
-	let files;
-	try {
-		files = readZip(zip);
-	} catch (error) {
-		if (!(error instanceof ZipError)) throw error;
-		const report = {
-			valid: false,
-			failedItem: 'zip',
-			message: error.message,
-			certificateId: null,
-			fingerprint: null,
-			keyId: null,
-			anchored: false,
-			checkpoint: null,
-			passed: []
-		};
-		return { report, record: { status: 'unknown' }, ledger: null };
-	}
-	const report = verifyEvidence(files, { trustedKeyIds: publishedKeys().map((k) => k.id) });
+	const trustedKeyIds = publishedKeys().map((k) => k.id);
+	const runner = await startCheckRunner(database);
+	const report = await runner.verifyBundle({ zip, trustedKeyIds }, `seal:${from}`);
 	const record = report.fingerprint
 		? await lookupCertificate(database, report.fingerprint)
 		: { status: 'unknown' as const };

@@ -5,11 +5,12 @@
 import { readFile } from 'node:fs/promises';
 import type { Transaction } from 'sequelize';
 import { sha256Hex } from '../../evidence/hash';
+import { startCheckRunner } from '../checks/registry';
 import { config } from '../config';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
 import type { ClaimAttributes } from '../db/models/Claim';
-import { makeEvidence, selfCheck, type Evidence, type EvidenceInput } from '../evidence/artifacts';
+import { makeEvidence, type Evidence, type EvidenceInput } from '../evidence/artifacts';
 import { publishedKeys, serviceKey } from '../evidence/keys';
 import type { SigningKey } from '../../evidence/signing';
 import { accountIdOf, type Actor } from '../access/actor';
@@ -120,7 +121,11 @@ async function prepare(
 	// The ledger as it stands before this issue: the bundle cannot hold a hash of its own entry.
 	const checkpoint = await publishCheckpoint(database, key);
 	const evidence = await makeEvidence(input, key, urls, { keys: publishedKeys() }, checkpoint);
-	const verdict = selfCheck(evidence);
+	const runner = await startCheckRunner(database);
+	const verdict = await runner.selfCheck(
+		evidence.files,
+		`issue:${accountIdOf(caller) ?? 'service'}`
+	);
 	if (!verdict.valid)
 		throw new ConflictError(
 			`This check cannot be certified (${verdict.failedItem}: ${verdict.message}); run the check again`

@@ -125,7 +125,7 @@ export async function addDataset(
 	const userId = accountIdOf(actor)!;
 	const { bytes } = upload;
 	const runner = await startCheckRunner(database);
-	const read = await runner.summarise({ bytes, ...claim });
+	const read = await runner.summarise({ bytes, ...claim }, `upload:${userId}`);
 	if (!read.ok)
 		throw new InputError(read.message, read.line ?? undefined, read.column ?? undefined);
 	const sha256 = sha256Hex(bytes);
@@ -241,7 +241,7 @@ export async function datasetTables(
 	const bytes = await readFile(datasetFilePath(dataset.sha256));
 	const claim = (await database.models.Claim.findByPk(dataset.claimId))!.get({ plain: true });
 	const task = { bytes, dimension, method: claim.method, bases: [], fourier: claim.fourier };
-	const read = await runner.summarise(task);
+	const read = await runner.summarise(task, `upload:${accountIdOf(actor) ?? 'reader'}`);
 	if (!read.ok) throw new InputError(read.message, read.line ?? undefined);
 	const preview = read.preview.filter((t) => bases.includes(t.basis));
 	await database.models.Dataset.update({ preview }, { where: { id: datasetId } });

@@ -1,9 +1,12 @@
 import { app } from '$lib/server/app';
+import { countSealLookup } from '$lib/server/seal-limits';
 import { lookupCertificate } from '$lib/server/services/certificate-reads';
 import type { PageServerLoad } from './$types';
 
 /** Public (no sign-in): the page a certificate's QR code and verify link open. */
-export const load: PageServerLoad = async ({ params }) => {
+export const load: PageServerLoad = async (event) => {
+	const { params } = event;
+	await countSealLookup(event);
 	const { database } = await app();
 	return { id: params.id, lookup: await lookupCertificate(database, params.id) };
 };

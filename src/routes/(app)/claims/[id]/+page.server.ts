@@ -8,6 +8,7 @@ import { listCertificates } from '$lib/server/services/certificate-reads';
 import { startCheck, listChecks } from '$lib/server/services/checks';
 import { getClaim } from '$lib/server/services/claims';
 import { addDataset, datasetTables, listDatasets } from '$lib/server/services/datasets';
+import { withUploadSlot } from '$lib/server/services/upload-slots';
 import { removeDataset } from '$lib/server/services/dataset-removal';
 import { countsRecord } from '$lib/server/services/counts-record';
 import { FieldError, ForbiddenError } from '$lib/server/services/errors';
@@ -56,33 +57,40 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 };
 
 export const actions: Actions = {
-	upload: async ({ request, locals, params, url }) => {
+	upload: async (event) => {
+		const { request, locals, params, url } = event;
 		const actor = requireSignedIn(locals, url);
-		const form = await request.formData();
-		const file = form.get('counts');
-		const calibrationFile = form.get('calibration');
-		// The file's name is the one value worth echoing: the page says which file was refused.
-		const values: Record<string, string> = file instanceof File ? { counts: file.name } : {};
-		if (!(file instanceof File) || file.size === 0) {
-			const missing = new FieldError('counts', 'Choose a counts file (CSV or JSON) to upload.');
-			return formFailure('upload', missing, values);
-		}
-		if (file.size > MAX_COUNTS_FILE_BYTES) {
-			const limit = `The file is ${file.size} bytes; the limit is ${MAX_COUNTS_FILE_BYTES / 2 ** 20} MiB.`;
-			return formFailure('upload', new FieldError('counts', limit), values);
-		}
 		const { database } = await app();
-		let datasetId: string;
+		let datasetId: string | null = null;
+		let values: Record<string, string> = {};
 		try {
-			const bytes = new Uint8Array(await file.arrayBuffer());
-			const calibration =
-				calibrationFile instanceof File && calibrationFile.size > 0
-					? new Uint8Array(await calibrationFile.arrayBuffer())
-					: null;
-			const upload = { bytes, originalName: file.name, calibration };
-			datasetId = (await addDataset(database, actor, params.id, upload)).id;
+			// The slot is taken before the body is read: a refused upload costs no memory.
+			datasetId = await withUploadSlot(database, actor, params.id, async () => {
+				const form = await request.formData();
+				const file = form.get('counts');
+				const calibrationFile = form.get('calibration');
+				// The file's name is the one value worth echoing: the page says which file was refused.
+				values = file instanceof File ? { counts: file.name } : {};
+				if (!(file instanceof File) || file.size === 0)
+					throw new FieldError('counts', 'Choose a counts file (CSV or JSON) to upload.');
+				if (file.size > MAX_COUNTS_FILE_BYTES)
+					throw new FieldError(
+						'counts',
+						`The file is ${file.size} bytes; the limit is ${MAX_COUNTS_FILE_BYTES / 2 ** 20} MiB.`
+					);
+				const calibration =
+					calibrationFile instanceof File && calibrationFile.size > 0
+						? new Uint8Array(await calibrationFile.arrayBuffer())
+						: null;
+				const upload = {
+					bytes: new Uint8Array(await file.arrayBuffer()),
+					originalName: file.name,
+					calibration
+				};
+				return (await addDataset(database, actor, params.id, upload)).id;
+			});
 		} catch (problem) {
-			return formFailure('upload', problem, values);
+			return formRefusal(event, 'upload', problem, values);
 		}
 		redirect(303, `/claims/${params.id}?dataset=${datasetId}#preview`);
 	},

@@ -167,7 +167,10 @@ export const openApiDocument = {
 					'404': notFound,
 					'409': failure('The same bytes were uploaded to this claim before (code conflict).'),
 					'413': failure(`The file exceeds ${MAX_COUNTS_FILE_BYTES} bytes.`),
-					'415': failure('Neither multipart/form-data, text/csv nor application/json.')
+					'415': failure('Neither multipart/form-data, text/csv nor application/json.'),
+					'429': failure(
+						'The caller (or the claim’s group) has as many uploads in progress as allowed (code rate_limited); the message names the limit, Retry-After the seconds to wait.'
+					)
 				}
 			}
 		},

@@ -1,6 +1,7 @@
 import { json } from '@sveltejs/kit';
 import { apiEndpoint, readCountsUpload } from '$lib/server/api';
 import { addDataset, listDatasets } from '$lib/server/services/datasets';
+import { withUploadSlot } from '$lib/server/services/upload-slots';
 
 export const GET = apiEndpoint(async ({ event, actor, database }) => {
 	return json(await listDatasets(database, actor, event.params.id!));
@@ -8,7 +9,11 @@ export const GET = apiEndpoint(async ({ event, actor, database }) => {
 
 /** A counts file as multipart field `counts`, or as a raw text/csv or application/json body. */
 export const POST = apiEndpoint(async ({ event, actor, database }) => {
-	const upload = await readCountsUpload(event.request, event.url);
-	const dataset = await addDataset(database, actor, event.params.id!, upload);
+	const claimId = event.params.id!;
+	// The slot is taken before the body is read: a refused upload costs no memory.
+	const dataset = await withUploadSlot(database, actor, claimId, async () => {
+		const upload = await readCountsUpload(event.request, event.url);
+		return addDataset(database, actor, claimId, upload);
+	});
 	return json(dataset, { status: 201 });
 });
