@@ -23,7 +23,7 @@ import {
 import { signText, type SigningKey } from '../../evidence/signing';
 import { verifyEvidence } from '../../evidence/verify';
 import { fillPlaceholders } from '../templates';
-import { certificatePdf } from './pdf';
+import { certificatePdf, type CertificateContext } from './pdf';
 import { verifierBytes } from './verifier-file';
 import { zipFiles } from './zip-write';
 
@@ -52,22 +52,39 @@ export interface Evidence {
 	zip: Buffer;
 }
 
+/** Who and what the counts came from, for the PDF only (not signed: the manifest is). */
+export type EvidenceContext = Omit<CertificateContext, 'coincidencesPerBasis'>;
+
 export type EvidenceInput = Omit<ManifestInput, 'counts' | 'signingKeyId' | 'engineVersion'> & {
 	uploaded: Uint8Array;
 	uploadedFormat: 'csv' | 'json';
+	context?: EvidenceContext;
+};
+
+const UNKNOWN_CONTEXT: EvidenceContext = {
+	group: 'not recorded',
+	authors: [],
+	sourceDescription: 'not recorded',
+	countsFileName: 'not recorded'
 };
 
 const utf8 = (text: string) => new TextEncoder().encode(text);
 
 function countsParts(input: EvidenceInput) {
-	const canonical = canonicalCountsText(parseCounts(input.uploaded, input.claim.dimension));
+	const dataset = parseCounts(input.uploaded, input.claim.dimension);
+	const canonical = canonicalCountsText(dataset);
+	// Coincidences in each basis the claim uses, for the certificate's page one.
+	const perBasis = input.result.bases.map((basis) => {
+		const table = dataset.tables.find((t) => t.basis === basis);
+		return { basis, total: table ? table.counts.reduce((sum, c) => sum + c, 0) : 0 };
+	});
 	const counts = {
 		uploadedSha256: sha256Hex(input.uploaded),
 		uploadedFormat: input.uploadedFormat,
 		uploadedBytes: input.uploaded.byteLength,
 		canonicalSha256: sha256Hex(canonical)
 	};
-	return { canonical, counts };
+	return { canonical, counts, perBasis };
 }
 
 function readmeText(manifest: EvidenceManifest, fingerprint: string, urls: EvidenceUrls) {
@@ -99,14 +116,20 @@ export async function makeEvidence(
 	urls: EvidenceUrls,
 	published: { keys: { id: string }[] }
 ): Promise<Evidence> {
-	const { canonical, counts } = countsParts(input);
-	const { uploaded, uploadedFormat, ...rest } = input;
+	const { canonical, counts, perBasis } = countsParts(input);
+	const { uploaded, uploadedFormat, context, ...rest } = input;
 	const engineVersion = input.result.engine.version;
 	const manifest = buildManifest({ ...rest, counts, signingKeyId: key.id, engineVersion });
 	const text = manifestText(manifest);
 	const fingerprint = fingerprintOf(text);
 	const signature = signText(text, key.secretKey);
-	const pdf = await certificatePdf({ manifest, fingerprint, signature, verifyUrl: urls.verify });
+	const pdf = await certificatePdf({
+		manifest,
+		fingerprint,
+		signature,
+		verifyUrl: urls.verify,
+		context: { ...(context ?? UNKNOWN_CONTEXT), coincidencesPerBasis: perBasis }
+	});
 	const files: EvidenceFiles = {
 		[uploadedCountsName(uploadedFormat)]: uploaded,
 		[BUNDLE_FILES.canonicalCounts]: utf8(canonical),

@@ -16,6 +16,7 @@ import { accountIdOf, type Actor } from '../access/actor';
 import { requireClaim, requireOpen } from '../access/permissions';
 import { audit } from './audit';
 import { certificatePaths, placeFiles, removeFiles } from './certificate-files';
+import { certificateContext } from './certificate-context';
 import { certificateRow, issueDetails } from './certificate-rows';
 import { certificateView, evidenceUrls, type CertificateView } from './certificate-views';
 import { queueCertificateNotice } from './claim-notices';
@@ -105,7 +106,8 @@ async function prepare(
 	const source = await finishedCheck(database, claimId, checkId);
 	const id = newId();
 	const supersedes = await currentCertificate(database, claimId);
-	const input = evidenceInput(claim, source, id, supersedes);
+	const context = await certificateContext(database, claim, source.dataset);
+	const input = { ...evidenceInput(claim, source, id, supersedes), context };
 	const urls = evidenceUrls(config().origin, id);
 	const evidence = await makeEvidence(input, key, urls, { keys: publishedKeys() });
 	const verdict = selfCheck(evidence);
