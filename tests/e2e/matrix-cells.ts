@@ -104,6 +104,7 @@ function body(route: string, caller: Caller, kit: Kit): Body | undefined {
 		'POST /claims/[id]/edit?/save': () => ({ form: { ...claimFields, bases: '0,1,2' } as never }),
 		'POST /claims/[id]/sharing?/share': () => ({ form: share }),
 		'POST /claims/[id]/sharing?/withdraw': () => ({ form: { shareId: kit.openShares[2].id } }),
+		'POST /claims/[id]?/withdraw': () => ({ form: { reason: 'Matrix.', confirm: 'yes' } }),
 		'POST /claims/[id]?/check': () => ({ form: { datasetId: kit.datasetId, resamples: '100' } }),
 		'POST /claims/[id]?/removeDataset': () => ({ form: { datasetId: kit.spareDatasets[0] } }),
 		'POST /claims/[id]?/upload': () => ({

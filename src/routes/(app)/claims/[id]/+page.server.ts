@@ -1,6 +1,7 @@
 import { redirect } from '@sveltejs/kit';
 import { MAX_COUNTS_FILE_BYTES } from '$lib/certify';
 import { checkRequestSchema } from '$lib/claims/schema';
+import { claimOffers } from '$lib/server/access/permissions';
 import { app } from '$lib/server/app';
 import { echoValues, formRefusal, requireSignedIn } from '$lib/server/auth-web';
 import { formFailure, pageProblem } from '$lib/server/problems';
@@ -9,7 +10,9 @@ import { startCheck, listChecks } from '$lib/server/services/checks';
 import { getClaim } from '$lib/server/services/claims';
 import { addDataset, datasetTables, listDatasets } from '$lib/server/services/datasets';
 import { removeDataset } from '$lib/server/services/dataset-removal';
+import { withdrawClaim } from '$lib/server/services/claim-withdraw';
 import { FieldError } from '$lib/server/services/errors';
+import { withdrawConfirmSchema } from './withdraw-schema';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, params, url }) => {
@@ -23,14 +26,23 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 	]).catch(pageProblem);
 	const shown = datasets.find((d) => d.id === url.searchParams.get('dataset')) ?? datasets[0];
 	const tables = shown ? await datasetTables(database, actor, shown.id).catch(pageProblem) : null;
+	// Each role sees only the forms and links it may use (the permission module decides).
+	const may = await claimOffers(database, actor, {
+		id: claim.id,
+		groupId: claim.groupId,
+		createdBy: claim.createdBy.id,
+		state: claim.state,
+		withdrawnReason: claim.withdrawal?.reason ?? null
+	});
 	return {
 		claim,
+		may,
 		datasets,
 		preview: shown && tables ? { dataset: shown, tables: tables.tables } : null,
 		certificates,
 		// The list needs only a line per check, not each full result.
 		// Files no check has used yet may still be taken back.
-		removable: claim.withdrawal
+		removable: !may['remove-dataset']
 			? []
 			: datasets.filter((d) => !checks.some((c) => c.datasetId === d.id)).map((d) => d.id),
 		checks: checks.map((c) => ({
@@ -103,5 +115,19 @@ export const actions: Actions = {
 			return formRefusal({ setHeaders }, 'check', problem, values);
 		}
 		redirect(303, `/claims/${params.id}/checks/${checkId}`);
+	},
+
+	withdraw: async ({ request, locals, params, url }) => {
+		const actor = requireSignedIn(locals, url);
+		const values = echoValues(await request.formData(), ['reason', 'confirm']);
+		const parsed = withdrawConfirmSchema.safeParse(values);
+		if (!parsed.success) return formFailure('withdraw', parsed.error, values);
+		const { database } = await app();
+		try {
+			await withdrawClaim(database, actor, params.id, parsed.data.reason);
+		} catch (problem) {
+			return formFailure('withdraw', problem, values);
+		}
+		redirect(303, `/claims/${params.id}`);
 	}
 };
