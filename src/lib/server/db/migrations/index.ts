@@ -9,6 +9,7 @@ import * as outboxArchive from './0007-outbox-archive';
 import * as checkFairUse from './0008-check-fair-use';
 import * as mailCap from './0009-mail-cap';
 import * as checkAttempts from './0010-check-attempts';
+import * as shareOpened from './0015-share-opened';
 
 export const migrations = [
 	{ name: '0001-initial', ...initial },
@@ -20,5 +21,6 @@ export const migrations = [
 	{ name: '0007-outbox-archive', ...outboxArchive },
 	{ name: '0008-check-fair-use', ...checkFairUse },
 	{ name: '0009-mail-cap', ...mailCap },
-	{ name: '0010-check-attempts', ...checkAttempts }
+	{ name: '0010-check-attempts', ...checkAttempts },
+	{ name: '0015-share-opened', ...shareOpened }
 ];
