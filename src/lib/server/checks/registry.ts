@@ -2,6 +2,7 @@
  * One embedded check runner per database: started on first use, stopped (waiting for running
  * checks) or aborted (for shutdown) as a whole.
  */
+import { outsideRequest } from '../access/acting';
 import { config } from '../config';
 import type { Database } from '../db';
 import { checkWorkerFile } from './locate';
@@ -17,11 +18,11 @@ const runners = new WeakMap<Database, Promise<CheckQueue>>();
 export function startCheckRunner(database: Database): Promise<CheckQueue> {
 	let runner = runners.get(database);
 	if (!runner) {
-		runner = (async () => {
+		runner = outsideRequest(async () => {
 			const started = new CheckRunner(database, await checkWorkerFile(), config().checkWorkers);
 			await started.resume();
 			return started;
-		})();
+		});
 		runners.set(database, runner);
 		runner.catch(() => runners.delete(database));
 	}

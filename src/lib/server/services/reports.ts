@@ -4,6 +4,7 @@
  */
 import { Op } from 'sequelize';
 import { z } from 'zod';
+import { RECOMMENDATION_MISSING } from '$lib/review/recommendations';
 import { booleanFrom, type ValueSource } from '$lib/schema-numbers';
 import { accountIdOf, type Actor } from '../access/actor';
 import { requireClaim } from '../access/permissions';
@@ -18,9 +19,7 @@ import { sendNotice } from './notices';
 
 const reportInput = (source: ValueSource) =>
 	z.object({
-		recommendation: z.enum(RECOMMENDATIONS, {
-			error: 'Choose sound, needs-revision or unsound.'
-		}),
+		recommendation: z.enum(RECOMMENDATIONS, { error: RECOMMENDATION_MISSING[source] }),
 		comments: z.string().trim().max(50_000, 'Keep the comments under 50 000 characters.'),
 		/** false keeps it as a draft; true files it for good. */
 		submit:
