@@ -51,6 +51,7 @@ function params(route: string, caller: Caller, kit: Kit): Record<string, string>
 		['/api/v1/claims/[id]/datasets/', { id: kit.claimId, datasetId: kit.spareDatasets[1] }],
 		['/api/v1/claims/[id]', { id: kit.claimId }],
 		['/api/v1/certificates/[id]', { id: kit.certificateId }],
+		['/methods/[id]', { id: 'steering-2mub' }],
 		['/api/v1/checks/[id]', { id: kit.checks[0] }],
 		['/api/v1/reports/[id]', { id: kit.reports[0] }],
 		['/api/v1/review-links/[id]', { id: kit.spareLinks[0].id }],
