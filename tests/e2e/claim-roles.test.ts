@@ -60,6 +60,17 @@ describe.each(WIDTHS)('at %i px', (width) => {
 		expect(await page.textContent('[data-testid=verdict]')).toContain(WITHDRAW_REASON);
 	});
 
+	it("the certificate's own page gives the withdrawal's reason and date too", async () => {
+		await visit(
+			'lead',
+			`/claims/${world.claims.withdrawn}/certificates/${world.withdrawnCertificate}`,
+			width
+		);
+		const text = await page.textContent('[data-testid=certificate-withdrawal]');
+		expect(text).toContain(WITHDRAW_REASON);
+		expect(text).toMatch(/Withdrawn on \d{1,2} [A-Z][a-z]+ \d{4}, \d\d:\d\d UTC/);
+	});
+
 	it('/seal shows the withdrawal reason and its date in words', async () => {
 		await visit(null, `/seal/${world.withdrawnCertificate}`, width);
 		const text = await page.textContent('[data-testid=seal-withdrawal]');
