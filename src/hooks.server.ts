@@ -2,6 +2,7 @@ import type { Handle, HandleServerError, ServerInit } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
 import { app, isStopping } from '$lib/server/app';
 import { ANONYMOUS } from '$lib/server/access/actor';
+import { runAs } from '$lib/server/access/acting';
 import { reviewLink } from '$lib/server/access/review-handle';
 import { originCheck, rejectControlCharacters } from '$lib/server/request-guards';
 import { securityHeaders } from '$lib/server/response-headers';
@@ -63,6 +64,9 @@ const draining: Handle = async ({ event, resolve }) => {
 	return Response.json({ error: { code: 'unavailable', message } }, { status: 503, headers });
 };
 
+/** Last: the rest of the request runs as its caller, so audit rows say how the caller acted. */
+const acting: Handle = ({ event, resolve }) => runAs(event.locals.actor, () => resolve(event));
+
 /** Start the database, mail, check runner (and demo) with the server, not on the first request. */
 export const init: ServerInit = async () => {
 	await app();
@@ -86,5 +90,6 @@ export const handle: Handle = sequence(
 	rejectControlCharacters,
 	session,
 	bearer,
-	reviewLink
+	reviewLink,
+	acting
 );

@@ -29,6 +29,8 @@ GET /signup                                     200  303  303  303  303  303  20
 GET /reset                                      200  200  200  200  200  200  200  200  200  200  200  200  200
 GET /seal                                       200  200  200  200  200  200  200  200  200  200  200  200  200
 GET /seal/[id]                                  200  200  200  200  200  200  200  200  200  200  200  200  200
+GET /methods                                    200  200  200  200  200  200  200  200  200  200  200  200  200
+GET /methods/[id]                               200  200  200  200  200  200  200  200  200  200  200  200  200
 GET /invite/[token]                             200  200  200  200  200  200  200  200  200  200  200  200  200
 GET /reset/[token]                              200  200  200  200  200  200  200  200  200  200  200  200  200
 GET /verify/[token]                             200  200  200  200  200  200  200  200  200  200  200  200  200
@@ -133,6 +135,8 @@ POST /group/[id]?/role                          L    404  403  303  404  404  L 
 POST /group/[id]?/remove                        L    404  403  303  404  404  L    L    L    L    L    L    404
 POST /admin/users?/role                         L    403  403  403  403  403  L    L    L    L    L    L    303
 POST /archive?/withdraw                         L    404  303  303  404  403  L    L    L    L    L    L    404
+# the claim page's withdraw, after the archive's: allowed callers reach "withdrawn already" (409)
+POST /claims/[id]?/withdraw                     L    404  409  409  404  403  L    L    L    L    L    L    404
 POST /api/v1/claims/[id]/withdraw               401  404  200  200  404  404  401  401  401  200  401  401  404
 # last: these end the caller's session
 POST /invite/[token]?/switch                    L    L    L    L    L    L    L    L    L    L    L    L    L

@@ -126,6 +126,9 @@ describe('the Content-Security-Policy in a browser', () => {
 		expect(await visit(review)).toEqual([]);
 		expect(await visit('/login', 'form')).toEqual([]);
 		expect(await visit('/signup', 'form')).toEqual([]);
+		// The method pages (issue 18), public like the seal pages.
+		expect(await visit('/methods')).toEqual([]);
+		expect(await visit('/methods/steering-2mub?d=7', 'table')).toEqual([]);
 	});
 
 	it('shows the admin pages and an HTML mail sandboxed, with no violation', async () => {

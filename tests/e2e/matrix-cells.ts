@@ -51,6 +51,7 @@ function params(route: string, caller: Caller, kit: Kit): Record<string, string>
 		['/api/v1/claims/[id]/datasets/', { id: kit.claimId, datasetId: kit.spareDatasets[1] }],
 		['/api/v1/claims/[id]', { id: kit.claimId }],
 		['/api/v1/certificates/[id]', { id: kit.certificateId }],
+		['/methods/[id]', { id: 'steering-2mub' }],
 		['/api/v1/checks/[id]', { id: kit.checks[0] }],
 		['/api/v1/reports/[id]', { id: kit.reports[0] }],
 		['/api/v1/review-links/[id]', { id: kit.spareLinks[0].id }],
@@ -104,6 +105,7 @@ function body(route: string, caller: Caller, kit: Kit): Body | undefined {
 		'POST /claims/[id]/edit?/save': () => ({ form: { ...claimFields, bases: '0,1,2' } as never }),
 		'POST /claims/[id]/sharing?/share': () => ({ form: share }),
 		'POST /claims/[id]/sharing?/withdraw': () => ({ form: { shareId: kit.openShares[2].id } }),
+		'POST /claims/[id]?/withdraw': () => ({ form: { reason: 'Matrix.', confirm: 'yes' } }),
 		'POST /claims/[id]?/check': () => ({ form: { datasetId: kit.datasetId, resamples: '100' } }),
 		'POST /claims/[id]?/removeDataset': () => ({ form: { datasetId: kit.spareDatasets[0] } }),
 		'POST /claims/[id]?/upload': () => ({

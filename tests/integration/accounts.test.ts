@@ -163,8 +163,14 @@ describe('accounts', () => {
 		expect(
 			await resetPassword(world.database, world.lucia, world.mailer, token, 'another-long-password')
 		).toEqual({ ok: false, reason: 'used' });
-		expect((await mailTo(world, 'eirik@fjordlight.test')).at(-1)!.subject).toBe(
-			'Your Rankseal password was changed'
+		const changed = (await mailTo(world, 'eirik@fjordlight.test')).at(-1)!;
+		expect(changed.subject).toBe('Your Rankseal password was changed');
+		// The mail says the script keys were revoked too (issue 18), in both bodies.
+		expect(changed.text.replace(/\s+/g, ' ')).toContain(
+			'every script key (API token) of the account was revoked'
+		);
+		expect((changed.html ?? '').replace(/\s+/g, ' ')).toContain(
+			'every script key (API token) of the account was revoked'
 		);
 		expect(await auditActions(userId)).toContain('account.password-reset');
 	});

@@ -84,7 +84,9 @@ describe('datasets service', () => {
 			originalName: 'copy.csv'
 		}).catch((e) => e);
 		expect(error).toBeInstanceOf(ConflictError);
-		expect(error.message).toMatch(/uploaded to this claim already, as run3\.csv on \d{4}-/);
+		expect(error.message).toMatch(
+			/uploaded to this claim already, as run3\.csv on \d{1,2} [A-Z][a-z]+ \d{4}, \d\d:\d\d UTC\./
+		);
 		const all = await listDatasets(ctx.database, asUser(ada), claimId);
 		expect(all.map((d) => d.originalName)).toEqual(['run3.csv']);
 	});

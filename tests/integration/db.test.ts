@@ -29,6 +29,7 @@ describe('database', () => {
 			'0011-analyses',
 			'0012-ledger-key-entries',
 			'0014-no-live-secrets',
+			'0015-share-opened',
 			'0016-dataset-calibration'
 		]);
 	});

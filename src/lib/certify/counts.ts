@@ -27,6 +27,8 @@ export interface CountsDataset {
 	tables: CountTable[];
 	/** The Fourier convention the file itself declares (JSON `"fourier"`), and where. */
 	declaredFourier?: { convention: FourierConvention; line: number; column: number };
+	/** How the file was read, in words, when its layout was detected (grid files). */
+	readAs?: string;
 }
 
 /** Bad input (a file, an option): the message names the line and column, or the field, where it can. */

@@ -85,6 +85,12 @@ export const fidelityTwoBasis: WitnessFamily = {
 	trustedSides: 'both sides trusted',
 	formula: 'F̃ ≤ F = ⟨Φ_d|ρ|Φ_d⟩ from the computational table and the Fourier matches; F ≤ r/d.',
 	trustNote: 'Both sides trusted; every cell of the computational basis is needed.',
+	assumes: [
+		'Both sides trusted, measuring the computational basis (0) and the Fourier basis (1).',
+		'The whole computational table is recorded: the bound uses every cell, not only the matches.'
+	],
+	preferWhen:
+		'The target state is close to the maximally entangled state Φ_d and you have only the computational and Fourier bases: a fidelity above r/d certifies Schmidt number above r.',
 	basesNote: 'bases 0 and 1',
 	defaultBases: () => [0, 1],
 	checkBases(bases) {

@@ -20,6 +20,12 @@ export const mubCorrelation: WitnessFamily = {
 	trustedSides: 'both sides trusted',
 	formula: 'S = Σₜ Σₐ pₜ(a, a) over m mutually unbiased bases; S ≤ 1 + (m − 1)·r/d.',
 	trustNote: 'Both sides’ measurements are trusted to be the declared bases.',
+	assumes: [
+		'Both sides measure projections onto the declared mutually unbiased bases; a tilted or mislabelled basis can inflate the sum.',
+		'Every cell of each basis used is recorded; the sum uses the matching outcomes pₜ(a, a).'
+	],
+	preferWhen:
+		'You trust both detection stations and have three or more bases: each added basis raises the sum a high Schmidt number can reach faster than the bound, so the ladder separates rungs better.',
 	basesNote: 'two or more bases',
 	defaultBases: (present) => present,
 	checkBases(bases, d, fourier = DEFAULT_FOURIER) {

@@ -27,6 +27,12 @@ export const steering2Mub: WitnessFamily = {
 	trustedSides: 'side B trusted, side A untrusted',
 	formula: 'W = Σₜ Σₐ pₜ(a, a) over two bases; W ≤ (1 + 1/√d)·2√r/(1 + √r).',
 	trustNote: 'Side A is a black box; only side B’s measurements are trusted.',
+	assumes: [
+		'Only side B is trusted: its two measurements are the declared bases. Side A may be any device.',
+		'Exactly two bases, each with all of its cells.'
+	],
+	preferWhen:
+		'A referee will ask whether one detection station could be miscalibrated or untrusted: this test does not trust side A, at the price of a higher bar for each rung.',
 	basesNote: 'exactly two bases',
 	defaultBases: (present) =>
 		present.includes(0) && present.includes(1) ? [0, 1] : present.slice(0, 2),

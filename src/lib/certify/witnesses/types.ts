@@ -25,6 +25,10 @@ export interface WitnessFamily {
 	formula: string;
 	/** What the trust assumption means in practice, in one sentence. */
 	trustNote: string;
+	/** What the method assumes beyond independent, fairly sampled pairs (the method's page). */
+	assumes?: string[];
+	/** When to choose this method over the others, for the method's page. */
+	preferWhen?: string;
 	/** Which bases the method accepts, in a few words for forms. */
 	basesNote: string;
 	/** Which bases to use when none are requested, from those present in the file. */

@@ -15,6 +15,7 @@ export {
 	visibleClaimsWhere,
 	type ClaimAction
 } from './claim-rules';
+export { claimOffers, type ClaimOffers, type OfferedAction } from './claim-actions';
 export { decideGroup, requireGroup, type GroupAction } from './group-rules';
 export {
 	decideService,

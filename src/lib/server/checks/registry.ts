@@ -2,6 +2,7 @@
  * One embedded check runner per database: started on first use, stopped (waiting for running
  * checks) or aborted (for shutdown) as a whole.
  */
+import { outsideRequest } from '../access/acting';
 import { config } from '../config';
 import type { Database } from '../db';
 import { checkWorkerFile } from './locate';
@@ -17,13 +18,13 @@ const runners = new WeakMap<Database, Promise<CheckQueue>>();
 export function startCheckRunner(database: Database): Promise<CheckQueue> {
 	let runner = runners.get(database);
 	if (!runner) {
-		runner = (async () => {
+		runner = outsideRequest(async () => {
 			const { checkWorkers, shortTaskWorkers } = config();
 			const file = await checkWorkerFile();
 			const started = new CheckRunner(database, file, checkWorkers, shortTaskWorkers);
 			await started.resume();
 			return started;
-		})();
+		});
 		runners.set(database, runner);
 		runner.catch(() => runners.delete(database));
 	}

@@ -61,7 +61,8 @@ export function summarise(
 		),
 		hasAccidentals: dataset.tables.some((t) => t.accidentals !== null),
 		hasDurations: dataset.tables.some((t) => t.durations !== null),
-		allows
+		allows,
+		...(dataset.readAs ? { readAs: dataset.readAs } : {})
 	};
 }
 

@@ -25,7 +25,7 @@ import {
 } from '../../evidence/manifest';
 import { signText, type SigningKey } from '../../evidence/signing';
 import { fillPlaceholders } from '../templates';
-import { certificatePdf } from './pdf';
+import { certificatePdf, type CertificateContext } from './pdf';
 import { verifierBytes } from './verifier-file';
 import { zipFiles } from './zip-write';
 
@@ -54,6 +54,10 @@ export interface Evidence {
 	zip: Buffer;
 }
 
+/** Who and what the counts came from, for the PDF only (not signed: the manifest is). */
+export type EvidenceContext = Omit<CertificateContext, 'coincidencesPerBasis'> &
+	Partial<Pick<CertificateContext, 'coincidencesPerBasis'>>;
+
 export type EvidenceInput = Omit<
 	ManifestInput,
 	'counts' | 'signingKeyId' | 'engineVersion' | 'calibration'
@@ -64,20 +68,39 @@ export type EvidenceInput = Omit<
 	calibrationBytes?: Uint8Array | null;
 	/** The canonical counts text when the caller has it (the service reads it on the work pool). */
 	canonical?: string;
+	context?: EvidenceContext;
+};
+
+const UNKNOWN_CONTEXT: EvidenceContext = {
+	group: 'not recorded',
+	authors: [],
+	sourceDescription: 'not recorded',
+	countsFileName: 'not recorded'
 };
 
 const utf8 = (text: string) => new TextEncoder().encode(text);
 
 function countsParts(input: EvidenceInput) {
-	const canonical =
-		input.canonical ?? canonicalCountsText(parseCounts(input.uploaded, input.claim.dimension));
+	// The service brings the canonical text and the per-basis totals (read on the work pool);
+	// other callers (tests, the command line) have them worked out here.
+	const parsed = () => parseCounts(input.uploaded, input.claim.dimension);
+	const dataset = input.canonical && input.context?.coincidencesPerBasis ? null : parsed();
+	const canonical = input.canonical ?? canonicalCountsText(dataset ?? parsed());
+	// Coincidences in each basis the claim uses, for the certificate's page one.
+	const given = input.context?.coincidencesPerBasis;
+	const perBasis =
+		given?.filter((b) => input.result.bases.includes(b.basis)) ??
+		input.result.bases.map((basis) => {
+			const table = (dataset ?? parsed()).tables.find((t) => t.basis === basis);
+			return { basis, total: table ? table.counts.reduce((sum, c) => sum + c, 0) : 0 };
+		});
 	const counts = {
 		uploadedSha256: sha256Hex(input.uploaded),
 		uploadedFormat: input.uploadedFormat,
 		uploadedBytes: input.uploaded.byteLength,
 		canonicalSha256: sha256Hex(canonical)
 	};
-	return { canonical, counts };
+	return { canonical, counts, perBasis };
 }
 
 function readmeText(manifest: EvidenceManifest, fingerprint: string, urls: EvidenceUrls) {
@@ -110,8 +133,15 @@ export async function makeEvidence(
 	published: { keys: { id: string }[] },
 	checkpoint?: LedgerCheckpoint
 ): Promise<Evidence> {
-	const { canonical, counts } = countsParts(input);
-	const { uploaded, uploadedFormat, calibrationBytes: calibration, canonical: _, ...rest } = input;
+	const { canonical, counts, perBasis } = countsParts(input);
+	const {
+		uploaded,
+		uploadedFormat,
+		calibrationBytes: calibration,
+		canonical: _,
+		context,
+		...rest
+	} = input;
 	delete (rest as { calibration?: unknown }).calibration;
 	const engineVersion = input.result.engine.version;
 	const manifest = buildManifest({
@@ -131,7 +161,13 @@ export async function makeEvidence(
 	const text = manifestText(manifest);
 	const fingerprint = fingerprintOf(text);
 	const signature = signText(text, key.secretKey);
-	const pdf = await certificatePdf({ manifest, fingerprint, signature, verifyUrl: urls.verify });
+	const pdf = await certificatePdf({
+		manifest,
+		fingerprint,
+		signature,
+		verifyUrl: urls.verify,
+		context: { ...(context ?? UNKNOWN_CONTEXT), coincidencesPerBasis: perBasis }
+	});
 	const files: EvidenceFiles = {
 		[uploadedCountsName(uploadedFormat)]: uploaded,
 		[BUNDLE_FILES.canonicalCounts]: utf8(canonical),

@@ -5,7 +5,7 @@
  */
 import { analysesSentence, analysisLine } from '../../evidence/analyses-words';
 import type { EvidenceManifest } from '../../evidence/manifest';
-import { field, heading, INK, MUTED } from './pdf-parts';
+import { field, heading, MUTED, paragraph } from './pdf-parts';
 
 type Doc = PDFKit.PDFDocument;
 
@@ -17,9 +17,11 @@ export function drawAnalyses(doc: Doc, m: EvidenceManifest): void {
 	const sentence = analysesSentence(m.analyses, m.parameters.confidence);
 	heading(doc, 'Analyses of these counts');
 	field(doc, 'Distinct analyses up to this certificate', String(m.analyses.total));
-	doc.font('serif').fontSize(9.5).fillColor(INK).text(sentence);
-	doc.moveDown(0.2).font('serif').fontSize(8).fillColor(MUTED);
-	m.analyses.list.slice(0, MAX_ROWS).forEach((a, i) => doc.text(analysisLine(a, i)));
+	paragraph(doc, sentence, 9.5);
+	doc.moveDown(0.2);
+	m.analyses.list
+		.slice(0, MAX_ROWS)
+		.forEach((a, i) => paragraph(doc, analysisLine(a, i), 8, MUTED));
 	const more = m.analyses.list.length - MAX_ROWS;
-	if (more > 0) doc.text(`… and ${more} more, listed in the signed manifest.`);
+	if (more > 0) paragraph(doc, `… and ${more} more, listed in the signed manifest.`, 8, MUTED);
 }

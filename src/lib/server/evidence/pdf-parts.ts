@@ -1,5 +1,6 @@
 /** Small drawing helpers for the certificate PDF: headings, label–value rows, the QR code. */
 import QRCode from 'qrcode';
+import { write } from './pdf-fonts';
 
 type Doc = PDFKit.PDFDocument;
 
@@ -8,14 +9,23 @@ export const MUTED = '#5a6473';
 export const ACCENT = '#0b6e4f';
 
 export function heading(doc: Doc, text: string): void {
-	doc.moveDown(0.8).font('serif-bold').fontSize(11.5).fillColor(ACCENT).text(text);
-	doc.moveDown(0.2).font('serif').fontSize(9.5).fillColor(INK);
+	doc.moveDown(0.7).fontSize(11.5).fillColor(ACCENT);
+	write(doc, text, 'bold');
+	doc.moveDown(0.15).font('serif').fontSize(9.5).fillColor(INK);
 }
 
-/** One "label: value" line with the label muted. */
-export function field(doc: Doc, label: string, value: string): void {
-	doc.font('serif').fontSize(9.5).fillColor(MUTED).text(`${label}: `, { continued: true });
-	doc.fillColor(INK).text(value);
+/** One "label: value" line with the label muted; every character of the value gets a glyph. */
+export function field(doc: Doc, label: string, value: string, size = 9.5): void {
+	doc.fontSize(size).fillColor(MUTED);
+	write(doc, `${label}: `, 'regular', { continued: true });
+	doc.fillColor(INK);
+	write(doc, value || '—', 'regular');
+}
+
+/** A paragraph in the given size and colour. */
+export function paragraph(doc: Doc, text: string, size = 9, colour = INK): void {
+	doc.fontSize(size).fillColor(colour);
+	write(doc, text, 'regular');
 }
 
 /** The QR code of `text` as filled squares (vector, no image), `size` points wide. */

@@ -1,181 +1,151 @@
 /**
- * The certificate PDF (pdfkit, A4, Noto Serif embedded): identity, claim, method and its
- * assumptions, the statistic, the ladder of bounds, the table of margins, the certified Schmidt
- * number and verdict, cautions, the signature and a QR code to the verification page.
+ * The certificate PDF (pdfkit, A4, Noto Serif with Noto Sans Math for the symbols it lacks).
+ * Page one is what a reader checks first: who claims what, the result, the counts and the
+ * signature. Page two is the evidence behind it (pdf-evidence.ts).
  */
-import { existsSync } from 'node:fs';
-import { createRequire } from 'node:module';
-import path from 'node:path';
 import PDFDocument from 'pdfkit';
-import { witnessFamilies } from '../../certify';
-import { assumptionsOf } from '../../evidence/cautions';
+import { visibility } from '../../components/rounding';
+import { dateTimeInWords } from '../../dates';
 import type { EvidenceManifest } from '../../evidence/manifest';
 import { drawAnalyses } from './pdf-analyses';
-import { drawLadder } from './pdf-ladder';
-import { ACCENT, drawQr, field, heading, INK, MUTED, numberPages } from './pdf-parts';
 import { calibrationLine } from './pdf-calibration';
+import { boundsTable, cautionsBlock, methodBlock, statisticBlock } from './pdf-evidence';
+import { registerFaces, write } from './pdf-fonts';
+import { num } from './pdf-ladder';
+import { ACCENT, drawQr, field, heading, INK, MUTED, numberPages, paragraph } from './pdf-parts';
 
 type Doc = PDFKit.PDFDocument;
+
+/** What the certificate shows beside the signed manifest: who and what the counts came from. */
+export interface CertificateContext {
+	group: string;
+	authors: string[];
+	sourceDescription: string;
+	countsFileName: string;
+	coincidencesPerBasis: { basis: number; total: number }[];
+}
 
 export interface PdfInput {
 	manifest: EvidenceManifest;
 	fingerprint: string;
 	signature: string;
 	verifyUrl: string;
+	context: CertificateContext;
 }
 
-function fontFile(weight: 400 | 700): string {
-	const name = `@fontsource/noto-serif/files/noto-serif-latin-${weight}-normal.woff`;
-	try {
-		return createRequire(import.meta.url).resolve(name);
-	} catch {
-		const local = path.resolve('node_modules', name);
-		if (existsSync(local)) return local;
-		throw new Error(`the certificate font is missing: ${name}`);
-	}
-}
+/** Long free text is cut so that page one stays one page (the full text is on the claim page). */
+const SOURCE_LIMIT = 420;
+const AUTHORS_SHOWN = 12;
+const clip = (text: string, limit: number) =>
+	text.length > limit ? `${text.slice(0, limit).trimEnd()}…` : text;
 
-const num = (v: number, digits = 4) =>
-	Number.isFinite(v) ? Number(v.toPrecision(digits)).toString() : 'n/a';
+function authorsText(authors: string[]): string {
+	if (authors.length <= AUTHORS_SHOWN) return authors.join(', ');
+	return `${authors.slice(0, AUTHORS_SHOWN).join(', ')} and ${authors.length - AUTHORS_SHOWN} more`;
+}
 
 function identity(doc: Doc, { manifest, fingerprint, verifyUrl }: PdfInput) {
 	const top = doc.y;
-	doc
-		.font('serif-bold')
-		.fontSize(18)
-		.fillColor(INK)
-		.text('Schmidt-number certificate', { width: 380 });
-	doc
-		.font('serif')
-		.fontSize(9)
-		.fillColor(MUTED)
-		.text('issued by Rankseal from the raw coincidence counts', { width: 380 });
-	doc.moveDown(0.6);
+	const qrX = doc.page.width - doc.page.margins.right - 90;
+	doc.fontSize(18).fillColor(INK);
+	write(doc, 'Schmidt-number certificate', 'bold', { width: 380 });
+	paragraph(doc, 'issued by Rankseal from the raw coincidence counts', 9, MUTED);
+	doc.moveDown(0.5);
 	field(doc, 'Certificate', manifest.certificateId);
-	field(doc, 'Issued', manifest.issuedAt);
-	doc.font('serif').fontSize(9.5).fillColor(MUTED).text('Fingerprint (SHA-256 of the manifest):');
-	doc.font('serif').fontSize(8.5).fillColor(INK).text(fingerprint);
-	drawQr(doc, verifyUrl, doc.page.width - doc.page.margins.right - 96, top, 96);
-	doc
-		.font('serif')
-		.fontSize(7)
-		.fillColor(MUTED)
-		.text('Verify', doc.page.width - doc.page.margins.right - 96, top + 98, {
-			width: 96,
-			align: 'center'
-		});
+	field(doc, 'Issued', dateTimeInWords(manifest.issuedAt));
+	if (manifest.supersedes) field(doc, 'Supersedes', manifest.supersedes);
+	drawQr(doc, verifyUrl, qrX, top, 90);
+	doc.font('serif').fontSize(7).fillColor(MUTED);
+	doc.text('Verify', qrX, top + 92, { width: 90, align: 'center' });
 	doc.x = doc.page.margins.left;
-	doc.y = Math.max(doc.y, top + 112);
+	doc.y = Math.max(doc.y, top + 104);
+	field(doc, 'Fingerprint (SHA-256 of the manifest)', fingerprint, 8.5);
 }
 
-function claimAndMethod(doc: Doc, m: EvidenceManifest) {
+function claimBlock(doc: Doc, m: EvidenceManifest, context: CertificateContext) {
 	heading(doc, 'The claim');
 	field(doc, 'Title', m.claim.title);
-	field(doc, 'Claimed Schmidt number', String(m.claim.claimedSchmidtNumber));
-	field(doc, 'Local dimension', String(m.claim.dimension));
+	field(doc, 'Group', context.group);
+	field(doc, 'Authors', authorsText(context.authors));
+	field(doc, 'Source', clip(context.sourceDescription, SOURCE_LIMIT));
+	field(
+		doc,
+		'Claimed',
+		`Schmidt number ${m.claim.claimedSchmidtNumber} in local dimension d = ${m.claim.dimension}`
+	);
 	field(doc, 'Manuscript', m.claim.manuscriptReference ?? 'none given');
-	heading(doc, 'Method and what it assumes');
-	const family = witnessFamilies[m.claim.method];
-	field(doc, 'Method', `${family.title} (${m.claim.method}); ${m.result.trust}`);
-	field(doc, 'Bases', `${m.claim.bases.join(', ')}; Fourier convention: ${m.claim.fourier}`);
-	field(
-		doc,
-		'Counts',
-		m.result.backgroundSubtracted ? 'background-subtracted' : 'raw, as recorded'
-	);
-	field(
-		doc,
-		'Bootstrap',
-		`${m.parameters.resamples} resamples, seed ${m.parameters.seed}, confidence ${m.parameters.confidence}`
-	);
-	field(doc, 'Counts file SHA-256', m.counts.uploadedSha256);
-	field(doc, 'Engine', m.engineVersion);
-	field(doc, 'Reference', m.result.reference);
 }
 
-function statisticAndLadder(doc: Doc, m: EvidenceManifest) {
-	const s = m.result.statistic;
-	heading(doc, 'The statistic');
-	field(doc, 'Value', `${num(s.value, 6)} (bootstrap standard error ${num(s.standardError)})`);
-	field(doc, `One-sided lower bound at confidence ${m.result.confidence}`, num(s.lower, 6));
-	field(doc, 'How the bound is made', s.boundNote);
-	field(doc, '95 % interval', `${num(s.interval95[0], 6)} to ${num(s.interval95[1], 6)}`);
-	heading(doc, 'The ladder of bounds');
-	const x = doc.page.margins.left;
-	const width = doc.page.width - doc.page.margins.left - doc.page.margins.right;
-	drawLadder(doc, m.result, x, doc.y + 4, width);
-	doc.x = x;
-}
-
-function boundsTable(doc: Doc, m: EvidenceManifest) {
-	heading(doc, 'Bounds and margins');
-	const x = doc.page.margins.left;
-	const columns = [0, 90, 200, 330];
-	const row = (cells: string[], bold = false) => {
-		if (doc.y > doc.page.height - doc.page.margins.bottom - 20) doc.addPage();
-		const y = doc.y;
-		doc
-			.font(bold ? 'serif-bold' : 'serif')
-			.fontSize(9)
-			.fillColor(INK);
-		cells.forEach((cell, i) => doc.text(cell, x + columns[i], y, { width: 120, lineBreak: false }));
-		doc.x = x;
-		doc.y = y + 13;
-	};
-	row(['Schmidt number k', 'bound', 'margin (SE)', 'critical visibility'], true);
-	for (const b of m.result.bounds)
-		row([
-			String(b.upToSchmidtNumber),
-			num(b.bound, 6),
-			b.marginInStandardErrors === null ? 'n/a' : num(b.marginInStandardErrors, 3),
-			num(b.criticalVisibility)
-		]);
-}
-
-function verdict(doc: Doc, m: EvidenceManifest) {
+function resultBlock(doc: Doc, m: EvidenceManifest, context: CertificateContext) {
 	heading(doc, 'Result');
-	doc.font('serif-bold').fontSize(13).fillColor(ACCENT);
-	doc.text(`Certified Schmidt number: ${m.result.certifiedSchmidtNumber}`);
-	const bases = calibrationLine(m.result);
-	if (bases) doc.font('serif').fontSize(9.5).fillColor(INK).text(bases);
-	doc.font('serif-bold').fontSize(13).fillColor(ACCENT);
-	const claim = m.result.claim;
-	const said = claim
-		? `Verdict on the claimed ${claim.schmidtNumber}: ${claim.verdict}`
-		: 'No claim was judged';
-	doc.fillColor(INK).text(said);
-	if (claim?.shortfall) doc.font('serif').fontSize(9.5).text(claim.shortfall);
-	heading(doc, 'Cautions');
-	for (const line of [
-		...assumptionsOf(m.result.trust, m.result.backgroundSubtracted),
-		...m.result.warnings
-	])
-		doc.font('serif').fontSize(9).fillColor(INK).text(`- ${line}`, { indent: 0 });
+	const r = m.result;
+	doc.fontSize(13).fillColor(ACCENT);
+	write(doc, `Certified Schmidt number: ${r.certifiedSchmidtNumber}`, 'bold');
+	const bases = calibrationLine(r);
+	if (bases) paragraph(doc, bases, 9.5);
+	const claim = r.claim;
+	doc.fontSize(10.5).fillColor(INK);
+	write(
+		doc,
+		claim
+			? `Verdict on the claimed ${claim.schmidtNumber}: ${claim.verdict}`
+			: 'No claim was judged',
+		'bold'
+	);
+	if (claim?.shortfall) paragraph(doc, claim.shortfall, 9);
+	doc.moveDown(0.3);
+	field(
+		doc,
+		'Statistic',
+		`${num(r.statistic.value, 6)}, lower bound ${num(r.statistic.lower, 6)} at confidence ${r.confidence}`
+	);
+	field(doc, 'Effective visibility', `${visibility(r.effectiveVisibility)} (white-noise model)`);
+	const perBasis = context.coincidencesPerBasis
+		.map((b) => `basis ${b.basis}: ${b.total.toLocaleString('en')}`)
+		.join('; ');
+	field(doc, 'Coincidences', `${r.totalCounts.toLocaleString('en')} in all (${perBasis})`);
+	field(
+		doc,
+		'Counts file',
+		`${context.countsFileName} (${m.counts.uploadedFormat}, ${m.counts.uploadedBytes.toLocaleString('en')} bytes)`
+	);
+	field(doc, 'Counts file SHA-256', m.counts.uploadedSha256, 8.5);
 }
 
 function signatureBlock(doc: Doc, input: PdfInput) {
 	heading(doc, 'Signature');
 	field(doc, 'Algorithm', 'Ed25519 over the canonical manifest (RFC 8785)');
-	field(doc, 'Signing key id', input.manifest.signingKeyId);
-	doc
-		.font('serif')
-		.fontSize(8)
-		.fillColor(INK)
-		.text(input.signature.slice(0, 64))
-		.text(input.signature.slice(64));
+	field(
+		doc,
+		'Signing key fingerprint (SHA-256 of its public key)',
+		input.manifest.signingKeyId,
+		8.5
+	);
+	field(doc, 'Signature', input.signature, 8);
 	field(doc, 'Verify at', input.verifyUrl);
-	doc
-		.font('serif')
-		.fontSize(8.5)
-		.fillColor(MUTED)
-		.text('Offline: unzip the evidence bundle and run `node verify.mjs` in its folder.');
+	paragraph(
+		doc,
+		'Offline: unzip the evidence bundle and run `node verify.mjs` in its folder.',
+		8.5,
+		MUTED
+	);
+}
+
+function evidencePage(doc: Doc, m: EvidenceManifest) {
+	doc.addPage();
+	doc.fontSize(13).fillColor(INK);
+	write(doc, 'The evidence behind the result', 'bold');
+	methodBlock(doc, m);
+	statisticBlock(doc, m);
+	boundsTable(doc, m);
+	cautionsBlock(doc, m);
 }
 
 /** Renders the certificate and resolves with the PDF bytes. */
 export function certificatePdf(input: PdfInput): Promise<Buffer> {
 	const doc = new PDFDocument({
 		size: 'A4',
-		margin: 56,
+		margin: 50,
 		bufferPages: true,
 		info: {
 			Title: `Rankseal certificate ${input.manifest.certificateId}`,
@@ -183,8 +153,7 @@ export function certificatePdf(input: PdfInput): Promise<Buffer> {
 			CreationDate: new Date(input.manifest.issuedAt)
 		}
 	});
-	doc.registerFont('serif', fontFile(400));
-	doc.registerFont('serif-bold', fontFile(700));
+	registerFaces(doc);
 	const chunks: Buffer[] = [];
 	const done = new Promise<Buffer>((resolve, reject) => {
 		doc.on('data', (chunk: Buffer) => chunks.push(chunk));
@@ -192,12 +161,11 @@ export function certificatePdf(input: PdfInput): Promise<Buffer> {
 		doc.on('error', reject);
 	});
 	identity(doc, input);
-	claimAndMethod(doc, input.manifest);
-	statisticAndLadder(doc, input.manifest);
-	boundsTable(doc, input.manifest);
-	verdict(doc, input.manifest);
-	drawAnalyses(doc, input.manifest);
+	claimBlock(doc, input.manifest, input.context);
+	resultBlock(doc, input.manifest, input.context);
 	signatureBlock(doc, input);
+	evidencePage(doc, input.manifest);
+	drawAnalyses(doc, input.manifest);
 	numberPages(doc, `Certificate ${input.manifest.certificateId}`);
 	doc.end();
 	return done;

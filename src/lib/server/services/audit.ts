@@ -1,5 +1,6 @@
 import type { Transaction } from 'sequelize';
 import type { Database } from '../db';
+import { actedAs } from '../access/acting';
 import { newId } from './ids';
 
 export interface AuditEntry {
@@ -17,8 +18,10 @@ export async function audit(
 	entry: AuditEntry,
 	transaction?: Transaction
 ): Promise<void> {
+	const how = actedAs();
+	const details = how ? { actedAs: how, ...entry.details } : (entry.details ?? {});
 	await database.models.AuditEvent.create(
-		{ id: newId(), groupId: null, subjectId: null, details: {}, ...entry },
+		{ id: newId(), groupId: null, subjectId: null, ...entry, details },
 		{ transaction }
 	);
 }

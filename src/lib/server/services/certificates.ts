@@ -18,6 +18,7 @@ import { requireClaim, requireOpen } from '../access/permissions';
 import { audit } from './audit';
 import { certificatePaths, placeFiles, removeFiles } from './certificate-files';
 import { statedResult, type StatedResult } from './certificate-analyses';
+import { certificateContext } from './certificate-context';
 import { certificateRow, issueDetails } from './certificate-rows';
 import { certificateView, evidenceUrls, type CertificateView } from './certificate-views';
 import { queueCertificateNotice } from './claim-notices';
@@ -116,7 +117,8 @@ async function prepare(
 	const id = newId();
 	const supersedes = await currentCertificate(database, claimId);
 	const stated = await statedResult(database, claim, source);
-	const input = evidenceInput(claim, source, stated, id, supersedes);
+	const context = await certificateContext(database, claim, source.dataset);
+	const input = { ...evidenceInput(claim, source, stated, id, supersedes), context };
 	const urls = evidenceUrls(config().origin, id);
 	// The ledger as it stands before this issue: the bundle cannot hold a hash of its own entry.
 	const checkpoint = await publishCheckpoint(database, key);

@@ -8,6 +8,7 @@ import { mkdir, readFile, rename, rm, stat, writeFile } from 'node:fs/promises';
 import path from 'node:path';
 import { col, type Transaction } from 'sequelize';
 import { InputError } from '$lib/certify';
+import { dateTimeInWords } from '$lib/dates';
 import { sha256Hex } from '$lib/evidence/hash';
 import { accountIdOf, type Actor } from '../access/actor';
 import { requireClaim } from '../access/permissions';
@@ -103,9 +104,9 @@ async function refuseRepeatedUpload(
 	});
 	if (!earlier) return;
 	const { originalName, createdAt } = earlier.get({ plain: true });
-	const when = new Date(createdAt ?? 0).toISOString().slice(0, 16).replace('T', ' ');
+	const when = dateTimeInWords(createdAt ?? 0);
 	throw new ConflictError(
-		`These exact bytes (SHA-256 ${sha256.slice(0, 12)}…) were uploaded to this claim already, as ${originalName} on ${when} UTC.`
+		`These exact bytes (SHA-256 ${sha256.slice(0, 12)}…) were uploaded to this claim already, as ${originalName} on ${when}.`
 	);
 }
 

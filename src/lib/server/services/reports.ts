@@ -5,6 +5,7 @@
 import { textRule } from '$lib/text-rules';
 import { Op } from 'sequelize';
 import { z } from 'zod';
+import { RECOMMENDATION_MISSING } from '$lib/review/recommendations';
 import { booleanFrom, type ValueSource } from '$lib/schema-numbers';
 import { accountIdOf, type Actor } from '../access/actor';
 import { requireClaim } from '../access/permissions';
@@ -19,9 +20,7 @@ import { sendNotice } from './notices';
 
 const reportInput = (source: ValueSource) =>
 	z.object({
-		recommendation: z.enum(RECOMMENDATIONS, {
-			error: 'Choose sound, needs-revision or unsound.'
-		}),
+		recommendation: z.enum(RECOMMENDATIONS, { error: RECOMMENDATION_MISSING[source] }),
 		comments: z
 			.string()
 			.trim()

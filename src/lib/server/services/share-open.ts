@@ -51,10 +51,10 @@ export async function openShare(database: Database, actor: Actor, token: string)
 		);
 	if (user.accountRole !== 'editor')
 		throw new FieldError('share', 'This address belongs to an account that is not an editor’s.');
-	if (share.editorId !== user.id) {
+	if (share.editorId !== user.id || !share.openedAt) {
 		await writeTransaction(database, async (transaction) => {
 			await database.models.Share.update(
-				{ editorId: user.id },
+				{ editorId: user.id, openedAt: new Date() },
 				{ where: { id: share.id }, transaction }
 			);
 			const entry = { actorId: user.id, subjectType: 'share', subjectId: share.id };
@@ -87,7 +87,10 @@ export async function signUpEditor(
 			const { User, Share } = database.models;
 			const account = { id: userId, email, name, passwordHash, accountRole: 'editor' as const };
 			await User.create({ ...account, emailVerifiedAt: new Date() }, { transaction });
-			await Share.update({ editorId: userId }, { where: { id: share.id }, transaction });
+			await Share.update(
+				{ editorId: userId, openedAt: new Date() },
+				{ where: { id: share.id }, transaction }
+			);
 			const entry = { actorId: userId, subjectType: 'user', subjectId: userId };
 			await audit(
 				database,

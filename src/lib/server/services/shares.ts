@@ -44,7 +44,7 @@ export interface ShareView {
 	editorEmail: string;
 	journal: string;
 	manuscript: string;
-	/** Whether the editor has opened it with an account. */
+	/** Whether the editor has opened the notice's link (not merely has an account). */
 	opened: boolean;
 	createdAt: string;
 	withdrawnAt: string | null;
@@ -56,7 +56,7 @@ export const shareView = (s: ShareAttributes): ShareView => ({
 	editorEmail: s.editorEmail,
 	journal: s.journal,
 	manuscript: s.manuscript,
-	opened: s.editorId !== null,
+	opened: !!s.openedAt,
 	createdAt: new Date(s.createdAt!).toISOString(),
 	withdrawnAt: s.withdrawnAt ? new Date(s.withdrawnAt).toISOString() : null
 });

@@ -1,5 +1,6 @@
 /** Small display helpers shared by the claim pages. */
 import type { FourierConvention } from '$lib/certify';
+import { dateTimeInWords } from '$lib/dates';
 
 /** Which Fourier basis basis 1 is, in words that say which group its outcomes belong to. */
 export function fourierWords(fourier: FourierConvention, d: number): string {
@@ -14,16 +15,7 @@ export function byteSize(bytes: number): string {
 	return `${(bytes / 1024 / 1024).toFixed(1)} MiB`;
 }
 
-export function dateTime(iso: string): string {
-	return new Date(iso).toLocaleString('en-GB', {
-		day: 'numeric',
-		month: 'short',
-		year: 'numeric',
-		hour: '2-digit',
-		minute: '2-digit',
-		timeZone: 'UTC',
-		timeZoneName: 'short'
-	});
-}
+/** The house date style (src/lib/dates.ts), kept under its old name for the claim pages. */
+export const dateTime = (iso: string): string => dateTimeInWords(iso);
 
 export const percent = (x: number) => `${+(x * 100).toFixed(3)} %`;

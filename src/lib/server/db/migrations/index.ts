@@ -12,6 +12,7 @@ import * as checkAttempts from './0010-check-attempts';
 import * as analyses from './0011-analyses';
 import * as ledgerKeyEntries from './0012-ledger-key-entries';
 import * as noLiveSecrets from './0014-no-live-secrets';
+import * as shareOpened from './0015-share-opened';
 import * as datasetCalibration from './0016-dataset-calibration';
 
 export const migrations = [
@@ -28,5 +29,6 @@ export const migrations = [
 	{ name: '0011-analyses', ...analyses },
 	{ name: '0012-ledger-key-entries', ...ledgerKeyEntries },
 	{ name: '0014-no-live-secrets', ...noLiveSecrets },
+	{ name: '0015-share-opened', ...shareOpened },
 	{ name: '0016-dataset-calibration', ...datasetCalibration }
 ];

@@ -9,6 +9,8 @@ export interface DatasetSummary {
 	hasDurations: boolean;
 	/** Methods whose table requirements the file meets. */
 	allows: string[];
+	/** How a detected layout was read ("read as 3 grids of 5 × 5, tab-separated"); grid files only. */
+	readAs?: string;
 }
 
 /** One basis of a dataset as the heat map shows it: counts[a][b]. */

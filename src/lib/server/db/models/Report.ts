@@ -1,7 +1,7 @@
 import { DataTypes, type Model, type ModelStatic, type Sequelize } from 'sequelize';
+import { RECOMMENDATIONS, type Recommendation } from '$lib/review/recommendations';
 
-export const RECOMMENDATIONS = ['sound', 'needs-revision', 'unsound'] as const;
-export type Recommendation = (typeof RECOMMENDATIONS)[number];
+export { RECOMMENDATIONS, type Recommendation };
 
 /** A referee's report through one review link: a draft until submitted, then fixed. */
 export interface ReportAttributes {

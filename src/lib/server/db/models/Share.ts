@@ -11,6 +11,8 @@ export interface ShareAttributes {
 	tokenHash: string;
 	sharedBy: string;
 	withdrawnAt: Date | null;
+	/** When the editor first opened the notice's link (migration 0015); null until then. */
+	openedAt?: Date | null;
 	createdAt?: Date;
 	updatedAt?: Date;
 }
@@ -34,7 +36,8 @@ export function defineShare(sequelize: Sequelize): ShareModel {
 			manuscript: { type: DataTypes.TEXT, allowNull: false },
 			tokenHash: { type: DataTypes.STRING, allowNull: false, unique: true },
 			sharedBy: { type: DataTypes.STRING, allowNull: false },
-			withdrawnAt: { type: DataTypes.DATE, allowNull: true }
+			withdrawnAt: { type: DataTypes.DATE, allowNull: true },
+			openedAt: { type: DataTypes.DATE, allowNull: true }
 		},
 		{ tableName: 'shares', underscored: true }
 	);

@@ -1,6 +1,7 @@
 import { redirect } from '@sveltejs/kit';
 import { MAX_COUNTS_FILE_BYTES } from '$lib/certify';
 import { checkRequestSchema } from '$lib/claims/schema';
+import { claimOffers } from '$lib/server/access/permissions';
 import { app } from '$lib/server/app';
 import { echoValues, formRefusal, requireSignedIn } from '$lib/server/auth-web';
 import { formFailure, pageProblem } from '$lib/server/problems';
@@ -11,7 +12,9 @@ import { addDataset, datasetTables, listDatasets } from '$lib/server/services/da
 import { withUploadSlot } from '$lib/server/services/upload-slots';
 import { removeDataset } from '$lib/server/services/dataset-removal';
 import { countsRecord } from '$lib/server/services/counts-record';
+import { withdrawClaim } from '$lib/server/services/claim-withdraw';
 import { FieldError, ForbiddenError } from '$lib/server/services/errors';
+import { withdrawConfirmSchema } from './withdraw-schema';
 
 const membersOnly = (problem: unknown) => {
 	if (problem instanceof ForbiddenError) return null;
@@ -32,15 +35,24 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 	const tables = shown ? await datasetTables(database, actor, shown.id).catch(pageProblem) : null;
 	// Members see every analysis of the shown counts; editors and referees do not.
 	const record = shown ? await countsRecord(database, actor, shown.id).catch(membersOnly) : null;
+	// Each role sees only the forms and links it may use (the permission module decides).
+	const may = await claimOffers(database, actor, {
+		id: claim.id,
+		groupId: claim.groupId,
+		createdBy: claim.createdBy.id,
+		state: claim.state,
+		withdrawnReason: claim.withdrawal?.reason ?? null
+	});
 	return {
 		claim,
+		may,
 		datasets,
 		preview: shown && tables ? { dataset: shown, tables: tables.tables } : null,
 		certificates,
 		countsRecord: record,
 		// The list needs only a line per check, not each full result.
 		// Files no check has used yet may still be taken back.
-		removable: claim.withdrawal
+		removable: !may['remove-dataset']
 			? []
 			: datasets.filter((d) => !checks.some((c) => c.datasetId === d.id)).map((d) => d.id),
 		checks: checks.map((c) => ({
@@ -126,5 +138,19 @@ export const actions: Actions = {
 			return formRefusal({ setHeaders }, 'check', problem, values);
 		}
 		redirect(303, `/claims/${params.id}/checks/${checkId}`);
+	},
+
+	withdraw: async ({ request, locals, params, url }) => {
+		const actor = requireSignedIn(locals, url);
+		const values = echoValues(await request.formData(), ['reason', 'confirm']);
+		const parsed = withdrawConfirmSchema.safeParse(values);
+		if (!parsed.success) return formFailure('withdraw', parsed.error, values);
+		const { database } = await app();
+		try {
+			await withdrawClaim(database, actor, params.id, parsed.data.reason);
+		} catch (problem) {
+			return formFailure('withdraw', problem, values);
+		}
+		redirect(303, `/claims/${params.id}`);
 	}
 };

@@ -222,6 +222,11 @@ export const schemas = {
 						type: 'array',
 						items: method,
 						description: 'Methods whose tables the file completes.'
+					},
+					readAs: {
+						...text,
+						description:
+							'How a grid file was read, e.g. "read as 3 grids of 5 × 5, tab-separated"; absent for long-form CSV and JSON.'
 					}
 				}
 			}

@@ -2,7 +2,7 @@ import { error } from '@sveltejs/kit';
 import { app } from '$lib/server/app';
 import { requireSignedIn } from '$lib/server/auth-web';
 import { pageProblem } from '$lib/server/problems';
-import { getCertificate } from '$lib/server/services/certificate-reads';
+import { getCertificate, lookupCertificate } from '$lib/server/services/certificate-reads';
 import { getClaim } from '$lib/server/services/claims';
 import type { PageServerLoad } from './$types';
 
@@ -16,5 +16,10 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 	// Another claim's certificate under this claim's address is not found, so ids do not leak.
 	if (certificate.claimId !== claim.id)
 		error(404, { message: 'No such certificate.', code: 'not_found' });
-	return { claim, certificate, verifyUrl: new URL(certificate.urls.verify, url.origin).href };
+	// The reason and date, as the public page gives them (from the ledger's withdraw event).
+	const record =
+		certificate.status === 'withdrawn' ? await lookupCertificate(database, certificate.id) : null;
+	const withdrawal = record && record.status !== 'unknown' ? record.withdrawal : null;
+	const verifyUrl = new URL(certificate.urls.verify, url.origin).href;
+	return { claim, certificate, verifyUrl, withdrawal };
 };
