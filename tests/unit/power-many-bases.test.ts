@@ -40,8 +40,11 @@ const pooledCertifies = (n: number) => {
 	return m * jStat.beta.inv(alpha, m * matching, m * (n - matching) + 1) > 59;
 };
 const engineCertifies = (n: number) =>
-	certify(medianData(n), { method: 'mub-correlation', bases: [...Array(m).keys()] })
-		.certifiedSchmidtNumber >= 59;
+	certify(medianData(n), {
+		method: 'mub-correlation',
+		bases: [...Array(m).keys()],
+		resamples: 8000
+	}).certifiedSchmidtNumber >= 59;
 
 /** The fewest counts per basis from which `certifies` holds (checked monotone over the search). */
 function countsNeeded(certifies: (n: number) => boolean, lo = 10, hi = 2000): number {
