@@ -21,7 +21,7 @@ import type { CountTable } from './counts';
 import { fidelityCellLimits } from './fidelity-limits';
 import { deltaMethodStandardError, type PoissonModel } from './model';
 import { exactSumBound, sumTerms } from './sum-bound';
-import { sumLowerQuantiles, sumStandardDeviation, sumUpperQuantile } from './sum-quantile';
+import { sumLowerQuantile, sumStandardDeviation, sumUpperQuantile } from './sum-quantile';
 import { matchingSum } from './witnesses/correlation-sum';
 import type { FourierConvention } from './bases';
 import type { WitnessFamily } from './witnesses';
@@ -122,9 +122,9 @@ function floorQuantiles(o: BoundInputs) {
 	if (!o.perCell) {
 		const floor = sumTerms(o.tables, d);
 		const upper = sumTerms(o.tables, d, [1, d]).upper;
-		const [atHalf, at0125] = sumLowerQuantiles(floor.lower, [(1 - o.confidence) / 2, 0.0125]);
+		// Two terms: each quantile is a short direct convolution.
 		return {
-			floorAt: (q: number) => (q === 0.0125 ? at0125 : atHalf) - 1,
+			floorAt: (q: number) => sumLowerQuantile(floor.lower, q) - 1,
 			upper975: sumUpperQuantile(upper, 0.975),
 			standardError: sumStandardDeviation(floor.lower)
 		};
