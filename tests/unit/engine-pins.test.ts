@@ -2,7 +2,8 @@
  * The reproducibility contract (DEVELOPERS.md): the same counts, options, seed and engine version
  * give the same numbers, bit for bit, so that a referee re-running a certificate years later gets
  * what it says. These values are the engine's own output, recorded from engine 3.0.0 at commit
- * e821601 (raw-count bounds convolved, no draws; the per-cell pin is unchanged from 2.1.0): a pin against silent drift (a faster loop that draws in another order), not a check
+ * e821601 (raw-count bounds convolved, no draws; the per-cell pin is unchanged from 2.1.0): a
+ * pin against silent drift (a faster loop that draws in another order), not a check
  * of correctness, which the witness, coverage and reference-library tests make. A change that
  * moves them needs a new ENGINE_VERSION and a re-run of the coverage table (docs/statistics.md).
  */
