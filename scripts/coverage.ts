@@ -51,6 +51,8 @@ export const coverageCases: CoverageCase[] = [
 	at('fidelity-two-basis', phi(7, 3)),
 	at('fidelity-two-basis', isotropic(11, 0.8)),
 	at('fidelity-two-basis', mixture(8, 4, 0.9)),
+	// Engine 3.0.0: a boundary state in every basis (P_0 = 1, the others 3/7; Poisson totals).
+	at('mub-correlation', phi(7, 3), [0, 1, 2, 3, 4, 5, 6, 7]),
 	...calibratedCases()
 ];
 

@@ -186,7 +186,7 @@ describe('check runner', () => {
 			createdBy: ada,
 			status: 'running',
 			progress: 0.4,
-			resamples: 1000,
+			resamples: 2000, // rates: at least ⌈2/α⌉ = 1 482 (engine 3.0.0)
 			confidence: 0.99865,
 			seed: 3,
 			startedAt: new Date()

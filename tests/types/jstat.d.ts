@@ -9,5 +9,7 @@ declare module 'jstat' {
 		};
 		chisquare: { cdf(x: number, dof: number): number };
 		normal: { inv(p: number, mean: number, sd: number): number };
+		combination(n: number, k: number): number;
+		factorial(n: number): number;
 	};
 }

@@ -139,7 +139,7 @@ describe('the fidelity floor and the cell limits (docs/statistics.md)', () => {
 		expect(s.interval95[1]).toBeGreaterThanOrEqual(s.value);
 		expect(['fidelity-floor', 'fidelity-cell-limits']).toContain(s.boundMethod);
 		expect(s.floorValue).toBeCloseTo(s.value, 9); // white noise: F̃ equals the floor
-		expect(r.engine.version).toBe('2.1.0');
+		expect(r.engine.version).toBe('3.0.0');
 	});
 });
 
@@ -179,7 +179,7 @@ describe('rates (unequal integration times, witnesses.md §3)', () => {
 	it('the fidelity method then uses the floor alone, drawn cell by cell, and says so', () => {
 		const data = expectedCounts(states.isotropic(5, 0.9), [0, 1], 1e5);
 		data.tables[0].durations = new Float64Array(25).map((_, c) => (c === 0 ? 2 : 1));
-		const r = certify(data, { method: 'fidelity-two-basis', resamples: 1000 });
+		const r = certify(data, { method: 'fidelity-two-basis', resamples: 3000 });
 		expect(r.resampling).toBe('per-cell');
 		expect(r.statistic.boundMethod).toBe('fidelity-floor');
 		expect(r.warnings.join(' ')).toMatch(/floor P₀ \+ P₁ − 1 alone/);

@@ -1,6 +1,8 @@
 /**
- * The resamples ceiling that scales with the work: cells read (d² per basis) × resamples stays
- * within one budget, checked the same way by the engine and by the check request schema.
+ * The resamples ceiling that scales with the work of per-cell draws (rates, subtracted
+ * accidentals): cells read (d² per basis) × resamples stays within one budget, checked the same
+ * way by the engine and by the check request schema. Raw counts have none (engine 3.0.0: their
+ * bounds are convolved per basis, no cells are drawn).
  * Cell counts: a d × d coincidence table per measured basis pair (common practice).
  */
 import { describe, expect, it } from 'vitest';
@@ -43,21 +45,37 @@ describe('resamplesCeiling', () => {
 describe('one limit in the engine and the schema', () => {
 	const d = 64;
 	const dataset = sampledCounts(states.isotropic(d, 0.9), [0, 1], 200_000, 5);
+	const subtracted = {
+		...dataset,
+		tables: dataset.tables.map((t) => ({ ...t, accidentals: new Float64Array(d * d).fill(1) }))
+	};
 
-	it('the engine refuses one resample over the ceiling, naming resamples and the ceiling', () => {
+	it('the engine refuses one resample over the ceiling per cell, naming resamples and the ceiling', () => {
 		const run = () =>
-			certify(dataset, { method: 'fidelity-two-basis', bases: [0, 1], resamples: 244_141 });
+			certify(subtracted, {
+				method: 'fidelity-two-basis',
+				bases: [0, 1],
+				resamples: 244_141,
+				subtractAccidentals: true
+			});
 		expect(run).toThrow(InputError);
 		expect(run).toThrow(/resamples must be at most 244,140 for d = 64 on 2 bases/);
 	});
 
-	it('the schema refuses the same number for a claim of that size and accepts the ceiling', () => {
+	it('raw counts have no cells × resamples ceiling: their bound does not draw cells', () => {
+		const r = certify(dataset, { method: 'fidelity-two-basis', bases: [0, 1], resamples: 244_141 });
+		expect(r.resamples).toBe(244_141);
 		const schema = checkRequestSchemaFor({ dimension: d, bases: [0, 1] });
-		const refused = schema.safeParse({ resamples: '244141' });
+		expect(schema.safeParse({ resamples: '244141' }).success).toBe(true);
+	});
+
+	it('the schema refuses the same number with accidentals subtracted and accepts the ceiling', () => {
+		const schema = checkRequestSchemaFor({ dimension: d, bases: [0, 1] });
+		const refused = schema.safeParse({ resamples: '244141', subtractAccidentals: 'on' });
 		expect(refused.success).toBe(false);
 		expect(refused.error!.issues[0].path).toEqual(['resamples']);
 		expect(refused.error!.issues[0].message).toMatch(/at most 244,140/);
-		expect(schema.safeParse({ resamples: 244_140 }).success).toBe(true);
+		expect(schema.safeParse({ resamples: 244_140, subtractAccidentals: 'on' }).success).toBe(true);
 		// The absolute limits stay: 10⁶ + 1 is refused even for a small table.
 		const small = checkRequestSchemaFor({ dimension: 3, bases: [0, 1] });
 		expect(small.safeParse({ resamples: RESAMPLES.max + 1 }).success).toBe(false);

@@ -9,7 +9,7 @@ import {
 	upperOrderStatistic
 } from '../../src/lib/certify/bootstrap';
 import { perCellModel } from '../../src/lib/certify/cell-model';
-import { drawReplicates, sufficientDraws } from '../../src/lib/certify/confidence';
+import { drawReplicates, perCellDraws } from '../../src/lib/certify/confidence';
 import {
 	certify,
 	expectedCounts,
@@ -70,10 +70,24 @@ describe('the seeded Poisson sampler', () => {
 describe('bootstrap (witnesses.md §6)', () => {
 	const data = sampledCounts(states.isotropic(5, 0.85), [0, 1, 2], 50_000, 99);
 
-	it('same inputs and seed give bit-identical results; another seed moves them within the error', () => {
+	it('raw counts: no resampling, so neither the seed nor the resamples move the numbers', () => {
 		const a = certify(data, { method: 'mub-correlation', seed: 7, resamples: 3000 });
-		const b = certify(data, { method: 'mub-correlation', seed: 7, resamples: 3000 });
-		const c = certify(data, { method: 'mub-correlation', seed: 8, resamples: 3000 });
+		const c = certify(data, { method: 'mub-correlation', seed: 8, resamples: 100 });
+		expect(JSON.stringify(c.statistic)).toBe(JSON.stringify(a.statistic));
+		const f = certify(data, { method: 'fidelity-two-basis', seed: 7, resamples: 3000 });
+		const g = certify(data, { method: 'fidelity-two-basis', seed: 8, resamples: 100 });
+		expect(JSON.stringify(g.statistic)).toBe(JSON.stringify(f.statistic));
+	});
+
+	it('per cell: same inputs and seed give bit-identical results; another seed moves them within the error', () => {
+		const subtracted = {
+			...data,
+			tables: data.tables.map((t) => ({ ...t, accidentals: new Float64Array(25).fill(1) }))
+		};
+		const options = { method: 'mub-correlation', subtractAccidentals: true, resamples: 3000 };
+		const a = certify(subtracted, { ...options, seed: 7 });
+		const b = certify(subtracted, { ...options, seed: 7 });
+		const c = certify(subtracted, { ...options, seed: 8 });
 		expect(JSON.stringify(a)).toBe(JSON.stringify(b));
 		expect(c.statistic.lower).not.toBe(a.statistic.lower);
 		expect(Math.abs(c.statistic.lower - a.statistic.lower)).toBeLessThan(a.statistic.standardError);
@@ -122,7 +136,7 @@ describe('bootstrap (witnesses.md §6)', () => {
 					: t
 			)
 		};
-		const r = certify(timed, { method: 'mub-correlation', resamples: 1000 });
+		const r = certify(timed, { method: 'mub-correlation', resamples: 2000 });
 		expect(r.resampling).toBe('per-cell');
 		expect(r.normalisation).toBe('rates');
 		const t0 = data.tables[0].counts;
@@ -210,10 +224,11 @@ describe('coverage of the one-sided bound (witnesses.md §6)', () => {
 });
 
 describe('the lower bound is the documented quantile of the documented draws', () => {
-	it('drawReplicates of the sufficient draws reproduce certify() (reproducibility contract)', () => {
+	it('drawReplicates of the per-cell draws reproduce certify() (reproducibility contract)', () => {
 		const data = expectedCounts(states.isotropic(7, 0.9), [0, 1], 1e6);
-		const reps = drawReplicates(sufficientDraws(data.tables, 7), { resamples: 500, seed: 3 });
-		const r = certify(data, { method: 'steering-2mub', resamples: 500, seed: 3 });
+		data.tables[0].durations = new Float64Array(49).map((_, c) => (c === 0 ? 2 : 1));
+		const reps = drawReplicates(perCellDraws(data.tables, 7, false), { resamples: 1500, seed: 3 });
+		const r = certify(data, { method: 'steering-2mub', resamples: 1500, seed: 3 });
 		const sorted = Float64Array.from(reps.lower).sort();
 		expect(lowerOrderStatistic(sorted, 1 - 0.99865)).toBe(r.statistic.lower);
 		expect(standardDeviation(reps.lower)).toBe(r.statistic.standardError);

@@ -137,7 +137,11 @@ describe('words on the result (issue 6, §6)', () => {
 	it('says when accidentals are subtracted that their estimates are taken as exact', () => {
 		const data = expectedCounts(states.isotropic(5, 0.9), [0, 1], 1e5);
 		for (const t of data.tables) t.accidentals = new Float64Array(25).fill(10);
-		const r = certify(data, { method: 'steering-2mub', subtractAccidentals: true, resamples: 500 });
+		const r = certify(data, {
+			method: 'steering-2mub',
+			subtractAccidentals: true,
+			resamples: 1500
+		});
 		expect(r.backgroundSubtracted).toBe(true);
 		expect(r.statistic.boundMethod).toBe('garwood-cells-sum');
 		expect(r.warnings.join(' ')).toMatch(/taken as exact/);

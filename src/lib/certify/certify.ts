@@ -24,7 +24,7 @@ export { DEFAULTS, planCertification, type CertificationPlan, type CertifyOption
 /** Draws all blocks of replicates of a spec (in any threads) and returns them in order. */
 export type BlockRunner = (spec: DrawSpec, resamples: number, seed: number) => Promise<Replicates>;
 
-export const ENGINE_VERSION = '2.1.0';
+export const ENGINE_VERSION = '3.0.0';
 
 export interface BoundRung {
 	upToSchmidtNumber: number;
@@ -77,6 +77,7 @@ export async function certifyInBlocks(
 	runBlocks: BlockRunner
 ): Promise<CertificationResult> {
 	const plan = planCertification(dataset, options);
+	if (!plan.replicated) return finishCertification(plan);
 	const replicates = await runBlocks(plan.draws, plan.resamples, plan.seed);
 	if (replicates.lower.length !== plan.resamples || replicates.upper.length !== plan.resamples)
 		throw new Error(
@@ -163,7 +164,16 @@ export function finishCertification(
 			d,
 			calibrated: calibration !== null
 		}),
-		warnings: warningsFor({ method, d, fourier, subtract, rates, resamples, confidence }),
+		warnings: warningsFor({
+			method,
+			d,
+			fourier,
+			subtract,
+			rates,
+			resamples,
+			confidence,
+			replicated: plan.replicated
+		}),
 		engine: {
 			version: ENGINE_VERSION,
 			generator:
@@ -171,7 +181,7 @@ export function finishCertification(
 			poisson:
 				'inversion by sequential search below mean 10, PTRS (Hörmann 1993) from 10 (simulator)',
 			gamma:
-				'−ln of a product of uniforms for whole shapes up to 4, Marsaglia–Tsang (2000) with Box–Muller normals above; bounds from Beta/Gamma confidence-distribution draws'
+				'−ln of a product of uniforms for whole shapes up to 4, Marsaglia–Tsang (2000) with Box–Muller normals above; bounds from Beta/Gamma confidence-distribution draws, raw-count sums from their Beta confidence distributions convolved on a grid (no draws)'
 		}
 	};
 }

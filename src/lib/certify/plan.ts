@@ -17,7 +17,7 @@ import {
 	type CountsDataset,
 	type CountTable
 } from './counts';
-import { CONFIDENCE, RESAMPLES, resamplesProblem } from './limits';
+import { CONFIDENCE, RESAMPLES, resamplesProblem, tooFewResamplesProblem } from './limits';
 import { checkQuantumMarginals, type EntropicSum } from './physical';
 import {
 	calibratedPairLimit,
@@ -26,7 +26,7 @@ import {
 	type CalibrationSummary
 } from './calibration';
 import { checkSeed } from './poisson';
-import { boundDrawSpec, type BoundInputs } from './statistic-bound';
+import { boundDrawSpec, usesReplicates, type BoundInputs } from './statistic-bound';
 import { isMethodId, witnessFamilies, type MethodId, type WitnessFamily } from './witnesses';
 
 export const DEFAULTS = {
@@ -71,6 +71,8 @@ export interface CertificationPlan {
 	/** The bound's inputs (without replicates) and what it draws. */
 	inputs: BoundInputs;
 	draws: DrawSpec;
+	/** Whether the bound reads replicates (rates, subtracted accidentals); else none are drawn. */
+	replicated: boolean;
 	inputSha256: string | null;
 	calibration: CalibrationSummary | null;
 }
@@ -122,9 +124,6 @@ export function planCertification(
 	} catch (error) {
 		throw new InputError(`bases: ${(error as Error).message}`);
 	}
-	// The work grows with cells × resamples: refuse before any draw (limits.ts).
-	const tooMany = resamplesProblem(resamples, d, bases.length);
-	if (tooMany) throw new InputError(tooMany);
 	requireCompleteTables(dataset, bases, method);
 	const calibration = options.calibration
 		? calibrationSummary(options.calibration, {
@@ -139,6 +138,15 @@ export function planCertification(
 	if (options.subtractAccidentals && !subtract)
 		throw new InputError('subtracting accidentals needs an accidentals column');
 	const rates = hasUnequalDurations(tables);
+	const fidelity = method === 'fidelity-two-basis';
+	const replicated = usesReplicates({ perCell: subtract || rates });
+	checkResamples(resamples, confidence, {
+		d,
+		bases: bases.length,
+		perCell: subtract || rates,
+		fidelity,
+		replicated
+	});
 	const entropicSums = rates
 		? []
 		: checkQuantumMarginals(
@@ -160,7 +168,7 @@ export function planCertification(
 		perCell: subtract || rates,
 		subtractAccidentals: subtract
 	};
-	const draws = boundDrawSpec(inputs, method === 'fidelity-two-basis');
+	const draws = boundDrawSpec(inputs, fidelity);
 	const inputSha256 = options.inputSha256 ?? null;
 	return {
 		method,
@@ -178,9 +186,27 @@ export function planCertification(
 		entropicSums,
 		inputs,
 		draws,
+		replicated,
 		inputSha256,
 		calibration
 	};
+}
+
+interface ResampleNeeds {
+	d: number;
+	bases: number;
+	perCell: boolean;
+	fidelity: boolean;
+	replicated: boolean;
+}
+
+/** Too few for the level (bounds read off replicates), or too many for a per-cell table's work. */
+function checkResamples(resamples: number, confidence: number, o: ResampleNeeds): void {
+	const tooFew = o.replicated ? tooFewResamplesProblem(resamples, confidence, o.fidelity) : null;
+	if (tooFew) throw new InputError(tooFew);
+	// Per-cell work grows with cells × resamples: refuse before any draw (limits.ts).
+	const tooMany = o.perCell ? resamplesProblem(resamples, o.d, o.bases) : null;
+	if (tooMany) throw new InputError(tooMany);
 }
 
 /** The convention in force: the option, else the file's declaration, else cyclic; checked against both. */

@@ -1,6 +1,6 @@
 /**
  * The statistic, its lower confidence bound and its 95 % interval (docs/statistics.md).
- * Correlation sums: confidence-distribution draws of S. Fidelity: the plug-in F̃ is reported,
+ * Correlation sums: the convolved confidence distributions of S (raw counts) or draws (per cell). Fidelity: the plug-in F̃ is reported,
  * and its lower bound is the better of the floor P_0 + P_1 − 1 (draws) and the cell limits
  * (exact), each at error α/2.
  */
@@ -20,12 +20,14 @@ import {
 import type { CountTable } from './counts';
 import { fidelityCellLimits } from './fidelity-limits';
 import { deltaMethodStandardError, type PoissonModel } from './model';
+import { exactSumBound, sumTerms } from './sum-bound';
+import { sumLowerQuantile, sumStandardDeviation, sumUpperQuantile } from './sum-quantile';
 import { matchingSum } from './witnesses/correlation-sum';
 import type { FourierConvention } from './bases';
 import type { WitnessFamily } from './witnesses';
 
 export type BoundMethod =
-	'clopper-pearson-sum' | 'garwood-cells-sum' | 'fidelity-floor' | 'fidelity-cell-limits';
+	'beta-convolution-sum' | 'garwood-cells-sum' | 'fidelity-floor' | 'fidelity-cell-limits';
 
 export interface StatisticBound {
 	value: number;
@@ -84,19 +86,55 @@ function replicatesOf(o: BoundInputs, fidelity: boolean): Replicates {
 
 export function correlationSumBound(o: BoundInputs): StatisticBound {
 	const model = pointModel(o, (p) => o.family.statistic(p, o.d, o.bases, o.fourier));
+	const common = {
+		value: model.statistic(model.means),
+		deltaMethodStandardError: deltaMethodStandardError(model)
+	};
+	if (!o.perCell)
+		return {
+			...common,
+			...exactSumBound(o.tables, o.d, o.confidence),
+			boundMethod: 'beta-convolution-sum',
+			boundNote:
+				'Lower bound from the convolution of each basis’s Beta confidence distribution (exact, Clopper–Pearson, for one basis; one continuity correction shared by all bases), computed on a grid rounded to the safe side: no resampling, so the resamples setting is not used.'
+		};
 	const reps = replicatesOf(o, false);
 	const [lower, upper] = [sorted(reps.lower), sorted(reps.upper)];
-	const exact = !o.perCell;
 	return {
-		value: model.statistic(model.means),
+		...common,
 		standardError: standardDeviation(reps.lower),
 		lower: below(lower, 1 - o.confidence),
 		interval95: [below(lower, 0.025), above(upper, 0.975)],
-		deltaMethodStandardError: deltaMethodStandardError(model),
-		boundMethod: exact ? 'clopper-pearson-sum' : 'garwood-cells-sum',
-		boundNote: exact
-			? 'Lower bound from draws of each basis’s matching fraction from its exact (Clopper–Pearson) confidence distribution, summed over the bases.'
-			: 'Lower bound from exact (Garwood) confidence-distribution draws of every cell, matching cells low and the others high; accidental estimates, where subtracted, are taken as exact.'
+		boundMethod: 'garwood-cells-sum',
+		boundNote:
+			'Lower bound from exact (Garwood) confidence-distribution draws of every cell, matching cells low and the others high; accidental estimates, where subtracted, are taken as exact.'
+	};
+}
+
+/** Whether the bound is read off Monte-Carlo replicates: per cell only (raw counts are convolved). */
+export function usesReplicates(o: Pick<BoundInputs, 'perCell'>): boolean {
+	return o.perCell;
+}
+
+/** The floor P₀ + P₁ − 1 at error q and the upper end of P₀ + d·P₁, from replicates or exactly. */
+function floorQuantiles(o: BoundInputs) {
+	const { d } = o;
+	if (!o.perCell) {
+		const floor = sumTerms(o.tables, d);
+		const upper = sumTerms(o.tables, d, [1, d]).upper;
+		// Two terms: each quantile is a short direct convolution.
+		return {
+			floorAt: (q: number) => sumLowerQuantile(floor.lower, q) - 1,
+			upper975: sumUpperQuantile(upper, 0.975),
+			standardError: sumStandardDeviation(floor.lower)
+		};
+	}
+	const reps = replicatesOf(o, true);
+	const [lower, upper] = [sorted(reps.lower), sorted(reps.upper)];
+	return {
+		floorAt: (q: number) => below(lower, q) - 1,
+		upper975: above(upper, 0.975),
+		standardError: standardDeviation(reps.lower)
 	};
 }
 
@@ -104,9 +142,8 @@ export function fidelityBound(o: BoundInputs): StatisticBound {
 	const { d } = o;
 	const alpha = 1 - o.confidence;
 	const model = pointModel(o, (p) => o.family.statistic(p, d, o.bases, o.fourier));
-	const reps = replicatesOf(o, true);
-	const [lower, upper] = [sorted(reps.lower), sorted(reps.upper)];
-	const floorLower = below(lower, alpha / 2) - 1;
+	const floor = floorQuantiles(o);
+	const floorLower = floor.floorAt(alpha / 2);
 	const cells = (error: number) =>
 		o.perCell
 			? -Infinity
@@ -118,14 +155,14 @@ export function fidelityBound(o: BoundInputs): StatisticBound {
 	});
 	return {
 		value: model.statistic(model.means),
-		standardError: standardDeviation(reps.lower),
+		standardError: floor.standardError,
 		lower: Math.max(floorLower, cellsLower),
-		interval95: [Math.max(below(lower, 0.0125) - 1, cells(0.0125)), (above(upper, 0.975) - 1) / d],
+		interval95: [Math.max(floor.floorAt(0.0125), cells(0.0125)), (floor.upper975 - 1) / d],
 		deltaMethodStandardError: deltaMethodStandardError(model),
 		boundMethod: byCells ? 'fidelity-cell-limits' : 'fidelity-floor',
 		boundNote: byCells
 			? 'Lower bound from exact per-cell limits: Clopper–Pearson limits on both matching fractions and on every off-diagonal computational cell, combined by the union bound (error α/2; the floor took the other α/2).'
-			: `Lower bound from the floor P₀ + P₁ − 1 ≤ F̃ (Cauchy–Schwarz), drawn from exact confidence distributions at error α/2${o.perCell ? '; the cell limits need raw counts, so only the floor is used here' : '; the cell limits (the other α/2) gave less'}.`,
+			: `Lower bound from the floor P₀ + P₁ − 1 ≤ F̃ (Cauchy–Schwarz), ${o.perCell ? 'drawn from exact confidence distributions' : 'from the convolved Beta confidence distributions of P₀ and P₁ (no resampling)'} at error α/2${o.perCell ? '; the cell limits need raw counts, so only the floor is used here' : '; the cell limits (the other α/2) gave less'}.`,
 		floorValue: floorModel.statistic(floorModel.means)
 	};
 }

@@ -11,6 +11,8 @@ export interface WarningInputs {
 	rates: boolean;
 	resamples: number;
 	confidence: number;
+	/** Whether the bound was read off replicates (else no resampling took place). */
+	replicated: boolean;
 }
 
 /** What the result says about the convention where it is not the plain cyclic transform. */
@@ -38,7 +40,7 @@ export function warningsFor(o: WarningInputs): string[] {
 			'For rates or subtracted data the fidelity bound uses the floor P₀ + P₁ − 1 alone: the exact per-cell limits need raw counts.'
 		);
 	const tail = o.resamples * (1 - o.confidence) * (o.method === 'fidelity-two-basis' ? 0.5 : 1);
-	if (tail < 10)
+	if (o.replicated && tail < 10)
 		out.push(
 			`Only ${tail.toFixed(1)} replicates lie below the lower bound; use more resamples for a stable bound.`
 		);

@@ -240,9 +240,14 @@ export const checkRequestJsonSchema = checkRequest('json');
 
 export type CheckRequest = z.output<typeof checkRequestSchema>;
 
-/** The check request for a claim of this size: resamples also within the cells × resamples budget. */
+/**
+ * The check request for a claim of this size: with accidentals subtracted (per-cell draws) the
+ * resamples also stay within the cells × resamples budget. Raw counts have no such ceiling; rates
+ * (known only from the file) are held to it by the engine.
+ */
 export function checkRequestSchemaFor(claim: { dimension: number; bases: number[] }) {
 	return checkRequestSchema.superRefine((request, ctx) => {
+		if (!request.subtractAccidentals) return;
 		const ceiling = resamplesCeiling(claim.dimension, claim.bases.length);
 		if (request.resamples === undefined || request.resamples <= ceiling) return;
 		ctx.addIssue({
