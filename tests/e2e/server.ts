@@ -73,7 +73,8 @@ export const ROOMY_RATE_LIMITS = JSON.stringify({
 	invitations: { points: 10000 },
 	reviewUse: { points: 100000 },
 	reviewRefused: { free: 10000, cap: 20000 },
-	mailPerRecipient: { points: 10000 }
+	mailPerRecipient: { points: 10000 },
+	planSimulations: { points: 10000 }
 });
 
 export async function startApp(env: Record<string, string> = {}): Promise<AppServer> {

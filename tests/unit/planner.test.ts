@@ -104,3 +104,18 @@ describe('counts for 90 % power, by simulating the engine', () => {
 		expect(powerOf('mub-correlation', 31, 0.96, 29, perBasis, 300)).toBeGreaterThanOrEqual(0.85);
 	});
 });
+
+describe('simulated experiments the engine refuses', () => {
+	it('count as not certified (a basis with no counts at all certifies nothing)', () => {
+		// d = 5, all six bases, η = 0.95: the search starts at a few counts per basis, where empty bases occur.
+		const plan = planExperiment({
+			method: 'mub-correlation',
+			dimension: 5,
+			schmidtNumber: 4,
+			visibility: 0.95,
+			bases: 'all'
+		});
+		expect(plan.design.countsPerBasis).toBeGreaterThan(1);
+		expect(plan.design.power).toBeGreaterThanOrEqual(0.9);
+	});
+});

@@ -36,6 +36,8 @@ export const RATE_LIMITS = {
 	reviewUse: { kind: 'window', points: 300, windowSeconds: 60 },
 	/** Unknown, expired or revoked review links, per client address (guessing tokens). */
 	reviewRefused: { kind: 'ladder', free: 20, cap: 100, windowSeconds: 3600, firstDelaySeconds: 1 },
+	/** Planner answers with simulated counts (seconds of work each), per client address. */
+	planSimulations: { kind: 'window', points: 30, windowSeconds: 3600 },
 	/** Mails written to one recipient; enforced by the outbox (services/mail-queue.ts). */
 	mailPerRecipient: { kind: 'window', points: 20, windowSeconds: 3600 }
 } as const satisfies Record<string, WindowRule | LadderRule>;

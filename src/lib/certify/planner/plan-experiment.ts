@@ -50,7 +50,9 @@ export interface DesignPlan {
 }
 
 export interface ExperimentPlan {
-	request: Required<Omit<PlanRequest, 'settings' | 'simulate' | 'bases'>> & { bases: number[] };
+	request: Required<Omit<PlanRequest, 'settings' | 'simulate' | 'bases' | 'costCap'>> & {
+		bases: number[];
+	};
 	rungs: { upToSchmidtNumber: number; bound: number; criticalVisibility: number }[];
 	design: DesignPlan;
 	/** Other methods and basis sets for the same d, k and visibility: the trade-offs. */

@@ -4,7 +4,7 @@
  * count how often it certifies. No normal approximation: the answer is the engine's.
  */
 import type { CertificationResult, CertifyOptions } from '../certify';
-import type { CountsDataset } from '../counts';
+import { InputError, type CountsDataset } from '../counts';
 import type { MethodId } from '../witnesses';
 import { PoissonSampler, prepareMeans } from '../poisson';
 
@@ -59,6 +59,29 @@ function sampleDataset(design: PowerDesign, scale: number, seed: number): Counts
 	};
 }
 
+/** One simulated check; data the engine refuses (a basis with no counts at all) certify nothing. */
+function certifies(
+	engine: Engine,
+	design: PowerDesign,
+	dataset: CountsDataset,
+	settings: SimulationSettings,
+	seed: number
+): boolean {
+	try {
+		const result = engine(dataset, {
+			method: design.method,
+			bases: design.bases,
+			confidence: design.confidence,
+			resamples: settings.resamples,
+			seed
+		});
+		return result.certifiedSchmidtNumber >= design.schmidtNumber;
+	} catch (error) {
+		if (error instanceof InputError) return false;
+		throw error;
+	}
+}
+
 /**
  * The fraction of simulated experiments at `scale` (counts per unit weight) that certify k. With
  * `decide`, stops as soon as the full run's answer to "power ≥ decide?" is known (same answer,
@@ -78,15 +101,9 @@ export function simulatedPower(
 	while (done < n && open()) {
 		// Experiment i uses the same seeds at every scale (common random numbers).
 		const seed = settings.seed + 2 * done;
-		const result = engine(sampleDataset(design, scale, seed), {
-			method: design.method,
-			bases: design.bases,
-			confidence: design.confidence,
-			resamples: settings.resamples,
-			seed: seed + 1
-		});
 		done++;
-		if (result.certifiedSchmidtNumber >= design.schmidtNumber) certified++;
+		if (certifies(engine, design, sampleDataset(design, scale, seed), settings, seed + 1))
+			certified++;
 	}
 	return certified / done;
 }
