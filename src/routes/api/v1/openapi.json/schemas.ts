@@ -342,6 +342,7 @@ export const schemas = {
 					boundToBeat: number,
 					visibilityNeeded: number,
 					countsNeeded: whole,
+					powerAtCountsNeeded: number,
 					shortfall: text
 				}
 			}),
