@@ -129,7 +129,7 @@ describe('words on the result (issue 6, §6)', () => {
 			present: new Uint8Array(25).fill(1)
 		}));
 		const r = certify({ dimension: d, tables }, { method: 'fidelity-two-basis', claim: 5 });
-		expect(r.statistic.value).toBeCloseTo(0.88, 12);
+		expect(r.statistic.plugInValue).toBeCloseTo(0.88, 12);
 		expect(r.statistic.floorValue).toBeCloseTo(0.8, 12);
 		expect(r.claim!.verdict).toBe('not supported');
 		expect(r.claim!.countsNeeded).toBeUndefined();

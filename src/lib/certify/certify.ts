@@ -120,7 +120,8 @@ export function finishCertification(
 				: claimVerdict({
 						claim,
 						certified,
-						value,
+						// Whether more counts could help: judged on the plug-in, the value's large-count limit.
+						value: statistic.plugInValue ?? value,
 						boundBasisValue: statistic.floorValue ?? value,
 						boundBasisName: fidelity ? 'the floor P₀ + P₁ − 1' : 'the statistic',
 						standardError,
