@@ -106,7 +106,12 @@ export const schemas = {
 			groupId: { ...text, description: 'Default: the caller’s first group.' },
 			title: { ...text, minLength: 1, maxLength: 200 },
 			sourceDescription: { ...text, minLength: 1, maxLength: 5000 },
-			dimension: { ...whole, minimum: 2, maximum: MAX_DIMENSION, description: 'Local dimension d.' },
+			dimension: {
+				...whole,
+				minimum: 2,
+				maximum: MAX_DIMENSION,
+				description: 'Local dimension d.'
+			},
 			method,
 			bases: {
 				type: 'array',
