@@ -1,9 +1,8 @@
 /**
  * The statistic, its lower confidence bound and its 95 % interval (docs/statistics.md).
  * Correlation sums: confidence-distribution draws of S. Fidelity: the bound at confidence 1/2 is
- * reported (the plug-in F̃ beside it),
- * and its lower bound is the better of the floor P_0 + P_1 − 1 (draws) and the cell limits
- * (exact), each at error α/2.
+ * reported (the plug-in F̃ beside it), and its lower bound is the better of the floor
+ * P_0 + P_1 − 1 (draws, at the full error) and the cell limits (exact, at the error left over).
  */
 import {
 	lowerOrderStatistic as below,
@@ -103,36 +102,50 @@ export function correlationSumBound(o: BoundInputs): StatisticBound {
 	};
 }
 
+/**
+ * The error an order statistic leaves unspent: x_(k), k = ⌊q(B + 1)⌋, spends k/(B + 1) ≤ q
+ * (bootstrap.ts), and the rest q − k/(B + 1) goes to the cell limits, so that the floor is the
+ * two-basis sum's own bound at the full error and the union bound still totals q.
+ */
+function unspent(q: number, resamples: number): number {
+	const k = Math.max(1, Math.floor(q * (resamples + 1) + 1e-9));
+	return Math.max(0, q - k / (resamples + 1));
+}
+
 export function fidelityBound(o: BoundInputs): StatisticBound {
 	const { d } = o;
 	const alpha = 1 - o.confidence;
 	const model = pointModel(o, (p) => o.family.statistic(p, d, o.bases, o.fourier));
 	const reps = replicatesOf(o, true);
 	const [lower, upper] = [sorted(reps.lower), sorted(reps.upper)];
-	const floorLower = below(lower, alpha / 2) - 1;
+	const B = lower.length;
 	const cells = (error: number) =>
-		o.perCell
+		o.perCell || !(error > 0)
 			? -Infinity
 			: fidelityCellLimits(o.tables, d, error, (p) => o.family.statistic(p, d, o.bases, o.fourier));
-	const cellsLower = cells(alpha / 2);
-	const byCells = cellsLower > floorLower;
+	// At error q: the floor at the order statistic of q (as mub-correlation on the same bases), the
+	// cell limits at what that order statistic leaves unspent (docs/statistics.md §2).
+	const at = (q: number) => ({ floor: below(lower, q) - 1, cells: cells(unspent(q, B)) });
+	const bound = at(alpha);
+	const byCells = bound.cells > bound.floor;
 	// The reported value: the same bound at confidence 1/2, above the true F̃ in at most half of
 	// experiments; the plug-in F̃ is biased upward by √ of sparse cells (docs/statistics.md §2).
-	const median = Math.max(below(lower, 0.25) - 1, cells(0.25));
+	const median = at(0.5);
+	const low95 = at(0.025);
 	const floorModel = perCellModel(o.tables, d, (p) => matchingSum(p, d) - 1, {
 		subtractAccidentals: o.subtractAccidentals
 	});
 	return {
-		value: median,
+		value: Math.max(median.floor, median.cells),
 		plugInValue: model.statistic(model.means),
 		standardError: standardDeviation(reps.lower),
-		lower: Math.max(floorLower, cellsLower),
-		interval95: [Math.max(below(lower, 0.0125) - 1, cells(0.0125)), (above(upper, 0.975) - 1) / d],
+		lower: Math.max(bound.floor, bound.cells),
+		interval95: [Math.max(low95.floor, low95.cells), (above(upper, 0.975) - 1) / d],
 		deltaMethodStandardError: deltaMethodStandardError(model),
 		boundMethod: byCells ? 'fidelity-cell-limits' : 'fidelity-floor',
 		boundNote: byCells
-			? 'Lower bound from exact per-cell limits: Clopper–Pearson limits on both matching fractions and on every off-diagonal computational cell, combined by the union bound (error α/2; the floor took the other α/2).'
-			: `Lower bound from the floor P₀ + P₁ − 1 ≤ F̃ (Cauchy–Schwarz), drawn from exact confidence distributions at error α/2${o.perCell ? '; the cell limits need raw counts, so only the floor is used here' : '; the cell limits (the other α/2) gave less'}.`,
+			? 'Lower bound from exact per-cell limits: Clopper–Pearson limits on both matching fractions and on every off-diagonal computational cell, combined by the union bound at the error the floor’s order statistic leaves unspent.'
+			: `Lower bound from the floor P₀ + P₁ − 1 ≤ F̃ (Cauchy–Schwarz): the two-basis matching sum’s own bound${o.perCell ? '; the cell limits need raw counts, so only the floor is used here' : '; the cell limits (at the error the floor leaves unspent) gave less'}.`,
 		floorValue: floorModel.statistic(floorModel.means)
 	};
 }
