@@ -18,6 +18,7 @@ import path from 'node:path';
 import { performance } from 'node:perf_hooks';
 import { ENGINE_VERSION, sampledCounts, states, toCountsCsv } from '../src/lib/certify';
 import { issueTimes } from './bench-issue';
+import { LARGE_DIMENSIONS, largeRows } from './bench-large';
 
 const RESAMPLES = 10_000;
 /** Runs per median: ours, and numpy by dimension (its d = 127 runs take about 30 s each). */
@@ -130,8 +131,14 @@ rows.push([
 	f(nodeAlone.cpu),
 	...blank(6)
 ]);
-for (const t of await issueTimes(DIMENSIONS, RESAMPLES)) {
-	const name = `issue a certificate (${t.method}): check ${f(t.check)} s + issue ${f(t.issue)} s`;
+for (const r of largeRows(folder, 3)) {
+	const start = `${(r.wall / nodeAlone.wall).toFixed(1)}× Node's start`;
+	rows.push([String(r.d), `${r.what}, ${start}`, f(r.wall), ...blank(7)]);
+}
+for (const t of await issueTimes([...DIMENSIONS, ...LARGE_DIMENSIONS], RESAMPLES)) {
+	const total = t.check + t.issue;
+	const versus = t.d > 256 ? `, ${(total / nodeAlone.wall).toFixed(1)}× Node's start` : '';
+	const name = `issue a certificate (${t.method}, ${t.resamples} resamples): check ${f(t.check)} s + issue ${f(t.issue)} s${versus}`;
 	rows.push([String(t.d), name, f(t.check + t.issue), ...blank(7)]);
 }
 rmSync(folder, { recursive: true, force: true });

@@ -12,7 +12,7 @@ const inputsFile = path.join(outdir, 'inputs.json');
 // launcher compiles with a V8 code cache; the server-side ones keep their packages in
 // node_modules (sqlite3 is native, sequelize loads its dialect at run time) and stay ES modules.
 export const CACHED = ['certify', 'verify', 'blocks-worker'];
-const SELF_CONTAINED = [...CACHED, 'coverage'];
+const SELF_CONTAINED = [...CACHED, 'coverage', 'plan'];
 
 /** The bundle of a command: .cjs for the cached ones, .mjs for the others. */
 export function bundleFile(name) {
@@ -25,7 +25,8 @@ export const ENTRIES = {
 	'keys-rotate': 'src/cli/keys-rotate.ts',
 	'ledger-verify': 'src/cli/ledger-verify.ts',
 	bench: 'scripts/bench.ts',
-	coverage: 'scripts/coverage.ts'
+	coverage: 'scripts/coverage.ts',
+	plan: 'src/cli/plan.ts'
 };
 
 /** A Vite glob pattern such as '/templates/mail/*.{txt,html}' (one folder) as a RegExp on names. */

@@ -13,6 +13,11 @@ export function readableReport(r: CertificationResult, file: string): string {
 		...(s.floorValue === undefined
 			? []
 			: [`  floor P0 + P1 − 1 ${fmt(s.floorValue)} (F̃ is never below it)`]),
+		...(s.plugInValue === undefined
+			? []
+			: [
+					`  plug-in F̃        ${fmt(s.plugInValue)} (biased upward; the statistic above is the bound at confidence 1/2)`
+				]),
 		`  lower bound       ${fmt(s.lower)} at one-sided confidence ${r.confidence} [${s.boundMethod}]`,
 		`    ${s.boundNote}`,
 		`  95 % interval     [${fmt(s.interval95[0])}, ${fmt(s.interval95[1])}]`,

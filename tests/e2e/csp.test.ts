@@ -116,6 +116,9 @@ describe('the Content-Security-Policy in a browser', () => {
 	it('shows the seal pages, the editor’s and the referee’s pages with no violation', async () => {
 		await session.signedInAs('lead');
 		expect(await visit('/seal')).toEqual([]);
+		expect(await visit('/plan', 'form')).toEqual([]);
+		const question = 'method=steering-2mub&dimension=4&schmidtNumber=4&visibility=0.97';
+		expect(await visit(`/plan?${question}`, '[data-testid="plan-curve"]')).toEqual([]);
 		expect(certificateId).not.toBe('');
 		expect(await visit(`/seal/${certificateId}`)).toEqual([]);
 		await session.signedInAs('editor');

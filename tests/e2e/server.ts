@@ -77,7 +77,8 @@ export const ROOMY_RATE_LIMITS = JSON.stringify({
 	reviewRefused: { free: 10000, cap: 20000 },
 	sealBundle: { points: 10000 },
 	sealLookup: { points: 100000 },
-	mailPerRecipient: { points: 10000 }
+	mailPerRecipient: { points: 10000 },
+	planSimulations: { points: 10000 }
 });
 
 export async function startApp(env: Record<string, string> = {}): Promise<AppServer> {

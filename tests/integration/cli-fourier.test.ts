@@ -62,7 +62,7 @@ describe('the command line with --fourier in d = 9', () => {
 			const out = JSON.parse(stdout);
 			expect(out.fourier).toBe(convention);
 			// 10⁹ pairs per basis: rounding moves F̃ by well under 10⁻⁶.
-			expect(out.statistic.value).toBeCloseTo(
+			expect(out.statistic.plugInValue).toBeCloseTo(
 				directFidelityBound(exact[convention], d, convention),
 				6
 			);

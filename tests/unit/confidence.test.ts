@@ -123,7 +123,8 @@ describe('the fidelity floor and the cell limits (docs/statistics.md)', () => {
 	it('the cell-limit bound lies below F̃ at the data and tends to it with many counts', () => {
 		const data = expectedCounts(states.dephased(5, 0.7, 0.95), [0, 1], 1e4);
 		const stat = (p: Float64Array[]) => family.statistic(p, 5, [0, 1]);
-		const plugIn = certify(data, { method: 'fidelity-two-basis', resamples: 500 }).statistic.value;
+		const plugIn = certify(data, { method: 'fidelity-two-basis', resamples: 500 }).statistic
+			.plugInValue!;
 		expect(fidelityCellLimits(data.tables, 5, 0.00135, stat)).toBeLessThan(plugIn);
 		const big = expectedCounts(states.dephased(5, 0.7, 0.95), [0, 1], 1e9);
 		expect(plugIn - fidelityCellLimits(big.tables, 5, 0.00135, stat)).toBeLessThan(1e-3);
@@ -138,7 +139,11 @@ describe('the fidelity floor and the cell limits (docs/statistics.md)', () => {
 		expect(s.interval95[0]).toBeLessThanOrEqual(s.value);
 		expect(s.interval95[1]).toBeGreaterThanOrEqual(s.value);
 		expect(['fidelity-floor', 'fidelity-cell-limits']).toContain(s.boundMethod);
-		expect(s.floorValue).toBeCloseTo(s.value, 9); // white noise: F̃ equals the floor
+		expect(s.floorValue).toBeCloseTo(s.plugInValue!, 9); // white noise: F̃ equals the floor
+		for (const x of [s.plugInValue!, s.value]) {
+			expect(s.interval95[0]).toBeLessThanOrEqual(x);
+			expect(s.interval95[1]).toBeGreaterThanOrEqual(x);
+		}
 		expect(r.engine.version).toBe('3.0.0');
 	});
 });

@@ -107,9 +107,9 @@ describe('counts CSV (product.md format)', () => {
 
 	it('rejects absurd dimensions', () => {
 		expect(errorOf(() => parseCounts(fullCsv(2, [0]), 1)).message).toMatch(
-			/dimension must be a whole number from 2 to 256/
+			/dimension must be a whole number from 2 to 1024/
 		);
-		expect(errorOf(() => parseCounts(fullCsv(2, [0]), 257)).message).toMatch(/from 2 to 256/);
+		expect(errorOf(() => parseCounts(fullCsv(2, [0]), 1025)).message).toMatch(/from 2 to 1024/);
 	});
 
 	it('rejects files over the size limit and invalid UTF-8', () => {

@@ -61,8 +61,9 @@ const PINS: Pin[] = [
 		name: 'fidelity floor and cell limits',
 		data: d5,
 		options: { method: 'fidelity-two-basis', bases: [0, 1] },
-		lower: 0.7493407407126289,
-		interval95: [0.7519552686207767, 0.8594815189261087],
+		// Re-pinned when the merged engine 3.0.0 split the fidelity error 7/8 floor, 1/8 cell limits.
+		lower: 0.7497838810360438,
+		interval95: [0.7525756650735576, 0.8594815189261087],
 		standardError: 0.002658841940489354,
 		certified: 4
 	},

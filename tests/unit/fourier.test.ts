@@ -126,7 +126,7 @@ describe('cyclic pairing against the published formula (Bavaresco et al., Nat. P
 				const data = parseCounts(countsJson(p, d, 1e12), d);
 				const result = certify(data, { method: 'fidelity-two-basis', resamples: 200 });
 				expect(result.fourier).toBe('cyclic');
-				expect(result.statistic.value).toBeCloseTo(direct, 6);
+				expect(result.statistic.plugInValue).toBeCloseTo(direct, 6);
 			}
 		});
 	}
@@ -179,7 +179,8 @@ describe('product states measured with the cyclic transform (issue 6 §5)', () =
 	it('|00⟩ in d = 8 gives F̃ = 1/8 exactly and certifies nothing', () => {
 		const data = expectedCounts(states.spectrum(8, [1]), [0, 1], 100_000, 'cyclic');
 		const result = certify(data, { method: 'fidelity-two-basis', fourier: 'cyclic' });
-		expect(result.statistic.value).toBeCloseTo(1 / 8, 12);
+		expect(result.statistic.plugInValue).toBeCloseTo(1 / 8, 12);
+		expect(result.pointSchmidtNumber).toBe(1);
 		expect(result.certifiedSchmidtNumber).toBe(1);
 	});
 

@@ -64,11 +64,15 @@ describe('issue 6 §1: the fidelity bound certifies separable states', () => {
 			]
 		};
 		const r = certify(data, { method: 'fidelity-two-basis', claim: 2 });
-		expect(r.statistic.value).toBeCloseTo(1 / 13, 12);
+		expect(r.statistic.plugInValue).toBeCloseTo(1 / 13, 12);
+		expect(r.statistic.value).toBeLessThanOrEqual(1 / 13);
+		expect(r.pointSchmidtNumber).toBe(1);
 		expect(r.certifiedSchmidtNumber).toBe(1);
 		expect(r.claim!.verdict).toBe('not supported');
-		expect(r.statistic.interval95[0]).toBeLessThanOrEqual(r.statistic.value);
-		expect(r.statistic.interval95[1]).toBeGreaterThanOrEqual(r.statistic.value);
+		for (const x of [r.statistic.value, r.statistic.plugInValue!]) {
+			expect(r.statistic.interval95[0]).toBeLessThanOrEqual(x);
+			expect(r.statistic.interval95[1]).toBeGreaterThanOrEqual(x);
+		}
 	});
 
 	for (const [perBasis, experiments] of [

@@ -235,8 +235,10 @@ describe('two-basis fidelity bound (witnesses.md §4.3)', () => {
 			method: 'fidelity-two-basis',
 			resamples: 1000
 		});
-		expect(result.statistic.value).toBeCloseTo(tilde, 9);
+		expect(result.statistic.plugInValue).toBeCloseTo(tilde, 9);
+		// The reported value is the bound at confidence 1/2: at 10¹² counts within 1e-5 of F̃.
+		expect(result.statistic.value).toBeCloseTo(tilde, 5);
 		expect(result.certifiedSchmidtNumber).toBe(Math.ceil(d * tilde));
-		expect(result.effectiveVisibility).toBeCloseTo(eta, 9);
+		expect(result.effectiveVisibility).toBeCloseTo(eta, 4);
 	});
 });

@@ -29,7 +29,7 @@ export interface Basis {
 }
 
 export const MIN_DIMENSION = 2;
-export const MAX_DIMENSION = 256;
+export const MAX_DIMENSION = 1024;
 
 /** True when d = p^s with s ≥ 2: the only dimensions where the two conventions differ. */
 export function conventionsDiffer(d: number): boolean {

@@ -1,13 +1,13 @@
 /**
  * From count tables and a method to a Schmidt-number certificate (witnesses.md §3–§7).
  */
-import normalQuantile from '@stdlib/stats-base-dists-normal-quantile';
 import type { FourierConvention } from './bases';
 import type { DrawSpec, Replicates } from './confidence';
 import type { CountsDataset } from './counts';
 import { claimVerdict, ladderPosition, marginsInStandardErrors, type ClaimVerdict } from './ladder';
 import type { EntropicSum } from './physical';
 import { planCertification, type CertificationPlan, type CertifyOptions } from './plan';
+import { countsForCheck } from './planner/check-counts';
 import { correlationSumBound, fidelityBound, type StatisticBound } from './statistic-bound';
 import { warningsFor } from './warnings';
 import {
@@ -134,7 +134,8 @@ export function finishCertification(
 				: claimVerdict({
 						claim,
 						certified,
-						value,
+						// Whether more counts could help: judged on the plug-in, the value's large-count limit.
+						value: statistic.plugInValue ?? value,
 						boundBasisValue: statistic.floorValue ?? value,
 						boundBasisName: fidelity ? 'the floor P₀ + P₁ − 1' : 'the statistic',
 						standardError,
@@ -142,7 +143,7 @@ export function finishCertification(
 						criticalVisibilities,
 						effectiveVisibility,
 						totalCounts,
-						z: normalQuantile(fidelity ? 1 - (1 - confidence) / 2 : confidence, 0, 1)
+						countsForPower: () => countsForCheck(plan, certify)
 					}),
 		effectiveVisibility,
 		steeringRobustness: extras

@@ -22,10 +22,13 @@ export interface ClaimVerdict {
 	/** The witness's white-noise threshold visibility for that rung (at the point value). */
 	visibilityNeeded?: number;
 	/**
-	 * Total counts needed at the same point value, offered only when the point value of the
-	 * quantity the bound is built on (S, or the fidelity floor P_0 + P_1 − 1) clears the bound.
+	 * Total counts in the same proportions for a 90 % chance of certifying the claim, found by
+	 * simulating the engine on the data's own tables (planner/power.ts); offered only when the
+	 * point value of the quantity the bound is built on (S, or the floor P_0 + P_1 − 1) clears it.
 	 */
 	countsNeeded?: number;
+	/** The simulated probability of certifying at countsNeeded. */
+	powerAtCountsNeeded?: number;
 	/** One sentence on what it would take. */
 	shortfall?: string;
 }
@@ -44,8 +47,14 @@ export interface VerdictInputs {
 	criticalVisibilities: number[];
 	effectiveVisibility: number;
 	totalCounts: number;
-	/** z = Φ⁻¹(confidence), for the counts estimate under the normal approximation. */
-	z: number;
+	/** Simulates the engine for the total counts giving 90 % power; null when too big to simulate here. */
+	countsForPower?: () => SimulatedCounts | null;
+}
+
+export interface SimulatedCounts {
+	totalCounts: number;
+	power: number;
+	experiments: number;
 }
 
 export function claimVerdict(v: VerdictInputs): ClaimVerdict {
@@ -61,12 +70,17 @@ export function claimVerdict(v: VerdictInputs): ClaimVerdict {
 	};
 	const basis = v.boundBasisValue;
 	if (basis > bound && v.standardError > 0) {
-		// SE falls as 1/√N, so the bound is cleared by z standard errors at N·(z·SE/(value − B))².
-		const factor = ((v.z * v.standardError) / (basis - bound)) ** 2;
-		verdict.countsNeeded = Math.ceil(v.totalCounts * factor);
-		verdict.shortfall =
-			`At the data, ${v.boundBasisName} clears the bound for Schmidt number ${k} but its lower confidence bound does not: ` +
-			`about ${verdict.countsNeeded.toExponential(2)} counts in all (×${factor.toFixed(2)}) would be needed if the data kept the same proportions.`;
+		const simulated = v.countsForPower?.() ?? null;
+		const clears = `At the data, ${v.boundBasisName} clears the bound for Schmidt number ${k} but its lower confidence bound does not`;
+		if (simulated) {
+			const factor = simulated.totalCounts / v.totalCounts;
+			verdict.countsNeeded = simulated.totalCounts;
+			verdict.powerAtCountsNeeded = simulated.power;
+			verdict.shortfall =
+				`${clears}: about ${simulated.totalCounts.toExponential(2)} counts in all (×${factor.toFixed(2)}), in the same proportions, ` +
+				`certify it in ${(100 * simulated.power).toFixed(1)} % of ${simulated.experiments} simulated checks.`;
+		} else
+			verdict.shortfall = `${clears}. The counts needed are too costly to simulate within one check; the planner (/plan, npm run plan) gives them.`;
 	} else {
 		const what =
 			v.value > bound

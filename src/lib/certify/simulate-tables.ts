@@ -132,3 +132,26 @@ export function sampleTables(
 		})
 	};
 }
+
+/**
+ * Structured cross-talk (issue 19, part 2): ρ = v·Φ_d + (1 − v)·σ, σ = (1/K) Σ_{m<K} |m⟩⟨m| ⊗
+ * |m+1⟩⟨m+1| (mod d): K modes leak into their neighbour. In basis 0 the leak sits in K cells next to
+ * the diagonal; in every MUB t ≥ 1 it is flat, 1/d². F = v (σ has no weight on |mm⟩), and
+ * F̃ = v − (K − 1)(1 − v)/d: for K = 1 the witness is exact, while the floor P₀ + P₁ − 1 is only
+ * 2v − 1 + (1 − v)/d. SN ≥ ⌈d·v⌉ (Terhal & Horodecki); recorded as the bound d.
+ */
+export function crossTalk(d: number, v: number, leaking = 1): TableState {
+	return {
+		label: `cross-talk v=${v}, ${leaking} leaking mode${leaking === 1 ? '' : 's'}, d=${d}`,
+		dimension: d,
+		table(t) {
+			const p = new Float64Array(d * d).fill(t === 0 ? 0 : (1 - v) / (d * d));
+			for (let a = 0; a < d; a++) p[a * d + a] += v / d;
+			if (t === 0) for (let m = 0; m < leaking; m++) p[m * d + ((m + 1) % d)] += (1 - v) / leaking;
+			return p;
+		},
+		schmidtNumber: d,
+		schmidtNumberIsBound: true,
+		fidelity: v
+	};
+}

@@ -17,7 +17,7 @@ import {
 	witnessFamilies,
 	type MethodId
 } from '$lib/certify';
-import { basisProblem } from '$lib/certify/bases';
+import { basisProblem, MAX_DIMENSION } from '$lib/certify/bases';
 import { MAX_SEED } from '$lib/certify/poisson';
 import { pageField, pageSizeField } from '$lib/paging';
 import { booleanFrom, numberFrom, wholeNumber, type ValueSource } from '$lib/schema-numbers';
@@ -63,7 +63,7 @@ const basesField = (source: ValueSource) =>
 			return value;
 		},
 		z
-			.array(wholeNumber('Each basis', 0, 256, source), {
+			.array(wholeNumber('Each basis', 0, MAX_DIMENSION, source), {
 				error: 'Bases must be a list of basis numbers.'
 			})
 			.optional()
@@ -110,7 +110,7 @@ const claimInput = (source: ValueSource) =>
 				'The dimension',
 				'Give the local dimension d.',
 				2,
-				256,
+				MAX_DIMENSION,
 				source
 			),
 			method: z.enum(METHOD_IDS, { error: `Choose a method: ${METHOD_IDS.join(', ')}.` }),
@@ -127,7 +127,7 @@ const claimInput = (source: ValueSource) =>
 				'The claimed Schmidt number',
 				'Give the claimed Schmidt number.',
 				1,
-				256,
+				MAX_DIMENSION,
 				source
 			),
 			manuscriptReference: z

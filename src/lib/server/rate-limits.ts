@@ -51,6 +51,8 @@ export const RATE_LIMITS = {
 	sealBundle: { kind: 'window', points: 20, windowSeconds: 600 },
 	/** Certificates looked up on /seal by ID or fingerprint, per client address. */
 	sealLookup: { kind: 'window', points: 120, windowSeconds: 60 },
+	/** Planner answers with simulated counts (seconds of work each), per client address. */
+	planSimulations: { kind: 'window', points: 30, windowSeconds: 3600 },
 	/** Mails written to one recipient; enforced by the outbox (services/mail-queue.ts). */
 	mailPerRecipient: { kind: 'window', points: 20, windowSeconds: 3600 }
 } as const satisfies Record<string, WindowRule | LadderRule>;

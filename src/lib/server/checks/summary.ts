@@ -70,14 +70,30 @@ export function previewTables(dataset: CountsDataset, first: number[] = []): Pre
 	const d = dataset.dimension;
 	const rank = (basis: number) => (first.includes(basis) ? first.indexOf(basis) : first.length);
 	const ordered = [...dataset.tables].sort((x, y) => rank(x.basis) - rank(y.basis));
-	const kept = ordered.slice(0, Math.max(1, Math.floor(MAX_PREVIEW_CELLS / (d * d))));
+	const side = Math.ceil(d / Math.ceil(d / PREVIEW_SIDE));
+	const kept = ordered.slice(0, Math.max(1, Math.floor(MAX_PREVIEW_CELLS / (side * side))));
 	return kept
 		.sort((x, y) => x.basis - y.basis)
 		.map((t) => ({
 			basis: t.basis,
 			total: t.counts.reduce((s, c) => s + c, 0),
-			counts: Array.from({ length: d }, (_, a) => Array.from(t.counts.subarray(a * d, a * d + d)))
+			...blockSums(t.counts, d)
 		}));
+}
+
+/** A heat map shows at most this many cells along a side; larger tables are summed in blocks. */
+export const PREVIEW_SIDE = 256;
+
+/** The table as rows for a heat map: cell by cell up to PREVIEW_SIDE, else sums of b × b blocks. */
+export function blockSums(counts: Float64Array, d: number): { counts: number[][]; block: number } {
+	const block = Math.ceil(d / PREVIEW_SIDE);
+	const side = Math.ceil(d / block);
+	const rows = Array.from({ length: side }, () => new Array<number>(side).fill(0));
+	for (let a = 0; a < d; a++) {
+		const row = rows[Math.floor(a / block)];
+		for (let b = 0; b < d; b++) row[Math.floor(b / block)] += counts[a * d + b];
+	}
+	return { counts: rows, block };
 }
 
 /**

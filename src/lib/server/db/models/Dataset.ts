@@ -18,6 +18,8 @@ export interface PreviewTable {
 	basis: number;
 	total: number;
 	counts: number[][];
+	/** Outcomes per shown cell along each side (sums of block × block cells); absent: 1. */
+	block?: number;
 }
 
 export interface DatasetAttributes {

@@ -2,6 +2,7 @@
 import { MAX_COUNTS_FILE_BYTES, METHOD_IDS } from '$lib/certify';
 import { CLAIM_SORTS, CLAIM_STATES } from '$lib/claims/schema';
 import { certificatePaths } from './certificate-paths';
+import { planPaths, planSchemas } from './plan-paths';
 import { certificateSchemas } from './certificate-schemas';
 import { reviewPaths } from './review-paths';
 import { reviewSchemas } from './review-schemas';
@@ -268,6 +269,7 @@ export const openApiDocument = {
 			}
 		},
 		...certificatePaths,
+		...planPaths,
 		'/api/v1/archive': {
 			get: {
 				operationId: 'groupArchive',
@@ -377,6 +379,6 @@ export const openApiDocument = {
 				description: 'The session cookie of a signed-in browser.'
 			}
 		},
-		schemas: { ...schemas, ...certificateSchemas }
+		schemas: { ...schemas, ...certificateSchemas, ...planSchemas }
 	}
 };

@@ -5,6 +5,7 @@ import {
 	DEFAULT_FOURIER,
 	DEFAULTS,
 	FOURIER_CONVENTIONS,
+	MAX_DIMENSION,
 	METHOD_IDS,
 	RESAMPLES
 } from '$lib/certify';
@@ -105,7 +106,12 @@ export const schemas = {
 			groupId: { ...text, description: 'Default: the caller’s first group.' },
 			title: { ...text, minLength: 1, maxLength: 200 },
 			sourceDescription: { ...text, minLength: 1, maxLength: 5000 },
-			dimension: { ...whole, minimum: 2, maximum: 256, description: 'Local dimension d.' },
+			dimension: {
+				...whole,
+				minimum: 2,
+				maximum: MAX_DIMENSION,
+				description: 'Local dimension d.'
+			},
 			method,
 			bases: {
 				type: 'array',
@@ -362,6 +368,7 @@ export const schemas = {
 					boundToBeat: number,
 					visibilityNeeded: number,
 					countsNeeded: whole,
+					powerAtCountsNeeded: number,
 					shortfall: text
 				}
 			}),

@@ -1,0 +1,143 @@
+/** The planner's endpoint of the OpenAPI document (public, no sign-in), with its schemas. */
+import { MAX_DIMENSION, METHOD_IDS, MIN_DIMENSION } from '$lib/certify';
+import { SIMULATE_CHOICES } from '$lib/certify/planner/query';
+
+const ref = (name: string) => ({ $ref: `#/components/schemas/${name}` });
+const query = (name: string, required: boolean, schema: object, description: string) => ({
+	name,
+	in: 'query',
+	required,
+	description,
+	schema
+});
+const nullableNumber = { type: ['number', 'null'] };
+
+export const planPaths = {
+	'/api/v1/plan': {
+		get: {
+			operationId: 'planMeasurement',
+			summary:
+				'What it takes to certify Schmidt number k: critical visibilities and counts per basis for 90 % power, simulated with the engine (public, no sign-in)',
+			security: [],
+			parameters: [
+				query('method', true, { type: 'string', enum: METHOD_IDS }, 'The witness family.'),
+				query(
+					'dimension',
+					true,
+					{ type: 'integer', minimum: MIN_DIMENSION, maximum: MAX_DIMENSION },
+					'Local dimension d.'
+				),
+				query(
+					'schmidtNumber',
+					true,
+					{ type: 'integer', minimum: 2 },
+					'The Schmidt number k to certify (at most d).'
+				),
+				query(
+					'visibility',
+					true,
+					{ type: 'number', minimum: 0, maximum: 1 },
+					'White-noise visibility η of the source.'
+				),
+				query(
+					'bases',
+					false,
+					{ type: 'string', pattern: '^(all|\\d+(,\\d+)*)$' },
+					'Basis indices such as 0,1, or all (default: the method’s two).'
+				),
+				query(
+					'confidence',
+					false,
+					{ type: 'number', exclusiveMinimum: 0.5, exclusiveMaximum: 1 },
+					'One-sided confidence (default 0.99865).'
+				),
+				query(
+					'simulate',
+					false,
+					{ type: 'string', enum: SIMULATE_CHOICES, default: 'requested' },
+					'Which designs get simulated counts.'
+				)
+			],
+			responses: {
+				'200': {
+					description: 'The plan.',
+					content: { 'application/json': { schema: ref('Plan') } }
+				},
+				'400': {
+					description: 'A missing or bad parameter, named in `field` (code bad_input).',
+					content: { 'application/json': { schema: ref('Error') } }
+				},
+				'429': {
+					description:
+						'Too many plans with simulated counts from this address (code rate_limited).',
+					content: { 'application/json': { schema: ref('Error') } }
+				}
+			}
+		}
+	}
+};
+
+const design = {
+	type: 'object',
+	required: [
+		'method',
+		'trust',
+		'bases',
+		'criticalVisibility',
+		'countsPerBasis',
+		'totalCounts',
+		'power',
+		'note'
+	],
+	properties: {
+		method: { type: 'string', enum: METHOD_IDS },
+		trust: { type: 'string' },
+		bases: { type: 'array', items: { type: 'integer' } },
+		criticalVisibility: { type: 'number' },
+		countsPerBasis: nullableNumber,
+		totalCounts: nullableNumber,
+		power: nullableNumber,
+		note: { type: ['string', 'null'] }
+	}
+};
+
+export const planSchemas = {
+	PlanDesign: design,
+	Plan: {
+		type: 'object',
+		required: ['request', 'rungs', 'design', 'alternatives', 'curve', 'simulation'],
+		properties: {
+			request: { type: 'object' },
+			rungs: {
+				type: 'array',
+				items: {
+					type: 'object',
+					properties: {
+						upToSchmidtNumber: { type: 'integer' },
+						bound: { type: 'number' },
+						criticalVisibility: { type: 'number' }
+					}
+				}
+			},
+			design: ref('PlanDesign'),
+			alternatives: { type: 'array', items: ref('PlanDesign') },
+			curve: {
+				type: 'array',
+				items: {
+					type: 'object',
+					properties: { dimension: { type: 'integer' }, criticalVisibility: { type: 'number' } }
+				}
+			},
+			simulation: {
+				type: 'object',
+				properties: {
+					experiments: { type: 'integer' },
+					resamples: { type: 'integer' },
+					seed: { type: 'integer' },
+					target: { type: 'number' },
+					engine: { type: 'string' }
+				}
+			}
+		}
+	}
+};

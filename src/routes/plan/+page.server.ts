@@ -1,0 +1,20 @@
+import { ZodError } from 'zod';
+import { fieldErrors, problemOf } from '$lib/server/problems';
+import { planFor } from '$lib/server/services/plans';
+import type { PageServerLoad } from './$types';
+
+const FIELDS = ['method', 'dimension', 'schmidtNumber', 'visibility', 'bases', 'simulate'] as const;
+
+/** Public (no sign-in): the planner's form, and its answer once the form has been sent (GET). */
+export const load: PageServerLoad = async ({ url, getClientAddress }) => {
+	const values = Object.fromEntries(FIELDS.map((f) => [f, url.searchParams.get(f) ?? undefined]));
+	if (!url.searchParams.has('method')) return { values, plan: null, errors: {} };
+	try {
+		return { values, plan: await planFor(values, getClientAddress()), errors: {} };
+	} catch (error) {
+		if (error instanceof ZodError) return { values, plan: null, errors: fieldErrors(error) };
+		const problem = problemOf(error);
+		if (!problem) throw error;
+		return { values, plan: null, errors: { [problem.field ?? '']: problem.message } };
+	}
+};
