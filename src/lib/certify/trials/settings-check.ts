@@ -56,6 +56,8 @@ function logGamma(a: number): number {
 	return 0.5 * Math.log(2 * Math.PI) + (z + 0.5) * Math.log(t) - t + Math.log(x);
 }
 
+const tail = (p: number) => (p > 0 ? p.toExponential(2) : '< 1e-300');
+
 export interface SettingsCheck {
 	level: number;
 	/** Frequency test: Pearson's chi-square of the setting counts against n·π, m − 1 degrees. */
@@ -100,11 +102,11 @@ export function checkSettings(settings: Uint16Array, bases: number[], pi: number
 	const failed: string[] = [];
 	if (frequencyP !== null && frequencyP < SETTINGS_LEVEL)
 		failed.push(
-			`their frequencies do not match the declared probabilities (p = ${frequencyP.toExponential(2)})`
+			`their frequencies do not match the declared probabilities (p = ${tail(frequencyP)})`
 		);
 	if (runsP !== null && runsP < SETTINGS_LEVEL)
 		failed.push(
-			`they change ${changes} times where random choices would change about ${Math.round(expectedChanges)} times (p = ${runsP.toExponential(2)})`
+			`they change ${changes} times where random choices would change about ${Math.round(expectedChanges)} times (p = ${tail(runsP)})`
 		);
 	const message =
 		failed.length > 0
