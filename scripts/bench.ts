@@ -18,6 +18,7 @@ import path from 'node:path';
 import { performance } from 'node:perf_hooks';
 import { ENGINE_VERSION, sampledCounts, states, toCountsCsv } from '../src/lib/certify';
 import { issueTimes } from './bench-issue';
+import { TRIALS_BENCH, trialsBenchArgs } from './bench-trials';
 
 const RESAMPLES = 10_000;
 /** Runs per median: ours, and numpy by dimension (its d = 127 runs take about 30 s each). */
@@ -134,6 +135,15 @@ for (const t of await issueTimes(DIMENSIONS, RESAMPLES)) {
 	const name = `issue a certificate (${t.method}): check ${f(t.check)} s + issue ${f(t.issue)} s`;
 	rows.push([String(t.d), name, f(t.check + t.issue), ...blank(7)]);
 }
+const trialsArgs = trialsBenchArgs(folder);
+const trials = medianOf(3, () => timed(process.execPath, trialsArgs));
+rows.push([
+	String(TRIALS_BENCH.d),
+	`time-ordered check, ${TRIALS_BENCH.trials.toExponential(0)} trials (whole process)`,
+	f(trials.wall),
+	f(trials.cpu),
+	...blank(6)
+]);
 rmSync(folder, { recursive: true, force: true });
 
 const head = ['d', 'what', 'ours s', 'ours CPU s', 'numpy s', 'numpy CPU s', 'ratio', 'CPU ratio'];
