@@ -83,7 +83,12 @@ describe('settings randomness check', () => {
 			[30, 25]
 		])
 			expect(upperGamma(k / 2, x / 2)).toBeCloseTo(1 - jStat.chisquare.cdf(x, k), 10);
-		expect(upperGamma(0.5, 3.29 ** 2 / 2)).toBeCloseTo(2 * (1 - jStat.normal.cdf(3.29, 0, 1)), 10);
+		// Two-sided normal tail 2(1 − Φ(z)) = Q(1/2, z²/2): 0.05 at z = 1.959964 (handbook value).
+		expect(upperGamma(0.5, 1.959964 ** 2 / 2)).toBeCloseTo(0.05, 6);
+		expect(upperGamma(0.5, 3.29 ** 2 / 2)).toBeCloseTo(
+			1 - jStat.gamma.cdf(3.29 ** 2 / 2, 0.5, 1),
+			10
+		);
 	});
 
 	it('random settings pass; alternating, blocked and skewed ones are flagged', () => {
