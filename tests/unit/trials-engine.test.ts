@@ -2,6 +2,7 @@
 import { jStat } from 'jstat';
 import { describe, expect, it } from 'vitest';
 import {
+	betAgainst,
 	certifyTrials,
 	checkSettings,
 	closedTestingRung,
@@ -11,6 +12,7 @@ import {
 	TRIALS_LABEL,
 	TrialsParser,
 	upperGamma,
+	unitsNeeded,
 	type TrialsMode
 } from '../../src/lib/certify/trials';
 
@@ -108,6 +110,23 @@ describe('the certificate from time-ordered trials', () => {
 		expect(closedTestingRung([0.001, 0.5, 0.001], 0.01)).toBe(2);
 		expect(closedTestingRung([0.001, 0.001], 0.01)).toBe(3);
 		expect(closedTestingRung([0.2], 0.01)).toBe(1);
+	});
+
+	it('trials needed: the aGRAPA bet at the observed rate, worked by hand', () => {
+		// 90 % matches against μ = 0.8: g = 0.1, σ² = 0.09, λ = min(0.1/0.1, 0.5/0.8) = 0.625;
+		// growth 0.9·ln 1.125 + 0.1·ln 0.5 = 0.0366902…, and ln(100)/growth = 125.5… → 126.
+		const codes = new Uint16Array(1000).map((_, i) => (i % 10 === 0 ? 0 : 1));
+		expect(unitsNeeded(codes, new Float64Array([0, 1]), 0.8, 0.01)).toBe(126);
+		expect(unitsNeeded(codes, new Float64Array([0, 1]), 0.95, 0.01)).toBeNull();
+	});
+
+	it('the running log₁₀ M_n: one point per step, the last at N', () => {
+		const codes = new Uint16Array(1001).map((_, i) => (i % 10 === 0 ? 0 : 1));
+		const path = betAgainst(codes, new Float64Array([0, 1]), 0.8, 1, 200);
+		expect(path.traceStep).toBe(6);
+		expect(path.trace.length).toBe(167);
+		expect(path.trace[166]).toBe(path.log10Final);
+		expect(path.log10Peak).toBeGreaterThanOrEqual(Math.max(...path.trace));
 	});
 
 	it('predictable settings let a separable source certify SN d; the settings check refuses it', () => {

@@ -12,8 +12,6 @@ const EXPERIMENTS = 10_000;
 const TRIALS = 300;
 /** α·N plus three binomial standard deviations. */
 const LIMIT = ALPHA * EXPERIMENTS + 3 * Math.sqrt(EXPERIMENTS * ALPHA * (1 - ALPHA));
-/** Two bases, uniform settings: Z = 1{a = b} (m π = 1); code = basis·2 + match. */
-const VALUES = new Float64Array([0, 1, 0, 1]);
 /**
  * B_r = 1 + (m − 1) r/d for m = 2 MUBs (Spengler et al., Phys. Rev. A 86, 022311 (2012) for r = 1;
  * Morelli, Huber & Tavakoli, Phys. Rev. Lett. 131, 170201 (2023) for r > 1, from memory).
@@ -23,19 +21,29 @@ const nullMean = (r: number, d: number) => (1 + r / d) / 2;
 /** A source deciding each trial's match probability per basis from everything before it. */
 type Source = (past: { settings: Uint16Array; codes: Uint16Array; i: number }) => [number, number];
 
-function rejections(d: number, r: number, source: Source, seed: number, shift = 0): number {
+/** Settings drawn with P(basis 0) = pi0; Z = 1{a = b}/(2 π_t) (witnesses.md §10). */
+function rejections(
+	d: number,
+	r: number,
+	source: Source,
+	seed: number,
+	shift = 0,
+	pi0 = 0.5
+): number {
 	const random = mulberry32(seed);
+	const values = new Float64Array([0, 1 / (2 * pi0), 0, 1 / (2 * (1 - pi0))]);
+	const xMax = Math.max(values[1], values[3]);
 	let rejected = 0;
 	const codes = new Uint16Array(TRIALS);
 	const settings = new Uint16Array(TRIALS);
 	for (let e = 0; e < EXPERIMENTS; e++) {
 		for (let i = 0; i < TRIALS; i++) {
 			const match = source({ settings, codes, i });
-			const t = random() < 0.5 ? 0 : 1; // drawn after the source has committed
+			const t = random() < pi0 ? 0 : 1; // drawn after the source has committed
 			settings[i] = t;
 			codes[i] = 2 * t + (random() < match[t] ? 1 : 0);
 		}
-		const { p } = pValue(betAgainst(codes, VALUES, nullMean(r, d) - shift, 1));
+		const { p } = pValue(betAgainst(codes, values, nullMean(r, d) - shift, xMax));
 		if (p <= ALPHA) rejected++;
 	}
 	return rejected;
@@ -77,6 +85,11 @@ describe('test supermartingale against adaptive sources (witnesses.md §10)', ()
 			});
 		}
 	}
+
+	it('declared probabilities 0.8 / 0.2, the source betting on the likelier setting, d = 8', () => {
+		const source: Source = ({ i }) => eigenstateOf(i % 10 < 8 ? 0 : 1, 8);
+		expect(rejections(8, 1, source, 88, 0, 0.8)).toBeLessThanOrEqual(LIMIT);
+	});
 
 	it('the experiments can see a broken bound: a null mean 0.1 too low is rejected far more often', () => {
 		const [r, source] = adversaries['(a) separable, guessed setting'](8);
