@@ -9,6 +9,7 @@ import {
 	isotropicTrialsCsv,
 	mulberry32,
 	parseTrials,
+	recheckTrials,
 	TRIALS_LABEL,
 	TrialsParser,
 	upperGamma,
@@ -148,6 +149,20 @@ describe('the certificate from time-ordered trials', () => {
 		expect(JSON.stringify(two.rungs)).toBe(JSON.stringify(one.rungs));
 		expect(one.label).toBe(TRIALS_LABEL);
 		expect(one.trials).toBe(20_000);
+	});
+
+	it('a verifier re-computes every p-value bit for bit and names a changed one', () => {
+		const file = bytes(isotropicTrialsCsv(5, 0.85, [0, 1], 5000, 6));
+		const result = certifyTrials(parseTrials(file, 5, 'trials'), {
+			method: 'mub-correlation',
+			probabilities: [0.5, 0.5]
+		});
+		const recorded = JSON.parse(JSON.stringify(result));
+		expect(recheckTrials(file, recorded)).toEqual({ matches: true, differences: [] });
+		recorded.rungs[1].log10P = result.rungs[1].log10P * (1 + Number.EPSILON);
+		expect(recheckTrials(file, recorded).differences).toEqual([
+			expect.stringMatching(/^rung 2 log10 p: recorded/)
+		]);
 	});
 
 	it('refuses a method without a per-trial matching sum, and probabilities that do not add to 1', () => {

@@ -108,7 +108,7 @@ export function betAgainst(
 
 /** p = min(1, 1/max M) as log₁₀ and as a number (0 once it underflows; log10P stays exact). */
 export function pValue(path: BetPath): { p: number; log10P: number } {
-	const log10P = -Math.max(0, path.log10Peak);
+	const log10P = path.log10Peak > 0 ? -path.log10Peak : 0; // never −0, which JSON would not keep
 	return { p: 10 ** log10P, log10P };
 }
 
