@@ -94,6 +94,18 @@ describe('settings randomness check', () => {
 		);
 	});
 
+	it('keeps its stated level: truly random settings are flagged at most 2 × 0.001 within error', () => {
+		const random = mulberry32(21);
+		const settings = new Uint16Array(1000);
+		let flagged = 0;
+		for (let e = 0; e < 4000; e++) {
+			for (let i = 0; i < settings.length; i++) settings[i] = random() < 0.3 ? 0 : 1;
+			if (!checkSettings(settings, [0, 1], [0.3, 0.7]).passed) flagged++;
+		}
+		// 2α·N = 8, plus three binomial standard deviations (≈ 8.5).
+		expect(flagged).toBeLessThanOrEqual(17);
+	});
+
 	it('random settings pass; alternating, blocked and skewed ones are flagged', () => {
 		const random = mulberry32(3);
 		const fair = new Uint16Array(5000).map(() => (random() < 0.5 ? 0 : 1));
