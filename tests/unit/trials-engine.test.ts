@@ -177,6 +177,18 @@ describe('the certificate from time-ordered trials', () => {
 		]);
 	});
 
+	it('blocks: one value per block, its matching fraction over m π_t, and the condition stated', () => {
+		const text = 'basis,outcome_a,outcome_b,block\n0,1,1,0\n0,2,1,0\n1,0,0,1\n1,1,1,1\n0,0,0,4\n';
+		const result = certifyTrials(parse(text, 3, 'blocks'), {
+			method: 'mub-correlation',
+			probabilities: [0.25, 0.75]
+		});
+		// Y = (1/2)/(2·0.25), (2/2)/(2·0.75), (1/1)/(2·0.25): mean (1 + 2/3 + 2)/3.
+		expect(result.meanZ).toBeCloseTo((1 + 2 / 3 + 2) / 3, 14);
+		expect(result.blocks).toBe(3);
+		expect(result.condition).toMatch(/receives nothing from the detectors during the block/);
+	});
+
 	it('refuses a method without a per-trial matching sum, and probabilities that do not add to 1', () => {
 		const data = parse(isotropicTrialsCsv(3, 0.9, [0, 1], 100, 1));
 		expect(() => certifyTrials(data, { method: 'fidelity-two-basis' })).toThrow(/mub-correlation/);
