@@ -4,7 +4,7 @@
  * so a file of any size (or an inflating gzip stream) is held only as one code per trial.
  */
 import { checkBasis, checkDimension, InputError } from '../counts';
-import { GrowingArray, type TrialsData, type TrialsMode } from './store';
+import { BlockSums, GrowingArray, type TrialsData, type TrialsMode } from './store';
 
 const COLUMNS = ['basis', 'outcome_a', 'outcome_b', 'time_s', 'block'] as const;
 type Column = (typeof COLUMNS)[number];
@@ -29,9 +29,7 @@ export class TrialsParser {
 		block: -1
 	};
 	private readonly codes = new GrowingArray(new Uint16Array(1024));
-	private readonly blockBasis = new GrowingArray(new Uint16Array(64));
-	private readonly blockRows = new GrowingArray(new Uint32Array(64));
-	private readonly blockMatches = new GrowingArray(new Uint32Array(64));
+	private readonly blocks = new BlockSums();
 	private readonly tables = new Map<number, Float64Array>();
 	private trials = 0;
 	private lastTime = -Infinity;
@@ -73,13 +71,7 @@ export class TrialsParser {
 			mode: this.mode,
 			trials: this.trials,
 			codes: blocks ? new Uint16Array(0) : this.codes.view(),
-			blocks: blocks
-				? {
-						basis: this.blockBasis.view(),
-						rows: this.blockRows.view(),
-						matches: this.blockMatches.view()
-					}
-				: null,
+			blocks: blocks ? this.blocks.view() : null,
 			tables: this.tables,
 			hasTime: this.columns.has('time_s'),
 			hasBlock: this.columns.has('block')
@@ -181,13 +173,13 @@ export class TrialsParser {
 			throw new InputError(
 				`${name} must be 0..${this.dimension - 1}, got ${value}`,
 				this.line,
-				this.columns!.get(name)! + 1
+				this.at[name] + 1
 			);
 		return value;
 	}
 
 	private readTime(bytes: Uint8Array): void {
-		const f = this.columns!.get('time_s')!;
+		const f = this.at.time_s;
 		const text = this.text(bytes, f);
 		const time = Number(text);
 		if (!DECIMAL.test(text) || !Number.isFinite(time))
@@ -203,28 +195,21 @@ export class TrialsParser {
 
 	private readBlock(bytes: Uint8Array, basis: number, match: boolean): void {
 		const block = this.whole(bytes, 'block');
-		const column = this.columns!.get('block')! + 1;
 		if (block < this.lastBlock)
 			throw new InputError(
 				`block ${block} comes after block ${this.lastBlock}; blocks must be contiguous and in increasing order`,
 				this.line,
-				column
+				this.at.block + 1
 			);
-		const last = this.blockBasis.length - 1;
-		if (block > this.lastBlock) {
-			this.blockBasis.push(basis);
-			this.blockRows.push(0);
-			this.blockMatches.push(0);
-		} else if (this.blockBasis.view()[last] !== basis)
+		if (block > this.lastBlock) this.blocks.open(basis);
+		else if (this.blocks.current !== basis)
 			throw new InputError(
-				`block ${block} mixes bases ${this.blockBasis.view()[last]} and ${basis}; one setting per block`,
+				`block ${block} mixes bases ${this.blocks.current} and ${basis}; one setting per block`,
 				this.line,
-				this.columns!.get('basis')! + 1
+				this.at.basis + 1
 			);
 		this.lastBlock = block;
-		const current = this.blockBasis.length - 1;
-		this.blockRows.view()[current]++;
-		if (match) this.blockMatches.view()[current]++;
+		this.blocks.count(match);
 	}
 }
 

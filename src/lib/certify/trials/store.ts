@@ -22,6 +22,28 @@ export class GrowingArray<T extends Uint16Array | Uint32Array> {
 	}
 }
 
+/** Per-block sums as rows arrive: a block opens with its basis, then counts rows and matches. */
+export class BlockSums {
+	private readonly basis = new GrowingArray(new Uint16Array(64));
+	private readonly rows = new GrowingArray(new Uint32Array(64));
+	private readonly matches = new GrowingArray(new Uint32Array(64));
+	/** The open block's basis, −1 before the first. */
+	current = -1;
+	open(basis: number): void {
+		this.basis.push(basis);
+		this.rows.push(0);
+		this.matches.push(0);
+		this.current = basis;
+	}
+	count(match: boolean): void {
+		this.rows.view()[this.rows.length - 1]++;
+		if (match) this.matches.view()[this.matches.length - 1]++;
+	}
+	view(): TrialBlocks {
+		return { basis: this.basis.view(), rows: this.rows.view(), matches: this.matches.view() };
+	}
+}
+
 /** One setting (basis) per block; rows and matching rows counted per block. */
 export interface TrialBlocks {
 	basis: Uint16Array;
