@@ -19,6 +19,7 @@ import { performance } from 'node:perf_hooks';
 import { ENGINE_VERSION, sampledCounts, states, toCountsCsv } from '../src/lib/certify';
 import { issueTimes } from './bench-issue';
 import { LARGE_DIMENSIONS, largeRows } from './bench-large';
+import { TRIALS_BENCH, trialsBenchArgs } from './bench-trials';
 
 const RESAMPLES = 10_000;
 /** Runs per median: ours, and numpy by dimension (its d = 127 runs take about 30 s each). */
@@ -141,6 +142,15 @@ for (const t of await issueTimes([...DIMENSIONS, ...LARGE_DIMENSIONS], RESAMPLES
 	const name = `issue a certificate (${t.method}, ${t.resamples} resamples): check ${f(t.check)} s + issue ${f(t.issue)} s${versus}`;
 	rows.push([String(t.d), name, f(t.check + t.issue), ...blank(7)]);
 }
+const trialsArgs = trialsBenchArgs(folder);
+const trials = medianOf(3, () => timed(process.execPath, trialsArgs));
+rows.push([
+	String(TRIALS_BENCH.d),
+	`time-ordered check, ${TRIALS_BENCH.trials.toExponential(0)} trials (whole process)`,
+	f(trials.wall),
+	f(trials.cpu),
+	...blank(6)
+]);
 rmSync(folder, { recursive: true, force: true });
 
 const head = ['d', 'what', 'ours s', 'ours CPU s', 'numpy s', 'numpy CPU s', 'ratio', 'CPU ratio'];

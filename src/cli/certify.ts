@@ -3,6 +3,8 @@
  *   npm run --silent certify -- --counts FILE --dimension D --method METHOD
  *       [--fourier cyclic|field] [--bases 0,1] [--confidence 0.99865] [--resamples 10000] [--seed 1]
  *       [--claim K] [--json] [--threads N] [--calibration FILE]
+ *   npm run --silent certify -- --trials FILE --dimension D --method METHOD [--mode trials|blocks]
+ *       [--bases 0,1] [--probabilities 0.5,0.5] [--confidence C] [--json]
  * Blocks of resamples run on worker threads when the work repays it (same numbers for any N).
  * Exit status: 0 success, 2 bad input (one line on stderr), 1 internal error.
  */
@@ -24,6 +26,7 @@ import {
 import { parseCalibration } from '../lib/certify/calibration';
 import { certifyTarget } from '../lib/certify/fidelity-target';
 import { threadedBlocks } from './blocks';
+import { runTrials } from './certify-trials';
 import { readableReport } from './report';
 
 const USAGE = `usage: npm run --silent certify -- --counts FILE --dimension D --method ${METHOD_IDS.join('|')}
@@ -33,6 +36,10 @@ const USAGE = `usage: npm run --silent certify -- --counts FILE --dimension D --
              basis 0 the computational table, basis 1 the table in the tilted vectors, same integration time
   --calibration  the basis vectors as measured (JSON, witnesses.md §4.4; mub-correlation only): the ladder then
              uses their overlaps instead of assuming exactly unbiased bases
+   or: npm run --silent certify -- --trials FILE --dimension D --method mub-correlation|steering-2mub
+       [--mode trials|blocks] [--bases 0,1] [--probabilities 0.5,0.5] [--confidence C] [--json]
+  --trials   time-ordered CSV basis,outcome_a,outcome_b[,time_s][,block]: p-values valid without the
+             i.i.d. assumption (random settings independent of the source; fair sampling of detected pairs)
   --fourier  which Fourier basis basis 1 is: cyclic = the Z_d transform d^-1/2 Σ ω^jm |m⟩ (every d; the default
              unless a JSON file declares "fourier"), field = the GF(p^s) basis and its d + 1 MUBs (prime powers
              only); for prime d the two are the same bases`;
@@ -113,11 +120,34 @@ function runTarget(values: Record<string, string | boolean | undefined>): number
 	return 0;
 }
 
+function trialsRun(values: Record<string, string | boolean | undefined>): number {
+	for (const required of ['dimension', 'method'] as const)
+		if (!values[required]) throw new InputError(`--${required} is required`);
+	const text = (name: string) => values[name] as string | undefined;
+	return runTrials({
+		file: text('trials')!,
+		dimension: wholeNumber('dimension', text('dimension'))!,
+		method: text('method')!,
+		mode: text('mode'),
+		bases: text('bases')
+			?.split(',')
+			.map((b) => wholeNumber('bases', b)!),
+		probabilities: text('probabilities')
+			?.split(',')
+			.map((p) => decimal('probabilities', p)!),
+		confidence: decimal('confidence', text('confidence')),
+		json: values.json === true
+	});
+}
+
 async function run(argv: string[]): Promise<number> {
 	const { values } = parseArgs({
 		args: argv,
 		options: {
 			counts: { type: 'string' },
+			trials: { type: 'string' },
+			mode: { type: 'string' },
+			probabilities: { type: 'string' },
 			dimension: { type: 'string' },
 			method: { type: 'string' },
 			bases: { type: 'string' },
@@ -140,6 +170,7 @@ async function run(argv: string[]): Promise<number> {
 		process.stdout.write(USAGE + '\n');
 		return 0;
 	}
+	if (values.trials) return trialsRun(values);
 	for (const required of ['counts', 'dimension', 'method'] as const) {
 		if (!values[required]) throw new InputError(`--${required} is required`);
 	}

@@ -1,0 +1,44 @@
+/**
+ * What an offline verifier does with a time-ordered certificate: re-read the trials, re-run the
+ * check with the options the result records, and compare every p-value bit for bit (the check
+ * draws no random numbers, so any difference means other data, other options or another engine).
+ */
+import { certifyTrials, type TrialsResult } from './certify-trials';
+import { parseTrials } from './parse';
+
+export interface TrialsRecheck {
+	matches: boolean;
+	/** One line per number that differs, naming it. */
+	differences: string[];
+}
+
+/** Fields compared exactly, by name, between the recorded result and the recomputed one. */
+function compare(recorded: TrialsResult, again: TrialsResult): string[] {
+	const out: string[] = [];
+	const same = (what: string, a: unknown, b: unknown) => {
+		if (!Object.is(a, b)) out.push(`${what}: recorded ${String(a)}, recomputed ${String(b)}`);
+	};
+	same('trials', recorded.trials, again.trials);
+	same('blocks', recorded.blocks, again.blocks);
+	same('rungs', recorded.rungs.length, again.rungs.length);
+	recorded.rungs.forEach((rung, i) => {
+		same(`rung ${rung.rung} log10 p`, rung.log10P, again.rungs[i]?.log10P);
+		same(`rung ${rung.rung} log10 M_N`, rung.log10Final, again.rungs[i]?.log10Final);
+	});
+	same('settings check', recorded.settings.passed, again.settings.passed);
+	same('certified Schmidt number', recorded.certifiedSchmidtNumber, again.certifiedSchmidtNumber);
+	return out;
+}
+
+export function recheckTrials(bytes: Uint8Array, recorded: TrialsResult): TrialsRecheck {
+	const data = parseTrials(bytes, recorded.dimension, recorded.mode);
+	const again = certifyTrials(data, {
+		method: recorded.method,
+		bases: recorded.bases,
+		probabilities: recorded.probabilities,
+		confidence: recorded.confidence,
+		inputSha256: recorded.inputSha256 ?? undefined
+	});
+	const differences = compare(recorded, again);
+	return { matches: differences.length === 0, differences };
+}
