@@ -18,6 +18,7 @@ import { sweepLeftChecks } from './left-behind';
 import { CheckCancelled, type CheckQueue, type QueuedCheck } from './queue';
 import type { SummaryOutcome, SummaryTask } from './summary';
 import type { CheckMessage, CheckTask } from './task';
+import { trialsPart } from './trials-task';
 
 export type { CheckQueue, QueuedCheck } from './queue';
 
@@ -97,7 +98,8 @@ export class CheckRunner implements CheckQueue {
 	}
 
 	summarise(task: SummaryTask): Promise<SummaryOutcome> {
-		return this.readers.run(task, { name: 'summariseCounts' }) as Promise<SummaryOutcome>;
+		const name = task.trials ? 'summariseTrials' : 'summariseCounts';
+		return this.readers.run(task, { name }) as Promise<SummaryOutcome>;
 	}
 
 	/** Resolves once this check's run has ended here and the next waiting one was handed on. */
@@ -152,6 +154,7 @@ export class CheckRunner implements CheckQueue {
 			seed: Number(check.seed),
 			subtractAccidentals: !!check.subtractAccidentals,
 			claim: claim.claimedSchmidtNumber,
+			trials: trialsPart(claim),
 			port
 		};
 	}
@@ -183,6 +186,7 @@ export class CheckRunner implements CheckQueue {
 		try {
 			const task = await this.task(check, channel.port2);
 			const options = { transferList: [channel.port2], signal: abort.signal };
+			// A trials result (kind 'time-ordered-trials') is kept in the same column; see isTrialsResult.
 			result = (await this.pool.run(task, options)) as CertificationResult;
 			if (result.inputSha256 !== task.sha256)
 				throw new Error('the result does not name the dataset’s SHA-256');

@@ -6,10 +6,13 @@
 import { readFile } from 'node:fs/promises';
 import { certify, InputError, parseCounts, type CertificationResult } from '../../certify';
 import { sha256Hex } from '../../evidence/hash';
+import type { TrialsResult } from '../../certify/trials';
 import type { CheckMessage, CheckTask } from './task';
+import { runTrialsCheck } from './trials-task';
 
 /** Named task (piscina `name`): reads an uploaded file against its claim. */
 export { summariseCounts } from './summary';
+export { summariseTrials } from './trials-task';
 
 async function readStored(file: string): Promise<Uint8Array> {
 	try {
@@ -20,7 +23,9 @@ async function readStored(file: string): Promise<Uint8Array> {
 	}
 }
 
-export default async function runCheck(task: CheckTask): Promise<CertificationResult> {
+export default async function runCheck(
+	task: CheckTask
+): Promise<CertificationResult | TrialsResult> {
 	// The runner closes its end of the port once the result is in.
 	const post = (message: CheckMessage) => task.port?.postMessage(message);
 	post({ type: 'started' });
@@ -29,6 +34,7 @@ export default async function runCheck(task: CheckTask): Promise<CertificationRe
 	if (task.sha256 && task.sha256 !== inputSha256) {
 		throw new InputError('the stored counts file no longer matches its SHA-256');
 	}
+	if (task.trials) return runTrialsCheck(bytes, { ...task, trials: task.trials }, inputSha256);
 	const dataset = parseCounts(bytes, task.dimension);
 	return certify(dataset, {
 		method: task.method,

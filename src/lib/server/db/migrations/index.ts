@@ -10,6 +10,7 @@ import * as checkFairUse from './0008-check-fair-use';
 import * as mailCap from './0009-mail-cap';
 import * as checkAttempts from './0010-check-attempts';
 import * as noLiveSecrets from './0014-no-live-secrets';
+import * as trialsClaims from './0018-trials-claims';
 
 export const migrations = [
 	{ name: '0001-initial', ...initial },
@@ -22,5 +23,6 @@ export const migrations = [
 	{ name: '0008-check-fair-use', ...checkFairUse },
 	{ name: '0009-mail-cap', ...mailCap },
 	{ name: '0010-check-attempts', ...checkAttempts },
-	{ name: '0014-no-live-secrets', ...noLiveSecrets }
+	{ name: '0014-no-live-secrets', ...noLiveSecrets },
+	{ name: '0018-trials-claims', ...trialsClaims }
 ];
