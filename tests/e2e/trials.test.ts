@@ -122,4 +122,35 @@ describe('time-ordered trials in the app', () => {
 		expect(page).toContain('Nothing is certified: the settings do not look random.');
 		expect(page).toContain('change 1999 times');
 	});
+
+	it('takes the trials mode and probabilities from the new-claim form, and names a bad field', async () => {
+		const post = (fields: Record<string, string>) =>
+			fetch(`${app.origin}/claims/new?/create`, {
+				method: 'POST',
+				redirect: 'manual',
+				headers: {
+					cookie: `rankseal_session=${world.session}`,
+					origin: app.origin,
+					accept: 'text/html',
+					'content-type': 'application/x-www-form-urlencoded'
+				},
+				body: new URLSearchParams({
+					title: 'Blocks of one setting',
+					sourceDescription: 'Halvorsen Lake Photonics, block run',
+					dimension: '5',
+					method: 'mub-correlation',
+					bases: '0, 1',
+					claimedSchmidtNumber: '2',
+					...fields
+				})
+			});
+		const made = await post({ trialsMode: 'blocks', trialsProbabilities: '0.25, 0.75' });
+		expect(made.status).toBe(303);
+		const claimId = made.headers.get('location')!.split('/').pop();
+		const claim = await (await call(`/api/v1/claims/${claimId}`)).json();
+		expect(claim.trials).toEqual({ mode: 'blocks', probabilities: [0.25, 0.75] });
+		const bad = await post({ trialsMode: 'trials', trialsProbabilities: '0.5, 0.6' });
+		expect(bad.status).toBe(400);
+		expect(await bad.text()).toContain('The setting probabilities must sum to 1');
+	});
 });
