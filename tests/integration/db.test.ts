@@ -26,7 +26,8 @@ describe('database', () => {
 			'0008-check-fair-use',
 			'0009-mail-cap',
 			'0010-check-attempts',
-			'0014-no-live-secrets'
+			'0014-no-live-secrets',
+			'0018-trials-claims'
 		]);
 	});
 
