@@ -15,6 +15,7 @@ import {
 	TRIALS_LABEL,
 	type TrialsResult
 } from '../../src/lib/certify/trials';
+import { claimInputSchema } from '../../src/lib/claims/schema';
 import { bundleCheckWorker } from '../../src/lib/server/checks/locate';
 import { startCheckRunner, stopCheckRunner } from '../../src/lib/server/checks/registry';
 import { getCheck, startCheck } from '../../src/lib/server/services/checks';
@@ -66,6 +67,10 @@ describe('claims on time-ordered trials', () => {
 		expect(claim.trials).toEqual({ mode: 'trials', probabilities: [0.25, 0.75] });
 		await expect(trialsClaim({ trialsProbabilities: [0.5, 0.6] })).rejects.toThrow(/must sum to 1/);
 		await expect(trialsClaim({ method: 'fidelity' })).rejects.toThrow(/mub-correlation/);
+		// A validated claim (nulls for "not given") parses again unchanged, as the API's path does.
+		const plain = claimInputSchema.parse({ ...claimFields });
+		expect(claimInputSchema.parse(plain)).toEqual(plain);
+		expect(plain).toMatchObject({ trialsMode: null, trialsProbabilities: null });
 	});
 
 	it('checks a gzip upload on the worker pool: p_r per rung, label, i.i.d. comparison, the engine’s exact numbers', async () => {

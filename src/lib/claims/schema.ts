@@ -74,7 +74,8 @@ const probabilitiesField = z.preprocess(
 	(value) => {
 		if (typeof value === 'string') value = value.split(/[\s,]+/).filter((part) => part !== '');
 		if (Array.isArray(value)) return value.length ? value.map((v) => Number(v)) : undefined;
-		return value;
+		// null: what a validated claim carries for "uniform", so it parses again unchanged.
+		return value ?? undefined;
 	},
 	z
 		.array(
