@@ -21,6 +21,7 @@ import { startCheckRunner, stopCheckRunner } from '../../src/lib/server/checks/r
 import { getCheck, startCheck } from '../../src/lib/server/services/checks';
 import { issueCertificate } from '../../src/lib/server/services/certificates';
 import { createClaim, getClaim } from '../../src/lib/server/services/claims';
+import { updateClaim } from '../../src/lib/server/services/claim-edit';
 import { addDataset } from '../../src/lib/server/services/datasets';
 import { ConflictError } from '../../src/lib/server/services/errors';
 import { addGroup, addUser, bytesOf, claimFields } from './backend-fixtures';
@@ -66,7 +67,9 @@ describe('claims on time-ordered trials', () => {
 		const claim = await trialsClaim({ trialsProbabilities: '0.25, 0.75' });
 		expect(claim.trials).toEqual({ mode: 'trials', probabilities: [0.25, 0.75] });
 		await expect(trialsClaim({ trialsProbabilities: [0.5, 0.6] })).rejects.toThrow(/must sum to 1/);
-		await expect(trialsClaim({ method: 'fidelity' })).rejects.toThrow(/mub-correlation/);
+		await expect(trialsClaim({ method: 'fidelity-two-basis' })).rejects.toThrow(
+			/Time-ordered trials work with/
+		);
 		// A validated claim (nulls for "not given") parses again unchanged, as the API's path does.
 		const plain = claimInputSchema.parse({ ...claimFields });
 		expect(claimInputSchema.parse(plain)).toEqual(plain);
@@ -125,6 +128,22 @@ describe('claims on time-ordered trials', () => {
 		expect(result.settings.passed).toBe(false);
 		expect(result.settings.message).toMatch(/change 3999 times/);
 		expect(result.certifiedSchmidtNumber).toBe(1);
+	});
+
+	it('keeps an edited trials claim within the trials rules (method, one probability per basis)', async () => {
+		const claim = await trialsClaim({ trialsProbabilities: [0.5, 0.5] });
+		const fields = { ...claimFields, dimension: D, claimedSchmidtNumber: 3 };
+		await expect(
+			updateClaim(ctx.database, asUser(ada), claim.id, { ...fields, method: 'fidelity-two-basis' })
+		).rejects.toThrow(/Time-ordered trials work with/);
+		await expect(
+			updateClaim(ctx.database, asUser(ada), claim.id, { ...fields, bases: [0, 1, 2] })
+		).rejects.toThrow(/one setting probability per basis/);
+		const edited = await updateClaim(ctx.database, asUser(ada), claim.id, {
+			...fields,
+			title: 'Renamed run'
+		});
+		expect(edited.trials).toEqual({ mode: 'trials', probabilities: [0.5, 0.5] });
 	});
 
 	it('names the line of a bad row and stores nothing', async () => {
