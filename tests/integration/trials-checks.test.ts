@@ -9,8 +9,10 @@ import path from 'node:path';
 import { gzipSync } from 'node:zlib';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import {
+	BLOCKS_CONDITION,
 	certifyTrials,
 	isotropicTrialsCsv,
+	mulberry32,
 	parseTrials,
 	TRIALS_LABEL,
 	type TrialsResult
@@ -144,6 +146,39 @@ describe('claims on time-ordered trials', () => {
 			title: 'Renamed run'
 		});
 		expect(edited.trials).toEqual({ mode: 'trials', probabilities: [0.5, 0.5] });
+	});
+
+	it('checks blocks under the declared probabilities, one bet per block, with the blocks condition', async () => {
+		const claim = await trialsClaim({ trialsMode: 'blocks', trialsProbabilities: [0.25, 0.75] });
+		const random = mulberry32(11);
+		const rows = ['basis,outcome_a,outcome_b,block'];
+		for (let block = 0; block < 300; block++) {
+			const basis = random() < 0.25 ? 0 : 1;
+			for (let i = 0; i < 20; i++) {
+				const a = Math.floor(random() * D);
+				const b = random() < 0.9 ? a : Math.floor(random() * D);
+				rows.push(`${basis},${a},${b},${block}`);
+			}
+		}
+		const text = rows.join('\n') + '\n';
+		const dataset = await addDataset(ctx.database, asUser(ada), claim.id, {
+			bytes: bytesOf(text),
+			originalName: 'blocks.csv'
+		});
+		const check = await finished((await startCheck(ctx.database, asUser(ada), claim.id, {})).id);
+		const result = check.result as unknown as TrialsResult;
+		const direct = certifyTrials(parseTrials(bytesOf(text), D, 'blocks'), {
+			method: 'mub-correlation',
+			bases: [0, 1],
+			probabilities: [0.25, 0.75],
+			fourier: 'cyclic',
+			confidence: check.confidence,
+			inputSha256: dataset.sha256
+		});
+		expect(result).toEqual(JSON.parse(JSON.stringify(direct)));
+		expect(result).toMatchObject({ mode: 'blocks', blocks: 300, condition: BLOCKS_CONDITION });
+		expect(result.probabilities).toEqual([0.25, 0.75]);
+		expect(result.settings.passed).toBe(true);
 	});
 
 	it('names the line of a bad row and stores nothing', async () => {
