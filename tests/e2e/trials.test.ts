@@ -149,6 +149,14 @@ describe('time-ordered trials in the app', () => {
 		const claimId = made.headers.get('location')!.split('/').pop();
 		const claim = await (await call(`/api/v1/claims/${claimId}`)).json();
 		expect(claim.trials).toEqual({ mode: 'blocks', probabilities: [0.25, 0.75] });
+		const claimPage = await (
+			await fetch(`${app.origin}/claims/${claimId}`, {
+				headers: { cookie: `rankseal_session=${world.session}` }
+			})
+		).text();
+		expect(claimPage).toMatch(
+			/data-testid="claim-trials"[^>]*>\s*time-ordered trials, one bet per block; setting probabilities 0.25, 0.75/
+		);
 		const bad = await post({ trialsMode: 'trials', trialsProbabilities: '0.5, 0.6' });
 		expect(bad.status).toBe(400);
 		expect(await bad.text()).toContain('The setting probabilities must sum to 1');
