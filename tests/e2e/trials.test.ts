@@ -154,6 +154,7 @@ describe('time-ordered trials in the app', () => {
 				headers: { cookie: `rankseal_session=${world.session}` }
 			})
 		).text();
+		expect(claimPage).toContain('accept=".csv,.gz,.txt,text/csv,application/gzip"');
 		expect(claimPage).toMatch(
 			/data-testid="claim-trials"[^>]*>\s*time-ordered trials, one bet per block; setting probabilities 0.25, 0.75/
 		);
