@@ -30,7 +30,8 @@ describe('database', () => {
 			'0012-ledger-key-entries',
 			'0014-no-live-secrets',
 			'0015-share-opened',
-			'0016-dataset-calibration'
+			'0016-dataset-calibration',
+			'0018-trials-claims'
 		]);
 	});
 

@@ -69,12 +69,63 @@ const basesField = (source: ValueSource) =>
 			.optional()
 	);
 
+/** Forms: "0.5, 0.5"; JSON: [0.5, 0.5]. Empty → undefined (uniform). */
+const probabilitiesField = z.preprocess(
+	(value) => {
+		if (typeof value === 'string') value = value.split(/[\s,]+/).filter((part) => part !== '');
+		if (Array.isArray(value)) return value.length ? value.map((v) => Number(v)) : undefined;
+		// null: what a validated claim carries for "uniform", so it parses again unchanged.
+		return value ?? undefined;
+	},
+	z
+		.array(
+			z
+				.number({ error: 'Each setting probability must be a number.' })
+				.gt(0, 'Each setting probability must lie above 0.')
+				.max(1, 'Each setting probability must be at most 1.'),
+			{ error: 'Setting probabilities must be a list of numbers.' }
+		)
+		.optional()
+);
+
 /** An engine message as a sentence for a form: capital first letter, full stop. */
 const sentence = (reason: string) => reason.charAt(0).toUpperCase() + reason.slice(1) + '.';
 
 /** The bases a method uses when a claim names none: 0 and 1 exist in every dimension. */
 export function defaultBasesFor(method: MethodId, dimension: number): number[] {
 	return witnessFamilies[method].defaultBases([0, 1], dimension);
+}
+
+/** Time-ordered trials: one bet per coincidence, or one per block of one setting. */
+export const TRIALS_MODES = ['trials', 'blocks'] as const;
+const TRIALS_METHODS: readonly string[] = ['mub-correlation', 'steering-2mub'];
+
+/** Probabilities need a trials mode, one per basis, summing to 1; the mode needs a sum method. */
+function trialsProblem(
+	claim: {
+		trialsMode?: string | null;
+		trialsProbabilities?: number[];
+		method: string;
+		bases?: number[];
+	},
+	ctx: z.RefinementCtx
+) {
+	const issue = (path: string, message: string) =>
+		ctx.addIssue({ code: 'custom', path: [path], message });
+	const pi = claim.trialsProbabilities;
+	if (!claim.trialsMode) {
+		if (pi)
+			issue('trialsProbabilities', 'Setting probabilities need a trials mode (trials or blocks).');
+		return;
+	}
+	if (!TRIALS_METHODS.includes(claim.method))
+		issue('method', `Time-ordered trials work with ${TRIALS_METHODS.join(' or ')}.`);
+	if (!pi) return;
+	if (claim.bases && pi.length !== claim.bases.length)
+		issue('trialsProbabilities', `Give one setting probability per basis (${claim.bases.length}).`);
+	const sum = pi.reduce((s, p) => s + p, 0);
+	if (Math.abs(sum - 1) > 1e-9)
+		issue('trialsProbabilities', `The setting probabilities must sum to 1 (they sum to ${sum}).`);
 }
 
 /** The fields that describe a claim: set when it is made, correctable until its first check. */
@@ -136,9 +187,15 @@ const claimInput = (source: ValueSource) =>
 				.max(300, 'Keep the manuscript reference under 300 characters.')
 				.superRefine(textRule('The manuscript reference', 'line'))
 				.nullish()
-				.transform((value) => value || null)
+				.transform((value) => value || null),
+			trialsMode: z.preprocess(
+				blankToUndefined,
+				z.enum(TRIALS_MODES, { error: 'The trials mode must be trials or blocks.' }).nullish()
+			),
+			trialsProbabilities: probabilitiesField
 		})
 		.superRefine((claim, ctx) => {
+			trialsProblem(claim, ctx);
 			const d = claim.dimension;
 			if (claim.claimedSchmidtNumber > d) {
 				ctx.addIssue({
@@ -178,7 +235,9 @@ const claimInput = (source: ValueSource) =>
 		.transform((claim) => ({
 			...claim,
 			bases: claim.bases ?? defaultBasesFor(claim.method, claim.dimension),
-			fourier: claim.fourier ?? DEFAULT_FOURIER
+			fourier: claim.fourier ?? DEFAULT_FOURIER,
+			trialsMode: claim.trialsMode ?? null,
+			trialsProbabilities: claim.trialsMode ? (claim.trialsProbabilities ?? null) : null
 		}));
 
 export const claimInputSchema = claimInput('form');

@@ -5,8 +5,8 @@
  */
 import { Readable } from 'node:stream';
 import { createGunzip } from 'node:zlib';
-import { InputError } from '$lib/certify/counts';
-import { TrialsParser, type TrialsData, type TrialsMode } from '$lib/certify/trials';
+import { InputError } from '../certify/counts';
+import { TrialsParser, type TrialsData, type TrialsMode } from '../certify/trials';
 
 /** 10⁸ rows of `b,aa,bb` need about 1 GB of text; nothing larger is inflated. */
 export const MAX_TRIALS_INFLATED_BYTES = 1024 * 1024 * 1024;

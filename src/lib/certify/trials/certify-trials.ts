@@ -166,3 +166,7 @@ export function certifyTrials(data: TrialsData, options: TrialsOptions): TrialsR
 		engine: { version: ENGINE_VERSION }
 	};
 }
+
+/** A stored check result from time-ordered trials (kept in the same column as the i.i.d. ones). */
+export const isTrialsResult = (result: unknown): result is TrialsResult =>
+	(result as { kind?: string } | null)?.kind === 'time-ordered-trials';

@@ -2,6 +2,7 @@
 export {
 	BLOCKS_CONDITION,
 	certifyTrials,
+	isTrialsResult,
 	TRACE_POINTS,
 	TRIALS_LABEL,
 	type TrialsOptions,

@@ -20,6 +20,7 @@ import type { SummaryOutcome, SummaryTask } from './summary';
 import type { CheckMessage, CheckTask } from './task';
 import type { BundleTask } from './evidence-tasks';
 import { WorkPool } from './work-pool';
+import { trialsPart } from './trials-task';
 
 export type { CheckQueue, QueuedCheck } from './queue';
 
@@ -94,7 +95,8 @@ export class CheckRunner implements CheckQueue {
 	}
 
 	summarise(task: SummaryTask, bucket = 'upload'): Promise<SummaryOutcome> {
-		return this.work.runShort('summariseCounts', task, bucket);
+		const name = task.trials ? 'summariseTrials' : 'summariseCounts';
+		return this.work.runShort(name, task, bucket);
 	}
 
 	verifyBundle(task: BundleTask, bucket: string): Promise<VerificationReport> {
@@ -162,6 +164,7 @@ export class CheckRunner implements CheckQueue {
 			subtractAccidentals: !!check.subtractAccidentals,
 			claim: claim.claimedSchmidtNumber,
 			calibration: dataset.calibration ? new Uint8Array(dataset.calibration) : null,
+			trials: trialsPart(claim),
 			port
 		};
 	}
@@ -193,6 +196,7 @@ export class CheckRunner implements CheckQueue {
 		try {
 			const task = await this.task(check, channel.port2);
 			const options = { transferList: [channel.port2], signal: abort.signal };
+			// A trials result (kind 'time-ordered-trials') is kept in the same column; see isTrialsResult.
 			result = (await this.work.runCheck(task, options)) as CertificationResult;
 			if (result.inputSha256 !== task.sha256)
 				throw new Error('the result does not name the dataset’s SHA-256');

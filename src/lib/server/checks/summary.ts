@@ -27,6 +27,8 @@ export interface SummaryTask {
 	bases: number[];
 	/** The claim's Fourier convention (which basis basis 1 is). */
 	fourier: FourierConvention;
+	/** Set for a claim on time-ordered trials: read by summariseTrials instead. */
+	trials?: { mode: 'trials' | 'blocks'; probabilities: number[] | null } | null;
 }
 
 export type SummaryOutcome =

@@ -1,6 +1,7 @@
 /** What the check runner hands a worker thread, and what the worker reports back on its port. */
 import type { MessagePort } from 'node:worker_threads';
 import type { FourierConvention, MethodId } from '../../certify';
+import type { TrialsTaskPart } from './trials-task';
 
 export interface CheckTask {
 	/** The stored counts file; or `bytes` when the caller holds them already. */
@@ -21,6 +22,8 @@ export interface CheckTask {
 	calibration?: Uint8Array | null;
 	/** The claimed Schmidt number, for the verdict. */
 	claim?: number;
+	/** Set for a claim on time-ordered trials: the file is trials, the check a supermartingale. */
+	trials?: TrialsTaskPart | null;
 	port?: MessagePort;
 }
 

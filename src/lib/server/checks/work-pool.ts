@@ -12,7 +12,8 @@ import { Piscina } from 'piscina';
 import { FairScheduler } from './fair-scheduler';
 
 /** The worker's named exports (checks/worker.ts); the check itself is its default export. */
-export type ShortTaskName = 'summariseCounts' | 'verifyBundle' | 'selfCheck' | 'canonicalCounts';
+export type ShortTaskName =
+	'summariseCounts' | 'summariseTrials' | 'verifyBundle' | 'selfCheck' | 'canonicalCounts';
 
 type RunOptions = Parameters<Piscina['run']>[1];
 

@@ -8,8 +8,10 @@ import { readFile } from 'node:fs/promises';
 import { certify, InputError, parseCounts, type CertificationResult } from '../../certify';
 import { parseCalibration } from '../../certify/calibration';
 import { sha256Hex } from '../../evidence/hash';
+import type { TrialsResult } from '../../certify/trials';
 import type { CheckMessage, CheckTask } from './task';
 import { lowerThisThread } from './thread-priority';
+import { runTrialsCheck } from './trials-task';
 
 // Once per thread, as the module loads: the request thread keeps the processor first.
 lowerThisThread();
@@ -17,6 +19,7 @@ lowerThisThread();
 /** Named tasks (piscina `name`): an upload read against its claim; a bundle; a self-check. */
 export { summariseCounts } from './summary';
 export { canonicalCounts, selfCheck, verifyBundle } from './evidence-tasks';
+export { summariseTrials } from './trials-task';
 
 async function readStored(file: string): Promise<Uint8Array> {
 	try {
@@ -27,7 +30,9 @@ async function readStored(file: string): Promise<Uint8Array> {
 	}
 }
 
-export default async function runCheck(task: CheckTask): Promise<CertificationResult> {
+export default async function runCheck(
+	task: CheckTask
+): Promise<CertificationResult | TrialsResult> {
 	// The runner closes its end of the port once the result is in.
 	const post = (message: CheckMessage) => task.port?.postMessage(message);
 	post({ type: 'started' });
@@ -36,6 +41,7 @@ export default async function runCheck(task: CheckTask): Promise<CertificationRe
 	if (task.sha256 && task.sha256 !== inputSha256) {
 		throw new InputError('the stored counts file no longer matches its SHA-256');
 	}
+	if (task.trials) return runTrialsCheck(bytes, { ...task, trials: task.trials }, inputSha256);
 	const dataset = parseCounts(bytes, task.dimension);
 	const calibration = task.calibration
 		? {

@@ -2,6 +2,7 @@
  * Certificates: issued from a finished check in one transaction (row, files and ledger entries
  * together or not at all); a later issue for the same claim supersedes the earlier one.
  */
+import { isTrialsResult } from '$lib/certify/trials';
 import { readFile } from 'node:fs/promises';
 import type { Transaction } from 'sequelize';
 import { sha256Hex } from '../../evidence/hash';
@@ -49,6 +50,11 @@ async function finishedCheck(database: Database, claimId: string, checkId: strin
 		);
 	if (check.status !== 'done' || !check.result)
 		throw new ConflictError('Only a finished check can be certified.');
+	// Certificates from time-ordered trials (issue 20, slice 2) are not built yet: refuse plainly.
+	if (isTrialsResult(check.result))
+		throw new ConflictError(
+			'A check on time-ordered trials cannot be certified yet; its result page and JSON stand on their own.'
+		);
 	const dataset = (await database.models.Dataset.findByPk(check.datasetId))!.get({ plain: true });
 	const uploaded = await readFile(datasetFilePath(dataset.sha256));
 	if (sha256Hex(uploaded) !== dataset.sha256)

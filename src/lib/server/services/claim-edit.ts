@@ -57,9 +57,16 @@ export async function updateClaim(
 	claimId: string,
 	input: ClaimInputValues
 ): Promise<ClaimView> {
-	await requireClaim(database, actor, claimId, 'edit-claim');
+	const stored = await requireClaim(database, actor, claimId, 'edit-claim');
 	const userId = accountIdOf(actor);
-	const values = claimInputSchema.parse({ ...input, groupId: undefined });
+	// The trials mode and probabilities stay as made; the edit is checked against them.
+	const { trialsMode, trialsProbabilities } = stored;
+	const values = claimInputSchema.parse({
+		...input,
+		groupId: undefined,
+		trialsMode,
+		trialsProbabilities
+	});
 	const { Check, Claim, Dataset } = database.models;
 	await writeTransaction(database, async (transaction) => {
 		// Re-read inside the write: the role or the claim may have changed since the first look.

@@ -40,6 +40,8 @@ export interface ClaimView {
 	state: ClaimState;
 	/** Why and when the claim was withdrawn; null while it stands. */
 	withdrawal: { reason: string; at: string } | null;
+	/** A claim on time-ordered trials (issue 20): its mode and declared probabilities (null: uniform). */
+	trials: { mode: 'trials' | 'blocks'; probabilities: number[] | null } | null;
 	createdBy: { id: string; name: string };
 	createdAt: string;
 	updatedAt: string;
@@ -103,6 +105,9 @@ async function claimViews(database: Database, claims: ClaimAttributes[]): Promis
 		manuscriptReference: c.manuscriptReference,
 		state: c.state,
 		withdrawal: c.withdrawnAt ? { reason: c.withdrawnReason ?? '', at: iso(c.withdrawnAt) } : null,
+		trials: c.trialsMode
+			? { mode: c.trialsMode, probabilities: c.trialsProbabilities ?? null }
+			: null,
 		createdBy: { id: c.createdBy, name: userName.get(c.createdBy) ?? '' },
 		createdAt: iso(c.createdAt),
 		updatedAt: iso(c.updatedAt),
@@ -148,6 +153,8 @@ export async function createClaim(
 				fourier: claim.fourier,
 				claimedSchmidtNumber: claim.claimedSchmidtNumber,
 				manuscriptReference: claim.manuscriptReference,
+				trialsMode: claim.trialsMode,
+				trialsProbabilities: claim.trialsProbabilities,
 				state: 'draft'
 			},
 			{ transaction }

@@ -13,6 +13,7 @@ import { sha256Hex } from '$lib/evidence/hash';
 import { accountIdOf, type Actor } from '../access/actor';
 import { requireClaim } from '../access/permissions';
 import { startCheckRunner } from '../checks/registry';
+import { trialsPart } from '../checks/trials-task';
 import { config } from '../config';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
@@ -126,7 +127,10 @@ export async function addDataset(
 	const userId = accountIdOf(actor)!;
 	const { bytes } = upload;
 	const runner = await startCheckRunner(database);
-	const read = await runner.summarise({ bytes, ...claim }, `upload:${userId}`);
+	const read = await runner.summarise(
+		{ bytes, ...claim, trials: trialsPart(claim) },
+		`upload:${userId}`
+	);
 	if (!read.ok)
 		throw new InputError(read.message, read.line ?? undefined, read.column ?? undefined);
 	const sha256 = sha256Hex(bytes);
@@ -241,7 +245,8 @@ export async function datasetTables(
 	const bases = dataset.summary.bases;
 	const bytes = await readFile(datasetFilePath(dataset.sha256));
 	const claim = (await database.models.Claim.findByPk(dataset.claimId))!.get({ plain: true });
-	const task = { bytes, dimension, method: claim.method, bases: [], fourier: claim.fourier };
+	const trials = trialsPart(claim);
+	const task = { bytes, ...claim, bases: trials ? claim.bases : [], trials };
 	const read = await runner.summarise(task, `upload:${accountIdOf(actor) ?? 'reader'}`);
 	if (!read.ok) throw new InputError(read.message, read.line ?? undefined);
 	const preview = read.preview.filter((t) => bases.includes(t.basis));

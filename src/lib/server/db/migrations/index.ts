@@ -14,6 +14,7 @@ import * as ledgerKeyEntries from './0012-ledger-key-entries';
 import * as noLiveSecrets from './0014-no-live-secrets';
 import * as shareOpened from './0015-share-opened';
 import * as datasetCalibration from './0016-dataset-calibration';
+import * as trialsClaims from './0018-trials-claims';
 
 export const migrations = [
 	{ name: '0001-initial', ...initial },
@@ -30,5 +31,6 @@ export const migrations = [
 	{ name: '0012-ledger-key-entries', ...ledgerKeyEntries },
 	{ name: '0014-no-live-secrets', ...noLiveSecrets },
 	{ name: '0015-share-opened', ...shareOpened },
-	{ name: '0016-dataset-calibration', ...datasetCalibration }
+	{ name: '0016-dataset-calibration', ...datasetCalibration },
+	{ name: '0018-trials-claims', ...trialsClaims }
 ];

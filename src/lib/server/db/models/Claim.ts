@@ -22,6 +22,10 @@ export interface ClaimAttributes {
 	/** Why and when the group withdrew the claim (migration 0007); null while it stands. */
 	withdrawnReason?: string | null;
 	withdrawnAt?: Date | null;
+	/** Time-ordered trials (migration 0018): per-trial or per-block bets; null for a counts claim. */
+	trialsMode?: 'trials' | 'blocks' | null;
+	/** π_t in the order of `bases`, JSON text; null: uniform. */
+	trialsProbabilities?: number[] | null;
 	createdAt?: Date;
 	updatedAt?: Date;
 }
@@ -59,7 +63,20 @@ export function defineClaim(sequelize: Sequelize): ClaimModel {
 			manuscriptReference: { type: DataTypes.STRING, allowNull: true },
 			state: { type: DataTypes.STRING, allowNull: false, defaultValue: 'draft' },
 			withdrawnReason: { type: DataTypes.TEXT, allowNull: true },
-			withdrawnAt: { type: DataTypes.DATE, allowNull: true }
+			withdrawnAt: { type: DataTypes.DATE, allowNull: true },
+			trialsMode: { type: DataTypes.STRING, allowNull: true },
+			trialsProbabilities: {
+				type: DataTypes.TEXT,
+				allowNull: true,
+				get() {
+					const text = this.getDataValue('trialsProbabilities') as unknown as string | null;
+					return text ? JSON.parse(text) : null;
+				},
+				set(value: number[] | null) {
+					const text = value ? JSON.stringify(value) : null;
+					this.setDataValue('trialsProbabilities', text as unknown as number[] | null);
+				}
+			}
 		},
 		{ tableName: 'claims', underscored: true }
 	);

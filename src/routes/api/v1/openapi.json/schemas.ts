@@ -121,7 +121,18 @@ export const schemas = {
 			},
 			fourier: { ...fourier, default: DEFAULT_FOURIER },
 			claimedSchmidtNumber: { ...whole, minimum: 1, description: 'At most the dimension.' },
-			manuscriptReference: nullable({ ...text, maxLength: 300 })
+			manuscriptReference: nullable({ ...text, maxLength: 300 }),
+			trialsMode: nullable({
+				type: 'string',
+				enum: ['trials', 'blocks'],
+				description:
+					'Time-ordered trials (mub-correlation or steering-2mub): uploads are trials CSV (plain or gzip) and checks are test supermartingales. Set only when the claim is made.'
+			}),
+			trialsProbabilities: {
+				type: 'array',
+				items: { type: 'number', exclusiveMinimum: 0, maximum: 1 },
+				description: 'Setting probabilities, one per basis, summing to 1. Default: uniform.'
+			}
 		}
 	},
 	Claim: {
@@ -154,6 +165,14 @@ export const schemas = {
 			claimedSchmidtNumber: whole,
 			manuscriptReference: nullable(text),
 			state: { type: 'string', enum: CLAIM_STATES },
+			trials: nullable({
+				type: 'object',
+				description: 'A claim on time-ordered trials: its mode and probabilities (null: uniform).',
+				properties: {
+					mode: { type: 'string', enum: ['trials', 'blocks'] },
+					probabilities: nullable({ type: 'array', items: { type: 'number' } })
+				}
+			}),
 			withdrawal: nullable({
 				type: 'object',
 				description:

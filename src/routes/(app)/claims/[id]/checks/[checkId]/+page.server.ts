@@ -1,4 +1,5 @@
 import { error, redirect } from '@sveltejs/kit';
+import { isTrialsResult } from '$lib/certify/trials';
 import { reproduceCommand } from '$lib/evidence/command-line';
 import { app } from '$lib/server/app';
 import { requireSignedIn } from '$lib/server/auth-web';
@@ -25,13 +26,15 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 		mayIssueCertificate(database, actor, claim.id),
 		mayCancelCheck(database, actor, check.id)
 	]).catch(pageProblem);
+	// Certificates from time-ordered trials are not built yet (issue 20, slice 2).
+	const trials = isTrialsResult(check.result);
 	return {
 		claim,
 		check,
 		dataset: { id: dataset.id, originalName: dataset.originalName, sha256: dataset.sha256 },
-		command: check.result ? reproduceCommand(check.result, dataset.originalName) : null,
+		command: check.result && !trials ? reproduceCommand(check.result, dataset.originalName) : null,
 		certificates: certificates.filter((c) => c.checkId === check.id),
-		mayIssue: mayIssue && check.status === 'done' && !check.byReferee,
+		mayIssue: mayIssue && check.status === 'done' && !check.byReferee && !trials,
 		mayCancel
 	};
 };
