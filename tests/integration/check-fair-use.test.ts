@@ -199,7 +199,8 @@ describe('cancelling', () => {
 
 describe('resamples ceiling', () => {
 	it('refuses resamples over cells × resamples ≤ 2·10⁹ for the claim, naming the field and the ceiling', async () => {
-		// d = 64, two bases: 8 192 cells, so at most ⌊2·10⁹ / 8 192⌋ = 244 140 resamples.
+		// d = 64, two bases: 8 192 cells, so at most ⌊2·10⁹ / 8 192⌋ = 244 140 resamples. Since
+		// engine 3.0.0 the ceiling binds only per-cell draws (subtracted accidentals, rates).
 		const big = await createClaim(ctx.database, asUser(ada), {
 			...claimFields,
 			dimension: 64,
@@ -207,7 +208,8 @@ describe('resamples ceiling', () => {
 			claimedSchmidtNumber: 2
 		});
 		const refused = await startCheck(ctx.database, asUser(ada), big.id, {
-			resamples: 244_141
+			resamples: 244_141,
+			subtractAccidentals: true
 		}).catch((e) => e);
 		expect(refused.issues[0].path).toEqual(['resamples']);
 		expect(refused.message).toMatch(/at most 244,140 for d = 64 on 2 bases/);
