@@ -61,11 +61,14 @@ export async function updateClaim(
 	const userId = accountIdOf(actor);
 	// The trials mode and probabilities stay as made; the edit is checked against them.
 	const { trialsMode, trialsProbabilities } = stored;
+	// So does a declared target (as declared, so a scaled one is scaled and reported again).
+	const target = stored.targetDeclared ?? stored.target;
 	const values = claimInputSchema.parse({
 		...input,
 		groupId: undefined,
 		trialsMode,
-		trialsProbabilities
+		trialsProbabilities,
+		target
 	});
 	const { Check, Claim, Dataset } = database.models;
 	await writeTransaction(database, async (transaction) => {
