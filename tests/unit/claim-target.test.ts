@@ -64,3 +64,16 @@ describe('claim target λ (fidelity-target)', () => {
 		expect(parsed.error?.issues.map((i) => i.path.join('.'))).toEqual(['bases']);
 	});
 });
+
+describe('claim target λ, parsed twice (the API path validates, then the service again)', () => {
+	it('parses a validated claim unchanged, scaled or not, and one without a target', () => {
+		const scaled = claimJsonSchema.parse({ ...base, target: [0.863, 0.485, 0.143] });
+		expect(claimInputSchema.parse(scaled)).toEqual(scaled);
+		const plain = claimJsonSchema.parse({ ...base, method: 'mub-correlation' });
+		expect(plain).toMatchObject({ target: null, targetDeclared: null });
+		expect(claimInputSchema.parse(plain)).toEqual(plain);
+		// A "declared" λ that does not scale to the target is not kept.
+		const forged = claimJsonSchema.parse({ ...base, target: unit, targetDeclared: [3, 2, 1] });
+		expect(forged.targetDeclared).toBeNull();
+	});
+});

@@ -26,6 +26,7 @@ import {
 	normalisedTarget,
 	TARGET_METHOD,
 	targetField,
+	declaredOf,
 	targetProblem,
 	type ClaimMethod
 } from './target';
@@ -204,7 +205,8 @@ const claimInput = (source: ValueSource) =>
 				z.enum(TRIALS_MODES, { error: 'The trials mode must be trials or blocks.' }).nullish()
 			),
 			trialsProbabilities: probabilitiesField,
-			target: targetField
+			target: targetField,
+			targetDeclared: targetField
 		})
 		.superRefine((claim, ctx) => {
 			trialsProblem(claim, ctx);
@@ -254,14 +256,14 @@ const claimInput = (source: ValueSource) =>
 			fourier: claim.fourier ?? DEFAULT_FOURIER,
 			trialsMode: claim.trialsMode ?? null,
 			trialsProbabilities: claim.trialsMode ? (claim.trialsProbabilities ?? null) : null,
-			...targetColumns(claim.target)
+			...targetColumns(claim.target, claim.targetDeclared)
 		}));
 
 /** The stored target: λ with Σλ² = 1, and the declared λ when we scaled it (null otherwise). */
-function targetColumns(lambda: number[] | undefined) {
+function targetColumns(lambda: number[] | undefined, declared: number[] | undefined) {
 	if (!lambda) return { target: null, targetDeclared: null };
 	const { target, scaled } = normalisedTarget(lambda);
-	return { target, targetDeclared: scaled ? lambda : null };
+	return { target, targetDeclared: scaled ? lambda : declaredOf(target, declared) };
 }
 
 export const claimInputSchema = claimInput('form');

@@ -14,6 +14,7 @@ export const TARGET_NORM_TOLERANCE = 1e-6;
 /** Forms: "0.8, 0.5, 0.33"; JSON: [0.8, 0.5, 0.33]. Empty → undefined. */
 export const targetField = z.preprocess(
 	(value) => {
+		if (value === null) return undefined;
 		if (typeof value === 'string') value = value.split(/[\s,]+/).filter((part) => part !== '');
 		if (Array.isArray(value)) return value.length ? value.map((v) => Number(v)) : undefined;
 		return value;
@@ -37,6 +38,14 @@ export function normalisedTarget(lambda: number[]): { target: number[]; scaled: 
 	const norm = targetNorm(lambda);
 	if (Math.abs(norm - 1) <= TARGET_NORM_TOLERANCE) return { target: lambda, scaled: false };
 	return { target: lambda.map((x) => x / Math.sqrt(norm)), scaled: true };
+}
+
+/** A declared λ kept beside the stored one only if it scales to it (a re-parsed claim keeps it). */
+export function declaredOf(target: number[], declared: number[] | undefined): number[] | null {
+	if (!declared || declared.length !== target.length) return null;
+	const { target: scaled } = normalisedTarget(declared);
+	const same = scaled.every((x, i) => Math.abs(x - target[i]) <= TARGET_NORM_TOLERANCE);
+	return same ? declared : null;
 }
 
 /** The target is required by, and only by, `fidelity-target`: d coefficients, not increasing. */
