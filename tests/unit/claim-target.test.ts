@@ -77,3 +77,13 @@ describe('claim target λ, parsed twice (the API path validates, then the servic
 		expect(forged.targetDeclared).toBeNull();
 	});
 });
+
+describe('OpenAPI document names the claim target', () => {
+	it('takes target on ClaimInput, shows it on Claim, and lists fidelity-target as a claim method', async () => {
+		const { schemas } = await import('../../src/routes/api/v1/openapi.json/schemas');
+		const input = schemas.ClaimInput.properties as Record<string, { enum?: string[] }>;
+		expect(input.target).toBeDefined();
+		expect(input.method.enum).toContain('fidelity-target');
+		expect((schemas.Claim.properties as Record<string, unknown>).target).toBeDefined();
+	});
+});

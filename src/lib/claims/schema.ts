@@ -283,7 +283,9 @@ export const claimQuerySchema = z.object({
 	),
 	method: z.preprocess(
 		blankToUndefined,
-		z.enum(METHOD_IDS, { error: `Method must be one of ${METHOD_IDS.join(', ')}.` }).optional()
+		z
+			.enum(CLAIM_METHODS, { error: `Method must be one of ${CLAIM_METHODS.join(', ')}.` })
+			.optional()
 	),
 	sort: z.preprocess(
 		blankToUndefined,
