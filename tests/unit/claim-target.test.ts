@@ -81,9 +81,22 @@ describe('claim target λ, parsed twice (the API path validates, then the servic
 describe('OpenAPI document names the claim target', () => {
 	it('takes target on ClaimInput, shows it on Claim, and lists fidelity-target as a claim method', async () => {
 		const { schemas } = await import('../../src/routes/api/v1/openapi.json/schemas');
-		const input = schemas.ClaimInput.properties as Record<string, { enum?: string[] }>;
+		const input = schemas.ClaimInput.properties as Record<string, { enum?: readonly string[] }>;
 		expect(input.target).toBeDefined();
 		expect(input.method.enum).toContain('fidelity-target');
 		expect((schemas.Claim.properties as Record<string, unknown>).target).toBeDefined();
+	});
+});
+
+describe('the planner and fidelity-target', () => {
+	it('refuses fidelity-target with a message saying why, naming the field method', async () => {
+		const { planQuery, PLANNER_TARGET_REFUSAL } =
+			await import('../../src/lib/certify/planner/query');
+		const query = { dimension: 3, schmidtNumber: 2, visibility: 0.9 };
+		const refused = planQuery.safeParse({ ...query, method: 'fidelity-target' });
+		expect(refused.error?.issues).toEqual([
+			expect.objectContaining({ path: ['method'], message: PLANNER_TARGET_REFUSAL })
+		]);
+		expect(planQuery.safeParse({ ...query, method: 'fidelity-two-basis' }).success).toBe(true);
 	});
 });
