@@ -133,3 +133,14 @@ describe('fidelity-target claims on the service', () => {
 		).rejects.toThrow(/basis 1/);
 	});
 });
+
+describe('re-running a fidelity-target check from its result', () => {
+	it('gives a command line that the CLI parses to the same target and confidence', async () => {
+		const { targetCommand } = await import('../../src/lib/evidence/target-command');
+		const result = certifyTarget(parseCounts(bytesOf(csv), d), { target: raw, claim: 2 });
+		const line = targetCommand(result, "run's counts.csv");
+		expect(line).toContain(`--target ${result.target.join(',')}`);
+		expect(line).toContain(`--confidence ${result.confidence} --claim 2`);
+		expect(line).toContain(`--counts 'run'\\''s counts.csv'`);
+	});
+});
