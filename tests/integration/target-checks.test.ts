@@ -81,6 +81,19 @@ describe('fidelity-target claims on the service', () => {
 				claimedSchmidtNumber: 2
 			})
 		).rejects.toThrow(/Give 4 Schmidt coefficients/);
+		// The edit form sends text fields only: the target is kept and the title changes.
+		const edited = await updateClaim(ctx.database, asUser(ada), claim.id, {
+			title: 'Pixel pairs, renamed',
+			sourceDescription: 'simulated',
+			dimension: '3',
+			method: 'fidelity-target',
+			bases: '0,1',
+			fourier: 'cyclic',
+			claimedSchmidtNumber: '2',
+			manuscriptReference: ''
+		});
+		expect(edited.title).toBe('Pixel pairs, renamed');
+		expect(edited.target).toEqual(stored.target);
 	});
 
 	it('runs the check on the worker: F̃, its exact lower bound, the ladder Σλ², the caution', async () => {

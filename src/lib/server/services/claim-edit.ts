@@ -55,7 +55,7 @@ export async function updateClaim(
 	database: Database,
 	actor: Actor,
 	claimId: string,
-	input: ClaimInputValues
+	input: ClaimInputValues | Record<string, string>
 ): Promise<ClaimView> {
 	const stored = await requireClaim(database, actor, claimId, 'edit-claim');
 	const userId = accountIdOf(actor);
