@@ -112,4 +112,40 @@ describe('fidelity-target in the app', () => {
 		expect(plan.status).toBe(400);
 		expect(await plan.text()).toMatch(/planner does not cover fidelity-target/);
 	});
+
+	it('makes a fidelity-target claim from the new-claim form and saves its edit form', async () => {
+		const post = async (route: string, fields: Record<string, string>) =>
+			(
+				await fetch(app.origin + route, {
+					method: 'POST',
+					headers: {
+						cookie: `rankseal_session=${world.session}`,
+						origin: app.origin,
+						'content-type': 'application/x-www-form-urlencoded'
+					},
+					body: new URLSearchParams(fields)
+				})
+			).json();
+		const fields = {
+			title: 'Pixel pairs from the form',
+			sourceDescription: 'simulated',
+			dimension: '3',
+			method: 'fidelity-target',
+			bases: '',
+			fourier: 'cyclic',
+			claimedSchmidtNumber: '2',
+			manuscriptReference: ''
+		};
+		// Without an HTML accept header SvelteKit answers an action as JSON: redirect or failure.
+		const made = await post('/claims/new?/create', { ...fields, target: '0.863, 0.485, 0.143' });
+		expect(made).toMatchObject({ type: 'redirect', status: 303 });
+		const at = made.location as string;
+		expect(await page(at)).toContain('data-testid="claim-target"');
+		const missing = await post('/claims/new?/create', fields);
+		expect(missing).toMatchObject({ type: 'failure', status: 400 });
+		expect(JSON.stringify(missing)).toContain('Declare the target');
+		const saved = await post(`${at}/edit?/save`, { ...fields, title: 'Renamed in the form' });
+		expect(saved, JSON.stringify(saved)).toMatchObject({ type: 'redirect', status: 303 });
+		expect(await page(at)).toContain('Renamed in the form');
+	});
 });
