@@ -31,7 +31,8 @@ describe('database', () => {
 			'0014-no-live-secrets',
 			'0015-share-opened',
 			'0016-dataset-calibration',
-			'0018-trials-claims'
+			'0018-trials-claims',
+			'0020-target-claims'
 		]);
 	});
 

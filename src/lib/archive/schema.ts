@@ -1,7 +1,6 @@
 /** The group archive's filters, as they appear in the address, the API query and the export. */
 import { z } from 'zod';
-import { METHOD_IDS } from '$lib/certify';
-import { CLAIM_STATES } from '$lib/claims/schema';
+import { CLAIM_METHODS, CLAIM_STATES } from '$lib/claims/schema';
 
 const blankToUndefined = (value: unknown) =>
 	typeof value === 'string' && value.trim() === '' ? undefined : value;
@@ -26,7 +25,9 @@ export const archiveFilterSchema = z
 		),
 		method: z.preprocess(
 			blankToUndefined,
-			z.enum(METHOD_IDS, { error: `Method must be one of ${METHOD_IDS.join(', ')}.` }).optional()
+			z
+				.enum(CLAIM_METHODS, { error: `Method must be one of ${CLAIM_METHODS.join(', ')}.` })
+				.optional()
 		),
 		dimension: z.preprocess(
 			blankToUndefined,

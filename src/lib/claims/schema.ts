@@ -22,8 +22,19 @@ import { MAX_SEED } from '$lib/certify/poisson';
 import { pageField, pageSizeField } from '$lib/paging';
 import { booleanFrom, numberFrom, wholeNumber, type ValueSource } from '$lib/schema-numbers';
 import { CLAIM_STATES } from './states';
+import {
+	normalisedTarget,
+	TARGET_METHOD,
+	targetField,
+	declaredOf,
+	targetProblem,
+	type ClaimMethod
+} from './target';
 
 export { CLAIM_STATES } from './states';
+/** Every method a claim may name: the bootstrap witness families and the declared-target check. */
+export const CLAIM_METHODS = [...METHOD_IDS, TARGET_METHOD] as const;
+export type { ClaimMethod } from './target';
 export const CLAIM_SORTS = [
 	'createdAt',
 	'title',
@@ -92,7 +103,8 @@ const probabilitiesField = z.preprocess(
 const sentence = (reason: string) => reason.charAt(0).toUpperCase() + reason.slice(1) + '.';
 
 /** The bases a method uses when a claim names none: 0 and 1 exist in every dimension. */
-export function defaultBasesFor(method: MethodId, dimension: number): number[] {
+export function defaultBasesFor(method: ClaimMethod, dimension: number): number[] {
+	if (method === TARGET_METHOD) return [0, 1];
 	return witnessFamilies[method].defaultBases([0, 1], dimension);
 }
 
@@ -164,7 +176,7 @@ const claimInput = (source: ValueSource) =>
 				MAX_DIMENSION,
 				source
 			),
-			method: z.enum(METHOD_IDS, { error: `Choose a method: ${METHOD_IDS.join(', ')}.` }),
+			method: z.enum(CLAIM_METHODS, { error: `Choose a method: ${CLAIM_METHODS.join(', ')}.` }),
 			bases: basesField(source),
 			fourier: z.preprocess(
 				blankToUndefined,
@@ -192,10 +204,13 @@ const claimInput = (source: ValueSource) =>
 				blankToUndefined,
 				z.enum(TRIALS_MODES, { error: 'The trials mode must be trials or blocks.' }).nullish()
 			),
-			trialsProbabilities: probabilitiesField
+			trialsProbabilities: probabilitiesField,
+			target: targetField,
+			targetDeclared: targetField
 		})
 		.superRefine((claim, ctx) => {
 			trialsProblem(claim, ctx);
+			targetProblem(claim, ctx);
 			const d = claim.dimension;
 			if (claim.claimedSchmidtNumber > d) {
 				ctx.addIssue({
@@ -223,7 +238,10 @@ const claimInput = (source: ValueSource) =>
 				return;
 			}
 			try {
-				witnessFamilies[claim.method].checkBases(claim.bases, d, fourier);
+				if (claim.method === TARGET_METHOD) {
+					if (claim.bases.join() !== '0,1')
+						throw new RangeError('fidelity-target uses bases 0,1 (computational, then tilted)');
+				} else witnessFamilies[claim.method].checkBases(claim.bases, d, fourier);
 			} catch (error) {
 				ctx.addIssue({
 					code: 'custom',
@@ -237,8 +255,16 @@ const claimInput = (source: ValueSource) =>
 			bases: claim.bases ?? defaultBasesFor(claim.method, claim.dimension),
 			fourier: claim.fourier ?? DEFAULT_FOURIER,
 			trialsMode: claim.trialsMode ?? null,
-			trialsProbabilities: claim.trialsMode ? (claim.trialsProbabilities ?? null) : null
+			trialsProbabilities: claim.trialsMode ? (claim.trialsProbabilities ?? null) : null,
+			...targetColumns(claim.target, claim.targetDeclared)
 		}));
+
+/** The stored target: λ with Σλ² = 1, and the declared λ when we scaled it (null otherwise). */
+function targetColumns(lambda: number[] | undefined, declared: number[] | undefined) {
+	if (!lambda) return { target: null, targetDeclared: null };
+	const { target, scaled } = normalisedTarget(lambda);
+	return { target, targetDeclared: scaled ? lambda : declaredOf(target, declared) };
+}
 
 export const claimInputSchema = claimInput('form');
 /** The API's claim body: the same rules, numbers only as JSON numbers. */
@@ -257,7 +283,9 @@ export const claimQuerySchema = z.object({
 	),
 	method: z.preprocess(
 		blankToUndefined,
-		z.enum(METHOD_IDS, { error: `Method must be one of ${METHOD_IDS.join(', ')}.` }).optional()
+		z
+			.enum(CLAIM_METHODS, { error: `Method must be one of ${CLAIM_METHODS.join(', ')}.` })
+			.optional()
 	),
 	sort: z.preprocess(
 		blankToUndefined,

@@ -3,12 +3,13 @@
  * it assumes, the statistic, the bound ladder for an example dimension, the sources, when to use it.
  */
 import { witnessFamilies, type MethodId } from '../certify';
+import type { ClaimMethod } from '../claims/target';
 import { assumptionsOf } from '../evidence/cautions';
 
 export const EXAMPLE_DIMENSIONS = [3, 5, 7, 11] as const;
 
 export interface MethodPage {
-	id: MethodId;
+	id: ClaimMethod;
 	title: string;
 	trust: string;
 	trustedSides: string;

@@ -2,3 +2,4 @@
 export { targetBounds, targetCoefficients, targetFidelity, whiteNoiseValue } from './statistic';
 export { targetLowerBound, targetPointValue, targetUpperBound, type TargetData } from './bound';
 export { certifyTarget, type TargetOptions, type TargetResult } from './certify-target';
+export { isTargetResult } from './result';

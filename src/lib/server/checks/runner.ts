@@ -20,6 +20,7 @@ import type { SummaryOutcome, SummaryTask } from './summary';
 import type { CheckMessage, CheckTask } from './task';
 import type { BundleTask } from './evidence-tasks';
 import { WorkPool } from './work-pool';
+import { targetPart } from './target-task';
 import { trialsPart } from './trials-task';
 
 export type { CheckQueue, QueuedCheck } from './queue';
@@ -165,6 +166,7 @@ export class CheckRunner implements CheckQueue {
 			claim: claim.claimedSchmidtNumber,
 			calibration: dataset.calibration ? new Uint8Array(dataset.calibration) : null,
 			trials: trialsPart(claim),
+			target: targetPart(claim),
 			port
 		};
 	}

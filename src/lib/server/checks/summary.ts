@@ -15,7 +15,7 @@ import {
 } from '../../certify';
 import { InputError, requireCompleteTables } from '../../certify/counts';
 import { fileDimension } from '../../certify/file-dimension';
-import type { MethodId } from '../../certify/witnesses';
+import type { ClaimMethod } from '../../claims/target';
 import { sha256Hex } from '../../evidence/hash';
 import { canonicalCountsText } from '../../evidence/manifest';
 import type { DatasetSummary, PreviewTable } from '../db/models/Dataset';
@@ -23,7 +23,7 @@ import type { DatasetSummary, PreviewTable } from '../db/models/Dataset';
 export interface SummaryTask {
 	bytes: Uint8Array;
 	dimension: number;
-	method: MethodId;
+	method: ClaimMethod;
 	bases: number[];
 	/** The claim's Fourier convention (which basis basis 1 is). */
 	fourier: FourierConvention;

@@ -1,6 +1,8 @@
 /** What the check runner hands a worker thread, and what the worker reports back on its port. */
 import type { MessagePort } from 'node:worker_threads';
-import type { FourierConvention, MethodId } from '../../certify';
+import type { FourierConvention } from '../../certify';
+import type { ClaimMethod } from '../../claims/target';
+import type { TargetTaskPart } from './target-task';
 import type { TrialsTaskPart } from './trials-task';
 
 export interface CheckTask {
@@ -10,7 +12,7 @@ export interface CheckTask {
 	/** The SHA-256 the bytes must have: the worker refuses a file that changed on disk. */
 	sha256?: string;
 	dimension: number;
-	method: MethodId;
+	method: ClaimMethod;
 	bases: number[];
 	/** The claim's Fourier convention (which basis basis 1 is). */
 	fourier: FourierConvention;
@@ -24,6 +26,8 @@ export interface CheckTask {
 	claim?: number;
 	/** Set for a claim on time-ordered trials: the file is trials, the check a supermartingale. */
 	trials?: TrialsTaskPart | null;
+	/** Set for a fidelity-target claim: the declared λ (witnesses.md §4.3′). */
+	target?: TargetTaskPart | null;
 	port?: MessagePort;
 }
 

@@ -12,6 +12,8 @@ import type { TrialsResult } from '../../certify/trials';
 import type { CheckMessage, CheckTask } from './task';
 import { lowerThisThread } from './thread-priority';
 import { runTrialsCheck } from './trials-task';
+import { runTargetCheck } from './target-task';
+import type { TargetResult } from '../../certify/fidelity-target';
 
 // Once per thread, as the module loads: the request thread keeps the processor first.
 lowerThisThread();
@@ -32,7 +34,7 @@ async function readStored(file: string): Promise<Uint8Array> {
 
 export default async function runCheck(
 	task: CheckTask
-): Promise<CertificationResult | TrialsResult> {
+): Promise<CertificationResult | TrialsResult | TargetResult> {
 	// The runner closes its end of the port once the result is in.
 	const post = (message: CheckMessage) => task.port?.postMessage(message);
 	post({ type: 'started' });
@@ -42,6 +44,9 @@ export default async function runCheck(
 		throw new InputError('the stored counts file no longer matches its SHA-256');
 	}
 	if (task.trials) return runTrialsCheck(bytes, { ...task, trials: task.trials }, inputSha256);
+	if (task.target) return runTargetCheck(bytes, { ...task, target: task.target }, inputSha256);
+	if (task.method === 'fidelity-target')
+		throw new InputError('a fidelity-target claim needs its declared target λ');
 	const dataset = parseCounts(bytes, task.dimension);
 	const calibration = task.calibration
 		? {

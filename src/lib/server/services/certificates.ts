@@ -3,6 +3,7 @@
  * together or not at all); a later issue for the same claim supersedes the earlier one.
  */
 import { isTrialsResult } from '$lib/certify/trials';
+import { isTargetResult } from '$lib/certify/fidelity-target';
 import { readFile } from 'node:fs/promises';
 import type { Transaction } from 'sequelize';
 import { sha256Hex } from '../../evidence/hash';
@@ -54,6 +55,11 @@ async function finishedCheck(database: Database, claimId: string, checkId: strin
 	if (isTrialsResult(check.result))
 		throw new ConflictError(
 			'A check on time-ordered trials cannot be certified yet; its result page and JSON stand on their own.'
+		);
+	// The manifest, bundle and verify.mjs do not carry a declared target yet: refuse plainly.
+	if (isTargetResult(check.result))
+		throw new ConflictError(
+			'A fidelity-target check cannot be certified yet: the certificate and its verifier do not carry the declared target λ. Its result page and JSON stand on their own.'
 		);
 	const dataset = (await database.models.Dataset.findByPk(check.datasetId))!.get({ plain: true });
 	const uploaded = await readFile(datasetFilePath(dataset.sha256));

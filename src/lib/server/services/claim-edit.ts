@@ -55,17 +55,20 @@ export async function updateClaim(
 	database: Database,
 	actor: Actor,
 	claimId: string,
-	input: ClaimInputValues
+	input: ClaimInputValues | Record<string, string>
 ): Promise<ClaimView> {
 	const stored = await requireClaim(database, actor, claimId, 'edit-claim');
 	const userId = accountIdOf(actor);
 	// The trials mode and probabilities stay as made; the edit is checked against them.
 	const { trialsMode, trialsProbabilities } = stored;
+	// So does a declared target (as declared, so a scaled one is scaled and reported again).
+	const target = stored.targetDeclared ?? stored.target;
 	const values = claimInputSchema.parse({
 		...input,
 		groupId: undefined,
 		trialsMode,
-		trialsProbabilities
+		trialsProbabilities,
+		target
 	});
 	const { Check, Claim, Dataset } = database.models;
 	await writeTransaction(database, async (transaction) => {

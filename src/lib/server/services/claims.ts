@@ -5,7 +5,8 @@
 import { MAX_PAGE } from '$lib/paging';
 import { col, fn, Op, where as sqlWhere, type Order, type WhereOptions } from 'sequelize';
 import { claimInputSchema, type ClaimInputValues, type ClaimQuery } from '$lib/claims/schema';
-import type { FourierConvention, MethodId } from '$lib/certify';
+import type { FourierConvention } from '$lib/certify';
+import type { ClaimMethod } from '$lib/claims/target';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
 import type { ClaimAttributes, ClaimState } from '../db/models/Claim';
@@ -32,7 +33,7 @@ export interface ClaimView {
 	title: string;
 	sourceDescription: string;
 	dimension: number;
-	method: MethodId;
+	method: ClaimMethod;
 	bases: number[];
 	fourier: FourierConvention;
 	claimedSchmidtNumber: number;
@@ -42,6 +43,8 @@ export interface ClaimView {
 	withdrawal: { reason: string; at: string } | null;
 	/** A claim on time-ordered trials (issue 20): its mode and declared probabilities (null: uniform). */
 	trials: { mode: 'trials' | 'blocks'; probabilities: number[] | null } | null;
+	/** fidelity-target: the declared λ (Σλ² = 1) and, when the service scaled it, λ as declared. */
+	target: { coefficients: number[]; declared: number[] | null } | null;
 	createdBy: { id: string; name: string };
 	createdAt: string;
 	updatedAt: string;
@@ -108,6 +111,7 @@ async function claimViews(database: Database, claims: ClaimAttributes[]): Promis
 		trials: c.trialsMode
 			? { mode: c.trialsMode, probabilities: c.trialsProbabilities ?? null }
 			: null,
+		target: c.target ? { coefficients: c.target, declared: c.targetDeclared ?? null } : null,
 		createdBy: { id: c.createdBy, name: userName.get(c.createdBy) ?? '' },
 		createdAt: iso(c.createdAt),
 		updatedAt: iso(c.updatedAt),
@@ -155,6 +159,8 @@ export async function createClaim(
 				manuscriptReference: claim.manuscriptReference,
 				trialsMode: claim.trialsMode,
 				trialsProbabilities: claim.trialsProbabilities,
+				target: claim.target,
+				targetDeclared: claim.targetDeclared,
 				state: 'draft'
 			},
 			{ transaction }

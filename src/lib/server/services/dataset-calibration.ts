@@ -18,6 +18,8 @@ export function checkCalibrationUpload(
 	claim: Pick<ClaimAttributes, 'method' | 'dimension' | 'bases'>
 ): CheckedCalibration | null {
 	if (!bytes || bytes.byteLength === 0) return null;
+	if (claim.method === 'fidelity-target')
+		throw new FieldError('calibration', 'fidelity-target takes no calibration file.');
 	try {
 		const parsed = parseCalibration(bytes, claim.dimension);
 		// The same checks the engine makes: method, every basis present and orthonormal within ε.

@@ -15,6 +15,7 @@ import * as noLiveSecrets from './0014-no-live-secrets';
 import * as shareOpened from './0015-share-opened';
 import * as datasetCalibration from './0016-dataset-calibration';
 import * as trialsClaims from './0018-trials-claims';
+import * as targetClaims from './0020-target-claims';
 
 export const migrations = [
 	{ name: '0001-initial', ...initial },
@@ -32,5 +33,6 @@ export const migrations = [
 	{ name: '0014-no-live-secrets', ...noLiveSecrets },
 	{ name: '0015-share-opened', ...shareOpened },
 	{ name: '0016-dataset-calibration', ...datasetCalibration },
-	{ name: '0018-trials-claims', ...trialsClaims }
+	{ name: '0018-trials-claims', ...trialsClaims },
+	{ name: '0020-target-claims', ...targetClaims }
 ];

@@ -1,6 +1,7 @@
 import { DataTypes, type Model, type ModelStatic, type Sequelize } from 'sequelize';
-import type { FourierConvention, MethodId } from '$lib/certify';
+import type { FourierConvention } from '$lib/certify';
 import type { ClaimState } from '$lib/claims/states';
+import type { ClaimMethod } from '$lib/claims/target';
 
 export type { ClaimState };
 
@@ -11,7 +12,7 @@ export interface ClaimAttributes {
 	title: string;
 	sourceDescription: string;
 	dimension: number;
-	method: MethodId;
+	method: ClaimMethod;
 	/** Bases used by the method, e.g. [0, 1]; stored as JSON text. */
 	bases: number[];
 	/** Which Fourier basis basis 1 is: cyclic (ℤ_d) or field (GF(p^s)). */
@@ -26,6 +27,10 @@ export interface ClaimAttributes {
 	trialsMode?: 'trials' | 'blocks' | null;
 	/** π_t in the order of `bases`, JSON text; null: uniform. */
 	trialsProbabilities?: number[] | null;
+	/** fidelity-target (migration 0020): λ with Σλ² = 1, JSON text; null for other methods. */
+	target?: number[] | null;
+	/** λ as declared when the service scaled it to Σλ² = 1; null when it was declared normalised. */
+	targetDeclared?: number[] | null;
 	createdAt?: Date;
 	updatedAt?: Date;
 }
@@ -76,8 +81,25 @@ export function defineClaim(sequelize: Sequelize): ClaimModel {
 					const text = value ? JSON.stringify(value) : null;
 					this.setDataValue('trialsProbabilities', text as unknown as number[] | null);
 				}
-			}
+			},
+			target: jsonNumbers('target'),
+			targetDeclared: jsonNumbers('targetDeclared')
 		},
 		{ tableName: 'claims', underscored: true }
 	);
+}
+
+/** A list of numbers kept as JSON text. */
+function jsonNumbers(key: 'target' | 'targetDeclared') {
+	return {
+		type: DataTypes.TEXT,
+		allowNull: true,
+		get(this: Model<ClaimAttributes>) {
+			const text = this.getDataValue(key) as unknown as string | null;
+			return text ? JSON.parse(text) : null;
+		},
+		set(this: Model<ClaimAttributes>, value: number[] | null) {
+			this.setDataValue(key, (value ? JSON.stringify(value) : null) as unknown as number[] | null);
+		}
+	};
 }

@@ -7,7 +7,7 @@ import { createClaim } from '$lib/server/services/claims';
 import { ForbiddenError } from '$lib/server/services/errors';
 import type { Actions } from './$types';
 
-const FIELDS = ['groupId', ...CLAIM_FIELDS, 'trialsMode', 'trialsProbabilities'];
+const FIELDS = ['groupId', ...CLAIM_FIELDS, 'trialsMode', 'trialsProbabilities', 'target'];
 
 export const actions: Actions = {
 	create: async ({ request, locals, url }) => {

@@ -1,6 +1,6 @@
 /** The OpenAPI 3.1 description of /api/v1: exactly the endpoints under src/routes/api/v1. */
 import { MAX_COUNTS_FILE_BYTES, METHOD_IDS } from '$lib/certify';
-import { CLAIM_SORTS, CLAIM_STATES } from '$lib/claims/schema';
+import { CLAIM_METHODS, CLAIM_SORTS, CLAIM_STATES } from '$lib/claims/schema';
 import { certificatePaths } from './certificate-paths';
 import { planPaths, planSchemas } from './plan-paths';
 import { certificateSchemas } from './certificate-schemas';
@@ -59,7 +59,7 @@ export const openApiDocument = {
 						'Text found in the title, source description or manuscript reference.'
 					),
 					query('state', { type: 'string', enum: CLAIM_STATES }, 'Only claims in this state.'),
-					query('method', { type: 'string', enum: METHOD_IDS }, 'Only claims of this method.'),
+					query('method', { type: 'string', enum: CLAIM_METHODS }, 'Only claims of this method.'),
 					query('sort', { type: 'string', enum: CLAIM_SORTS, default: 'createdAt' }, 'Sort key.'),
 					query('order', { type: 'string', enum: ['asc', 'desc'], default: 'desc' }, 'Sort order.'),
 					query('page', { type: 'integer', minimum: 1, default: 1 }, 'Page number, from 1.'),
@@ -286,7 +286,7 @@ export const openApiDocument = {
 						'Text found in the title, source description or manuscript reference.'
 					),
 					query('state', { type: 'string', enum: CLAIM_STATES }, 'Only claims in this state.'),
-					query('method', { type: 'string', enum: METHOD_IDS }, 'Only claims of this method.'),
+					query('method', { type: 'string', enum: CLAIM_METHODS }, 'Only claims of this method.'),
 					query(
 						'dimension',
 						{ type: 'integer', minimum: 2 },

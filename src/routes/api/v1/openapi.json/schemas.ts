@@ -9,7 +9,7 @@ import {
 	METHOD_IDS,
 	RESAMPLES
 } from '$lib/certify';
-import { CLAIM_STATES } from '$lib/claims/schema';
+import { CLAIM_METHODS, CLAIM_STATES } from '$lib/claims/schema';
 import { CHECK_STATUSES } from '$lib/server/db/models/Check';
 import { PROBLEM_CODES } from '$lib/server/problems';
 import { TOKEN_DEFAULT_DAYS, TOKEN_MAX_DAYS } from '$lib/server/services/tokens';
@@ -21,6 +21,8 @@ const number = { type: 'number' };
 const timestamp = { type: 'string', format: 'date-time' };
 const nullable = (schema: object) => ({ anyOf: [schema, { type: 'null' }] });
 const method = { type: 'string', enum: METHOD_IDS };
+/** A claim's method: the witness families and fidelity-target (witnesses.md §4.3′). */
+const claimMethod = { type: 'string', enum: CLAIM_METHODS };
 const fourier = {
 	type: 'string',
 	enum: FOURIER_CONVENTIONS,
@@ -112,7 +114,7 @@ export const schemas = {
 				maximum: MAX_DIMENSION,
 				description: 'Local dimension d.'
 			},
-			method,
+			method: claimMethod,
 			bases: {
 				type: 'array',
 				items: { ...whole, minimum: 0 },
@@ -132,6 +134,12 @@ export const schemas = {
 				type: 'array',
 				items: { type: 'number', exclusiveMinimum: 0, maximum: 1 },
 				description: 'Setting probabilities, one per basis, summing to 1. Default: uniform.'
+			},
+			target: {
+				type: 'array',
+				items: { type: 'number', exclusiveMinimum: 0 },
+				description:
+					'fidelity-target only, and required there: the target’s Schmidt coefficients λ, d positive numbers, not increasing, declared before the data (never fitted on the counts). Σλ² = 1 within 1e-6 is kept as sent; any other scale is scaled to Σλ² = 1 and the claim keeps the declared values (target.declared).'
 			}
 		}
 	},
@@ -159,7 +167,7 @@ export const schemas = {
 			title: text,
 			sourceDescription: text,
 			dimension: whole,
-			method,
+			method: claimMethod,
 			bases: { type: 'array', items: whole },
 			fourier,
 			claimedSchmidtNumber: whole,
@@ -171,6 +179,15 @@ export const schemas = {
 				properties: {
 					mode: { type: 'string', enum: ['trials', 'blocks'] },
 					probabilities: nullable({ type: 'array', items: { type: 'number' } })
+				}
+			}),
+			target: nullable({
+				type: 'object',
+				description:
+					'fidelity-target: the declared λ (Σλ² = 1) and, when Rankseal scaled it, λ as declared (else null).',
+				properties: {
+					coefficients: { type: 'array', items: { type: 'number' } },
+					declared: nullable({ type: 'array', items: { type: 'number' } })
 				}
 			}),
 			withdrawal: nullable({

@@ -1,6 +1,8 @@
 import { error, redirect } from '@sveltejs/kit';
 import { isTrialsResult } from '$lib/certify/trials';
 import { reproduceCommand } from '$lib/evidence/command-line';
+import { isTargetResult } from '$lib/certify/fidelity-target';
+import { targetCommand } from '$lib/evidence/target-command';
 import { app } from '$lib/server/app';
 import { requireSignedIn } from '$lib/server/auth-web';
 import { formFailure, pageProblem } from '$lib/server/problems';
@@ -28,13 +30,19 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 	]).catch(pageProblem);
 	// Certificates from time-ordered trials are not built yet (issue 20, slice 2).
 	const trials = isTrialsResult(check.result);
+	// Nor from a declared target: the certificate does not carry λ (the issue action says 409).
+	const target = isTargetResult(check.result);
 	return {
 		claim,
 		check,
 		dataset: { id: dataset.id, originalName: dataset.originalName, sha256: dataset.sha256 },
-		command: check.result && !trials ? reproduceCommand(check.result, dataset.originalName) : null,
+		command: isTargetResult(check.result)
+			? targetCommand(check.result, dataset.originalName)
+			: check.result && !trials
+				? reproduceCommand(check.result, dataset.originalName)
+				: null,
 		certificates: certificates.filter((c) => c.checkId === check.id),
-		mayIssue: mayIssue && check.status === 'done' && !check.byReferee && !trials,
+		mayIssue: mayIssue && check.status === 'done' && !check.byReferee && !trials && !target,
 		mayCancel
 	};
 };

@@ -1,0 +1,151 @@
+/**
+ * fidelity-target through the built app (witnesses.md §4.3′): a claim declaring λ over the JSON
+ * API, the counts (basis 0 computational, basis 1 tilted) uploaded, the check on the worker pool,
+ * the check and claim pages as a signed-in browser receives them, the method page, the planner's
+ * refusal and the certificate's 409. Expected numbers: the engine called directly.
+ */
+import { rmSync } from 'node:fs';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { parseCounts } from '../../src/lib/certify';
+import { certifyTarget } from '../../src/lib/certify/fidelity-target';
+import { sha256Hex } from '../../src/lib/evidence/hash';
+import { TARGET_EXAMPLE, targetCountsCsv } from '../target-counts';
+import { seedApiWorld, type ApiWorld } from './api-world';
+import { startApp, type AppServer } from './server';
+
+let app: AppServer;
+let world: ApiWorld;
+const csv = targetCountsCsv(TARGET_EXAMPLE.raw, TARGET_EXAMPLE.v, 1e6);
+const bytes = new TextEncoder().encode(csv);
+
+function call(route: string, init: RequestInit = {}) {
+	const headers = new Headers(init.headers);
+	headers.set('authorization', `Bearer ${world.tokens.lake}`);
+	return fetch(app.origin + route, { ...init, headers });
+}
+const json = (body: unknown) => ({
+	method: 'POST',
+	headers: { 'content-type': 'application/json' },
+	body: JSON.stringify(body)
+});
+const page = async (route: string) =>
+	(
+		await fetch(app.origin + route, { headers: { cookie: `rankseal_session=${world.session}` } })
+	).text();
+
+beforeAll(async () => {
+	world = await seedApiWorld();
+	app = await startApp({
+		RANKSEAL_DATA_DIR: world.dataDir,
+		RANKSEAL_DEMO: '0',
+		MAIL_CATCHER_PORT: '0'
+	});
+});
+afterAll(async () => {
+	await app?.stop();
+	if (world) rmSync(world.dataDir, { recursive: true, force: true });
+});
+
+describe('fidelity-target in the app', () => {
+	it('takes λ over the API, checks on the pool, shows F̃, bound, ladder and caution; refuses the certificate', async () => {
+		const created = await call(
+			'/api/v1/claims',
+			json({
+				title: 'Pixel pairs against a declared target',
+				sourceDescription: 'Halvorsen Lake Photonics, simulated run',
+				dimension: 3,
+				method: 'fidelity-target',
+				claimedSchmidtNumber: 2,
+				target: TARGET_EXAMPLE.raw
+			})
+		);
+		expect(created.status, await created.clone().text()).toBe(201);
+		const claim = await created.json();
+		expect(claim.target.declared).toEqual(TARGET_EXAMPLE.raw);
+		const form = new FormData();
+		form.set('counts', new Blob([bytes as BlobPart]), 'pixels.csv');
+		const uploaded = await call(`/api/v1/claims/${claim.id}/datasets`, {
+			method: 'POST',
+			body: form
+		});
+		expect(uploaded.status, await uploaded.clone().text()).toBe(201);
+		const started = await call(`/api/v1/claims/${claim.id}/checks`, json({}));
+		expect(started.status).toBe(202);
+		let check = await started.json();
+		// Polled as a script would; only the runner's timeout bounds the wait.
+		while (check.status !== 'done' && check.status !== 'failed') {
+			await new Promise((wait) => setTimeout(wait, 100));
+			check = await (await call(`/api/v1/checks/${check.id}`)).json();
+		}
+		expect(check.status, check.error).toBe('done');
+		const direct = certifyTarget(parseCounts(bytes, 3), {
+			target: claim.target.coefficients,
+			confidence: check.confidence,
+			claim: 2,
+			inputSha256: sha256Hex(bytes)
+		});
+		expect(check.result.statistic).toEqual(JSON.parse(JSON.stringify(direct.statistic)));
+		expect(check.result.certifiedSchmidtNumber).toBe(2);
+		const html = await page(`/claims/${claim.id}/checks/${check.id}`);
+		expect(html).toContain('data-testid="target-certified">2<');
+		expect(html).toContain(direct.statistic.lower.toFixed(5));
+		expect(html).toContain('not fitted on these counts');
+		expect(html).toContain('--method fidelity-target --target');
+		expect(html).not.toContain('data-testid="issue-certificate"');
+		expect(await page(`/claims/${claim.id}`)).toContain('data-testid="claim-target"');
+		const issued = await call(
+			`/api/v1/claims/${claim.id}/certificates`,
+			json({ checkId: check.id })
+		);
+		expect(issued.status).toBe(409);
+		expect(await issued.text()).toMatch(/declared target λ/);
+	});
+
+	it('lists the method on /methods, explains it on its page, and the planner refuses it by name', async () => {
+		expect(await page('/methods')).toContain('href="/methods/fidelity-target"');
+		const method = await fetch(`${app.origin}/methods/fidelity-target?d=3`);
+		expect(method.status).toBe(200);
+		expect(await method.text()).toContain('never fitted on the counts');
+		const plan = await call(
+			'/api/v1/plan?method=fidelity-target&dimension=3&schmidtNumber=2&visibility=0.9'
+		);
+		expect(plan.status).toBe(400);
+		expect(await plan.text()).toMatch(/planner does not cover fidelity-target/);
+	});
+
+	it('makes a fidelity-target claim from the new-claim form and saves its edit form', async () => {
+		const post = async (route: string, fields: Record<string, string>) =>
+			(
+				await fetch(app.origin + route, {
+					method: 'POST',
+					headers: {
+						cookie: `rankseal_session=${world.session}`,
+						origin: app.origin,
+						'content-type': 'application/x-www-form-urlencoded'
+					},
+					body: new URLSearchParams(fields)
+				})
+			).json();
+		const fields = {
+			title: 'Pixel pairs from the form',
+			sourceDescription: 'simulated',
+			dimension: '3',
+			method: 'fidelity-target',
+			bases: '',
+			fourier: 'cyclic',
+			claimedSchmidtNumber: '2',
+			manuscriptReference: ''
+		};
+		// Without an HTML accept header SvelteKit answers an action as JSON: redirect or failure.
+		const made = await post('/claims/new?/create', { ...fields, target: '0.863, 0.485, 0.143' });
+		expect(made).toMatchObject({ type: 'redirect', status: 303 });
+		const at = made.location as string;
+		expect(await page(at)).toContain('data-testid="claim-target"');
+		const missing = await post('/claims/new?/create', fields);
+		expect(missing).toMatchObject({ type: 'failure', status: 400 });
+		expect(JSON.stringify(missing)).toContain('Declare the target');
+		const saved = await post(`${at}/edit?/save`, { ...fields, title: 'Renamed in the form' });
+		expect(saved, JSON.stringify(saved)).toMatchObject({ type: 'redirect', status: 303 });
+		expect(await page(at)).toContain('Renamed in the form');
+	});
+});

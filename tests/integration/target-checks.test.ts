@@ -1,0 +1,159 @@
+/**
+ * fidelity-target claims end to end (witnesses.md §4.3′): a real SQLite file (migration 0020 keeps
+ * λ), the counts read and the check run on the bundled check worker. Expected numbers: the engine
+ * called directly (tests/unit/fidelity-target.test.ts ties it to §4.3′'s isotropic example).
+ */
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { parseCounts } from '../../src/lib/certify';
+import { certifyTarget, type TargetResult } from '../../src/lib/certify/fidelity-target';
+import { bundleCheckWorker } from '../../src/lib/server/checks/locate';
+import { startCheckRunner, stopCheckRunner } from '../../src/lib/server/checks/registry';
+import { TARGET_CAUTION } from '../../src/lib/server/checks/target-task';
+import { getCheck, startCheck } from '../../src/lib/server/services/checks';
+import { issueCertificate } from '../../src/lib/server/services/certificates';
+import { createClaim, getClaim } from '../../src/lib/server/services/claims';
+import { updateClaim } from '../../src/lib/server/services/claim-edit';
+import { addDataset } from '../../src/lib/server/services/datasets';
+import { ConflictError } from '../../src/lib/server/services/errors';
+import { TARGET_EXAMPLE, targetCountsCsv } from '../target-counts';
+import { addGroup, addUser, bytesOf, claimFields } from './backend-fixtures';
+import { asUser } from './actors';
+import { temporaryDatabase } from './db';
+
+let ctx: Awaited<ReturnType<typeof temporaryDatabase>>;
+let workerFolder: string;
+let ada: string;
+
+const { d, raw, v } = TARGET_EXAMPLE;
+const csv = targetCountsCsv(raw, v, 1e6);
+const unit = raw.map((x) => x / Math.hypot(...raw));
+
+const targetClaim = (target: unknown) =>
+	createClaim(ctx.database, asUser(ada), {
+		...claimFields,
+		dimension: d,
+		method: 'fidelity-target',
+		claimedSchmidtNumber: 2,
+		target
+	} as Parameters<typeof createClaim>[2]);
+
+async function finished(id: string) {
+	await (await startCheckRunner(ctx.database)).idle();
+	return (await getCheck(ctx.database, asUser(ada), id))!;
+}
+
+beforeAll(async () => {
+	ctx = await temporaryDatabase();
+	workerFolder = mkdtempSync(path.join(tmpdir(), 'rankseal-worker-test-'));
+	process.env.RANKSEAL_DATA_DIR = ctx.folder;
+	process.env.RANKSEAL_CHECK_WORKERS = '1';
+	process.env.RANKSEAL_CHECK_WORKER = await bundleCheckWorker(
+		path.join(workerFolder, 'check-worker.mjs')
+	);
+	const lake = await addGroup(ctx.database, 'Halvorsen Lake Photonics');
+	ada = await addUser(ctx.database, 'Ada Lind', [[lake, 'author']]);
+});
+afterAll(async () => {
+	await stopCheckRunner(ctx.database);
+	await ctx.close();
+	rmSync(workerFolder, { recursive: true, force: true });
+});
+
+describe('fidelity-target claims on the service', () => {
+	it('stores the declared λ (as declared when we scaled it) and reads it back from SQLite', async () => {
+		const claim = await targetClaim(raw);
+		const stored = await getClaim(ctx.database, asUser(ada), claim.id);
+		expect(stored.method).toBe('fidelity-target');
+		expect(stored.bases).toEqual([0, 1]);
+		stored.target!.coefficients.forEach((x, i) => expect(x).toBeCloseTo(unit[i], 12));
+		expect(stored.target!.declared).toEqual(raw);
+		expect((await targetClaim(unit)).target).toEqual({ coefficients: unit, declared: null });
+		await expect(targetClaim([0.1, 0.5, 0.5])).rejects.toThrow(/must not increase/);
+		// An edit keeps the declared target and is checked against it (d must match λ).
+		await expect(
+			updateClaim(ctx.database, asUser(ada), claim.id, {
+				...claimFields,
+				method: 'fidelity-target',
+				dimension: 4,
+				claimedSchmidtNumber: 2
+			})
+		).rejects.toThrow(/Give 4 Schmidt coefficients/);
+		// The edit form sends text fields only: the target is kept and the title changes.
+		const edited = await updateClaim(ctx.database, asUser(ada), claim.id, {
+			title: 'Pixel pairs, renamed',
+			sourceDescription: 'simulated',
+			dimension: '3',
+			method: 'fidelity-target',
+			bases: '0,1',
+			fourier: 'cyclic',
+			claimedSchmidtNumber: '2',
+			manuscriptReference: ''
+		});
+		expect(edited.title).toBe('Pixel pairs, renamed');
+		expect(edited.target).toEqual(stored.target);
+	});
+
+	it('runs the check on the worker: F̃, its exact lower bound, the ladder Σλ², the caution', async () => {
+		const claim = await targetClaim(raw);
+		const dataset = await addDataset(ctx.database, asUser(ada), claim.id, {
+			bytes: bytesOf(csv),
+			originalName: 'pixels-target.csv'
+		});
+		const check = await finished((await startCheck(ctx.database, asUser(ada), claim.id, {})).id);
+		expect(check.status).toBe('done');
+		const result = check.result as unknown as TargetResult;
+		const direct = certifyTarget(parseCounts(bytesOf(csv), d), {
+			target: unit,
+			confidence: check.confidence,
+			claim: 2,
+			inputSha256: dataset.sha256
+		});
+		expect(result.statistic).toEqual(JSON.parse(JSON.stringify(direct.statistic)));
+		// §4.3′'s isotropic example: F̃ = 0.8893355 (rounded counts: within 1e-4).
+		expect(result.statistic.value).toBeCloseTo(TARGET_EXAMPLE.value, 4);
+		// Ladder B_r = Σ_{i≤r} λ_i² (Bavaresco et al., Nat. Phys. 14, 1032 (2018)).
+		expect(result.bounds.map((b) => b.bound)).toEqual(
+			[unit[0] ** 2, unit[0] ** 2 + unit[1] ** 2].map((x) => expect.closeTo(x, 12))
+		);
+		expect(result.certifiedSchmidtNumber).toBe(2);
+		expect(result.claim).toEqual({ schmidtNumber: 2, verdict: 'supported' });
+		expect(result.warnings[0]).toBe(TARGET_CAUTION);
+		expect(result.warnings[1]).toMatch(/scaled it to Σλ² = 1/);
+		expect((await getClaim(ctx.database, asUser(ada), claim.id)).latestCheck).toMatchObject({
+			status: 'done',
+			certifiedSchmidtNumber: 2
+		});
+		// The certificate does not carry λ yet: issuing is refused, naming why.
+		const issuing = issueCertificate(ctx.database, asUser(ada), claim.id, check.id);
+		await expect(issuing).rejects.toBeInstanceOf(ConflictError);
+		await expect(issuing).rejects.toThrow(/declared target λ/);
+	});
+
+	it('fails the check plainly when the tilted table (basis 1) is missing', async () => {
+		const claim = await targetClaim(unit);
+		const only0 = csv
+			.split('\n')
+			.filter((row) => !row.startsWith('1,'))
+			.join('\n');
+		await expect(
+			addDataset(ctx.database, asUser(ada), claim.id, {
+				bytes: bytesOf(only0),
+				originalName: 'computational-only.csv'
+			})
+		).rejects.toThrow(/basis 1/);
+	});
+});
+
+describe('re-running a fidelity-target check from its result', () => {
+	it('gives a command line that the CLI parses to the same target and confidence', async () => {
+		const { targetCommand } = await import('../../src/lib/evidence/target-command');
+		const result = certifyTarget(parseCounts(bytesOf(csv), d), { target: raw, claim: 2 });
+		const line = targetCommand(result, "run's counts.csv");
+		expect(line).toContain(`--target ${result.target.join(',')}`);
+		expect(line).toContain(`--confidence ${result.confidence} --claim 2`);
+		expect(line).toContain(`--counts 'run'\\''s counts.csv'`);
+	});
+});
