@@ -10,16 +10,7 @@ import { basisVectors } from '../../src/lib/certify/bases';
 export type Complex = [number, number];
 
 /** A seeded uniform generator (mulberry32, common practice) so that failures reproduce. */
-export function uniforms(seed: number): () => number {
-	let a = seed >>> 0;
-	return () => {
-		a = (a + 0x6d2b79f5) >>> 0;
-		let t = a;
-		t = Math.imul(t ^ (t >>> 15), t | 1);
-		t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-		return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-	};
-}
+export { mulberry32 as uniforms } from '../../src/lib/certify/trials/simulate-trials';
 
 export function exactBasis(
 	d: number,
