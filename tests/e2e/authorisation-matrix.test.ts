@@ -15,6 +15,7 @@
  * before removals); if it has a new [parameter] or needs a body, add it in matrix-cells.ts.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { DocumentChecker, type ApiDocument } from './api-document';
 import { CALLERS, cellRequest, outcome, type Caller } from './matrix-cells';
 import { seedMatrixWorld, type MatrixWorld } from './matrix-world';
 import { discoverRoutes } from './routes';
@@ -166,10 +167,13 @@ function parseMatrix(text: string): Row[] {
 const rows = parseMatrix(MATRIX);
 let app: AppServer;
 let world: MatrixWorld;
+let document: DocumentChecker;
 
 beforeAll(async () => {
 	world = await seedMatrixWorld(CALLERS);
 	app = await startApp({ RANKSEAL_DATA_DIR: world.dataDir });
+	const served = await fetch(`${app.origin}/api/v1/openapi.json`);
+	document = new DocumentChecker((await served.json()) as ApiDocument);
 }, 600_000);
 
 afterAll(async () => {
@@ -186,12 +190,18 @@ describe('the authorisation matrix', () => {
 	it('answers every caller as the table says', async () => {
 		const actual: string[][] = [];
 		// Columns are separate kits, so one row's callers may ask at once.
-		for (const { route } of rows) {
+		for (const { route: row } of rows) {
 			const codes = await Promise.all(
 				CALLERS.map(async (caller: Caller) => {
-					const { url, init } = cellRequest(app.origin, route, caller, world.kits[caller]);
+					const { url, init } = cellRequest(app.origin, row, caller, world.kits[caller]);
 					const response = await fetch(url, init);
-					await response.arrayBuffer();
+					const body = Buffer.from(await response.arrayBuffer());
+					const [method, path] = row.split(' ');
+					if (path.startsWith('/api/v1/')) {
+						const contentType = response.headers.get('content-type') ?? '';
+						const { status } = response;
+						document.check({ method, route: path, status, contentType, body });
+					}
 					return outcome(response);
 				})
 			);
@@ -213,4 +223,29 @@ describe('the authorisation matrix', () => {
 			);
 		expect(wrong.join('\n'), app.output().slice(-2000)).toBe('');
 	}, 600_000);
+
+	it('holds answers to the document strictly enough to catch a wrong one (control)', async () => {
+		const served = await fetch(`${app.origin}/api/v1/openapi.json`);
+		const control = new DocumentChecker((await served.json()) as ApiDocument);
+		const answer = { method: 'GET', route: '/api/v1/claims/[id]', contentType: 'application/json' };
+		control.check({ ...answer, status: 200, body: Buffer.from('{"id":"c1","title":7}') });
+		control.check({ ...answer, status: 418, body: Buffer.from('{}') });
+		expect(control.problems).toHaveLength(2);
+		expect(control.problems[0]).toMatch(/must have required property|must be string/);
+		expect(control.problems[1]).toMatch(/status not documented/);
+	});
+
+	// Runs after the matrix, on the answers it collected (OpenAPI 3.1; JSON Schema 2020-12).
+	it('answers, in every documented operation, only what the OpenAPI document says', () => {
+		expect(document.problems.join('\n')).toBe('');
+		const unanswered = document.operations().filter((id) => !document.answered.has(id));
+		expect(unanswered, 'documented operations no row asked').toEqual([]);
+		// Cancelling is asked of finished checks only (409 in the matrix): its 200 is not seen here.
+		const onlyRefused = new Set(['cancelCheck', 'cancelReRun']);
+		const noSuccess = [...document.answered]
+			.filter(([, statuses]) => ![...statuses].some((status) => status < 300))
+			.map(([id]) => id)
+			.filter((id) => !onlyRefused.has(id));
+		expect(noSuccess, 'documented operations never answered with success').toEqual([]);
+	});
 });

@@ -81,7 +81,8 @@ describe('claim target λ, parsed twice (the API path validates, then the servic
 describe('OpenAPI document names the claim target', () => {
 	it('takes target on ClaimInput, shows it on Claim, and lists fidelity-target as a claim method', async () => {
 		const { schemas } = await import('../../src/routes/api/v1/openapi.json/schemas');
-		const input = schemas.ClaimInput.properties as Record<string, { enum?: readonly string[] }>;
+		const { requestSchemas } = await import('../../src/routes/api/v1/openapi.json/request-bodies');
+		const input = requestSchemas.ClaimInput.properties as Record<string, { enum?: readonly string[] }>;
 		expect(input.target).toBeDefined();
 		expect(input.method.enum).toContain('fidelity-target');
 		expect((schemas.Claim.properties as Record<string, unknown>).target).toBeDefined();

@@ -11,7 +11,6 @@ const object = (properties: Record<string, object>, description?: string) => ({
 });
 
 export const certificateSchemas = {
-	CertificateRequest: object({ checkId: text }, 'The finished check to certify.'),
 	Certificate: object({
 		id: text,
 		claimId: text,

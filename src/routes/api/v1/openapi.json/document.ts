@@ -3,8 +3,10 @@ import { MAX_COUNTS_FILE_BYTES, METHOD_IDS } from '$lib/certify';
 import { CLAIM_METHODS, CLAIM_SORTS, CLAIM_STATES } from '$lib/claims/schema';
 import { certificatePaths } from './certificate-paths';
 import { planPaths, planSchemas } from './plan-paths';
+import { archiveSchemas } from './archive-schemas';
 import { certificateSchemas } from './certificate-schemas';
 import { reviewPaths } from './review-paths';
+import { requestSchemas } from './request-bodies';
 import { reviewSchemas } from './review-schemas';
 import { schemas } from './schemas';
 
@@ -183,6 +185,7 @@ export const openApiDocument = {
 				responses: {
 					'204': { description: 'Removed; the removal is in the audit log.' },
 					'401': unauthorised,
+					'403': forbidden,
 					'404': notFound,
 					'409': failure('A check has used this dataset, so it stays (code conflict).')
 				}
@@ -309,7 +312,7 @@ export const openApiDocument = {
 					'200': {
 						description: 'The archive.',
 						content: {
-							'application/json': { schema: { type: 'object' } },
+							'application/json': { schema: ref('Archive') },
 							'text/csv': { schema: { type: 'string' } }
 						}
 					},
@@ -325,22 +328,11 @@ export const openApiDocument = {
 				operationId: 'withdrawClaim',
 				summary: 'Withdraw a claim and its certificates, with a reason recorded on the ledger',
 				parameters: [idParameter('claim')],
-				requestBody: {
-					required: true,
-					content: {
-						'application/json': {
-							schema: {
-								type: 'object',
-								required: ['reason'],
-								properties: { reason: { type: 'string', minLength: 3, maxLength: 500 } }
-							}
-						}
-					}
-				},
+				requestBody: { required: true, content: body('WithdrawInput') },
 				responses: {
 					'200': {
 						description: 'The claim is withdrawn; the ids of the certificates withdrawn with it.',
-						content: { 'application/json': { schema: { type: 'object' } } }
+						content: body('WithdrawnClaim')
 					},
 					'400': badRequest,
 					'401': unauthorised,
@@ -359,7 +351,7 @@ export const openApiDocument = {
 				responses: {
 					'200': {
 						description: 'The OpenAPI 3.1 document.',
-						content: { 'application/json': { schema: { type: 'object' } } }
+						content: body('OpenApiDocument')
 					}
 				}
 			}
@@ -379,6 +371,13 @@ export const openApiDocument = {
 				description: 'The session cookie of a signed-in browser.'
 			}
 		},
-		schemas: { ...schemas, ...certificateSchemas, ...planSchemas }
+		schemas: {
+			...schemas,
+			...certificateSchemas,
+			...reviewSchemas,
+			...planSchemas,
+			...archiveSchemas,
+			...requestSchemas
+		}
 	}
 };

@@ -173,7 +173,7 @@ export const reviewPaths = {
 			...referee,
 			operationId: 'readReport',
 			summary: 'The referee’s own report (null before the first save)',
-			responses: { '200': { description: '{ report: Report | null }' }, '404': invalidLink }
+			responses: { '200': reply('{ report: Report | null }', 'OwnReport'), '404': invalidLink }
 		},
 		post: {
 			...referee,

@@ -8,29 +8,12 @@ const timestamp = { type: 'string', format: 'date-time' };
 const nullable = (schema: object) => ({ anyOf: [schema, { type: 'null' }] });
 
 export const reviewSchemas = {
-	ShareInput: {
-		type: 'object',
-		required: ['email', 'journal', 'manuscript'],
-		properties: { email: { type: 'string', format: 'email' }, journal: text, manuscript: text }
-	},
 	Share: {
 		type: 'object',
 		required: ['id', 'claimId', 'editorEmail', 'journal', 'manuscript', 'opened', 'createdAt'],
 		properties: {
 			...{ id: text, claimId: text, editorEmail: text, journal: text, manuscript: text },
 			...{ opened: { type: 'boolean' }, createdAt: timestamp, withdrawnAt: nullable(timestamp) }
-		}
-	},
-	ReviewLinkInput: {
-		type: 'object',
-		properties: {
-			label: { type: 'string', maxLength: 200, description: 'Private: authors never see it.' },
-			expiresInDays: {
-				type: 'integer',
-				minimum: 1,
-				maximum: REVIEW_LINK_MAX_DAYS,
-				default: REVIEW_LINK_DEFAULT_DAYS
-			}
 		}
 	},
 	CreatedReviewLink: {
@@ -46,10 +29,6 @@ export const reviewSchemas = {
 			state: { type: 'string', enum: ['active', 'expired', 'revoked'] },
 			...{ expiresAt: timestamp, createdAt: timestamp }
 		}
-	},
-	ReRunInput: {
-		type: 'object',
-		properties: { seed: { type: 'integer', minimum: 1, description: 'Blank: the recorded seed.' } }
 	},
 	QueuedCheck: {
 		type: 'object',
@@ -103,15 +82,6 @@ export const reviewSchemas = {
 			tables: { type: 'array', items: { type: 'object' } },
 			checks: { type: 'array', items: ref('ReRun') },
 			report: nullable(ref('Report'))
-		}
-	},
-	ReportInput: {
-		type: 'object',
-		required: ['recommendation', 'comments'],
-		properties: {
-			recommendation: { type: 'string', enum: RECOMMENDATIONS },
-			comments: { type: 'string', maxLength: 50_000 },
-			submit: { type: 'boolean', default: true }
 		}
 	},
 	Report: {

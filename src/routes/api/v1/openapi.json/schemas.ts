@@ -63,21 +63,6 @@ export const schemas = {
 			}
 		}
 	},
-	TokenInput: {
-		type: 'object',
-		required: ['name'],
-		properties: {
-			name: { type: 'string', minLength: 1, maxLength: 80 },
-			expiresInDays: {
-				anyOf: [
-					{ type: 'integer', minimum: 1, maximum: TOKEN_MAX_DAYS },
-					{ type: 'string', const: 'never' }
-				],
-				default: TOKEN_DEFAULT_DAYS,
-				description: 'Days until the token is refused, or "never".'
-			}
-		}
-	},
 	Token: {
 		type: 'object',
 		required: ['id', 'name', 'prefix', 'createdAt', 'lastUsedAt', 'revokedAt', 'expiresAt'],
@@ -100,48 +85,6 @@ export const schemas = {
 				properties: { token: { ...text, description: 'rks_…, shown this once.' } }
 			}
 		]
-	},
-	ClaimInput: {
-		type: 'object',
-		required: ['title', 'sourceDescription', 'dimension', 'method', 'claimedSchmidtNumber'],
-		properties: {
-			groupId: { ...text, description: 'Default: the caller’s first group.' },
-			title: { ...text, minLength: 1, maxLength: 200 },
-			sourceDescription: { ...text, minLength: 1, maxLength: 5000 },
-			dimension: {
-				...whole,
-				minimum: 2,
-				maximum: MAX_DIMENSION,
-				description: 'Local dimension d.'
-			},
-			method: claimMethod,
-			bases: {
-				type: 'array',
-				items: { ...whole, minimum: 0 },
-				description:
-					'Basis indices the method uses; they must exist in dimension d under the Fourier convention (bases above 1 in d = p^s, s ≥ 2 need field). Default: [0, 1].'
-			},
-			fourier: { ...fourier, default: DEFAULT_FOURIER },
-			claimedSchmidtNumber: { ...whole, minimum: 1, description: 'At most the dimension.' },
-			manuscriptReference: nullable({ ...text, maxLength: 300 }),
-			trialsMode: nullable({
-				type: 'string',
-				enum: ['trials', 'blocks'],
-				description:
-					'Time-ordered trials (mub-correlation or steering-2mub): uploads are trials CSV (plain or gzip) and checks are test supermartingales. Set only when the claim is made.'
-			}),
-			trialsProbabilities: {
-				type: 'array',
-				items: { type: 'number', exclusiveMinimum: 0, maximum: 1 },
-				description: 'Setting probabilities, one per basis, summing to 1. Default: uniform.'
-			},
-			target: {
-				type: 'array',
-				items: { type: 'number', exclusiveMinimum: 0 },
-				description:
-					'fidelity-target only, and required there: the target’s Schmidt coefficients λ, d positive numbers, not increasing, declared before the data (never fitted on the counts). Σλ² = 1 within 1e-6 is kept as sent; any other scale is scaled to Σλ² = 1 and the claim keeps the declared values (target.declared).'
-			}
-		}
 	},
 	Claim: {
 		type: 'object',
@@ -271,38 +214,6 @@ export const schemas = {
 							'How a grid file was read, e.g. "read as 3 grids of 5 × 5, tab-separated"; absent for long-form CSV and JSON.'
 					}
 				}
-			}
-		}
-	},
-	CheckRequest: {
-		type: 'object',
-		properties: {
-			datasetId: { ...text, description: 'Default: the claim’s newest dataset.' },
-			resamples: {
-				...whole,
-				minimum: RESAMPLES.min,
-				maximum: RESAMPLES.max,
-				default: DEFAULTS.resamples,
-				description: `Also at most ${CELL_RESAMPLES_BUDGET} ÷ (d² × number of bases) for the claim (cells × resamples); 400 naming the ceiling otherwise.`
-			},
-			confidence: {
-				...number,
-				exclusiveMinimum: CONFIDENCE.above,
-				exclusiveMaximum: CONFIDENCE.below,
-				default: DEFAULTS.confidence
-			},
-			seed: {
-				...whole,
-				minimum: 1,
-				maximum: 4294967295,
-				description:
-					'Omitted: derived from the SHA-256 of the canonical counts and the settings (the same analysis gives the same numbers). A chosen seed other than that one counts as another analysis of these counts.'
-			},
-			subtractAccidentals: {
-				type: 'boolean',
-				default: false,
-				description:
-					'Subtract the file’s accidentals column before normalising; the result is labelled background-subtracted. 400 when the dataset has no accidentals column.'
 			}
 		}
 	},

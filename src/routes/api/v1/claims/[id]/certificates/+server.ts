@@ -1,10 +1,8 @@
 import { json } from '@sveltejs/kit';
-import { z } from 'zod';
+import { issueJsonSchema } from '$lib/claims/api-bodies';
 import { apiEndpoint, readJson } from '$lib/server/api';
 import { listCertificates } from '$lib/server/services/certificate-reads';
 import { issueCertificate } from '$lib/server/services/certificates';
-
-const issueRequest = z.object({ checkId: z.string().trim().min(1, 'Name the finished check.') });
 
 /** The claim's certificates, newest first. */
 export const GET = apiEndpoint(async ({ event, actor, database }) => {
@@ -13,7 +11,7 @@ export const GET = apiEndpoint(async ({ event, actor, database }) => {
 
 /** Issues a certificate for a finished check of the claim; a current one is superseded. */
 export const POST = apiEndpoint(async ({ event, actor, database }) => {
-	const { checkId } = await readJson(event.request, issueRequest);
+	const { checkId } = await readJson(event.request, issueJsonSchema);
 	const certificate = await issueCertificate(database, actor, event.params.id!, checkId);
 	const location = `/api/v1/certificates/${certificate.id}`;
 	return json(certificate, { status: 201, headers: { location } });
