@@ -78,7 +78,7 @@ describe('PDF/A-3b with the manifest inside', () => {
 		expect(fonts.filter((f) => !f.embedded)).toEqual([]);
 	});
 
-	it('keeps the PDF/A-3 rules for associated files and colour (ISO 19005-3: embedded files, output intent, metadata; from memory)', () => {
+	it('keeps the PDF/A-3 rules for associated files, output intent and metadata (ISO 19005-3; from memory)', () => {
 		const objects = [...pdfObjects(pdf).values()];
 		const catalog = objects.find((o) => /\/Type \/Catalog/.test(o.dict))!.dict;
 		expect(catalog).toMatch(/\/AF \[(\d+ 0 R ?){3}\]/);
