@@ -163,7 +163,10 @@ function checkCheckpoint(s: State) {
 	s.passed.push(name);
 }
 
-/** The in-toto Statement, when the signed file list names one (bundles since issue 21). */
+/**
+ * The in-toto Statement, when the signed file list names one (bundles since issue 21). Checked
+ * last: it restates what the items before it check, which name a fault more precisely.
+ */
 function checkStatement(s: State) {
 	const name = BUNDLE_FILES.statement;
 	if (!s.contents!.files[name]) return;
@@ -277,10 +280,10 @@ export function verifyEvidence(
 		checkContents(s);
 		checkManifest(s);
 		checkCheckpoint(s);
-		checkStatement(s);
 		checkCounts(s);
 		checkAnalyses(s);
 		checkRerun(s);
+		checkStatement(s);
 	} catch (error) {
 		if (error instanceof Failure) return report(error.item, error.message);
 		return report('bundle', `cannot be checked: ${(error as Error).message}`);
