@@ -72,6 +72,12 @@ describe('PDF/A-3b with the manifest inside', () => {
 		const meta = poppler('pdfinfo', ['-meta', pdfFile]);
 		expect(meta).toMatch(/<pdfaid:part>3<\/pdfaid:part>/);
 		expect(meta).toMatch(/<pdfaid:conformance>B<\/pdfaid:conformance>/);
+		// XMP must be well-formed XML: read by Python's expat (xml.dom.minidom), namespaces on.
+		const parse =
+			'import sys, xml.dom.minidom as m; d = m.parseString(sys.stdin.buffer.read()); ' +
+			'print(d.getElementsByTagNameNS("http://www.aiim.org/pdfa/ns/id/", "part")[0].firstChild.data)';
+		const part = execFileSync('python3', ['-c', parse], { input: meta, encoding: 'utf8' });
+		expect(part.trim()).toBe('3');
 		expect(poppler('pdfinfo', [pdfFile])).toMatch(/^PDF version:\s+1\.7$/m);
 		const fonts = popplerFonts(pdfFile);
 		expect(fonts.length).toBeGreaterThan(0);
