@@ -1,7 +1,7 @@
 /**
  * An outside forger's bundle: a genuine bundle with one claim field changed, the manifest and the
  * file list re-signed with the forger's own Ed25519 key, and that key put in public-key.txt and
- * in the bundle's own signing-keys.json (and its ledger checkpoint re-signed with it). Every hash and signature inside agrees; only a key list
+ * in the bundle's own signing-keys.json (its ledger checkpoint and in-toto Statement re-signed with it). Every hash and signature inside agrees; only a key list
  * from outside the bundle can tell.
  */
 import { canonicalJson } from '../../src/lib/evidence/canonical';
@@ -10,6 +10,7 @@ import { sha256Hex } from '../../src/lib/evidence/hash';
 import { BUNDLE_FILES, contentsText, type EvidenceFiles } from '../../src/lib/evidence/layout';
 import type { EvidenceManifest } from '../../src/lib/evidence/manifest';
 import { newSigningKey, signText, type SigningKey } from '../../src/lib/evidence/signing';
+import { signStatement } from '../../src/lib/evidence/statement';
 
 const utf8 = (text: string) => new TextEncoder().encode(text);
 
@@ -45,6 +46,12 @@ export function forgeBundle(
 		const { entries, head, at } = parseCheckpoint(new TextDecoder().decode(checkpoint))!;
 		const forgedCheckpoint = signCheckpoint({ entries, head, at }, forger);
 		listed[BUNDLE_FILES.checkpoint] = utf8(JSON.stringify(forgedCheckpoint) + '\n');
+	}
+	// The in-toto Statement (bundles since issue 21), made again over the forged files.
+	if (files[BUNDLE_FILES.statement]) {
+		const { [BUNDLE_FILES.statement]: _old, [BUNDLE_FILES.crate]: _crate, ...subjects } = listed;
+		const envelope = signStatement(subjects, JSON.parse(forged) as EvidenceManifest, forger);
+		listed[BUNDLE_FILES.statement] = utf8(JSON.stringify(envelope) + '\n');
 	}
 	const list = contentsText(manifest.certificateId, sha256Hex(forged), listed);
 	return {

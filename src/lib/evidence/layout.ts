@@ -12,6 +12,9 @@ export const BUNDLE_FILES = {
 	checkpoint: 'checkpoint.json',
 	contents: 'contents.json',
 	contentsSignature: 'contents.sig',
+	/** Issue 21: the in-toto Statement in a DSSE envelope, and the RO-Crate metadata. */
+	statement: 'statement.dsse.json',
+	crate: 'ro-crate-metadata.json',
 	canonicalCounts: 'counts-canonical.json',
 	result: 'result.json',
 	pdf: 'certificate.pdf',

@@ -27,6 +27,7 @@ import {
 	type EvidenceManifest
 } from './manifest';
 import { keyIdOf, readHexLine, verifyText } from './signing';
+import { statementProblem } from './statement';
 
 export interface VerificationReport {
 	valid: boolean;
@@ -162,6 +163,18 @@ function checkCheckpoint(s: State) {
 	s.passed.push(name);
 }
 
+/**
+ * The in-toto Statement, when the signed file list names one (bundles since issue 21). Checked
+ * last: it restates what the items before it check, which name a fault more precisely.
+ */
+function checkStatement(s: State) {
+	const name = BUNDLE_FILES.statement;
+	if (!s.contents!.files[name]) return;
+	const problem = statementProblem(text(s.files, name), s.files, s.manifestText!, s.publicKey!);
+	if (problem) throw new Failure(problem.item ?? name, problem.message);
+	s.passed.push(name);
+}
+
 function checkCounts(s: State) {
 	const m = s.manifest!;
 	const name = uploadedCountsName(m.counts.uploadedFormat);
@@ -270,6 +283,7 @@ export function verifyEvidence(
 		checkCounts(s);
 		checkAnalyses(s);
 		checkRerun(s);
+		checkStatement(s);
 	} catch (error) {
 		if (error instanceof Failure) return report(error.item, error.message);
 		return report('bundle', `cannot be checked: ${(error as Error).message}`);

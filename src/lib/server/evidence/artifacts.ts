@@ -25,6 +25,7 @@ import {
 } from '../../evidence/manifest';
 import { signText, type SigningKey } from '../../evidence/signing';
 import { fillPlaceholders } from '../templates';
+import { addBundleMetadata } from './bundle-metadata';
 import { certificatePdf, type CertificateContext } from './pdf';
 import { verifierBytes } from './verifier-file';
 import { zipFiles } from './zip-write';
@@ -166,6 +167,7 @@ export async function makeEvidence(
 		fingerprint,
 		signature,
 		verifyUrl: urls.verify,
+		publicKey: key.publicKey,
 		context: { ...(context ?? UNKNOWN_CONTEXT), coincidencesPerBasis: perBasis }
 	});
 	const files: EvidenceFiles = {
@@ -183,6 +185,8 @@ export async function makeEvidence(
 	};
 	if (checkpoint)
 		files[BUNDLE_FILES.checkpoint] = utf8(JSON.stringify(checkpoint, null, '\t') + '\n');
+	const shown = context ?? UNKNOWN_CONTEXT;
+	addBundleMetadata(files, manifest, key, { ...shown, fingerprint, verifyUrl: urls.verify });
 	signContents(files, fingerprint, manifest.certificateId, key);
 	const folder = `rankseal-${manifest.certificateId}`;
 	const zip = await zipFiles(files, new Date(manifest.issuedAt), folder);

@@ -8,6 +8,7 @@ import { visibility } from '../../components/rounding';
 import { dateTimeInWords } from '../../dates';
 import type { EvidenceManifest } from '../../evidence/manifest';
 import { drawAnalyses } from './pdf-analyses';
+import { attachEvidence, PDFA_OPTIONS } from './pdf-attachments';
 import { calibrationLine } from './pdf-calibration';
 import { boundsTable, cautionsBlock, methodBlock, statisticBlock } from './pdf-evidence';
 import { registerFaces, write } from './pdf-fonts';
@@ -31,6 +32,8 @@ export interface PdfInput {
 	signature: string;
 	verifyUrl: string;
 	context: CertificateContext;
+	/** The signing key's public half (hex), attached inside the PDF beside the manifest. */
+	publicKey?: string;
 }
 
 /** Long free text is cut so that page one stays one page (the full text is on the claim page). */
@@ -147,6 +150,7 @@ export function certificatePdf(input: PdfInput): Promise<Buffer> {
 		size: 'A4',
 		margin: 50,
 		bufferPages: true,
+		...PDFA_OPTIONS,
 		info: {
 			Title: `Rankseal certificate ${input.manifest.certificateId}`,
 			Author: 'Rankseal',
@@ -167,6 +171,7 @@ export function certificatePdf(input: PdfInput): Promise<Buffer> {
 	evidencePage(doc, input.manifest);
 	drawAnalyses(doc, input.manifest);
 	numberPages(doc, `Certificate ${input.manifest.certificateId}`);
+	attachEvidence(doc, input);
 	doc.end();
 	return done;
 }
