@@ -13,6 +13,8 @@ export const BUNDLE_FILES = {
 	contents: 'contents.json',
 	contentsSignature: 'contents.sig',
 	canonicalCounts: 'counts-canonical.json',
+	/** The same counts as long-form CSV, one row per basis and outcome pair (issue 18). */
+	canonicalCountsCsv: 'counts-canonical.csv',
 	result: 'result.json',
 	pdf: 'certificate.pdf',
 	readme: 'README.txt',
