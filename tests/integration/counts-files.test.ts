@@ -190,18 +190,19 @@ describe('the API', () => {
 describe('the claim page form', () => {
 	it('stores two grids and a full file as one dataset and goes to its preview', async () => {
 		const other = (await createClaim((await app()).database, author, claimFields)).id;
-		const thrown = await claimPage.actions
-			.upload(event(other, form(files), 'page'))
-			.catch((e) => e);
+		const upload = async () => claimPage.actions.upload(event(other, form(files), 'page'));
+		const thrown = await upload().catch((e: unknown) => e);
 		expect(isRedirect(thrown)).toBe(true);
-		expect(thrown.location).toMatch(new RegExp(`^/claims/${other}\\?dataset=.+#preview$`));
+		expect((thrown as { location: string }).location).toMatch(
+			new RegExp(`^/claims/${other}\\?dataset=.+#preview$`)
+		);
 	});
 
 	it('fails with the line and the file named, echoing the files chosen, storing nothing', async () => {
 		const before = await stored();
 		const answer = await claimPage.actions.upload(event(claimId, form(badSecond), 'page'));
 		expect(isActionFailure(answer)).toBe(true);
-		const data = (answer as { data: Record<string, never> }).data as {
+		const data = (answer as unknown as { data: unknown }).data as {
 			errors: Record<string, string>;
 			values: Record<string, string>;
 			place: { line: number; column: number };
