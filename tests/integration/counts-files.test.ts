@@ -5,7 +5,7 @@
  * file is refused naming the file and its own line and column, and nothing is stored.
  */
 import { createHash } from 'node:crypto';
-import { mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
+import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { isActionFailure, isRedirect } from '@sveltejs/kit';
@@ -70,7 +70,8 @@ afterAll(async () => {
 /** Rows, audit events and stored files: what an upload leaves behind. */
 async function stored() {
 	const { database } = await app();
-	const onDisk = readdirSync(config().filesDir, { recursive: true }).map(String);
+	const dir = config().filesDir;
+	const onDisk = existsSync(dir) ? readdirSync(dir, { recursive: true }).map(String) : [];
 	return {
 		rows: await database.models.Dataset.count(),
 		audit: await database.models.AuditEvent.count(),
@@ -175,6 +176,26 @@ describe('the API', () => {
 		const body = await answer.json();
 		expect(body.error).toMatchObject({ code: 'bad_counts', line: 3, column: 2 });
 		expect(body.error.message).toContain('in fourier.tsv (file 2 of 3)');
+		expect(await stored()).toEqual(before);
+	});
+
+	it('reads a raw text/csv grid as the basis ?basis= gives (the claim then lacks its others)', async () => {
+		const before = await stored();
+		const url = `http://localhost/api/v1/claims/${claimId}/datasets?basis=1&name=v.tsv`;
+		const request = new Request(url, {
+			method: 'POST',
+			body: files[1].text,
+			headers: { 'content-type': 'text/csv' }
+		});
+		const locals = { actor: author, user: null, session: null };
+		const raw = { locals, url: new URL(url), params: { id: claimId }, request } as never;
+		const answer = (await datasetsApi.POST(raw)) as Response;
+		expect(answer.status).toBe(400);
+		// Read as basis 1, so it is the claim's basis 0 that is missing, not the grid's basis line.
+		expect((await answer.json()).error).toMatchObject({
+			code: 'bad_counts',
+			message: 'method mub-correlation needs basis 0, which the file does not contain'
+		});
 		expect(await stored()).toEqual(before);
 	});
 
