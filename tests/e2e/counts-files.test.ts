@@ -50,6 +50,14 @@ describe.each([1366, 390])('two grid files with their bases at %i px', (width) =
 		expect(await fields.count()).toBe(2);
 		await fields.nth(0).fill('0');
 		await fields.nth(1).fill('1');
+		const chosenWidth = await page.evaluate(() => document.documentElement.scrollWidth);
+		expect(chosenWidth).toBeLessThanOrEqual(width);
+		if (process.env.RANKSEAL_KEEP_SCREENSHOTS)
+			await page
+				.locator('[data-testid=upload-form]')
+				.screenshot({
+					path: `${process.env.RANKSEAL_KEEP_SCREENSHOTS}/two-grids-chosen-${width}.png`
+				});
 		await page.click('form[action="?/upload"] button[type=submit]');
 		await page.locator('[data-testid=upload-error]').waitFor();
 		expect(await page.textContent('[data-testid=upload-error-line]')).toBe('Line 3, column 2');

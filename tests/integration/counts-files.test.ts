@@ -157,6 +157,30 @@ describe('the dataset service', () => {
 	});
 });
 
+describe('a claim on time-ordered trials', () => {
+	it('takes one trials file per upload: several files or a basis are refused by field', async () => {
+		const { database } = await app();
+		const trials = await createClaim(database, author, { ...claimFields, trialsMode: 'trials' });
+		const file = (name: string, basis: number | null) => ({
+			name,
+			bytes: new TextEncoder().encode('basis,outcome_a,outcome_b\n0,1,1\n'),
+			basis
+		});
+		const before = await stored();
+		const two = await refusal(() =>
+			addCountsFiles(database, author, trials.id, {
+				files: [file('a.csv', null), file('b.csv', null)]
+			})
+		);
+		expect(two).toMatchObject({ status: 400, code: 'bad_input', field: 'counts' });
+		const withBasis = await refusal(() =>
+			addCountsFiles(database, author, trials.id, { files: [file('a.csv', 0)] })
+		);
+		expect(withBasis).toMatchObject({ status: 400, field: 'basis' });
+		expect(await stored()).toEqual(before);
+	});
+});
+
 describe('the API', () => {
 	it('takes several counts parts with a basis part each and answers 201 with one dataset', async () => {
 		const other = (await createClaim((await app()).database, author, claimFields)).id;
