@@ -1,6 +1,6 @@
 /**
  * Several counts files in one upload through the claim page in Chromium (issue 18): two bare
- * d × d grids, picked one after the other, each with its basis typed beside it, become one
+ * d × d grids, chosen together, each with its basis typed beside it, become one
  * dataset whose preview says how each file was read; a bad second file is named with its line.
  */
 import type { Page } from 'playwright-core';
@@ -28,12 +28,16 @@ const bareGrid = (t: number) =>
 		[...data.tables[t].counts.subarray(a * d, a * d + d)].join('\t')
 	).join('\n') + '\n';
 
-async function pick(name: string, text: string) {
-	await page.setInputFiles('input[name=counts]', {
-		name,
-		mimeType: 'text/tab-separated-values',
-		buffer: Buffer.from(text)
-	});
+/** Both files chosen at once, as a file dialog's multiple selection gives them. */
+async function pick(files: [string, string][]) {
+	await page.setInputFiles(
+		'input[name=counts]',
+		files.map(([name, text]) => ({
+			name,
+			mimeType: 'text/tab-separated-values',
+			buffer: Buffer.from(text)
+		}))
+	);
 }
 
 describe.each([1366, 390])('two grid files with their bases at %i px', (width) => {
@@ -44,8 +48,10 @@ describe.each([1366, 390])('two grid files with their bases at %i px', (width) =
 		await session.visit(`/claims/${claim.id}`, `claim-two-grids-${width}`, width);
 		const typo = bareGrid(1).split('\n');
 		typo[2] = typo[2].replace(/^(\d+)\t/, '$1\tq');
-		await pick(`h-${width}.tsv`, bareGrid(0));
-		await pick(`v-${width}.tsv`, typo.join('\n'));
+		await pick([
+			[`h-${width}.tsv`, bareGrid(0)],
+			[`v-${width}.tsv`, typo.join('\n')]
+		]);
 		const fields = page.locator('[data-testid=basis-input]');
 		expect(await fields.count()).toBe(2);
 		await fields.nth(0).fill('0');
@@ -53,23 +59,24 @@ describe.each([1366, 390])('two grid files with their bases at %i px', (width) =
 		const chosenWidth = await page.evaluate(() => document.documentElement.scrollWidth);
 		expect(chosenWidth).toBeLessThanOrEqual(width);
 		if (process.env.RANKSEAL_KEEP_SCREENSHOTS)
-			await page
-				.locator('[data-testid=upload-form]')
-				.screenshot({
-					path: `${process.env.RANKSEAL_KEEP_SCREENSHOTS}/two-grids-chosen-${width}.png`
-				});
-		await page.click('form[action="?/upload"] button[type=submit]');
+			await page.locator('[data-testid=upload-form]').screenshot({
+				path: `${process.env.RANKSEAL_KEEP_SCREENSHOTS}/two-grids-chosen-${width}.png`
+			});
+		await page.click('form[action="?/upload"] button');
 		await page.locator('[data-testid=upload-error]').waitFor();
 		expect(await page.textContent('[data-testid=upload-error-line]')).toBe('Line 3, column 2');
 		expect(await page.textContent('[data-testid=upload-error]')).toContain(
 			`in v-${width}.tsv (file 2 of 2): counts must be a non-negative whole number, got 'q`
 		);
-		// The refused files stay chosen: the second one is swapped for a good copy.
-		await page.locator('[data-testid=chosen-files] li').nth(1).locator('button').click();
-		await pick(`v-${width}.tsv`, bareGrid(1));
-		await page.locator('[data-testid=basis-input]').nth(1).fill('1');
-		expect(await page.inputValue('[data-testid=basis-input] >> nth=0')).toBe('0');
-		await page.click('form[action="?/upload"] button[type=submit]');
+		// The refused files stay chosen with their bases; chosen again with the fixed copy.
+		expect(await fields.nth(1).inputValue()).toBe('1');
+		await pick([
+			[`h-${width}.tsv`, bareGrid(0)],
+			[`v-${width}.tsv`, bareGrid(1)]
+		]);
+		await fields.nth(0).fill('0');
+		await fields.nth(1).fill('1');
+		await page.click('form[action="?/upload"] button');
 		// The page may show an earlier dataset's preview: wait for the new one's address.
 		await page.waitForURL(/\?dataset=/, { timeout: 0 });
 		await page.locator('[data-testid=read-as]').waitFor();
