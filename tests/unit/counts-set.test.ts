@@ -77,6 +77,10 @@ describe('a counts set of grids and full files', () => {
 		);
 		const named = set([{ name: 'c.csv', text: basis2Csv, basis: 2 }]);
 		expect(() => parseCounts(named, d)).toThrow(/in c\.csv \(file 1 of 1\): a basis given beside/);
+		const alone = parseCounts(set([{ name: 'one.tsv', text: bareGrid(1), basis: 1 }]), d);
+		expect(alone.readAs).toBe(
+			'read as 1 file — one.tsv: 1 grid of 5 × 5 in basis 1 (given with the upload), tab-separated'
+		);
 		const missing = set([{ name: 'd.tsv', text: bareGrid(0), basis: 7 }]);
 		expect(() => parseCounts(missing, d)).toThrow(/basis 7 does not exist in dimension 5/);
 	});

@@ -162,7 +162,7 @@ export function parseCountsSet(
 		dimension: read[0].dimension,
 		tables,
 		...(fourier ? { declaredFourier: fourier } : {}),
-		readAs: `read as ${files.length} files — ${each.join('; ')}`
+		readAs: `read as ${files.length} file${files.length === 1 ? '' : 's'} — ${each.join('; ')}`
 	};
 }
 
