@@ -9,6 +9,7 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { beforeAll, describe, expect, it, vi } from 'vitest';
 import { certify, parseCounts } from '../../src/lib/certify';
+import { writeCountsSet } from '../../src/lib/certify/counts-set';
 import { canonicalJson } from '../../src/lib/evidence/canonical';
 import { sha256Hex } from '../../src/lib/evidence/hash';
 import { BUNDLE_FILES, contentsText, type EvidenceFiles } from '../../src/lib/evidence/layout';
@@ -149,6 +150,21 @@ describe('the long-form CSV in the evidence bundle', () => {
 		expect(text).toContain('\n1,0,0,910,0.91\n');
 		expect(text).toContain('# fourier: cyclic');
 		expect(verifyEvidence(evidence.files)).toMatchObject({ valid: true });
+	});
+
+	it('a dataset of several files (a counts set): one long form of the joined counts, verified offline', async () => {
+		const bare = (t: number) => grids[t].map((row) => row.join(';')).join('\n');
+		const set = writeCountsSet(
+			[0, 1, 2].map((t) => ({ name: `b${t}.csv`, bytes: utf8(bare(t)), basis: t }))
+		);
+		const evidence = await evidenceOf(set, 'csv');
+		const single = await evidenceOf(utf8(gridFile), 'csv');
+		expect(evidence.files[CSV]).toEqual(single.files[CSV]);
+		expect(evidence.manifest.counts.canonicalSha256).toBe(single.manifest.counts.canonicalSha256);
+		expect(evidence.manifest.counts.uploadedSha256).toBe(sha256Hex(set));
+		const run = runVerifier(evidence.files);
+		expect(run.out).toMatch(/every hash, both signatures and the re-run agree/);
+		expect(run.status).toBe(3);
 	});
 
 	it('refuses a CSV whose cell differs from the upload, even under a re-signed manifest', async () => {
