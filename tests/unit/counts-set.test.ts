@@ -93,4 +93,16 @@ describe('a counts set of grids and full files', () => {
 			'the counts set is damaged: the SHA-256 of file 3'
 		);
 	});
+
+	it('shares one table budget across its files: nine one-row files in d = 1 024 stop at the ninth', () => {
+		// d = 1 024 = 2^10 has 1 025 bases; each one-row file still asks for a whole d² table.
+		const nine = Array.from({ length: 9 }, (_, t) => ({
+			name: `f${t}.csv`,
+			text: `basis,outcome_a,outcome_b,counts\n${t},0,0,1\n`,
+			basis: null
+		}));
+		expect(() => parseCounts(set(nine), 1024)).toThrow(
+			/^line 2: in f8\.csv \(file 9 of 9\): basis 8: the file's tables would hold more than 8 388 608 numbers/
+		);
+	});
 });
