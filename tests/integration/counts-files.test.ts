@@ -10,7 +10,13 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { isActionFailure, isRedirect } from '@sveltejs/kit';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
-import { parseCounts, sampledCounts, states, toCountsCsv } from '../../src/lib/certify';
+import {
+	MAX_COUNTS_FILE_BYTES,
+	parseCounts,
+	sampledCounts,
+	states,
+	toCountsCsv
+} from '../../src/lib/certify';
 import { splitCountsSet } from '../../src/lib/certify/counts-set';
 import { canonicalCountsText } from '../../src/lib/evidence/manifest';
 import type { UserActor } from '../../src/lib/server/access/actor';
@@ -221,6 +227,16 @@ describe('the API', () => {
 			message: 'method mub-correlation needs basis 0, which the file does not contain'
 		});
 		expect(await stored()).toEqual(before);
+	});
+
+	it('answers 413 when the files together pass the one-file limit', async () => {
+		const half = new Uint8Array(MAX_COUNTS_FILE_BYTES / 2 + 1).fill(0x30);
+		const body = new FormData();
+		body.append('counts', new Blob([half]), 'a.tsv');
+		body.append('counts', new Blob([half]), 'b.tsv');
+		const answer = (await datasetsApi.POST(event(claimId, body, 'api'))) as Response;
+		expect(answer.status).toBe(413);
+		expect((await answer.json()).error.code).toBe('too_large');
 	});
 
 	it('answers 400 naming the field basis when the bases do not pair with the files', async () => {

@@ -102,7 +102,7 @@ export async function readCountsUpload(
 	const tooLarge = new ApiError(
 		413,
 		'too_large',
-		`The counts file is larger than the limit of ${MAX_COUNTS_FILE_BYTES} bytes.`
+		`The counts (all files together) are larger than the limit of ${MAX_COUNTS_FILE_BYTES} bytes.`
 	);
 	if (type === 'multipart/form-data') {
 		const body = await readBody(request, MAX_COUNTS_FILE_BYTES + MULTIPART_OVERHEAD);
@@ -120,6 +120,9 @@ export async function readCountsUpload(
 				'Send the counts file in the multipart field "counts".',
 				'counts'
 			);
+		const parts = form.getAll('counts') as File[];
+		if (parts.reduce((sum, part) => sum + (part.size ?? 0), 0) > MAX_COUNTS_FILE_BYTES)
+			throw tooLarge;
 		// An optional calibration file beside the counts (witnesses.md §4.4).
 		const calibration = form.get('calibration');
 		return {
