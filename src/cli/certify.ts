@@ -1,6 +1,6 @@
 /**
  * rankseal certify: check a counts file against a witness family from the command line.
- *   npm run --silent certify -- --counts FILE --dimension D --method METHOD
+ *   npm run --silent certify -- --counts FILE [--counts FILE … --file-basis 0,1,…] --dimension D --method METHOD
  *       [--fourier cyclic|field] [--bases 0,1] [--confidence 0.99865] [--resamples 10000] [--seed 1]
  *       [--claim K] [--json] [--threads N] [--calibration FILE]
  *   npm run --silent certify -- --trials FILE --dimension D --method METHOD [--mode trials|blocks]
@@ -27,6 +27,7 @@ import { parseCalibration } from '../lib/certify/calibration';
 import { certifyTarget } from '../lib/certify/fidelity-target';
 import { threadedBlocks } from './blocks';
 import { runTrials } from './certify-trials';
+import { readCountsFiles } from './counts-files';
 import { readableReport } from './report';
 
 const USAGE = `usage: npm run --silent certify -- --counts FILE --dimension D --method ${METHOD_IDS.join('|')}
@@ -34,6 +35,8 @@ const USAGE = `usage: npm run --silent certify -- --counts FILE --dimension D --
        [--seed ${DEFAULTS.seed}] [--claim K] [--json] [--subtract-accidentals] [--threads N] [--calibration FILE]
   --method fidelity-target --target l0,l1,…  fidelity with the declared target Σ λ_m |mm⟩ (witnesses.md §4.3′):
              basis 0 the computational table, basis 1 the table in the tilted vectors, same integration time
+  --counts   given several times: the files are read as one dataset (one d × d grid per basis, or full files);
+             --file-basis 0,1,… gives the basis of each file holding one bare grid, in order (blank: in the file)
   --calibration  the basis vectors as measured (JSON, witnesses.md §4.4; mub-correlation only): the ladder then
              uses their overlaps instead of assuming exactly unbiased bases
    or: npm run --silent certify -- --trials FILE --dimension D --method mub-correlation|steering-2mub
@@ -84,23 +87,15 @@ function readCalibration(path: string | undefined, d: number) {
 	};
 }
 
-function readCounts(file: string): Uint8Array {
-	try {
-		return readFileSync(file);
-	} catch (error) {
-		throw new InputError(
-			`cannot read --counts ${file}: ${(error as NodeJS.ErrnoException).code ?? 'error'}`
-		);
-	}
-}
-
 /** `--method fidelity-target`: exact bounds, no resampling (src/lib/certify/fidelity-target). */
-function runTarget(values: Record<string, string | boolean | undefined>): number {
+function runTarget(
+	values: Record<string, string | boolean | undefined>,
+	{ bytes, label }: { bytes: Uint8Array; label: string }
+): number {
 	if (typeof values.target !== 'string')
 		throw new InputError('--target l0,l1,… is required with --method fidelity-target');
 	const target = values.target.split(',').map((x) => decimal('target', x)!);
 	const dimension = wholeNumber('dimension', values.dimension as string)!;
-	const bytes = readCounts(values.counts as string);
 	const result = certifyTarget(parseCounts(bytes, dimension), {
 		target,
 		confidence: decimal('confidence', values.confidence as string | undefined),
@@ -109,7 +104,7 @@ function runTarget(values: Record<string, string | boolean | undefined>): number
 	});
 	const s = result.statistic;
 	const readable = [
-		`Rankseal check of ${values.counts}: fidelity-target, d = ${dimension}`,
+		`Rankseal check of ${label}: fidelity-target, d = ${dimension}`,
 		`  F̃ = ${s.value.toFixed(5)}, lower bound ${s.lower.toFixed(5)} at ${result.confidence}`,
 		`  ladder Σ λ² up to r: ${result.bounds.map((b) => b.bound.toFixed(5)).join(', ')}`,
 		`  certified Schmidt number ≥ ${result.certifiedSchmidtNumber}` +
@@ -120,7 +115,7 @@ function runTarget(values: Record<string, string | boolean | undefined>): number
 	return 0;
 }
 
-function trialsRun(values: Record<string, string | boolean | undefined>): number {
+function trialsRun(values: Record<string, string | boolean | string[] | undefined>): number {
 	for (const required of ['dimension', 'method'] as const)
 		if (!values[required]) throw new InputError(`--${required} is required`);
 	const text = (name: string) => values[name] as string | undefined;
@@ -144,7 +139,8 @@ async function run(argv: string[]): Promise<number> {
 	const { values } = parseArgs({
 		args: argv,
 		options: {
-			counts: { type: 'string' },
+			counts: { type: 'string', multiple: true },
+			'file-basis': { type: 'string' },
 			trials: { type: 'string' },
 			mode: { type: 'string' },
 			probabilities: { type: 'string' },
@@ -174,7 +170,9 @@ async function run(argv: string[]): Promise<number> {
 	for (const required of ['counts', 'dimension', 'method'] as const) {
 		if (!values[required]) throw new InputError(`--${required} is required`);
 	}
-	if (values.method === 'fidelity-target') return runTarget(values);
+	const counts = readCountsFiles(values.counts!, values['file-basis']);
+	if (values.method === 'fidelity-target')
+		return runTarget({ ...values, counts: undefined }, counts);
 	if (!isMethodId(values.method!)) {
 		throw new InputError(
 			`--method must be one of ${METHOD_IDS.join(', ')}, got '${values.method}'`
@@ -183,14 +181,7 @@ async function run(argv: string[]): Promise<number> {
 	const dimension = wholeNumber('dimension', values.dimension)!;
 	const fourier = fourierOption(values.fourier, dimension);
 	const bases = values.bases?.split(',').map((b) => wholeNumber('bases', b)!);
-	let bytes: Uint8Array;
-	try {
-		bytes = readFileSync(values.counts!);
-	} catch (error) {
-		throw new InputError(
-			`cannot read --counts ${values.counts}: ${(error as NodeJS.ErrnoException).code ?? 'error'}`
-		);
-	}
+	const { bytes, label } = counts;
 	const dataset = parseCounts(bytes, dimension);
 	if (fourier) checkDeclaredFourier(dataset, fourier, `--fourier ${fourier}`);
 	const calibration = readCalibration(values.calibration, dimension);
@@ -209,7 +200,7 @@ async function run(argv: string[]): Promise<number> {
 	const threads = wholeNumber('threads', values.threads);
 	const result = await certifyInBlocks(dataset, options, threadedBlocks(threads));
 	process.stdout.write(
-		(values.json ? JSON.stringify(result) : readableReport(result, values.counts!)) + '\n'
+		(values.json ? JSON.stringify(result) : readableReport(result, label)) + '\n'
 	);
 	return 0;
 }

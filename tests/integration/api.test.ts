@@ -27,8 +27,10 @@ describe('reading a counts upload', () => {
 		const form = new FormData();
 		form.set('counts', new Blob(['basis,outcome_a,outcome_b,counts\n']), 'run.csv');
 		const upload = await readCountsUpload(post(form), url);
-		expect(upload.originalName).toBe('run.csv');
-		expect(new TextDecoder().decode(upload.bytes)).toBe('basis,outcome_a,outcome_b,counts\n');
+		expect(upload.files[0].name).toBe('run.csv');
+		expect(new TextDecoder().decode(upload.files[0].bytes)).toBe(
+			'basis,outcome_a,outcome_b,counts\n'
+		);
 	});
 
 	it('takes a raw text/csv or application/json body, named by ?name=', async () => {
@@ -36,10 +38,9 @@ describe('reading a counts upload', () => {
 			post('a,b', { 'content-type': 'text/csv; charset=utf-8' }),
 			new URL(url + '?name=x.csv')
 		);
-		expect(csv.originalName).toBe('x.csv');
-		expect(
-			(await readCountsUpload(post('{}', { 'content-type': 'application/json' }), url)).originalName
-		).toBe('counts.json');
+		expect(csv.files[0].name).toBe('x.csv');
+		const json = await readCountsUpload(post('{}', { 'content-type': 'application/json' }), url);
+		expect(json.files[0].name).toBe('counts.json');
 	});
 
 	it('answers 400 without the field, 415 for other types and 413 above the limit', async () => {

@@ -86,13 +86,15 @@ interface ParseState {
 	budget: TableBudget;
 }
 
+/** `byteLimit`: the upload cap unless the caller has bounded the bytes otherwise (a bundle's file). */
 export function parseCountsCsv(
 	input: Uint8Array | string,
 	dimension: number,
-	budget = new TableBudget()
+	budget = new TableBudget(),
+	byteLimit?: number
 ): CountsDataset {
 	const d = checkDimension(dimension);
-	const text = decodeCountsText(input);
+	const text = decodeCountsText(input, byteLimit);
 	const state: ParseState = { d, text, columns: null, tables: new Map(), budget };
 	const values = new Float64Array(REQUIRED.length + OPTIONAL.length);
 	let lineNo = 0;

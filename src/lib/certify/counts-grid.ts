@@ -51,6 +51,8 @@ interface GridState {
 	tables: Map<number, CountTable>;
 	current: { table: CountTable; rows: number; line: number } | null;
 	pendingBasis: { basis: number; line: number } | null;
+	/** The basis given beside the file (a counts set's header), when the file names none itself. */
+	given: number | null;
 }
 
 function startGrid(state: GridState, lineNo: number): CountTable {
@@ -58,7 +60,7 @@ function startGrid(state: GridState, lineNo: number): CountTable {
 	if (!pendingBasis)
 		throw new InputError(
 			state.tables.size === 0
-				? "say which basis this grid is in: put a line '# basis 0' (or its number) before it"
+				? "say which basis this grid is in: put a line '# basis 0' (or its number) before it, or give the basis beside the file"
 				: "a grid starts here without a '# basis t' line before it",
 			lineNo
 		);
@@ -70,6 +72,11 @@ function startGrid(state: GridState, lineNo: number): CountTable {
 }
 
 function basisLine(state: GridState, text: string, lineNo: number): void {
+	if (state.given !== null)
+		throw new InputError(
+			`the file names its bases itself ('# basis' lines): give no basis beside it`,
+			lineNo
+		);
 	const given = BASIS_LINE.exec(text)![1];
 	const column = text.indexOf(given) + 1;
 	if (!WHOLE_NUMBER_TEXT.test(given))
@@ -118,15 +125,34 @@ function gridRow(state: GridState, raw: string, lineNo: number): void {
 	});
 }
 
-export function parseCountsGrid(input: Uint8Array | string, dimension: number): CountsDataset {
+/** The basis given beside a file must be a whole number naming a basis of dimension d. */
+function givenBasis(d: number, basis: number | null | undefined): number | null {
+	if (basis === null || basis === undefined) return null;
+	if (!Number.isSafeInteger(basis) || basis < 0)
+		throw new InputError(`the basis given beside the file must be a whole number, got ${basis}`);
+	checkBasis(d, basis, 'the basis given beside the file');
+	return basis;
+}
+
+/**
+ * Reads a grid file. `basis` is the basis given beside the file (the upload form, the API; kept
+ * in the counts set): the file then holds one grid and no `# basis` line.
+ */
+export function parseCountsGrid(
+	input: Uint8Array | string,
+	dimension: number,
+	basis?: number | null
+): CountsDataset {
 	const d = checkDimension(dimension);
 	const text = decodeCountsText(input);
+	const given = givenBasis(d, basis);
 	const state: GridState = {
 		d,
 		separator: null,
 		tables: new Map(),
 		current: null,
-		pendingBasis: null
+		pendingBasis: given === null ? null : { basis: given, line: 1 },
+		given
 	};
 	const lines = text.split('\n');
 	lines.forEach((line, i) => {
@@ -143,6 +169,8 @@ export function parseCountsGrid(input: Uint8Array | string, dimension: number): 
 	if (state.tables.size === 0) throw new InputError('the file holds no grid of counts');
 	const tables = [...state.tables.values()].sort((x, y) => x.basis - y.basis);
 	const n = tables.length;
-	const readAs = `read as ${n} grid${n === 1 ? '' : 's'} of ${d} × ${d}, ${state.separator![1]}`;
+	const givenWords = given === null ? '' : ` in basis ${given} (given with the upload)`;
+	const grids = `${n} grid${n === 1 ? '' : 's'} of ${d} × ${d}${givenWords}`;
+	const readAs = `read as ${grids}, ${state.separator![1]}`;
 	return { dimension: d, tables, readAs };
 }

@@ -163,12 +163,15 @@ function lineOfFirstBadByte(bytes: Uint8Array): number {
 	return line;
 }
 
-export function decodeCountsText(input: Uint8Array | string): string {
+export function decodeCountsText(
+	input: Uint8Array | string,
+	limit = MAX_COUNTS_FILE_BYTES
+): string {
 	const size =
 		typeof input === 'string' ? new TextEncoder().encode(input).length : input.byteLength;
-	if (size > MAX_COUNTS_FILE_BYTES) {
+	if (size > limit) {
 		throw new InputError(
-			`the file is ${size} bytes; the limit is ${MAX_COUNTS_FILE_BYTES} bytes (${MAX_COUNTS_FILE_BYTES / 2 ** 20} MiB)`
+			`the file is ${size} bytes; the limit is ${limit} bytes (${limit / 2 ** 20} MiB)`
 		);
 	}
 	let text: string;

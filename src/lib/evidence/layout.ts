@@ -16,6 +16,8 @@ export const BUNDLE_FILES = {
 	statement: 'statement.dsse.json',
 	crate: 'ro-crate-metadata.json',
 	canonicalCounts: 'counts-canonical.json',
+	/** The same counts as long-form CSV, one row per basis and outcome pair (issue 18). */
+	canonicalCountsCsv: 'counts-canonical.csv',
 	result: 'result.json',
 	pdf: 'certificate.pdf',
 	readme: 'README.txt',

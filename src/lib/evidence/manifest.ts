@@ -44,6 +44,13 @@ export interface EvidenceCounts {
 	canonicalSha256: string;
 }
 
+/** The counts as long-form CSV beside the canonical JSON (issue 18); absent in older bundles. */
+export interface EvidenceCountsLongForm {
+	file: 'counts-canonical.csv';
+	sha256: string;
+	bytes: number;
+}
+
 /** The calibration file the check used (witnesses.md §4.4); absent when it used none. */
 export interface EvidenceCalibration {
 	uploadedSha256: string;
@@ -62,6 +69,8 @@ export interface EvidenceManifest {
 	claim: EvidenceClaim;
 	parameters: EvidenceParameters;
 	counts: EvidenceCounts;
+	/** The long-form CSV of the counts (issue 18); absent in certificates made before it. */
+	countsLongForm?: EvidenceCountsLongForm;
 	calibration?: EvidenceCalibration;
 	result: CertificationResult;
 	/**

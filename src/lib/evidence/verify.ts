@@ -7,6 +7,7 @@
 import { certify, ENGINE_VERSION, parseCounts } from '../certify';
 import { analysesProblem } from './analyses';
 import { canonicalJson, jsonRoundTrip, parseCanonical } from './canonical';
+import { longFormProblem } from './counts-long-form';
 import { checkpointSigned, parseCheckpoint, type LedgerCheckpoint } from './checkpoint';
 import { alignedRerun, firstDifference } from './compare';
 import { sha256Hex } from './hash';
@@ -198,10 +199,28 @@ function checkCounts(s: State) {
 	if (canonical !== expected)
 		throw new Failure(BUNDLE_FILES.canonicalCounts, 'it does not hold the uploaded counts');
 	s.passed.push(BUNDLE_FILES.canonicalCounts);
+	checkCountsLongForm(s, uploaded);
 	checkCalibration(s);
 	if (text(s.files, BUNDLE_FILES.result) !== canonicalJson(m.result))
 		throw new Failure(BUNDLE_FILES.result, 'it differs from the result in the manifest');
 	s.passed.push(BUNDLE_FILES.result);
+}
+
+/** The long-form CSV the manifest names (and only then): its hash, and the upload's very cells. */
+function checkCountsLongForm(s: State, uploaded: Uint8Array) {
+	const m = s.manifest!;
+	const name = BUNDLE_FILES.canonicalCountsCsv;
+	if (!m.countsLongForm) {
+		if (s.files[name]) throw new Failure(name, 'the file is present but the manifest names none');
+		return;
+	}
+	const bytes = s.files[name];
+	if (!bytes || m.countsLongForm.file !== name) throw new Failure(name, 'the file is missing');
+	if (sha256Hex(bytes) !== m.countsLongForm.sha256 || bytes.byteLength !== m.countsLongForm.bytes)
+		throw new Failure(name, 'its SHA-256 differs from the manifest');
+	const problem = longFormProblem(bytes, parseCounts(uploaded, m.claim.dimension));
+	if (problem) throw new Failure(name, problem);
+	s.passed.push(name);
 }
 
 /** The stated level must be the one corrected for the analyses the certificate lists. */

@@ -11,6 +11,8 @@ import { app } from './app';
 import type { Database } from './db';
 import { isJsonType, JSON_BODY_LIMIT, jsonValue, notJson } from './json-body';
 import { ApiError, apiProblem, problemResponse } from './problems';
+import type { CountsFileUpload } from './datasets/counts-files';
+import { basisField, countsFilesOfForm } from './http/counts-form';
 
 export { ApiError, describeIssues } from './problems';
 
@@ -87,18 +89,20 @@ export async function readJson<T>(request: Request, schema: ZodType<T>): Promise
 const MULTIPART_OVERHEAD = 64 * 1024;
 
 /**
- * A counts file sent as the multipart field `counts`, or as a raw text/csv or application/json
- * body (name from ?name= or "counts.csv"/"counts.json"). 413 above MAX_COUNTS_FILE_BYTES.
+ * Counts files sent as multipart parts `counts` (several at once, each with an optional `basis`
+ * part in the same order: http/counts-form.ts), or one file as a raw text/csv or application/json
+ * body (name from ?name= or "counts.csv"/"counts.json", basis from ?basis=). 413 above
+ * MAX_COUNTS_FILE_BYTES in all.
  */
 export async function readCountsUpload(
 	request: Request,
 	url: URL
-): Promise<{ bytes: Uint8Array; originalName: string; calibration?: Uint8Array }> {
+): Promise<{ files: CountsFileUpload[]; calibration?: Uint8Array }> {
 	const type = (request.headers.get('content-type') ?? '').split(';')[0].trim().toLowerCase();
 	const tooLarge = new ApiError(
 		413,
 		'too_large',
-		`The counts file is larger than the limit of ${MAX_COUNTS_FILE_BYTES} bytes.`
+		`The counts (all files together) are larger than the limit of ${MAX_COUNTS_FILE_BYTES} bytes.`
 	);
 	if (type === 'multipart/form-data') {
 		const body = await readBody(request, MAX_COUNTS_FILE_BYTES + MULTIPART_OVERHEAD);
@@ -109,20 +113,20 @@ export async function readCountsUpload(
 			.catch(() => {
 				throw new ApiError(400, 'bad_input', 'The multipart body cannot be read.');
 			});
-		const file = form.get('counts');
-		if (!(file instanceof File))
+		if (!form.getAll('counts').some((part) => part instanceof File))
 			throw new ApiError(
 				400,
 				'bad_input',
 				'Send the counts file in the multipart field "counts".',
 				'counts'
 			);
-		if (file.size > MAX_COUNTS_FILE_BYTES) throw tooLarge;
+		const parts = form.getAll('counts') as File[];
+		if (parts.reduce((sum, part) => sum + (part.size ?? 0), 0) > MAX_COUNTS_FILE_BYTES)
+			throw tooLarge;
 		// An optional calibration file beside the counts (witnesses.md §4.4).
 		const calibration = form.get('calibration');
 		return {
-			bytes: new Uint8Array(await file.arrayBuffer()),
-			originalName: file.name || 'counts',
+			files: await countsFilesOfForm(form),
 			...(calibration instanceof File && calibration.size > 0
 				? { calibration: new Uint8Array(await calibration.arrayBuffer()) }
 				: {})
@@ -133,7 +137,8 @@ export async function readCountsUpload(
 			throw error instanceof ApiError && error.status === 413 ? tooLarge : error;
 		});
 		const fallback = type === 'text/csv' ? 'counts.csv' : 'counts.json';
-		return { bytes, originalName: url.searchParams.get('name')?.trim() || fallback };
+		const name = url.searchParams.get('name')?.trim() || fallback;
+		return { files: [{ name, bytes, basis: basisField(url.searchParams.get('basis'), name) }] };
 	}
 	// Read what was sent first: answering before the body is in resets the connection mid-upload.
 	await readBody(request, MAX_COUNTS_FILE_BYTES).catch(() => undefined);

@@ -14,6 +14,7 @@ import {
 	type FourierConvention
 } from '../../certify';
 import { InputError, requireCompleteTables } from '../../certify/counts';
+import { isCountsSet } from '../../certify/counts-set';
 import { fileDimension } from '../../certify/file-dimension';
 import type { ClaimMethod } from '../../claims/target';
 import { sha256Hex } from '../../evidence/hash';
@@ -107,6 +108,8 @@ function dimensionProblem(
 	claimed: number,
 	cause: InputError
 ): InputError | null {
+	// A counts set's files each name their own faults (counts-set.ts); the set has no one dimension.
+	if (isCountsSet(bytes)) return null;
 	const found = fileDimension(bytes);
 	if (found === null || found === claimed) return null;
 	const json = new TextDecoder().decode(bytes.subarray(0, 64)).trimStart().startsWith('{');

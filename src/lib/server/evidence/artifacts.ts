@@ -4,8 +4,9 @@
  * verifier a stranger runs, on the work pool (services/certificates.ts), so that no certificate
  * is issued that would not verify.
  */
-import { parseCounts } from '../../certify';
+import { parseCounts, type CountsDataset } from '../../certify';
 import { canonicalJson } from '../../evidence/canonical';
+import { longFormCountsText } from '../../evidence/counts-long-form';
 import type { LedgerCheckpoint } from '../../evidence/checkpoint';
 import { sha256Hex } from '../../evidence/hash';
 import {
@@ -61,7 +62,7 @@ export type EvidenceContext = Omit<CertificateContext, 'coincidencesPerBasis'> &
 
 export type EvidenceInput = Omit<
 	ManifestInput,
-	'counts' | 'signingKeyId' | 'engineVersion' | 'calibration'
+	'counts' | 'signingKeyId' | 'engineVersion' | 'calibration' | 'countsLongForm'
 > & {
 	uploaded: Uint8Array;
 	uploadedFormat: 'csv' | 'json';
@@ -81,18 +82,23 @@ const UNKNOWN_CONTEXT: EvidenceContext = {
 
 const utf8 = (text: string) => new TextEncoder().encode(text);
 
+/** The counts as long-form CSV and the manifest's record of it (issue 18). */
+function longFormPart(dataset: CountsDataset) {
+	const bytes = utf8(longFormCountsText(dataset));
+	const file = BUNDLE_FILES.canonicalCountsCsv;
+	return { bytes, record: { file, sha256: sha256Hex(bytes), bytes: bytes.byteLength } };
+}
+
 function countsParts(input: EvidenceInput) {
-	// The service brings the canonical text and the per-basis totals (read on the work pool);
-	// other callers (tests, the command line) have them worked out here.
-	const parsed = () => parseCounts(input.uploaded, input.claim.dimension);
-	const dataset = input.canonical && input.context?.coincidencesPerBasis ? null : parsed();
-	const canonical = input.canonical ?? canonicalCountsText(dataset ?? parsed());
+	// Parsed here even when the caller brings the canonical text: the long-form CSV needs the tables.
+	const dataset = parseCounts(input.uploaded, input.claim.dimension);
+	const canonical = input.canonical ?? canonicalCountsText(dataset);
 	// Coincidences in each basis the claim uses, for the certificate's page one.
 	const given = input.context?.coincidencesPerBasis;
 	const perBasis =
 		given?.filter((b) => input.result.bases.includes(b.basis)) ??
 		input.result.bases.map((basis) => {
-			const table = (dataset ?? parsed()).tables.find((t) => t.basis === basis);
+			const table = dataset.tables.find((t) => t.basis === basis);
 			return { basis, total: table ? table.counts.reduce((sum, c) => sum + c, 0) : 0 };
 		});
 	const counts = {
@@ -101,7 +107,7 @@ function countsParts(input: EvidenceInput) {
 		uploadedBytes: input.uploaded.byteLength,
 		canonicalSha256: sha256Hex(canonical)
 	};
-	return { canonical, counts, perBasis };
+	return { canonical, counts, perBasis, longForm: longFormPart(dataset) };
 }
 
 function readmeText(manifest: EvidenceManifest, fingerprint: string, urls: EvidenceUrls) {
@@ -134,7 +140,7 @@ export async function makeEvidence(
 	published: { keys: { id: string }[] },
 	checkpoint?: LedgerCheckpoint
 ): Promise<Evidence> {
-	const { canonical, counts, perBasis } = countsParts(input);
+	const { canonical, counts, perBasis, longForm } = countsParts(input);
 	const {
 		uploaded,
 		uploadedFormat,
@@ -148,6 +154,7 @@ export async function makeEvidence(
 	const manifest = buildManifest({
 		...rest,
 		counts,
+		countsLongForm: longForm.record,
 		...(calibration
 			? {
 					calibration: {
@@ -173,6 +180,7 @@ export async function makeEvidence(
 	const files: EvidenceFiles = {
 		[uploadedCountsName(uploadedFormat)]: uploaded,
 		[BUNDLE_FILES.canonicalCounts]: utf8(canonical),
+		[BUNDLE_FILES.canonicalCountsCsv]: longForm.bytes,
 		...(calibration ? { [CALIBRATION_FILE]: calibration } : {}),
 		[BUNDLE_FILES.manifest]: utf8(text),
 		[BUNDLE_FILES.signature]: utf8(signature + '\n'),

@@ -1,5 +1,4 @@
 import { redirect } from '@sveltejs/kit';
-import { MAX_COUNTS_FILE_BYTES } from '$lib/certify';
 import { checkRequestSchema } from '$lib/claims/schema';
 import { claimOffers } from '$lib/server/access/permissions';
 import { app } from '$lib/server/app';
@@ -8,12 +7,14 @@ import { formFailure, pageProblem } from '$lib/server/problems';
 import { listCertificates } from '$lib/server/services/certificate-reads';
 import { startCheck, listChecks } from '$lib/server/services/checks';
 import { getClaim } from '$lib/server/services/claims';
-import { addDataset, datasetTables, listDatasets } from '$lib/server/services/datasets';
+import { datasetTables, listDatasets } from '$lib/server/services/datasets';
+import { addCountsFiles } from '$lib/server/datasets/counts-files';
+import { countsFilesOfForm } from '$lib/server/http/counts-form';
 import { withUploadSlot } from '$lib/server/services/upload-slots';
 import { removeDataset } from '$lib/server/services/dataset-removal';
 import { countsRecord } from '$lib/server/services/counts-record';
 import { withdrawClaim } from '$lib/server/services/claim-withdraw';
-import { FieldError, ForbiddenError } from '$lib/server/services/errors';
+import { ForbiddenError } from '$lib/server/services/errors';
 import { withdrawConfirmSchema } from './withdraw-schema';
 
 const membersOnly = (problem: unknown) => {
@@ -79,27 +80,18 @@ export const actions: Actions = {
 			// The slot is taken before the body is read: a refused upload costs no memory.
 			datasetId = await withUploadSlot(database, actor, params.id, async () => {
 				const form = await request.formData();
-				const file = form.get('counts');
 				const calibrationFile = form.get('calibration');
-				// The file's name is the one value worth echoing: the page says which file was refused.
-				values = file instanceof File ? { counts: file.name } : {};
-				if (!(file instanceof File) || file.size === 0)
-					throw new FieldError('counts', 'Choose a counts file (CSV or JSON) to upload.');
-				if (file.size > MAX_COUNTS_FILE_BYTES)
-					throw new FieldError(
-						'counts',
-						`The file is ${file.size} bytes; the limit is ${MAX_COUNTS_FILE_BYTES / 2 ** 20} MiB.`
-					);
+				// The files' names are the one value worth echoing: the page says which were refused.
+				const names = form
+					.getAll('counts')
+					.flatMap((f) => (f instanceof File && f.name ? [f.name] : []));
+				values = names.length ? { counts: names.join(', ') } : {};
+				const files = await countsFilesOfForm(form);
 				const calibration =
 					calibrationFile instanceof File && calibrationFile.size > 0
 						? new Uint8Array(await calibrationFile.arrayBuffer())
 						: null;
-				const upload = {
-					bytes: new Uint8Array(await file.arrayBuffer()),
-					originalName: file.name,
-					calibration
-				};
-				return (await addDataset(database, actor, params.id, upload)).id;
+				return (await addCountsFiles(database, actor, params.id, { files, calibration })).id;
 			});
 		} catch (problem) {
 			return formRefusal(event, 'upload', problem, values);

@@ -128,10 +128,15 @@ export const openApiDocument = {
 			},
 			post: {
 				operationId: 'addDataset',
-				summary: 'Upload a counts file (CSV or JSON form)',
+				summary: 'Upload counts files (CSV, JSON or grids; several at once make one dataset)',
 				parameters: [
 					idParameter('claim'),
-					query('name', { type: 'string' }, 'File name to record for a raw body.')
+					query('name', { type: 'string' }, 'File name to record for a raw body.'),
+					query(
+						'basis',
+						{ type: 'integer', minimum: 0 },
+						'For a raw text/csv body holding one bare d × d grid: its basis (the file is then stored as a counts set).'
+					)
 				],
 				requestBody: {
 					required: true,
@@ -141,7 +146,18 @@ export const openApiDocument = {
 								type: 'object',
 								required: ['counts'],
 								properties: {
-									counts: { type: 'string', format: 'binary' },
+									counts: {
+										type: 'string',
+										format: 'binary',
+										description:
+											'A counts file; repeat the part for several files, read together as one dataset (a counts set keeping every file and its SHA-256).'
+									},
+									basis: {
+										type: 'string',
+										pattern: '^[0-9]*$',
+										description:
+											'Optional: one part per counts part, in the same order — the basis of a file holding one bare grid, blank for a file that names its bases. Refused with bad_input, field basis.'
+									},
 									calibration: {
 										type: 'string',
 										format: 'binary',

@@ -1,19 +1,20 @@
 import { json } from '@sveltejs/kit';
 import { apiEndpoint, readCountsUpload } from '$lib/server/api';
-import { addDataset, listDatasets } from '$lib/server/services/datasets';
+import { addCountsFiles } from '$lib/server/datasets/counts-files';
+import { listDatasets } from '$lib/server/services/datasets';
 import { withUploadSlot } from '$lib/server/services/upload-slots';
 
 export const GET = apiEndpoint(async ({ event, actor, database }) => {
 	return json(await listDatasets(database, actor, event.params.id!));
 });
 
-/** A counts file as multipart field `counts`, or as a raw text/csv or application/json body. */
+/** Counts files as multipart parts `counts` (with `basis`), or one as a raw text/csv or JSON body. */
 export const POST = apiEndpoint(async ({ event, actor, database }) => {
 	const claimId = event.params.id!;
 	// The slot is taken before the body is read: a refused upload costs no memory.
 	const dataset = await withUploadSlot(database, actor, claimId, async () => {
 		const upload = await readCountsUpload(event.request, event.url);
-		return addDataset(database, actor, claimId, upload);
+		return addCountsFiles(database, actor, claimId, upload);
 	});
 	return json(dataset, { status: 201 });
 });
