@@ -42,6 +42,8 @@ export interface EvidenceUrls {
 	verify: string;
 	/** The public list of signing keys. */
 	keys: string;
+	/** The certificate's DOI name, fixed at issue (registration follows through the DOI outbox). */
+	doi?: string;
 }
 
 export interface Evidence {
@@ -166,6 +168,7 @@ export async function makeEvidence(
 		fingerprint,
 		signature,
 		verifyUrl: urls.verify,
+		doi: urls.doi,
 		context: { ...(context ?? UNKNOWN_CONTEXT), coincidencesPerBasis: perBasis }
 	});
 	const files: EvidenceFiles = {
