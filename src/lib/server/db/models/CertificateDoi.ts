@@ -36,7 +36,12 @@ export interface CertificateDoiAttributes {
 export type CertificateDoiModel = ModelStatic<Model<CertificateDoiAttributes>>;
 
 export function defineCertificateDoi(sequelize: Sequelize): CertificateDoiModel {
-	const integer = { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 };
+	// A fresh object each: Sequelize writes the column name into an attribute's definition.
+	const integer = (defaultValue = 0) => ({
+		type: DataTypes.INTEGER,
+		allowNull: false,
+		defaultValue
+	});
 	return sequelize.define(
 		'CertificateDoi',
 		{
@@ -44,9 +49,9 @@ export function defineCertificateDoi(sequelize: Sequelize): CertificateDoiModel 
 			doi: { type: DataTypes.STRING, allowNull: false, unique: true },
 			creators: { type: DataTypes.TEXT, allowNull: false },
 			status: { type: DataTypes.STRING, allowNull: false },
-			revision: { ...integer, defaultValue: 1 },
-			sentRevision: integer,
-			attempts: integer,
+			revision: integer(1),
+			sentRevision: integer(),
+			attempts: integer(),
 			nextAttemptAt: { type: DataTypes.DATE, allowNull: true },
 			lastError: { type: DataTypes.TEXT, allowNull: true },
 			registeredAt: { type: DataTypes.DATE, allowNull: true }
