@@ -75,7 +75,7 @@ export function citationRis(s: DoiSubject): string {
 		['N1', flat(`Certificate ${s.certificateId}.${statusNote(s)}`)],
 		['ER', '']
 	];
-	return lines.map(([tag, value]) => `${tag}  - ${value}`.trimEnd()).join('\r\n') + '\r\n';
+	return lines.map(([tag, value]) => `${tag}  - ${value}`).join('\r\n') + '\r\n';
 }
 
 export function citationIn(s: DoiSubject, format: CitationFormat): string {
