@@ -2,14 +2,8 @@
 import type { Transaction } from 'sequelize';
 import type { Database } from '../db';
 import type { CertificateDoiAttributes } from '../db/models/CertificateDoi';
+import type { DoiRegistration } from '$lib/doi-registration';
 import { doiLink } from './doi-name';
-
-/**
- * pending: not yet accepted by the registry (the DOI may not resolve yet); registered: the
- * registry holds the current metadata; updating: registered, a change (withdrawn, superseded) is
- * on its way; failed: the registry refused or stayed unreachable, an admin must look.
- */
-export type DoiRegistration = 'pending' | 'registered' | 'updating' | 'failed';
 
 export interface CertificateDoi {
 	doi: string;
