@@ -9,7 +9,9 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { dataciteClient, RegistryError } from '../../src/lib/server/certificates/datacite-client';
-import { registerDue } from '../../src/lib/server/certificates/doi-sender';
+import { requeueDoi } from '../../src/lib/server/certificates/doi-outbox';
+import { registerDue, resumeInterruptedDois } from '../../src/lib/server/certificates/doi-sender';
+import { writeTransaction } from '../../src/lib/server/db/transactions';
 import {
 	startFakeRegistry,
 	type FakeRegistry
@@ -200,5 +202,28 @@ describe('the fake registry refuses what DataCite would', () => {
 		const draft = { doi: `${config().datacite.prefix}/draft-1` } as never;
 		await client().create(draft);
 		expect((await fetch(`${registry.url}/${config().datacite.prefix}/draft-1`)).status).toBe(404);
+	});
+});
+
+describe('a registration the registry refuses', () => {
+	it('is given up at once, shown as failed, and tried afresh at the next start', async () => {
+		await writeTransaction(world.database, (t) => requeueDoi(world.database, t, first.id));
+		const wrong = dataciteClient({ ...account(), url: registry.url, password: 'nope' });
+		expect(await registerDue(world.database, wrong)).toEqual({
+			registered: [],
+			failed: [first.doi]
+		});
+		expect(await doiRow(first.id)).toMatchObject({ status: 'failed', nextAttemptAt: null });
+		expect((await doiRow(first.id)).lastError).toMatch(/401/);
+		expect((await getCertificate(world.database, world.lead, first.id)).doi!.registration).toBe(
+			'failed'
+		);
+		// Given up: no later pass tries it by itself.
+		expect(await registerDue(world.database, client())).toEqual({ registered: [], failed: [] });
+		expect(await resumeInterruptedDois(world.database)).toBe(1);
+		expect(await registerDue(world.database, client())).toEqual({
+			registered: [first.doi],
+			failed: []
+		});
 	});
 });

@@ -11,7 +11,7 @@ import { RegistryError, type DataciteClient } from './datacite-client';
 import { dataciteAttributes } from './datacite-metadata';
 import { doiSubject } from './doi-subject';
 
-/** Attempts before a DOI registration is given up (an admin may queue it again). */
+/** Attempts before a DOI registration is given up (the pages then say it has not succeeded). */
 export const MAX_DOI_ATTEMPTS = 12;
 
 export interface RegistrationReport {
@@ -100,11 +100,19 @@ export async function registerDue(
 	return report;
 }
 
-/** Rows a stopped process left `sending`: due again now (create-or-update makes a resend safe). */
+/**
+ * At start: rows a stopped process left `sending` are due again now (create-or-update makes a
+ * resend safe), and rows given up are tried afresh (the registry's settings may have been fixed).
+ */
 export async function resumeInterruptedDois(database: Database, now = new Date()): Promise<number> {
-	const [changed] = await database.models.CertificateDoi.update(
+	const { CertificateDoi } = database.models;
+	const [interrupted] = await CertificateDoi.update(
 		{ status: 'retrying', nextAttemptAt: now, lastError: 'interrupted by a restart' },
 		{ where: { status: 'sending' } }
 	);
-	return changed;
+	const [givenUp] = await CertificateDoi.update(
+		{ status: 'retrying', nextAttemptAt: now, attempts: 0 },
+		{ where: { status: 'failed' } }
+	);
+	return interrupted + givenUp;
 }

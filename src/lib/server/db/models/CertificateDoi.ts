@@ -3,7 +3,8 @@ import { DataTypes, type Model, type ModelStatic, type Sequelize } from 'sequeli
 /**
  * queued: metadata waits to be sent; sending: an attempt is under way (or the process stopped
  * during one); retrying: the last attempt failed, `nextAttemptAt` says when the next is; failed:
- * given up (an admin may queue it again); done: the registry holds revision `sentRevision`.
+ * given up (the registry refused the metadata, or 12 attempts failed; the next change of the
+ * certificate or the next start tries again); done: the registry holds revision `sentRevision`.
  */
 export type DoiStatus = 'queued' | 'sending' | 'retrying' | 'failed' | 'done';
 
