@@ -227,3 +227,49 @@ describe('a registration the registry refuses', () => {
 		});
 	});
 });
+
+describe('a resend after a crash', () => {
+	it('turns a create the registry already has into an update, and an update it lacks into a create', async () => {
+		const { CertificateDoi } = world.database.models;
+		// As if the process stopped after the registry accepted the create, before the mark.
+		await writeTransaction(world.database, (t) => requeueDoi(world.database, t, first.id));
+		await CertificateDoi.update({ registeredAt: null }, { where: { certificateId: first.id } });
+		expect((await registerDue(world.database, client())).registered).toEqual([first.doi]);
+		// A registry that lost the record (a fresh fake, no file): the update becomes a create.
+		const port = registry.port;
+		await registry.close();
+		registry = await startFakeRegistry({ ...config().datacite, port });
+		await writeTransaction(world.database, (t) => requeueDoi(world.database, t, first.id));
+		expect((await registerDue(world.database, client())).registered).toEqual([first.doi]);
+		expect((await record(first.doi)).state).toBe('findable');
+	});
+
+	it('is refused by the fake as DataCite would: wrong body, foreign prefix, unknown DOI', async () => {
+		const auth = `Basic ${Buffer.from(`${account().user}:${account().password}`).toString('base64')}`;
+		const send = (method: string, path: string, body: unknown) =>
+			fetch(`${registry.url}${path}`, {
+				method,
+				headers: { authorization: auth, 'content-type': 'application/vnd.api+json' },
+				body: JSON.stringify(body)
+			});
+		const wrongType = await send('POST', '/dois', { data: { type: 'events', attributes: {} } });
+		expect(wrongType.status).toBe(400);
+		expect((await wrongType.json()).errors[0].source).toBe('data');
+		const foreign = await send('POST', '/dois', {
+			data: { type: 'dois', attributes: { doi: '10.1234/x' } }
+		});
+		expect(foreign.status).toBe(403);
+		const unknown = await send('PUT', `/dois/${config().datacite.prefix}/nothing`, {
+			data: { type: 'dois', attributes: {} }
+		});
+		expect(unknown.status).toBe(404);
+		const taken = await send('POST', '/dois', {
+			data: { type: 'dois', attributes: { doi: first.doi } }
+		});
+		expect(taken.status).toBe(422);
+		expect((await taken.json()).errors[0]).toMatchObject({
+			source: 'doi',
+			title: expect.stringMatching(/taken/)
+		});
+	});
+});
