@@ -9,7 +9,10 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { dataciteClient, RegistryError } from '../../src/lib/server/certificates/datacite-client';
+import { queueMissingDois } from '../../src/lib/server/certificates/doi-backfill';
+import { certificateCitation } from '../../src/lib/server/certificates/citation-reads';
 import { requeueDoi } from '../../src/lib/server/certificates/doi-outbox';
+import { ConflictError } from '../../src/lib/server/services/errors';
 import { registerDue, resumeInterruptedDois } from '../../src/lib/server/certificates/doi-sender';
 import { writeTransaction } from '../../src/lib/server/db/transactions';
 import {
@@ -271,5 +274,19 @@ describe('a resend after a crash', () => {
 			source: 'doi',
 			title: expect.stringMatching(/taken/)
 		});
+	});
+});
+
+describe('a certificate from before DOIs', () => {
+	it('has no DOI or citation until the start-up gives it the same one, then registered', async () => {
+		await world.database.models.CertificateDoi.destroy({ where: { certificateId: second.id } });
+		expect((await getCertificate(world.database, world.lead, second.id)).doi).toBeNull();
+		await expect(
+			certificateCitation(world.database, world.lead, second.id, 'text')
+		).rejects.toBeInstanceOf(ConflictError);
+		expect(await queueMissingDois(world.database)).toBe(1);
+		expect(await doiRow(second.id)).toMatchObject({ doi: second.doi, status: 'queued' });
+		expect((await registerDue(world.database, client())).registered).toEqual([second.doi]);
+		expect(await queueMissingDois(world.database)).toBe(0);
 	});
 });
