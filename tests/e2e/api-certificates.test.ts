@@ -62,7 +62,11 @@ describe('certificates in the API', () => {
 		});
 		expect(certificate.fingerprint).toMatch(/^[0-9a-f]{64}$/);
 		expect(response.headers.get('location')).toBe(`/api/v1/certificates/${id}`);
-		expect(await (await call(`/api/v1/certificates/${id}`)).json()).toEqual(certificate);
+		const again = await (await call(`/api/v1/certificates/${id}`)).json();
+		// Issue 21: the same DOI; its registration may have moved on meanwhile (background sender).
+		expect({ ...again, doi: null }).toEqual({ ...certificate, doi: null });
+		expect(again.doi.doi).toBe(certificate.doi.doi);
+		expect(['pending', 'registered']).toContain(certificate.doi.registration);
 		// Issue 15: how many analyses of these counts came before it, and whether it is the declared one.
 		expect(certificate.analyses).toMatchObject({ total: expect.any(Number), declared: true });
 		expect(certificate.analyses.total).toBeGreaterThanOrEqual(1);

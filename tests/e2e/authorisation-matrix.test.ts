@@ -78,6 +78,7 @@ GET /api/v1/checks/[id]                         401  404  200  200  404  200  40
 GET /api/v1/certificates/[id]                   401  404  200  200  404  200  401  401  401  200  401  401  404
 GET /api/v1/certificates/[id]/pdf               401  404  200  200  404  200  401  401  401  200  401  401  404
 GET /api/v1/certificates/[id]/bundle            401  404  200  200  404  200  401  401  401  200  401  401  404
+GET /api/v1/certificates/[id]/citation          401  404  200  200  404  200  401  401  401  200  401  401  404
 # the archive, as on its page: 403 for someone in no group
 GET /api/v1/archive                             401  200  200  200  403  403  401  401  401  200  401  401  403
 GET /api/v1/tokens                              401  200  200  200  200  200  401  401  401  403  401  401  200

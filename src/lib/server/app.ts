@@ -16,6 +16,8 @@ import { checkLedgerAtStart } from './services/ledger-alarm';
 import { introduceKeys } from './services/key-introductions';
 import { sweepUploadFiles } from './services/upload-files';
 import { seedDemo } from './demo/seed';
+import { startDoiRunner, type DoiRunner } from './certificates/doi-runner';
+import { queueMissingDois } from './certificates/doi-backfill';
 
 export interface AppServices {
 	database: Database;
@@ -25,6 +27,8 @@ export interface AppServices {
 	mailCatcher: MailCatcher | null;
 	/** Delivers the outbox in the background. */
 	mailRunner: MailRunner;
+	/** Registers certificate DOIs in the background (and the local fake registry). */
+	doiRunner: DoiRunner;
 }
 
 let services: Promise<AppServices> | null = null;
@@ -52,6 +56,9 @@ export function app(): Promise<AppServices> {
 		await writeTransaction(database, (transaction) => introduceKeys(database, transaction));
 		const lucia = createLucia(database, !dev && config().origin.startsWith('https:'));
 		const mail = await startMail(database);
+		// Certificates issued before DOIs existed get theirs; the runner registers them.
+		await queueMissingDois(database);
+		const doiRunner = await startDoiRunner(database);
 		// Checks left queued or running by an earlier process resume now.
 		await startCheckRunner(database);
 		if (config().demo) console.log(`Demo scenario: ${await seedDemo(database, mail.mailer)}`);
@@ -59,7 +66,7 @@ export function app(): Promise<AppServices> {
 		process.once('SIGINT', beginStop);
 		// adapter-node emits this once the HTTP server has closed (SIGINT, SIGTERM).
 		process.once('sveltekit:shutdown' as 'beforeExit', () => void shutDown());
-		return { database, lucia, ...mail };
+		return { database, lucia, ...mail, doiRunner };
 	})();
 	return services;
 }
@@ -72,7 +79,7 @@ export async function stopApp(): Promise<void> {
 	if (!services) return;
 	const current = await services;
 	services = null;
-	await current.mailRunner.stop(2000);
+	await Promise.all([current.mailRunner.stop(2000), current.doiRunner.stop(2000)]);
 	current.mailer.close();
 	await Promise.all([current.mailCatcher?.close(), abortCheckRunner(current.database)]);
 	await closeDb();

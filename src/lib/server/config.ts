@@ -31,6 +31,20 @@ export interface ServerConfig {
 	uploadRetryAfterSeconds: number;
 	/** Bytes of counts files a group may store. */
 	groupQuotaBytes: number;
+	/** DataCite-compatible registry for certificate DOIs (doi helper, issue 21). */
+	datacite: DataciteConfig;
+}
+
+/** A real DataCite REST API when `url` is set; empty `url` means the local fake registry. */
+export interface DataciteConfig {
+	url: string;
+	prefix: string;
+	user: string;
+	password: string;
+	/** Where a DOI resolves (https://doi.org/); with the fake, the fake's own address. */
+	resolver: string;
+	/** Port of the local fake registry (0: any free port). */
+	fakePort: number;
 }
 
 /** A positive whole number from the environment, else the default. */
@@ -59,6 +73,15 @@ export function config(): ServerConfig {
 		uploadsPerUser: positive(env.RANKSEAL_UPLOADS_PER_USER, 2),
 		uploadsPerGroup: positive(env.RANKSEAL_UPLOADS_PER_GROUP, 4),
 		uploadRetryAfterSeconds: positive(env.RANKSEAL_UPLOAD_RETRY_AFTER_S, 10),
-		groupQuotaBytes: positive(env.RANKSEAL_GROUP_QUOTA_BYTES, 2 ** 30)
+		groupQuotaBytes: positive(env.RANKSEAL_GROUP_QUOTA_BYTES, 2 ** 30),
+		datacite: {
+			url: env.DATACITE_URL ?? '',
+			// 10.99999 is no registrant's prefix: the local fake's DOIs cannot be taken for real ones.
+			prefix: env.DATACITE_PREFIX ?? '10.99999',
+			user: env.DATACITE_USER ?? 'rankseal.local',
+			password: env.DATACITE_PASSWORD ?? 'local-fake-registry',
+			resolver: env.DATACITE_RESOLVER ?? 'https://doi.org/',
+			fakePort: Number(env.DATACITE_FAKE_PORT ?? '2580')
+		}
 	};
 }

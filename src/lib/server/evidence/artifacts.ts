@@ -44,6 +44,8 @@ export interface EvidenceUrls {
 	verify: string;
 	/** The public list of signing keys. */
 	keys: string;
+	/** The certificate's DOI name, fixed at issue (registration follows through the DOI outbox). */
+	doi?: string;
 }
 
 export interface Evidence {
@@ -175,6 +177,7 @@ export async function makeEvidence(
 		signature,
 		verifyUrl: urls.verify,
 		publicKey: key.publicKey,
+		doi: urls.doi,
 		context: { ...(context ?? UNKNOWN_CONTEXT), coincidencesPerBasis: perBasis }
 	});
 	const files: EvidenceFiles = {

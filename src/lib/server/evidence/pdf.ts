@@ -31,6 +31,8 @@ export interface PdfInput {
 	fingerprint: string;
 	signature: string;
 	verifyUrl: string;
+	/** The certificate's DOI name (issue 21), when it has one. */
+	doi?: string;
 	context: CertificateContext;
 	/** The signing key's public half (hex), attached inside the PDF beside the manifest. */
 	publicKey?: string;
@@ -47,7 +49,7 @@ function authorsText(authors: string[]): string {
 	return `${authors.slice(0, AUTHORS_SHOWN).join(', ')} and ${authors.length - AUTHORS_SHOWN} more`;
 }
 
-function identity(doc: Doc, { manifest, fingerprint, verifyUrl }: PdfInput) {
+function identity(doc: Doc, { manifest, fingerprint, verifyUrl, doi }: PdfInput) {
 	const top = doc.y;
 	const qrX = doc.page.width - doc.page.margins.right - 90;
 	doc.fontSize(18).fillColor(INK);
@@ -56,6 +58,7 @@ function identity(doc: Doc, { manifest, fingerprint, verifyUrl }: PdfInput) {
 	doc.moveDown(0.5);
 	field(doc, 'Certificate', manifest.certificateId);
 	field(doc, 'Issued', dateTimeInWords(manifest.issuedAt));
+	if (doi) field(doc, 'DOI', doi);
 	if (manifest.supersedes) field(doc, 'Supersedes', manifest.supersedes);
 	drawQr(doc, verifyUrl, qrX, top, 90);
 	doc.font('serif').fontSize(7).fillColor(MUTED);

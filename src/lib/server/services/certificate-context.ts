@@ -6,19 +6,16 @@ import type { Database } from '../db';
 import type { ClaimAttributes } from '../db/models/Claim';
 import type { DatasetAttributes } from '../db/models/Dataset';
 import type { EvidenceContext } from '../evidence/artifacts';
+import { authorsOf } from '../certificates/doi-creators';
 
 export async function certificateContext(
 	database: Database,
 	claim: ClaimAttributes,
 	dataset: DatasetAttributes
 ): Promise<EvidenceContext> {
-	const { Group, Membership, User } = database.models;
-	const group = await Group.findByPk(claim.groupId);
-	const members = await Membership.findAll({ where: { groupId: claim.groupId } });
-	const ids = [claim.createdBy, ...members.map((m) => m.get('userId') as string)];
-	const users = await User.findAll({ where: { id: [...new Set(ids)] } });
-	const nameOf = new Map(users.map((u) => [u.get('id') as string, u.get('name') as string]));
-	const authors = [...new Set(ids)].map((id) => nameOf.get(id)).filter((n): n is string => !!n);
+	const group = await database.models.Group.findByPk(claim.groupId);
+	// One author list for the PDF and the DOI's creators.
+	const authors = (await authorsOf(database, claim)).map((a) => a.name);
 	return {
 		group: (group?.get('name') as string | undefined) ?? 'no group',
 		authors,

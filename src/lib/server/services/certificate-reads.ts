@@ -22,6 +22,7 @@ import { decideClaim, requireClaim, type ClaimAction } from '../access/permissio
 import { NotFoundError } from './errors';
 import { withdrawalOf } from './ledger';
 import { checkAgainst, type CheckpointCheck } from './ledger-checkpoint';
+import { doiOf, doisOf } from '../certificates/doi-view';
 
 /** The row when the caller may do `action` to its claim; a hidden claim hides the certificate. */
 async function visibleCertificate(
@@ -43,7 +44,8 @@ export async function getCertificate(
 	caller: Actor,
 	id: string
 ): Promise<CertificateView> {
-	return certificateView(await visibleCertificate(database, caller, id));
+	const certificate = await visibleCertificate(database, caller, id);
+	return certificateView(certificate, await doiOf(database, id));
 }
 
 /** The claim's certificates, newest first. */
@@ -57,7 +59,11 @@ export async function listCertificates(
 		where: { claimId },
 		order: [['issuedAt', 'DESC']]
 	});
-	return rows.map((r) => certificateView(r.get({ plain: true })));
+	const dois = await doisOf(
+		database,
+		rows.map((r) => r.get('id') as string)
+	);
+	return rows.map((r) => certificateView(r.get({ plain: true }), dois.get(r.get('id') as string)));
 }
 
 /** Whether the caller may issue certificates for the claim (to offer the button or not). */
@@ -112,7 +118,8 @@ export async function lookupCertificate(
 	const certificate = row.get({ plain: true });
 	const withdrawal =
 		certificate.status === 'withdrawn' ? await withdrawalOf(database, certificate.id) : null;
-	return { ...publicCertificate(certificate), withdrawal };
+	const doi = await doiOf(database, certificate.id);
+	return { ...publicCertificate(certificate, doi), withdrawal };
 }
 
 /**

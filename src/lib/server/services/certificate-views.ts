@@ -2,6 +2,7 @@
 import { isExploratory, type AnalysisEntry } from '../../evidence/analyses';
 import type { EvidenceClaim, EvidenceManifest } from '../../evidence/manifest';
 import type { CertificateAttributes, CertificateStatus } from '../db/models/Certificate';
+import type { CertificateDoi } from '../certificates/doi-view';
 
 export interface CertificateUrls {
 	pdf: string;
@@ -35,6 +36,8 @@ export interface CertificateView {
 	verdict: 'supported' | 'not supported' | null;
 	analyses: CertificateAnalyses | null;
 	urls: CertificateUrls;
+	/** Its DOI (issue 21); null for a certificate not yet given one. */
+	doi: CertificateDoi | null;
 }
 
 /** What the public verification page may show: only what the certificate itself shows. */
@@ -52,6 +55,7 @@ export interface PublicCertificate {
 	backgroundSubtracted: boolean;
 	engineVersion: string;
 	analyses: CertificateAnalyses | null;
+	doi: CertificateDoi | null;
 }
 
 export const PUBLIC_VERIFY_PATH = '/seal';
@@ -79,7 +83,10 @@ export function certificateAnalyses(m: EvidenceManifest): CertificateAnalyses | 
 	return { total, declared, exploratory, nominalConfidence, statedConfidence, list };
 }
 
-export function certificateView(row: CertificateAttributes): CertificateView {
+export function certificateView(
+	row: CertificateAttributes,
+	doi: CertificateDoi | null = null
+): CertificateView {
 	const m = manifestOf(row);
 	return {
 		id: row.id,
@@ -94,11 +101,15 @@ export function certificateView(row: CertificateAttributes): CertificateView {
 		certifiedSchmidtNumber: m.result.certifiedSchmidtNumber,
 		verdict: m.result.claim?.verdict ?? null,
 		analyses: certificateAnalyses(m),
-		urls: certificateUrls(row.id)
+		urls: certificateUrls(row.id),
+		doi
 	};
 }
 
-export function publicCertificate(row: CertificateAttributes): PublicCertificate {
+export function publicCertificate(
+	row: CertificateAttributes,
+	doi: CertificateDoi | null = null
+): PublicCertificate {
 	const m = manifestOf(row);
 	return {
 		id: row.id,
@@ -113,6 +124,7 @@ export function publicCertificate(row: CertificateAttributes): PublicCertificate
 		verdict: m.result.claim?.verdict ?? null,
 		backgroundSubtracted: m.result.backgroundSubtracted,
 		engineVersion: m.engineVersion,
-		analyses: certificateAnalyses(m)
+		analyses: certificateAnalyses(m),
+		doi
 	};
 }

@@ -14,6 +14,8 @@ import { ConflictError, FieldError, NotFoundError } from './errors';
 import { appendLedger } from './ledger';
 import { withdrawerRole } from './ledger-roles';
 import { publishCheckpoint } from './ledger-checkpoint';
+import { requeueDoi } from '../certificates/doi-outbox';
+import { doiOf } from '../certificates/doi-view';
 
 export const WITHDRAW_REASON = { min: 3, max: 500 };
 
@@ -49,6 +51,8 @@ export async function withdrawInTransaction(
 	const entry = { actorId: userId, groupId, subjectType: 'certificate', subjectId: certificateId };
 	const action = 'certificate.withdrawn';
 	await audit(database, { ...entry, action, details: { ...details, by: userId } }, transaction);
+	// The DOI record says so too (sent through the DOI outbox).
+	await requeueDoi(database, transaction, certificateId);
 }
 
 /** The group's lead or the certificate's issuer may withdraw it; the reason goes in the ledger. */
@@ -80,5 +84,5 @@ export async function withdrawCertificate(
 	);
 	await publishCheckpoint(database);
 	await row.reload();
-	return certificateView(row.get({ plain: true }));
+	return certificateView(row.get({ plain: true }), await doiOf(database, certificateId));
 }

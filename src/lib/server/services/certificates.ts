@@ -30,6 +30,11 @@ import { newId } from './ids';
 import { queueReviewNotices } from './review-notices';
 import { appendLedger } from './ledger';
 import { publishCheckpoint } from './ledger-checkpoint';
+import { authorsOf } from '../certificates/doi-creators';
+import { doiFor } from '../certificates/doi-name';
+import { doiOf } from '../certificates/doi-view';
+import { queueDoi, requeueDoi } from '../certificates/doi-outbox';
+import type { DoiCreator } from '../db/models/CertificateDoi';
 
 export type { CertificateView } from './certificate-views';
 
@@ -131,7 +136,9 @@ async function prepare(
 	const stated = await statedResult(database, claim, source);
 	const context = await certificateContext(database, claim, source.dataset);
 	const input = { ...evidenceInput(claim, source, stated, id, supersedes), context };
-	const urls = evidenceUrls(config().origin, id);
+	// The DOI is known before the registry hears of it: the PDF prints it (doi-name.ts).
+	const urls = { ...evidenceUrls(config().origin, id), doi: doiFor(id) };
+	const creators = await authorsOf(database, claim);
 	// The ledger as it stands before this issue: the bundle cannot hold a hash of its own entry.
 	const checkpoint = await publishCheckpoint(database, key);
 	const evidence = await makeEvidence(input, key, urls, { keys: publishedKeys() }, checkpoint);
@@ -144,7 +151,7 @@ async function prepare(
 		throw new ConflictError(
 			`This check cannot be certified (${verdict.failedItem}: ${verdict.message}); run the check again`
 		);
-	return { claim, evidence, supersedes };
+	return { claim, evidence, supersedes, creators };
 }
 
 async function store(
@@ -153,6 +160,7 @@ async function store(
 	evidence: Evidence,
 	groupId: string,
 	key: SigningKey,
+	creators: DoiCreator[],
 	transaction: Transaction
 ) {
 	const row = certificateRow(evidence, key.id, userId);
@@ -160,6 +168,7 @@ async function store(
 	await database.models.Certificate.create(row, { transaction });
 	const details = issueDetails(row);
 	await appendLedger(database, { event: 'issue', certificateId: id, details }, key, transaction);
+	await queueDoi(database, transaction, id, creators);
 	if (supersedes) {
 		await database.models.Certificate.update(
 			{ status: 'superseded', supersededBy: id },
@@ -167,6 +176,7 @@ async function store(
 		);
 		const event = { event: 'supersede' as const, certificateId: supersedes };
 		await appendLedger(database, { ...event, details: { supersededBy: id } }, key, transaction);
+		await requeueDoi(database, transaction, supersedes);
 	}
 	const claim = await database.models.Claim.findByPk(row.claimId, { transaction });
 	// Read inside the transaction: a withdrawal that landed meanwhile is never undone by an issue.
@@ -192,7 +202,8 @@ export async function issueCertificate(
 	checkId: string
 ): Promise<CertificateView> {
 	const key = serviceKey();
-	const { claim, evidence, supersedes } = await prepare(database, caller, claimId, checkId, key);
+	const prepared = await prepare(database, caller, claimId, checkId, key);
+	const { claim, evidence, supersedes, creators } = prepared;
 	// Members only (permissions.ts), so the caller has an account.
 	const userId = accountIdOf(caller)!;
 	const paths = certificatePaths(evidence.manifest.certificateId);
@@ -203,7 +214,8 @@ export async function issueCertificate(
 				throw new IssueConflictError(
 					'Another certificate was issued for this claim meanwhile; try again.'
 				);
-			const stored = await store(database, userId, evidence, claim.groupId, key, transaction);
+			const group = claim.groupId;
+			const stored = await store(database, userId, evidence, group, key, creators, transaction);
 			placed = await placeFiles([
 				[paths.pdfPath, evidence.pdf],
 				[paths.bundlePath, evidence.zip]
@@ -211,7 +223,7 @@ export async function issueCertificate(
 			return stored;
 		});
 		await publishCheckpoint(database);
-		return certificateView(row);
+		return certificateView(row, await doiOf(database, row.id));
 	} catch (error) {
 		await removeFiles(placed);
 		throw error;

@@ -10,6 +10,7 @@ import { certificateView, type CertificateView } from './certificate-views';
 import { reportView, type ReportView } from './reports';
 import { reviewLinkView, type ReviewLinkView } from './review-links';
 import { shareView, type ShareView } from './shares';
+import { doisOf } from '../certificates/doi-view';
 
 export interface SharedClaim {
 	share: ShareView;
@@ -62,6 +63,10 @@ export async function editorHome(database: Database, actor: Actor): Promise<Shar
 			where: { claimId: c.id },
 			order: [['issuedAt', 'DESC']]
 		});
+		const dois = await doisOf(
+			database,
+			certificates.map((r) => r.get('id') as string)
+		);
 		home.push({
 			share: shareView(share),
 			claim: {
@@ -72,7 +77,9 @@ export async function editorHome(database: Database, actor: Actor): Promise<Shar
 				claimedSchmidtNumber: c.claimedSchmidtNumber,
 				state: c.state
 			},
-			certificates: certificates.map((r) => certificateView(r.get({ plain: true }))),
+			certificates: certificates.map((r) =>
+				certificateView(r.get({ plain: true }), dois.get(r.get('id') as string))
+			),
 			links: await linksOf(database, share.id)
 		});
 	}

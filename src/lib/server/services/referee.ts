@@ -17,6 +17,7 @@ import { datasetTables, getDataset, type DatasetTables, type DatasetView } from 
 import { NotFoundError } from './errors';
 import { ownReport, type ReportView } from './reports';
 import { reviewedCertificates } from './review-certificate';
+import { doiOf } from '../certificates/doi-view';
 
 /** A referee chooses only the seed; everything else is the certified check's. */
 export const refereeCheckSchema = checkRequestSchema.pick({ seed: true }).strict();
@@ -111,8 +112,8 @@ export async function refereeView(database: Database, actor: Actor): Promise<Ref
 			fourier,
 			claimedSchmidtNumber: c.claimedSchmidtNumber
 		},
-		certificate: certificateView(certificate),
-		newerCertificate: newer ? certificateView(newer) : null,
+		certificate: certificateView(certificate, await doiOf(database, certificate.id)),
+		newerCertificate: newer ? certificateView(newer, await doiOf(database, newer.id)) : null,
 		certified,
 		dataset,
 		tables,

@@ -3,6 +3,7 @@ import type { Sequelize } from 'sequelize';
 import { defineApiToken } from './ApiToken';
 import { defineAuditEvent } from './AuditEvent';
 import { defineCertificate } from './Certificate';
+import { defineCertificateDoi } from './CertificateDoi';
 import { defineCheck } from './Check';
 import { defineClaim } from './Claim';
 import { defineDataset } from './Dataset';
@@ -38,7 +39,8 @@ export function defineModels(sequelize: Sequelize) {
 		OutboxMail: defineOutboxMail(sequelize),
 		Share: defineShare(sequelize),
 		ReviewLink: defineReviewLink(sequelize),
-		Report: defineReport(sequelize)
+		Report: defineReport(sequelize),
+		CertificateDoi: defineCertificateDoi(sequelize)
 	};
 	const {
 		User,

@@ -1,4 +1,5 @@
 /** JSON Schemas of certificates, signing keys and the ledger (OpenAPI 3.1 components). */
+import { certificateDoiSchema } from './citation-paths';
 const text = { type: 'string' };
 const hex64 = { type: 'string', pattern: '^[0-9a-f]{64}$' };
 const timestamp = { type: 'string', format: 'date-time' };
@@ -53,7 +54,8 @@ export const certificateSchemas = {
 			pdf: text,
 			bundle: text,
 			verify: { type: 'string', description: 'The public verification page.' }
-		})
+		}),
+		doi: certificateDoiSchema
 	}),
 	Analysis: object({
 		method: text,

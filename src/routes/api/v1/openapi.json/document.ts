@@ -2,6 +2,7 @@
 import { MAX_COUNTS_FILE_BYTES, METHOD_IDS } from '$lib/certify';
 import { CLAIM_METHODS, CLAIM_SORTS, CLAIM_STATES } from '$lib/claims/schema';
 import { certificatePaths } from './certificate-paths';
+import { citationPaths } from './citation-paths';
 import { planPaths, planSchemas } from './plan-paths';
 import { archiveSchemas } from './archive-schemas';
 import { certificateSchemas } from './certificate-schemas';
@@ -288,6 +289,7 @@ export const openApiDocument = {
 			}
 		},
 		...certificatePaths,
+		...citationPaths,
 		...planPaths,
 		'/api/v1/archive': {
 			get: {

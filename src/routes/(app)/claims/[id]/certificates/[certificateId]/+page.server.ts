@@ -4,6 +4,8 @@ import { requireSignedIn } from '$lib/server/auth-web';
 import { pageProblem } from '$lib/server/problems';
 import { getCertificate, lookupCertificate } from '$lib/server/services/certificate-reads';
 import { getClaim } from '$lib/server/services/claims';
+import { certificateCitations } from '$lib/server/certificates/citation-reads';
+import { ConflictError } from '$lib/server/services/errors';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, params, url }) => {
@@ -21,5 +23,10 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 		certificate.status === 'withdrawn' ? await lookupCertificate(database, certificate.id) : null;
 	const withdrawal = record && record.status !== 'unknown' ? record.withdrawal : null;
 	const verifyUrl = new URL(certificate.urls.verify, url.origin).href;
-	return { claim, certificate, verifyUrl, withdrawal };
+	// A certificate not yet given a DOI (doi-backfill.ts) has no citation yet.
+	const citations = await certificateCitations(database, actor, certificate.id).catch((e) => {
+		if (e instanceof ConflictError) return null;
+		throw e;
+	});
+	return { claim, certificate, verifyUrl, withdrawal, citations };
 };
