@@ -16,6 +16,7 @@ import { checkLedgerAtStart } from './services/ledger-alarm';
 import { introduceKeys } from './services/key-introductions';
 import { sweepUploadFiles } from './services/upload-files';
 import { seedDemo } from './demo/seed';
+import { startOrcid, type OrcidService } from './accounts/orcid-settings';
 
 export interface AppServices {
 	database: Database;
@@ -25,6 +26,8 @@ export interface AppServices {
 	mailCatcher: MailCatcher | null;
 	/** Delivers the outbox in the background. */
 	mailRunner: MailRunner;
+	/** Sign in with ORCID: the real provider (ORCID_ISSUER) or the local fake one. */
+	orcid: OrcidService;
 }
 
 let services: Promise<AppServices> | null = null;
@@ -52,6 +55,7 @@ export function app(): Promise<AppServices> {
 		await writeTransaction(database, (transaction) => introduceKeys(database, transaction));
 		const lucia = createLucia(database, !dev && config().origin.startsWith('https:'));
 		const mail = await startMail(database);
+		const orcid = await startOrcid(config().origin);
 		// Checks left queued or running by an earlier process resume now.
 		await startCheckRunner(database);
 		if (config().demo) console.log(`Demo scenario: ${await seedDemo(database, mail.mailer)}`);
@@ -59,7 +63,7 @@ export function app(): Promise<AppServices> {
 		process.once('SIGINT', beginStop);
 		// adapter-node emits this once the HTTP server has closed (SIGINT, SIGTERM).
 		process.once('sveltekit:shutdown' as 'beforeExit', () => void shutDown());
-		return { database, lucia, ...mail };
+		return { database, lucia, ...mail, orcid };
 	})();
 	return services;
 }
@@ -74,7 +78,11 @@ export async function stopApp(): Promise<void> {
 	services = null;
 	await current.mailRunner.stop(2000);
 	current.mailer.close();
-	await Promise.all([current.mailCatcher?.close(), abortCheckRunner(current.database)]);
+	await Promise.all([
+		current.mailCatcher?.close(),
+		current.orcid.fake?.close(),
+		abortCheckRunner(current.database)
+	]);
 	await closeDb();
 }
 

@@ -16,6 +16,7 @@ import * as shareOpened from './0015-share-opened';
 import * as datasetCalibration from './0016-dataset-calibration';
 import * as trialsClaims from './0018-trials-claims';
 import * as targetClaims from './0020-target-claims';
+import * as orcidIds from './0022-orcid-ids';
 
 export const migrations = [
 	{ name: '0001-initial', ...initial },
@@ -34,5 +35,6 @@ export const migrations = [
 	{ name: '0015-share-opened', ...shareOpened },
 	{ name: '0016-dataset-calibration', ...datasetCalibration },
 	{ name: '0018-trials-claims', ...trialsClaims },
-	{ name: '0020-target-claims', ...targetClaims }
+	{ name: '0020-target-claims', ...targetClaims },
+	{ name: '0022-orcid-ids', ...orcidIds }
 ];
