@@ -1,7 +1,9 @@
 /**
  * What the certificate PDF shows beside the signed manifest: the group, its members as the
- * authors (the claim's creator first), the source description and the counts file's name.
+ * authors (the claim's creator first) with their ORCID iDs, the source description and the
+ * counts file's name.
  */
+import { claimAuthors } from '../certificates/certificate-authors';
 import type { Database } from '../db';
 import type { ClaimAttributes } from '../db/models/Claim';
 import type { DatasetAttributes } from '../db/models/Dataset';
@@ -12,16 +14,12 @@ export async function certificateContext(
 	claim: ClaimAttributes,
 	dataset: DatasetAttributes
 ): Promise<EvidenceContext> {
-	const { Group, Membership, User } = database.models;
-	const group = await Group.findByPk(claim.groupId);
-	const members = await Membership.findAll({ where: { groupId: claim.groupId } });
-	const ids = [claim.createdBy, ...members.map((m) => m.get('userId') as string)];
-	const users = await User.findAll({ where: { id: [...new Set(ids)] } });
-	const nameOf = new Map(users.map((u) => [u.get('id') as string, u.get('name') as string]));
-	const authors = [...new Set(ids)].map((id) => nameOf.get(id)).filter((n): n is string => !!n);
+	const group = await database.models.Group.findByPk(claim.groupId);
+	const people = await claimAuthors(database, claim);
 	return {
 		group: (group?.get('name') as string | undefined) ?? 'no group',
-		authors,
+		authors: people.map((p) => p.name),
+		orcids: people.flatMap((p) => (p.orcid ? [{ name: p.name, orcid: p.orcid }] : [])),
 		sourceDescription: claim.sourceDescription,
 		countsFileName: dataset.originalName,
 		// From the upload's summary, so issuing parses nothing on the request thread.

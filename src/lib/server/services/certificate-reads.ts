@@ -17,6 +17,7 @@ import {
 	type CertificateView,
 	type PublicCertificate
 } from './certificate-views';
+import { certificateAuthors, type CertificateAuthor } from '../certificates/certificate-authors';
 import type { Actor } from '../access/actor';
 import { decideClaim, requireClaim, type ClaimAction } from '../access/permissions';
 import { NotFoundError } from './errors';
@@ -42,8 +43,9 @@ export async function getCertificate(
 	database: Database,
 	caller: Actor,
 	id: string
-): Promise<CertificateView> {
-	return certificateView(await visibleCertificate(database, caller, id));
+): Promise<CertificateView & { authors: CertificateAuthor[] }> {
+	const row = await visibleCertificate(database, caller, id);
+	return { ...certificateView(row), authors: await certificateAuthors(database, row.claimId) };
 }
 
 /** The claim's certificates, newest first. */
@@ -96,6 +98,8 @@ export type Lookup =
 	| (PublicCertificate & {
 			status: PublicCertificate['status'];
 			withdrawal: { reason: string; at: string } | null;
+			/** The authors with their ORCID iDs (sign in with ORCID). */
+			authors: CertificateAuthor[];
 	  });
 
 /** Public: a certificate by id or by fingerprint. */
@@ -112,7 +116,8 @@ export async function lookupCertificate(
 	const certificate = row.get({ plain: true });
 	const withdrawal =
 		certificate.status === 'withdrawn' ? await withdrawalOf(database, certificate.id) : null;
-	return { ...publicCertificate(certificate), withdrawal };
+	const authors = await certificateAuthors(database, certificate.claimId);
+	return { ...publicCertificate(certificate), withdrawal, authors };
 }
 
 /**
