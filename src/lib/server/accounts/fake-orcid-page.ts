@@ -7,8 +7,9 @@ import type Provider from 'oidc-provider';
 import { orcidProblem, parseOrcid } from '$lib/orcid-id';
 import { DEMO_ORCID_PEOPLE } from '../demo/orcid-people';
 
+type FakeNames = { given_name?: string; family_name?: string; name?: string };
 /** Names the fake hands out per iD, as typed on its page. */
-export type FakePeople = Map<string, { given_name?: string; family_name?: string; name?: string }>;
+export type FakePeople = Map<string, FakeNames>;
 
 const escape = (text: string) => text.replace(/[&<>"']/g, (c) => `&#${c.charCodeAt(0)};`);
 
@@ -55,9 +56,7 @@ function send(res: ServerResponse, status: number, html: string): void {
 }
 
 /** The iD and names a submitted form names, or the problem with it. */
-function chosen(
-	form: Record<string, string>
-): { orcid: string; names: FakePeople extends Map<string, infer N> ? N : never } | string {
+function chosen(form: Record<string, string>): { orcid: string; names: FakeNames } | string {
 	const demo = DEMO_ORCID_PEOPLE.find((p) => p.orcid === form.pick);
 	if (demo)
 		return {
