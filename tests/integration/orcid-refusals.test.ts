@@ -57,6 +57,32 @@ describe('refused answers', () => {
 		expect(await sessionUser(replay)).toBeNull();
 	});
 
+	it('refuses a forged code (the token endpoint says no) and a cancelled sign-in, in words', async () => {
+		const forged = new AppJar();
+		const started = await outcome(() => start.GET(event(forged, '/login/orcid/start')));
+		const atProvider = await signInAtProvider(new ProviderBrowser(), started.location!, {
+			orcid: '0000-0003-1415-9269'
+		});
+		const back = (atProvider as { callback: URL }).callback;
+		back.searchParams.set('code', 'a-code-the-provider-never-issued');
+		const answer = await outcome(() => callback.GET(event(forged, back.pathname + back.search)));
+		expect(answer).toMatchObject({
+			status: 400,
+			message: expect.stringMatching(/could not be verified/)
+		});
+		expect(await sessionUser(forged)).toBeNull();
+
+		const cancelled = new AppJar();
+		const again = await outcome(() => start.GET(event(cancelled, '/login/orcid/start')));
+		const left = await signInAtProvider(new ProviderBrowser(), again.location!, { cancel: '1' });
+		const home = (left as { callback: URL }).callback;
+		const said = await outcome(() => callback.GET(event(cancelled, home.pathname + home.search)));
+		expect(said).toMatchObject({
+			status: 400,
+			message: expect.stringMatching(/ORCID did not sign you in \(The person cancelled/)
+		});
+	});
+
 	it('the fake provider refuses an iD with a wrong check character, naming it', async () => {
 		const jar = new AppJar();
 		const started = await outcome(() => start.GET(event(jar, '/login/orcid/start')));

@@ -69,7 +69,7 @@ export class ProviderBrowser {
 }
 
 export type Choice =
-	{ pick: string } | { orcid: string; given_name?: string; family_name?: string };
+	{ pick: string } | { cancel: '1' } | { orcid: string; given_name?: string; family_name?: string };
 
 /**
  * From the authorisation URL through the fake's sign-in page to the redirect back to the app:
@@ -84,7 +84,7 @@ export async function signInAtProvider(
 	if (shown.response.status !== 200) throw new Error(`provider answered ${shown.response.status}`);
 	const page = await shown.response.text();
 	const action = /<form method="post" action="([^"]+)"/.exec(page)![1];
-	const fields = 'pick' in choice ? { pick: choice.pick } : { ...choice, signin: '1' };
+	const fields = 'pick' in choice || 'cancel' in choice ? choice : { ...choice, signin: '1' };
 	const body = new URLSearchParams(fields as Record<string, string>).toString();
 	const headers = { 'content-type': 'application/x-www-form-urlencoded' };
 	const sent = await browser.follow(new URL(action, shown.url).href, {
