@@ -70,6 +70,11 @@ describe('an unknown iD', () => {
 		);
 		expect(right).toEqual({ status: 303, location: '/claims' });
 		expect(await orcidOf(ben.id)).toBe(WITH_X);
+		const { AuditEvent } = services.database.models;
+		const linked = await AuditEvent.findOne({
+			where: { action: 'account.orcid-linked', subjectId: ben.id }
+		});
+		expect(linked?.get('details')).toMatchObject({ orcid: WITH_X });
 		expect(await sessionUser(jar)).toBe(ben.id);
 
 		// From now on the iD signs straight in, in a fresh browser.
