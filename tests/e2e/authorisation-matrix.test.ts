@@ -26,6 +26,9 @@ route                                           anon othr auth lead edNo edSh rf
 # public pages and documents
 GET /                                           200  200  200  200  200  200  200  200  200  200  200  200  200
 GET /login                                      200  303  303  303  303  303  200  200  200  200  200  200  303
+GET /login/orcid                                200  200  200  200  200  200  200  200  200  200  200  200  200
+GET /login/orcid/start                          303  303  303  303  303  303  303  303  303  303  303  303  303
+GET /login/orcid/callback                       400  400  400  400  400  400  400  400  400  400  400  400  400
 GET /signup                                     200  303  303  303  303  303  200  200  200  200  200  200  303
 GET /reset                                      200  200  200  200  200  200  200  200  200  200  200  200  200
 GET /seal                                       200  200  200  200  200  200  200  200  200  200  200  200  200
@@ -84,10 +87,12 @@ GET /api/v1/archive                             401  200  200  200  403  403  40
 GET /api/v1/tokens                              401  200  200  200  200  200  401  401  401  403  401  401  200
 # things that add
 POST /login?/login                              400  303  303  303  303  303  400  400  400  400  400  400  303
+POST /login/orcid?/link                         400  400  400  400  400  400  400  400  400  400  400  400  400
 POST /signup?/signup                            303  303  303  303  303  303  303  303  303  303  303  303  303
 POST /reset?/request                            303  303  303  303  303  303  303  303  303  303  303  303  303
 POST /seal?/bundle                              200  200  200  200  200  200  200  200  200  200  200  200  200
 POST /account?/resend                           L    303  303  303  303  303  L    L    L    L    L    L    303
+POST /account?/unlinkOrcid                      L    303  303  303  303  303  L    L    L    L    L    L    303
 POST /group/[id]?/invite                        L    404  403  303  404  404  L    L    L    L    L    L    404
 POST /claims/new?/create                        L    303  303  303  403  403  L    L    L    L    L    L    403
 POST /api/v1/claims                             401  201  201  201  403  403  401  401  401  201  401  401  403

@@ -78,7 +78,8 @@ export const ROOMY_RATE_LIMITS = JSON.stringify({
 	sealBundle: { points: 10000 },
 	sealLookup: { points: 100000 },
 	mailPerRecipient: { points: 10000 },
-	planSimulations: { points: 10000 }
+	planSimulations: { points: 10000 },
+	orcidSignIn: { points: 10000 }
 });
 
 export async function startApp(env: Record<string, string> = {}): Promise<AppServer> {

@@ -33,7 +33,8 @@ describe('database', () => {
 			'0016-dataset-calibration',
 			'0018-trials-claims',
 			'0020-target-claims',
-			'0021-certificate-dois'
+			'0021-certificate-dois',
+			'0022-orcid-ids'
 		]);
 	});
 

@@ -1,9 +1,8 @@
 /**
- * The DOI's creators and their ORCID iDs, against a real SQLite file: null while accounts have no
- * ORCID column (as now), the stored iD once one exists (as the ORCID sign-in work adds, 0022).
+ * The DOI's creators and their ORCID iDs, against a real SQLite file: null while an account has
+ * no iD linked, the linked iD once it has one (ORCID sign-in, migration 0022).
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { DataTypes } from 'sequelize';
 import { authorsOf, orcidOf } from '../../src/lib/server/certificates/doi-creators';
 import { addGroup, addUser } from './backend-fixtures';
 import { temporaryDatabase } from './db';
@@ -13,7 +12,7 @@ beforeAll(async () => (ctx = await temporaryDatabase()));
 afterAll(async () => ctx?.close());
 
 describe('creators of a certificate DOI', () => {
-	it('lists the claim creator first, then the group, and reads ORCID iDs only once a column exists', async () => {
+	it('lists the claim creator first, then the group, and reads each account’s linked ORCID iD', async () => {
 		const { database } = ctx;
 		const lake = await addGroup(database, 'Lake optics');
 		const lead = await addUser(database, 'Ada Lind', [[lake, 'lead']]);
@@ -25,17 +24,7 @@ describe('creators of a certificate DOI', () => {
 		]);
 		expect(await orcidOf(database, author)).toBeNull();
 
-		// What the ORCID work will add: a nullable column and the model attribute.
-		await database.sequelize.getQueryInterface().addColumn('users', 'orcid', {
-			type: DataTypes.STRING,
-			allowNull: true
-		});
-		const User = database.models.User as unknown as {
-			rawAttributes: Record<string, object>;
-			refreshAttributes(): void;
-		};
-		User.rawAttributes.orcid = { type: DataTypes.STRING, allowNull: true };
-		User.refreshAttributes();
+		// An iD linked to the account (ORCID sign-in, migration 0022) is named from then on.
 		await database.sequelize.query(`update users set orcid = '0000-0002-1825-0097' where id = ?`, {
 			replacements: [author]
 		});

@@ -18,6 +18,7 @@ import { sweepUploadFiles } from './services/upload-files';
 import { seedDemo } from './demo/seed';
 import { startDoiRunner, type DoiRunner } from './certificates/doi-runner';
 import { queueMissingDois } from './certificates/doi-backfill';
+import { startOrcid, type OrcidService } from './accounts/orcid-settings';
 
 export interface AppServices {
 	database: Database;
@@ -29,6 +30,8 @@ export interface AppServices {
 	mailRunner: MailRunner;
 	/** Registers certificate DOIs in the background (and the local fake registry). */
 	doiRunner: DoiRunner;
+	/** Sign in with ORCID: the real provider (ORCID_ISSUER) or the local fake one. */
+	orcid: OrcidService;
 }
 
 let services: Promise<AppServices> | null = null;
@@ -59,6 +62,7 @@ export function app(): Promise<AppServices> {
 		// Certificates issued before DOIs existed get theirs; the runner registers them.
 		await queueMissingDois(database);
 		const doiRunner = await startDoiRunner(database);
+		const orcid = await startOrcid(config().origin);
 		// Checks left queued or running by an earlier process resume now.
 		await startCheckRunner(database);
 		if (config().demo) console.log(`Demo scenario: ${await seedDemo(database, mail.mailer)}`);
@@ -66,7 +70,7 @@ export function app(): Promise<AppServices> {
 		process.once('SIGINT', beginStop);
 		// adapter-node emits this once the HTTP server has closed (SIGINT, SIGTERM).
 		process.once('sveltekit:shutdown' as 'beforeExit', () => void shutDown());
-		return { database, lucia, ...mail, doiRunner };
+		return { database, lucia, ...mail, doiRunner, orcid };
 	})();
 	return services;
 }
@@ -81,7 +85,11 @@ export async function stopApp(): Promise<void> {
 	services = null;
 	await Promise.all([current.mailRunner.stop(2000), current.doiRunner.stop(2000)]);
 	current.mailer.close();
-	await Promise.all([current.mailCatcher?.close(), abortCheckRunner(current.database)]);
+	await Promise.all([
+		current.mailCatcher?.close(),
+		current.orcid.fake?.close(),
+		abortCheckRunner(current.database)
+	]);
 	await closeDb();
 }
 

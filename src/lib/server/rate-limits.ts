@@ -53,6 +53,8 @@ export const RATE_LIMITS = {
 	sealLookup: { kind: 'window', points: 120, windowSeconds: 60 },
 	/** Planner answers with simulated counts (seconds of work each), per client address. */
 	planSimulations: { kind: 'window', points: 30, windowSeconds: 3600 },
+	/** ORCID sign-in starts and callbacks, per client address (each asks the provider). */
+	orcidSignIn: { kind: 'window', points: 40, windowSeconds: 600 },
 	/** Mails written to one recipient; enforced by the outbox (services/mail-queue.ts). */
 	mailPerRecipient: { kind: 'window', points: 20, windowSeconds: 3600 }
 } as const satisfies Record<string, WindowRule | LadderRule>;

@@ -21,6 +21,7 @@ import { createToken } from '../services/tokens';
 import { seedReview } from './review-seed';
 import { certifyDemoClaims } from './certify-demo';
 import { DEMO_CLAIMS, DEMO_GROUP, DEMO_PEOPLE, demoCountsCsv } from './scenario';
+import { DEMO_ORCID_PEOPLE } from './orcid-people';
 
 export const demoTokenFile = () => path.join(config().dataDir, 'demo', 'api-token.txt');
 
@@ -35,8 +36,9 @@ async function seedPeople(database: Database): Promise<Map<string, string>> {
 			ids.set(person.key, id);
 			const passwordHash = await hashPassword(person.password);
 			const { name, email, accountRole } = person;
+			const orcid = DEMO_ORCID_PEOPLE.find((p) => p.linkedTo === person.key)?.orcid ?? null;
 			await User.create(
-				{ id, name, email, passwordHash, accountRole, emailVerifiedAt: new Date() },
+				{ id, name, email, passwordHash, accountRole, emailVerifiedAt: new Date(), orcid },
 				{ transaction }
 			);
 			if (person.groupRole)

@@ -6,6 +6,7 @@
 import PDFDocument from 'pdfkit';
 import { visibility } from '../../components/rounding';
 import { dateTimeInWords } from '../../dates';
+import { orcidUrl } from '../../orcid-id';
 import type { EvidenceManifest } from '../../evidence/manifest';
 import { drawAnalyses } from './pdf-analyses';
 import { attachEvidence, PDFA_OPTIONS } from './pdf-attachments';
@@ -24,6 +25,8 @@ export interface CertificateContext {
 	sourceDescription: string;
 	countsFileName: string;
 	coincidencesPerBasis: { basis: number; total: number }[];
+	/** Authors with an ORCID iD linked at issue (sign in with ORCID); shown under the authors. */
+	orcids?: { name: string; orcid: string }[];
 }
 
 export interface PdfInput {
@@ -73,6 +76,8 @@ function claimBlock(doc: Doc, m: EvidenceManifest, context: CertificateContext) 
 	field(doc, 'Title', m.claim.title);
 	field(doc, 'Group', context.group);
 	field(doc, 'Authors', authorsText(context.authors));
+	if (context.orcids?.length)
+		field(doc, 'ORCID iDs', context.orcids.map((a) => `${a.name} ${orcidUrl(a.orcid)}`).join('; '));
 	field(doc, 'Source', clip(context.sourceDescription, SOURCE_LIMIT));
 	field(
 		doc,

@@ -17,6 +17,7 @@ import {
 	type CertificateView,
 	type PublicCertificate
 } from './certificate-views';
+import { certificateAuthors, type CertificateAuthor } from '../certificates/certificate-authors';
 import type { Actor } from '../access/actor';
 import { decideClaim, requireClaim, type ClaimAction } from '../access/permissions';
 import { NotFoundError } from './errors';
@@ -43,9 +44,9 @@ export async function getCertificate(
 	database: Database,
 	caller: Actor,
 	id: string
-): Promise<CertificateView> {
-	const certificate = await visibleCertificate(database, caller, id);
-	return certificateView(certificate, await doiOf(database, id));
+): Promise<CertificateView & { authors: CertificateAuthor[] }> {
+	const row = await visibleCertificate(database, caller, id);
+	return { ...certificateView(row, await doiOf(database, id)), authors: await certificateAuthors(database, row.claimId) };
 }
 
 /** The claim's certificates, newest first. */
@@ -102,6 +103,8 @@ export type Lookup =
 	| (PublicCertificate & {
 			status: PublicCertificate['status'];
 			withdrawal: { reason: string; at: string } | null;
+			/** The authors with their ORCID iDs (sign in with ORCID). */
+			authors: CertificateAuthor[];
 	  });
 
 /** Public: a certificate by id or by fingerprint. */
@@ -118,8 +121,8 @@ export async function lookupCertificate(
 	const certificate = row.get({ plain: true });
 	const withdrawal =
 		certificate.status === 'withdrawn' ? await withdrawalOf(database, certificate.id) : null;
-	const doi = await doiOf(database, certificate.id);
-	return { ...publicCertificate(certificate, doi), withdrawal };
+	const authors = await certificateAuthors(database, certificate.claimId);
+	return { ...publicCertificate(certificate, await doiOf(database, certificate.id)), withdrawal, authors };
 }
 
 /**

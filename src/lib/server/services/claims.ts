@@ -45,7 +45,8 @@ export interface ClaimView {
 	trials: { mode: 'trials' | 'blocks'; probabilities: number[] | null } | null;
 	/** fidelity-target: the declared λ (Σλ² = 1) and, when the service scaled it, λ as declared. */
 	target: { coefficients: number[]; declared: number[] | null } | null;
-	createdBy: { id: string; name: string };
+	/** orcid: the ORCID iD linked to the author's account, or null (sign in with ORCID). */
+	createdBy: { id: string; name: string; orcid: string | null };
 	createdAt: string;
 	updatedAt: string;
 	latestCheck: LatestCheck | null;
@@ -70,7 +71,7 @@ async function claimViews(database: Database, claims: ClaimAttributes[]): Promis
 		Group.findAll({ where: { id: [...new Set(claims.map((c) => c.groupId))] } }),
 		User.findAll({
 			where: { id: [...new Set(claims.map((c) => c.createdBy))] },
-			attributes: ['id', 'name']
+			attributes: ['id', 'name', 'orcid']
 		}),
 		// Referee re-runs are the referee's: never shown as the authors' newest check.
 		Check.findAll({
@@ -83,6 +84,9 @@ async function claimViews(database: Database, claims: ClaimAttributes[]): Promis
 	]);
 	const groupName = new Map(groups.map((g) => [g.get('id') as string, g.get('name') as string]));
 	const userName = new Map(users.map((u) => [u.get('id') as string, u.get('name') as string]));
+	const userOrcid = new Map(
+		users.map((u) => [u.get('id') as string, (u.get('orcid') as string | null) ?? null])
+	);
 	const latest = new Map<string, LatestCheck>();
 	for (const row of checks) {
 		const check = row.get({ plain: true });
@@ -112,7 +116,11 @@ async function claimViews(database: Database, claims: ClaimAttributes[]): Promis
 			? { mode: c.trialsMode, probabilities: c.trialsProbabilities ?? null }
 			: null,
 		target: c.target ? { coefficients: c.target, declared: c.targetDeclared ?? null } : null,
-		createdBy: { id: c.createdBy, name: userName.get(c.createdBy) ?? '' },
+		createdBy: {
+			id: c.createdBy,
+			name: userName.get(c.createdBy) ?? '',
+			orcid: userOrcid.get(c.createdBy) ?? null
+		},
 		createdAt: iso(c.createdAt),
 		updatedAt: iso(c.updatedAt),
 		latestCheck: latest.get(c.id) ?? null

@@ -1,11 +1,17 @@
 import { redirect } from '@sveltejs/kit';
+import { orcidForAccount, unlinkOrcid } from '$lib/server/accounts/orcid-links';
 import { app } from '$lib/server/app';
 import { clearSessionCookie, formRefusal, requireSignedIn } from '$lib/server/auth-web';
 import { takeOrRefuse } from '$lib/server/rate-limits';
 import { resendVerification, signOut, signOutEverywhere } from '$lib/server/services/accounts';
 import type { Actions, PageServerLoad } from './$types';
 
-export const load: PageServerLoad = ({ url }) => ({ sent: url.searchParams.has('sent') });
+export const load: PageServerLoad = async ({ url, locals }) => {
+	const { database } = await app();
+	const orcid = locals.user ? await orcidForAccount(database, locals.user.id) : null;
+	const orcidNotice = url.searchParams.get('orcid');
+	return { sent: url.searchParams.has('sent'), orcid, orcidNotice };
+};
 
 export const actions: Actions = {
 	resend: async (event) => {
@@ -19,6 +25,12 @@ export const actions: Actions = {
 			return formRefusal(event, 'resend', problem);
 		}
 		redirect(303, '/account?sent=1');
+	},
+	unlinkOrcid: async (event) => {
+		const actor = requireSignedIn(event.locals, event.url);
+		const { database } = await app();
+		await unlinkOrcid(database, actor);
+		redirect(303, '/account?orcid=unlinked');
 	},
 	signout: async ({ locals, cookies }) => {
 		const { lucia } = await app();

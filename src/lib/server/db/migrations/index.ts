@@ -17,6 +17,7 @@ import * as datasetCalibration from './0016-dataset-calibration';
 import * as trialsClaims from './0018-trials-claims';
 import * as targetClaims from './0020-target-claims';
 import * as certificateDois from './0021-certificate-dois';
+import * as orcidIds from './0022-orcid-ids';
 
 export const migrations = [
 	{ name: '0001-initial', ...initial },
@@ -36,5 +37,6 @@ export const migrations = [
 	{ name: '0016-dataset-calibration', ...datasetCalibration },
 	{ name: '0018-trials-claims', ...trialsClaims },
 	{ name: '0020-target-claims', ...targetClaims },
-	{ name: '0021-certificate-dois', ...certificateDois }
+	{ name: '0021-certificate-dois', ...certificateDois },
+	{ name: '0022-orcid-ids', ...orcidIds }
 ];

@@ -10,6 +10,8 @@ export interface UserAttributes {
 	passwordHash: string;
 	accountRole: AccountRole;
 	emailVerifiedAt: Date | null;
+	/** ORCID iD as 0000-0002-1825-0097, linked only after a password sign-in (migration 0022). */
+	orcid?: string | null;
 	createdAt?: Date;
 	updatedAt?: Date;
 }
@@ -27,7 +29,8 @@ export function defineUser(sequelize: Sequelize): UserModel {
 			name: { type: DataTypes.STRING, allowNull: false },
 			passwordHash: { type: DataTypes.STRING, allowNull: false },
 			accountRole: { type: DataTypes.STRING, allowNull: false, defaultValue: 'researcher' },
-			emailVerifiedAt: { type: DataTypes.DATE, allowNull: true }
+			emailVerifiedAt: { type: DataTypes.DATE, allowNull: true },
+			orcid: { type: DataTypes.STRING, allowNull: true, unique: true }
 		},
 		{ tableName: 'users', underscored: true }
 	);

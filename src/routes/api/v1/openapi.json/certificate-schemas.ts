@@ -132,3 +132,17 @@ export const certificateSchemas = {
 		pageSize: { type: 'integer' }
 	})
 };
+
+// Sign in with ORCID: GET /certificates/{id} also names the authors with their ORCID iDs
+// (optional, so the lists and the issue answer, which leave it out, still match).
+Object.assign(certificateSchemas.Certificate.properties, {
+	authors: {
+		type: 'array',
+		description:
+			"The claim's authors as the PDF names them (its creator first), each with the ORCID iD linked to their account now.",
+		items: object({
+			name: text,
+			orcid: nullable({ ...text, pattern: '^\\d{4}-\\d{4}-\\d{4}-\\d{3}[\\dX]$' })
+		})
+	}
+});

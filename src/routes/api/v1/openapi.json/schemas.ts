@@ -139,7 +139,10 @@ export const schemas = {
 					'Why and when the claim was withdrawn; it then takes no new counts, checks or certificates (409).',
 				properties: { reason: text, at: timestamp }
 			}),
-			createdBy: { type: 'object', properties: { id: text, name: text } },
+			createdBy: {
+				type: 'object',
+				properties: { id: text, name: text, orcid: { anyOf: [text, { type: 'null' }] } }
+			},
 			createdAt: timestamp,
 			updatedAt: timestamp,
 			latestCheck: nullable({
