@@ -27,6 +27,8 @@ import {
 	type EvidenceManifest
 } from './manifest';
 import { keyIdOf, readHexLine, verifyText } from './signing';
+import { isTrialsManifest, type TrialsManifest } from './trials-evidence';
+import { checkTrialsCounts, checkTrialsRerun, TrialsFailure } from './verify-trials';
 
 export interface VerificationReport {
 	valid: boolean;
@@ -164,6 +166,7 @@ function checkCheckpoint(s: State) {
 
 function checkCounts(s: State) {
 	const m = s.manifest!;
+	if (isTrialsManifest(m)) return checkTrialsParts(s, m);
 	const name = uploadedCountsName(m.counts.uploadedFormat);
 	const uploaded = s.files[name];
 	if (!uploaded) throw new Failure(name, 'the file is missing');
@@ -186,6 +189,16 @@ function checkCounts(s: State) {
 		throw new Failure(BUNDLE_FILES.canonicalCounts, 'it does not hold the uploaded counts');
 	s.passed.push(BUNDLE_FILES.canonicalCounts);
 	checkCalibration(s);
+	if (text(s.files, BUNDLE_FILES.result) !== canonicalJson(m.result))
+		throw new Failure(BUNDLE_FILES.result, 'it differs from the result in the manifest');
+	s.passed.push(BUNDLE_FILES.result);
+}
+
+/** Time-ordered trials (verify-trials.ts): the file, the summed counts and result.json. */
+function checkTrialsParts(s: State, m: TrialsManifest) {
+	s.passed.push(...checkTrialsCounts(s.files, m, text(s.files, BUNDLE_FILES.canonicalCounts)));
+	if (s.files[CALIBRATION_FILE] || m.calibration)
+		throw new Failure(CALIBRATION_FILE, 'a time-ordered certificate uses no calibration');
 	if (text(s.files, BUNDLE_FILES.result) !== canonicalJson(m.result))
 		throw new Failure(BUNDLE_FILES.result, 'it differs from the result in the manifest');
 	s.passed.push(BUNDLE_FILES.result);
@@ -222,6 +235,11 @@ function checkCalibration(s: State) {
 
 function checkRerun(s: State) {
 	const m = s.manifest!;
+	if (isTrialsManifest(m)) {
+		checkTrialsRerun(s.files, m);
+		s.passed.push('re-run');
+		return;
+	}
 	if (m.engineVersion !== ENGINE_VERSION || m.result.engine?.version !== ENGINE_VERSION)
 		throw new Failure(
 			'engine version',
@@ -271,7 +289,8 @@ export function verifyEvidence(
 		checkAnalyses(s);
 		checkRerun(s);
 	} catch (error) {
-		if (error instanceof Failure) return report(error.item, error.message);
+		if (error instanceof Failure || error instanceof TrialsFailure)
+			return report(error.item, error.message);
 		return report('bundle', `cannot be checked: ${(error as Error).message}`);
 	}
 	return report(null, 'every hash, both signatures and the re-run agree');

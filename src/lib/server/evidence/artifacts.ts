@@ -103,6 +103,10 @@ function countsParts(input: EvidenceInput) {
 	return { canonical, counts, perBasis };
 }
 
+/** The uploaded file's name in the bundle: counts, or time-ordered trials (trials-evidence.ts). */
+const uploadedName = (m: Pick<EvidenceManifest, 'trials' | 'counts'>) =>
+	m.trials?.uploadedName ?? uploadedCountsName(m.counts.uploadedFormat);
+
 function readmeText(manifest: EvidenceManifest, fingerprint: string, urls: EvidenceUrls) {
 	return fillPlaceholders(readmeSource, {
 		certificateId: manifest.certificateId,
@@ -110,7 +114,7 @@ function readmeText(manifest: EvidenceManifest, fingerprint: string, urls: Evide
 		keyId: manifest.signingKeyId,
 		keysUrl: urls.keys,
 		verifyUrl: urls.verify,
-		uploadedName: uploadedCountsName(manifest.counts.uploadedFormat).padEnd(22)
+		uploadedName: uploadedName(manifest).padEnd(22)
 	});
 }
 
@@ -169,7 +173,7 @@ export async function makeEvidence(
 		context: { ...(context ?? UNKNOWN_CONTEXT), coincidencesPerBasis: perBasis }
 	});
 	const files: EvidenceFiles = {
-		[uploadedCountsName(uploadedFormat)]: uploaded,
+		[uploadedName(manifest)]: uploaded,
 		[BUNDLE_FILES.canonicalCounts]: utf8(canonical),
 		...(calibration ? { [CALIBRATION_FILE]: calibration } : {}),
 		[BUNDLE_FILES.manifest]: utf8(text),
