@@ -30,7 +30,11 @@ import { getCheck, listChecks, startCheck } from '../../src/lib/server/services/
 import { createClaim } from '../../src/lib/server/services/claims';
 import { addDataset } from '../../src/lib/server/services/datasets';
 import { ConflictError } from '../../src/lib/server/services/errors';
-import { startRefereeCheck } from '../../src/lib/server/services/referee';
+import {
+	refereeCheck,
+	refereeView,
+	startRefereeCheck
+} from '../../src/lib/server/services/referee';
 import { createReviewLink } from '../../src/lib/server/services/review-links';
 import { refereeFor } from '../../src/lib/server/services/review-use';
 import { shareClaim } from '../../src/lib/server/services/shares';
@@ -241,7 +245,6 @@ describe('a referee re-runs a trials claim from a review link', () => {
 		const { database } = world;
 		const started = await startRefereeCheck(database, referee, {});
 		await idle();
-		const { refereeCheck } = await import('../../src/lib/server/services/referee');
 		const rerun = await refereeCheck(database, referee, started.id);
 		expect(rerun.status).toBe('done');
 		expect(rerun.comparison).toEqual({
@@ -250,6 +253,10 @@ describe('a referee re-runs a trials claim from a review link', () => {
 			withinError: true,
 			firstDifference: null
 		});
+		// The review page's data: the certificate's kind, and the trials summed into two tables.
+		const view = await refereeView(database, referee);
+		expect(view.certificate.kind).toBe('time-ordered-trials');
+		expect(view.tables.map((t) => t.basis)).toEqual([0, 1]);
 		const listed = (await listChecks(database, asUser(author), claimId)).map((c) => c.id);
 		expect(listed).not.toContain(started.id);
 		await expect(
