@@ -264,3 +264,27 @@ describe('a referee re-runs a trials claim from a review link', () => {
 		).rejects.toBeInstanceOf(ConflictError);
 	});
 });
+
+describe('a trials certificate when the file was analysed more than once', () => {
+	it('states the Bonferroni-corrected level (docs/statistics.md §8), re-run at it, and still verifies', async () => {
+		const { database } = world;
+		const other = await startCheck(database, asUser(author), claimId, { confidence: 0.999 });
+		await idle();
+		expect((await getCheck(database, asUser(author), other.id)).status).toBe('done');
+		const check = await getCheck(database, asUser(author), checkId);
+		const issued = await issueCertificate(database, asUser(author), claimId, checkId);
+		const bundle = await readZip(
+			(await certificateFile(database, asUser(author), issued.id, 'bundle')).bytes
+		);
+		const m = JSON.parse(decode(bundle[BUNDLE_FILES.manifest])) as TrialsManifest;
+		// Bonferroni over the two distinct analyses: α/2 (Dunn, J. Am. Stat. Assoc. 56, 52 (1961), from memory).
+		const corrected = 1 - (1 - check.confidence) / 2;
+		expect(m.analyses?.total).toBe(2);
+		expect(m.parameters.confidence).toBeCloseTo(corrected, 12);
+		expect(m.result.confidence).toBe(m.parameters.confidence);
+		expect(m.result.alpha).toBeCloseTo((1 - check.confidence) / 2, 12);
+		const recorded = check.result as unknown as TrialsResult;
+		expect(m.result.rungs.map((r) => r.log10P)).toEqual(recorded.rungs.map((r) => r.log10P));
+		expect(verifyEvidence(bundle)).toMatchObject({ valid: true });
+	});
+});
