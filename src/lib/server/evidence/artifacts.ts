@@ -26,6 +26,7 @@ import {
 import { signText, type SigningKey } from '../../evidence/signing';
 import { fillPlaceholders } from '../templates';
 import { certificatePdf, type CertificateContext } from './pdf';
+import { trialsCountsParts } from './trials-parts';
 import { verifierBytes } from './verifier-file';
 import { zipFiles } from './zip-write';
 
@@ -137,7 +138,9 @@ export async function makeEvidence(
 	published: { keys: { id: string }[] },
 	checkpoint?: LedgerCheckpoint
 ): Promise<Evidence> {
-	const { canonical, counts, perBasis } = countsParts(input);
+	const { canonical, counts, perBasis } = input.trials
+		? trialsCountsParts({ ...input, trials: input.trials })
+		: countsParts(input);
 	const {
 		uploaded,
 		uploadedFormat,
