@@ -5,10 +5,10 @@
  * the summed counts as they were and changes only the bets, so only the re-run can see it.
  */
 import { execFileSync } from 'node:child_process';
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
-import { beforeAll, describe, expect, it, vi } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { certifyTrials, mulberry32, parseTrials } from '../../src/lib/certify/trials';
 import { canonicalJson } from '../../src/lib/evidence/canonical';
 import { sha256Hex } from '../../src/lib/evidence/hash';
@@ -82,6 +82,8 @@ beforeAll(async () => {
 	const urls = { verify: 'https://rankseal.test/seal/x', keys: 'https://rankseal.test/keys' };
 	evidence = await makeEvidence(input, serviceKey(), urls, { keys: publishedKeys() });
 });
+
+afterAll(() => rmSync(folder, { recursive: true, force: true }));
 
 describe('evidence of a blocks-mode trials certificate from a plain file', () => {
 	it('carries the file as uploaded, the blocks condition, and verifies', () => {

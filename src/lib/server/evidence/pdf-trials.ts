@@ -25,6 +25,14 @@ export function trialsKindLine(doc: Doc): void {
 	paragraph(doc, KIND, 9.5, ACCENT);
 }
 
+/** The randomness check in words: its tests and level, and the reason when it failed. */
+function settingsWords(r: TrialsResult): string {
+	const s = r.settings;
+	const p = (x: number | null) => (x === null ? 'not computed' : num(x, 3));
+	const tests = `frequency test p = ${p(s.frequencyP)}, runs test p = ${p(s.runsP)}, each at level ${s.level}`;
+	return s.passed ? `passed (${tests})` : `FAILED, nothing certified: ${s.message} (${tests})`;
+}
+
 const settingsLine = (r: TrialsResult) =>
 	r.bases.map((b, i) => `basis ${b}: ${num(r.probabilities[i], 4)}`).join('; ');
 
@@ -48,11 +56,7 @@ export function trialsResultBlock(doc: Doc, m: TrialsManifest, countsFileName: s
 		r.mode === 'blocks' ? `one setting per block (${r.blocks} blocks)` : 'one setting per trial'
 	);
 	field(doc, 'Setting probabilities', settingsLine(r));
-	field(
-		doc,
-		'Settings randomness check',
-		`${r.settings.passed ? 'passed' : 'FAILED'}: ${r.settings.message}`
-	);
+	field(doc, 'Settings randomness check', settingsWords(r));
 	field(doc, 'Trials', `${r.trials.toLocaleString('en')} coincidences in time order`);
 	const how = m.trials.gzip ? 'gzip-compressed CSV' : 'CSV';
 	field(
@@ -74,14 +78,14 @@ function rungRows(doc: Doc, r: TrialsResult): void {
 				doc,
 				cell,
 				bold ? 'bold' : 'regular',
-				{ width: 150, lineBreak: false },
+				{ width: 115, lineBreak: false },
 				{ x: x + i * 120, y }
 			)
 		);
 		doc.x = x;
 		doc.y = y + 12;
 	};
-	row(['null H_r: Schmidt number ≤ r', 'B_r / m', 'p_r', 'rejected at α'], true);
+	row(['rung r (null: SN ≤ r)', 'B_r / m', 'p_r', 'rejected at α'], true);
 	for (const rung of r.rungs.slice(first, first + SHOWN))
 		row([String(rung.rung), num(rung.nullMean, 5), pText(rung), rung.p <= r.alpha ? 'yes' : 'no']);
 }
