@@ -8,10 +8,10 @@ import type { TrialsData } from '../certify/trials';
 import { isGzip, plainTrialsBytes } from '../certify/trials/inflate';
 import { parseTrials } from '../certify/trials/parse';
 import { rerunTrials } from '../certify/trials/recheck';
-import { jsonRoundTrip } from './canonical';
+import { canonicalJson, jsonRoundTrip } from './canonical';
 import { firstDifference } from './compare';
 import { sha256Hex } from './hash';
-import { BUNDLE_FILES, type EvidenceFiles } from './layout';
+import { BUNDLE_FILES, CALIBRATION_FILE, type EvidenceFiles } from './layout';
 import { trialsCountsText, trialsUploadedName, type TrialsManifest } from './trials-evidence';
 
 /** The item that failed and why; verify.ts reports it as any other failure. */
@@ -48,10 +48,15 @@ function readTrials(name: string, bytes: Uint8Array, m: TrialsManifest): TrialsD
 	}
 }
 
-/** The file and the summed counts; returns the items that passed, in order. */
-export function checkTrialsCounts(files: EvidenceFiles, m: TrialsManifest, canonical: string) {
+/** The file, the summed counts and result.json; returns the items that passed, in order. */
+export function checkTrialsCounts(
+	files: EvidenceFiles,
+	m: TrialsManifest,
+	text: (name: string) => string
+): string[] {
 	const { name, bytes } = trialsFile(files, m);
 	const passed = [`${name} (manifest hash)`];
+	const canonical = text(BUNDLE_FILES.canonicalCounts);
 	if (sha256Hex(canonical) !== m.counts.canonicalSha256)
 		throw new TrialsFailure(BUNDLE_FILES.canonicalCounts, 'its SHA-256 differs from the manifest');
 	if (canonical !== trialsCountsText(readTrials(name, bytes, m), m.result.bases))
@@ -60,6 +65,11 @@ export function checkTrialsCounts(files: EvidenceFiles, m: TrialsManifest, canon
 			'it does not hold the uploaded trials summed'
 		);
 	passed.push(BUNDLE_FILES.canonicalCounts);
+	if (files[CALIBRATION_FILE] || m.calibration)
+		throw new TrialsFailure(CALIBRATION_FILE, 'a time-ordered certificate uses no calibration');
+	if (text(BUNDLE_FILES.result) !== canonicalJson(m.result))
+		throw new TrialsFailure(BUNDLE_FILES.result, 'it differs from the result in the manifest');
+	passed.push(BUNDLE_FILES.result);
 	return passed;
 }
 
