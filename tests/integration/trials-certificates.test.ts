@@ -41,7 +41,7 @@ import { shareClaim } from '../../src/lib/server/services/shares';
 import { asUser } from './actors';
 import { addGroup, addUser, bytesOf, claimFields } from './backend-fixtures';
 import { forgeBundle } from './forgery';
-import { mailWorld, type MailWorld } from './mail-world';
+import { mailTo, mailWorld, type MailWorld } from './mail-world';
 
 // Safety limits for bundling, checks and Node child processes on a busy machine, not speed checks.
 vi.setConfig({ testTimeout: 900_000, hookTimeout: 900_000 });
@@ -154,6 +154,14 @@ describe('a certificate from time-ordered trials', () => {
 		expect(text).toMatch(/aGRAPA/);
 		expect(text).toMatch(/Settings randomness check: passed/);
 		expect(text).toMatch(/p-values per rung/);
+	});
+
+	it('tells the author by mail that it is from time-ordered trials', async () => {
+		const email = (await world.database.models.User.findByPk(author))!.get('email') as string;
+		const mail = (await mailTo(world, email)).find((m) => m.text.includes(certificate.fingerprint));
+		expect(mail?.text.replace(/\s+/g, ' ')).toMatch(
+			/from time-ordered trials, without the i\.i\.d\. assumption/
+		);
 	});
 
 	it('/seal shows the kind and the assumption', async () => {
