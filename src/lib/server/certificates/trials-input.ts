@@ -25,10 +25,18 @@ export interface TrialsSource {
 	uploaded: Uint8Array;
 }
 
-/** The recorded result re-run on the worker at `confidence`, with the summed counts' text. */
-function rerunAt(runner: CheckQueue, claim: ClaimAttributes, source: TrialsSource, level: number) {
+/** The Fourier convention the check ran with: its i.i.d. comparison's, else the claim's. */
+const fourierOf = (result: TrialsResult, claim: ClaimAttributes) =>
+	'error' in result.iid ? claim.fourier : result.iid.fourier;
+
+/** The recorded result re-run on the worker at `level`, with the summed counts' text. */
+async function rerunAt(
+	runner: CheckQueue,
+	claim: ClaimAttributes,
+	source: TrialsSource,
+	level: number
+) {
 	const recorded = source.check.result as unknown as TrialsResult;
-	const fourier = 'error' in recorded.iid ? claim.fourier : recorded.iid.fourier;
 	const task = {
 		bytes: source.uploaded,
 		dimension: recorded.dimension,
@@ -36,11 +44,18 @@ function rerunAt(runner: CheckQueue, claim: ClaimAttributes, source: TrialsSourc
 		method: recorded.method,
 		bases: recorded.bases,
 		probabilities: recorded.probabilities,
-		fourier,
+		fourier: fourierOf(recorded, claim),
 		confidence: level,
 		inputSha256: source.dataset.sha256
 	};
-	return runner.trialsEvidence(task, `issue:${claim.groupId}`);
+	try {
+		return await runner.trialsEvidence(task, `issue:${claim.groupId}`);
+	} catch (error) {
+		// As for counts (certificate-analyses.ts): a refusal by the engine is the check's, not a fault.
+		throw new ConflictError(
+			`This check cannot be certified at confidence ${level}: the engine refused it (${(error as Error).message})`
+		);
+	}
 }
 
 /** The result the certificate states; a check whose record no longer re-runs is refused. */
@@ -82,7 +97,7 @@ export async function trialsEvidenceInput(
 		claim,
 		source
 	);
-	const fourier = 'error' in result.iid ? claim.fourier : result.iid.fourier;
+	const fourier = fourierOf(result, claim);
 	const input = {
 		...ids,
 		issuedAt: new Date().toISOString(),
