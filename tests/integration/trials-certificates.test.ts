@@ -9,6 +9,7 @@ import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { gunzipSync, gzipSync } from 'node:zlib';
+import { render } from 'svelte/server';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { isotropicTrialsCsv, type TrialsResult } from '../../src/lib/certify/trials';
 import { canonicalJson } from '../../src/lib/evidence/canonical';
@@ -40,6 +41,8 @@ import { refereeFor } from '../../src/lib/server/services/review-use';
 import { shareClaim } from '../../src/lib/server/services/shares';
 import { asUser } from './actors';
 import { addGroup, addUser, bytesOf, claimFields } from './backend-fixtures';
+import ReRuns from '../../src/routes/review/[token]/ReRuns.svelte';
+import SealRecord from '../../src/routes/seal/SealRecord.svelte';
 import { forgeBundle } from './forgery';
 import { mailTo, mailWorld, type MailWorld } from './mail-world';
 
@@ -172,6 +175,12 @@ describe('a certificate from time-ordered trials', () => {
 			backgroundSubtracted: false
 		});
 		expect('assumption' in record && record.assumption).toMatch(/independently of the source/);
+		// The /seal record as the server renders it.
+		const { body } = render(SealRecord, { props: { lookup: record } });
+		expect(body).toMatch(
+			/data-testid="seal-kind"[^>]*>\s*Time-ordered trials \(test supermartingale\)/
+		);
+		expect(body).toContain('time-ordered trials');
 	});
 
 	it('verifies offline: the bundle’s own verify.mjs and `npm run verify` re-run the supermartingale from the gzip file', () => {
@@ -265,6 +274,12 @@ describe('a referee re-runs a trials claim from a review link', () => {
 		const view = await refereeView(database, referee);
 		expect(view.certificate.kind).toBe('time-ordered-trials');
 		expect(view.tables.map((t) => t.basis)).toEqual([0, 1]);
+		// The review page's list of re-runs, rendered as the server renders it (no bound to move).
+		const { body } = render(ReRuns, {
+			props: { recordedSeed: 1, certifiedLower: null, checks: [rerun], cancellable: [], form: null }
+		});
+		expect(body).toContain('Identical to the certificate, number for number.');
+		expect(body).toMatch(/data-testid="rerun-schmidt">\d+</);
 		const listed = (await listChecks(database, asUser(author), claimId)).map((c) => c.id);
 		expect(listed).not.toContain(started.id);
 		await expect(
