@@ -93,6 +93,10 @@ describe('evidence of a blocks-mode trials certificate from a plain file', () =>
 		expect(m.result.blocks).toBe(200);
 		expect(decode(evidence.files['trials-uploaded.csv'])).toBe(rows.join('\n') + '\n');
 		expect(evidence.files).not.toHaveProperty('counts-uploaded.csv');
+		const readme = decode(evidence.files[BUNDLE_FILES.readme]).replace(/\s+/g, ' ');
+		expect(readme).toContain('A certificate from time-ordered trials (a test supermartingale)');
+		expect(readme).toContain('trials-uploaded.csv is the trials file exactly as uploaded');
+		expect(readme).toMatch(/during a block/);
 		expect(verifyEvidence(evidence.files)).toMatchObject({ valid: true, failedItem: null });
 	});
 

@@ -27,6 +27,7 @@ import { signText, type SigningKey } from '../../evidence/signing';
 import { fillPlaceholders } from '../templates';
 import { certificatePdf, type CertificateContext } from './pdf';
 import { trialsCountsParts } from './trials-parts';
+import { trialsReadmeNote } from './trials-readme';
 import { verifierBytes } from './verifier-file';
 import { zipFiles } from './zip-write';
 
@@ -109,7 +110,7 @@ const uploadedName = (m: Pick<EvidenceManifest, 'trials' | 'counts'>) =>
 	m.trials?.uploadedName ?? uploadedCountsName(m.counts.uploadedFormat);
 
 function readmeText(manifest: EvidenceManifest, fingerprint: string, urls: EvidenceUrls) {
-	return fillPlaceholders(readmeSource, {
+	const filled = fillPlaceholders(readmeSource, {
 		certificateId: manifest.certificateId,
 		fingerprint,
 		keyId: manifest.signingKeyId,
@@ -117,6 +118,7 @@ function readmeText(manifest: EvidenceManifest, fingerprint: string, urls: Evide
 		verifyUrl: urls.verify,
 		uploadedName: uploadedName(manifest).padEnd(22)
 	});
+	return filled + trialsReadmeNote(manifest);
 }
 
 /** Adds the signed list of every file's SHA-256 (contents.json, contents.sig). */
