@@ -13,13 +13,13 @@
  */
 import { spawnSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { availableParallelism, loadavg, tmpdir } from 'node:os';
 import path from 'node:path';
 import { performance } from 'node:perf_hooks';
 import { ENGINE_VERSION, sampledCounts, states, toCountsCsv } from '../src/lib/certify';
 import { issueTimes } from './bench-issue';
 import { LARGE_DIMENSIONS, largeRows } from './bench-large';
-import { TRIALS_BENCH, trialsBenchArgs } from './bench-trials';
+import { TRIALS_BENCH, trialsBenchArgs, trialsTargetCells } from './bench-trials';
 
 const RESAMPLES = 10_000;
 /** Runs per median: ours, and numpy by dimension (its d = 127 runs take about 30 s each). */
@@ -144,12 +144,18 @@ for (const t of await issueTimes([...DIMENSIONS, ...LARGE_DIMENSIONS], RESAMPLES
 }
 const trialsArgs = trialsBenchArgs(folder);
 const trials = medianOf(3, () => timed(process.execPath, trialsArgs));
+// Parse, supermartingale, ladder and the i.i.d. comparison, measured in this run against 10 s.
+const trialsTarget = trialsTargetCells(trials.wall);
 rows.push([
 	String(TRIALS_BENCH.d),
-	`time-ordered check, ${TRIALS_BENCH.trials.toExponential(0)} trials (whole process)`,
+	`time-ordered check, ${TRIALS_BENCH.trials.toExponential(0)} trials (whole process; load average ${loadavg()[0].toFixed(1)} on ${availableParallelism()} cores)`,
 	f(trials.wall),
 	f(trials.cpu),
-	...blank(6)
+	...blank(2),
+	trialsTarget.ratio,
+	'',
+	trialsTarget.target,
+	trialsTarget.met
 ]);
 rmSync(folder, { recursive: true, force: true });
 

@@ -7,6 +7,7 @@ import { createHash } from 'node:crypto';
 import { readFileSync } from 'node:fs';
 import { InputError } from '../lib/certify';
 import { certifyTrials, parseTrials, type TrialsResult } from '../lib/certify/trials';
+import { plainTrialsBytes } from '../lib/certify/trials/inflate';
 
 export interface TrialsArguments {
 	file: string;
@@ -64,7 +65,8 @@ export function runTrials(a: TrialsArguments): number {
 			`cannot read --trials ${a.file}: ${(error as NodeJS.ErrnoException).code ?? 'error'}`
 		);
 	}
-	const data = parseTrials(bytes, a.dimension, a.mode ?? 'trials');
+	// A gzip-compressed file is read as the service reads an upload of it (one source: inflate.ts).
+	const data = parseTrials(plainTrialsBytes(bytes), a.dimension, a.mode ?? 'trials');
 	const result = certifyTrials(data, {
 		method: a.method,
 		bases: a.bases,

@@ -66,7 +66,7 @@ async function trialsCheck(bytes: Uint8Array, name: string) {
 	const page = await fetch(`${app.origin}/claims/${claim.id}/checks/${check.id}`, {
 		headers: { cookie: `rankseal_session=${world.session}` }
 	});
-	return { check, page: await page.text() };
+	return { check, claimId: claim.id as string, page: await page.text() };
 }
 
 beforeAll(async () => {
@@ -109,7 +109,34 @@ describe('time-ordered trials in the app', () => {
 		// At visibility 0.9 in d = 5 the last rung is within reach of more trials (engine says how many).
 		expect(expected.next?.unitsNeeded).toBeGreaterThan(0);
 		expect(page).toContain(`about ${expected.next!.unitsNeeded!.toLocaleString('en')} trials`);
-		expect(page).not.toContain('data-testid="issue-certificate"');
+		// A trials check is certified like any other (issue 20, part 2): the page offers it.
+		expect(page).toContain('data-testid="issue-certificate"');
+	});
+
+	it('issues its certificate over the API; the JSON, the certificate page and /seal state the kind and assumption', async () => {
+		const { check, claimId } = await trialsCheck(new TextEncoder().encode(csv), 'run.csv');
+		const issued = await call(`/api/v1/claims/${claimId}/certificates`, {
+			method: 'POST',
+			headers: { 'content-type': 'application/json' },
+			body: JSON.stringify({ checkId: check.id })
+		});
+		expect(issued.status, await issued.clone().text()).toBe(201);
+		const certificate = await issued.json();
+		expect(certificate).toMatchObject({
+			kind: 'time-ordered-trials',
+			certifiedSchmidtNumber: check.result.certifiedSchmidtNumber
+		});
+		expect(certificate.assumption).toMatch(/independently of the source and of the past/);
+		const cookie = { cookie: `rankseal_session=${world.session}` };
+		const own = await (
+			await fetch(`${app.origin}/claims/${claimId}/certificates/${certificate.id}`, {
+				headers: cookie
+			})
+		).text();
+		expect(own).toMatch(/data-testid="certificate-kind"[^>]*>\s*Time-ordered trials/);
+		const seal = await (await fetch(`${app.origin}/seal/${certificate.id}`)).text();
+		expect(seal).toMatch(/data-testid="seal-kind"[^>]*>\s*Time-ordered trials/);
+		expect(seal).toContain('independently of the source and of the past');
 	});
 
 	it('refuses settings in a predictable order on the page, with the settings check’s message', async () => {

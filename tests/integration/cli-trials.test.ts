@@ -3,10 +3,12 @@
  * the engine's to the bit, blocks mode, and the refusal of predictable settings (exit status 2).
  */
 import { execFile } from 'node:child_process';
+import { createHash } from 'node:crypto';
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { promisify } from 'node:util';
+import { gzipSync } from 'node:zlib';
 import { afterAll, describe, expect, it } from 'vitest';
 import {
 	certifyTrials,
@@ -52,6 +54,20 @@ describe('certify --trials', () => {
 			engine.rungs.map((r) => r.log10P)
 		);
 		expect(printed.certifiedSchmidtNumber).toBe(engine.certifiedSchmidtNumber);
+	});
+
+	it('reads a gzip-compressed file (RFC 1952, node zlib) as the plain one, naming the gzip file’s SHA-256', async () => {
+		const text = isotropicTrialsCsv(5, 0.9, [0, 1], 5000, 3);
+		const plain = file('t5.csv', text);
+		const gz = path.join(folder, 't5.csv.gz');
+		writeFileSync(gz, gzipSync(text));
+		const args = ['--dimension', '5', '--method', 'mub-correlation', '--json'];
+		const one = await cli(['--trials', plain, ...args]);
+		const two = await cli(['--trials', gz, ...args]);
+		expect(two.code).toBe(0);
+		const [a, b] = [JSON.parse(one.stdout), JSON.parse(two.stdout)];
+		expect(b.rungs).toEqual(a.rungs);
+		expect(b.inputSha256).toBe(createHash('sha256').update(readFileSync(gz)).digest('hex'));
 	});
 
 	it('blocks mode says its condition', async () => {

@@ -1,4 +1,5 @@
 /** The time-ordered trials engine (issue 20): parsing, settings check, determinism, power. */
+import { gzipSync } from 'node:zlib';
 import { jStat } from 'jstat';
 import { describe, expect, it } from 'vitest';
 import {
@@ -9,13 +10,14 @@ import {
 	isotropicTrialsCsv,
 	mulberry32,
 	parseTrials,
-	recheckTrials,
 	TRIALS_LABEL,
 	TrialsParser,
 	upperGamma,
 	unitsNeeded,
 	type TrialsMode
 } from '../../src/lib/certify/trials';
+import { plainTrialsBytes } from '../../src/lib/certify/trials/inflate';
+import { recheckTrials, rerunTrials } from '../../src/lib/certify/trials/recheck';
 
 const bytes = (text: string) => new TextEncoder().encode(text);
 const parse = (text: string, d = 3, mode: TrialsMode = 'trials') =>
@@ -206,5 +208,31 @@ describe('the certificate from time-ordered trials', () => {
 		).toBeLessThanOrEqual(1);
 		// S = 2(v + (1 − v)/31) = 1 + 25/31 at v = 0.9 (witnesses.md §4.1): B_r = 1 + r/31 is passed up to r = 24.
 		expect(result.certifiedSchmidtNumber).toBeGreaterThanOrEqual(24);
+	});
+});
+
+describe('re-reading a gzip-compressed trials file (the verifier’s path)', () => {
+	// gzip (RFC 1952) through node's zlib: the same rows whether the file was uploaded plain or compressed.
+	it('re-computes the same p-values from the gzip file as from the plain one', () => {
+		const text = isotropicTrialsCsv(5, 0.85, [0, 1], 3000, 9);
+		const recorded = JSON.parse(
+			JSON.stringify(certifyTrials(parse(text, 5), { method: 'mub-correlation' }))
+		);
+		expect(recheckTrials(gzipSync(bytes(text)), recorded)).toEqual({
+			matches: true,
+			differences: []
+		});
+		expect(rerunTrials(gzipSync(bytes(text)), recorded)).toEqual(
+			rerunTrials(bytes(text), recorded)
+		);
+	});
+
+	it('refuses a gzip file that inflates past the cap, and one that is not gzip inside', () => {
+		const text = isotropicTrialsCsv(3, 0.9, [0, 1], 2000, 2);
+		expect(() => plainTrialsBytes(gzipSync(bytes(text)), 100)).toThrow(
+			/inflates to more than 100 bytes/
+		);
+		const broken = gzipSync(bytes(text)).slice(0, 40);
+		expect(() => plainTrialsBytes(broken)).toThrow(/not a readable gzip file/);
 	});
 });

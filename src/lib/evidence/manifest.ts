@@ -11,6 +11,7 @@ import {
 	type MethodId
 } from '../certify';
 import type { EvidenceAnalyses } from './analyses';
+import type { EvidenceTrials } from './trials-evidence';
 import { parseCalibration } from '../certify/calibration';
 import { canonicalJson, jsonRoundTrip } from './canonical';
 import { sha256Hex } from './hash';
@@ -78,6 +79,11 @@ export interface EvidenceManifest {
 	 * certificates made before it. `parameters.confidence` is then the corrected level.
 	 */
 	analyses?: EvidenceAnalyses;
+	/**
+	 * Certificates from time-ordered trials (issue 20): the kind, its assumption and the file; then
+	 * `result` is the supermartingale check's (trials-evidence.ts, TrialsManifest). Absent otherwise.
+	 */
+	trials?: EvidenceTrials;
 }
 
 export type ManifestInput = Omit<EvidenceManifest, 'format' | 'result' | 'claim'> & {

@@ -29,6 +29,8 @@ import {
 } from './manifest';
 import { keyIdOf, readHexLine, verifyText } from './signing';
 import { statementProblem } from './statement';
+import { isTrialsManifest } from './trials-evidence';
+import { checkTrialsCounts, checkTrialsRerun, TrialsFailure } from './verify-trials';
 
 export interface VerificationReport {
 	valid: boolean;
@@ -178,6 +180,11 @@ function checkStatement(s: State) {
 
 function checkCounts(s: State) {
 	const m = s.manifest!;
+	// Time-ordered trials (verify-trials.ts): their file, the summed counts and result.json.
+	if (isTrialsManifest(m)) {
+		s.passed.push(...checkTrialsCounts(s.files, m, (n) => text(s.files, n)));
+		return;
+	}
 	const name = uploadedCountsName(m.counts.uploadedFormat);
 	const uploaded = s.files[name];
 	if (!uploaded) throw new Failure(name, 'the file is missing');
@@ -254,6 +261,11 @@ function checkCalibration(s: State) {
 
 function checkRerun(s: State) {
 	const m = s.manifest!;
+	if (isTrialsManifest(m)) {
+		checkTrialsRerun(s.files, m);
+		s.passed.push('re-run');
+		return;
+	}
 	if (m.engineVersion !== ENGINE_VERSION || m.result.engine?.version !== ENGINE_VERSION)
 		throw new Failure(
 			'engine version',
@@ -304,7 +316,8 @@ export function verifyEvidence(
 		checkRerun(s);
 		checkStatement(s);
 	} catch (error) {
-		if (error instanceof Failure) return report(error.item, error.message);
+		if (error instanceof Failure || error instanceof TrialsFailure)
+			return report(error.item, error.message);
 		return report('bundle', `cannot be checked: ${(error as Error).message}`);
 	}
 	return report(null, 'every hash, both signatures and the re-run agree');

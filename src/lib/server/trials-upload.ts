@@ -7,9 +7,9 @@ import { Readable } from 'node:stream';
 import { createGunzip } from 'node:zlib';
 import { InputError } from '../certify/counts';
 import { TrialsParser, type TrialsData, type TrialsMode } from '../certify/trials';
+import { MAX_TRIALS_INFLATED_BYTES } from '../certify/trials/inflate';
 
-/** 10⁸ rows of `b,aa,bb` need about 1 GB of text; nothing larger is inflated. */
-export const MAX_TRIALS_INFLATED_BYTES = 1024 * 1024 * 1024;
+export { MAX_TRIALS_INFLATED_BYTES };
 const GZIP_MAGIC = [0x1f, 0x8b];
 
 async function* prefixed(first: Uint8Array, rest: AsyncIterator<Uint8Array>) {

@@ -21,4 +21,4 @@ export { MAX_TRIALS, parseTrials, TrialsParser } from './parse';
 export { checkSettings, SETTINGS_LEVEL, upperGamma, type SettingsCheck } from './settings-check';
 export { isotropicTrialsCsv, mulberry32 } from './simulate-trials';
 export { settingSequence, type TrialsData, type TrialsMode } from './store';
-export { recheckTrials, type TrialsRecheck } from './recheck';
+// recheck.ts and inflate.ts use node:zlib: imported directly, never through this index (pages import it).

@@ -1,9 +1,12 @@
 /**
- * What an offline verifier does with a time-ordered certificate: re-read the trials, re-run the
- * check with the options the result records, and compare every p-value bit for bit (the check
- * draws no random numbers, so any difference means other data, other options or another engine).
+ * What an offline verifier does with a time-ordered certificate: re-read the trials (plain or
+ * gzip-compressed), re-run the check with the options the result records, and compare every
+ * p-value bit for bit (the check draws no random numbers, so any difference means other data,
+ * other options or another engine). Node only (zlib): import this file directly.
  */
+import type { FourierConvention } from '../bases';
 import { certifyTrials, type TrialsResult } from './certify-trials';
+import { plainTrialsBytes } from './inflate';
 import { parseTrials } from './parse';
 
 export interface TrialsRecheck {
@@ -30,15 +33,28 @@ function compare(recorded: TrialsResult, again: TrialsResult): string[] {
 	return out;
 }
 
-export function recheckTrials(bytes: Uint8Array, recorded: TrialsResult): TrialsRecheck {
-	const data = parseTrials(bytes, recorded.dimension, recorded.mode);
-	const again = certifyTrials(data, {
+/** The check run again on the file's bytes with the settings the recorded result names. */
+export function rerunTrials(
+	bytes: Uint8Array,
+	recorded: TrialsResult,
+	fourier?: FourierConvention
+): TrialsResult {
+	const data = parseTrials(plainTrialsBytes(bytes), recorded.dimension, recorded.mode);
+	return certifyTrials(data, {
 		method: recorded.method,
 		bases: recorded.bases,
 		probabilities: recorded.probabilities,
+		fourier,
 		confidence: recorded.confidence,
 		inputSha256: recorded.inputSha256 ?? undefined
 	});
-	const differences = compare(recorded, again);
+}
+
+export function recheckTrials(
+	bytes: Uint8Array,
+	recorded: TrialsResult,
+	fourier?: FourierConvention
+): TrialsRecheck {
+	const differences = compare(recorded, rerunTrials(bytes, recorded, fourier));
 	return { matches: differences.length === 0, differences };
 }

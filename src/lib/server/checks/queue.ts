@@ -6,6 +6,7 @@
 import type { EvidenceFiles } from '../../evidence/layout';
 import type { VerificationReport } from '../../evidence/verify';
 import type { BundleTask } from './evidence-tasks';
+import type { TrialsEvidenceParts, TrialsEvidenceTask } from './trials-evidence-task';
 import type { SummaryOutcome, SummaryTask } from './summary';
 
 /** A check to run and the bucket it queues in (fairness and limits are per bucket). */
@@ -36,6 +37,8 @@ export interface CheckQueue {
 	verifyBundle(task: BundleTask, bucket: string): Promise<VerificationReport>;
 	/** The canonical text of a certificate's counts (parsing them), off the request thread. */
 	canonicalCounts(task: { bytes: Uint8Array; dimension: number }, bucket: string): Promise<string>;
+	/** A time-ordered certificate's result at its stated level and its summed counts (issue 20). */
+	trialsEvidence(task: TrialsEvidenceTask, bucket: string): Promise<TrialsEvidenceParts>;
 	/** Checks a certificate's evidence before it is issued, off the request thread. */
 	selfCheck(files: EvidenceFiles, bucket: string): Promise<VerificationReport>;
 }

@@ -19,6 +19,7 @@ import { CheckCancelled, type CheckQueue, type QueuedCheck } from './queue';
 import type { SummaryOutcome, SummaryTask } from './summary';
 import type { CheckMessage, CheckTask } from './task';
 import type { BundleTask } from './evidence-tasks';
+import type { TrialsEvidenceParts, TrialsEvidenceTask } from './trials-evidence-task';
 import { WorkPool } from './work-pool';
 import { targetPart } from './target-task';
 import { trialsPart } from './trials-task';
@@ -106,6 +107,10 @@ export class CheckRunner implements CheckQueue {
 
 	canonicalCounts(task: { bytes: Uint8Array; dimension: number }, bucket: string): Promise<string> {
 		return this.work.runShort('canonicalCounts', task, bucket);
+	}
+
+	trialsEvidence(task: TrialsEvidenceTask, bucket: string): Promise<TrialsEvidenceParts> {
+		return this.work.runShort('trialsEvidence', task, bucket);
 	}
 
 	selfCheck(files: EvidenceFiles, bucket: string): Promise<VerificationReport> {

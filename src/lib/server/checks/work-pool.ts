@@ -13,7 +13,12 @@ import { FairScheduler } from './fair-scheduler';
 
 /** The worker's named exports (checks/worker.ts); the check itself is its default export. */
 export type ShortTaskName =
-	'summariseCounts' | 'summariseTrials' | 'verifyBundle' | 'selfCheck' | 'canonicalCounts';
+	| 'summariseCounts'
+	| 'summariseTrials'
+	| 'verifyBundle'
+	| 'selfCheck'
+	| 'canonicalCounts'
+	| 'trialsEvidence';
 
 type RunOptions = Parameters<Piscina['run']>[1];
 

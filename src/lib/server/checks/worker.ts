@@ -22,6 +22,7 @@ lowerThisThread();
 export { summariseCounts } from './summary';
 export { canonicalCounts, selfCheck, verifyBundle } from './evidence-tasks';
 export { summariseTrials } from './trials-task';
+export { trialsEvidence } from './trials-evidence-task';
 
 async function readStored(file: string): Promise<Uint8Array> {
 	try {

@@ -28,6 +28,8 @@ import { signText, type SigningKey } from '../../evidence/signing';
 import { fillPlaceholders } from '../templates';
 import { addBundleMetadata } from './bundle-metadata';
 import { certificatePdf, type CertificateContext } from './pdf';
+import { trialsCountsParts } from './trials-parts';
+import { trialsReadmeNote } from './trials-readme';
 import { verifierBytes } from './verifier-file';
 import { zipFiles } from './zip-write';
 
@@ -112,15 +114,20 @@ function countsParts(input: EvidenceInput) {
 	return { canonical, counts, perBasis, longForm: longFormPart(dataset) };
 }
 
+/** The uploaded file's name in the bundle: counts, or time-ordered trials (trials-evidence.ts). */
+const uploadedName = (m: Pick<EvidenceManifest, 'trials' | 'counts'>) =>
+	m.trials?.uploadedName ?? uploadedCountsName(m.counts.uploadedFormat);
+
 function readmeText(manifest: EvidenceManifest, fingerprint: string, urls: EvidenceUrls) {
-	return fillPlaceholders(readmeSource, {
+	const filled = fillPlaceholders(readmeSource, {
 		certificateId: manifest.certificateId,
 		fingerprint,
 		keyId: manifest.signingKeyId,
 		keysUrl: urls.keys,
 		verifyUrl: urls.verify,
-		uploadedName: uploadedCountsName(manifest.counts.uploadedFormat).padEnd(22)
+		uploadedName: uploadedName(manifest).padEnd(22)
 	});
+	return filled + trialsReadmeNote(manifest);
 }
 
 /** Adds the signed list of every file's SHA-256 (contents.json, contents.sig). */
@@ -142,7 +149,10 @@ export async function makeEvidence(
 	published: { keys: { id: string }[] },
 	checkpoint?: LedgerCheckpoint
 ): Promise<Evidence> {
-	const { canonical, counts, perBasis, longForm } = countsParts(input);
+	// Trials certificates carry the trials file itself; the long-form CSV is of counts files only.
+	const { canonical, counts, perBasis, longForm } = input.trials
+		? { ...trialsCountsParts({ ...input, trials: input.trials }), longForm: undefined }
+		: countsParts(input);
 	const {
 		uploaded,
 		uploadedFormat,
@@ -156,7 +166,7 @@ export async function makeEvidence(
 	const manifest = buildManifest({
 		...rest,
 		counts,
-		countsLongForm: longForm.record,
+		...(longForm ? { countsLongForm: longForm.record } : {}),
 		...(calibration
 			? {
 					calibration: {
@@ -181,9 +191,9 @@ export async function makeEvidence(
 		context: { ...(context ?? UNKNOWN_CONTEXT), coincidencesPerBasis: perBasis }
 	});
 	const files: EvidenceFiles = {
-		[uploadedCountsName(uploadedFormat)]: uploaded,
+		[uploadedName(manifest)]: uploaded,
 		[BUNDLE_FILES.canonicalCounts]: utf8(canonical),
-		[BUNDLE_FILES.canonicalCountsCsv]: longForm.bytes,
+		...(longForm ? { [BUNDLE_FILES.canonicalCountsCsv]: longForm.bytes } : {}),
 		...(calibration ? { [CALIBRATION_FILE]: calibration } : {}),
 		[BUNDLE_FILES.manifest]: utf8(text),
 		[BUNDLE_FILES.signature]: utf8(signature + '\n'),

@@ -14,6 +14,8 @@ import { calibrationLine } from './pdf-calibration';
 import { boundsTable, cautionsBlock, methodBlock, statisticBlock } from './pdf-evidence';
 import { registerFaces, write } from './pdf-fonts';
 import { num } from './pdf-ladder';
+import { isTrialsManifest } from '../../evidence/trials-evidence';
+import { trialsEvidencePage, trialsKindLine, trialsResultBlock } from './pdf-trials';
 import { ACCENT, drawQr, field, heading, INK, MUTED, numberPages, paragraph } from './pdf-parts';
 
 type Doc = PDFKit.PDFDocument;
@@ -58,6 +60,7 @@ function identity(doc: Doc, { manifest, fingerprint, verifyUrl, doi }: PdfInput)
 	doc.fontSize(18).fillColor(INK);
 	write(doc, 'Schmidt-number certificate', 'bold', { width: 380 });
 	paragraph(doc, 'issued by Rankseal from the raw coincidence counts', 9, MUTED);
+	if (isTrialsManifest(manifest)) trialsKindLine(doc);
 	doc.moveDown(0.5);
 	field(doc, 'Certificate', manifest.certificateId);
 	field(doc, 'Issued', dateTimeInWords(manifest.issuedAt));
@@ -88,6 +91,7 @@ function claimBlock(doc: Doc, m: EvidenceManifest, context: CertificateContext) 
 }
 
 function resultBlock(doc: Doc, m: EvidenceManifest, context: CertificateContext) {
+	if (isTrialsManifest(m)) return trialsResultBlock(doc, m, context.countsFileName);
 	heading(doc, 'Result');
 	const r = m.result;
 	doc.fontSize(13).fillColor(ACCENT);
@@ -143,6 +147,7 @@ function signatureBlock(doc: Doc, input: PdfInput) {
 }
 
 function evidencePage(doc: Doc, m: EvidenceManifest) {
+	if (isTrialsManifest(m)) return trialsEvidencePage(doc, m);
 	doc.addPage();
 	doc.fontSize(13).fillColor(INK);
 	write(doc, 'The evidence behind the result', 'bold');

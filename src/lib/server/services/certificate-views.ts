@@ -1,6 +1,12 @@
 /** What callers see of a certificate, and where its files and public page are. */
 import { isExploratory, type AnalysisEntry } from '../../evidence/analyses';
 import type { EvidenceClaim, EvidenceManifest } from '../../evidence/manifest';
+import {
+	certificateKind,
+	isTrialsManifest,
+	trialsVerdict,
+	TRIALS_KIND
+} from '../../evidence/trials-evidence';
 import type { CertificateAttributes, CertificateStatus } from '../db/models/Certificate';
 import type { CertificateDoi } from '../certificates/doi-view';
 
@@ -22,7 +28,7 @@ export interface CertificateAnalyses {
 	list: AnalysisEntry[];
 }
 
-export interface CertificateView {
+export interface CertificateView extends CertificateKind {
 	id: string;
 	claimId: string;
 	checkId: string;
@@ -40,8 +46,14 @@ export interface CertificateView {
 	doi: CertificateDoi | null;
 }
 
+/** Counts (i.i.d.) or time-ordered trials (issue 20), with the latter's assumption in words. */
+export interface CertificateKind {
+	kind: 'counts' | typeof TRIALS_KIND;
+	assumption: string | null;
+}
+
 /** What the public verification page may show: only what the certificate itself shows. */
-export interface PublicCertificate {
+export interface PublicCertificate extends CertificateKind {
 	id: string;
 	fingerprint: string;
 	status: CertificateStatus;
@@ -75,6 +87,10 @@ export const evidenceUrls = (origin: string, id: string) => ({
 
 const manifestOf = (row: CertificateAttributes) => JSON.parse(row.manifest) as EvidenceManifest;
 
+/** The verdict on the claim: the engine's for counts, the certified number's for trials. */
+const verdictOf = (m: EvidenceManifest) =>
+	isTrialsManifest(m) ? trialsVerdict(m) : (m.result.claim?.verdict ?? null);
+
 export function certificateAnalyses(m: EvidenceManifest): CertificateAnalyses | null {
 	if (!m.analyses) return null;
 	const { total, declared, nominalConfidence, list } = m.analyses;
@@ -99,10 +115,11 @@ export function certificateView(
 		keyId: row.keyId,
 		issuedAt: m.issuedAt,
 		certifiedSchmidtNumber: m.result.certifiedSchmidtNumber,
-		verdict: m.result.claim?.verdict ?? null,
+		verdict: verdictOf(m),
 		analyses: certificateAnalyses(m),
 		urls: certificateUrls(row.id),
-		doi
+		doi,
+		...certificateKind(m)
 	};
 }
 
@@ -121,10 +138,12 @@ export function publicCertificate(
 		keyId: row.keyId,
 		claim: m.claim,
 		certifiedSchmidtNumber: m.result.certifiedSchmidtNumber,
-		verdict: m.result.claim?.verdict ?? null,
-		backgroundSubtracted: m.result.backgroundSubtracted,
+		verdict: verdictOf(m),
+		// Trials are never background-subtracted (the result has no such field).
+		backgroundSubtracted: m.result.backgroundSubtracted ?? false,
 		engineVersion: m.engineVersion,
 		analyses: certificateAnalyses(m),
-		doi
+		doi,
+		...certificateKind(m)
 	};
 }

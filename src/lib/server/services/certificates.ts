@@ -35,6 +35,7 @@ import { doiFor } from '../certificates/doi-name';
 import { doiOf } from '../certificates/doi-view';
 import { queueDoi, requeueDoi } from '../certificates/doi-outbox';
 import type { DoiCreator } from '../db/models/CertificateDoi';
+import { trialsEvidenceInput } from '../certificates/trials-input';
 
 export type { CertificateView } from './certificate-views';
 
@@ -56,11 +57,6 @@ async function finishedCheck(database: Database, claimId: string, checkId: strin
 		);
 	if (check.status !== 'done' || !check.result)
 		throw new ConflictError('Only a finished check can be certified.');
-	// Certificates from time-ordered trials (issue 20, slice 2) are not built yet: refuse plainly.
-	if (isTrialsResult(check.result))
-		throw new ConflictError(
-			'A check on time-ordered trials cannot be certified yet; its result page and JSON stand on their own.'
-		);
 	// The manifest, bundle and verify.mjs do not carry a declared target yet: refuse plainly.
 	if (isTargetResult(check.result))
 		throw new ConflictError(
@@ -133,16 +129,19 @@ async function prepare(
 	const source = await finishedCheck(database, claimId, checkId);
 	const id = newId();
 	const supersedes = await currentCertificate(database, claimId);
-	const stated = await statedResult(database, claim, source);
+	const runner = await startCheckRunner(database);
 	const context = await certificateContext(database, claim, source.dataset);
-	const input = { ...evidenceInput(claim, source, stated, id, supersedes), context };
+	// Time-ordered trials (issue 20): their own result, file and stated assumption.
+	const recorded = isTrialsResult(source.check.result)
+		? await trialsEvidenceInput(database, runner, claim, source, { certificateId: id, supersedes })
+		: evidenceInput(claim, source, await statedResult(database, claim, source), id, supersedes);
+	const input = { ...recorded, context };
 	// The DOI is known before the registry hears of it: the PDF prints it (doi-name.ts).
 	const urls = { ...evidenceUrls(config().origin, id), doi: doiFor(id) };
 	const creators = await authorsOf(database, claim);
 	// The ledger as it stands before this issue: the bundle cannot hold a hash of its own entry.
 	const checkpoint = await publishCheckpoint(database, key);
 	const evidence = await makeEvidence(input, key, urls, { keys: publishedKeys() }, checkpoint);
-	const runner = await startCheckRunner(database);
 	const verdict = await runner.selfCheck(
 		evidence.files,
 		`issue:${accountIdOf(caller) ?? 'service'}`

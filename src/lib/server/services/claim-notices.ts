@@ -6,6 +6,7 @@ import type { Transaction } from 'sequelize';
 import { config } from '../config';
 import type { Database } from '../db';
 import type { EvidenceManifest } from '$lib/evidence/manifest';
+import { isTrialsManifest } from '$lib/evidence/trials-evidence';
 import type { CertificateAttributes } from '../db/models/Certificate';
 import type { ClaimAttributes } from '../db/models/Claim';
 import { mailLink } from '../mail';
@@ -52,8 +53,13 @@ export async function queueCertificateNotice(
 	const { claim, group, link } = await context(database, certificate.claimId, transaction);
 	const { Certificate } = database.models;
 	// What the certificate states: an exploratory one is at its corrected level, not the check's.
-	const r = (JSON.parse(certificate.manifest) as EvidenceManifest).result;
-	const summary = `Schmidt number at least ${r.certifiedSchmidtNumber} in local dimension ${r.dimension}, certified at confidence ${r.confidence}`;
+	const m = JSON.parse(certificate.manifest) as EvidenceManifest;
+	const r = m.result;
+	// A certificate from time-ordered trials says so (issue 20): it rests on another assumption.
+	const kind = isTrialsManifest(m)
+		? ' from time-ordered trials, without the i.i.d. assumption'
+		: '';
+	const summary = `Schmidt number at least ${r.certifiedSchmidtNumber} in local dimension ${r.dimension}, certified at confidence ${r.confidence}${kind}`;
 	const earlier = certificate.supersedes
 		? await Certificate.findByPk(certificate.supersedes, { transaction })
 		: null;

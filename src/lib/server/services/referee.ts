@@ -4,6 +4,7 @@
  */
 import { readFile } from 'node:fs/promises';
 import type { CertificationResult } from '$lib/certify';
+import { isTrialsResult } from '$lib/certify/trials';
 import { checkRequestJsonSchema, checkRequestSchema } from '$lib/claims/schema';
 import { alignedRerun, firstDifference } from '$lib/evidence/compare';
 import type { Actor, RefereeActor } from '../access/actor';
@@ -85,6 +86,14 @@ export function compareRuns(certified: CheckView, rerun: CheckView): Comparison 
 	const b = rerun.result;
 	if (!b) return { sameSeed, identical: null, withinError: null, firstDifference: null };
 	const difference = firstDifference(a, alignedRerun(a, b));
+	// Time-ordered trials draw no random numbers: a re-run agrees to the bit or not at all.
+	if (isTrialsResult(a))
+		return {
+			sameSeed,
+			identical: !difference,
+			withinError: !difference,
+			firstDifference: difference
+		};
 	const withinError = Math.abs(a.statistic.lower - b.statistic.lower) <= a.statistic.standardError;
 	return { sameSeed, identical: difference === null, withinError, firstDifference: difference };
 }

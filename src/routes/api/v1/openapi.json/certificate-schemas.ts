@@ -55,7 +55,17 @@ export const certificateSchemas = {
 			bundle: text,
 			verify: { type: 'string', description: 'The public verification page.' }
 		}),
-		doi: certificateDoiSchema
+		doi: certificateDoiSchema,
+		kind: {
+			type: 'string',
+			enum: ['counts', 'time-ordered-trials'],
+			description:
+				'counts: i.i.d. counts (bootstrap); time-ordered-trials: a test supermartingale, valid without the i.i.d. assumption (docs/statistics.md).'
+		},
+		assumption: nullable({
+			...text,
+			description: 'For time-ordered trials, the assumption the certificate holds under, in words.'
+		})
 	}),
 	Analysis: object({
 		method: text,

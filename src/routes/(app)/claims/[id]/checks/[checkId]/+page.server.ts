@@ -28,7 +28,7 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 		mayIssueCertificate(database, actor, claim.id),
 		mayCancelCheck(database, actor, check.id)
 	]).catch(pageProblem);
-	// Certificates from time-ordered trials are not built yet (issue 20, slice 2).
+	// Time-ordered trials have no reproduce command of the counts kind (their certificate does).
 	const trials = isTrialsResult(check.result);
 	// Nor from a declared target: the certificate does not carry λ (the issue action says 409).
 	const target = isTargetResult(check.result);
@@ -42,7 +42,7 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 				? reproduceCommand(check.result, dataset.originalName)
 				: null,
 		certificates: certificates.filter((c) => c.checkId === check.id),
-		mayIssue: mayIssue && check.status === 'done' && !check.byReferee && !trials && !target,
+		mayIssue: mayIssue && check.status === 'done' && !check.byReferee && !target,
 		mayCancel
 	};
 };
