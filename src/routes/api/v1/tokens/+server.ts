@@ -1,6 +1,6 @@
 import { json } from '@sveltejs/kit';
-import { apiEndpoint, readJson } from '$lib/server/api';
-import { createToken, listTokens, tokenJsonSchema } from '$lib/server/services/tokens';
+import { apiEndpoint, readJson } from '$lib/server/http/api';
+import { createToken, listTokens, tokenJsonSchema } from '$lib/server/accounts/tokens';
 
 /** The signed-in caller's tokens (a session, not a token: tokens do not manage tokens). */
 export const GET = apiEndpoint(async ({ actor, database }) => {

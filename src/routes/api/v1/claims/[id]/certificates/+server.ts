@@ -1,8 +1,8 @@
 import { json } from '@sveltejs/kit';
 import { z } from 'zod';
-import { apiEndpoint, readJson } from '$lib/server/api';
-import { listCertificates } from '$lib/server/services/certificate-reads';
-import { issueCertificate } from '$lib/server/services/certificates';
+import { apiEndpoint, readJson } from '$lib/server/http/api';
+import { listCertificates } from '$lib/server/certificates/certificate-reads';
+import { issueCertificate } from '$lib/server/certificates/certificates';
 
 const issueRequest = z.object({ checkId: z.string().trim().min(1, 'Name the finished check.') });
 

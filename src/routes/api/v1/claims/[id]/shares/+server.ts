@@ -1,7 +1,7 @@
 import { json } from '@sveltejs/kit';
-import { apiEndpoint, readJson } from '$lib/server/api';
-import { app } from '$lib/server/app';
-import { listShares, shareClaim, shareInputSchema } from '$lib/server/services/shares';
+import { apiEndpoint, readJson } from '$lib/server/http/api';
+import { app } from '$lib/server/app/app';
+import { listShares, shareClaim, shareInputSchema } from '$lib/server/review/shares';
 import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = apiEndpoint(async ({ event, database, actor }) =>

@@ -1,7 +1,7 @@
 import { json } from '@sveltejs/kit';
 import { z } from 'zod';
-import { apiEndpoint, readJson } from '$lib/server/api';
-import { withdrawClaim } from '$lib/server/services/claim-withdraw';
+import { apiEndpoint, readJson } from '$lib/server/http/api';
+import { withdrawClaim } from '$lib/server/claims/claim-withdraw';
 
 const body = z.object({ reason: z.string({ error: 'Say why the claim is withdrawn.' }).max(2000) });
 
