@@ -1,6 +1,7 @@
 import type { Handle, HandleServerError, ServerInit } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
-import { app, isStopping } from '$lib/server/app/app';
+import { app } from '$lib/server/app/app';
+import { isStopping } from '$lib/server/app/signals';
 import { ANONYMOUS } from '$lib/server/core/actor';
 import { runAs } from '$lib/server/core/acting';
 import { reviewLink } from '$lib/server/http/review-handle';

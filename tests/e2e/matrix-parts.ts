@@ -9,7 +9,7 @@ import { hashPassword, sessionKey } from '../../src/lib/server/accounts/auth';
 import type { Database } from '../../src/lib/server/db';
 import type { GroupRole } from '../../src/lib/server/db/models/Membership';
 import type { AccountRole } from '../../src/lib/server/db/models/User';
-import { datasetFilePath } from '../../src/lib/server/datasets/datasets';
+import { datasetFilePath } from '../../src/lib/server/storage/counts-store';
 import { newId, newSecret } from '../../src/lib/server/core/ids';
 
 export const DAY = 86_400_000;

@@ -12,7 +12,8 @@ import type { UserActor } from '../../src/lib/server/core/actor';
 import { openDatabase, type Database } from '../../src/lib/server/db';
 import { issueCertificate } from '../../src/lib/server/certificates/certificates';
 import { createClaim } from '../../src/lib/server/claims/claims';
-import { addDataset, datasetFilePath } from '../../src/lib/server/datasets/datasets';
+import { addDataset } from '../../src/lib/server/datasets/datasets';
+import { datasetFilePath } from '../../src/lib/server/storage/counts-store';
 import { newId } from '../../src/lib/server/core/ids';
 
 export interface ReviewFlowWorld {

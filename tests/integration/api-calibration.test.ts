@@ -4,7 +4,7 @@
  */
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { readCountsUpload } from '../../src/lib/server/http/api';
+import { readCountsUpload } from '../../src/lib/server/http/multipart';
 import { problemOf } from '../../src/lib/server/http/problems';
 import { checkCalibrationUpload } from '../../src/lib/server/datasets/dataset-calibration';
 

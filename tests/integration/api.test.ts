@@ -4,7 +4,9 @@ import { describe, expect, it } from 'vitest';
 import { z } from 'zod';
 import { MAX_COUNTS_FILE_BYTES } from '../../src/lib/certify';
 import { checkRequestJsonSchema, claimJsonSchema } from '../../src/lib/claims/schema';
-import { ApiError, apiEndpoint, readCountsUpload, readJson } from '../../src/lib/server/http/api';
+import { ApiError, apiEndpoint } from '../../src/lib/server/http/api';
+import { readCountsUpload } from '../../src/lib/server/http/multipart';
+import { readJson } from '../../src/lib/server/http/read-body';
 import { originCheck } from '../../src/lib/server/http/request-guards';
 import { ANONYMOUS } from '../../src/lib/server/core/actor';
 

@@ -9,7 +9,8 @@ import { startCheckRunner, stopCheckRunner } from '../../src/lib/server/checks/r
 import type { CheckRunner } from '../../src/lib/server/checks/runner';
 import { cancelCheck, getCheck, startCheck } from '../../src/lib/server/checks/checks';
 import { createClaim } from '../../src/lib/server/claims/claims';
-import { addDataset, datasetFilePath } from '../../src/lib/server/datasets/datasets';
+import { addDataset } from '../../src/lib/server/datasets/datasets';
+import { datasetFilePath } from '../../src/lib/server/storage/counts-store';
 import {
 	ConflictError,
 	ForbiddenError,

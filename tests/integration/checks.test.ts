@@ -13,7 +13,8 @@ import {
 	type CheckView
 } from '../../src/lib/server/checks/checks';
 import { createClaim, getClaim } from '../../src/lib/server/claims/claims';
-import { addDataset, datasetFilePath } from '../../src/lib/server/datasets/datasets';
+import { addDataset } from '../../src/lib/server/datasets/datasets';
+import { datasetFilePath } from '../../src/lib/server/storage/counts-store';
 import { ConflictError, NotFoundError } from '../../src/lib/server/core/errors';
 import { newId } from '../../src/lib/server/core/ids';
 import { addGroup, addUser, bytesOf, claimFields, countsCsv } from './backend-fixtures';

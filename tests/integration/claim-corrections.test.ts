@@ -12,12 +12,8 @@ import { updateClaim } from '../../src/lib/server/claims/claim-edit';
 import { getCheck, startCheck } from '../../src/lib/server/checks/checks';
 import { createClaim, getClaim } from '../../src/lib/server/claims/claims';
 import { removeDataset } from '../../src/lib/server/datasets/dataset-removal';
-import {
-	addDataset,
-	datasetFilePath,
-	datasetTables,
-	listDatasets
-} from '../../src/lib/server/datasets/datasets';
+import { addDataset, datasetTables, listDatasets } from '../../src/lib/server/datasets/datasets';
+import { datasetFilePath } from '../../src/lib/server/storage/counts-store';
 import {
 	ConflictError,
 	FieldError,

@@ -5,11 +5,11 @@ import { InputError } from '../../src/lib/certify';
 import { createClaim } from '../../src/lib/server/claims/claims';
 import {
 	addDataset,
-	datasetFilePath,
 	datasetTables,
 	getDataset,
 	listDatasets
 } from '../../src/lib/server/datasets/datasets';
+import { datasetFilePath } from '../../src/lib/server/storage/counts-store';
 import { stopCheckRunner } from '../../src/lib/server/checks/registry';
 import { ConflictError, NotFoundError } from '../../src/lib/server/core/errors';
 import { addGroup, addUser, bytesOf, claimFields, countsCsv } from './backend-fixtures';

@@ -11,7 +11,8 @@ import { verifyEvidence } from '../../src/lib/evidence/verify';
 import { readZip } from '../../src/lib/server/evidence/zip-read';
 import { certificateFile } from '../../src/lib/server/certificates/certificate-reads';
 import { issueCertificate } from '../../src/lib/server/certificates/certificates';
-import { addDataset, datasetFilePath } from '../../src/lib/server/datasets/datasets';
+import { addDataset } from '../../src/lib/server/datasets/datasets';
+import { datasetFilePath } from '../../src/lib/server/storage/counts-store';
 import { evidenceWorld, finishedCheck, type EvidenceWorld } from './evidence-world';
 
 vi.setConfig({ testTimeout: 600_000, hookTimeout: 600_000 });

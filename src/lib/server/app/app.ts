@@ -11,11 +11,11 @@ import { startMailCatcher, type MailCatcher } from '../mail/mail-catcher';
 import { abortCheckRunner, startCheckRunner } from '../checks/registry';
 import { startMailRunner, type MailRunner } from '../mail/mail-runner';
 import { serviceKey } from '../evidence/keys';
-import { sweepOrphanFiles } from '../storage/certificate-store';
 import { checkLedgerAtStart } from '../ledger/ledger-alarm';
 import { introduceKeys } from '../ledger/key-introductions';
-import { sweepUploadFiles } from '../storage/counts-sweep';
+import { startUpSweep } from '../storage/sweep';
 import { seedDemo } from '../demo/seed';
+import { stopOnSignals } from './signals';
 
 export interface AppServices {
 	database: Database;
@@ -45,7 +45,7 @@ export function app(): Promise<AppServices> {
 		const database = await db();
 		// The signing key exists from the first start; files of an upload or issue cut short go.
 		serviceKey();
-		await sweepFiles(database);
+		await startUpSweep(database);
 		// A ledger shorter than the last checkpoint published (an older database put back) is logged.
 		await checkLedgerAtStart(database);
 		// A key rotated while the ledger could not be written is introduced now.
@@ -55,10 +55,7 @@ export function app(): Promise<AppServices> {
 		// Checks left queued or running by an earlier process resume now.
 		await startCheckRunner(database);
 		if (config().demo) console.log(`Demo scenario: ${await seedDemo(database, mail.mailer)}`);
-		process.once('SIGTERM', beginStop);
-		process.once('SIGINT', beginStop);
-		// adapter-node emits this once the HTTP server has closed (SIGINT, SIGTERM).
-		process.once('sveltekit:shutdown' as 'beforeExit', () => void shutDown());
+		stopOnSignals(stopApp);
 		return { database, lucia, ...mail };
 	})();
 	return services;
@@ -76,48 +73,4 @@ export async function stopApp(): Promise<void> {
 	current.mailer.close();
 	await Promise.all([current.mailCatcher?.close(), abortCheckRunner(current.database)]);
 	await closeDb();
-}
-
-/**
- * The whole stop fits in STOP_BOUND_MS: adapter-node lets requests in flight finish for at most
- * SHUTDOWN_TIMEOUT seconds (its default, 30, is too long), then the mail runner gets 2 s and the
- * worker threads and database close. Read by adapter-node after init, so set here.
- */
-process.env.SHUTDOWN_TIMEOUT ??= '5';
-const STOP_BOUND_MS = 9500;
-let stopping = false;
-
-/** True from SIGTERM/SIGINT on: hooks answer new requests 503 while the server drains. */
-export const isStopping = (): boolean => stopping;
-
-/** A last resort if some handle still holds the process: exit STOP_BOUND_MS after the signal. */
-function beginStop(signal?: string): void {
-	if (stopping) return;
-	stopping = true;
-	// Said after adapter-node's own listener has closed the listening socket (same signal).
-	const said = `${signal}: stopping; no new connections, at most ${STOP_BOUND_MS} ms`;
-	if (signal) setImmediate(() => console.log(said));
-	setTimeout(() => {
-		console.error(`shutdown: something still held the process after ${STOP_BOUND_MS} ms`);
-		process.exit(1);
-	}, STOP_BOUND_MS).unref();
-}
-
-async function shutDown(): Promise<void> {
-	beginStop();
-	try {
-		await stopApp();
-	} catch (error) {
-		console.error('shutdown:', error);
-		process.exitCode = 1;
-	}
-}
-
-/** Start-up sweep: temporary and unowned files go; rows whose files are gone are named loudly. */
-async function sweepFiles(database: Database): Promise<void> {
-	const certificates = await sweepOrphanFiles(database);
-	const uploads = await sweepUploadFiles(database);
-	const removed = certificates.length + uploads.removed.length;
-	if (removed) console.log(`start-up sweep: removed ${removed} file(s) no row owns`);
-	for (const file of uploads.missing) console.error(`start-up sweep: ${file} is missing`);
 }

@@ -9,7 +9,7 @@ import type { VerificationReport } from '../../evidence/verify';
 import type { Database } from '../db';
 import type { CertificateAttributes } from '../db/models/Certificate';
 import { publishedKeys } from '../evidence/keys';
-import { startCheckRunner } from '../checks/registry';
+import { engineTasks } from '../checks/registry';
 import { absolute } from '../storage/certificate-store';
 import {
 	certificateView,
@@ -126,8 +126,7 @@ export async function checkBundle(
 	from = 'unknown'
 ): Promise<{ report: VerificationReport; record: Lookup; ledger: CheckpointCheck | null }> {
 	const trustedKeyIds = publishedKeys().map((k) => k.id);
-	const runner = await startCheckRunner(database);
-	const report = await runner.verifyBundle({ zip, trustedKeyIds }, `seal:${from}`);
+	const report = await (await engineTasks(database)).verifyBundle({ zip, trustedKeyIds }, `seal:${from}`);
 	const record = report.fingerprint
 		? await lookupCertificate(database, report.fingerprint)
 		: { status: 'unknown' as const };

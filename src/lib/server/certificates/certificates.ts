@@ -7,7 +7,7 @@ import { isTargetResult } from '$lib/certify/fidelity-target';
 import { readFile } from 'node:fs/promises';
 import type { Transaction } from 'sequelize';
 import { sha256Hex } from '../../evidence/hash';
-import { startCheckRunner } from '../checks/registry';
+import { engineTasks } from '../checks/registry';
 import { config } from '../core/config';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
@@ -18,13 +18,13 @@ import type { SigningKey } from '../../evidence/signing';
 import { accountIdOf, type Actor } from '../core/actor';
 import { requireClaim, requireOpen } from '../access/permissions';
 import { audit } from '../core/audit';
-import { certificatePaths, placeFiles, removeFiles } from '../storage/certificate-store';
+import { placeFiles, removeFiles } from '../storage/certificate-store';
 import { statedResult, type StatedResult } from './certificate-analyses';
 import { certificateContext } from './certificate-context';
 import { certificateRow, issueDetails } from './certificate-rows';
 import { certificateView, evidenceUrls, type CertificateView } from './certificate-views';
 import { queueCertificateNotice } from '../mail/claim-notices';
-import { datasetFilePath } from '../datasets/datasets';
+import { datasetFilePath } from '../storage/counts-store';
 import { ConflictError, NotFoundError } from '../core/errors';
 import { newId } from '../core/ids';
 import { queueReviewNotices } from '../mail/review-notices';
@@ -135,11 +135,9 @@ async function prepare(
 	// The ledger as it stands before this issue: the bundle cannot hold a hash of its own entry.
 	const checkpoint = await publishCheckpoint(database, key);
 	const evidence = await makeEvidence(input, key, urls, { keys: publishedKeys() }, checkpoint);
-	const runner = await startCheckRunner(database);
-	const verdict = await runner.selfCheck(
-		evidence.files,
-		`issue:${accountIdOf(caller) ?? 'service'}`
-	);
+	const verdict = await (
+		await engineTasks(database)
+	).selfCheck(evidence.files, `issue:${accountIdOf(caller) ?? 'service'}`);
 	if (!verdict.valid)
 		throw new ConflictError(
 			`This check cannot be certified (${verdict.failedItem}: ${verdict.message}); run the check again`
@@ -195,7 +193,6 @@ export async function issueCertificate(
 	const { claim, evidence, supersedes } = await prepare(database, caller, claimId, checkId, key);
 	// Members only (permissions.ts), so the caller has an account.
 	const userId = accountIdOf(caller)!;
-	const paths = certificatePaths(evidence.manifest.certificateId);
 	let placed: string[] = [];
 	try {
 		const row = await writeTransaction(database, async (transaction) => {
@@ -204,9 +201,10 @@ export async function issueCertificate(
 					'Another certificate was issued for this claim meanwhile; try again.'
 				);
 			const stored = await store(database, userId, evidence, claim.groupId, key, transaction);
+			// Placed where the row says (certificate-rows.ts computes the paths, once).
 			placed = await placeFiles([
-				[paths.pdfPath, evidence.pdf],
-				[paths.bundlePath, evidence.zip]
+				[stored.pdfPath, evidence.pdf],
+				[stored.bundlePath, evidence.zip]
 			]);
 			return stored;
 		});

@@ -14,12 +14,12 @@ import {
 	type AnalysisSettings,
 	type EvidenceAnalyses
 } from '$lib/evidence/analyses';
-import { startCheckRunner } from '../checks/registry';
+import { engineTasks } from '../checks/registry';
 import type { Database } from '../db';
 import type { CheckAttributes } from '../db/models/Check';
 import type { ClaimAttributes } from '../db/models/Claim';
 import type { DatasetAttributes } from '../db/models/Dataset';
-import { datasetFilePath } from '../datasets/datasets';
+import { datasetFilePath } from '../storage/counts-store';
 
 /** One check on the counts, as the record keeps it. */
 export interface AnalysisRun {
@@ -54,9 +54,7 @@ export async function countsSha256Of(
 	const claim = (await database.models.Claim.findByPk(dataset.claimId))!.get({ plain: true });
 	const bytes = await readFile(datasetFilePath(dataset.sha256));
 	const task = { bytes, dimension: dataset.summary.dimension, method: claim.method, bases: [] };
-	const read = await (
-		await startCheckRunner(database)
-	).summarise({ ...task, fourier: claim.fourier });
+	const read = await (await engineTasks(database)).summarise({ ...task, fourier: claim.fourier });
 	if (!read.ok) throw new InputError(read.message, read.line ?? undefined);
 	await database.models.Dataset.update(
 		{ countsSha256: read.countsSha256 },

@@ -8,7 +8,8 @@ import { sha256Hex } from '$lib/evidence/hash';
 import type { Actor } from '../core/actor';
 import type { Database } from '../db';
 import { getCheck } from './checks';
-import { datasetFilePath, getDataset } from '../datasets/datasets';
+import { getDataset } from '../datasets/datasets';
+import { datasetFilePath } from '../storage/counts-store';
 import { ConflictError, NotFoundError } from '../core/errors';
 
 /** The check when it belongs to the claim (another claim's address hides it, so ids do not leak). */

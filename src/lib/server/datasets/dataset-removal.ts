@@ -3,13 +3,12 @@
  * part of a result and stays). The row goes, with an audit event; the bytes go once no row of
  * any claim names them.
  */
-import { rm } from 'node:fs/promises';
 import { accountIdOf, type Actor } from '../core/actor';
 import { requireClaim } from '../access/permissions';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
 import { audit } from '../core/audit';
-import { datasetFilePath } from './datasets';
+import { removeCounts } from '../storage/counts-store';
 import { ConflictError, NotFoundError } from '../core/errors';
 
 export async function removeDataset(
@@ -43,7 +42,6 @@ export async function removeDataset(
 			transaction
 		);
 		// Uploads store bytes inside their own write transaction, so none can slip in between.
-		if ((await Dataset.count({ where: { sha256 }, transaction })) === 0)
-			await rm(datasetFilePath(sha256), { force: true });
+		if ((await Dataset.count({ where: { sha256 }, transaction })) === 0) await removeCounts(sha256);
 	});
 }

@@ -1,20 +1,17 @@
 /**
- * Datasets: uploaded counts files, parsed before anything is stored, kept content-addressed on
- * disk (files/<sha[0:2]>/<sha>) with their row and audit event written in one transaction.
+ * Datasets: uploaded counts files, parsed before anything is stored, their bytes placed in the
+ * counts store (storage/counts-store.ts) with their row and audit event in one transaction.
  */
 import { tidyFileName } from '$lib/text-rules';
-import { randomBytes } from 'node:crypto';
-import { mkdir, readFile, rename, rm, stat, writeFile } from 'node:fs/promises';
-import path from 'node:path';
+import { readFile } from 'node:fs/promises';
 import { col, type Transaction } from 'sequelize';
 import { InputError } from '$lib/certify';
 import { dateTimeInWords } from '$lib/dates';
 import { sha256Hex } from '$lib/evidence/hash';
 import { accountIdOf, type Actor } from '../core/actor';
 import { requireClaim } from '../access/permissions';
-import { startCheckRunner } from '../checks/registry';
+import { engineTasks } from '../checks/registry';
 import { trialsPart } from '../checks/trials-task';
-import { config } from '../core/config';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
 import type { DatasetAttributes, DatasetSummary, PreviewTable } from '../db/models/Dataset';
@@ -23,6 +20,7 @@ import { checkCalibrationUpload } from './dataset-calibration';
 import { ConflictError, NotFoundError } from '../core/errors';
 import { refuseOverQuota } from '../accounts/group-storage';
 import { newId } from '../core/ids';
+import { datasetFilePath, removeCounts, storeCounts } from '../storage/counts-store';
 
 export type { DatasetSummary, PreviewTable } from '../db/models/Dataset';
 
@@ -45,11 +43,6 @@ export interface DatasetTables {
 	tables: PreviewTable[];
 }
 
-/** Where the bytes with this SHA-256 live. */
-export function datasetFilePath(sha256: string): string {
-	return path.join(config().filesDir, sha256.slice(0, 2), sha256);
-}
-
 function formatOf(bytes: Uint8Array): 'csv' | 'json' {
 	const head = new TextDecoder()
 		.decode(bytes.subarray(0, 64))
@@ -69,28 +62,6 @@ const view = (row: DatasetAttributes): DatasetView => ({
 	summary: row.summary,
 	calibrationSha256: row.calibrationSha256 ?? null
 });
-
-/** Writes the bytes under their hash unless they are there already; true when this call wrote them. */
-async function storeBytes(sha256: string, bytes: Uint8Array): Promise<boolean> {
-	const file = datasetFilePath(sha256);
-	if (
-		await stat(file).then(
-			() => true,
-			() => false
-		)
-	)
-		return false;
-	await mkdir(path.dirname(file), { recursive: true });
-	const temporary = `${file}.${randomBytes(6).toString('hex')}.part`;
-	try {
-		await writeFile(temporary, bytes);
-		await rename(temporary, file);
-	} catch (error) {
-		await rm(temporary, { force: true });
-		throw error;
-	}
-	return true;
-}
 
 /** The same bytes twice on one claim would be two rows that say one thing: refuse, naming the first. */
 async function refuseRepeatedUpload(
@@ -126,7 +97,7 @@ export async function addDataset(
 	const calibrated = checkCalibrationUpload(upload.calibration, claim);
 	const userId = accountIdOf(actor)!;
 	const { bytes } = upload;
-	const runner = await startCheckRunner(database);
+	const runner = await engineTasks(database);
 	const read = await runner.summarise(
 		{ bytes, ...claim, trials: trialsPart(claim) },
 		`upload:${userId}`
@@ -158,7 +129,7 @@ export async function addDataset(
 				},
 				{ transaction }
 			);
-			wrote = (await storeBytes(sha256, bytes)) || wrote;
+			wrote = (await storeCounts(sha256, bytes)) || wrote;
 			const details = {
 				sha256,
 				byteSize: bytes.byteLength,
@@ -181,7 +152,7 @@ export async function addDataset(
 	} catch (error) {
 		// Another upload may have stored the same bytes meanwhile; remove them only when unused.
 		if (wrote && (await database.models.Dataset.count({ where: { sha256 } })) === 0) {
-			await rm(datasetFilePath(sha256), { force: true });
+			await removeCounts(sha256);
 		}
 		throw error;
 	}
@@ -241,7 +212,7 @@ export async function datasetTables(
 	const dataset = await readableDataset(database, actor, datasetId);
 	const dimension = dataset.summary.dimension;
 	if (dataset.preview) return { dimension, tables: dataset.preview };
-	const runner = await startCheckRunner(database);
+	const runner = await engineTasks(database);
 	const bases = dataset.summary.bases;
 	const bytes = await readFile(datasetFilePath(dataset.sha256));
 	const claim = (await database.models.Claim.findByPk(dataset.claimId))!.get({ plain: true });

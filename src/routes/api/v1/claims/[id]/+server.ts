@@ -1,6 +1,7 @@
 import { json } from '@sveltejs/kit';
 import { claimJsonSchema } from '$lib/claims/schema';
-import { apiEndpoint, readJson } from '$lib/server/http/api';
+import { apiEndpoint } from '$lib/server/http/api';
+import { readJson } from '$lib/server/http/read-body';
 import { updateClaim } from '$lib/server/claims/claim-edit';
 import { getClaim } from '$lib/server/claims/claims';
 

@@ -1,6 +1,7 @@
 import { json } from '@sveltejs/kit';
 import { z } from 'zod';
-import { apiEndpoint, readJson } from '$lib/server/http/api';
+import { apiEndpoint } from '$lib/server/http/api';
+import { readJson } from '$lib/server/http/read-body';
 import { listCertificates } from '$lib/server/certificates/certificate-reads';
 import { issueCertificate } from '$lib/server/certificates/certificates';
 

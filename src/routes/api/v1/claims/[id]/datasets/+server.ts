@@ -1,5 +1,6 @@
 import { json } from '@sveltejs/kit';
-import { apiEndpoint, readCountsUpload } from '$lib/server/http/api';
+import { apiEndpoint } from '$lib/server/http/api';
+import { readCountsUpload } from '$lib/server/http/multipart';
 import { addDataset, listDatasets } from '$lib/server/datasets/datasets';
 import { withUploadSlot } from '$lib/server/datasets/upload-slots';
 

@@ -1,5 +1,6 @@
 import { json } from '@sveltejs/kit';
-import { apiEndpoint, readJson } from '$lib/server/http/api';
+import { apiEndpoint } from '$lib/server/http/api';
+import { readJson } from '$lib/server/http/read-body';
 import { createReviewLink, reviewLinkJsonSchema } from '$lib/server/review/review-links';
 import type { RequestHandler } from './$types';
 

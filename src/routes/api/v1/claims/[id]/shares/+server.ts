@@ -1,5 +1,6 @@
 import { json } from '@sveltejs/kit';
-import { apiEndpoint, readJson } from '$lib/server/http/api';
+import { apiEndpoint } from '$lib/server/http/api';
+import { readJson } from '$lib/server/http/read-body';
 import { app } from '$lib/server/app/app';
 import { listShares, shareClaim, shareInputSchema } from '$lib/server/review/shares';
 import type { RequestHandler } from './$types';

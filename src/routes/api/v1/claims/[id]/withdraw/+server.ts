@@ -1,6 +1,7 @@
 import { json } from '@sveltejs/kit';
 import { z } from 'zod';
-import { apiEndpoint, readJson } from '$lib/server/http/api';
+import { apiEndpoint } from '$lib/server/http/api';
+import { readJson } from '$lib/server/http/read-body';
 import { withdrawClaim } from '$lib/server/claims/claim-withdraw';
 
 const body = z.object({ reason: z.string({ error: 'Say why the claim is withdrawn.' }).max(2000) });

@@ -1,5 +1,5 @@
 import { json } from '@sveltejs/kit';
-import { readJson } from '$lib/server/http/api';
+import { readJson } from '$lib/server/http/read-body';
 import { reviewEndpoint } from '$lib/server/http/review-api';
 import { refereeCheckJsonSchema, startRefereeCheck } from '$lib/server/review/referee';
 import type { RequestHandler } from './$types';
