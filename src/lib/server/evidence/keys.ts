@@ -108,8 +108,3 @@ export function storedSigningKey(id: string): SigningKey {
 	const { publicKey, secretKey } = readKey(id);
 	return { id, publicKey, secretKey };
 }
-
-/** The public half of a key the service has used, or null. */
-export function publicKeyById(id: string): string | null {
-	return publishedKeys().find((k) => k.id === id)?.publicKey ?? null;
-}
