@@ -7,6 +7,7 @@ import type { Actor } from '../core/actor';
 import { requireInvitee, requireService } from '../access/permissions';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
+import type { InvitationAttributes } from '../db/models/Invitation';
 import type { GroupRole } from '../db/models/Membership';
 import { audit } from '../core/audit';
 import { confirmAddress } from './email-tokens';
@@ -85,18 +86,13 @@ export async function acceptInvitation(
 	token: string
 ): Promise<{ groupId: string; role: GroupRole }> {
 	const { userId } = await requireService(database, actor, 'join-group');
-	const { Invitation, Membership, User } = database.models;
+	const { Invitation, User } = database.models;
 	return writeTransaction(database, async (transaction) => {
 		const row = await Invitation.findOne({ where: { tokenHash: hashSecret(token) }, transaction });
 		if (!row) throw new NotFoundError('This invitation does not exist or was withdrawn.');
 		const i = row.get({ plain: true });
 		const now = new Date();
-		if (i.acceptedAt) throw new FieldError('invitation', 'This invitation has already been used.');
-		if (new Date(i.expiresAt) <= now)
-			throw new FieldError(
-				'invitation',
-				'This invitation has expired; ask the group lead for a new one.'
-			);
+		requireUsable(i, now);
 		const user = (await User.findByPk(userId, { transaction }))?.get({ plain: true });
 		if (!user) throw new NotFoundError('No such user.');
 		requireInvitee(user, i);
@@ -105,44 +101,66 @@ export async function acceptInvitation(
 			{ where: { id: i.id, acceptedAt: null }, transaction }
 		);
 		if (used !== 1) throw new FieldError('invitation', 'This invitation has already been used.');
-		const existing = await Membership.findOne({
-			where: { groupId: i.groupId, userId },
-			transaction
-		});
-		const role: GroupRole = existing?.get('role') === 'lead' ? 'lead' : i.role;
-		if (!existing)
-			await Membership.create({ id: newId(), groupId: i.groupId, userId, role }, { transaction });
-		else if (existing.get('role') !== role) await existing.update({ role }, { transaction });
-		if (await confirmAddress(database, userId, transaction)) {
-			await audit(
-				database,
-				{
-					actorId: userId,
-					action: 'account.email-verified',
-					subjectType: 'user',
-					subjectId: userId,
-					details: { via: 'invitation' }
-				},
-				transaction
-			);
-		}
-		const base = { actorId: userId, groupId: i.groupId };
-		await audit(
-			database,
-			{ ...base, action: 'invitation.accepted', subjectType: 'invitation', subjectId: i.id },
-			transaction
-		);
-		await audit(
-			database,
-			{
-				...base,
-				action: 'membership.added',
-				subjectType: 'user',
-				subjectId: userId,
-				details: { role }
-			},
-			transaction
-		);
+		const role = await joinGroup(database, userId, i, transaction);
+		await auditAcceptance(database, userId, i, role, transaction);
 		return { groupId: i.groupId, role };
 	});
+}
+
+/** FieldError when the invitation was used already or has expired. */
+function requireUsable(i: InvitationAttributes, now: Date): void {
+	if (i.acceptedAt) throw new FieldError('invitation', 'This invitation has already been used.');
+	if (new Date(i.expiresAt) <= now)
+		throw new FieldError(
+			'invitation',
+			'This invitation has expired; ask the group lead for a new one.'
+		);
+}
+
+/** Adds the membership, or changes its role; a lead stays a lead. Returns the role held. */
+async function joinGroup(
+	database: Database,
+	userId: string,
+	i: InvitationAttributes,
+	transaction: Transaction
+): Promise<GroupRole> {
+	const { Membership } = database.models;
+	const existing = await Membership.findOne({ where: { groupId: i.groupId, userId }, transaction });
+	const role: GroupRole = existing?.get('role') === 'lead' ? 'lead' : i.role;
+	if (!existing)
+		await Membership.create({ id: newId(), groupId: i.groupId, userId, role }, { transaction });
+	else if (existing.get('role') !== role) await existing.update({ role }, { transaction });
+	return role;
+}
+
+/** The address confirmed by the link (when it was not yet), the invitation used, the member added. */
+async function auditAcceptance(
+	database: Database,
+	userId: string,
+	i: InvitationAttributes,
+	role: GroupRole,
+	transaction: Transaction
+): Promise<void> {
+	if (await confirmAddress(database, userId, transaction)) {
+		const subject = { subjectType: 'user', subjectId: userId };
+		const event = { actorId: userId, action: 'account.email-verified', ...subject };
+		await audit(database, { ...event, details: { via: 'invitation' } }, transaction);
+	}
+	const base = { actorId: userId, groupId: i.groupId };
+	await audit(
+		database,
+		{ ...base, action: 'invitation.accepted', subjectType: 'invitation', subjectId: i.id },
+		transaction
+	);
+	await audit(
+		database,
+		{
+			...base,
+			action: 'membership.added',
+			subjectType: 'user',
+			subjectId: userId,
+			details: { role }
+		},
+		transaction
+	);
 }

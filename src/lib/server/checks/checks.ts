@@ -2,7 +2,7 @@
  * Checks: runs of the engine on a claim's dataset with recorded settings. Starting one queues
  * it for the worker threads (checks/runner.ts); reading one shows its progress and result.
  */
-import { col } from 'sequelize';
+import { col, type Transaction } from 'sequelize';
 import { checkRequestSchemaFor, type CheckRequest } from '$lib/claims/schema';
 import { DEFAULTS, type CertificationResult } from '$lib/certify';
 import { accountIdOf, type Actor } from '../core/actor';
@@ -104,10 +104,39 @@ export async function startCheck(
 ): Promise<CheckView> {
 	const claim = await requireClaim(database, actor, claimId, 'start-check');
 	const options = checkRequestSchemaFor(claim).parse(request);
-	const userId = accountIdOf(actor);
-	const { Check, Dataset } = database.models;
-	const dataset = options.datasetId
-		? await Dataset.findOne({ where: { id: options.datasetId, claimId } })
+	const dataset = await chosenDataset(database, claimId, options.datasetId);
+	const subtractAccidentals = options.subtractAccidentals ?? false;
+	requireAccidentals(dataset, subtractAccidentals);
+	const chosen = {
+		resamples: options.resamples ?? DEFAULTS.resamples,
+		confidence: options.confidence ?? DEFAULTS.confidence,
+		subtractAccidentals
+	};
+	const settings = {
+		...chosen,
+		seed: await seedFor(database, claim, dataset, chosen, options.seed)
+	};
+	const reviewLinkId = actor.kind === 'referee' ? actor.linkId : null;
+	const row = { id: newId(), claimId, datasetId: dataset.id, reviewLinkId, ...settings };
+	await writeTransaction(database, (transaction) =>
+		recordQueued(database, actor, claim.groupId, row, transaction)
+	);
+	(await startCheckRunner(database)).enqueue({
+		id: row.id,
+		bucket: checkBucket(claim.groupId, reviewLinkId)
+	});
+	return view((await database.models.Check.findByPk(row.id))!.get({ plain: true }));
+}
+
+/** The dataset asked for, or the claim's newest; NotFoundError / ConflictError when there is none. */
+async function chosenDataset(
+	database: Database,
+	claimId: string,
+	datasetId: string | undefined
+): Promise<DatasetAttributes> {
+	const { Dataset } = database.models;
+	const dataset = datasetId
+		? await Dataset.findOne({ where: { id: datasetId, claimId } })
 		: await Dataset.findOne({
 				where: { claimId },
 				order: [
@@ -116,55 +145,61 @@ export async function startCheck(
 				]
 			});
 	if (!dataset) {
-		if (options.datasetId) throw new NotFoundError('No such dataset on this claim.');
+		if (datasetId) throw new NotFoundError('No such dataset on this claim.');
 		throw new ConflictError(
 			'This claim has no counts file yet: upload one before running a check.'
 		);
 	}
-	const subtractAccidentals = options.subtractAccidentals ?? false;
-	requireAccidentals(dataset.get({ plain: true }), subtractAccidentals);
-	const id = newId();
-	const chosen = {
-		resamples: options.resamples ?? DEFAULTS.resamples,
-		confidence: options.confidence ?? DEFAULTS.confidence,
-		subtractAccidentals
-	};
-	const plain = dataset.get({ plain: true });
-	const settings = { ...chosen, seed: await seedFor(database, claim, plain, chosen, options.seed) };
-	const reviewLinkId = actor.kind === 'referee' ? actor.linkId : null;
-	await writeTransaction(database, async (transaction) => {
-		await refuseOverCheckLimits(database, actor, claim.groupId, transaction);
-		await Check.create(
-			{
-				id,
-				claimId,
-				datasetId: dataset.get('id') as string,
-				createdBy: userId,
-				reviewLinkId,
-				status: 'queued',
-				progress: 0,
-				...settings
-			},
-			{ transaction }
-		);
-		await audit(
-			database,
-			{
-				actorId: userId,
-				groupId: claim.groupId,
-				action: 'check.queued',
-				subjectType: 'check',
-				subjectId: id,
-				details: { datasetId: dataset.get('id'), ...settings }
-			},
-			transaction
-		);
-	});
-	(await startCheckRunner(database)).enqueue({
-		id,
-		bucket: checkBucket(claim.groupId, reviewLinkId)
-	});
-	return view((await Check.findByPk(id))!.get({ plain: true }));
+	return dataset.get({ plain: true });
+}
+
+interface QueuedRow {
+	id: string;
+	claimId: string;
+	datasetId: string;
+	reviewLinkId: string | null;
+	resamples: number;
+	confidence: number;
+	subtractAccidentals: boolean;
+	seed: number;
+}
+
+/** The queued row and its audit event, within the check limits (in the caller's transaction). */
+async function recordQueued(
+	database: Database,
+	actor: Actor,
+	groupId: string,
+	row: QueuedRow,
+	transaction: Transaction
+): Promise<void> {
+	const userId = accountIdOf(actor);
+	await refuseOverCheckLimits(database, actor, groupId, transaction);
+	const { id, claimId, datasetId, reviewLinkId, ...settings } = row;
+	await database.models.Check.create(
+		{
+			id,
+			claimId,
+			datasetId,
+			createdBy: userId,
+			reviewLinkId,
+			status: 'queued',
+			progress: 0,
+			...settings
+		},
+		{ transaction }
+	);
+	await audit(
+		database,
+		{
+			actorId: userId,
+			groupId,
+			action: 'check.queued',
+			subjectType: 'check',
+			subjectId: id,
+			details: { datasetId, ...settings }
+		},
+		transaction
+	);
 }
 
 /** The check; NotFoundError when it does not exist or the actor may not see its claim. */
