@@ -1,7 +1,8 @@
 /**
  * The house plan (docs/architecture.md), checked on the code: no import cycle anywhere under
- * src/ (type-only imports included: a cycle of types still ties two modules into one), and the
- * lower layer (core/, storage/) imports nothing from the rooms above it.
+ * src/ (type-only imports included: a cycle of types still ties two modules into one), the
+ * lower layer (core/, storage/, access/) imports nothing from the rooms above it, only the top
+ * floor imports app/, and the engine stays pure.
  * IMPORT_GRAPH_ROOT points the check at another checkout (e.g. an older tree, to see it fail).
  */
 import path from 'node:path';
@@ -17,8 +18,12 @@ const SERVER = 'src/lib/server/';
 /** What each room of the lower layer may import from src/lib/server/ (anything outside it is fine). */
 const LOWER_LAYER: Record<string, string[]> = {
 	core: ['core', 'db'],
-	storage: ['core', 'storage', 'db']
+	storage: ['core', 'storage', 'db'],
+	access: ['access', 'core', 'db']
 };
+
+/** The start-up room is the top floor of the server: only the web edge and itself import it. */
+const APP_IMPORTERS = ['app', 'http'];
 
 const roomOf = (file: string): string | null =>
 	file.startsWith(SERVER) ? file.slice(SERVER.length).split('/')[0] : null;
@@ -26,15 +31,26 @@ const roomOf = (file: string): string | null =>
 function upwardImports(graph: Graph): string[] {
 	const found: string[] = [];
 	for (const [file, targets] of graph) {
-		const allowed = LOWER_LAYER[roomOf(file) ?? ''];
-		if (!allowed) continue;
+		const from = roomOf(file);
+		if (from === null) continue;
+		const allowed = LOWER_LAYER[from];
 		for (const target of targets) {
 			const room = roomOf(target);
-			if (room !== null && !allowed.includes(room)) found.push(`${file} -> ${target}`);
+			if (room === null) continue;
+			const low = allowed && !allowed.includes(room);
+			if (low || (room === 'app' && !APP_IMPORTERS.includes(from)))
+				found.push(`${file} -> ${target}`);
 		}
 	}
 	return found;
 }
+
+/** The engine is pure: nothing outside src/lib/certify/ (packages are not in the graph). */
+const engineImports = (graph: Graph): string[] =>
+	[...graph]
+		.filter(([file]) => file.startsWith('src/lib/certify/'))
+		.flatMap(([file, targets]) => [...targets].map((target) => `${file} -> ${target}`))
+		.filter((edge) => !edge.split(' -> ')[1].startsWith('src/lib/certify/'));
 
 describe('the import graph reader', () => {
 	it('finds every kind of specifier, type-only and svelte scripts included', () => {
@@ -100,7 +116,11 @@ describe('the code under src/', () => {
 		expect(cyclesOf(graph).map((cycle) => cycle.join(' <-> '))).toEqual([]);
 	});
 
-	it('has core/ and storage/ import nothing from the rooms above them', () => {
+	it('has core/, storage/ and access/ import nothing above them, and app/ imported from the top only', () => {
 		expect(upwardImports(graph)).toEqual([]);
+	});
+
+	it('has the engine (src/lib/certify/) import nothing outside itself', () => {
+		expect(engineImports(graph)).toEqual([]);
 	});
 });
