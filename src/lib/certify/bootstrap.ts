@@ -57,4 +57,3 @@ export function standardDeviation(values: Float64Array): number {
 	for (let i = 0; i < values.length; i++) sum += (values[i] - mean) * (values[i] - mean);
 	return Math.sqrt(sum / Math.max(1, values.length - 1));
 }
-

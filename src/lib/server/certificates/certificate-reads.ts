@@ -126,7 +126,8 @@ export async function checkBundle(
 	from = 'unknown'
 ): Promise<{ report: VerificationReport; record: Lookup; ledger: CheckpointCheck | null }> {
 	const trustedKeyIds = publishedKeys().map((k) => k.id);
-	const report = await (await engineTasks(database)).verifyBundle({ zip, trustedKeyIds }, `seal:${from}`);
+	const tasks = await engineTasks(database);
+	const report = await tasks.verifyBundle({ zip, trustedKeyIds }, `seal:${from}`);
 	const record = report.fingerprint
 		? await lookupCertificate(database, report.fingerprint)
 		: { status: 'unknown' as const };
