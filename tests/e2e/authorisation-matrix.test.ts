@@ -147,6 +147,8 @@ POST /archive?/withdraw                         L    404  303  303  404  403  L 
 # the claim page's withdraw, after the archive's: allowed callers reach "withdrawn already" (409)
 POST /claims/[id]?/withdraw                     L    404  409  409  404  403  L    L    L    L    L    L    404
 POST /api/v1/claims/[id]/withdraw               401  404  200  200  404  404  401  401  401  200  401  401  404
+# one certificate of the claim, after the claim's withdrawal: the lead and the issuer reach "withdrawn already"
+POST /api/v1/certificates/[id]/withdraw         401  404  409  409  404  403  401  401  401  403  401  401  404
 # last: these end the caller's session
 POST /invite/[token]?/switch                    L    L    L    L    L    L    L    L    L    L    L    L    L
 POST /account?/signoutEverywhere                L    L    L    L    L    L    L    L    L    L    L    L    L

@@ -95,6 +95,7 @@ function body(route: string, caller: Caller, kit: Kit): Body | undefined {
 		'POST /api/v1/claims/[id]/datasets': () => ({ text: csv(`api ${who}`), type: 'text/csv' }),
 		'POST /api/v1/claims/[id]/review-links': () => ({ json: { label: 'second referee' } }),
 		'POST /api/v1/claims/[id]/shares': () => ({ json: share }),
+		'POST /api/v1/certificates/[id]/withdraw': () => ({ json: { reason: 'Matrix withdrawal.' } }),
 		'POST /api/v1/claims/[id]/withdraw': () => ({ json: { reason: 'Matrix withdrawal.' } }),
 		'POST /api/v1/review/[token]/checks': () => ({ json: { seed: 9 } }),
 		'POST /api/v1/review/[token]/report': () => ({

@@ -10,9 +10,9 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { hashPassword } from '../../src/lib/server/auth';
+import { hashPassword } from '../../src/lib/server/accounts/auth';
 import { openDatabase } from '../../src/lib/server/db';
-import { newId } from '../../src/lib/server/services/ids';
+import { newId } from '../../src/lib/server/core/ids';
 import { launchBrowser, type TestBrowser } from './browser';
 import { startApp, type AppServer } from './server';
 

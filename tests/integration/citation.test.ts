@@ -14,8 +14,8 @@ import {
 	citationFormat
 } from '../../src/lib/server/certificates/citation-reads';
 import { bundleVerifier } from '../../src/lib/server/evidence/verifier-file';
-import { FieldError, NotFoundError } from '../../src/lib/server/services/errors';
-import { issueCertificate } from '../../src/lib/server/services/certificates';
+import { FieldError, NotFoundError } from '../../src/lib/server/core/errors';
+import { issueCertificate } from '../../src/lib/server/certificates/certificates';
 import { evidenceWorld, finishedCheck, type EvidenceWorld } from './evidence-world';
 
 vi.setConfig({ testTimeout: 900_000, hookTimeout: 600_000 });

@@ -12,8 +12,8 @@ import { canonicalCountsText } from '../../src/lib/evidence/manifest';
 import { verifyEvidence } from '../../src/lib/evidence/verify';
 import { addCountsFiles } from '../../src/lib/server/datasets/counts-files';
 import { readZip } from '../../src/lib/server/evidence/zip-read';
-import { certificateFile } from '../../src/lib/server/services/certificate-reads';
-import { issueCertificate } from '../../src/lib/server/services/certificates';
+import { certificateFile } from '../../src/lib/server/certificates/certificate-reads';
+import { issueCertificate } from '../../src/lib/server/certificates/certificates';
 import { evidenceWorld, finishedCheck, type EvidenceWorld } from './evidence-world';
 
 // Safety limits for issuing (PDF, zip, self-check on the work pool) on a busy machine.

@@ -19,8 +19,8 @@ import {
 } from '../../src/lib/certify';
 import { splitCountsSet } from '../../src/lib/certify/counts-set';
 import { canonicalCountsText } from '../../src/lib/evidence/manifest';
-import type { UserActor } from '../../src/lib/server/access/actor';
-import { problemOf } from '../../src/lib/server/problems';
+import type { UserActor } from '../../src/lib/server/core/actor';
+import { problemOf } from '../../src/lib/server/http/problems';
 import { asUser } from './actors';
 import { addGroup, addUser, claimFields } from './backend-fixtures';
 
@@ -30,10 +30,10 @@ const folder = mkdtempSync(path.join(tmpdir(), 'rankseal-counts-files-'));
 process.env.RANKSEAL_DATA_DIR = folder;
 process.env.MAIL_CATCHER_PORT = '0';
 
-const { app, stopApp } = await import('../../src/lib/server/app');
-const { config } = await import('../../src/lib/server/config');
-const { createClaim } = await import('../../src/lib/server/services/claims');
-const { datasetFilePath } = await import('../../src/lib/server/services/datasets');
+const { app, stopApp } = await import('../../src/lib/server/app/app');
+const { config } = await import('../../src/lib/server/core/config');
+const { createClaim } = await import('../../src/lib/server/claims/claims');
+const { datasetFilePath } = await import('../../src/lib/server/storage/counts-store');
 const { addCountsFiles } = await import('../../src/lib/server/datasets/counts-files');
 const datasetsApi = await import('../../src/routes/api/v1/claims/[id]/datasets/+server');
 const claimPage = await import('../../src/routes/(app)/claims/[id]/+page.server');

@@ -12,19 +12,22 @@ import { dataciteClient, RegistryError } from '../../src/lib/server/certificates
 import { queueMissingDois } from '../../src/lib/server/certificates/doi-backfill';
 import { certificateCitation } from '../../src/lib/server/certificates/citation-reads';
 import { requeueDoi } from '../../src/lib/server/certificates/doi-outbox';
-import { ConflictError } from '../../src/lib/server/services/errors';
+import { ConflictError } from '../../src/lib/server/core/errors';
 import { registerDue, resumeInterruptedDois } from '../../src/lib/server/certificates/doi-sender';
 import { writeTransaction } from '../../src/lib/server/db/transactions';
 import {
 	startFakeRegistry,
 	type FakeRegistry
 } from '../../src/lib/server/certificates/fake-registry';
-import { config } from '../../src/lib/server/config';
+import { config } from '../../src/lib/server/core/config';
 import { bundleVerifier } from '../../src/lib/server/evidence/verifier-file';
-import { certificateFile, getCertificate } from '../../src/lib/server/services/certificate-reads';
-import { lookupCertificate } from '../../src/lib/server/services/certificate-reads';
-import { withdrawCertificate } from '../../src/lib/server/services/certificate-withdraw';
-import { issueCertificate } from '../../src/lib/server/services/certificates';
+import {
+	certificateFile,
+	getCertificate
+} from '../../src/lib/server/certificates/certificate-reads';
+import { lookupCertificate } from '../../src/lib/server/certificates/certificate-reads';
+import { withdrawCertificate } from '../../src/lib/server/certificates/certificate-withdraw';
+import { issueCertificate } from '../../src/lib/server/certificates/certificates';
 import { evidenceWorld, finishedCheck, type EvidenceWorld } from './evidence-world';
 
 // Safety limits for issuing (self-check on the work pool) on a busy machine, not speed checks.

@@ -15,9 +15,9 @@ process.env.ORCID_FAKE_PORT = '0';
 process.env.ORIGIN = 'http://127.0.0.1:5999';
 delete process.env.ORCID_ISSUER;
 
-const { app } = await import('../../src/lib/server/app');
-const { hashPassword } = await import('../../src/lib/server/auth');
-const { newId } = await import('../../src/lib/server/services/ids');
+const { app } = await import('../../src/lib/server/app/app');
+const { hashPassword } = await import('../../src/lib/server/accounts/auth');
+const { newId } = await import('../../src/lib/server/core/ids');
 export const start = await import('../../src/routes/(auth)/login/orcid/start/+server');
 export const callback = await import('../../src/routes/(auth)/login/orcid/callback/+server');
 export const linkPage = await import('../../src/routes/(auth)/login/orcid/+page.server');

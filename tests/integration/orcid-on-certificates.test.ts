@@ -10,13 +10,13 @@ import { writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { linkOrcid, orcidForAccount, unlinkOrcid } from '../../src/lib/server/accounts/orcid-links';
-import { issueCertificate } from '../../src/lib/server/services/certificates';
+import { issueCertificate } from '../../src/lib/server/certificates/certificates';
 import {
 	certificateFile,
 	getCertificate,
 	lookupCertificate
-} from '../../src/lib/server/services/certificate-reads';
-import { getClaim } from '../../src/lib/server/services/claims';
+} from '../../src/lib/server/certificates/certificate-reads';
+import { getClaim } from '../../src/lib/server/claims/claims';
 import { evidenceWorld, finishedCheck, type EvidenceWorld } from './evidence-world';
 
 vi.setConfig({ testTimeout: 600_000, hookTimeout: 600_000 });

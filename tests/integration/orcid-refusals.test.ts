@@ -5,7 +5,7 @@
  * last digit changed), too many starts from one address, and an iD another account has.
  */
 import { afterEach, describe, expect, it } from 'vitest';
-import { resetRateLimits } from '../../src/lib/server/rate-limits';
+import { resetRateLimits } from '../../src/lib/server/core/rate-limits';
 import { AppJar, ProviderBrowser, outcome, signInAtProvider } from './orcid-world';
 import { callback, event, orcidOf, orcidRound, person, sessionUser, start } from './orcid-app';
 

@@ -17,7 +17,7 @@ import { sha256Hex } from '../../src/lib/evidence/hash';
 import { BUNDLE_FILES, type EvidenceFiles } from '../../src/lib/evidence/layout';
 import type { TrialsManifest } from '../../src/lib/evidence/trials-evidence';
 import { verifyEvidence } from '../../src/lib/evidence/verify';
-import type { RefereeActor } from '../../src/lib/server/access/actor';
+import type { RefereeActor } from '../../src/lib/server/core/actor';
 import { bundleCheckWorker } from '../../src/lib/server/checks/locate';
 import { startCheckRunner, stopCheckRunner } from '../../src/lib/server/checks/registry';
 import { bundleVerifier } from '../../src/lib/server/evidence/verifier-file';
@@ -25,20 +25,19 @@ import { readZip } from '../../src/lib/server/evidence/zip-read';
 import {
 	certificateFile,
 	lookupCertificate
-} from '../../src/lib/server/services/certificate-reads';
-import { issueCertificate, type CertificateView } from '../../src/lib/server/services/certificates';
-import { getCheck, listChecks, startCheck } from '../../src/lib/server/services/checks';
-import { createClaim } from '../../src/lib/server/services/claims';
-import { addDataset } from '../../src/lib/server/services/datasets';
-import { ConflictError } from '../../src/lib/server/services/errors';
+} from '../../src/lib/server/certificates/certificate-reads';
 import {
-	refereeCheck,
-	refereeView,
-	startRefereeCheck
-} from '../../src/lib/server/services/referee';
-import { createReviewLink } from '../../src/lib/server/services/review-links';
-import { refereeFor } from '../../src/lib/server/services/review-use';
-import { shareClaim } from '../../src/lib/server/services/shares';
+	issueCertificate,
+	type CertificateView
+} from '../../src/lib/server/certificates/certificates';
+import { getCheck, listChecks, startCheck } from '../../src/lib/server/checks/checks';
+import { createClaim } from '../../src/lib/server/claims/claims';
+import { addDataset } from '../../src/lib/server/datasets/datasets';
+import { ConflictError } from '../../src/lib/server/core/errors';
+import { refereeCheck, refereeView, startRefereeCheck } from '../../src/lib/server/review/referee';
+import { createReviewLink } from '../../src/lib/server/review/review-links';
+import { refereeFor } from '../../src/lib/server/review/review-use';
+import { shareClaim } from '../../src/lib/server/review/shares';
 import { asUser } from './actors';
 import { addGroup, addUser, bytesOf, claimFields } from './backend-fixtures';
 import ReRuns from '../../src/routes/review/[token]/ReRuns.svelte';

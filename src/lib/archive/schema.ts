@@ -49,4 +49,3 @@ export const archiveFilterSchema = z
 export type ArchiveFilter = z.output<typeof archiveFilterSchema>;
 
 export const ARCHIVE_FORMATS = ['csv', 'json'] as const;
-export type ArchiveFormat = (typeof ARCHIVE_FORMATS)[number];

@@ -57,22 +57,3 @@ export function standardDeviation(values: Float64Array): number {
 	for (let i = 0; i < values.length; i++) sum += (values[i] - mean) * (values[i] - mean);
 	return Math.sqrt(sum / Math.max(1, values.length - 1));
 }
-
-export interface BootstrapSummary {
-	standardError: number;
-	/** One-sided lower confidence bound: the (1 − confidence) quantile. */
-	lower: number;
-	interval95: [number, number];
-}
-
-export function summariseReplicates(
-	replicates: Float64Array,
-	confidence: number
-): BootstrapSummary {
-	const sorted = Float64Array.from(replicates).sort();
-	return {
-		standardError: standardDeviation(replicates),
-		lower: empiricalQuantile(sorted, 1 - confidence),
-		interval95: [empiricalQuantile(sorted, 0.025), empiricalQuantile(sorted, 0.975)]
-	};
-}

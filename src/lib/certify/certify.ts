@@ -91,61 +91,27 @@ export function finishCertification(
 	plan: CertificationPlan,
 	replicates?: Replicates
 ): CertificationResult {
-	const { method, family, d, bases, fourier, tables, confidence, resamples, seed, claim } = plan;
-	const { subtract, rates, entropicSums } = plan;
-	const fidelity = method === 'fidelity-two-basis';
-	const statistic = (fidelity ? fidelityBound : correlationSumBound)({
-		...plan.inputs,
-		replicates
-	});
-	const { value, lower, standardError } = statistic;
-	const calibration = plan.calibration;
-	const bounds = calibration
-		? calibratedBounds(calibration.muPlus, bases.length, d)
-		: family.bounds(d, bases);
-	const scale = noiseScale(family, d, bases);
-	const margins = marginsInStandardErrors(value, bounds, standardError);
-	const criticalVisibilities = bounds.map((b) => visibilityOf(b, scale));
-	const certified = ladderPosition(lower, bounds);
-	const effectiveVisibility = visibilityOf(value, scale);
-	const totalCounts = tables.reduce((s, t) => s + t.counts.reduce((a, c) => a + c, 0), 0);
-	const extras = family.extras?.(value, lower, d);
+	const { method, family, d, bases, fourier, confidence, resamples, seed } = plan;
+	const { subtract, rates, entropicSums, calibration } = plan;
+	const bound = method === 'fidelity-two-basis' ? fidelityBound : correlationSumBound;
+	const statistic = bound({ ...plan.inputs, replicates });
+	const ladder = ladderOf(plan, statistic);
+	const extras = family.extras?.(statistic.value, statistic.lower, d);
 	return {
 		method,
 		dimension: d,
 		bases,
 		fourier,
 		statistic,
-		bounds: bounds.map((bound, i) => ({
-			upToSchmidtNumber: i + 1,
-			bound,
-			marginInStandardErrors: margins[i],
-			criticalVisibility: criticalVisibilities[i]
-		})),
-		pointSchmidtNumber: ladderPosition(value, bounds),
-		certifiedSchmidtNumber: certified,
+		bounds: ladder.rungs,
+		pointSchmidtNumber: ladderPosition(statistic.value, ladder.bounds),
+		certifiedSchmidtNumber: ladder.certified,
 		confidence,
 		resamples,
 		seed,
 		inputSha256: plan.inputSha256,
-		claim:
-			claim === undefined
-				? null
-				: claimVerdict({
-						claim,
-						certified,
-						// Whether more counts could help: judged on the plug-in, the value's large-count limit.
-						value: statistic.plugInValue ?? value,
-						boundBasisValue: statistic.floorValue ?? value,
-						boundBasisName: fidelity ? 'the floor P₀ + P₁ − 1' : 'the statistic',
-						standardError,
-						bounds,
-						criticalVisibilities,
-						effectiveVisibility,
-						totalCounts,
-						countsForPower: () => countsForCheck(plan, certify)
-					}),
-		effectiveVisibility,
+		claim: verdictOf(plan, statistic, ladder),
+		effectiveVisibility: ladder.effectiveVisibility,
 		steeringRobustness: extras
 			? { value: extras.steeringRobustness, lower: extras.steeringRobustnessLower }
 			: null,
@@ -154,16 +120,84 @@ export function finishCertification(
 		normalisation: rates ? 'rates' : 'counts',
 		backgroundSubtracted: subtract,
 		resampling: subtract || rates ? 'per-cell' : 'sufficient-totals',
-		totalCounts,
+		totalCounts: ladder.totalCounts,
 		entropicSums,
 		calibration,
+		...cautionsOf(plan, statistic.lower, ladder.certified),
+		engine: { version: ENGINE_VERSION, ...ENGINE_DETAILS }
+	};
+}
+
+/** How the engine draws, recorded in every result. */
+const ENGINE_DETAILS = {
+	generator:
+		'xoroshiro128+ (pure-rand), one stream per block of 1000 resamples seeded through SplitMix32 from (seed, block), 32-bit uniforms',
+	poisson: 'inversion by sequential search below mean 10, PTRS (Hörmann 1993) from 10 (simulator)',
+	gamma:
+		'−ln of a product of uniforms for whole shapes up to 4, Marsaglia–Tsang (2000) with Box–Muller normals above; bounds from Beta/Gamma confidence-distribution draws, raw-count sums from their Beta confidence distributions convolved on a grid (no draws)'
+};
+
+type Ladder = ReturnType<typeof ladderOf>;
+
+/** The separable bounds (declared or calibrated bases), where the statistic and its bound sit on them. */
+function ladderOf(plan: CertificationPlan, statistic: StatisticBound) {
+	const { family, d, bases, tables, calibration } = plan;
+	const { value, lower, standardError } = statistic;
+	const bounds = calibration
+		? calibratedBounds(calibration.muPlus, bases.length, d)
+		: family.bounds(d, bases);
+	const scale = noiseScale(family, d, bases);
+	const margins = marginsInStandardErrors(value, bounds, standardError);
+	const criticalVisibilities = bounds.map((b) => visibilityOf(b, scale));
+	const rungs: BoundRung[] = bounds.map((bound, i) => ({
+		upToSchmidtNumber: i + 1,
+		bound,
+		marginInStandardErrors: margins[i],
+		criticalVisibility: criticalVisibilities[i]
+	}));
+	return {
+		bounds,
+		rungs,
+		criticalVisibilities,
+		certified: ladderPosition(lower, bounds),
+		effectiveVisibility: visibilityOf(value, scale),
+		totalCounts: tables.reduce((s, t) => s + t.counts.reduce((a, c) => a + c, 0), 0)
+	};
+}
+
+/** The verdict on the claimed Schmidt number, when one was claimed. */
+function verdictOf(plan: CertificationPlan, statistic: StatisticBound, ladder: Ladder) {
+	if (plan.claim === undefined) return null;
+	const { value, standardError } = statistic;
+	return claimVerdict({
+		claim: plan.claim,
+		certified: ladder.certified,
+		// Whether more counts could help: judged on the plug-in, the value's large-count limit.
+		value: statistic.plugInValue ?? value,
+		boundBasisValue: statistic.floorValue ?? value,
+		boundBasisName:
+			plan.method === 'fidelity-two-basis' ? 'the floor P₀ + P₁ − 1' : 'the statistic',
+		standardError,
+		bounds: ladder.bounds,
+		criticalVisibilities: ladder.criticalVisibilities,
+		effectiveVisibility: ladder.effectiveVisibility,
+		totalCounts: ladder.totalCounts,
+		countsForPower: () => countsForCheck(plan, certify)
+	});
+}
+
+/** The calibration tolerance and the cautions that go with the result. */
+function cautionsOf(plan: CertificationPlan, lower: number, certified: number) {
+	const { method, d, bases, fourier, subtract, rates, resamples, confidence } = plan;
+	const calibrated = plan.calibration !== null;
+	return {
 		calibrationTolerance: calibrationTolerance({
 			method,
 			lower,
 			certified,
 			m: bases.length,
 			d,
-			calibrated: calibration !== null
+			calibrated
 		}),
 		warnings: warningsFor({
 			method,
@@ -174,15 +208,6 @@ export function finishCertification(
 			resamples,
 			confidence,
 			replicated: plan.replicated
-		}),
-		engine: {
-			version: ENGINE_VERSION,
-			generator:
-				'xoroshiro128+ (pure-rand), one stream per block of 1000 resamples seeded through SplitMix32 from (seed, block), 32-bit uniforms',
-			poisson:
-				'inversion by sequential search below mean 10, PTRS (Hörmann 1993) from 10 (simulator)',
-			gamma:
-				'−ln of a product of uniforms for whole shapes up to 4, Marsaglia–Tsang (2000) with Box–Muller normals above; bounds from Beta/Gamma confidence-distribution draws, raw-count sums from their Beta confidence distributions convolved on a grid (no draws)'
-		}
+		})
 	};
 }

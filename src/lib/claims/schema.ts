@@ -15,6 +15,7 @@ import {
 	RESAMPLES,
 	resamplesCeiling,
 	witnessFamilies,
+	type FourierConvention,
 	type MethodId
 } from '$lib/certify';
 import { basisProblem, MAX_DIMENSION } from '$lib/certify/bases';
@@ -152,104 +153,128 @@ export const CLAIM_FIELDS = [
 	'manuscriptReference'
 ] as const;
 
+const titleField = z
+	.string({ error: 'Give the claim a title.' })
+	.trim()
+	.min(1, 'Give the claim a title.')
+	.max(200, 'Keep the title under 200 characters.')
+	.superRefine(textRule('The title', 'line'));
+
+const sourceDescriptionField = z
+	.string({ error: 'Describe the source.' })
+	.trim()
+	.min(1, 'Describe the source.')
+	.max(5000, 'Keep the source description under 5000 characters.')
+	.superRefine(textRule('The source description', 'lines'));
+
+const manuscriptReferenceField = z
+	.string()
+	.trim()
+	.max(300, 'Keep the manuscript reference under 300 characters.')
+	.superRefine(textRule('The manuscript reference', 'line'))
+	.nullish()
+	.transform((value) => value || null);
+
+const fourierField = z.preprocess(
+	blankToUndefined,
+	z
+		.enum(FOURIER_CONVENTIONS, {
+			error: `The Fourier convention must be ${FOURIER_CONVENTIONS.join(' or ')}.`
+		})
+		.optional()
+);
+
+const trialsModeField = z.preprocess(
+	blankToUndefined,
+	z.enum(TRIALS_MODES, { error: 'The trials mode must be trials or blocks.' }).nullish()
+);
+
+/** The fields of a claim, in the order their problems are reported. */
+const claimFields = (source: ValueSource) => ({
+	groupId: z.preprocess(blankToUndefined, z.string().max(100).optional()),
+	title: titleField,
+	sourceDescription: sourceDescriptionField,
+	dimension: requiredWholeNumber(
+		'The dimension',
+		'Give the local dimension d.',
+		2,
+		MAX_DIMENSION,
+		source
+	),
+	method: z.enum(CLAIM_METHODS, { error: `Choose a method: ${CLAIM_METHODS.join(', ')}.` }),
+	bases: basesField(source),
+	fourier: fourierField,
+	claimedSchmidtNumber: requiredWholeNumber(
+		'The claimed Schmidt number',
+		'Give the claimed Schmidt number.',
+		1,
+		MAX_DIMENSION,
+		source
+	),
+	manuscriptReference: manuscriptReferenceField,
+	trialsMode: trialsModeField,
+	trialsProbabilities: probabilitiesField,
+	target: targetField,
+	targetDeclared: targetField
+});
+
+type ClaimFields = z.output<z.ZodObject<ReturnType<typeof claimFields>>>;
+
+/** What no single field can say: the claimed number within d, and bases the method may use in d. */
+function claimProblems(claim: ClaimFields, ctx: z.RefinementCtx): void {
+	trialsProblem(claim, ctx);
+	targetProblem(claim, ctx);
+	const d = claim.dimension;
+	if (claim.claimedSchmidtNumber > d) {
+		ctx.addIssue({
+			code: 'custom',
+			path: ['claimedSchmidtNumber'],
+			message: `The claimed Schmidt number cannot exceed the dimension (${d}).`
+		});
+	}
+	const fourier = claim.fourier ?? DEFAULT_FOURIER;
+	const problem = fourierProblem(d, fourier);
+	if (problem) {
+		ctx.addIssue({ code: 'custom', path: ['fourier'], message: sentence(problem) });
+		return;
+	}
+	if (claim.bases) basesProblem(claim.method, claim.bases, d, fourier, ctx);
+}
+
+/** Bases that do not exist in dimension d under this convention, or that the method cannot use. */
+function basesProblem(
+	method: ClaimMethod,
+	bases: number[],
+	d: number,
+	fourier: FourierConvention,
+	ctx: z.RefinementCtx
+): void {
+	const available = availableBases(d, fourier);
+	const missing = bases.filter((b) => !available.includes(b));
+	if (missing.length) {
+		const reason = basisProblem(d, missing[0], fourier) ?? '';
+		ctx.addIssue({
+			code: 'custom',
+			path: ['bases'],
+			message: `${sentence(reason)} Available with fourier=${fourier}: ${available.join(', ')}.`
+		});
+		return;
+	}
+	try {
+		if (method === TARGET_METHOD) {
+			if (bases.join() !== '0,1')
+				throw new RangeError('fidelity-target uses bases 0,1 (computational, then tilted)');
+		} else witnessFamilies[method].checkBases(bases, d, fourier);
+	} catch (error) {
+		ctx.addIssue({ code: 'custom', path: ['bases'], message: sentence((error as Error).message) });
+	}
+}
+
 /** A claim as a form (text, read as numbers) or a JSON body (numbers as sent) gives it. */
 const claimInput = (source: ValueSource) =>
 	z
-		.object({
-			groupId: z.preprocess(blankToUndefined, z.string().max(100).optional()),
-			title: z
-				.string({ error: 'Give the claim a title.' })
-				.trim()
-				.min(1, 'Give the claim a title.')
-				.max(200, 'Keep the title under 200 characters.')
-				.superRefine(textRule('The title', 'line')),
-			sourceDescription: z
-				.string({ error: 'Describe the source.' })
-				.trim()
-				.min(1, 'Describe the source.')
-				.max(5000, 'Keep the source description under 5000 characters.')
-				.superRefine(textRule('The source description', 'lines')),
-			dimension: requiredWholeNumber(
-				'The dimension',
-				'Give the local dimension d.',
-				2,
-				MAX_DIMENSION,
-				source
-			),
-			method: z.enum(CLAIM_METHODS, { error: `Choose a method: ${CLAIM_METHODS.join(', ')}.` }),
-			bases: basesField(source),
-			fourier: z.preprocess(
-				blankToUndefined,
-				z
-					.enum(FOURIER_CONVENTIONS, {
-						error: `The Fourier convention must be ${FOURIER_CONVENTIONS.join(' or ')}.`
-					})
-					.optional()
-			),
-			claimedSchmidtNumber: requiredWholeNumber(
-				'The claimed Schmidt number',
-				'Give the claimed Schmidt number.',
-				1,
-				MAX_DIMENSION,
-				source
-			),
-			manuscriptReference: z
-				.string()
-				.trim()
-				.max(300, 'Keep the manuscript reference under 300 characters.')
-				.superRefine(textRule('The manuscript reference', 'line'))
-				.nullish()
-				.transform((value) => value || null),
-			trialsMode: z.preprocess(
-				blankToUndefined,
-				z.enum(TRIALS_MODES, { error: 'The trials mode must be trials or blocks.' }).nullish()
-			),
-			trialsProbabilities: probabilitiesField,
-			target: targetField,
-			targetDeclared: targetField
-		})
-		.superRefine((claim, ctx) => {
-			trialsProblem(claim, ctx);
-			targetProblem(claim, ctx);
-			const d = claim.dimension;
-			if (claim.claimedSchmidtNumber > d) {
-				ctx.addIssue({
-					code: 'custom',
-					path: ['claimedSchmidtNumber'],
-					message: `The claimed Schmidt number cannot exceed the dimension (${d}).`
-				});
-			}
-			const fourier = claim.fourier ?? DEFAULT_FOURIER;
-			const problem = fourierProblem(d, fourier);
-			if (problem) {
-				ctx.addIssue({ code: 'custom', path: ['fourier'], message: sentence(problem) });
-				return;
-			}
-			if (!claim.bases) return;
-			const available = availableBases(d, fourier);
-			const missing = claim.bases.filter((b) => !available.includes(b));
-			if (missing.length) {
-				const reason = basisProblem(d, missing[0], fourier) ?? '';
-				ctx.addIssue({
-					code: 'custom',
-					path: ['bases'],
-					message: `${sentence(reason)} Available with fourier=${fourier}: ${available.join(', ')}.`
-				});
-				return;
-			}
-			try {
-				if (claim.method === TARGET_METHOD) {
-					if (claim.bases.join() !== '0,1')
-						throw new RangeError('fidelity-target uses bases 0,1 (computational, then tilted)');
-				} else witnessFamilies[claim.method].checkBases(claim.bases, d, fourier);
-			} catch (error) {
-				ctx.addIssue({
-					code: 'custom',
-					path: ['bases'],
-					message: sentence((error as Error).message)
-				});
-			}
-		})
+		.object(claimFields(source))
+		.superRefine(claimProblems)
 		.transform((claim) => ({
 			...claim,
 			bases: claim.bases ?? defaultBasesFor(claim.method, claim.dimension),

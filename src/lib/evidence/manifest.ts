@@ -11,12 +11,22 @@ import {
 	type MethodId
 } from '../certify';
 import type { EvidenceAnalyses } from './analyses';
-import type { EvidenceTrials } from './trials-evidence';
+import type { TrialsMode } from '../certify/trials';
 import { parseCalibration } from '../certify/calibration';
 import { canonicalJson, jsonRoundTrip } from './canonical';
 import { sha256Hex } from './hash';
 
 export const MANIFEST_FORMAT = 'rankseal-evidence/1';
+
+/** The manifest's block for a certificate from time-ordered trials (trials-evidence.ts makes it). */
+export interface EvidenceTrials {
+	kind: 'time-ordered-trials';
+	mode: TrialsMode;
+	assumption: string;
+	/** The bundle's copy of the file as uploaded (gzip-compressed or plain). */
+	uploadedName: string;
+	gzip: boolean;
+}
 
 export interface EvidenceClaim {
 	title: string;

@@ -5,7 +5,7 @@
  */
 import type { TrialsData, TrialsMode, TrialsResult } from '../certify/trials';
 import { iidDataset } from '../certify/trials/settings-plan';
-import { canonicalCountsText, type EvidenceManifest } from './manifest';
+import { canonicalCountsText, type EvidenceManifest, type EvidenceTrials } from './manifest';
 
 export const TRIALS_KIND = 'time-ordered-trials' as const;
 
@@ -17,14 +17,7 @@ export function trialsAssumption(mode: TrialsMode): string {
 		: `Valid without the i.i.d. assumption, assuming that the setting of each trial is chosen at random with the declared probabilities, independently of the source and of the past. ${fair}`;
 }
 
-export interface EvidenceTrials {
-	kind: typeof TRIALS_KIND;
-	mode: TrialsMode;
-	assumption: string;
-	/** The bundle's copy of the file as uploaded (gzip-compressed or plain). */
-	uploadedName: string;
-	gzip: boolean;
-}
+export type { EvidenceTrials } from './manifest';
 
 /** A manifest of the time-ordered kind: `counts` names the trials file, `result` is the check's. */
 export type TrialsManifest = Omit<EvidenceManifest, 'result' | 'trials'> & {

@@ -1,8 +1,8 @@
 import { fail } from '@sveltejs/kit';
 import { z } from 'zod';
-import { app } from '$lib/server/app';
-import { countSealLookup, sealRefusal } from '$lib/server/seal-limits';
-import { checkBundle, lookupCertificate } from '$lib/server/services/certificate-reads';
+import { app } from '$lib/server/app/app';
+import { countSealLookup, sealRefusal } from '$lib/server/http/seal-limits';
+import { checkBundle, lookupCertificate } from '$lib/server/certificates/certificate-reads';
 import type { Actions, PageServerLoad } from './$types';
 
 /** A bundle is a PDF, the verifier and a few small files; far below this. */

@@ -3,7 +3,7 @@
  * Poisson tables from a model at a number of counts, run the very check a group would run, and
  * count how often it certifies. No normal approximation: the answer is the engine's.
  */
-import type { CertificationResult, CertifyOptions } from '../certify';
+import type { CertifyOptions } from '../plan';
 import { InputError, type CountsDataset } from '../counts';
 import type { MethodId } from '../witnesses';
 import { PoissonSampler, prepareMeans } from '../poisson';
@@ -18,7 +18,11 @@ export const POWER_SIMULATION = {
 	target: 0.9
 } as const;
 
-export type Engine = (dataset: CountsDataset, options: CertifyOptions) => CertificationResult;
+/** The engine as the simulation needs it (certify.ts, passed in: importing it would be a cycle). */
+export type Engine = (
+	dataset: CountsDataset,
+	options: CertifyOptions
+) => { certifiedSchmidtNumber: number };
 
 /** A measurement design and a model of the state: what is simulated. */
 export interface PowerDesign {

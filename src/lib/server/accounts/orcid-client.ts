@@ -5,7 +5,7 @@
  */
 import * as oidc from 'openid-client';
 import { parseOrcid } from '$lib/orcid-id';
-import { FieldError } from '../services/errors';
+import { FieldError } from '../core/errors';
 import type { OrcidAttempt } from './orcid-attempts';
 import type { OrcidService } from './orcid-settings';
 

@@ -4,7 +4,7 @@
  * SameSite=Lax (the provider's redirect back is a top-level GET), scoped to /login/orcid.
  */
 import type { Cookies } from '@sveltejs/kit';
-import { config } from '../config';
+import { config } from '../core/config';
 import { ATTEMPT_SECONDS, PENDING_SECONDS } from './orcid-attempts';
 
 export const ATTEMPT_COOKIE = 'rankseal_orcid';

@@ -3,12 +3,12 @@
  * password sign-in, never by a matching e-mail address), unlinked from the account page.
  * One account per iD and one iD per account; each change is audited.
  */
-import type { Actor } from '../access/actor';
+import type { Actor } from '../core/actor';
 import { requireService } from '../access/permissions';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
-import { audit } from '../services/audit';
-import { ConflictError } from '../services/errors';
+import { audit } from '../core/audit';
+import { ConflictError } from '../core/errors';
 
 /** The account that has this iD linked, or null. */
 export async function accountWithOrcid(database: Database, orcid: string): Promise<string | null> {

@@ -6,11 +6,11 @@
  * waits (orcidPending) until the person signs in to an account with its password, which links it.
  */
 import * as oidc from 'openid-client';
-import { userActor, type Actor } from '../access/actor';
+import { userActor, type Actor } from '../core/actor';
 import type { Database } from '../db';
-import { takeOrRefuse } from '../rate-limits';
-import { FieldError, ForbiddenError } from '../services/errors';
-import { signInFrom, type SignInOutcome } from '../services/sign-in';
+import { takeOrRefuse } from '../core/rate-limits';
+import { FieldError, ForbiddenError } from '../core/errors';
+import { signInFrom, type SignInOutcome } from './sign-in';
 import { orcidAttempts, orcidPending, type OrcidPending } from './orcid-attempts';
 import { authorisationUrl, exchangeCode, freshSecrets, type OrcidPerson } from './orcid-client';
 import { accountWithOrcid, linkOrcid } from './orcid-links';

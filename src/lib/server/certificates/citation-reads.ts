@@ -1,8 +1,8 @@
 /** Citations of a certificate, for whoever may read its JSON (same permission check). */
-import type { Actor } from '../access/actor';
+import type { Actor } from '../core/actor';
 import type { Database } from '../db';
-import { getCertificate } from '../services/certificate-reads';
-import { ConflictError, FieldError } from '../services/errors';
+import { getCertificate } from './certificate-reads';
+import { ConflictError, FieldError } from '../core/errors';
 import { CITATION_FORMATS, citationIn, dataAvailability, type CitationFormat } from './citation';
 import { doiSubject, type DoiSubject } from './doi-subject';
 

@@ -2,7 +2,7 @@
  * A certificate's DOI: the configured prefix and a suffix made from the certificate id, so it is
  * known at issue time (PDF, page, /seal, JSON) before the registry has heard of it.
  */
-import { config } from '../config';
+import { config } from '../core/config';
 
 /** DOI names compare case-insensitively (DOI Handbook §2.4, from memory): store them lower-case. */
 export const doiFor = (certificateId: string, prefix = config().datacite.prefix): string =>

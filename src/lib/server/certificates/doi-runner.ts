@@ -4,7 +4,7 @@
  * time; stop() lets the request in flight finish, briefly, then returns.
  */
 import path from 'node:path';
-import { config } from '../config';
+import { config } from '../core/config';
 import type { Database } from '../db';
 import { dataciteClient } from './datacite-client';
 import { setDoiResolver } from './doi-name';

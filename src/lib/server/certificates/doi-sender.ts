@@ -6,7 +6,7 @@
 import { Op } from 'sequelize';
 import type { Database } from '../db';
 import type { CertificateDoiAttributes } from '../db/models/CertificateDoi';
-import { retryDelayMs } from '../mail-sender';
+import { retryDelayMs } from '../mail/mail-sender';
 import { RegistryError, type DataciteClient } from './datacite-client';
 import { dataciteAttributes } from './datacite-metadata';
 import { doiSubject } from './doi-subject';

@@ -3,12 +3,12 @@
  * and its DOI row: one source for the DataCite metadata, BibTeX, RIS and the plain text.
  */
 import type { EvidenceManifest } from '../../evidence/manifest';
-import { config } from '../config';
+import { config } from '../core/config';
 import type { Database } from '../db';
 import type { CertificateAttributes, CertificateStatus } from '../db/models/Certificate';
 import type { DoiCreator } from '../db/models/CertificateDoi';
-import { withdrawalOf } from '../services/ledger';
-import { certificateUrls } from '../services/certificate-views';
+import { withdrawalOf } from '../ledger/ledger';
+import { certificateUrls } from './certificate-views';
 import { orcidOf } from './doi-creators';
 import { doiLink } from './doi-name';
 

@@ -10,14 +10,14 @@ import { correctedConfidence, isExploratory } from '$lib/evidence/analyses';
 import { jsonRoundTrip } from '$lib/evidence/canonical';
 import { firstDifference } from '$lib/evidence/compare';
 import { evidenceTrials } from '$lib/evidence/trials-evidence';
-import type { CheckQueue } from '../checks/queue';
+import type { EngineTasks } from '../checks/engine-tasks';
 import type { Database } from '../db';
 import type { CheckAttributes } from '../db/models/Check';
 import type { ClaimAttributes } from '../db/models/Claim';
 import type { DatasetAttributes } from '../db/models/Dataset';
 import type { EvidenceInput } from '../evidence/artifacts';
-import { analysesForCertificate } from '../services/analyses';
-import { ConflictError } from '../services/errors';
+import { analysesForCertificate } from '../checks/analyses';
+import { ConflictError } from '../core/errors';
 
 export interface TrialsSource {
 	check: CheckAttributes;
@@ -31,7 +31,7 @@ const fourierOf = (result: TrialsResult, claim: ClaimAttributes) =>
 
 /** The recorded result re-run on the worker at `level`, with the summed counts' text. */
 async function rerunAt(
-	runner: CheckQueue,
+	runner: EngineTasks,
 	claim: ClaimAttributes,
 	source: TrialsSource,
 	level: number
@@ -61,7 +61,7 @@ async function rerunAt(
 /** The result the certificate states; a check whose record no longer re-runs is refused. */
 async function statedTrials(
 	database: Database,
-	runner: CheckQueue,
+	runner: EngineTasks,
 	claim: ClaimAttributes,
 	source: TrialsSource
 ) {
@@ -86,7 +86,7 @@ async function statedTrials(
 /** The evidence input of a time-ordered certificate (the manifest's `trials` block included). */
 export async function trialsEvidenceInput(
 	database: Database,
-	runner: CheckQueue,
+	runner: EngineTasks,
 	claim: ClaimAttributes,
 	source: TrialsSource,
 	ids: { certificateId: string; supersedes: string | null }

@@ -2,20 +2,25 @@
  * One embedded check runner per database: started on first use, stopped (waiting for running
  * checks) or aborted (for shutdown) as a whole.
  */
-import { outsideRequest } from '../access/acting';
-import { config } from '../config';
+import { outsideRequest } from '../core/acting';
+import { config } from '../core/config';
 import type { Database } from '../db';
 import { checkWorkerFile } from './locate';
+import type { EngineTasks } from './engine-tasks';
 import type { CheckQueue } from './queue';
 import { CheckRunner } from './runner';
 
-const runners = new WeakMap<Database, Promise<CheckQueue>>();
+const runners = new WeakMap<Database, Promise<CheckRunner>>();
 
 /**
  * The runner of this database, started on first use; starting it re-queues the checks a
  * previous process left behind. Call it once at start-up so that those resume promptly.
  */
 export function startCheckRunner(database: Database): Promise<CheckQueue> {
+	return runnerOf(database);
+}
+
+function runnerOf(database: Database): Promise<CheckRunner> {
 	let runner = runners.get(database);
 	if (!runner) {
 		runner = outsideRequest(async () => {
@@ -29,6 +34,11 @@ export function startCheckRunner(database: Database): Promise<CheckQueue> {
 		runner.catch(() => runners.delete(database));
 	}
 	return runner;
+}
+
+/** The short engine tasks (engine-tasks.ts), on the runner's threads: started on first use too. */
+export async function engineTasks(database: Database): Promise<EngineTasks> {
+	return (await runnerOf(database)).tasks;
 }
 
 export const hasCheckRunner = (database: Database): boolean => runners.has(database);

@@ -4,25 +4,19 @@
  * done | failed (or cancelled, by checks service), writes progress about every 2 %, and marks
  * the claim checked when a check is done.
  */
-import { MessageChannel, type MessagePort } from 'node:worker_threads';
+import { MessageChannel } from 'node:worker_threads';
 import { literal } from 'sequelize';
 import type { CertificationResult } from '$lib/certify';
-import type { EvidenceFiles } from '$lib/evidence/layout';
-import type { VerificationReport } from '$lib/evidence/verify';
 import type { Database } from '../db';
-import { ACTIVE_CHECK_STATUSES, type CheckAttributes, type CheckModel } from '../db/models/Check';
-import { datasetFilePath } from '../services/datasets';
+import { ACTIVE_CHECK_STATUSES, type CheckModel } from '../db/models/Check';
 import { FairScheduler } from './fair-scheduler';
 import { recordOutcome } from './outcome';
 import { sweepLeftChecks } from './left-behind';
 import { CheckCancelled, type CheckQueue, type QueuedCheck } from './queue';
-import type { SummaryOutcome, SummaryTask } from './summary';
-import type { CheckMessage, CheckTask } from './task';
-import type { BundleTask } from './evidence-tasks';
-import type { TrialsEvidenceParts, TrialsEvidenceTask } from './trials-evidence-task';
+import { checkTaskOf } from './check-input';
+import { engineTasksOn, type EngineTasks } from './engine-tasks';
+import type { CheckMessage } from './task';
 import { WorkPool } from './work-pool';
-import { targetPart } from './target-task';
-import { trialsPart } from './trials-task';
 
 export type { CheckQueue, QueuedCheck } from './queue';
 
@@ -32,7 +26,7 @@ const PROGRESS_STEP = 0.02;
 type CheckUpdate = Parameters<CheckModel['update']>[0];
 
 export class CheckRunner implements CheckQueue {
-	/** The one pool for every engine task: checks here, short tasks through the methods below. */
+	/** The one pool for every engine task: checks here, short tasks through `tasks`. */
 	private readonly work: WorkPool;
 	private readonly waiting = new FairScheduler();
 	private readonly active = new Map<string, Promise<void>>();
@@ -40,6 +34,8 @@ export class CheckRunner implements CheckQueue {
 	/** Ids in the order they were handed to a thread (tests read the fairness from it). */
 	readonly started: string[] = [];
 	private stopping = false;
+	/** The short engine tasks, on the same threads (engine-tasks.ts). */
+	readonly tasks: EngineTasks;
 
 	constructor(
 		private readonly database: Database,
@@ -48,6 +44,7 @@ export class CheckRunner implements CheckQueue {
 		shortThreads = 1
 	) {
 		this.work = new WorkPool(workerFile, threads, shortThreads);
+		this.tasks = engineTasksOn(this.work);
 		this.work.onFree = () => this.dispatch();
 		// A worker that dies outside a task (e.g. a broken bundle) would leave its tasks waiting forever.
 		this.work.onError((error: Error) => {
@@ -96,27 +93,6 @@ export class CheckRunner implements CheckQueue {
 		return again.map((c) => c.id);
 	}
 
-	summarise(task: SummaryTask, bucket = 'upload'): Promise<SummaryOutcome> {
-		const name = task.trials ? 'summariseTrials' : 'summariseCounts';
-		return this.work.runShort(name, task, bucket);
-	}
-
-	verifyBundle(task: BundleTask, bucket: string): Promise<VerificationReport> {
-		return this.work.runShort('verifyBundle', task, bucket);
-	}
-
-	canonicalCounts(task: { bytes: Uint8Array; dimension: number }, bucket: string): Promise<string> {
-		return this.work.runShort('canonicalCounts', task, bucket);
-	}
-
-	trialsEvidence(task: TrialsEvidenceTask, bucket: string): Promise<TrialsEvidenceParts> {
-		return this.work.runShort('trialsEvidence', task, bucket);
-	}
-
-	selfCheck(files: EvidenceFiles, bucket: string): Promise<VerificationReport> {
-		return this.work.runShort('selfCheck', { files }, bucket);
-	}
-
 	/** Resolves once this check's run has ended here and the next waiting one was handed on. */
 	async settled(checkId: string): Promise<void> {
 		await this.active.get(checkId);
@@ -153,29 +129,6 @@ export class CheckRunner implements CheckQueue {
 			);
 	}
 
-	private async task(check: CheckAttributes, port: MessagePort): Promise<CheckTask> {
-		const { Claim, Dataset } = this.database.models;
-		const dataset = (await Dataset.findByPk(check.datasetId))!.get({ plain: true });
-		const claim = (await Claim.findByPk(check.claimId))!.get({ plain: true });
-		return {
-			datasetPath: datasetFilePath(dataset.sha256),
-			sha256: dataset.sha256,
-			dimension: claim.dimension,
-			method: claim.method,
-			bases: claim.bases,
-			fourier: claim.fourier,
-			resamples: check.resamples,
-			confidence: check.confidence,
-			seed: Number(check.seed),
-			subtractAccidentals: !!check.subtractAccidentals,
-			claim: claim.claimedSchmidtNumber,
-			calibration: dataset.calibration ? new Uint8Array(dataset.calibration) : null,
-			trials: trialsPart(claim),
-			target: targetPart(claim),
-			port
-		};
-	}
-
 	private async run(checkId: string, abort: AbortController): Promise<void> {
 		const { Check } = this.database.models;
 		const check = (await Check.findByPk(checkId))?.get({ plain: true });
@@ -201,7 +154,7 @@ export class CheckRunner implements CheckQueue {
 		let result: CertificationResult | null = null;
 		let failure: string | null = null;
 		try {
-			const task = await this.task(check, channel.port2);
+			const task = await checkTaskOf(this.database, check, channel.port2);
 			const options = { transferList: [channel.port2], signal: abort.signal };
 			// A trials result (kind 'time-ordered-trials') is kept in the same column; see isTrialsResult.
 			result = (await this.work.runCheck(task, options)) as CertificationResult;

@@ -4,13 +4,7 @@
  */
 import { parseCounts } from '../../certify/parse';
 import { certifyTarget, type TargetResult } from '../../certify/fidelity-target';
-import type { CheckTask } from './task';
-
-/** What a declared-target claim adds to a task: λ as stored (Σλ² = 1) and as declared if scaled. */
-export interface TargetTaskPart {
-	coefficients: number[];
-	declared: number[] | null;
-}
+import type { CheckTask, TargetTaskPart } from './task';
 
 export const targetPart = (claim: {
 	target?: number[] | null;

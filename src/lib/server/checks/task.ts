@@ -2,8 +2,19 @@
 import type { MessagePort } from 'node:worker_threads';
 import type { FourierConvention } from '../../certify';
 import type { ClaimMethod } from '../../claims/target';
-import type { TargetTaskPart } from './target-task';
-import type { TrialsTaskPart } from './trials-task';
+import type { TrialsMode } from '../../certify/trials';
+
+/** What a trials claim adds to a task: its mode and declared probabilities (null: uniform). */
+export interface TrialsTaskPart {
+	mode: TrialsMode;
+	probabilities: number[] | null;
+}
+
+/** What a declared-target claim adds to a task: λ as stored (Σλ² = 1) and as declared if scaled. */
+export interface TargetTaskPart {
+	coefficients: number[];
+	declared: number[] | null;
+}
 
 export interface CheckTask {
 	/** The stored counts file; or `bytes` when the caller holds them already. */

@@ -11,16 +11,10 @@ import {
 	type TrialsResult
 } from '../../certify/trials';
 import { iidDataset, settingsPlan } from '../../certify/trials/settings-plan';
-import { parseTrialsUpload } from '../trials-upload';
+import { parseTrialsUpload } from './trials-upload';
 import { previewTables, summarise, type SummaryOutcome, type SummaryTask } from './summary';
 import type { ClaimAttributes } from '../db/models/Claim';
-import type { CheckTask } from './task';
-
-/** What a trials claim adds to a task: its mode and declared probabilities (null: uniform). */
-export interface TrialsTaskPart {
-	mode: TrialsMode;
-	probabilities: number[] | null;
-}
+import type { CheckTask, TrialsTaskPart } from './task';
 
 /** A trials claim's mode and probabilities for the worker; null for a counts claim. */
 export const trialsPart = (claim: ClaimAttributes): TrialsTaskPart | null =>

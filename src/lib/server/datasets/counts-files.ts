@@ -7,11 +7,11 @@
 import { MAX_COUNTS_FILE_BYTES } from '$lib/certify/counts';
 import { MAX_COUNTS_SET_FILES, writeCountsSet, type CountsSetFile } from '$lib/certify/counts-set';
 import { tidyFileName } from '$lib/text-rules';
-import type { Actor } from '../access/actor';
+import type { Actor } from '../core/actor';
 import { requireClaim } from '../access/permissions';
 import type { Database } from '../db';
-import { addDataset, type DatasetView } from '../services/datasets';
-import { FieldError } from '../services/field-error';
+import { addDataset, type DatasetView } from './datasets';
+import { FieldError } from '../core/field-error';
 
 export type CountsFileUpload = CountsSetFile;
 

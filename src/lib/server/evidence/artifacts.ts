@@ -25,7 +25,7 @@ import {
 	type ManifestInput
 } from '../../evidence/manifest';
 import { signText, type SigningKey } from '../../evidence/signing';
-import { fillPlaceholders } from '../templates';
+import { fillPlaceholders } from '../mail/templates';
 import { addBundleMetadata } from './bundle-metadata';
 import { certificatePdf, type CertificateContext } from './pdf';
 import { trialsCountsParts } from './trials-parts';

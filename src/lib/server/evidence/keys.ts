@@ -15,7 +15,7 @@ import {
 import { writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { newSigningKey, signingKeyFrom, type SigningKey } from '../../evidence/signing';
-import { config } from '../config';
+import { config } from '../core/config';
 
 interface StoredKey {
 	id: string;
@@ -107,9 +107,4 @@ export function publishedKeys(): PublishedKey[] {
 export function storedSigningKey(id: string): SigningKey {
 	const { publicKey, secretKey } = readKey(id);
 	return { id, publicKey, secretKey };
-}
-
-/** The public half of a key the service has used, or null. */
-export function publicKeyById(id: string): string | null {
-	return publishedKeys().find((k) => k.id === id)?.publicKey ?? null;
 }

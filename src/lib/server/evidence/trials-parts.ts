@@ -7,9 +7,18 @@ import { plainTrialsBytes } from '../../certify/trials/inflate';
 import { parseTrials } from '../../certify/trials/parse';
 import { sha256Hex } from '../../evidence/hash';
 import { trialsCountsText, type EvidenceTrials } from '../../evidence/trials-evidence';
-import type { EvidenceInput } from './artifacts';
 
-export function trialsCountsParts(input: EvidenceInput & { trials: EvidenceTrials }) {
+/** What of the evidence input this needs (a type of its own, so artifacts.ts alone imports this). */
+interface TrialsPartsInput {
+	result: { bases: number[] };
+	claim: { dimension: number };
+	uploaded: Uint8Array;
+	canonical?: string;
+	context?: { coincidencesPerBasis?: { basis: number; total: number }[] };
+	trials: EvidenceTrials;
+}
+
+export function trialsCountsParts(input: TrialsPartsInput) {
 	const bases = input.result.bases;
 	const given = input.context?.coincidencesPerBasis;
 	const data =

@@ -5,7 +5,7 @@
  */
 import { MAX_COUNTS_FILE_BYTES } from '$lib/certify/counts';
 import type { CountsFileUpload } from '../datasets/counts-files';
-import { FieldError } from '../services/field-error';
+import { FieldError } from '../core/field-error';
 
 /** A basis field's text: blank means none given; else a whole number. */
 export function basisField(value: FormDataEntryValue | string | null, file: string): number | null {

@@ -1,9 +1,9 @@
 import { redirect } from '@sveltejs/kit';
 import { orcidForAccount, unlinkOrcid } from '$lib/server/accounts/orcid-links';
-import { app } from '$lib/server/app';
-import { clearSessionCookie, formRefusal, requireSignedIn } from '$lib/server/auth-web';
-import { takeOrRefuse } from '$lib/server/rate-limits';
-import { resendVerification, signOut, signOutEverywhere } from '$lib/server/services/accounts';
+import { app } from '$lib/server/app/app';
+import { clearSessionCookie, formRefusal, requireSignedIn } from '$lib/server/http/auth-web';
+import { takeOrRefuse } from '$lib/server/core/rate-limits';
+import { resendVerification, signOut, signOutEverywhere } from '$lib/server/accounts/accounts';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ url, locals }) => {

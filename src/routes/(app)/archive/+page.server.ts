@@ -1,12 +1,12 @@
 import { redirect } from '@sveltejs/kit';
 import { z } from 'zod';
 import { archiveFilterSchema } from '$lib/archive/schema';
-import { app } from '$lib/server/app';
-import { echoValues, requireSignedIn } from '$lib/server/auth-web';
-import { fieldErrors, formFailure, pageProblem } from '$lib/server/problems';
-import { groupArchive } from '$lib/server/services/archive';
-import { withdrawClaim } from '$lib/server/services/claim-withdraw';
-import { groupsOf } from '$lib/server/services/groups';
+import { app } from '$lib/server/app/app';
+import { echoValues, requireSignedIn } from '$lib/server/http/auth-web';
+import { fieldErrors, formFailure, pageProblem } from '$lib/server/http/problems';
+import { groupArchive } from '$lib/server/claims/archive';
+import { withdrawClaim } from '$lib/server/claims/claim-withdraw';
+import { groupsOf } from '$lib/server/accounts/groups';
 import type { Actions, PageServerLoad } from './$types';
 
 const FILTER_KEYS = ['group', 'q', 'state', 'method', 'dimension', 'from', 'to'] as const;

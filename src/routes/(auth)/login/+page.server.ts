@@ -1,10 +1,10 @@
 import { redirect } from '@sveltejs/kit';
-import { signInForm, formFields } from '$lib/server/account-forms';
-import { app } from '$lib/server/app';
-import { echoValues, formRefusal, safeNext, startSession } from '$lib/server/auth-web';
-import { retryWords } from '$lib/server/rate-limits';
-import { FieldError } from '$lib/server/services/errors';
-import { signInFrom } from '$lib/server/services/sign-in';
+import { signInForm, formFields } from '$lib/server/accounts/account-forms';
+import { app } from '$lib/server/app/app';
+import { echoValues, formRefusal, safeNext, startSession } from '$lib/server/http/auth-web';
+import { retryWords } from '$lib/server/core/rate-limits';
+import { FieldError } from '$lib/server/core/errors';
+import { signInFrom } from '$lib/server/accounts/sign-in';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = ({ locals, url }) => {

@@ -1,9 +1,9 @@
 import { redirect } from '@sveltejs/kit';
-import { formFields, resetRequestForm } from '$lib/server/account-forms';
-import { app } from '$lib/server/app';
-import { echoValues, formRefusal } from '$lib/server/auth-web';
-import { takeOrRefuse } from '$lib/server/rate-limits';
-import { requestPasswordReset } from '$lib/server/services/accounts';
+import { formFields, resetRequestForm } from '$lib/server/accounts/account-forms';
+import { app } from '$lib/server/app/app';
+import { echoValues, formRefusal } from '$lib/server/http/auth-web';
+import { takeOrRefuse } from '$lib/server/core/rate-limits';
+import { requestPasswordReset } from '$lib/server/accounts/accounts';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = ({ url }) => ({ sent: url.searchParams.has('sent') });

@@ -1,6 +1,6 @@
-import { app } from '$lib/server/app';
-import { countSealLookup } from '$lib/server/seal-limits';
-import { lookupCertificate } from '$lib/server/services/certificate-reads';
+import { app } from '$lib/server/app/app';
+import { countSealLookup } from '$lib/server/http/seal-limits';
+import { lookupCertificate } from '$lib/server/certificates/certificate-reads';
 import type { PageServerLoad } from './$types';
 
 /** Public (no sign-in): the page a certificate's QR code and verify link open. */

@@ -1,20 +1,20 @@
 import { redirect } from '@sveltejs/kit';
 import { checkRequestSchema } from '$lib/claims/schema';
 import { claimOffers } from '$lib/server/access/permissions';
-import { app } from '$lib/server/app';
-import { echoValues, formRefusal, requireSignedIn } from '$lib/server/auth-web';
-import { formFailure, pageProblem } from '$lib/server/problems';
-import { listCertificates } from '$lib/server/services/certificate-reads';
-import { startCheck, listChecks } from '$lib/server/services/checks';
-import { getClaim } from '$lib/server/services/claims';
-import { datasetTables, listDatasets } from '$lib/server/services/datasets';
+import { app } from '$lib/server/app/app';
+import { echoValues, formRefusal, requireSignedIn } from '$lib/server/http/auth-web';
+import { formFailure, pageProblem } from '$lib/server/http/problems';
+import { listCertificates } from '$lib/server/certificates/certificate-reads';
+import { startCheck, listChecks } from '$lib/server/checks/checks';
+import { getClaim } from '$lib/server/claims/claims';
+import { datasetTables, listDatasets } from '$lib/server/datasets/datasets';
 import { addCountsFiles } from '$lib/server/datasets/counts-files';
 import { countsFilesOfForm } from '$lib/server/http/counts-form';
-import { withUploadSlot } from '$lib/server/services/upload-slots';
-import { removeDataset } from '$lib/server/services/dataset-removal';
-import { countsRecord } from '$lib/server/services/counts-record';
-import { withdrawClaim } from '$lib/server/services/claim-withdraw';
-import { ForbiddenError } from '$lib/server/services/errors';
+import { withUploadSlot } from '$lib/server/datasets/upload-slots';
+import { removeDataset } from '$lib/server/datasets/dataset-removal';
+import { countsRecord } from '$lib/server/datasets/counts-record';
+import { withdrawClaim } from '$lib/server/claims/claim-withdraw';
+import { ForbiddenError } from '$lib/server/core/errors';
 import { withdrawConfirmSchema } from './withdraw-schema';
 
 const membersOnly = (problem: unknown) => {

@@ -1,7 +1,7 @@
 import { redirect } from '@sveltejs/kit';
-import { app } from '$lib/server/app';
-import { echoValues, requireSignedIn } from '$lib/server/auth-web';
-import { formFailure } from '$lib/server/problems';
+import { app } from '$lib/server/app/app';
+import { echoValues, requireSignedIn } from '$lib/server/http/auth-web';
+import { formFailure } from '$lib/server/http/problems';
 import {
 	createToken,
 	listTokens,
@@ -9,7 +9,7 @@ import {
 	revokeToken,
 	TOKEN_DEFAULT_DAYS,
 	tokenInputSchema
-} from '$lib/server/services/tokens';
+} from '$lib/server/accounts/tokens';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, url }) => {

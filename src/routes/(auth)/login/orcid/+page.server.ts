@@ -1,5 +1,5 @@
 import { redirect } from '@sveltejs/kit';
-import { signInForm, formFields } from '$lib/server/account-forms';
+import { signInForm, formFields } from '$lib/server/accounts/account-forms';
 import { orcidPending } from '$lib/server/accounts/orcid-attempts';
 import {
 	ATTEMPT_COOKIE,
@@ -7,10 +7,10 @@ import {
 	dropOrcidCookie
 } from '$lib/server/accounts/orcid-cookies';
 import { linkPendingByPassword } from '$lib/server/accounts/orcid-sign-in';
-import { app } from '$lib/server/app';
-import { echoValues, formRefusal, startSession } from '$lib/server/auth-web';
-import { retryWords } from '$lib/server/rate-limits';
-import { FieldError } from '$lib/server/services/errors';
+import { app } from '$lib/server/app/app';
+import { echoValues, formRefusal, startSession } from '$lib/server/http/auth-web';
+import { retryWords } from '$lib/server/core/rate-limits';
+import { FieldError } from '$lib/server/core/errors';
 import type { Actions, PageServerLoad } from './$types';
 
 /** The iD ORCID vouched for that waits for a password sign-in to link it (null: none). */

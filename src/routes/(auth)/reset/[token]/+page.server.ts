@@ -1,9 +1,9 @@
 import { redirect } from '@sveltejs/kit';
-import { formFields, newPasswordForm } from '$lib/server/account-forms';
-import { app } from '$lib/server/app';
-import { clearSessionCookie } from '$lib/server/auth-web';
-import { formFailure } from '$lib/server/problems';
-import { resetLinkState, resetPassword, type LinkResult } from '$lib/server/services/accounts';
+import { formFields, newPasswordForm } from '$lib/server/accounts/account-forms';
+import { app } from '$lib/server/app/app';
+import { clearSessionCookie } from '$lib/server/http/auth-web';
+import { formFailure } from '$lib/server/http/problems';
+import { resetLinkState, resetPassword, type LinkResult } from '$lib/server/accounts/accounts';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ params }) => {

@@ -1,8 +1,8 @@
 import { error, redirect } from '@sveltejs/kit';
-import { app } from '$lib/server/app';
-import { echoValues, startSession } from '$lib/server/auth-web';
-import { formFailure } from '$lib/server/problems';
-import { findShareInvite, openShare, signUpEditor } from '$lib/server/services/share-open';
+import { app } from '$lib/server/app/app';
+import { echoValues, startSession } from '$lib/server/http/auth-web';
+import { formFailure } from '$lib/server/http/problems';
+import { findShareInvite, openShare, signUpEditor } from '$lib/server/review/share-open';
 import type { Actions, PageServerLoad } from './$types';
 
 const GONE = 'This link does not work: the share may have been withdrawn.';

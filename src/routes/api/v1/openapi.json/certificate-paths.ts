@@ -1,5 +1,5 @@
 /** The certificate, signing-key and ledger endpoints of the OpenAPI document, with their schemas. */
-import { LEDGER_PAGE_SIZE } from '$lib/server/services/ledger';
+import { LEDGER_PAGE_SIZE } from '$lib/server/ledger/ledger';
 
 const ref = (name: string) => ({ $ref: `#/components/schemas/${name}` });
 const reply = (description: string, name: string) => ({
@@ -96,6 +96,35 @@ export const certificatePaths = {
 		file('application/zip', 'The bundle, as issued.'),
 		true
 	),
+	'/api/v1/certificates/{id}/withdraw': {
+		post: {
+			operationId: 'withdrawCertificate',
+			summary: 'Withdraw one certificate, with a reason recorded on the ledger; the claim stays',
+			parameters: [idParameter('certificate')],
+			requestBody: {
+				required: true,
+				content: {
+					'application/json': {
+						schema: {
+							type: 'object',
+							required: ['reason'],
+							properties: { reason: { type: 'string', minLength: 3, maxLength: 500 } }
+						}
+					}
+				}
+			},
+			responses: {
+				'200': reply('The certificate, now withdrawn.', 'Certificate'),
+				'400': failure('The reason is missing, too short or too long (code bad_input).'),
+				'401': unauthorised,
+				'403': failure(
+					'Only the group’s lead or the certificate’s issuer, signed in (code forbidden).'
+				),
+				'404': notFound,
+				'409': failure('The certificate is withdrawn already (code conflict).')
+			}
+		}
+	},
 	'/api/v1/signing-keys': {
 		get: {
 			operationId: 'listSigningKeys',

@@ -12,11 +12,11 @@ import {
 } from '$lib/certify';
 import { issueJsonSchema, withdrawJsonSchema } from '$lib/claims/api-bodies';
 import { checkRequestJsonSchema, claimJsonSchema } from '$lib/claims/schema';
-import { refereeCheckJsonSchema } from '$lib/server/services/referee';
-import { reportJsonSchema } from '$lib/server/services/reports';
-import { REVIEW_LINK_DEFAULT_DAYS, reviewLinkJsonSchema } from '$lib/server/services/review-links';
-import { shareInputSchema } from '$lib/server/services/shares';
-import { TOKEN_DEFAULT_DAYS, tokenJsonSchema } from '$lib/server/services/tokens';
+import { refereeCheckJsonSchema } from '$lib/server/review/referee';
+import { reportJsonSchema } from '$lib/server/review/reports';
+import { REVIEW_LINK_DEFAULT_DAYS, reviewLinkJsonSchema } from '$lib/server/review/review-links';
+import { shareInputSchema } from '$lib/server/review/shares';
+import { TOKEN_DEFAULT_DAYS, tokenJsonSchema } from '$lib/server/accounts/tokens';
 
 type JsonSchema = { properties?: Record<string, Record<string, unknown>>; [key: string]: unknown };
 

@@ -1,8 +1,8 @@
 import { redirect } from '@sveltejs/kit';
-import { app } from '$lib/server/app';
-import { requireSignedIn } from '$lib/server/auth-web';
-import { formFailure, pageProblem } from '$lib/server/problems';
-import { getOutboxMessage, requeueOutboxMessage } from '$lib/server/services/mail-outbox';
+import { app } from '$lib/server/app/app';
+import { requireSignedIn } from '$lib/server/http/auth-web';
+import { formFailure, pageProblem } from '$lib/server/http/problems';
+import { getOutboxMessage, requeueOutboxMessage } from '$lib/server/mail/mail-outbox';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, params, url }) => {

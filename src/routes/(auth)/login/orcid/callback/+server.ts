@@ -5,9 +5,9 @@ import {
 	keepPendingCookie
 } from '$lib/server/accounts/orcid-cookies';
 import { finishOrcidSignIn } from '$lib/server/accounts/orcid-sign-in';
-import { app } from '$lib/server/app';
-import { startSession } from '$lib/server/auth-web';
-import { problemOf } from '$lib/server/problems';
+import { app } from '$lib/server/app/app';
+import { startSession } from '$lib/server/http/auth-web';
+import { problemOf } from '$lib/server/http/problems';
 import type { RequestHandler } from './$types';
 
 /**

@@ -1,9 +1,9 @@
 import { error, redirect } from '@sveltejs/kit';
 import { keepAttemptCookie } from '$lib/server/accounts/orcid-cookies';
 import { beginOrcidSignIn } from '$lib/server/accounts/orcid-sign-in';
-import { app } from '$lib/server/app';
-import { safeNext } from '$lib/server/auth-web';
-import { problemOf } from '$lib/server/problems';
+import { app } from '$lib/server/app/app';
+import { safeNext } from '$lib/server/http/auth-web';
+import { problemOf } from '$lib/server/http/problems';
 import type { RequestHandler } from './$types';
 
 /**

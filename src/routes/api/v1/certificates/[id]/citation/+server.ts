@@ -1,4 +1,4 @@
-import { apiEndpoint } from '$lib/server/api';
+import { apiEndpoint } from '$lib/server/http/api';
 import { CITATION_TYPES } from '$lib/server/certificates/citation';
 import { certificateCitation, citationFormat } from '$lib/server/certificates/citation-reads';
 

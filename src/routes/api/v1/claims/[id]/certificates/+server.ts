@@ -1,8 +1,9 @@
 import { json } from '@sveltejs/kit';
 import { issueJsonSchema } from '$lib/claims/api-bodies';
-import { apiEndpoint, readJson } from '$lib/server/api';
-import { listCertificates } from '$lib/server/services/certificate-reads';
-import { issueCertificate } from '$lib/server/services/certificates';
+import { apiEndpoint } from '$lib/server/http/api';
+import { readJson } from '$lib/server/http/read-body';
+import { listCertificates } from '$lib/server/certificates/certificate-reads';
+import { issueCertificate } from '$lib/server/certificates/certificates';
 
 /** The claim's certificates, newest first. */
 export const GET = apiEndpoint(async ({ event, actor, database }) => {

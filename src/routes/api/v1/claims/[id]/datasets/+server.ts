@@ -1,8 +1,9 @@
 import { json } from '@sveltejs/kit';
-import { apiEndpoint, readCountsUpload } from '$lib/server/api';
+import { apiEndpoint } from '$lib/server/http/api';
+import { readCountsUpload } from '$lib/server/http/multipart';
 import { addCountsFiles } from '$lib/server/datasets/counts-files';
-import { listDatasets } from '$lib/server/services/datasets';
-import { withUploadSlot } from '$lib/server/services/upload-slots';
+import { listDatasets } from '$lib/server/datasets/datasets';
+import { withUploadSlot } from '$lib/server/datasets/upload-slots';
 
 export const GET = apiEndpoint(async ({ event, actor, database }) => {
 	return json(await listDatasets(database, actor, event.params.id!));

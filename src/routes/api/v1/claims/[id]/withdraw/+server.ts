@@ -1,7 +1,8 @@
 import { json } from '@sveltejs/kit';
 import { withdrawJsonSchema } from '$lib/claims/api-bodies';
-import { apiEndpoint, readJson } from '$lib/server/api';
-import { withdrawClaim } from '$lib/server/services/claim-withdraw';
+import { apiEndpoint } from '$lib/server/http/api';
+import { readJson } from '$lib/server/http/read-body';
+import { withdrawClaim } from '$lib/server/claims/claim-withdraw';
 
 /** Withdraws the claim and every certificate of it, with the reason on the ledger. */
 export const POST = apiEndpoint(async ({ event, actor, database }) => {
