@@ -38,6 +38,8 @@ beforeAll(async () => {
 	// This test is about SQLite writers, not fair use: one person starts all 54 checks here.
 	process.env.RANKSEAL_CHECKS_PER_USER = '100';
 	process.env.RANKSEAL_CHECKS_PER_GROUP = '100';
+	// Nor about the invitation limit, which inviteMember itself counts (30 an hour per lead).
+	process.env.RANKSEAL_RATE_LIMITS = JSON.stringify({ invitations: { points: 100 } });
 	process.env.RANKSEAL_CHECK_WORKER = await bundleCheckWorker(
 		path.join(workerFolder, 'check-worker.mjs')
 	);
@@ -56,6 +58,7 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
+	delete process.env.RANKSEAL_RATE_LIMITS;
 	delete process.env.RANKSEAL_CHECKS_PER_USER;
 	delete process.env.RANKSEAL_CHECKS_PER_GROUP;
 	await stopCheckRunner(world.database);

@@ -1,9 +1,7 @@
 /** Small helpers shared by the pages: the signed-in caller, session cookies, safe ?next= paths. */
-import { redirect, type ActionFailure, type Cookies, type RequestEvent } from '@sveltejs/kit';
+import { redirect, type Cookies } from '@sveltejs/kit';
 import type { UserActor } from './access/actor';
 import type { AppLucia } from './auth';
-import { formFailure, type FormProblem } from './problems';
-import { RateLimitedError } from './services/errors';
 
 const HOME = 'http://rankseal.invalid';
 
@@ -59,16 +57,4 @@ export function echoValues(form: FormData, keys: string[]): Record<string, strin
 		if (typeof value === 'string' && !/password/i.test(key)) values[key] = value;
 	}
 	return values;
-}
-
-/** formFailure for a form action, with Retry-After when the problem is a rate limit (429). */
-export function formRefusal(
-	event: Pick<RequestEvent, 'setHeaders'>,
-	action: string,
-	problem: unknown,
-	values: Record<string, string> = {}
-): ActionFailure<FormProblem> {
-	if (problem instanceof RateLimitedError && problem.retryAfterSeconds !== null)
-		event.setHeaders({ 'retry-after': String(problem.retryAfterSeconds) });
-	return formFailure(action, problem, values);
 }

@@ -10,6 +10,7 @@ import { hashPassword } from '../auth';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
 import { mailLink, type Mailer } from '../mail';
+import { takeOrRefuse } from '../rate-limits';
 import { EMAIL_TAKEN, checkPassword, normaliseEmail } from './account-rules';
 import { audit } from './audit';
 import { RESET_PASSWORD_TTL_MS, VERIFY_EMAIL_TTL_MS, issueEmailToken } from './email-tokens';
@@ -40,6 +41,14 @@ export interface SignUpOutcome {
 
 type Person = { email: string; name: string };
 
+/**
+ * Who asks, for the per-address limits: every web path names the client address; the demo and
+ * scripts calling a service directly name none and are not counted.
+ */
+export interface Asker {
+	address?: string;
+}
+
 /** The address already has an account: tell its owner, in the same shape of work as a sign-up. */
 async function tellOwner(database: Database, mailer: Mailer, userId: string, person: Person) {
 	await writeTransaction(database, async (transaction) => {
@@ -58,13 +67,16 @@ async function tellOwner(database: Database, mailer: Mailer, userId: string, per
  * Makes an account and mails a confirmation link, or, for an address that has one, mails its
  * owner instead; the caller answers both alike. Through a valid invitation to this very address
  * (opening it proved the mailbox) the account is confirmed at once, and a taken address is said.
+ * Sign-ups are rate-limited per client address (RATE_LIMITS.signUp).
  */
 export async function signUp(
 	database: Database,
 	mailer: Mailer,
 	input: { email: string; name: string; password: string },
-	proof: { invitationToken?: string | null } = {}
+	proof: { invitationToken?: string | null } & Asker = {}
 ): Promise<SignUpOutcome> {
+	if (proof.address !== undefined)
+		await takeOrRefuse('signUp', proof.address, 'Too many sign-ups from your network address.');
 	const { User } = database.models;
 	const named = checkedText(input.name, 'Your name', 'line');
 	const person = { email: normaliseEmail(input.email), name: named.text };
@@ -108,12 +120,16 @@ export async function signUp(
 /**
  * Mails a reset link when the address has an account, and otherwise a note that it has none;
  * says nothing either way to the caller. One transaction, one audit row, one mail on both paths.
+ * Rate-limited per client address (RATE_LIMITS.resetRequest).
  */
 export async function requestPasswordReset(
 	database: Database,
 	mailer: Mailer,
-	input: string
+	input: string,
+	asker: Asker = {}
 ): Promise<void> {
+	const what = 'Too many new-password requests from your network address.';
+	if (asker.address !== undefined) await takeOrRefuse('resetRequest', asker.address, what);
 	const email = normaliseEmail(input);
 	const user = (await database.models.User.findOne({ where: { email } }))?.get({ plain: true });
 	await writeTransaction(database, async (transaction) => {

@@ -9,6 +9,7 @@ import { hashPassword, verifyPassword, type AppLucia } from '../auth';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
 import { mailLink, type Mailer } from '../mail';
+import { takeOrRefuse } from '../rate-limits';
 import { queueVerification } from './account-requests';
 import { checkPassword, normaliseEmail } from './account-rules';
 import { audit } from './audit';
@@ -24,13 +25,16 @@ export { requestPasswordReset, signUp, type SignUpOutcome } from './account-requ
 export type LinkResult =
 	{ ok: true; userId: string } | { ok: false; reason: Exclude<TokenState, 'valid'> };
 
-/** Sends a fresh confirmation link (the old one stops working); false when already confirmed. */
+const RESEND_WORDS = 'You have asked for several links in a short time.';
+
+/** Sends a fresh confirmation link (the old one stops working); false when already confirmed. Rate-limited per account. */
 export async function resendVerification(
 	database: Database,
 	mailer: Mailer,
 	actor: Actor
 ): Promise<boolean> {
 	const { userId } = await requireService(database, actor, 'own-account');
+	await takeOrRefuse('resendVerification', userId, RESEND_WORDS);
 	const user = await database.models.User.findByPk(userId);
 	if (!user || user.get('emailVerifiedAt')) return false;
 	const { email, name } = user.get({ plain: true });

@@ -9,6 +9,7 @@ import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
 import type { GroupRole } from '../db/models/Membership';
 import { mailLink, type Mailer } from '../mail';
+import { takeOrRefuse } from '../rate-limits';
 import { normaliseEmail } from './accounts';
 import { audit } from './audit';
 import { NotFoundError } from './errors';
@@ -35,6 +36,9 @@ export async function inviteMember(
 	groupId: string,
 	input: { email: string; role: GroupRole }
 ): Promise<{ invitationId: string }> {
+	// Counted per inviting account before anything else, as every path into here must be.
+	const what = 'You have sent many invitations in a short time.';
+	await takeOrRefuse('invitations', String(accountIdOf(actor)), what);
 	const email = normaliseEmail(input.email);
 	if (!GROUP_ROLES.includes(input.role)) throw new FieldError('role', 'Choose lead or author.');
 	const { Group, Invitation, Membership, User } = database.models;

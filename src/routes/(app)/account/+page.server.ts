@@ -1,7 +1,7 @@
 import { redirect } from '@sveltejs/kit';
 import { app } from '$lib/server/app';
-import { clearSessionCookie, formRefusal, requireSignedIn } from '$lib/server/auth-web';
-import { takeOrRefuse } from '$lib/server/rate-limits';
+import { clearSessionCookie, requireSignedIn } from '$lib/server/auth-web';
+import { runFormAction } from '$lib/server/http/form-action';
 import { resendVerification, signOut, signOutEverywhere } from '$lib/server/services/accounts';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -10,15 +10,11 @@ export const load: PageServerLoad = ({ url }) => ({ sent: url.searchParams.has('
 export const actions: Actions = {
 	resend: async (event) => {
 		const actor = requireSignedIn(event.locals, event.url);
-		const { database, mailer } = await app();
-		try {
-			const what = 'You have asked for several links in a short time.';
-			await takeOrRefuse('resendVerification', actor.userId, what);
+		return runFormAction(event, 'resend', {}, async () => {
+			const { database, mailer } = await app();
 			await resendVerification(database, mailer, actor);
-		} catch (problem) {
-			return formRefusal(event, 'resend', problem);
-		}
-		redirect(303, '/account?sent=1');
+			redirect(303, '/account?sent=1');
+		});
 	},
 	signout: async ({ locals, cookies }) => {
 		const { lucia } = await app();

@@ -3,7 +3,8 @@ import { z } from 'zod';
 import { archiveFilterSchema } from '$lib/archive/schema';
 import { app } from '$lib/server/app';
 import { echoValues, requireSignedIn } from '$lib/server/auth-web';
-import { fieldErrors, formFailure, pageProblem } from '$lib/server/problems';
+import { runFormAction } from '$lib/server/http/form-action';
+import { fieldErrors, pageProblem } from '$lib/server/problems';
 import { groupArchive } from '$lib/server/services/archive';
 import { withdrawClaim } from '$lib/server/services/claim-withdraw';
 import { groupsOf } from '$lib/server/services/groups';
@@ -30,18 +31,14 @@ const withdrawForm = z.object({
 });
 
 export const actions: Actions = {
-	withdraw: async ({ locals, request, url }) => {
-		const actor = requireSignedIn(locals, url);
-		const form = await request.formData();
-		const values = echoValues(form, ['claimId', 'reason']);
-		const parsed = withdrawForm.safeParse(values);
-		if (!parsed.success) return formFailure('withdraw', parsed.error, values);
-		const { database } = await app();
-		try {
-			await withdrawClaim(database, actor, parsed.data.claimId, parsed.data.reason);
-		} catch (problem) {
-			return formFailure('withdraw', problem, values);
-		}
-		redirect(303, `/archive${url.search}`);
+	withdraw: async (event) => {
+		const actor = requireSignedIn(event.locals, event.url);
+		const values = echoValues(await event.request.formData(), ['claimId', 'reason']);
+		return runFormAction(event, 'withdraw', values, async () => {
+			const { claimId, reason } = withdrawForm.parse(values);
+			const { database } = await app();
+			await withdrawClaim(database, actor, claimId, reason);
+			redirect(303, `/archive${event.url.search}`);
+		});
 	}
 };

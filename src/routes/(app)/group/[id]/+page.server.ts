@@ -8,12 +8,12 @@ import {
 	memberRoleForm
 } from '$lib/server/account-forms';
 import { app } from '$lib/server/app';
-import { accountIdOf, type Actor } from '$lib/server/access/actor';
+import type { Actor } from '$lib/server/access/actor';
 import { echoValues, requireSignedIn } from '$lib/server/auth-web';
-import { formFailure, pageProblem } from '$lib/server/problems';
+import { runFormAction } from '$lib/server/http/form-action';
+import { pageProblem } from '$lib/server/problems';
 import { byteWords, groupStorage } from '$lib/server/services/group-storage';
 import { changeMemberRole, getGroup, removeMember } from '$lib/server/services/groups';
-import { takeOrRefuse } from '$lib/server/rate-limits';
 import { inviteMember, listInvitations, revokeInvitation } from '$lib/server/services/invitations';
 import type { Actions, PageServerLoad, RequestEvent } from './$types';
 
@@ -54,23 +54,16 @@ async function act<S extends z.ZodType<Record<string, string>>>(
 	const actor = requireSignedIn(event.locals, event.url);
 	const form = await event.request.formData();
 	const values = echoValues(form, ['email', 'role', 'userId']);
-	const parsed = schema.safeParse(formFields(form));
-	if (!parsed.success) return formFailure(action, parsed.error, values);
-	let next: string | void;
-	try {
-		next = await run(actor, parsed.data);
-	} catch (problem) {
-		return formFailure(action, problem, values);
-	}
-	redirect(303, next ?? `/group/${event.params.id}`);
+	return runFormAction(event, action, values, async () => {
+		const next = await run(actor, schema.parse(formFields(form)));
+		redirect(303, next ?? `/group/${event.params.id}`);
+	});
 }
 
 export const actions: Actions = {
 	invite: (event) =>
 		act(event, 'invite', inviteForm, async (actor, input) => {
 			const { database, mailer } = await app();
-			const what = 'You have sent many invitations in a short time.';
-			await takeOrRefuse('invitations', String(accountIdOf(actor)), what);
 			await inviteMember(database, mailer, actor, event.params.id, input);
 			return `/group/${event.params.id}?invited=${encodeURIComponent(input.email)}`;
 		}),

@@ -5,7 +5,8 @@ import { isTargetResult } from '$lib/certify/fidelity-target';
 import { targetCommand } from '$lib/evidence/target-command';
 import { app } from '$lib/server/app';
 import { requireSignedIn } from '$lib/server/auth-web';
-import { formFailure, pageProblem } from '$lib/server/problems';
+import { runFormAction } from '$lib/server/http/form-action';
+import { pageProblem } from '$lib/server/problems';
 import { listCertificates, mayIssueCertificate } from '$lib/server/services/certificate-reads';
 import { issueCertificate } from '$lib/server/services/certificates';
 import { cancelCheck, getCheck, mayCancelCheck } from '$lib/server/services/checks';
@@ -49,29 +50,26 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 
 export const actions: Actions = {
 	/** Issues a signed certificate for this finished check, then shows it. */
-	issue: async ({ locals, params, url }) => {
-		const actor = requireSignedIn(locals, url);
-		const { database } = await app();
-		let certificateId: string;
-		try {
-			certificateId = (await issueCertificate(database, actor, params.id, params.checkId)).id;
-		} catch (problem) {
-			return formFailure('issue', problem);
-		}
-		redirect(303, `/claims/${params.id}/certificates/${certificateId}`);
+	issue: async (event) => {
+		const actor = requireSignedIn(event.locals, event.url);
+		const { id, checkId } = event.params;
+		return runFormAction(event, 'issue', {}, async () => {
+			const { database } = await app();
+			const certificate = await issueCertificate(database, actor, id, checkId);
+			redirect(303, `/claims/${id}/certificates/${certificate.id}`);
+		});
 	},
 
 	/** Cancels this check while it is queued or running; 409 beside the button once it has ended. */
-	cancel: async ({ locals, params, url }) => {
-		const actor = requireSignedIn(locals, url);
-		const { database } = await app();
-		try {
-			const check = await getCheck(database, actor, params.checkId);
-			if (check.claimId !== params.id) error(404, { message: 'No such check.', code: 'not_found' });
+	cancel: async (event) => {
+		const actor = requireSignedIn(event.locals, event.url);
+		const { id, checkId } = event.params;
+		return runFormAction(event, 'cancel', {}, async () => {
+			const { database } = await app();
+			const check = await getCheck(database, actor, checkId);
+			if (check.claimId !== id) error(404, { message: 'No such check.', code: 'not_found' });
 			await cancelCheck(database, actor, check.id);
-		} catch (problem) {
-			return formFailure('cancel', problem);
-		}
-		redirect(303, `/claims/${params.id}/checks/${params.checkId}`);
+			redirect(303, `/claims/${id}/checks/${checkId}`);
+		});
 	}
 };
