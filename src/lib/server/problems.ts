@@ -6,6 +6,7 @@
 import { error, fail, json, type ActionFailure } from '@sveltejs/kit';
 import { ZodError } from 'zod';
 import { InputError } from '$lib/certify';
+import type { FieldErrors, FormProblem } from '$lib/views/forms';
 import {
 	ConflictError,
 	FieldError,
@@ -27,6 +28,8 @@ export const PROBLEM_CODES = [
 	'rate_limited',
 	'unavailable'
 ] as const;
+
+export type { FieldErrors, FormProblem } from '$lib/views/forms';
 
 export type ProblemCode = (typeof PROBLEM_CODES)[number];
 
@@ -109,17 +112,6 @@ export const apiProblem = (e: unknown): Response => problemResponse(known(e));
 export function pageProblem(e: unknown): never {
 	const { status, code, message } = known(e);
 	error(status, { message, code });
-}
-
-export type FieldErrors = Record<string, string>;
-
-/** What every form action answers on failure: which form, the message per field, what was sent. */
-export interface FormProblem {
-	action: string;
-	errors: FieldErrors;
-	values: Record<string, string>;
-	/** The place in an uploaded counts file, when the problem is there. */
-	place: { line: number | null; column: number | null } | null;
 }
 
 /** The first message per field of a failed zod parse ('' for errors about the whole form). */

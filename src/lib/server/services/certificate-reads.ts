@@ -20,6 +20,9 @@ import {
 import type { Actor } from '../access/actor';
 import { decideClaim, requireClaim, type ClaimAction } from '../access/permissions';
 import { NotFoundError } from './errors';
+import type { Lookup } from '$lib/views/certificates';
+
+export type { Lookup } from '$lib/views/certificates';
 import { withdrawalOf } from './ledger';
 import { checkAgainst, type CheckpointCheck } from './ledger-checkpoint';
 
@@ -89,14 +92,6 @@ export async function certificateFile(
 		? { bytes, filename: `rankseal-certificate-${id}.pdf`, contentType: 'application/pdf' }
 		: { bytes, filename: `rankseal-evidence-${id}.zip`, contentType: 'application/zip' };
 }
-
-/** A withdrawn certificate also says why and when, as its ledger entry records. */
-export type Lookup =
-	| { status: 'unknown' }
-	| (PublicCertificate & {
-			status: PublicCertificate['status'];
-			withdrawal: { reason: string; at: string } | null;
-	  });
 
 /** Public: a certificate by id or by fingerprint. */
 export async function lookupCertificate(

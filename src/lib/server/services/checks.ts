@@ -18,32 +18,11 @@ import { audit } from './audit';
 import { refuseOverCheckLimits } from './check-limits';
 import { ConflictError, FieldError, NotFoundError } from './errors';
 import { newId } from './ids';
+import type { CheckView } from '$lib/views/checks';
+
+export type { CheckView } from '$lib/views/checks';
 
 export type { CheckRequest } from '$lib/claims/schema';
-
-export interface CheckView {
-	id: string;
-	claimId: string;
-	datasetId: string;
-	status: CheckStatus;
-	/** 0..1 */
-	progress: number;
-	resamples: number;
-	confidence: number;
-	seed: number;
-	/** Accidentals subtracted before normalising: the result is labelled background-subtracted. */
-	subtractAccidentals: boolean;
-	createdAt: string;
-	startedAt: string | null;
-	finishedAt: string | null;
-	error: string | null;
-	result: CertificationResult | null;
-	cancelledAt: string | null;
-	/** Who cancelled it: an account's name, or "the referee" for a review link. */
-	cancelledBy: string | null;
-	/** A referee's re-run from a review link: the referee's, never listed as the authors', never certified. */
-	byReferee: boolean;
-}
 
 const isoOrNull = (value: Date | string | null | undefined) =>
 	value ? new Date(value).toISOString() : null;

@@ -16,47 +16,10 @@ import { requireClaim, requireGroup, visibleClaimsWhere } from '../access/permis
 import { audit } from './audit';
 import { ForbiddenError } from './errors';
 import { newId } from './ids';
+import type { ClaimPage, ClaimView, LatestCheck } from '$lib/views/claims';
 
 export type { ClaimInput, ClaimQuery } from '$lib/claims/schema';
-
-export interface LatestCheck {
-	id: string;
-	status: CheckStatus;
-	certifiedSchmidtNumber: number | null;
-	verdict: 'supported' | 'not supported' | null;
-}
-
-export interface ClaimView {
-	id: string;
-	groupId: string;
-	groupName: string;
-	title: string;
-	sourceDescription: string;
-	dimension: number;
-	method: ClaimMethod;
-	bases: number[];
-	fourier: FourierConvention;
-	claimedSchmidtNumber: number;
-	manuscriptReference: string | null;
-	state: ClaimState;
-	/** Why and when the claim was withdrawn; null while it stands. */
-	withdrawal: { reason: string; at: string } | null;
-	/** A claim on time-ordered trials (issue 20): its mode and declared probabilities (null: uniform). */
-	trials: { mode: 'trials' | 'blocks'; probabilities: number[] | null } | null;
-	/** fidelity-target: the declared λ (Σλ² = 1) and, when the service scaled it, λ as declared. */
-	target: { coefficients: number[]; declared: number[] | null } | null;
-	createdBy: { id: string; name: string };
-	createdAt: string;
-	updatedAt: string;
-	latestCheck: LatestCheck | null;
-}
-
-export interface ClaimPage {
-	items: ClaimView[];
-	total: number;
-	page: number;
-	pageSize: number;
-}
+export type { ClaimPage, ClaimView, LatestCheck } from '$lib/views/claims';
 
 export const DEFAULT_PAGE_SIZE = 20;
 

@@ -17,33 +17,15 @@ import { trialsPart } from '../checks/trials-task';
 import { config } from '../config';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
-import type { DatasetAttributes, DatasetSummary, PreviewTable } from '../db/models/Dataset';
+import type { DatasetAttributes } from '../db/models/Dataset';
+import type { DatasetSummary, DatasetTables, DatasetView, PreviewTable } from '$lib/views/datasets';
 import { audit } from './audit';
 import { checkCalibrationUpload } from './dataset-calibration';
 import { ConflictError, NotFoundError } from './errors';
 import { refuseOverQuota } from './group-storage';
 import { newId } from './ids';
 
-export type { DatasetSummary, PreviewTable } from '../db/models/Dataset';
-
-export interface DatasetView {
-	id: string;
-	claimId: string;
-	sha256: string;
-	byteSize: number;
-	format: 'csv' | 'json';
-	originalName: string;
-	createdAt: string;
-	summary: DatasetSummary;
-	/** SHA-256 of the calibration file uploaded beside the counts (witnesses.md §4.4), or null. */
-	calibrationSha256: string | null;
-}
-
-export interface DatasetTables {
-	dimension: number;
-	/** One d×d table per basis: counts[a][b]. */
-	tables: PreviewTable[];
-}
+export type { DatasetSummary, DatasetTables, DatasetView, PreviewTable } from '$lib/views/datasets';
 
 /** Where the bytes with this SHA-256 live. */
 export function datasetFilePath(sha256: string): string {

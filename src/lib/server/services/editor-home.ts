@@ -6,24 +6,13 @@ import { Op } from 'sequelize';
 import type { Actor } from '../access/actor';
 import { requireService } from '../access/permissions';
 import type { Database } from '../db';
-import { certificateView, type CertificateView } from './certificate-views';
-import { reportView, type ReportView } from './reports';
-import { reviewLinkView, type ReviewLinkView } from './review-links';
-import { shareView, type ShareView } from './shares';
+import { certificateView } from './certificate-views';
+import { reportView } from './reports';
+import { reviewLinkView } from './review-links';
+import { shareView } from './shares';
+import type { SharedClaim } from '$lib/views/review';
 
-export interface SharedClaim {
-	share: ShareView;
-	claim: {
-		id: string;
-		title: string;
-		dimension: number;
-		method: string;
-		claimedSchmidtNumber: number;
-		state: string;
-	};
-	certificates: CertificateView[];
-	links: (ReviewLinkView & { report: ReportView | null })[];
-}
+export type { SharedClaim } from '$lib/views/review';
 
 async function linksOf(database: Database, shareId: string) {
 	const { ReviewLink, Report } = database.models;

@@ -17,6 +17,9 @@ import { audit } from './audit';
 import { ConflictError, NotFoundError } from './errors';
 import { newId } from './ids';
 import { sendNotice } from './notices';
+import type { ReportView } from '$lib/views/review';
+
+export type { ReportState, ReportView } from '$lib/views/review';
 
 const reportInput = (source: ValueSource) =>
 	z.object({
@@ -36,18 +39,6 @@ export const reportInputSchema = reportInput('form');
 /** The API's body: submit as JSON's true or false only. */
 export const reportJsonSchema = reportInput('json');
 export type ReportInput = z.input<typeof reportInputSchema>;
-
-export type ReportState = 'draft' | 'submitted' | 'released';
-
-export interface ReportView {
-	id: string;
-	claimId: string;
-	recommendation: ReportAttributes['recommendation'];
-	comments: string;
-	state: ReportState;
-	submittedAt: string | null;
-	releasedAt: string | null;
-}
 
 const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null);
 

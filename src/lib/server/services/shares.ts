@@ -15,6 +15,7 @@ import { audit } from './audit';
 import { ConflictError, NotFoundError } from './errors';
 import { hashSecret, newId, newSecret } from './ids';
 import { sendNotice } from './notices';
+import type { ShareView } from '$lib/views/review';
 
 export const shareInputSchema = z.object({
 	email: z
@@ -37,18 +38,7 @@ export const shareInputSchema = z.object({
 		.superRefine(textRule('The manuscript reference', 'line'))
 });
 export type ShareInput = z.input<typeof shareInputSchema>;
-
-export interface ShareView {
-	id: string;
-	claimId: string;
-	editorEmail: string;
-	journal: string;
-	manuscript: string;
-	/** Whether the editor has opened the notice's link (not merely has an account). */
-	opened: boolean;
-	createdAt: string;
-	withdrawnAt: string | null;
-}
+export type { ShareView } from '$lib/views/review';
 
 export const shareView = (s: ShareAttributes): ShareView => ({
 	id: s.id,
