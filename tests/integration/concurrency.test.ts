@@ -85,7 +85,7 @@ describe('writes under concurrency', () => {
 	});
 
 	it('lets 250 concurrent writes of five kinds all succeed while four checks run', async () => {
-		const { database, mailer } = world;
+		const { database } = world;
 		// Four long checks (10⁶ resamples) write their progress while the writes below run.
 		for (let seed = 1; seed <= 4; seed++)
 			await startCheck(database, lead, slowClaimId, { resamples: 1_000_000, seed });
@@ -93,7 +93,7 @@ describe('writes under concurrency', () => {
 		for (let i = 0; i < EACH; i++) {
 			writes.push(changeMemberRole(database, lead, groupId, authors[i], 'lead'));
 			writes.push(
-				inviteMember(database, mailer, lead, groupId, {
+				inviteMember(database, lead, groupId, {
 					email: `guest${i}@fjord.example`,
 					role: 'author'
 				})

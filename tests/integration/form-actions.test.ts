@@ -109,18 +109,18 @@ describe('group invitation', () => {
 	});
 
 	it('refuses the service itself once the form has used the budget', async () => {
-		const { database, mailer } = await app();
+		const { database } = await app();
 		const input = { email: 'sigrid.lie@halvorsen.test', role: 'author' as const };
-		const direct = inviteMember(database, mailer, asUser(lead) as never, groupId, input);
+		const direct = inviteMember(database, asUser(lead) as never, groupId, input);
 		await expect(direct).rejects.toBeInstanceOf(RateLimitedError);
 	});
 });
 
 describe('sign-up, reset and resend', () => {
 	it('limits sign-up per client address in the service: a direct call, then the form', async () => {
-		const { database, mailer } = await app();
+		const { database } = await app();
 		const person = { email: 'kari.moe@halvorsen.test', name: 'Kari Moe', password: 'x'.repeat(16) };
-		await accounts.signUp(database, mailer, person, { address: ADDRESS });
+		await accounts.signUp(database, person, { address: ADDRESS });
 		const fields = { name: 'Per Nes', email: 'per.nes@halvorsen.test', password: 'y'.repeat(16) };
 		const form = event('http://localhost/signup?/signup', fields);
 		const result = await outcome(() => signupPage.actions.signup(form.event));
@@ -134,19 +134,19 @@ describe('sign-up, reset and resend', () => {
 		const second = event('http://localhost/reset?/request', { email: 'per.nes@halvorsen.test' });
 		const result = await outcome(() => resetPage.actions.request(second.event));
 		expect(refused(result, second.headers)).toMatchObject({ status: 429 });
-		const { database, mailer } = await app();
-		const direct = accounts.requestPasswordReset(database, mailer, 'kari.moe@halvorsen.test', {
+		const { database } = await app();
+		const direct = accounts.requestPasswordReset(database, 'kari.moe@halvorsen.test', {
 			address: ADDRESS
 		});
 		await expect(direct).rejects.toBeInstanceOf(RateLimitedError);
 	});
 
 	it('limits new confirmation links per account: the form, then a direct call', async () => {
-		const { database, mailer } = await app();
+		const { database } = await app();
 		const reader = await addUser(database, 'Leif Dahl', [[groupId, 'author']]);
 		const first = event('http://localhost/account?/resend', {}, reader);
 		expect(isRedirect(await outcome(() => accountPage.actions.resend(first.event)))).toBe(true);
-		const direct = accounts.resendVerification(database, mailer, asUser(reader) as never);
+		const direct = accounts.resendVerification(database, asUser(reader) as never);
 		await expect(direct).rejects.toBeInstanceOf(RateLimitedError);
 		const third = event('http://localhost/account?/resend', {}, reader);
 		const result = await outcome(() => accountPage.actions.resend(third.event));

@@ -54,7 +54,7 @@ export function app(): Promise<AppServices> {
 		const mail = await startMail(database);
 		// Checks left queued or running by an earlier process resume now.
 		await startCheckRunner(database);
-		if (config().demo) console.log(`Demo scenario: ${await seedDemo(database, mail.mailer)}`);
+		if (config().demo) console.log(`Demo scenario: ${await seedDemo(database)}`);
 		process.once('SIGTERM', beginStop);
 		process.once('SIGINT', beginStop);
 		// adapter-node emits this once the HTTP server has closed (SIGINT, SIGTERM).

@@ -22,13 +22,12 @@ import { queueMail } from './mail-queue';
 /** A new confirmation link, and the mail carrying it, in the caller's transaction. */
 export async function queueVerification(
 	database: Database,
-	mailer: Mailer,
 	user: { id: string; email: string; name: string },
 	transaction: Transaction
 ) {
 	const ttl = VERIFY_EMAIL_TTL_MS;
 	const token = await issueEmailToken(database, user.id, 'verify-email', ttl, transaction);
-	const values = { name: user.name, email: user.email, link: mailLink(mailer, `/verify/${token}`) };
+	const values = { name: user.name, email: user.email, link: mailLink(`/verify/${token}`) };
 	await queueMail(database, transaction, user.email, 'verify-email', values);
 }
 
@@ -50,14 +49,14 @@ export interface Asker {
 }
 
 /** The address already has an account: tell its owner, in the same shape of work as a sign-up. */
-async function tellOwner(database: Database, mailer: Mailer, userId: string, person: Person) {
+async function tellOwner(database: Database, userId: string, person: Person) {
 	await writeTransaction(database, async (transaction) => {
 		const details = { email: person.email };
 		const entry = { actorId: null, subjectType: 'user', subjectId: userId, details };
 		await audit(database, { ...entry, action: 'account.sign-up-existing' }, transaction);
 		const owner = (await database.models.User.findByPk(userId, { transaction }))!;
 		const values = { name: owner.get('name') as string, email: person.email };
-		const link = mailLink(mailer, '/reset');
+		const link = mailLink('/reset');
 		await queueMail(database, transaction, person.email, 'signup-existing', { ...values, link });
 	});
 	return { userId, invited: false };
@@ -71,7 +70,6 @@ async function tellOwner(database: Database, mailer: Mailer, userId: string, per
  */
 export async function signUp(
 	database: Database,
-	mailer: Mailer,
 	input: { email: string; name: string; password: string },
 	proof: { invitationToken?: string | null } & Asker = {}
 ): Promise<SignUpOutcome> {
@@ -88,7 +86,7 @@ export async function signUp(
 	const invited = await invitedAddress(database, proof.invitationToken, person.email);
 	const existing = await User.findOne({ where: { email: person.email } });
 	if (existing && invited) throw new FieldError('email', EMAIL_TAKEN);
-	if (existing) return tellOwner(database, mailer, existing.get('id') as string, person);
+	if (existing) return tellOwner(database, existing.get('id') as string, person);
 	const userId = newId();
 	try {
 		await writeTransaction(database, async (transaction) => {
@@ -98,8 +96,7 @@ export async function signUp(
 			const entry = { actorId: userId, subjectType: 'user', subjectId: userId };
 			const details = { email: person.email };
 			await audit(database, { ...entry, action: 'account.signed-up', details }, transaction);
-			if (!invited)
-				return queueVerification(database, mailer, { id: userId, ...person }, transaction);
+			if (!invited) return queueVerification(database, { id: userId, ...person }, transaction);
 			const via = { via: 'invitation' };
 			await audit(
 				database,
@@ -112,7 +109,7 @@ export async function signUp(
 		// Someone took the address a moment ago: their owner hears of it, as above.
 		const taken = (await User.findOne({ where: { email: person.email } }))!;
 		if (invited) throw new FieldError('email', EMAIL_TAKEN);
-		return tellOwner(database, mailer, taken.get('id') as string, person);
+		return tellOwner(database, taken.get('id') as string, person);
 	}
 	return { userId, invited };
 }
@@ -124,7 +121,6 @@ export async function signUp(
  */
 export async function requestPasswordReset(
 	database: Database,
-	mailer: Mailer,
 	input: string,
 	asker: Asker = {}
 ): Promise<void> {
@@ -138,13 +134,13 @@ export async function requestPasswordReset(
 			const ttl = RESET_PASSWORD_TTL_MS;
 			const token = await issueEmailToken(database, user.id, 'reset-password', ttl, transaction);
 			await audit(database, { ...entry, action: 'account.password-reset-requested' }, transaction);
-			const link = mailLink(mailer, `/reset/${token}`);
+			const link = mailLink(`/reset/${token}`);
 			const values = { name: user.name, email: user.email, link };
 			await queueMail(database, transaction, user.email, 'reset-password', values);
 		} else {
 			const details = { email };
 			await audit(database, { ...entry, action: 'account.reset-no-account', details }, transaction);
-			const values = { email, link: mailLink(mailer, '/signup') };
+			const values = { email, link: mailLink('/signup') };
 			await queueMail(database, transaction, email, 'reset-no-account', values);
 		}
 	});

@@ -11,12 +11,7 @@ import type { CertificateAttributes } from '../db/models/Certificate';
 import { publishedKeys } from '../evidence/keys';
 import { startCheckRunner } from '../checks/registry';
 import { absolute } from './certificate-files';
-import {
-	certificateView,
-	publicCertificate,
-	type CertificateView,
-	type PublicCertificate
-} from './certificate-views';
+import { certificateView, publicCertificate, type CertificateView } from './certificate-views';
 import type { Actor } from '../access/actor';
 import { decideClaim, requireClaim, type ClaimAction } from '../access/permissions';
 import { NotFoundError } from './errors';

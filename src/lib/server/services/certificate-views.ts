@@ -1,6 +1,6 @@
 /** What callers see of a certificate, and where its files and public page are. */
-import { isExploratory, type AnalysisEntry } from '../../evidence/analyses';
-import type { EvidenceClaim, EvidenceManifest } from '../../evidence/manifest';
+import { isExploratory } from '../../evidence/analyses';
+import type { EvidenceManifest } from '../../evidence/manifest';
 import type { CertificateAttributes } from '../db/models/Certificate';
 import type {
 	CertificateAnalyses,

@@ -4,14 +4,14 @@
  */
 import { col } from 'sequelize';
 import { checkRequestSchemaFor, type CheckRequest } from '$lib/claims/schema';
-import { DEFAULTS, type CertificationResult } from '$lib/certify';
+import { DEFAULTS } from '$lib/certify';
 import { accountIdOf, type Actor } from '../access/actor';
 import { requireCheckCancel, requireClaim } from '../access/permissions';
 import { checkBucket } from '../checks/queue';
 import { hasCheckRunner, startCheckRunner } from '../checks/registry';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
-import { ACTIVE_CHECK_STATUSES, type CheckAttributes, type CheckStatus } from '../db/models/Check';
+import { ACTIVE_CHECK_STATUSES, type CheckAttributes } from '../db/models/Check';
 import type { DatasetAttributes } from '../db/models/Dataset';
 import { seedFor } from './analyses';
 import { audit } from './audit';

@@ -3,19 +3,18 @@
  * caller see them.
  */
 import { MAX_PAGE } from '$lib/paging';
-import { col, fn, Op, where as sqlWhere, type Order, type WhereOptions } from 'sequelize';
+import { col, fn, Op, type Order, type WhereOptions } from 'sequelize';
 import { claimInputSchema, type ClaimInputValues, type ClaimQuery } from '$lib/claims/schema';
-import type { FourierConvention } from '$lib/certify';
-import type { ClaimMethod } from '$lib/claims/target';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
-import type { ClaimAttributes, ClaimState } from '../db/models/Claim';
-import type { CheckStatus } from '../db/models/Check';
+import type { ClaimAttributes } from '../db/models/Claim';
 import { accountIdOf, type Actor } from '../access/actor';
 import { requireClaim, requireGroup, visibleClaimsWhere } from '../access/permissions';
 import { audit } from './audit';
 import { ForbiddenError } from './errors';
 import { newId } from './ids';
+import { claimTextWhere } from '../claims/claim-search';
+import { DEFAULT_SORT, firstOrder } from '$lib/claims/filter';
 import type { ClaimPage, ClaimView, LatestCheck } from '$lib/views/claims';
 
 export type { ClaimInput, ClaimQuery } from '$lib/claims/schema';
@@ -155,17 +154,10 @@ export async function listClaims(
 	const where: WhereOptions = { [Op.and]: [await visibleClaimsWhere(database, actor)] };
 	if (query.state) Object.assign(where, { state: query.state });
 	if (query.method) Object.assign(where, { method: query.method });
-	if (query.q) {
-		// instr() rather than LIKE, so that % and _ in the search are plain characters.
-		const needle = query.q.toLowerCase();
-		const contains = (column: string) =>
-			sqlWhere(fn('instr', fn('lower', col(column)), needle), Op.gt, 0);
-		Object.assign(where, {
-			[Op.or]: ['title', 'source_description', 'manuscript_reference'].map(contains)
-		});
-	}
-	const direction = query.order === 'asc' ? 'ASC' : 'DESC';
-	const sort = query.sort ?? 'createdAt';
+	if (query.q) Object.assign(where, claimTextWhere(query.q));
+	const sort = query.sort ?? DEFAULT_SORT;
+	// The same first direction as the page: text columns A→Z, the rest newest or largest first.
+	const direction = (query.order ?? firstOrder(sort)) === 'asc' ? 'ASC' : 'DESC';
 	const order: Order = [
 		sort === 'title' ? [fn('lower', col('title')), direction] : [sort, direction],
 		[col('rowid'), direction]

@@ -18,7 +18,7 @@ import { config } from '../config';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
 import type { DatasetAttributes } from '../db/models/Dataset';
-import type { DatasetSummary, DatasetTables, DatasetView, PreviewTable } from '$lib/views/datasets';
+import type { DatasetTables, DatasetView } from '$lib/views/datasets';
 import { audit } from './audit';
 import { checkCalibrationUpload } from './dataset-calibration';
 import { ConflictError, NotFoundError } from './errors';

@@ -31,7 +31,6 @@ export interface InvitationView {
 
 export async function inviteMember(
 	database: Database,
-	mailer: Mailer,
 	actor: Actor,
 	groupId: string,
 	input: { email: string; role: GroupRole }
@@ -79,7 +78,7 @@ export async function inviteMember(
 		);
 		const group = (await Group.findByPk(groupId, { transaction }))!.get('name') as string;
 		const inviter = (await User.findByPk(actorId, { transaction }))!.get('name') as string;
-		const link = mailLink(mailer, `/invite/${token}`);
+		const link = mailLink(`/invite/${token}`);
 		const values = { inviter, group, email, role: input.role, link };
 		await queueMail(database, transaction, email, 'invitation', values);
 		return id;

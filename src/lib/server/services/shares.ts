@@ -62,7 +62,6 @@ async function requireCertified(database: Database, claimId: string) {
 /** Shares the claim and sends the editor a notice; ConflictError for a claim not certified. */
 export async function shareClaim(
 	database: Database,
-	mailer: Mailer,
 	actor: Actor,
 	claimId: string,
 	input: ShareInput
@@ -94,11 +93,11 @@ export async function shareClaim(
 	});
 	const sharer = (await User.findByPk(sharedBy))!.get('name') as string;
 	await sendNotice(
-		{ database, mailer },
+		{ database },
 		{
 			template: 'notice-claim-shared',
 			to: email,
-			link: mailLink(mailer, sharePath(token)),
+			link: mailLink(sharePath(token)),
 			words: { sharer, email, journal, manuscript, claim: claim.title }
 		}
 	);

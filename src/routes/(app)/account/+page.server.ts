@@ -11,8 +11,8 @@ export const actions: Actions = {
 	resend: async (event) => {
 		const actor = requireSignedIn(event.locals, event.url);
 		return runFormAction(event, 'resend', {}, async () => {
-			const { database, mailer } = await app();
-			await resendVerification(database, mailer, actor);
+			const { database } = await app();
+			await resendVerification(database, actor);
 			redirect(303, '/account?sent=1');
 		});
 	},

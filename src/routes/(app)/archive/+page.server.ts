@@ -1,6 +1,7 @@
 import { redirect } from '@sveltejs/kit';
 import { z } from 'zod';
 import { archiveFilterSchema } from '$lib/archive/schema';
+import { withdrawReasonField } from '$lib/claims/withdrawal';
 import { app } from '$lib/server/app';
 import { echoValues, requireSignedIn } from '$lib/server/auth-web';
 import { runFormAction } from '$lib/server/http/form-action';
@@ -27,7 +28,7 @@ export const load: PageServerLoad = async ({ locals, url }) => {
 
 const withdrawForm = z.object({
 	claimId: z.string().min(1).max(100),
-	reason: z.string().max(2000)
+	reason: withdrawReasonField
 });
 
 export const actions: Actions = {

@@ -46,8 +46,8 @@ export const actions: Actions = {
 		const actor = requireSignedIn(event.locals, event.url);
 		const reportId = field(await event.request.formData(), 'reportId');
 		return runFormAction(event, 'release', { reportId }, async () => {
-			const { database, mailer } = await app();
-			await releaseReport(database, mailer, actor, reportId);
+			const { database } = await app();
+			await releaseReport(database, actor, reportId);
 			return { action: 'release' };
 		});
 	}

@@ -14,8 +14,8 @@ export const actions: Actions = {
 		const values = echoValues(form, ['email']);
 		return runFormAction(event, 'request', values, async () => {
 			const { email } = resetRequestForm.parse(formFields(form));
-			const { database, mailer } = await app();
-			await requestPasswordReset(database, mailer, email, { address: event.getClientAddress() });
+			const { database } = await app();
+			await requestPasswordReset(database, email, { address: event.getClientAddress() });
 			// The same answer whether or not the address has an account.
 			redirect(303, '/reset?sent=1');
 		});

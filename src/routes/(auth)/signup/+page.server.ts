@@ -23,7 +23,7 @@ export const actions: Actions = {
 			const next = safeNext(form.get('next') as string | null, '/group');
 			const invitationToken = invitationTokenIn(next);
 			const address = event.getClientAddress();
-			const outcome = await signUp(database, mailer, input, { invitationToken, address });
+			const outcome = await signUp(database, input, { invitationToken, address });
 			if (outcome.invited) {
 				await startSession(lucia, event.cookies, outcome.userId);
 				redirect(303, next);

@@ -60,8 +60,8 @@ export const actions: Actions = {
 		};
 		const submit = form.get('intent') === 'file';
 		return runFormAction(event, 'report', values, async () => {
-			const { database, mailer } = await app();
-			await saveReport(database, mailer, actor, { ...values, submit });
+			const { database } = await app();
+			await saveReport(database, actor, { ...values, submit });
 			redirect(303, `${event.url.pathname}#report`);
 		});
 	}

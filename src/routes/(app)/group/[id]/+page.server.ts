@@ -63,8 +63,8 @@ async function act<S extends z.ZodType<Record<string, string>>>(
 export const actions: Actions = {
 	invite: (event) =>
 		act(event, 'invite', inviteForm, async (actor, input) => {
-			const { database, mailer } = await app();
-			await inviteMember(database, mailer, actor, event.params.id, input);
+			const { database } = await app();
+			await inviteMember(database, actor, event.params.id, input);
 			return `/group/${event.params.id}?invited=${encodeURIComponent(input.email)}`;
 		}),
 	revoke: (event) =>

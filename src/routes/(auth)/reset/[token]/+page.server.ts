@@ -18,7 +18,7 @@ export const actions: Actions = {
 		return runFormAction(event, 'reset', {}, async () => {
 			const { password } = newPasswordForm.parse(formFields(form));
 			const { database, lucia, mailer } = await app();
-			const result = await resetPassword(database, lucia, mailer, event.params.token, password);
+			const result = await resetPassword(database, lucia, event.params.token, password);
 			// A used or expired link: the page, loaded again, says which.
 			if (!result.ok) redirect(303, event.url.pathname);
 			// Every session of the account has ended, this browser's included.

@@ -1,5 +1,6 @@
 import { json } from '@sveltejs/kit';
-import { claimJsonSchema, claimQuerySchema } from '$lib/claims/schema';
+import { claimQuerySchema } from '$lib/claims/filter';
+import { claimJsonSchema } from '$lib/claims/schema';
 import { apiEndpoint, readJson } from '$lib/server/api';
 import { createClaim, listClaims } from '$lib/server/services/claims';
 

@@ -33,8 +33,8 @@ export const actions: Actions = {
 			manuscript: field(form, 'manuscript')
 		};
 		return runFormAction(event, 'share', values, async () => {
-			const { database, mailer } = await app();
-			await shareClaim(database, mailer, actor, event.params.id, values);
+			const { database } = await app();
+			await shareClaim(database, actor, event.params.id, values);
 			redirect(303, `/claims/${event.params.id}/sharing`);
 		});
 	},

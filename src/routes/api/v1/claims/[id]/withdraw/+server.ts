@@ -1,9 +1,10 @@
 import { json } from '@sveltejs/kit';
 import { z } from 'zod';
+import { withdrawReasonField } from '$lib/claims/withdrawal';
 import { apiEndpoint, readJson } from '$lib/server/api';
 import { withdrawClaim } from '$lib/server/services/claim-withdraw';
 
-const body = z.object({ reason: z.string({ error: 'Say why the claim is withdrawn.' }).max(2000) });
+const body = z.object({ reason: withdrawReasonField });
 
 /** Withdraws the claim and every certificate of it, with the reason on the ledger. */
 export const POST = apiEndpoint(async ({ event, actor, database }) => {
