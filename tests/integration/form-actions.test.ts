@@ -8,7 +8,7 @@
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
-import { isActionFailure, isRedirect } from '@sveltejs/kit';
+import { isActionFailure, isHttpError, isRedirect } from '@sveltejs/kit';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { addGroup, addUser } from './backend-fixtures';
 
@@ -20,7 +20,8 @@ process.env.RANKSEAL_RATE_LIMITS = JSON.stringify({
 	invitations: { points: 1 },
 	signUp: { points: 1 },
 	resetRequest: { points: 1 },
-	resendVerification: { points: 1 }
+	resendVerification: { points: 1 },
+	sealLookup: { points: 1 }
 });
 
 const { app } = await import('../../src/lib/server/app');
@@ -33,6 +34,8 @@ const groupPage = await import('../../src/routes/(app)/group/[id]/+page.server')
 const signupPage = await import('../../src/routes/(auth)/signup/+page.server');
 const resetPage = await import('../../src/routes/(auth)/reset/+page.server');
 const accountPage = await import('../../src/routes/(app)/account/+page.server');
+const sealPage = await import('../../src/routes/seal/+page.server');
+const { lookupFrom } = await import('../../src/lib/server/services/certificate-reads');
 
 const ADDRESS = '203.0.113.41';
 let lead: string, groupId: string;
@@ -151,6 +154,21 @@ describe('sign-up, reset and resend', () => {
 		const third = event('http://localhost/account?/resend', {}, reader);
 		const result = await outcome(() => accountPage.actions.resend(third.event));
 		expect(refused(result, third.headers).status).toBe(429);
+		expect(Number(third.headers['retry-after'])).toBeGreaterThan(0);
+	});
+});
+
+describe('certificate look-up on /seal', () => {
+	it('counts the page and a direct service call alike, per client address', async () => {
+		const url = 'http://localhost/seal?q=0123456789abcdef';
+		const first = event(url, {});
+		expect(await sealPage.load(first.event)).toMatchObject({ lookup: { status: 'unknown' } });
+		const { database } = await app();
+		const direct = lookupFrom(database, '0123456789abcdef', ADDRESS);
+		await expect(direct).rejects.toBeInstanceOf(RateLimitedError);
+		const third = event(url, {});
+		const refused = await outcome(() => sealPage.load(third.event));
+		expect(isHttpError(refused) && refused.status).toBe(429);
 		expect(Number(third.headers['retry-after'])).toBeGreaterThan(0);
 	});
 });

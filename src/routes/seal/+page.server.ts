@@ -2,8 +2,8 @@ import { z } from 'zod';
 import { app } from '$lib/server/app';
 import { runFormAction } from '$lib/server/http/form-action';
 import { ApiError } from '$lib/server/problems';
-import { countSealLookup, sealRefusal } from '$lib/server/seal-limits';
-import { checkBundle, lookupCertificate } from '$lib/server/services/certificate-reads';
+import { pageRefused } from '$lib/server/http/page-refusal';
+import { checkBundle, lookupFrom } from '$lib/server/services/certificate-reads';
 import { FieldError } from '$lib/server/services/errors';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -17,17 +17,16 @@ export const load: PageServerLoad = async (event) => {
 	const parsed = lookupQuery.safeParse(event.url.searchParams.get('q') ?? '');
 	const query = parsed.success ? parsed.data : '';
 	if (!query) return { query, lookup: null };
-	await countSealLookup(event);
 	const { database } = await app();
-	return { query, lookup: await lookupCertificate(database, query) };
+	const from = event.getClientAddress();
+	const lookup = await lookupFrom(database, query, from).catch((e) => pageRefused(event, e));
+	return { query, lookup };
 };
 
 export const actions: Actions = {
 	/** Public: checks an uploaded evidence bundle against the keys this service has published. */
 	bundle: (event) =>
 		runFormAction(event, 'bundle', {}, async () => {
-			const refusal = await sealRefusal(event, 'sealBundle');
-			if (refusal) throw refusal;
 			const form = await event.request.formData().catch(() => null);
 			const file = form?.get('bundle');
 			if (!(file instanceof File) || file.size === 0)

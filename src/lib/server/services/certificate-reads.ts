@@ -15,6 +15,7 @@ import { certificateView, publicCertificate, type CertificateView } from './cert
 import type { Actor } from '../access/actor';
 import { decideClaim, requireClaim, type ClaimAction } from '../access/permissions';
 import { NotFoundError } from './errors';
+import { takeOrRefuse } from '../rate-limits';
 import type { Lookup } from '$lib/views/certificates';
 
 export type { Lookup } from '$lib/views/certificates';
@@ -105,19 +106,37 @@ export async function lookupCertificate(
 	return { ...publicCertificate(certificate), withdrawal };
 }
 
+/** The public /seal pages ask no account, so their limits are per client address. */
+const SEAL_WORDS = {
+	sealBundle: 'Too many bundle checks from your network address.',
+	sealLookup: 'Too many certificate look-ups from your network address.'
+} as const;
+
+/** Public, from the /seal pages: a look-up counted per client address (RATE_LIMITS.sealLookup). */
+export async function lookupFrom(
+	database: Database,
+	idOrFingerprint: string,
+	from: string
+): Promise<Lookup> {
+	await takeOrRefuse('sealLookup', from, SEAL_WORDS.sealLookup);
+	return lookupCertificate(database, idOrFingerprint);
+}
+
 /**
  * Public: checks an uploaded bundle against the service's keys on the work pool (inflating and
  * re-running it would block every other request), then says what is on record. `from` is the
- * client address: bundles queue fairly by it.
+ * client address: bundles queue fairly by it, and each costs a worker thread, so it is counted
+ * (RATE_LIMITS.sealBundle); callers that name no address (tests, scripts) are not counted.
  */
 export async function checkBundle(
 	database: Database,
 	zip: Buffer,
-	from = 'unknown'
+	from?: string
 ): Promise<{ report: VerificationReport; record: Lookup; ledger: CheckpointCheck | null }> {
+	if (from !== undefined) await takeOrRefuse('sealBundle', from, SEAL_WORDS.sealBundle);
 	const trustedKeyIds = publishedKeys().map((k) => k.id);
 	const runner = await startCheckRunner(database);
-	const report = await runner.verifyBundle({ zip, trustedKeyIds }, `seal:${from}`);
+	const report = await runner.verifyBundle({ zip, trustedKeyIds }, `seal:${from ?? 'unknown'}`);
 	const record = report.fingerprint
 		? await lookupCertificate(database, report.fingerprint)
 		: { status: 'unknown' as const };
