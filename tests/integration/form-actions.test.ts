@@ -28,6 +28,8 @@ const { app } = await import('../../src/lib/server/app');
 const { closeDb } = await import('../../src/lib/server/db');
 const { resetRateLimits } = await import('../../src/lib/server/rate-limits');
 const { RateLimitedError } = await import('../../src/lib/server/services/errors');
+const { apiProblem } = await import('../../src/lib/server/problems');
+const { formRefused } = await import('../../src/lib/server/http/form-action');
 const { inviteMember } = await import('../../src/lib/server/services/invitations');
 const accounts = await import('../../src/lib/server/services/accounts');
 const groupPage = await import('../../src/routes/(app)/group/[id]/+page.server');
@@ -170,5 +172,16 @@ describe('certificate look-up on /seal', () => {
 		const refused = await outcome(() => sealPage.load(third.event));
 		expect(isHttpError(refused) && refused.status).toBe(429);
 		expect(Number(third.headers['retry-after'])).toBeGreaterThan(0);
+	});
+});
+
+describe('a 429 that names no wait', () => {
+	it('still carries Retry-After, in the API and beside a form', () => {
+		const refusal = new RateLimitedError('Slow down.');
+		expect(apiProblem(refusal).headers.get('retry-after')).toBe('1');
+		const headers: Record<string, string> = {};
+		const failure = formRefused({ setHeaders: (h) => Object.assign(headers, h) }, 'x', refusal);
+		expect(failure.status).toBe(429);
+		expect(headers['retry-after']).toBe('1');
 	});
 });

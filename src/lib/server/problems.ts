@@ -86,7 +86,8 @@ export function problemOf(e: unknown): Problem | null {
 			status: 429,
 			code: 'rate_limited',
 			message: e.message,
-			retryAfterSeconds: e.retryAfterSeconds ?? undefined
+			// Every 429 says when to try again (RFC 6585 §4): a second when the service named no wait.
+			retryAfterSeconds: e.retryAfterSeconds ?? 1
 		};
 	return null;
 }
@@ -97,11 +98,16 @@ const known = (e: unknown): Problem => {
 	return problem;
 };
 
+/** The Retry-After header a problem's answer carries (a 429's), or none. */
+export function retryHeaders(problem: Problem | null): Record<string, string> {
+	const seconds = problem?.retryAfterSeconds;
+	return seconds === undefined ? {} : { 'retry-after': String(seconds) };
+}
+
 /** The API's JSON answer for a problem. */
 export function problemResponse(problem: Problem): Response {
-	const { status, code, message, field, line, column, retryAfterSeconds } = problem;
-	const headers: Record<string, string> = {};
-	if (retryAfterSeconds !== undefined) headers['retry-after'] = String(retryAfterSeconds);
+	const { status, code, message, field, line, column } = problem;
+	const headers = retryHeaders(problem);
 	return json({ error: { code, message, field, line, column } }, { status, headers });
 }
 

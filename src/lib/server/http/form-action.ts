@@ -6,7 +6,7 @@
  * returns the data the page shows once.
  */
 import type { ActionFailure, RequestEvent } from '@sveltejs/kit';
-import { formFailure, problemOf, type FormProblem } from '../problems';
+import { formFailure, problemOf, retryHeaders, type FormProblem } from '../problems';
 
 type HeaderEvent = Pick<RequestEvent, 'setHeaders'>;
 
@@ -17,9 +17,8 @@ export function formRefused(
 	problem: unknown,
 	values: Record<string, string> = {}
 ): ActionFailure<FormProblem> {
-	const known = problemOf(problem);
-	if (known?.status === 429)
-		event.setHeaders({ 'retry-after': String(known.retryAfterSeconds ?? 1) });
+	const headers = retryHeaders(problemOf(problem));
+	if (headers['retry-after']) event.setHeaders(headers);
 	return formFailure(action, problem, values);
 }
 
