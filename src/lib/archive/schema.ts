@@ -1,10 +1,8 @@
 /** The group archive's filters, as they appear in the address, the API query and the export. */
 import { z } from 'zod';
+import { blankToUndefined } from '$lib/schema-numbers';
 import { MAX_DIMENSION, MIN_DIMENSION } from '$lib/claims/claim-limits';
 import { claimFilterFields } from '$lib/claims/filter';
-
-const blankToUndefined = (value: unknown) =>
-	typeof value === 'string' && value.trim() === '' ? undefined : value;
 
 const day = (label: string) =>
 	z.preprocess(

@@ -4,13 +4,11 @@
  * the same on the page and in the API.
  */
 import { z } from 'zod';
+import { blankToUndefined } from '$lib/schema-numbers';
 import { pageField, pageSizeField } from '$lib/paging';
 import { SEARCH_MAX_LENGTH } from './claim-limits';
 import { CLAIM_METHODS, CLAIM_SORTS } from './schema';
 import { CLAIM_STATES } from './states';
-
-const blankToUndefined = (value: unknown) =>
-	typeof value === 'string' && value.trim() === '' ? undefined : value;
 
 /** The fields both lists filter by. */
 export const claimFilterFields = {

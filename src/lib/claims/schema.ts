@@ -19,7 +19,13 @@ import {
 } from '$lib/certify';
 import { basisProblem } from '$lib/certify/bases';
 import { MAX_SEED } from '$lib/certify/poisson';
-import { booleanFrom, numberFrom, wholeNumber, type ValueSource } from '$lib/schema-numbers';
+import {
+	blankToUndefined,
+	booleanFrom,
+	numberFrom,
+	wholeNumber,
+	type ValueSource
+} from '$lib/schema-numbers';
 import {
 	MANUSCRIPT_REFERENCE_MAX_LENGTH,
 	MAX_DIMENSION,
@@ -48,9 +54,6 @@ export const CLAIM_SORTS = [
 	'state',
 	'updatedAt'
 ] as const;
-
-const blankToUndefined = (value: unknown) =>
-	typeof value === 'string' && value.trim() === '' ? undefined : value;
 
 /** A whole number a claim needs: blank or missing reads as "not given", not as 0 (too small). */
 const requiredWholeNumber = (
