@@ -6,9 +6,9 @@
 import { performance } from 'node:perf_hooks';
 import { resamplesCeiling } from '../src/lib/certify';
 import { isotropicCounts, toCountsJson } from '../src/lib/certify/planner/white-counts';
-import { issueCertificate } from '../src/lib/server/services/certificates';
-import { createClaim } from '../src/lib/server/services/claims';
-import { addDataset } from '../src/lib/server/services/datasets';
+import { issueCertificate } from '../src/lib/server/certificates/certificates';
+import { createClaim } from '../src/lib/server/claims/claims';
+import { addDataset } from '../src/lib/server/datasets/datasets';
 import { bytesOf, claimFields, countsCsv } from '../tests/integration/backend-fixtures';
 import { evidenceWorld, finishedCheck } from '../tests/integration/evidence-world';
 

@@ -3,7 +3,7 @@
 // stop on SIGTERM/SIGINT and 'sveltekit:shutdown' — plus the security headers on the answers that
 // never reach Kit's handle hook: the files it serves itself (/_app/…, static/).
 import { server } from '../build/index.js';
-import { securityHeadersFor } from '../src/lib/server/security-headers.js';
+import { securityHeadersFor } from '../src/lib/server/http/security-headers.js';
 
 /**
  * @param {import('node:http').IncomingMessage} request

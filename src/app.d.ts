@@ -1,7 +1,7 @@
 // See https://svelte.dev/docs/kit/types#app.d.ts
 import type { Session, User } from 'lucia';
-import type { Actor } from '$lib/server/access/actor';
-import type { RateLimitedError } from '$lib/server/services/errors';
+import type { Actor } from '$lib/server/core/actor';
+import type { RateLimitedError } from '$lib/server/core/errors';
 
 declare global {
 	namespace App {

@@ -1,12 +1,13 @@
 import type { Handle, HandleServerError, ServerInit } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
-import { app, isStopping } from '$lib/server/app';
-import { ANONYMOUS } from '$lib/server/access/actor';
-import { runAs } from '$lib/server/access/acting';
-import { reviewLink } from '$lib/server/access/review-handle';
-import { originCheck, rejectControlCharacters } from '$lib/server/request-guards';
-import { securityHeaders } from '$lib/server/response-headers';
-import { authenticate } from '$lib/server/services/tokens';
+import { app } from '$lib/server/app/app';
+import { isStopping } from '$lib/server/app/signals';
+import { ANONYMOUS } from '$lib/server/core/actor';
+import { runAs } from '$lib/server/core/acting';
+import { reviewLink } from '$lib/server/http/review-handle';
+import { originCheck, rejectControlCharacters } from '$lib/server/http/request-guards';
+import { securityHeaders } from '$lib/server/http/response-headers';
+import { authenticate } from '$lib/server/accounts/tokens';
 
 /**
  * Reads the session cookie, renews it when lucia says so, and resolves the caller: locals.actor,

@@ -9,7 +9,7 @@
 import { chmod, copyFile, mkdir, readdir, rename, writeFile } from 'node:fs/promises';
 import path from 'node:path';
 import sqlite3 from 'sqlite3';
-import { config } from '../lib/server/config';
+import { config } from '../lib/server/core/config';
 import {
 	DATABASE_NAME,
 	MANIFEST_FORMAT,

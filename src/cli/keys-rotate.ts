@@ -5,10 +5,10 @@
  *   npm run --silent keys:rotate
  */
 import { existsSync } from 'node:fs';
-import { config } from '../lib/server/config';
+import { config } from '../lib/server/core/config';
 import { openDatabase, writeTransaction } from '../lib/server/db';
 import { publishedKeys, rotateServiceKey } from '../lib/server/evidence/keys';
-import { introduceKeys } from '../lib/server/services/key-introductions';
+import { introduceKeys } from '../lib/server/ledger/key-introductions';
 
 /** The ledger entry number of the introduction, or why there is none yet. */
 async function introduce(): Promise<string> {

@@ -9,12 +9,12 @@ import { readFileSync } from 'node:fs';
 import { parseArgs } from 'node:util';
 import { parseCheckpoint, type LedgerCheckpoint } from '../lib/evidence/checkpoint';
 import { BUNDLE_FILES } from '../lib/evidence/layout';
-import { config } from '../lib/server/config';
+import { config } from '../lib/server/core/config';
 import { openDatabase, type Database } from '../lib/server/db';
 import { readZip } from '../lib/server/evidence/zip-read';
-import { rememberedCheckpoint } from '../lib/server/services/checkpoint-memory';
-import { checkAgainst } from '../lib/server/services/ledger-checkpoint';
-import { verifyLedger } from '../lib/server/services/ledger-verify';
+import { rememberedCheckpoint } from '../lib/server/ledger/checkpoint-memory';
+import { checkAgainst } from '../lib/server/ledger/ledger-checkpoint';
+import { verifyLedger } from '../lib/server/ledger/ledger-verify';
 
 /** A checkpoint from a JSON file, or the checkpoint.json inside an evidence bundle (zip). */
 function checkpointFile(file: string): LedgerCheckpoint {

@@ -10,8 +10,8 @@
  */
 import { chmod, copyFile, mkdir, readdir, readFile, rename } from 'node:fs/promises';
 import path from 'node:path';
-import { config } from '../lib/server/config';
-import { CHECKPOINT_MEMORY } from '../lib/server/services/checkpoint-memory';
+import { config } from '../lib/server/core/config';
+import { CHECKPOINT_MEMORY } from '../lib/server/ledger/checkpoint-memory';
 import {
 	DATABASE_NAME,
 	MANIFEST_FORMAT,

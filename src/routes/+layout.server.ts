@@ -1,4 +1,4 @@
-import { app } from '$lib/server/app';
+import { app } from '$lib/server/app/app';
 import { decideService } from '$lib/server/access/permissions';
 import type { LayoutServerLoad } from './$types';
 

@@ -9,9 +9,9 @@ import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { hashPassword } from '../../src/lib/server/auth';
+import { hashPassword } from '../../src/lib/server/accounts/auth';
 import { openDatabase } from '../../src/lib/server/db';
-import { newId } from '../../src/lib/server/services/ids';
+import { newId } from '../../src/lib/server/core/ids';
 import { startApp, type AppServer } from './server';
 
 let app: AppServer;

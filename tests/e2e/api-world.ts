@@ -3,12 +3,12 @@
  * built app starts on it: two groups with one lead each, their API tokens, a revoked token
  * and a browser session. Also the list of endpoints the source serves, for the OpenAPI test.
  */
-import { sessionKey } from '../../src/lib/server/auth';
+import { sessionKey } from '../../src/lib/server/accounts/auth';
 import { mkdtempSync, readdirSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { openDatabase } from '../../src/lib/server/db';
-import { newId, newSecret } from '../../src/lib/server/services/ids';
+import { newId, newSecret } from '../../src/lib/server/core/ids';
 
 export interface ApiWorld {
 	dataDir: string;

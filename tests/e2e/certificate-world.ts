@@ -9,7 +9,7 @@ import { certify, parseCounts, sampledCounts, states, toCountsCsv } from '../../
 import { sha256Hex } from '../../src/lib/evidence/hash';
 import { openDatabase } from '../../src/lib/server/db';
 import { summarise } from '../../src/lib/server/checks/summary';
-import { newId } from '../../src/lib/server/services/ids';
+import { newId } from '../../src/lib/server/core/ids';
 
 export interface FinishedClaim {
 	claimId: string;

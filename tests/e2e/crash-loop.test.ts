@@ -10,7 +10,7 @@
 import { rmSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { cutOffReason } from '../../src/lib/server/checks/left-behind';
-import { MAX_CHECK_STARTS } from '../../src/lib/server/services/check-limits';
+import { MAX_CHECK_STARTS } from '../../src/lib/server/checks/check-limits';
 import { seedApiWorld, type ApiWorld } from './api-world';
 import { addFinishedClaims, type FinishedClaim } from './certificate-world';
 import { apiPost, assertWhole, readRows, send, whenChanged } from './fault-world';

@@ -6,9 +6,9 @@
 import { rmSync } from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { hashPassword, sessionKey } from '../../src/lib/server/auth';
+import { hashPassword, sessionKey } from '../../src/lib/server/accounts/auth';
 import { openDatabase } from '../../src/lib/server/db';
-import { newId } from '../../src/lib/server/services/ids';
+import { newId } from '../../src/lib/server/core/ids';
 import { seedApiWorld, type ApiWorld } from './api-world';
 import { startApp, type AppServer } from './server';
 

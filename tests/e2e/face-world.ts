@@ -3,11 +3,11 @@
  * claim withdrawn with a reason (by the lead), and a fresh claim by author1 with no check yet.
  */
 import path from 'node:path';
-import { userActor } from '../../src/lib/server/access/actor';
+import { userActor } from '../../src/lib/server/core/actor';
 import { openDatabase } from '../../src/lib/server/db';
 import { DEMO_CLAIMS, DEMO_PEOPLE } from '../../src/lib/server/demo/scenario';
-import { withdrawClaim } from '../../src/lib/server/services/claim-withdraw';
-import { createClaim } from '../../src/lib/server/services/claims';
+import { withdrawClaim } from '../../src/lib/server/claims/claim-withdraw';
+import { createClaim } from '../../src/lib/server/claims/claims';
 import { seedPagesWorld, type PagesWorld } from './pages-world';
 
 export const WITHDRAW_REASON = 'The comb drifted during run 3; counts re-taken (test reason).';

@@ -4,7 +4,7 @@
  * claim; the group page shows the lead the storage used against the quota. The app's check
  * worker waits until it is aborted, so the check is still running whenever the test looks.
  */
-import { sessionKey } from '../../src/lib/server/auth';
+import { sessionKey } from '../../src/lib/server/accounts/auth';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
@@ -12,9 +12,9 @@ import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { stopCheckRunner } from '../../src/lib/server/checks/registry';
 import { openDatabase } from '../../src/lib/server/db';
-import { createClaim } from '../../src/lib/server/services/claims';
-import { addDataset } from '../../src/lib/server/services/datasets';
-import { newId } from '../../src/lib/server/services/ids';
+import { createClaim } from '../../src/lib/server/claims/claims';
+import { addDataset } from '../../src/lib/server/datasets/datasets';
+import { newId } from '../../src/lib/server/core/ids';
 import { asUser } from '../integration/actors';
 import {
 	addGroup,

@@ -2,12 +2,12 @@
  * People for the browser flow, written into a fresh data folder before the built app starts:
  * an admin (to read the mail outbox) and a member of another group with a claim of its own.
  */
-import { sessionKey } from '../../src/lib/server/auth';
+import { sessionKey } from '../../src/lib/server/accounts/auth';
 import { mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { openDatabase } from '../../src/lib/server/db';
-import { newId } from '../../src/lib/server/services/ids';
+import { newId } from '../../src/lib/server/core/ids';
 
 export interface FlowWorld {
 	dataDir: string;

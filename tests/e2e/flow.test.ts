@@ -11,7 +11,7 @@ import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { launchBrowser, type TestBrowser } from './browser';
 import { openDatabase } from '../../src/lib/server/db';
-import { newId } from '../../src/lib/server/services/ids';
+import { newId } from '../../src/lib/server/core/ids';
 import { seedFlowWorld, type FlowWorld } from './flow-world';
 import { startApp, type AppServer } from './server';
 

@@ -4,21 +4,21 @@
  * and manuscript, a withdrawal reason, a share's journal and manuscript, a token's name and a
  * referee's report (filed and released, so its notices are written too).
  */
-import { sessionKey } from '../../src/lib/server/auth';
+import { sessionKey } from '../../src/lib/server/accounts/auth';
 import { mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
-import type { RefereeActor, UserActor } from '../../src/lib/server/access/actor';
+import type { RefereeActor, UserActor } from '../../src/lib/server/core/actor';
 import { openDatabase } from '../../src/lib/server/db';
-import { issueCertificate } from '../../src/lib/server/services/certificates';
-import { withdrawClaim } from '../../src/lib/server/services/claim-withdraw';
-import { createClaim } from '../../src/lib/server/services/claims';
-import { addDataset } from '../../src/lib/server/services/datasets';
-import { newId } from '../../src/lib/server/services/ids';
-import { releaseReport, saveReport } from '../../src/lib/server/services/reports';
-import { createReviewLink } from '../../src/lib/server/services/review-links';
-import { shareClaim } from '../../src/lib/server/services/shares';
-import { createToken } from '../../src/lib/server/services/tokens';
+import { issueCertificate } from '../../src/lib/server/certificates/certificates';
+import { withdrawClaim } from '../../src/lib/server/claims/claim-withdraw';
+import { createClaim } from '../../src/lib/server/claims/claims';
+import { addDataset } from '../../src/lib/server/datasets/datasets';
+import { newId } from '../../src/lib/server/core/ids';
+import { releaseReport, saveReport } from '../../src/lib/server/review/reports';
+import { createReviewLink } from '../../src/lib/server/review/review-links';
+import { shareClaim } from '../../src/lib/server/review/shares';
+import { createToken } from '../../src/lib/server/accounts/tokens';
 import { GOOD_CSV } from '../integration/hostile-counts';
 import { doneCheck } from './matrix-parts';
 

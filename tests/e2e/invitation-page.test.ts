@@ -4,7 +4,7 @@
  * same masked words; the invitee, signed in, joins with the page's button, and only then does the
  * header offer the archive.
  */
-import { sessionKey } from '../../src/lib/server/auth';
+import { sessionKey } from '../../src/lib/server/accounts/auth';
 import { mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
@@ -12,7 +12,7 @@ import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { maskedAddress } from '../../src/lib/server/access/masked-address';
 import { openDatabase, type Database } from '../../src/lib/server/db';
-import { newId, newSecret } from '../../src/lib/server/services/ids';
+import { newId, newSecret } from '../../src/lib/server/core/ids';
 import { addGroup, addUser } from '../integration/backend-fixtures';
 import { launchBrowser, type TestBrowser } from './browser';
 import { startApp, type AppServer } from './server';

@@ -4,13 +4,13 @@
  */
 import { readFileSync } from 'node:fs';
 import { certify, parseCounts } from '../../src/lib/certify';
-import type { UserActor } from '../../src/lib/server/access/actor';
-import { hashPassword, sessionKey } from '../../src/lib/server/auth';
+import type { UserActor } from '../../src/lib/server/core/actor';
+import { hashPassword, sessionKey } from '../../src/lib/server/accounts/auth';
 import type { Database } from '../../src/lib/server/db';
 import type { GroupRole } from '../../src/lib/server/db/models/Membership';
 import type { AccountRole } from '../../src/lib/server/db/models/User';
-import { datasetFilePath } from '../../src/lib/server/services/datasets';
-import { newId, newSecret } from '../../src/lib/server/services/ids';
+import { datasetFilePath } from '../../src/lib/server/storage/counts-store';
+import { newId, newSecret } from '../../src/lib/server/core/ids';
 
 export const DAY = 86_400_000;
 export const asUser = (userId: string, accountRole: AccountRole = 'researcher'): UserActor => ({

@@ -3,7 +3,7 @@
  * demo check finished (the runner is awaited, not polled), plus browser sessions for each role
  * and for a researcher who is in no group.
  */
-import { sessionKey } from '../../src/lib/server/auth';
+import { sessionKey } from '../../src/lib/server/accounts/auth';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
@@ -12,9 +12,9 @@ import { startCheckRunner, stopCheckRunner } from '../../src/lib/server/checks/r
 import { openDatabase } from '../../src/lib/server/db';
 import { DEMO_PEOPLE } from '../../src/lib/server/demo/scenario';
 import { seedDemo } from '../../src/lib/server/demo/seed';
-import { newId } from '../../src/lib/server/services/ids';
-import { catcherTransport, createMailer } from '../../src/lib/server/mail';
-import { startMailCatcher } from '../../src/lib/server/mail-catcher';
+import { newId } from '../../src/lib/server/core/ids';
+import { catcherTransport, createMailer } from '../../src/lib/server/mail/mail';
+import { startMailCatcher } from '../../src/lib/server/mail/mail-catcher';
 
 export interface PagesWorld {
 	dataDir: string;

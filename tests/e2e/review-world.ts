@@ -3,17 +3,18 @@
  * an admin (reads the mail outbox) and an author whose claim has a finished check and a
  * certificate. The editor has no account yet; they make one from the share notice.
  */
-import { sessionKey } from '../../src/lib/server/auth';
+import { sessionKey } from '../../src/lib/server/accounts/auth';
 import { mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { certify, parseCounts, sampledCounts, states, toCountsCsv } from '../../src/lib/certify';
-import type { UserActor } from '../../src/lib/server/access/actor';
+import type { UserActor } from '../../src/lib/server/core/actor';
 import { openDatabase, type Database } from '../../src/lib/server/db';
-import { issueCertificate } from '../../src/lib/server/services/certificates';
-import { createClaim } from '../../src/lib/server/services/claims';
-import { addDataset, datasetFilePath } from '../../src/lib/server/services/datasets';
-import { newId } from '../../src/lib/server/services/ids';
+import { issueCertificate } from '../../src/lib/server/certificates/certificates';
+import { createClaim } from '../../src/lib/server/claims/claims';
+import { addDataset } from '../../src/lib/server/datasets/datasets';
+import { datasetFilePath } from '../../src/lib/server/storage/counts-store';
+import { newId } from '../../src/lib/server/core/ids';
 
 export interface ReviewFlowWorld {
 	dataDir: string;

@@ -6,11 +6,11 @@
  * answer for known and unknown addresses, back-off on failed sign-ins, a cap on mail per address.
  */
 import { afterAll, afterEach, beforeAll, describe, expect, it, vi } from 'vitest';
-import { resetRateLimits } from '../../src/lib/server/rate-limits';
-import { requestPasswordReset, signUp } from '../../src/lib/server/services/accounts';
-import { listOutbox, requeueOutboxMessage } from '../../src/lib/server/services/mail-outbox';
-import { signInFrom } from '../../src/lib/server/services/sign-in';
-import { deliverDue } from '../../src/lib/server/mail-sender';
+import { resetRateLimits } from '../../src/lib/server/core/rate-limits';
+import { requestPasswordReset, signUp } from '../../src/lib/server/accounts/accounts';
+import { listOutbox, requeueOutboxMessage } from '../../src/lib/server/mail/mail-outbox';
+import { signInFrom } from '../../src/lib/server/accounts/sign-in';
+import { deliverDue } from '../../src/lib/server/mail/mail-sender';
 import { asUser } from './actors';
 import { mailTo, mailWorld, type MailWorld } from './mail-world';
 

@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { safeNext } from '../../src/lib/server/auth-web';
+import { safeNext } from '../../src/lib/server/http/auth-web';
 import {
 	requestPasswordReset,
 	resendVerification,
@@ -8,10 +8,10 @@ import {
 	signOutEverywhere,
 	signUp,
 	verifyEmail
-} from '../../src/lib/server/services/accounts';
-import { FieldError } from '../../src/lib/server/services/field-error';
-import { hashSecret } from '../../src/lib/server/services/ids';
-import { authenticate, createToken, listTokens } from '../../src/lib/server/services/tokens';
+} from '../../src/lib/server/accounts/accounts';
+import { FieldError } from '../../src/lib/server/core/field-error';
+import { hashSecret } from '../../src/lib/server/core/ids';
+import { authenticate, createToken, listTokens } from '../../src/lib/server/accounts/tokens';
 import { asUser } from './actors';
 import { linkToken, mailTo, mailWorld, type MailWorld } from './mail-world';
 

@@ -1,5 +1,5 @@
 /** Callers for service tests, built as the hooks would build them (without a request). */
-import type { RefereeActor, UserActor } from '../../src/lib/server/access/actor';
+import type { RefereeActor, UserActor } from '../../src/lib/server/core/actor';
 import type { AccountRole } from '../../src/lib/server/db/models/User';
 
 export const asUser = (userId: string, accountRole: AccountRole = 'researcher'): UserActor => ({

@@ -22,13 +22,16 @@ import { startCheckRunner, stopCheckRunner } from '../../src/lib/server/checks/r
 import { publishedKeys } from '../../src/lib/server/evidence/keys';
 import { bundleVerifier } from '../../src/lib/server/evidence/verifier-file';
 import { readZip } from '../../src/lib/server/evidence/zip-read';
-import { distinctAnalyses, type AnalysisRun } from '../../src/lib/server/services/analyses';
-import { resultAtLevel } from '../../src/lib/server/services/certificate-analyses';
-import { certificateFile, getCertificate } from '../../src/lib/server/services/certificate-reads';
-import { issueCertificate } from '../../src/lib/server/services/certificates';
-import { getCheck, startCheck } from '../../src/lib/server/services/checks';
-import { createClaim } from '../../src/lib/server/services/claims';
-import { addDataset } from '../../src/lib/server/services/datasets';
+import { distinctAnalyses, type AnalysisRun } from '../../src/lib/server/checks/analyses';
+import { resultAtLevel } from '../../src/lib/server/certificates/certificate-analyses';
+import {
+	certificateFile,
+	getCertificate
+} from '../../src/lib/server/certificates/certificate-reads';
+import { issueCertificate } from '../../src/lib/server/certificates/certificates';
+import { getCheck, startCheck } from '../../src/lib/server/checks/checks';
+import { createClaim } from '../../src/lib/server/claims/claims';
+import { addDataset } from '../../src/lib/server/datasets/datasets';
 import { asUser } from './actors';
 import { addGroup, addUser, bytesOf } from './backend-fixtures';
 import { temporaryDatabase } from './db';

@@ -20,18 +20,18 @@ import { sha256Hex } from '../../src/lib/evidence/hash';
 import { canonicalCountsText, type EvidenceManifest } from '../../src/lib/evidence/manifest';
 import { bundleCheckWorker } from '../../src/lib/server/checks/locate';
 import { startCheckRunner, stopCheckRunner } from '../../src/lib/server/checks/registry';
-import type { UserActor } from '../../src/lib/server/access/actor';
+import type { UserActor } from '../../src/lib/server/core/actor';
 import {
 	certificateFile,
 	getCertificate,
 	lookupCertificate
-} from '../../src/lib/server/services/certificate-reads';
-import { issueCertificate } from '../../src/lib/server/services/certificates';
-import { getCheck, startCheck } from '../../src/lib/server/services/checks';
-import { createClaim } from '../../src/lib/server/services/claims';
-import { countsRecord } from '../../src/lib/server/services/counts-record';
-import { addDataset } from '../../src/lib/server/services/datasets';
-import { NotFoundError } from '../../src/lib/server/services/errors';
+} from '../../src/lib/server/certificates/certificate-reads';
+import { issueCertificate } from '../../src/lib/server/certificates/certificates';
+import { getCheck, startCheck } from '../../src/lib/server/checks/checks';
+import { createClaim } from '../../src/lib/server/claims/claims';
+import { countsRecord } from '../../src/lib/server/datasets/counts-record';
+import { addDataset } from '../../src/lib/server/datasets/datasets';
+import { NotFoundError } from '../../src/lib/server/core/errors';
 import { asUser } from './actors';
 import { addGroup, addUser, bytesOf, claimFields, countsCsv } from './backend-fixtures';
 import { temporaryDatabase } from './db';

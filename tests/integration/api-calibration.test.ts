@@ -4,9 +4,9 @@
  */
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { readCountsUpload } from '../../src/lib/server/api';
-import { problemOf } from '../../src/lib/server/problems';
-import { checkCalibrationUpload } from '../../src/lib/server/services/dataset-calibration';
+import { readCountsUpload } from '../../src/lib/server/http/multipart';
+import { problemOf } from '../../src/lib/server/http/problems';
+import { checkCalibrationUpload } from '../../src/lib/server/datasets/dataset-calibration';
 
 const url = new URL('http://127.0.0.1:3000/api/v1/claims/c1/datasets');
 const post = (body: BodyInit) =>

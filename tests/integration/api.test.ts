@@ -4,9 +4,11 @@ import { describe, expect, it } from 'vitest';
 import { z } from 'zod';
 import { MAX_COUNTS_FILE_BYTES } from '../../src/lib/certify';
 import { checkRequestJsonSchema, claimJsonSchema } from '../../src/lib/claims/schema';
-import { ApiError, apiEndpoint, readCountsUpload, readJson } from '../../src/lib/server/api';
-import { originCheck } from '../../src/lib/server/request-guards';
-import { ANONYMOUS } from '../../src/lib/server/access/actor';
+import { ApiError, apiEndpoint } from '../../src/lib/server/http/api';
+import { readCountsUpload } from '../../src/lib/server/http/multipart';
+import { readJson } from '../../src/lib/server/http/read-body';
+import { originCheck } from '../../src/lib/server/http/request-guards';
+import { ANONYMOUS } from '../../src/lib/server/core/actor';
 
 const url = new URL('http://127.0.0.1:3000/api/v1/claims/c1/datasets');
 const post = (body: BodyInit, headers: Record<string, string> = {}) =>

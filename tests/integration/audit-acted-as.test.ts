@@ -3,10 +3,10 @@
  * a review link (which one); the hooks run each request inside runAs, as done here.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { runAs } from '../../src/lib/server/access/acting';
-import { audit } from '../../src/lib/server/services/audit';
-import { createClaim } from '../../src/lib/server/services/claims';
-import { authenticate, createToken } from '../../src/lib/server/services/tokens';
+import { runAs } from '../../src/lib/server/core/acting';
+import { audit } from '../../src/lib/server/core/audit';
+import { createClaim } from '../../src/lib/server/claims/claims';
+import { authenticate, createToken } from '../../src/lib/server/accounts/tokens';
 import { asReferee, asUser } from './actors';
 import { addGroup, addUser, claimFields } from './backend-fixtures';
 import { temporaryDatabase } from './db';

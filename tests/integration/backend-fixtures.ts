@@ -2,7 +2,7 @@
 import { sampledCounts, states, toCountsCsv } from '../../src/lib/certify';
 import type { Database } from '../../src/lib/server/db';
 import type { GroupRole } from '../../src/lib/server/db/models/Membership';
-import { newId } from '../../src/lib/server/services/ids';
+import { newId } from '../../src/lib/server/core/ids';
 
 export async function addGroup(database: Database, name: string): Promise<string> {
 	const id = newId();

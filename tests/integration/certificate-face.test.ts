@@ -8,8 +8,8 @@ import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
-import { issueCertificate } from '../../src/lib/server/services/certificates';
-import { certificateFile } from '../../src/lib/server/services/certificate-reads';
+import { issueCertificate } from '../../src/lib/server/certificates/certificates';
+import { certificateFile } from '../../src/lib/server/certificates/certificate-reads';
 import { embeddedGlyphs, popplerFonts } from '../pdf-glyphs';
 import { evidenceWorld, finishedCheck, type EvidenceWorld } from './evidence-world';
 

@@ -15,22 +15,22 @@ import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { bundleVerifier } from '../../src/lib/server/evidence/verifier-file';
 import { publishedKeys, serviceKey } from '../../src/lib/server/evidence/keys';
-import { issueCertificate } from '../../src/lib/server/services/certificates';
-import { withdrawCertificate } from '../../src/lib/server/services/certificate-withdraw';
+import { issueCertificate } from '../../src/lib/server/certificates/certificates';
+import { withdrawCertificate } from '../../src/lib/server/certificates/certificate-withdraw';
 import {
 	certificateFile,
 	getCertificate,
 	listCertificates,
 	lookupCertificate
-} from '../../src/lib/server/services/certificate-reads';
-import { ConflictError, ForbiddenError, NotFoundError } from '../../src/lib/server/services/errors';
-import { listLedger } from '../../src/lib/server/services/ledger';
-import { verifyLedger } from '../../src/lib/server/services/ledger-verify';
+} from '../../src/lib/server/certificates/certificate-reads';
+import { ConflictError, ForbiddenError, NotFoundError } from '../../src/lib/server/core/errors';
+import { listLedger } from '../../src/lib/server/ledger/ledger';
+import { verifyLedger } from '../../src/lib/server/ledger/ledger-verify';
 import { sampledCounts, states, toCountsCsv } from '../../src/lib/certify';
 import { verifyEvidence } from '../../src/lib/evidence/verify';
 import { readZip } from '../../src/lib/server/evidence/zip-read';
-import { createClaim } from '../../src/lib/server/services/claims';
-import { addDataset } from '../../src/lib/server/services/datasets';
+import { createClaim } from '../../src/lib/server/claims/claims';
+import { addDataset } from '../../src/lib/server/datasets/datasets';
 import { bytesOf, claimFields } from './backend-fixtures';
 import { evidenceWorld, finishedCheck, type EvidenceWorld } from './evidence-world';
 

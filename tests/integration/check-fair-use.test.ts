@@ -7,17 +7,18 @@ import { existsSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startCheckRunner, stopCheckRunner } from '../../src/lib/server/checks/registry';
 import type { CheckRunner } from '../../src/lib/server/checks/runner';
-import { cancelCheck, getCheck, startCheck } from '../../src/lib/server/services/checks';
-import { createClaim } from '../../src/lib/server/services/claims';
-import { addDataset, datasetFilePath } from '../../src/lib/server/services/datasets';
+import { cancelCheck, getCheck, startCheck } from '../../src/lib/server/checks/checks';
+import { createClaim } from '../../src/lib/server/claims/claims';
+import { addDataset } from '../../src/lib/server/datasets/datasets';
+import { datasetFilePath } from '../../src/lib/server/storage/counts-store';
 import {
 	ConflictError,
 	ForbiddenError,
 	NotFoundError,
 	RateLimitedError
-} from '../../src/lib/server/services/errors';
-import { groupStorage } from '../../src/lib/server/services/group-storage';
-import { newId } from '../../src/lib/server/services/ids';
+} from '../../src/lib/server/core/errors';
+import { groupStorage } from '../../src/lib/server/accounts/group-storage';
+import { newId } from '../../src/lib/server/core/ids';
 import { sha256Hex } from '../../src/lib/evidence/hash';
 import { addGroup, addUser, bytesOf, claimFields, countsCsv } from './backend-fixtures';
 import { asReferee, asUser } from './actors';

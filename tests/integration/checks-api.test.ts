@@ -8,7 +8,7 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import type { RequestEvent } from '@sveltejs/kit';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Actor } from '../../src/lib/server/access/actor';
+import type { Actor } from '../../src/lib/server/core/actor';
 import { asUser } from './actors';
 import { addGroup, addUser, bytesOf, claimFields, countsCsv } from './backend-fixtures';
 import { waitingWorker } from '../waiting-worker';
@@ -24,9 +24,9 @@ Object.assign(process.env, {
 	RANKSEAL_CHECK_RETRY_AFTER_S: '30'
 });
 
-const { app, stopApp } = await import('../../src/lib/server/app');
-const { createClaim } = await import('../../src/lib/server/services/claims');
-const { addDataset } = await import('../../src/lib/server/services/datasets');
+const { app, stopApp } = await import('../../src/lib/server/app/app');
+const { createClaim } = await import('../../src/lib/server/claims/claims');
+const { addDataset } = await import('../../src/lib/server/datasets/datasets');
 const startApi = await import('../../src/routes/api/v1/claims/[id]/checks/+server');
 const checkApi = await import('../../src/routes/api/v1/checks/[id]/+server');
 

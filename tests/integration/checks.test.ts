@@ -11,11 +11,12 @@ import {
 	listChecks,
 	startCheck,
 	type CheckView
-} from '../../src/lib/server/services/checks';
-import { createClaim, getClaim } from '../../src/lib/server/services/claims';
-import { addDataset, datasetFilePath } from '../../src/lib/server/services/datasets';
-import { ConflictError, NotFoundError } from '../../src/lib/server/services/errors';
-import { newId } from '../../src/lib/server/services/ids';
+} from '../../src/lib/server/checks/checks';
+import { createClaim, getClaim } from '../../src/lib/server/claims/claims';
+import { addDataset } from '../../src/lib/server/datasets/datasets';
+import { datasetFilePath } from '../../src/lib/server/storage/counts-store';
+import { ConflictError, NotFoundError } from '../../src/lib/server/core/errors';
+import { newId } from '../../src/lib/server/core/ids';
 import { addGroup, addUser, bytesOf, claimFields, countsCsv } from './backend-fixtures';
 import { asUser } from './actors';
 import { temporaryDatabase } from './db';

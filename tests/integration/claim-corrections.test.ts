@@ -8,23 +8,19 @@ import { existsSync, renameSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { InputError, sampledCounts, states, toCountsCsv } from '../../src/lib/certify';
 import { stopCheckRunner } from '../../src/lib/server/checks/registry';
-import { updateClaim } from '../../src/lib/server/services/claim-edit';
-import { getCheck, startCheck } from '../../src/lib/server/services/checks';
-import { createClaim, getClaim } from '../../src/lib/server/services/claims';
-import { removeDataset } from '../../src/lib/server/services/dataset-removal';
-import {
-	addDataset,
-	datasetFilePath,
-	datasetTables,
-	listDatasets
-} from '../../src/lib/server/services/datasets';
+import { updateClaim } from '../../src/lib/server/claims/claim-edit';
+import { getCheck, startCheck } from '../../src/lib/server/checks/checks';
+import { createClaim, getClaim } from '../../src/lib/server/claims/claims';
+import { removeDataset } from '../../src/lib/server/datasets/dataset-removal';
+import { addDataset, datasetTables, listDatasets } from '../../src/lib/server/datasets/datasets';
+import { datasetFilePath } from '../../src/lib/server/storage/counts-store';
 import {
 	ConflictError,
 	FieldError,
 	ForbiddenError,
 	NotFoundError
-} from '../../src/lib/server/services/errors';
-import type { Actor } from '../../src/lib/server/access/actor';
+} from '../../src/lib/server/core/errors';
+import type { Actor } from '../../src/lib/server/core/actor';
 import { asUser } from './actors';
 import { addGroup, addUser, bytesOf, claimFields, countsCsv } from './backend-fixtures';
 import { temporaryDatabase } from './db';

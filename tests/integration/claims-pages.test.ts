@@ -13,7 +13,7 @@ const folder = mkdtempSync(path.join(tmpdir(), 'rankseal-claims-pages-'));
 process.env.RANKSEAL_DATA_DIR = folder;
 process.env.MAIL_CATCHER_PORT = '0';
 
-const { app } = await import('../../src/lib/server/app');
+const { app } = await import('../../src/lib/server/app/app');
 const { closeDb } = await import('../../src/lib/server/db');
 const newClaim = await import('../../src/routes/(app)/claims/new/+page.server');
 const claimPage = await import('../../src/routes/(app)/claims/[id]/+page.server');

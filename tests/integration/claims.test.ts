@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { createClaim, getClaim, listClaims } from '../../src/lib/server/services/claims';
-import { ForbiddenError, NotFoundError } from '../../src/lib/server/services/errors';
+import { createClaim, getClaim, listClaims } from '../../src/lib/server/claims/claims';
+import { ForbiddenError, NotFoundError } from '../../src/lib/server/core/errors';
 import { addGroup, addUser, claimFields } from './backend-fixtures';
 import { asUser } from './actors';
 import { temporaryDatabase } from './db';

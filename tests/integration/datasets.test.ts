@@ -2,16 +2,16 @@ import { existsSync, readdirSync } from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { InputError } from '../../src/lib/certify';
-import { createClaim } from '../../src/lib/server/services/claims';
+import { createClaim } from '../../src/lib/server/claims/claims';
 import {
 	addDataset,
-	datasetFilePath,
 	datasetTables,
 	getDataset,
 	listDatasets
-} from '../../src/lib/server/services/datasets';
+} from '../../src/lib/server/datasets/datasets';
+import { datasetFilePath } from '../../src/lib/server/storage/counts-store';
 import { stopCheckRunner } from '../../src/lib/server/checks/registry';
-import { ConflictError, NotFoundError } from '../../src/lib/server/services/errors';
+import { ConflictError, NotFoundError } from '../../src/lib/server/core/errors';
 import { addGroup, addUser, bytesOf, claimFields, countsCsv } from './backend-fixtures';
 import { asUser } from './actors';
 import { temporaryDatabase } from './db';

@@ -7,21 +7,24 @@ import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
-import { signIn } from '../../src/lib/server/services/accounts';
+import { signIn } from '../../src/lib/server/accounts/accounts';
 import { bundleCheckWorker } from '../../src/lib/server/checks/locate';
 import { stopCheckRunner } from '../../src/lib/server/checks/registry';
 import { verifyEvidence } from '../../src/lib/evidence/verify';
 import { readZip } from '../../src/lib/server/evidence/zip-read';
-import { certificateFile, listCertificates } from '../../src/lib/server/services/certificate-reads';
-import { listChecks } from '../../src/lib/server/services/checks';
-import { listClaims } from '../../src/lib/server/services/claims';
-import { authenticate } from '../../src/lib/server/services/tokens';
+import {
+	certificateFile,
+	listCertificates
+} from '../../src/lib/server/certificates/certificate-reads';
+import { listChecks } from '../../src/lib/server/checks/checks';
+import { listClaims } from '../../src/lib/server/claims/claims';
+import { authenticate } from '../../src/lib/server/accounts/tokens';
 import { demoTokenFile, seedDemo } from '../../src/lib/server/demo/seed';
 import { DEMO_CLAIMS, DEMO_PEOPLE } from '../../src/lib/server/demo/scenario';
 import { demoEditorTokenFile, demoReviewLinkFile } from '../../src/lib/server/demo/review-seed';
 import { bundleVerifier } from '../../src/lib/server/evidence/verifier-file';
-import { refereeView } from '../../src/lib/server/services/referee';
-import { resolveReviewToken } from '../../src/lib/server/services/review-links';
+import { refereeView } from '../../src/lib/server/review/referee';
+import { resolveReviewToken } from '../../src/lib/server/review/review-links';
 import { asUser } from './actors';
 import { mailTo, mailWorld, type MailWorld } from './mail-world';
 

@@ -17,10 +17,10 @@ const folder = mkdtempSync(path.join(tmpdir(), 'rankseal-download-names-'));
 process.env.RANKSEAL_DATA_DIR = folder;
 process.env.MAIL_CATCHER_PORT = '0';
 
-const { app } = await import('../../src/lib/server/app');
+const { app } = await import('../../src/lib/server/app/app');
 const { closeDb } = await import('../../src/lib/server/db');
-const { createClaim } = await import('../../src/lib/server/services/claims');
-const { addDataset } = await import('../../src/lib/server/services/datasets');
+const { createClaim } = await import('../../src/lib/server/claims/claims');
+const { addDataset } = await import('../../src/lib/server/datasets/datasets');
 const countsRoute =
 	await import('../../src/routes/(app)/claims/[id]/checks/[checkId]/counts/+server');
 

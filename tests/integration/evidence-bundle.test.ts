@@ -19,9 +19,9 @@ import { publishedKeys, rotateServiceKey, serviceKey } from '../../src/lib/serve
 import { bundleVerifier } from '../../src/lib/server/evidence/verifier-file';
 import { readZip, ZipError } from '../../src/lib/server/evidence/zip-read';
 import { zipFiles } from '../../src/lib/server/evidence/zip-write';
-import { issueCertificate } from '../../src/lib/server/services/certificates';
-import { certificateFile } from '../../src/lib/server/services/certificate-reads';
-import { verifyLedger } from '../../src/lib/server/services/ledger-verify';
+import { issueCertificate } from '../../src/lib/server/certificates/certificates';
+import { certificateFile } from '../../src/lib/server/certificates/certificate-reads';
+import { verifyLedger } from '../../src/lib/server/ledger/ledger-verify';
 import { evidenceWorld, finishedCheck, type EvidenceWorld } from './evidence-world';
 
 // Safety limits for bundling, issuing and Node child processes on a busy machine, not speed checks.

@@ -21,8 +21,8 @@ import { signText } from '../../src/lib/evidence/signing';
 import { verifyEvidence } from '../../src/lib/evidence/verify';
 import { makeEvidence, type Evidence } from '../../src/lib/server/evidence/artifacts';
 import { publishedKeys, serviceKey } from '../../src/lib/server/evidence/keys';
-import { compareRuns } from '../../src/lib/server/services/referee';
-import type { CheckView } from '../../src/lib/server/services/checks';
+import { compareRuns } from '../../src/lib/server/review/referee';
+import type { CheckView } from '../../src/lib/server/checks/checks';
 
 vi.setConfig({ testTimeout: 300_000, hookTimeout: 300_000 });
 

@@ -5,13 +5,14 @@
 import { readFileSync } from 'node:fs';
 import { certify, parseCounts } from '../../src/lib/certify';
 import type { Database } from '../../src/lib/server/db';
-import { createClaim } from '../../src/lib/server/services/claims';
-import { addDataset, datasetFilePath } from '../../src/lib/server/services/datasets';
-import { newId } from '../../src/lib/server/services/ids';
+import { createClaim } from '../../src/lib/server/claims/claims';
+import { addDataset } from '../../src/lib/server/datasets/datasets';
+import { datasetFilePath } from '../../src/lib/server/storage/counts-store';
+import { newId } from '../../src/lib/server/core/ids';
 import { addGroup, addUser, bytesOf, claimFields, countsCsv } from './backend-fixtures';
 import { asUser } from './actors';
 import { temporaryDatabase } from './db';
-import type { UserActor } from '../../src/lib/server/access/actor';
+import type { UserActor } from '../../src/lib/server/core/actor';
 
 export interface EvidenceWorld {
 	ctx: Awaited<ReturnType<typeof temporaryDatabase>>;

@@ -4,26 +4,26 @@
  * anonymous caller alike, so that ids do not leak (house style: "anything not visible is 404").
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { ANONYMOUS, type Actor, type TokenActor } from '../../src/lib/server/access/actor';
-import { updateClaim } from '../../src/lib/server/services/claim-edit';
-import { getCheck, listChecks, startCheck } from '../../src/lib/server/services/checks';
-import { createClaim, getClaim, listClaims } from '../../src/lib/server/services/claims';
+import { ANONYMOUS, type Actor, type TokenActor } from '../../src/lib/server/core/actor';
+import { updateClaim } from '../../src/lib/server/claims/claim-edit';
+import { getCheck, listChecks, startCheck } from '../../src/lib/server/checks/checks';
+import { createClaim, getClaim, listClaims } from '../../src/lib/server/claims/claims';
 import {
 	addDataset,
 	datasetTables,
 	getDataset,
 	listDatasets
-} from '../../src/lib/server/services/datasets';
-import { removeDataset } from '../../src/lib/server/services/dataset-removal';
-import { ForbiddenError, NotFoundError } from '../../src/lib/server/services/errors';
-import { changeMemberRole, getGroup, removeMember } from '../../src/lib/server/services/groups';
-import { newId } from '../../src/lib/server/services/ids';
+} from '../../src/lib/server/datasets/datasets';
+import { removeDataset } from '../../src/lib/server/datasets/dataset-removal';
+import { ForbiddenError, NotFoundError } from '../../src/lib/server/core/errors';
+import { changeMemberRole, getGroup, removeMember } from '../../src/lib/server/accounts/groups';
+import { newId } from '../../src/lib/server/core/ids';
 import {
 	inviteMember,
 	listInvitations,
 	revokeInvitation
-} from '../../src/lib/server/services/invitations';
-import { createToken, revokeToken } from '../../src/lib/server/services/tokens';
+} from '../../src/lib/server/accounts/invitations';
+import { createToken, revokeToken } from '../../src/lib/server/accounts/tokens';
 import { asReferee, asUser } from './actors';
 import { addGroup, addUser, bytesOf, claimFields, countsCsv } from './backend-fixtures';
 import { mailWorld, type MailWorld } from './mail-world';

@@ -24,20 +24,20 @@ process.env.RANKSEAL_RATE_LIMITS = JSON.stringify({
 	sealLookup: { points: 1 }
 });
 
-const { app } = await import('../../src/lib/server/app');
+const { app } = await import('../../src/lib/server/app/app');
 const { closeDb } = await import('../../src/lib/server/db');
-const { resetRateLimits } = await import('../../src/lib/server/rate-limits');
-const { RateLimitedError } = await import('../../src/lib/server/services/errors');
-const { apiProblem } = await import('../../src/lib/server/problems');
+const { resetRateLimits } = await import('../../src/lib/server/core/rate-limits');
+const { RateLimitedError } = await import('../../src/lib/server/core/errors');
+const { apiProblem } = await import('../../src/lib/server/http/problems');
 const { formRefused } = await import('../../src/lib/server/http/form-action');
-const { inviteMember } = await import('../../src/lib/server/services/invitations');
-const accounts = await import('../../src/lib/server/services/accounts');
+const { inviteMember } = await import('../../src/lib/server/accounts/invitations');
+const accounts = await import('../../src/lib/server/accounts/accounts');
 const groupPage = await import('../../src/routes/(app)/group/[id]/+page.server');
 const signupPage = await import('../../src/routes/(auth)/signup/+page.server');
 const resetPage = await import('../../src/routes/(auth)/reset/+page.server');
 const accountPage = await import('../../src/routes/(app)/account/+page.server');
 const sealPage = await import('../../src/routes/seal/+page.server');
-const { lookupFrom } = await import('../../src/lib/server/services/certificate-reads');
+const { lookupFrom } = await import('../../src/lib/server/certificates/certificate-reads');
 
 const ADDRESS = '203.0.113.41';
 let lead: string, groupId: string;

@@ -17,9 +17,9 @@ import {
 } from '../../src/lib/certify';
 import { bundleCheckWorker } from '../../src/lib/server/checks/locate';
 import { startCheckRunner, stopCheckRunner } from '../../src/lib/server/checks/registry';
-import { getCheck, startCheck } from '../../src/lib/server/services/checks';
-import { createClaim, getClaim } from '../../src/lib/server/services/claims';
-import { addDataset, listDatasets } from '../../src/lib/server/services/datasets';
+import { getCheck, startCheck } from '../../src/lib/server/checks/checks';
+import { createClaim, getClaim } from '../../src/lib/server/claims/claims';
+import { addDataset, listDatasets } from '../../src/lib/server/datasets/datasets';
 import { addGroup, addUser, bytesOf, claimFields } from './backend-fixtures';
 import { asUser } from './actors';
 import { temporaryDatabase } from './db';

@@ -9,9 +9,10 @@ import { parseCounts, sampledCounts, states } from '../../src/lib/certify';
 import { sha256Hex } from '../../src/lib/evidence/hash';
 import { verifyEvidence } from '../../src/lib/evidence/verify';
 import { readZip } from '../../src/lib/server/evidence/zip-read';
-import { certificateFile } from '../../src/lib/server/services/certificate-reads';
-import { issueCertificate } from '../../src/lib/server/services/certificates';
-import { addDataset, datasetFilePath } from '../../src/lib/server/services/datasets';
+import { certificateFile } from '../../src/lib/server/certificates/certificate-reads';
+import { issueCertificate } from '../../src/lib/server/certificates/certificates';
+import { addDataset } from '../../src/lib/server/datasets/datasets';
+import { datasetFilePath } from '../../src/lib/server/storage/counts-store';
 import { evidenceWorld, finishedCheck, type EvidenceWorld } from './evidence-world';
 
 vi.setConfig({ testTimeout: 600_000, hookTimeout: 600_000 });

@@ -1,23 +1,23 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { asUser } from './actors';
-import { setAccountRole, listUsers } from '../../src/lib/server/services/account-roles';
-import { signUp, verifyEmail } from '../../src/lib/server/services/accounts';
-import { ForbiddenError, NotFoundError } from '../../src/lib/server/services/errors';
-import { FieldError } from '../../src/lib/server/services/field-error';
+import { setAccountRole, listUsers } from '../../src/lib/server/accounts/account-roles';
+import { signUp, verifyEmail } from '../../src/lib/server/accounts/accounts';
+import { ForbiddenError, NotFoundError } from '../../src/lib/server/core/errors';
+import { FieldError } from '../../src/lib/server/core/field-error';
 import {
 	changeMemberRole,
 	createGroup,
 	getGroup,
 	groupsOf,
 	removeMember
-} from '../../src/lib/server/services/groups';
-import { hashSecret } from '../../src/lib/server/services/ids';
-import { acceptInvitation, findInvitation } from '../../src/lib/server/services/invitation-links';
+} from '../../src/lib/server/accounts/groups';
+import { hashSecret } from '../../src/lib/server/core/ids';
+import { acceptInvitation, findInvitation } from '../../src/lib/server/accounts/invitation-links';
 import {
 	inviteMember,
 	listInvitations,
 	revokeInvitation
-} from '../../src/lib/server/services/invitations';
+} from '../../src/lib/server/accounts/invitations';
 import { linkToken, mailTo, mailWorld, type MailWorld } from './mail-world';
 
 const PASSWORD = 'lantern-fjord-quartz';

@@ -14,8 +14,8 @@ import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { BUNDLE_FILES, type EvidenceFiles } from '../../src/lib/evidence/layout';
 import { bundleVerifier } from '../../src/lib/server/evidence/verifier-file';
 import { readZip } from '../../src/lib/server/evidence/zip-read';
-import { issueCertificate } from '../../src/lib/server/services/certificates';
-import { certificateFile, checkBundle } from '../../src/lib/server/services/certificate-reads';
+import { issueCertificate } from '../../src/lib/server/certificates/certificates';
+import { certificateFile, checkBundle } from '../../src/lib/server/certificates/certificate-reads';
 import { evidenceWorld, finishedCheck, type EvidenceWorld } from './evidence-world';
 import { craftZip, type CraftedEntry } from './zip-craft';
 

@@ -4,15 +4,15 @@
  * real SMTP catcher.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { signUp } from '../../src/lib/server/services/accounts';
-import { createGroup } from '../../src/lib/server/services/groups';
+import { signUp } from '../../src/lib/server/accounts/accounts';
+import { createGroup } from '../../src/lib/server/accounts/groups';
 import {
 	acceptInvitation,
 	invitationTokenIn
-} from '../../src/lib/server/services/invitation-links';
-import { ForbiddenError } from '../../src/lib/server/services/errors';
-import { inviteMember } from '../../src/lib/server/services/invitations';
-import { problemOf } from '../../src/lib/server/problems';
+} from '../../src/lib/server/accounts/invitation-links';
+import { ForbiddenError } from '../../src/lib/server/core/errors';
+import { inviteMember } from '../../src/lib/server/accounts/invitations';
+import { problemOf } from '../../src/lib/server/http/problems';
 import { asUser } from './actors';
 import { addUser } from './backend-fixtures';
 import { linkToken, mailTo, mailWorld, type MailWorld } from './mail-world';

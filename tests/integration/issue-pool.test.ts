@@ -8,7 +8,7 @@ import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
-import type { UserActor } from '../../src/lib/server/access/actor';
+import type { UserActor } from '../../src/lib/server/core/actor';
 import { asUser } from './actors';
 import { addGroup, addUser, bytesOf, claimFields, countsCsv } from './backend-fixtures';
 import { finishedCheck, type EvidenceWorld } from './evidence-world';
@@ -26,10 +26,10 @@ Object.assign(process.env, {
 	RANKSEAL_CHECK_WORKER: worker.file
 });
 
-const { app, stopApp } = await import('../../src/lib/server/app');
-const { createClaim } = await import('../../src/lib/server/services/claims');
-const { addDataset } = await import('../../src/lib/server/services/datasets');
-const { issueCertificate } = await import('../../src/lib/server/services/certificates');
+const { app, stopApp } = await import('../../src/lib/server/app/app');
+const { createClaim } = await import('../../src/lib/server/claims/claims');
+const { addDataset } = await import('../../src/lib/server/datasets/datasets');
+const { issueCertificate } = await import('../../src/lib/server/certificates/certificates');
 const signingKeys = await import('../../src/routes/api/v1/signing-keys/+server');
 
 const paced = pacedTasks(CHANNEL);

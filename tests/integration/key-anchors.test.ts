@@ -16,8 +16,8 @@ import { publishedKeys, serviceKey } from '../../src/lib/server/evidence/keys';
 import { bundleVerifier } from '../../src/lib/server/evidence/verifier-file';
 import { readZip } from '../../src/lib/server/evidence/zip-read';
 import { zipFiles } from '../../src/lib/server/evidence/zip-write';
-import { issueCertificate } from '../../src/lib/server/services/certificates';
-import { certificateFile, checkBundle } from '../../src/lib/server/services/certificate-reads';
+import { issueCertificate } from '../../src/lib/server/certificates/certificates';
+import { certificateFile, checkBundle } from '../../src/lib/server/certificates/certificate-reads';
 import { evidenceWorld, finishedCheck, type EvidenceWorld } from './evidence-world';
 import { forgeBundle } from './forgery';
 

@@ -19,10 +19,10 @@ import {
 	storedSigningKey
 } from '../../src/lib/server/evidence/keys';
 import { bundleVerifier } from '../../src/lib/server/evidence/verifier-file';
-import { issueCertificate } from '../../src/lib/server/services/certificates';
-import { introduceKeys, introductionText } from '../../src/lib/server/services/key-introductions';
-import { appendEntry } from '../../src/lib/server/services/ledger-append';
-import { verifyLedger } from '../../src/lib/server/services/ledger-verify';
+import { issueCertificate } from '../../src/lib/server/certificates/certificates';
+import { introduceKeys, introductionText } from '../../src/lib/server/ledger/key-introductions';
+import { appendEntry } from '../../src/lib/server/ledger/ledger-append';
+import { verifyLedger } from '../../src/lib/server/ledger/ledger-verify';
 import { evidenceWorld, finishedCheck, type EvidenceWorld } from './evidence-world';
 
 // Safety limits for bundling, issuing and Node child processes on a busy machine, not speed checks.

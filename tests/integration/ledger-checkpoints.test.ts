@@ -17,12 +17,15 @@ import { sha256Hex } from '../../src/lib/evidence/hash';
 import { signText } from '../../src/lib/evidence/signing';
 import { serviceKey } from '../../src/lib/server/evidence/keys';
 import { bundleVerifier } from '../../src/lib/server/evidence/verifier-file';
-import { withdrawCertificate } from '../../src/lib/server/services/certificate-withdraw';
-import { issueCertificate, type CertificateView } from '../../src/lib/server/services/certificates';
-import { certificateFile, checkBundle } from '../../src/lib/server/services/certificate-reads';
-import { publishCheckpoint } from '../../src/lib/server/services/ledger-checkpoint';
-import { sendNotice } from '../../src/lib/server/services/notices';
-import { verifyLedger } from '../../src/lib/server/services/ledger-verify';
+import { withdrawCertificate } from '../../src/lib/server/certificates/certificate-withdraw';
+import {
+	issueCertificate,
+	type CertificateView
+} from '../../src/lib/server/certificates/certificates';
+import { certificateFile, checkBundle } from '../../src/lib/server/certificates/certificate-reads';
+import { publishCheckpoint } from '../../src/lib/server/ledger/ledger-checkpoint';
+import { sendNotice } from '../../src/lib/server/mail/notices';
+import { verifyLedger } from '../../src/lib/server/ledger/ledger-verify';
 import { evidenceWorld, finishedCheck, type EvidenceWorld } from './evidence-world';
 
 // Safety limits for bundling, issuing and Node child processes on a busy machine, not speed checks.
@@ -215,7 +218,7 @@ describe('the newest entries deleted: a withdrawal erased, the certificate valid
 	it('is logged by a server started on the folder and shown on the admin pages', async () => {
 		const logged = vi.spyOn(console, 'error').mockImplementation(() => undefined);
 		process.env.MAIL_CATCHER_PORT = '0';
-		const { app, stopApp } = await import('../../src/lib/server/app');
+		const { app, stopApp } = await import('../../src/lib/server/app/app');
 		try {
 			await app();
 			const warning = logged.mock.calls

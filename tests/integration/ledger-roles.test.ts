@@ -7,11 +7,11 @@
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { serviceKey } from '../../src/lib/server/evidence/keys';
 import { writeTransaction } from '../../src/lib/server/db/transactions';
-import { withdrawCertificate } from '../../src/lib/server/services/certificate-withdraw';
-import { issueCertificate } from '../../src/lib/server/services/certificates';
-import { appendLedger } from '../../src/lib/server/services/ledger';
-import { publicLedgerPage } from '../../src/lib/server/services/ledger-roles';
-import { verifyLedger } from '../../src/lib/server/services/ledger-verify';
+import { withdrawCertificate } from '../../src/lib/server/certificates/certificate-withdraw';
+import { issueCertificate } from '../../src/lib/server/certificates/certificates';
+import { appendLedger } from '../../src/lib/server/ledger/ledger';
+import { publicLedgerPage } from '../../src/lib/server/ledger/ledger-roles';
+import { verifyLedger } from '../../src/lib/server/ledger/ledger-verify';
 import { evidenceWorld, finishedCheck, type EvidenceWorld } from './evidence-world';
 
 // Safety limits for issuing on a busy machine, not speed checks.

@@ -6,9 +6,12 @@ import path from 'node:path';
 import { QueryTypes } from 'sequelize';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { bundleVerifier } from '../../src/lib/server/evidence/verifier-file';
-import { sweepOrphanFiles } from '../../src/lib/server/services/certificate-files';
-import { issueCertificate, type CertificateView } from '../../src/lib/server/services/certificates';
-import { verifyLedger } from '../../src/lib/server/services/ledger-verify';
+import { sweepOrphanFiles } from '../../src/lib/server/storage/certificate-store';
+import {
+	issueCertificate,
+	type CertificateView
+} from '../../src/lib/server/certificates/certificates';
+import { verifyLedger } from '../../src/lib/server/ledger/ledger-verify';
 import { evidenceWorld, finishedCheck, type EvidenceWorld } from './evidence-world';
 
 // Safety limits for bundling, issuing and Node child processes on a busy machine, not speed checks.

@@ -2,11 +2,11 @@
  * A temporary database with the REAL local mail catcher on a free port and a nodemailer SMTP
  * transport to it, plus a lucia instance: what the account and group services need in tests.
  */
-import { createLucia } from '../../src/lib/server/auth';
+import { createLucia } from '../../src/lib/server/accounts/auth';
 import type { MailMessageAttributes } from '../../src/lib/server/db/models/MailMessage';
-import { catcherTransport, createMailer } from '../../src/lib/server/mail';
-import { startMailCatcher } from '../../src/lib/server/mail-catcher';
-import { deliverDue } from '../../src/lib/server/mail-sender';
+import { catcherTransport, createMailer } from '../../src/lib/server/mail/mail';
+import { startMailCatcher } from '../../src/lib/server/mail/mail-catcher';
+import { deliverDue } from '../../src/lib/server/mail/mail-sender';
 import { temporaryDatabase } from './db';
 
 export const TEST_ORIGIN = 'http://rankseal.test';

@@ -1,16 +1,16 @@
 import { createServer, type Server } from 'node:net';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { createMailer } from '../../src/lib/server/mail';
-import { startMailCatcher } from '../../src/lib/server/mail-catcher';
-import { requestPasswordReset } from '../../src/lib/server/services/accounts';
-import { ConflictError, ForbiddenError, NotFoundError } from '../../src/lib/server/services/errors';
+import { createMailer } from '../../src/lib/server/mail/mail';
+import { startMailCatcher } from '../../src/lib/server/mail/mail-catcher';
+import { requestPasswordReset } from '../../src/lib/server/accounts/accounts';
+import { ConflictError, ForbiddenError, NotFoundError } from '../../src/lib/server/core/errors';
 import {
 	getOutboxMessage,
 	listOutbox,
 	requeueOutboxMessage
-} from '../../src/lib/server/services/mail-outbox';
-import { fillPlaceholders, renderTemplate } from '../../src/lib/server/templates';
-import { newId } from '../../src/lib/server/services/ids';
+} from '../../src/lib/server/mail/mail-outbox';
+import { fillPlaceholders, renderTemplate } from '../../src/lib/server/mail/templates';
+import { newId } from '../../src/lib/server/core/ids';
 import { asUser } from './actors';
 import { mailTo, mailWorld, type MailWorld } from './mail-world';
 

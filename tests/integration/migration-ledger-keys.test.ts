@@ -8,8 +8,8 @@ import { QueryTypes } from 'sequelize';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import * as ledgerKeys from '../../src/lib/server/db/migrations/0012-ledger-key-entries';
 import { bundleVerifier } from '../../src/lib/server/evidence/verifier-file';
-import { issueCertificate } from '../../src/lib/server/services/certificates';
-import { verifyLedger } from '../../src/lib/server/services/ledger-verify';
+import { issueCertificate } from '../../src/lib/server/certificates/certificates';
+import { verifyLedger } from '../../src/lib/server/ledger/ledger-verify';
 import { evidenceWorld, finishedCheck, type EvidenceWorld } from './evidence-world';
 
 // Safety limits for bundling and issuing on a busy machine, not speed checks.

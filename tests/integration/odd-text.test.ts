@@ -15,26 +15,26 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import fc from 'fast-check';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { problemOf, type Problem } from '../../src/lib/server/problems';
-import { signUp } from '../../src/lib/server/services/account-requests';
-import { groupArchive } from '../../src/lib/server/services/archive';
+import { problemOf, type Problem } from '../../src/lib/server/http/problems';
+import { signUp } from '../../src/lib/server/accounts/account-requests';
+import { groupArchive } from '../../src/lib/server/claims/archive';
 import {
 	archiveCsv,
 	archiveFilename,
 	archiveJson
-} from '../../src/lib/server/services/archive-export';
-import { certificateFile, checkBundle } from '../../src/lib/server/services/certificate-reads';
-import { issueCertificate } from '../../src/lib/server/services/certificates';
-import { withdrawClaim } from '../../src/lib/server/services/claim-withdraw';
-import { createClaim } from '../../src/lib/server/services/claims';
-import { addDataset } from '../../src/lib/server/services/datasets';
-import { createGroup } from '../../src/lib/server/services/groups';
-import { inviteMember } from '../../src/lib/server/services/invitations';
-import { shareClaim } from '../../src/lib/server/services/shares';
-import { releaseReport, saveReport } from '../../src/lib/server/services/reports';
-import { createReviewLink } from '../../src/lib/server/services/review-links';
-import { createToken } from '../../src/lib/server/services/tokens';
-import { deliverDue } from '../../src/lib/server/mail-sender';
+} from '../../src/lib/server/claims/archive-export';
+import { certificateFile, checkBundle } from '../../src/lib/server/certificates/certificate-reads';
+import { issueCertificate } from '../../src/lib/server/certificates/certificates';
+import { withdrawClaim } from '../../src/lib/server/claims/claim-withdraw';
+import { createClaim } from '../../src/lib/server/claims/claims';
+import { addDataset } from '../../src/lib/server/datasets/datasets';
+import { createGroup } from '../../src/lib/server/accounts/groups';
+import { inviteMember } from '../../src/lib/server/accounts/invitations';
+import { shareClaim } from '../../src/lib/server/review/shares';
+import { releaseReport, saveReport } from '../../src/lib/server/review/reports';
+import { createReviewLink } from '../../src/lib/server/review/review-links';
+import { createToken } from '../../src/lib/server/accounts/tokens';
+import { deliverDue } from '../../src/lib/server/mail/mail-sender';
 import { textProblem } from '../../src/lib/text-rules';
 import { doneCheck } from '../e2e/matrix-parts';
 import { asUser } from './actors';

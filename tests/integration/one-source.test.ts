@@ -19,12 +19,12 @@ process.env.MAIL_CATCHER_PORT = '0';
 const ORIGIN = 'https://rankseal.halvorsen.example';
 process.env.ORIGIN = ORIGIN;
 
-const { app } = await import('../../src/lib/server/app');
+const { app } = await import('../../src/lib/server/app/app');
 const { closeDb } = await import('../../src/lib/server/db');
-const { createClaim } = await import('../../src/lib/server/services/claims');
-const { groupArchive } = await import('../../src/lib/server/services/archive');
-const { requestPasswordReset } = await import('../../src/lib/server/services/accounts');
-const { inviteMember } = await import('../../src/lib/server/services/invitations');
+const { createClaim } = await import('../../src/lib/server/claims/claims');
+const { groupArchive } = await import('../../src/lib/server/claims/archive');
+const { requestPasswordReset } = await import('../../src/lib/server/accounts/accounts');
+const { inviteMember } = await import('../../src/lib/server/accounts/invitations');
 const { WITHDRAW_REASON, WITHDRAW_REASON_WORDS } = await import('../../src/lib/claims/withdrawal');
 const claimList = await import('../../src/routes/(app)/claims/+page.server');
 const claimsApi = await import('../../src/routes/api/v1/claims/+server');
@@ -88,7 +88,7 @@ describe('sort=title', () => {
 describe('one text search for the claim list and the archive', () => {
 	async function both(q: string) {
 		const { database } = await app();
-		const { listClaims } = await import('../../src/lib/server/services/claims');
+		const { listClaims } = await import('../../src/lib/server/claims/claims');
 		const listed = (await listClaims(database, actor() as never, { q })).items.map((c) => c.id);
 		const archive = await groupArchive(database, actor() as never, { group: groupId, q });
 		return { listed: listed.sort(), archived: archive.claims.map((c) => c.id).sort() };

@@ -6,15 +6,15 @@
 import type { AddressInfo } from 'node:net';
 import { SMTPServer } from 'smtp-server';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { catcherTransport, createMailer, type Mailer } from '../../src/lib/server/mail';
-import { startMailCatcher } from '../../src/lib/server/mail-catcher';
-import { deliverDue, MAX_ATTEMPTS, retryDelayMs } from '../../src/lib/server/mail-sender';
+import { catcherTransport, createMailer, type Mailer } from '../../src/lib/server/mail/mail';
+import { startMailCatcher } from '../../src/lib/server/mail/mail-catcher';
+import { deliverDue, MAX_ATTEMPTS, retryDelayMs } from '../../src/lib/server/mail/mail-sender';
 import {
 	requestPasswordReset,
 	resendVerification,
 	signUp
-} from '../../src/lib/server/services/accounts';
-import { renderTemplate } from '../../src/lib/server/templates';
+} from '../../src/lib/server/accounts/accounts';
+import { renderTemplate } from '../../src/lib/server/mail/templates';
 import { asUser } from './actors';
 import { temporaryDatabase } from './db';
 

@@ -16,7 +16,7 @@ const folder = mkdtempSync(path.join(tmpdir(), 'rankseal-paging-'));
 process.env.RANKSEAL_DATA_DIR = folder;
 process.env.MAIL_CATCHER_PORT = '0';
 
-const { app } = await import('../../src/lib/server/app');
+const { app } = await import('../../src/lib/server/app/app');
 const { closeDb } = await import('../../src/lib/server/db');
 const outboxPage = await import('../../src/routes/(app)/admin/outbox/+page.server');
 const claimList = await import('../../src/routes/(app)/claims/+page.server');

@@ -4,7 +4,7 @@
  * house rule that anything not visible is hidden (404) and visible-but-not-allowed is denied (403).
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { ANONYMOUS, type Actor, type TokenActor } from '../../src/lib/server/access/actor';
+import { ANONYMOUS, type Actor, type TokenActor } from '../../src/lib/server/core/actor';
 import {
 	decideClaim,
 	decideGroup,
@@ -16,8 +16,8 @@ import {
 	type GroupAction,
 	type ServiceAction
 } from '../../src/lib/server/access/permissions';
-import { ForbiddenError, NotFoundError } from '../../src/lib/server/services/errors';
-import { newId } from '../../src/lib/server/services/ids';
+import { ForbiddenError, NotFoundError } from '../../src/lib/server/core/errors';
+import { newId } from '../../src/lib/server/core/ids';
 import { asReferee, asUser } from './actors';
 import { addGroup, addUser, claimFields } from './backend-fixtures';
 import { temporaryDatabase } from './db';

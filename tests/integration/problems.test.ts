@@ -10,15 +10,15 @@ import { isActionFailure, isHttpError, type RequestEvent } from '@sveltejs/kit';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { z } from 'zod';
 import { InputError } from '../../src/lib/certify';
-import type { Actor } from '../../src/lib/server/access/actor';
+import type { Actor } from '../../src/lib/server/core/actor';
 import {
 	ConflictError,
 	FieldError,
 	ForbiddenError,
 	NotFoundError,
 	RateLimitedError
-} from '../../src/lib/server/services/errors';
-import { problemOf } from '../../src/lib/server/problems';
+} from '../../src/lib/server/core/errors';
+import { problemOf } from '../../src/lib/server/http/problems';
 import { asUser } from './actors';
 import { addGroup, addUser, claimFields, countsCsv } from './backend-fixtures';
 
@@ -26,9 +26,9 @@ const folder = mkdtempSync(path.join(tmpdir(), 'rankseal-problems-'));
 process.env.RANKSEAL_DATA_DIR = folder;
 process.env.MAIL_CATCHER_PORT = '0';
 
-const { app } = await import('../../src/lib/server/app');
+const { app } = await import('../../src/lib/server/app/app');
 const { closeDb } = await import('../../src/lib/server/db');
-const { createClaim } = await import('../../src/lib/server/services/claims');
+const { createClaim } = await import('../../src/lib/server/claims/claims');
 const claimApi = await import('../../src/routes/api/v1/claims/[id]/+server');
 const datasetsApi = await import('../../src/routes/api/v1/claims/[id]/datasets/+server');
 const checksApi = await import('../../src/routes/api/v1/claims/[id]/checks/+server');

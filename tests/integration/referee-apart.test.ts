@@ -4,16 +4,16 @@
  * certificate issued while a review link is open tells the editor and shows on the review page.
  */
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
-import type { RefereeActor } from '../../src/lib/server/access/actor';
+import type { RefereeActor } from '../../src/lib/server/core/actor';
 import { startCheckRunner } from '../../src/lib/server/checks/registry';
-import { issueCertificate } from '../../src/lib/server/services/certificates';
-import { getCheck, listChecks } from '../../src/lib/server/services/checks';
-import { getClaim } from '../../src/lib/server/services/claims';
-import { ConflictError } from '../../src/lib/server/services/errors';
-import { refereeView, startRefereeCheck } from '../../src/lib/server/services/referee';
-import { createReviewLink } from '../../src/lib/server/services/review-links';
-import { refereeFor } from '../../src/lib/server/services/review-use';
-import { shareClaim } from '../../src/lib/server/services/shares';
+import { issueCertificate } from '../../src/lib/server/certificates/certificates';
+import { getCheck, listChecks } from '../../src/lib/server/checks/checks';
+import { getClaim } from '../../src/lib/server/claims/claims';
+import { ConflictError } from '../../src/lib/server/core/errors';
+import { refereeView, startRefereeCheck } from '../../src/lib/server/review/referee';
+import { createReviewLink } from '../../src/lib/server/review/review-links';
+import { refereeFor } from '../../src/lib/server/review/review-use';
+import { shareClaim } from '../../src/lib/server/review/shares';
 import { asUser } from './actors';
 import { finishedCheck, type EvidenceWorld } from './evidence-world';
 import { mailTo } from './mail-world';

@@ -6,28 +6,28 @@ import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { ZodError } from 'zod';
-import type { Actor, RefereeActor } from '../../src/lib/server/access/actor';
+import type { Actor, RefereeActor } from '../../src/lib/server/core/actor';
 import { requireClaim } from '../../src/lib/server/access/permissions';
-import { getCheck, listChecks } from '../../src/lib/server/services/checks';
-import { getClaim } from '../../src/lib/server/services/claims';
-import { addDataset, listDatasets } from '../../src/lib/server/services/datasets';
-import { editorHome } from '../../src/lib/server/services/editor-home';
-import { ConflictError, ForbiddenError, NotFoundError } from '../../src/lib/server/services/errors';
-import { hashSecret, newId, newSecret } from '../../src/lib/server/services/ids';
+import { getCheck, listChecks } from '../../src/lib/server/checks/checks';
+import { getClaim } from '../../src/lib/server/claims/claims';
+import { addDataset, listDatasets } from '../../src/lib/server/datasets/datasets';
+import { editorHome } from '../../src/lib/server/review/editor-home';
+import { ConflictError, ForbiddenError, NotFoundError } from '../../src/lib/server/core/errors';
+import { hashSecret, newId, newSecret } from '../../src/lib/server/core/ids';
 import {
 	refereeBundle,
 	refereeCheck,
 	refereeView,
 	startRefereeCheck,
 	type RefereeCheck
-} from '../../src/lib/server/services/referee';
-import { releaseReport, releasedReports, saveReport } from '../../src/lib/server/services/reports';
+} from '../../src/lib/server/review/referee';
+import { releaseReport, releasedReports, saveReport } from '../../src/lib/server/review/reports';
 import {
 	createReviewLink,
 	resolveReviewToken,
 	revokeReviewLink
-} from '../../src/lib/server/services/review-links';
-import { shareClaim, withdrawShare } from '../../src/lib/server/services/shares';
+} from '../../src/lib/server/review/review-links';
+import { shareClaim, withdrawShare } from '../../src/lib/server/review/shares';
 import { sha256Hex } from '../../src/lib/evidence/hash';
 import { asUser } from './actors';
 import { bytesOf, countsCsv } from './backend-fixtures';

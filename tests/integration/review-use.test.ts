@@ -4,11 +4,11 @@
  * the limits are set small and the answers are counted. 429 with Retry-After: RFC 6585 §4.
  */
 import { afterAll, afterEach, beforeAll, describe, expect, it, vi } from 'vitest';
-import { resetRateLimits } from '../../src/lib/server/rate-limits';
-import { RateLimitedError } from '../../src/lib/server/services/errors';
-import { createReviewLink } from '../../src/lib/server/services/review-links';
-import { refereeFor } from '../../src/lib/server/services/review-use';
-import { shareClaim } from '../../src/lib/server/services/shares';
+import { resetRateLimits } from '../../src/lib/server/core/rate-limits';
+import { RateLimitedError } from '../../src/lib/server/core/errors';
+import { createReviewLink } from '../../src/lib/server/review/review-links';
+import { refereeFor } from '../../src/lib/server/review/review-use';
+import { shareClaim } from '../../src/lib/server/review/shares';
 import { asUser } from './actors';
 import { reviewWorld, type ReviewWorld } from './review-world';
 

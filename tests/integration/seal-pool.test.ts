@@ -9,7 +9,7 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { isHttpError } from '@sveltejs/kit';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
-import type { UserActor } from '../../src/lib/server/access/actor';
+import type { UserActor } from '../../src/lib/server/core/actor';
 import { asUser } from './actors';
 import { addGroup, addUser, bytesOf, claimFields, countsCsv } from './backend-fixtures';
 import { finishedCheck, type EvidenceWorld } from './evidence-world';
@@ -31,13 +31,13 @@ Object.assign(process.env, {
 	RANKSEAL_RATE_LIMITS: JSON.stringify({ sealBundle: { points: 6 }, sealLookup: { points: 2 } })
 });
 
-const { app, stopApp } = await import('../../src/lib/server/app');
-const { resetRateLimits } = await import('../../src/lib/server/rate-limits');
-const { createClaim } = await import('../../src/lib/server/services/claims');
-const { addDataset } = await import('../../src/lib/server/services/datasets');
-const { startCheck } = await import('../../src/lib/server/services/checks');
-const { issueCertificate } = await import('../../src/lib/server/services/certificates');
-const { certificateFile } = await import('../../src/lib/server/services/certificate-reads');
+const { app, stopApp } = await import('../../src/lib/server/app/app');
+const { resetRateLimits } = await import('../../src/lib/server/core/rate-limits');
+const { createClaim } = await import('../../src/lib/server/claims/claims');
+const { addDataset } = await import('../../src/lib/server/datasets/datasets');
+const { startCheck } = await import('../../src/lib/server/checks/checks');
+const { issueCertificate } = await import('../../src/lib/server/certificates/certificates');
+const { certificateFile } = await import('../../src/lib/server/certificates/certificate-reads');
 const sealPage = await import('../../src/routes/seal/+page.server');
 const sealIdPage = await import('../../src/routes/seal/[id]/+page.server');
 const signingKeys = await import('../../src/routes/api/v1/signing-keys/+server');

@@ -6,15 +6,15 @@
  * shows the letter as sent; migration 0014 does the same to what was stored before it.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { sessionKey } from '../../src/lib/server/auth';
+import { sessionKey } from '../../src/lib/server/accounts/auth';
 import { up as migrate0014 } from '../../src/lib/server/db/migrations/0014-no-live-secrets';
-import { catcherTransport, createMailer } from '../../src/lib/server/mail';
-import { REMOVED_LINK } from '../../src/lib/server/mail-redact';
-import { deliverDue, MAX_ATTEMPTS } from '../../src/lib/server/mail-sender';
-import { requestPasswordReset, signUp } from '../../src/lib/server/services/accounts';
+import { catcherTransport, createMailer } from '../../src/lib/server/mail/mail';
+import { REMOVED_LINK } from '../../src/lib/server/mail/mail-redact';
+import { deliverDue, MAX_ATTEMPTS } from '../../src/lib/server/mail/mail-sender';
+import { requestPasswordReset, signUp } from '../../src/lib/server/accounts/accounts';
 import { addUser, addGroup } from './backend-fixtures';
-import { inviteMember } from '../../src/lib/server/services/invitations';
-import { getOutboxMessage } from '../../src/lib/server/services/mail-outbox';
+import { inviteMember } from '../../src/lib/server/accounts/invitations';
+import { getOutboxMessage } from '../../src/lib/server/mail/mail-outbox';
 import { sha256Hex } from '../../src/lib/evidence/hash';
 import { asUser } from './actors';
 import { mailTo, mailWorld, TEST_ORIGIN, type MailWorld } from './mail-world';

@@ -3,8 +3,8 @@
  * for an editor who already has an account (issue 18).
  */
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
-import { openShare } from '../../src/lib/server/services/share-open';
-import { listShares, shareClaim } from '../../src/lib/server/services/shares';
+import { openShare } from '../../src/lib/server/review/share-open';
+import { listShares, shareClaim } from '../../src/lib/server/review/shares';
 import { asUser } from './actors';
 import { linkToken } from './mail-world';
 import { reviewWorld, type ReviewWorld } from './review-world';

@@ -7,13 +7,13 @@
  * from memory): throttle per account and source, never a hard lockout an attacker can trigger.
  */
 import { afterAll, afterEach, beforeAll, beforeEach, describe, expect, it, vi } from 'vitest';
-import { RATE_LIMITS, resetRateLimits } from '../../src/lib/server/rate-limits';
+import { RATE_LIMITS, resetRateLimits } from '../../src/lib/server/core/rate-limits';
 import {
 	requestPasswordReset,
 	resetPassword,
 	signUp
-} from '../../src/lib/server/services/accounts';
-import { signInFrom } from '../../src/lib/server/services/sign-in';
+} from '../../src/lib/server/accounts/accounts';
+import { signInFrom } from '../../src/lib/server/accounts/sign-in';
 import { linkToken, mailWorld, type MailWorld } from './mail-world';
 
 const PASSWORD = 'heron-quarry-lamplight';

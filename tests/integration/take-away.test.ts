@@ -9,8 +9,8 @@ import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { reproduceCommand, shellWord } from '../../src/lib/evidence/command-line';
 import { sha256Hex } from '../../src/lib/evidence/hash';
-import { checkCountsFile, checkResult } from '../../src/lib/server/services/check-exports';
-import { ConflictError, NotFoundError } from '../../src/lib/server/services/errors';
+import { checkCountsFile, checkResult } from '../../src/lib/server/checks/check-exports';
+import { ConflictError, NotFoundError } from '../../src/lib/server/core/errors';
 import { evidenceWorld, finishedCheck, type EvidenceWorld } from './evidence-world';
 
 let world: EvidenceWorld;

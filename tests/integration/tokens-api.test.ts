@@ -4,7 +4,7 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import type { RequestEvent } from '@sveltejs/kit';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Actor } from '../../src/lib/server/access/actor';
+import type { Actor } from '../../src/lib/server/core/actor';
 import { asUser } from './actors';
 import { addGroup, addUser } from './backend-fixtures';
 
@@ -12,9 +12,9 @@ const folder = mkdtempSync(path.join(tmpdir(), 'rankseal-tokens-api-'));
 process.env.RANKSEAL_DATA_DIR = folder;
 process.env.MAIL_CATCHER_PORT = '0';
 
-const { app } = await import('../../src/lib/server/app');
+const { app } = await import('../../src/lib/server/app/app');
 const { closeDb } = await import('../../src/lib/server/db');
-const { authenticate } = await import('../../src/lib/server/services/tokens');
+const { authenticate } = await import('../../src/lib/server/accounts/tokens');
 const tokensApi = await import('../../src/routes/api/v1/tokens/+server');
 const tokenApi = await import('../../src/routes/api/v1/tokens/[id]/+server');
 

@@ -1,13 +1,13 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { sha256Hex } from '../../src/lib/evidence/hash';
-import { ForbiddenError, NotFoundError } from '../../src/lib/server/services/errors';
+import { ForbiddenError, NotFoundError } from '../../src/lib/server/core/errors';
 import {
 	authenticate,
 	createToken,
 	listTokens,
 	revokeToken,
 	TOKEN_DEFAULT_DAYS
-} from '../../src/lib/server/services/tokens';
+} from '../../src/lib/server/accounts/tokens';
 import { asUser } from './actors';
 import { addGroup, addUser } from './backend-fixtures';
 import { temporaryDatabase } from './db';

@@ -20,12 +20,12 @@ import {
 import { claimInputSchema } from '../../src/lib/claims/schema';
 import { bundleCheckWorker } from '../../src/lib/server/checks/locate';
 import { startCheckRunner, stopCheckRunner } from '../../src/lib/server/checks/registry';
-import { getCheck, startCheck } from '../../src/lib/server/services/checks';
-import { issueCertificate } from '../../src/lib/server/services/certificates';
-import { createClaim, getClaim } from '../../src/lib/server/services/claims';
-import { updateClaim } from '../../src/lib/server/services/claim-edit';
-import { addDataset } from '../../src/lib/server/services/datasets';
-import { ConflictError } from '../../src/lib/server/services/errors';
+import { getCheck, startCheck } from '../../src/lib/server/checks/checks';
+import { issueCertificate } from '../../src/lib/server/certificates/certificates';
+import { createClaim, getClaim } from '../../src/lib/server/claims/claims';
+import { updateClaim } from '../../src/lib/server/claims/claim-edit';
+import { addDataset } from '../../src/lib/server/datasets/datasets';
+import { ConflictError } from '../../src/lib/server/core/errors';
 import { addGroup, addUser, bytesOf, claimFields } from './backend-fixtures';
 import { asUser } from './actors';
 import { temporaryDatabase } from './db';

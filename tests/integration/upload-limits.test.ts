@@ -8,7 +8,7 @@ import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
-import type { Actor } from '../../src/lib/server/access/actor';
+import type { Actor } from '../../src/lib/server/core/actor';
 import { asUser } from './actors';
 import { addGroup, addUser, claimFields, countsCsv } from './backend-fixtures';
 import { pacedTasks, waitingWorker } from '../waiting-worker';
@@ -29,8 +29,8 @@ Object.assign(process.env, {
 	RANKSEAL_UPLOAD_RETRY_AFTER_S: '10'
 });
 
-const { app, stopApp } = await import('../../src/lib/server/app');
-const { createClaim } = await import('../../src/lib/server/services/claims');
+const { app, stopApp } = await import('../../src/lib/server/app/app');
+const { createClaim } = await import('../../src/lib/server/claims/claims');
 const datasetsApi = await import('../../src/routes/api/v1/claims/[id]/datasets/+server');
 
 const paced = pacedTasks(CHANNEL);

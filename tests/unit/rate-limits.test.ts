@@ -13,8 +13,8 @@ import {
 	retryWords,
 	takeOrRefuse,
 	resetRateLimits
-} from '../../src/lib/server/rate-limits';
-import { RateLimitedError } from '../../src/lib/server/services/errors';
+} from '../../src/lib/server/core/rate-limits';
+import { RateLimitedError } from '../../src/lib/server/core/errors';
 
 const START = new Date('2026-03-01T09:00:00Z');
 

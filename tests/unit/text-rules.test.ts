@@ -4,8 +4,8 @@
  * The bidi controls refused are those of "Trojan Source" (CVE-2021-42574).
  */
 import { describe, expect, it } from 'vitest';
-import { attachment } from '../../src/lib/server/attachment';
-import { renderTemplate } from '../../src/lib/server/templates';
+import { attachment } from '../../src/lib/server/http/attachment';
+import { renderTemplate } from '../../src/lib/server/mail/templates';
 import { textProblem } from '../../src/lib/text-rules';
 
 describe('the rule for one-line and multi-line text', () => {

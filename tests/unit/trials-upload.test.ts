@@ -2,7 +2,7 @@
 import { gzipSync } from 'node:zlib';
 import { describe, expect, it } from 'vitest';
 import { isotropicTrialsCsv, parseTrials } from '../../src/lib/certify/trials';
-import { parseTrialsUpload } from '../../src/lib/server/trials-upload';
+import { parseTrialsUpload } from '../../src/lib/server/checks/trials-upload';
 
 const bytes = (text: string) => new TextEncoder().encode(text);
 

@@ -1,7 +1,7 @@
 import { redirect } from '@sveltejs/kit';
-import { app } from '$lib/server/app';
-import { loginPath } from '$lib/server/auth-web';
-import { groupsOf } from '$lib/server/services/groups';
+import { app } from '$lib/server/app/app';
+import { loginPath } from '$lib/server/http/auth-web';
+import { groupsOf } from '$lib/server/accounts/groups';
 import type { LayoutServerLoad } from './$types';
 
 /**

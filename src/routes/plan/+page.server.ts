@@ -1,6 +1,6 @@
 import { ZodError } from 'zod';
-import { fieldErrors, problemOf } from '$lib/server/problems';
-import { planFor } from '$lib/server/services/plans';
+import { fieldErrors, problemOf } from '$lib/server/http/problems';
+import { planFor } from '$lib/server/checks/plans';
 import type { PageServerLoad } from './$types';
 
 const FIELDS = ['method', 'dimension', 'schmidtNumber', 'visibility', 'bases', 'simulate'] as const;

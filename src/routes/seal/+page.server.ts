@@ -1,10 +1,10 @@
 import { z } from 'zod';
-import { app } from '$lib/server/app';
+import { app } from '$lib/server/app/app';
 import { runFormAction } from '$lib/server/http/form-action';
-import { ApiError } from '$lib/server/problems';
+import { ApiError } from '$lib/server/http/problems';
 import { pageRefused } from '$lib/server/http/page-refusal';
-import { checkBundle, lookupFrom } from '$lib/server/services/certificate-reads';
-import { FieldError } from '$lib/server/services/errors';
+import { checkBundle, lookupFrom } from '$lib/server/certificates/certificate-reads';
+import { FieldError } from '$lib/server/core/errors';
 import type { Actions, PageServerLoad } from './$types';
 
 /** A bundle is a PDF, the verifier and a few small files; far below this. */

@@ -4,7 +4,7 @@
  */
 import type { Database } from '../db';
 import type { ClaimAttributes } from '../db/models/Claim';
-import type { Actor } from './actor';
+import type { Actor } from '../core/actor';
 import { decideClaim, requireOpen, type ClaimAction } from './claim-rules';
 
 const OFFERED = [

@@ -6,8 +6,8 @@
 import { Op, type Transaction, type WhereOptions } from 'sequelize';
 import type { Database } from '../db';
 import type { ClaimAttributes } from '../db/models/Claim';
-import { ConflictError, ForbiddenError, NotFoundError } from '../services/errors';
-import type { Actor } from './actor';
+import { ConflictError, ForbiddenError, NotFoundError } from '../core/errors';
+import type { Actor } from '../core/actor';
 import { groupIdsOf, roleIn, sharedClaimIds, sharedWith, type Decision } from './standing';
 
 export type ClaimAction =

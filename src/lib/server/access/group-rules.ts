@@ -2,8 +2,8 @@
 import type { Transaction } from 'sequelize';
 import type { Database } from '../db';
 import type { GroupRole } from '../db/models/Membership';
-import { ForbiddenError, NotFoundError } from '../services/errors';
-import type { Actor } from './actor';
+import { ForbiddenError, NotFoundError } from '../core/errors';
+import type { Actor } from '../core/actor';
 import { roleIn, type Decision } from './standing';
 
 export type GroupAction = 'read' | 'create-claim' | 'manage';

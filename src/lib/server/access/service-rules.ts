@@ -4,8 +4,8 @@
  * through permissions.ts.
  */
 import type { Database } from '../db';
-import { ForbiddenError } from '../services/errors';
-import { isAccount, type AccountActor, type Actor } from './actor';
+import { ForbiddenError } from '../core/errors';
+import { isAccount, type AccountActor, type Actor } from '../core/actor';
 import { maskedAddress } from './masked-address';
 import { groupIdsOf, type Decision } from './standing';
 

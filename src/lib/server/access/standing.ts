@@ -5,7 +5,7 @@
 import type { Transaction } from 'sequelize';
 import type { Database } from '../db';
 import type { GroupRole } from '../db/models/Membership';
-import type { AccountActor } from './actor';
+import type { AccountActor } from '../core/actor';
 
 export type Decision = 'allowed' | 'denied' | 'hidden';
 

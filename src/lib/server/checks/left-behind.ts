@@ -6,7 +6,7 @@
  */
 import type { Database } from '../db';
 import { ACTIVE_CHECK_STATUSES, type CheckAttributes } from '../db/models/Check';
-import { MAX_CHECK_STARTS } from '../services/check-limits';
+import { MAX_CHECK_STARTS } from './check-limits';
 import { recordOutcome } from './outcome';
 import { checkBucket, type QueuedCheck } from './queue';
 

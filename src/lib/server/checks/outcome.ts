@@ -3,7 +3,7 @@ import type { CertificationResult } from '$lib/certify';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
 import { ACTIVE_CHECK_STATUSES, type CheckAttributes } from '../db/models/Check';
-import { audit } from '../services/audit';
+import { audit } from '../core/audit';
 
 export interface CheckOutcome {
 	startedAt: Date;

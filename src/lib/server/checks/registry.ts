@@ -2,8 +2,8 @@
  * One embedded check runner per database: started on first use, stopped (waiting for running
  * checks) or aborted (for shutdown) as a whole.
  */
-import { outsideRequest } from '../access/acting';
-import { config } from '../config';
+import { outsideRequest } from '../core/acting';
+import { config } from '../core/config';
 import type { Database } from '../db';
 import { checkWorkerFile } from './locate';
 import type { CheckQueue } from './queue';

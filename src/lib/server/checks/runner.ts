@@ -11,7 +11,7 @@ import type { EvidenceFiles } from '$lib/evidence/layout';
 import type { VerificationReport } from '$lib/evidence/verify';
 import type { Database } from '../db';
 import { ACTIVE_CHECK_STATUSES, type CheckAttributes, type CheckModel } from '../db/models/Check';
-import { datasetFilePath } from '../services/datasets';
+import { datasetFilePath } from '../storage/counts-store';
 import { FairScheduler } from './fair-scheduler';
 import { recordOutcome } from './outcome';
 import { sweepLeftChecks } from './left-behind';

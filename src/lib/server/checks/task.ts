@@ -2,8 +2,8 @@
 import type { MessagePort } from 'node:worker_threads';
 import type { FourierConvention } from '../../certify';
 import type { ClaimMethod } from '../../claims/target';
-import type { TargetTaskPart } from './target-task';
-import type { TrialsTaskPart } from './trials-task';
+import type { TargetTaskPart } from './task';
+import type { TrialsTaskPart } from './task';
 
 export interface CheckTask {
 	/** The stored counts file; or `bytes` when the caller holds them already. */

@@ -11,7 +11,7 @@ import {
 	type TrialsResult
 } from '../../certify/trials';
 import { iidDataset, settingsPlan } from '../../certify/trials/settings-plan';
-import { parseTrialsUpload } from '../trials-upload';
+import { parseTrialsUpload } from './trials-upload';
 import { previewTables, summarise, type SummaryOutcome, type SummaryTask } from './summary';
 import type { ClaimAttributes } from '../db/models/Claim';
 import type { CheckTask } from './task';

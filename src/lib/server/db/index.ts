@@ -7,7 +7,7 @@ import path from 'node:path';
 import { Sequelize, Transaction } from 'sequelize';
 import sqlite3 from 'sqlite3';
 import { SequelizeStorage, Umzug } from 'umzug';
-import { config } from '../config';
+import { config } from '../core/config';
 import { configureEveryConnection, queueAutocommitWrites } from './connections';
 import { migrations } from './migrations';
 import { defineModels, type Models } from './models';

@@ -4,10 +4,10 @@
  * its PDF and its bundle at once. Claims that have one already are left alone.
  */
 import type { CertificationResult } from '$lib/certify';
-import { userActor } from '../access/actor';
+import { userActor } from '../core/actor';
 import { startCheckRunner } from '../checks/registry';
 import type { Database } from '../db';
-import { issueCertificate } from '../services/certificates';
+import { issueCertificate } from '../certificates/certificates';
 import { DEMO_CLAIMS } from './scenario';
 
 export async function certifyDemoClaims(database: Database): Promise<number> {

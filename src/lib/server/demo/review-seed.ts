@@ -5,16 +5,16 @@
  */
 import { mkdirSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
-import { userActor } from '../access/actor';
+import { userActor } from '../core/actor';
 import { startCheckRunner } from '../checks/registry';
-import { config } from '../config';
+import { config } from '../core/config';
 import type { Database } from '../db';
-import type { Mailer } from '../mail';
-import { issueCertificate } from '../services/certificates';
-import { saveReport } from '../services/reports';
-import { createReviewLink, resolveReviewToken } from '../services/review-links';
-import { shareClaim } from '../services/shares';
-import { createToken } from '../services/tokens';
+import type { Mailer } from '../mail/mail';
+import { issueCertificate } from '../certificates/certificates';
+import { saveReport } from '../review/reports';
+import { createReviewLink, resolveReviewToken } from '../review/review-links';
+import { shareClaim } from '../review/shares';
+import { createToken } from '../accounts/tokens';
 
 export const demoReviewLinkFile = () => path.join(config().dataDir, 'demo', 'review-link.txt');
 export const demoEditorTokenFile = () => path.join(config().dataDir, 'demo', 'editor-token.txt');

@@ -7,17 +7,17 @@
  */
 import { existsSync, mkdirSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
-import { hashPassword } from '../auth';
-import { config } from '../config';
+import { hashPassword } from '../accounts/auth';
+import { config } from '../core/config';
 import type { Database } from '../db';
-import type { Mailer } from '../mail';
-import { userActor } from '../access/actor';
+import type { Mailer } from '../mail/mail';
+import { userActor } from '../core/actor';
 import { writeTransaction } from '../db/transactions';
-import { startCheck } from '../services/checks';
-import { createClaim } from '../services/claims';
-import { addDataset } from '../services/datasets';
-import { newId } from '../services/ids';
-import { createToken } from '../services/tokens';
+import { startCheck } from '../checks/checks';
+import { createClaim } from '../claims/claims';
+import { addDataset } from '../datasets/datasets';
+import { newId } from '../core/ids';
+import { createToken } from '../accounts/tokens';
 import { seedReview } from './review-seed';
 import { certifyDemoClaims } from './certify-demo';
 import { DEMO_CLAIMS, DEMO_GROUP, DEMO_PEOPLE, demoCountsCsv } from './scenario';

@@ -24,7 +24,7 @@ import {
 	type ManifestInput
 } from '../../evidence/manifest';
 import { signText, type SigningKey } from '../../evidence/signing';
-import { fillPlaceholders } from '../templates';
+import { fillPlaceholders } from '../mail/templates';
 import { certificatePdf, type CertificateContext } from './pdf';
 import { verifierBytes } from './verifier-file';
 import { zipFiles } from './zip-write';

@@ -15,7 +15,7 @@ import {
 import { writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { newSigningKey, signingKeyFrom, type SigningKey } from '../../evidence/signing';
-import { config } from '../config';
+import { config } from '../core/config';
 
 interface StoredKey {
 	id: string;

@@ -6,7 +6,7 @@
  * returns the data the page shows once.
  */
 import type { ActionFailure, RequestEvent } from '@sveltejs/kit';
-import { formFailure, problemOf, retryHeaders, type FormProblem } from '../problems';
+import { formFailure, problemOf, retryHeaders, type FormProblem } from './problems';
 
 type HeaderEvent = Pick<RequestEvent, 'setHeaders'>;
 

@@ -1,8 +1,8 @@
 import { redirect } from '@sveltejs/kit';
-import { app } from '$lib/server/app';
-import { clearSessionCookie, requireSignedIn } from '$lib/server/auth-web';
+import { app } from '$lib/server/app/app';
+import { clearSessionCookie, requireSignedIn } from '$lib/server/http/auth-web';
 import { runFormAction } from '$lib/server/http/form-action';
-import { resendVerification, signOut, signOutEverywhere } from '$lib/server/services/accounts';
+import { resendVerification, signOut, signOutEverywhere } from '$lib/server/accounts/accounts';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = ({ url }) => ({ sent: url.searchParams.has('sent') });

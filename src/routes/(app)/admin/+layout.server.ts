@@ -1,6 +1,6 @@
-import { app } from '$lib/server/app';
+import { app } from '$lib/server/app/app';
 import { decideService } from '$lib/server/access/permissions';
-import { alarmText, ledgerAlarm } from '$lib/server/services/ledger-alarm';
+import { alarmText, ledgerAlarm } from '$lib/server/ledger/ledger-alarm';
 import type { LayoutServerLoad } from './$types';
 
 /** Admin pages: a ledger cut short below the last published checkpoint is shown at the top. */

@@ -1,9 +1,9 @@
 import { claimQuerySchema, DEFAULT_SORT, firstOrder } from '$lib/claims/filter';
 import { pagingSchema } from '$lib/paging';
-import { app } from '$lib/server/app';
-import { requireSignedIn } from '$lib/server/auth-web';
-import { pageProblem } from '$lib/server/problems';
-import { listClaims } from '$lib/server/services/claims';
+import { app } from '$lib/server/app/app';
+import { requireSignedIn } from '$lib/server/http/auth-web';
+import { pageProblem } from '$lib/server/http/problems';
+import { listClaims } from '$lib/server/claims/claims';
 import type { ListQuery } from './query';
 import type { PageServerLoad } from './$types';
 

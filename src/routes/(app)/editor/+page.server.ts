@@ -1,10 +1,10 @@
-import { app } from '$lib/server/app';
-import { requireSignedIn } from '$lib/server/auth-web';
+import { app } from '$lib/server/app/app';
+import { requireSignedIn } from '$lib/server/http/auth-web';
 import { runFormAction } from '$lib/server/http/form-action';
-import { pageProblem } from '$lib/server/problems';
-import { editorHome } from '$lib/server/services/editor-home';
-import { releaseReport } from '$lib/server/services/reports';
-import { createReviewLink, revokeReviewLink } from '$lib/server/services/review-links';
+import { pageProblem } from '$lib/server/http/problems';
+import { editorHome } from '$lib/server/review/editor-home';
+import { releaseReport } from '$lib/server/review/reports';
+import { createReviewLink, revokeReviewLink } from '$lib/server/review/review-links';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, url }) => {

@@ -1,9 +1,9 @@
 import { redirect } from '@sveltejs/kit';
-import { formFields, groupNameForm } from '$lib/server/account-forms';
-import { app } from '$lib/server/app';
-import { echoValues, requireSignedIn } from '$lib/server/auth-web';
+import { formFields, groupNameForm } from '$lib/server/accounts/account-forms';
+import { app } from '$lib/server/app/app';
+import { echoValues, requireSignedIn } from '$lib/server/http/auth-web';
 import { runFormAction } from '$lib/server/http/form-action';
-import { createGroup } from '$lib/server/services/groups';
+import { createGroup } from '$lib/server/accounts/groups';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = ({ url }) => ({ verified: url.searchParams.has('verified') });

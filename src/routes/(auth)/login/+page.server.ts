@@ -1,11 +1,11 @@
 import { redirect } from '@sveltejs/kit';
-import { signInForm, formFields } from '$lib/server/account-forms';
-import { app } from '$lib/server/app';
-import { echoValues, safeNext, startSession } from '$lib/server/auth-web';
+import { signInForm, formFields } from '$lib/server/accounts/account-forms';
+import { app } from '$lib/server/app/app';
+import { echoValues, safeNext, startSession } from '$lib/server/http/auth-web';
 import { runFormAction } from '$lib/server/http/form-action';
-import { retryWords } from '$lib/server/rate-limits';
-import { FieldError } from '$lib/server/services/errors';
-import { signInFrom } from '$lib/server/services/sign-in';
+import { retryWords } from '$lib/server/core/rate-limits';
+import { FieldError } from '$lib/server/core/errors';
+import { signInFrom } from '$lib/server/accounts/sign-in';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = ({ locals, url }) => {

@@ -1,9 +1,9 @@
 import { redirect } from '@sveltejs/kit';
-import { formFields, resetRequestForm } from '$lib/server/account-forms';
-import { app } from '$lib/server/app';
-import { echoValues } from '$lib/server/auth-web';
+import { formFields, resetRequestForm } from '$lib/server/accounts/account-forms';
+import { app } from '$lib/server/app/app';
+import { echoValues } from '$lib/server/http/auth-web';
 import { runFormAction } from '$lib/server/http/form-action';
-import { requestPasswordReset } from '$lib/server/services/accounts';
+import { requestPasswordReset } from '$lib/server/accounts/accounts';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = ({ url }) => ({ sent: url.searchParams.has('sent') });

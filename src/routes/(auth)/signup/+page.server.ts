@@ -1,10 +1,10 @@
 import { redirect } from '@sveltejs/kit';
-import { formFields, signUpForm } from '$lib/server/account-forms';
-import { app } from '$lib/server/app';
-import { echoValues, safeNext, startSession } from '$lib/server/auth-web';
+import { formFields, signUpForm } from '$lib/server/accounts/account-forms';
+import { app } from '$lib/server/app/app';
+import { echoValues, safeNext, startSession } from '$lib/server/http/auth-web';
 import { runFormAction } from '$lib/server/http/form-action';
-import { signUp } from '$lib/server/services/accounts';
-import { invitationTokenIn } from '$lib/server/services/invitation-links';
+import { signUp } from '$lib/server/accounts/accounts';
+import { invitationTokenIn } from '$lib/server/accounts/invitation-links';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = ({ locals, url }) => {

@@ -1,15 +1,15 @@
 import { error, redirect } from '@sveltejs/kit';
-import { app } from '$lib/server/app';
+import { app } from '$lib/server/app/app';
 import { runFormAction } from '$lib/server/http/form-action';
-import { pageProblem } from '$lib/server/problems';
-import { INVALID_REVIEW_LINK } from '$lib/server/review-api';
+import { pageProblem } from '$lib/server/http/problems';
+import { INVALID_REVIEW_LINK } from '$lib/server/http/review-api';
 import {
 	cancellableReRuns,
 	cancelRefereeCheck,
 	refereeView,
 	startRefereeCheck
-} from '$lib/server/services/referee';
-import { saveReport } from '$lib/server/services/reports';
+} from '$lib/server/review/referee';
+import { saveReport } from '$lib/server/review/reports';
 import type { Actions, PageServerLoad } from './$types';
 
 /** Only the link decides: a signed-in session is ignored here (see review-handle.ts). */

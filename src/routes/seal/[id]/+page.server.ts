@@ -1,6 +1,6 @@
-import { app } from '$lib/server/app';
+import { app } from '$lib/server/app/app';
 import { pageRefused } from '$lib/server/http/page-refusal';
-import { lookupFrom } from '$lib/server/services/certificate-reads';
+import { lookupFrom } from '$lib/server/certificates/certificate-reads';
 import type { PageServerLoad } from './$types';
 
 /** Public (no sign-in): the page a certificate's QR code and verify link open. */

@@ -4,7 +4,7 @@
  * given-up mail loses its secret links, as the sender now does for every later message.
  */
 import { QueryTypes, type QueryInterface } from 'sequelize';
-import { redactSecretLinks } from '../../mail-redact';
+import { redactSecretLinks } from '../../mail/mail-redact';
 
 export async function up({ context: q }: { context: QueryInterface }) {
 	await q.bulkDelete('sessions', {});

@@ -1,9 +1,9 @@
 import { z } from 'zod';
 import { pageField } from '$lib/paging';
-import { app } from '$lib/server/app';
-import { requireSignedIn } from '$lib/server/auth-web';
-import { pageProblem } from '$lib/server/problems';
-import { listOutbox } from '$lib/server/services/mail-outbox';
+import { app } from '$lib/server/app/app';
+import { requireSignedIn } from '$lib/server/http/auth-web';
+import { pageProblem } from '$lib/server/http/problems';
+import { listOutbox } from '$lib/server/mail/mail-outbox';
 import type { PageServerLoad } from './$types';
 
 const statusFilter = z

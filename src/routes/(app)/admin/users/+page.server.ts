@@ -1,10 +1,10 @@
 import { redirect } from '@sveltejs/kit';
-import { accountRoleForm, formFields } from '$lib/server/account-forms';
-import { app } from '$lib/server/app';
-import { echoValues, requireSignedIn } from '$lib/server/auth-web';
+import { accountRoleForm, formFields } from '$lib/server/accounts/account-forms';
+import { app } from '$lib/server/app/app';
+import { echoValues, requireSignedIn } from '$lib/server/http/auth-web';
 import { runFormAction } from '$lib/server/http/form-action';
-import { pageProblem } from '$lib/server/problems';
-import { listUsers, setAccountRole } from '$lib/server/services/account-roles';
+import { pageProblem } from '$lib/server/http/problems';
+import { listUsers, setAccountRole } from '$lib/server/accounts/account-roles';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, url }) => {

@@ -1,6 +1,6 @@
 /** The upload form's files, read and size-checked before anything is stored. */
 import { MAX_COUNTS_FILE_BYTES } from '$lib/certify';
-import { FieldError } from '$lib/server/services/errors';
+import { FieldError } from '$lib/server/core/errors';
 
 /** The counts file (and optional calibration file); names the counts file in `values`. */
 export async function uploadFrom(form: FormData, values: Record<string, string>) {

@@ -1,10 +1,10 @@
 import { redirect } from '@sveltejs/kit';
 import { CLAIM_FIELDS, claimInputSchema } from '$lib/claims/schema';
-import { app } from '$lib/server/app';
-import { echoValues, requireSignedIn } from '$lib/server/auth-web';
+import { app } from '$lib/server/app/app';
+import { echoValues, requireSignedIn } from '$lib/server/http/auth-web';
 import { runFormAction } from '$lib/server/http/form-action';
-import { createClaim } from '$lib/server/services/claims';
-import { ForbiddenError } from '$lib/server/services/errors';
+import { createClaim } from '$lib/server/claims/claims';
+import { ForbiddenError } from '$lib/server/core/errors';
 import type { Actions } from './$types';
 
 const FIELDS = ['groupId', ...CLAIM_FIELDS, 'trialsMode', 'trialsProbabilities', 'target'];

@@ -6,15 +6,15 @@ import {
 	inviteForm,
 	memberForm,
 	memberRoleForm
-} from '$lib/server/account-forms';
-import { app } from '$lib/server/app';
-import type { Actor } from '$lib/server/access/actor';
-import { echoValues, requireSignedIn } from '$lib/server/auth-web';
+} from '$lib/server/accounts/account-forms';
+import { app } from '$lib/server/app/app';
+import type { Actor } from '$lib/server/core/actor';
+import { echoValues, requireSignedIn } from '$lib/server/http/auth-web';
 import { runFormAction } from '$lib/server/http/form-action';
-import { pageProblem } from '$lib/server/problems';
-import { byteWords, groupStorage } from '$lib/server/services/group-storage';
-import { changeMemberRole, getGroup, removeMember } from '$lib/server/services/groups';
-import { inviteMember, listInvitations, revokeInvitation } from '$lib/server/services/invitations';
+import { pageProblem } from '$lib/server/http/problems';
+import { byteWords, groupStorage } from '$lib/server/accounts/group-storage';
+import { changeMemberRole, getGroup, removeMember } from '$lib/server/accounts/groups';
+import { inviteMember, listInvitations, revokeInvitation } from '$lib/server/accounts/invitations';
 import type { Actions, PageServerLoad, RequestEvent } from './$types';
 
 export const load: PageServerLoad = async ({ locals, params, url }) => {

@@ -1,6 +1,6 @@
 import { redirect } from '@sveltejs/kit';
-import { app } from '$lib/server/app';
-import { echoValues, requireSignedIn } from '$lib/server/auth-web';
+import { app } from '$lib/server/app/app';
+import { echoValues, requireSignedIn } from '$lib/server/http/auth-web';
 import { runFormAction } from '$lib/server/http/form-action';
 import {
 	createToken,
@@ -9,7 +9,7 @@ import {
 	revokeToken,
 	TOKEN_DEFAULT_DAYS,
 	tokenInputSchema
-} from '$lib/server/services/tokens';
+} from '$lib/server/accounts/tokens';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, url }) => {

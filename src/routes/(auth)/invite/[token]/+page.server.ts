@@ -1,10 +1,10 @@
 import { error, redirect } from '@sveltejs/kit';
 import { invitedAddressFor, isInvitee } from '$lib/server/access/permissions';
-import { app } from '$lib/server/app';
-import { clearSessionCookie, requireSignedIn } from '$lib/server/auth-web';
+import { app } from '$lib/server/app/app';
+import { clearSessionCookie, requireSignedIn } from '$lib/server/http/auth-web';
 import { runFormAction } from '$lib/server/http/form-action';
-import { signOut } from '$lib/server/services/accounts';
-import { acceptInvitation, findInvitation } from '$lib/server/services/invitation-links';
+import { signOut } from '$lib/server/accounts/accounts';
+import { acceptInvitation, findInvitation } from '$lib/server/accounts/invitation-links';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ params, locals }) => {

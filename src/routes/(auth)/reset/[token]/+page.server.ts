@@ -1,9 +1,9 @@
 import { redirect } from '@sveltejs/kit';
-import { formFields, newPasswordForm } from '$lib/server/account-forms';
-import { app } from '$lib/server/app';
-import { clearSessionCookie } from '$lib/server/auth-web';
+import { formFields, newPasswordForm } from '$lib/server/accounts/account-forms';
+import { app } from '$lib/server/app/app';
+import { clearSessionCookie } from '$lib/server/http/auth-web';
 import { runFormAction } from '$lib/server/http/form-action';
-import { resetLinkState, resetPassword } from '$lib/server/services/accounts';
+import { resetLinkState, resetPassword } from '$lib/server/accounts/accounts';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ params }) => {

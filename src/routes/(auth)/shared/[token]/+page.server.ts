@@ -1,8 +1,8 @@
 import { error, redirect } from '@sveltejs/kit';
-import { app } from '$lib/server/app';
-import { echoValues, startSession } from '$lib/server/auth-web';
+import { app } from '$lib/server/app/app';
+import { echoValues, startSession } from '$lib/server/http/auth-web';
 import { runFormAction } from '$lib/server/http/form-action';
-import { findShareInvite, openShare, signUpEditor } from '$lib/server/services/share-open';
+import { findShareInvite, openShare, signUpEditor } from '$lib/server/review/share-open';
 import type { Actions, PageServerLoad } from './$types';
 
 const GONE = 'This link does not work: the share may have been withdrawn.';

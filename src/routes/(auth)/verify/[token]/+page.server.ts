@@ -1,6 +1,6 @@
 import { redirect } from '@sveltejs/kit';
-import { app } from '$lib/server/app';
-import { verificationLinkState, verifyEmail } from '$lib/server/services/accounts';
+import { app } from '$lib/server/app/app';
+import { verificationLinkState, verifyEmail } from '$lib/server/accounts/accounts';
 import type { Actions, PageServerLoad } from './$types';
 
 // The link only shows a button: mail scanners that open links must not use up the token.

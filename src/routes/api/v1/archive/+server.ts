@@ -1,8 +1,8 @@
 import { z } from 'zod';
 import { ARCHIVE_FORMATS, archiveFilterSchema } from '$lib/archive/schema';
-import { apiEndpoint } from '$lib/server/api';
-import { groupArchive } from '$lib/server/services/archive';
-import { archiveCsv, archiveFilename, archiveJson } from '$lib/server/services/archive-export';
+import { apiEndpoint } from '$lib/server/http/api';
+import { groupArchive } from '$lib/server/claims/archive';
+import { archiveCsv, archiveFilename, archiveJson } from '$lib/server/claims/archive-export';
 
 const formatSchema = z.object({
 	format: z

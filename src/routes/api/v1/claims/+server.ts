@@ -1,8 +1,9 @@
 import { json } from '@sveltejs/kit';
 import { claimQuerySchema } from '$lib/claims/filter';
 import { claimJsonSchema } from '$lib/claims/schema';
-import { apiEndpoint, readJson } from '$lib/server/api';
-import { createClaim, listClaims } from '$lib/server/services/claims';
+import { apiEndpoint } from '$lib/server/http/api';
+import { readJson } from '$lib/server/http/read-body';
+import { createClaim, listClaims } from '$lib/server/claims/claims';
 
 /** The claims of the caller's groups: ?q, state, method, sort, order, page, pageSize. */
 export const GET = apiEndpoint(async ({ event, actor, database }) => {

@@ -1,9 +1,9 @@
 import { json } from '@sveltejs/kit';
 import { pagingSchema } from '$lib/paging';
-import { app } from '$lib/server/app';
-import { apiProblem } from '$lib/server/problems';
-import { LEDGER_PAGE_SIZE } from '$lib/server/services/ledger';
-import { publicLedgerPage } from '$lib/server/services/ledger-roles';
+import { app } from '$lib/server/app/app';
+import { apiProblem } from '$lib/server/http/problems';
+import { LEDGER_PAGE_SIZE } from '$lib/server/ledger/ledger';
+import { publicLedgerPage } from '$lib/server/ledger/ledger-roles';
 import type { RequestHandler } from './$types';
 
 const pageQuery = pagingSchema(200);

@@ -2,7 +2,7 @@
  * The refusals every JSON body can meet, added to each operation that takes one, so that the
  * document says them once: 413 over the size limit (chunked too), 415 for another content type.
  */
-import { JSON_BODY_LIMIT } from '$lib/server/json-body';
+import { JSON_BODY_LIMIT } from '$lib/server/http/json-body';
 
 const error = (description: string) => ({
 	description,

@@ -1,5 +1,5 @@
 /** The certificate, signing-key and ledger endpoints of the OpenAPI document, with their schemas. */
-import { LEDGER_PAGE_SIZE } from '$lib/server/services/ledger';
+import { LEDGER_PAGE_SIZE } from '$lib/server/ledger/ledger';
 
 const ref = (name: string) => ({ $ref: `#/components/schemas/${name}` });
 const reply = (description: string, name: string) => ({

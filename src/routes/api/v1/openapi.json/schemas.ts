@@ -11,8 +11,8 @@ import {
 } from '$lib/certify';
 import { CLAIM_METHODS, CLAIM_STATES } from '$lib/claims/schema';
 import { CHECK_STATUSES } from '$lib/server/db/models/Check';
-import { PROBLEM_CODES } from '$lib/server/problems';
-import { TOKEN_DEFAULT_DAYS, TOKEN_MAX_DAYS } from '$lib/server/services/tokens';
+import { PROBLEM_CODES } from '$lib/server/http/problems';
+import { TOKEN_DEFAULT_DAYS, TOKEN_MAX_DAYS } from '$lib/server/accounts/tokens';
 
 const ref = (name: string) => ({ $ref: `#/components/schemas/${name}` });
 const text = { type: 'string' };

@@ -1,6 +1,6 @@
 import { json } from '@sveltejs/kit';
-import { apiProblem } from '$lib/server/problems';
-import { planFor } from '$lib/server/services/plans';
+import { apiProblem } from '$lib/server/http/problems';
+import { planFor } from '$lib/server/checks/plans';
 import type { RequestHandler } from './$types';
 
 /** Public: what it takes to certify Schmidt number k (critical visibilities, simulated counts). */

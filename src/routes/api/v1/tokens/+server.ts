@@ -1,6 +1,7 @@
 import { json } from '@sveltejs/kit';
-import { apiEndpoint, readJson } from '$lib/server/api';
-import { createToken, listTokens, tokenJsonSchema } from '$lib/server/services/tokens';
+import { apiEndpoint } from '$lib/server/http/api';
+import { readJson } from '$lib/server/http/read-body';
+import { createToken, listTokens, tokenJsonSchema } from '$lib/server/accounts/tokens';
 
 /** The signed-in caller's tokens (a session, not a token: tokens do not manage tokens). */
 export const GET = apiEndpoint(async ({ actor, database }) => {

@@ -1,9 +1,9 @@
 import { redirect } from '@sveltejs/kit';
-import { app } from '$lib/server/app';
-import { requireSignedIn } from '$lib/server/auth-web';
+import { app } from '$lib/server/app/app';
+import { requireSignedIn } from '$lib/server/http/auth-web';
 import { runFormAction } from '$lib/server/http/form-action';
-import { pageProblem } from '$lib/server/problems';
-import { getOutboxMessage, requeueOutboxMessage } from '$lib/server/services/mail-outbox';
+import { pageProblem } from '$lib/server/http/problems';
+import { getOutboxMessage, requeueOutboxMessage } from '$lib/server/mail/mail-outbox';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, params, url }) => {

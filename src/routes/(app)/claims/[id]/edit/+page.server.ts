@@ -1,10 +1,10 @@
 import { redirect } from '@sveltejs/kit';
 import { CLAIM_FIELDS } from '$lib/claims/schema';
-import { app } from '$lib/server/app';
-import { echoValues, requireSignedIn } from '$lib/server/auth-web';
+import { app } from '$lib/server/app/app';
+import { echoValues, requireSignedIn } from '$lib/server/http/auth-web';
 import { runFormAction } from '$lib/server/http/form-action';
-import { pageProblem } from '$lib/server/problems';
-import { claimForEditing, updateClaim } from '$lib/server/services/claim-edit';
+import { pageProblem } from '$lib/server/http/problems';
+import { claimForEditing, updateClaim } from '$lib/server/claims/claim-edit';
 import type { Actions, PageServerLoad } from './$types';
 
 const FIELDS = [...CLAIM_FIELDS];

@@ -1,11 +1,11 @@
 import { redirect } from '@sveltejs/kit';
-import { app } from '$lib/server/app';
-import { requireSignedIn } from '$lib/server/auth-web';
+import { app } from '$lib/server/app/app';
+import { requireSignedIn } from '$lib/server/http/auth-web';
 import { runFormAction } from '$lib/server/http/form-action';
-import { pageProblem } from '$lib/server/problems';
-import { getClaim } from '$lib/server/services/claims';
-import { releasedReports } from '$lib/server/services/reports';
-import { listShares, shareClaim, withdrawShare } from '$lib/server/services/shares';
+import { pageProblem } from '$lib/server/http/problems';
+import { getClaim } from '$lib/server/claims/claims';
+import { releasedReports } from '$lib/server/review/reports';
+import { listShares, shareClaim, withdrawShare } from '$lib/server/review/shares';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, url, params }) => {

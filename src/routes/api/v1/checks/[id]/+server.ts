@@ -1,6 +1,6 @@
 import { json } from '@sveltejs/kit';
-import { apiEndpoint } from '$lib/server/api';
-import { cancelCheck, getCheck } from '$lib/server/services/checks';
+import { apiEndpoint } from '$lib/server/http/api';
+import { cancelCheck, getCheck } from '$lib/server/checks/checks';
 
 export const GET = apiEndpoint(async ({ event, actor, database }) => {
 	return json(await getCheck(database, actor, event.params.id!));

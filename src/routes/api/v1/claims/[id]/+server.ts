@@ -1,8 +1,9 @@
 import { json } from '@sveltejs/kit';
 import { claimJsonSchema } from '$lib/claims/schema';
-import { apiEndpoint, readJson } from '$lib/server/api';
-import { updateClaim } from '$lib/server/services/claim-edit';
-import { getClaim } from '$lib/server/services/claims';
+import { apiEndpoint } from '$lib/server/http/api';
+import { readJson } from '$lib/server/http/read-body';
+import { updateClaim } from '$lib/server/claims/claim-edit';
+import { getClaim } from '$lib/server/claims/claims';
 
 export const GET = apiEndpoint(async ({ event, actor, database }) => {
 	return json(await getClaim(database, actor, event.params.id!));

@@ -1,6 +1,6 @@
 import { json } from '@sveltejs/kit';
-import { apiEndpoint } from '$lib/server/api';
-import { revokeReviewLink } from '$lib/server/services/review-links';
+import { apiEndpoint } from '$lib/server/http/api';
+import { revokeReviewLink } from '$lib/server/review/review-links';
 import type { RequestHandler } from './$types';
 
 /** Revokes a review link at once. */

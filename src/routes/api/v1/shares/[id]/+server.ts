@@ -1,6 +1,6 @@
 import { json } from '@sveltejs/kit';
-import { apiEndpoint } from '$lib/server/api';
-import { withdrawShare } from '$lib/server/services/shares';
+import { apiEndpoint } from '$lib/server/http/api';
+import { withdrawShare } from '$lib/server/review/shares';
 import type { RequestHandler } from './$types';
 
 /** Withdraws a share; its review links stop working at once. */

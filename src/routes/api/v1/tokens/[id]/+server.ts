@@ -1,5 +1,5 @@
-import { apiEndpoint } from '$lib/server/api';
-import { revokeToken } from '$lib/server/services/tokens';
+import { apiEndpoint } from '$lib/server/http/api';
+import { revokeToken } from '$lib/server/accounts/tokens';
 
 /** Revokes one of the signed-in caller's tokens (again: no-op). */
 export const DELETE = apiEndpoint(async ({ event, actor, database }) => {

@@ -1,9 +1,9 @@
 import { error } from '@sveltejs/kit';
-import { app } from '$lib/server/app';
-import { requireSignedIn } from '$lib/server/auth-web';
-import { pageProblem } from '$lib/server/problems';
-import { getCertificate, lookupCertificate } from '$lib/server/services/certificate-reads';
-import { getClaim } from '$lib/server/services/claims';
+import { app } from '$lib/server/app/app';
+import { requireSignedIn } from '$lib/server/http/auth-web';
+import { pageProblem } from '$lib/server/http/problems';
+import { getCertificate, lookupCertificate } from '$lib/server/certificates/certificate-reads';
+import { getClaim } from '$lib/server/claims/claims';
 import type { PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, params, url }) => {

@@ -3,15 +3,15 @@ import { isTrialsResult } from '$lib/certify/trials';
 import { reproduceCommand } from '$lib/evidence/command-line';
 import { isTargetResult } from '$lib/certify/fidelity-target';
 import { targetCommand } from '$lib/evidence/target-command';
-import { app } from '$lib/server/app';
-import { requireSignedIn } from '$lib/server/auth-web';
+import { app } from '$lib/server/app/app';
+import { requireSignedIn } from '$lib/server/http/auth-web';
 import { runFormAction } from '$lib/server/http/form-action';
-import { pageProblem } from '$lib/server/problems';
-import { listCertificates, mayIssueCertificate } from '$lib/server/services/certificate-reads';
-import { issueCertificate } from '$lib/server/services/certificates';
-import { cancelCheck, getCheck, mayCancelCheck } from '$lib/server/services/checks';
-import { getClaim } from '$lib/server/services/claims';
-import { getDataset } from '$lib/server/services/datasets';
+import { pageProblem } from '$lib/server/http/problems';
+import { listCertificates, mayIssueCertificate } from '$lib/server/certificates/certificate-reads';
+import { issueCertificate } from '$lib/server/certificates/certificates';
+import { cancelCheck, getCheck, mayCancelCheck } from '$lib/server/checks/checks';
+import { getClaim } from '$lib/server/claims/claims';
+import { getDataset } from '$lib/server/datasets/datasets';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, params, url }) => {

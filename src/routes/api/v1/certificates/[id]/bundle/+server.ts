@@ -1,5 +1,5 @@
-import { apiEndpoint } from '$lib/server/api';
-import { certificateDownload } from '$lib/server/certificate-download';
+import { apiEndpoint } from '$lib/server/http/api';
+import { certificateDownload } from '$lib/server/certificates/certificate-download';
 
 export const GET = apiEndpoint(async ({ event, actor, database }) =>
 	certificateDownload(database, actor, event.params.id!, 'bundle')

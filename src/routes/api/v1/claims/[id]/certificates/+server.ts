@@ -1,8 +1,9 @@
 import { json } from '@sveltejs/kit';
 import { z } from 'zod';
-import { apiEndpoint, readJson } from '$lib/server/api';
-import { listCertificates } from '$lib/server/services/certificate-reads';
-import { issueCertificate } from '$lib/server/services/certificates';
+import { apiEndpoint } from '$lib/server/http/api';
+import { readJson } from '$lib/server/http/read-body';
+import { listCertificates } from '$lib/server/certificates/certificate-reads';
+import { issueCertificate } from '$lib/server/certificates/certificates';
 
 const issueRequest = z.object({ checkId: z.string().trim().min(1, 'Name the finished check.') });
 

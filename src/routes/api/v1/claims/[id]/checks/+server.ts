@@ -1,7 +1,8 @@
 import { json } from '@sveltejs/kit';
 import { checkRequestJsonSchema } from '$lib/claims/schema';
-import { apiEndpoint, readJson } from '$lib/server/api';
-import { startCheck } from '$lib/server/services/checks';
+import { apiEndpoint } from '$lib/server/http/api';
+import { readJson } from '$lib/server/http/read-body';
+import { startCheck } from '$lib/server/checks/checks';
 
 /** Queues a check; poll GET /api/v1/checks/{id} for progress and the result. */
 export const POST = apiEndpoint(async ({ event, actor, database }) => {

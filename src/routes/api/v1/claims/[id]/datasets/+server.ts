@@ -1,7 +1,8 @@
 import { json } from '@sveltejs/kit';
-import { apiEndpoint, readCountsUpload } from '$lib/server/api';
-import { addDataset, listDatasets } from '$lib/server/services/datasets';
-import { withUploadSlot } from '$lib/server/services/upload-slots';
+import { apiEndpoint } from '$lib/server/http/api';
+import { readCountsUpload } from '$lib/server/http/multipart';
+import { addDataset, listDatasets } from '$lib/server/datasets/datasets';
+import { withUploadSlot } from '$lib/server/datasets/upload-slots';
 
 export const GET = apiEndpoint(async ({ event, actor, database }) => {
 	return json(await listDatasets(database, actor, event.params.id!));

@@ -1,6 +1,7 @@
 import { json } from '@sveltejs/kit';
-import { apiEndpoint, readJson } from '$lib/server/api';
-import { createReviewLink, reviewLinkJsonSchema } from '$lib/server/services/review-links';
+import { apiEndpoint } from '$lib/server/http/api';
+import { readJson } from '$lib/server/http/read-body';
+import { createReviewLink, reviewLinkJsonSchema } from '$lib/server/review/review-links';
 import type { RequestHandler } from './$types';
 
 /** An editor's new review link: `{ label?, expiresInDays? }` → 201 `{ id, url, expiresAt }`. */

@@ -1,7 +1,8 @@
 import { json } from '@sveltejs/kit';
-import { apiEndpoint, readJson } from '$lib/server/api';
-import { app } from '$lib/server/app';
-import { listShares, shareClaim, shareInputSchema } from '$lib/server/services/shares';
+import { apiEndpoint } from '$lib/server/http/api';
+import { readJson } from '$lib/server/http/read-body';
+import { app } from '$lib/server/app/app';
+import { listShares, shareClaim, shareInputSchema } from '$lib/server/review/shares';
 import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = apiEndpoint(async ({ event, database, actor }) =>

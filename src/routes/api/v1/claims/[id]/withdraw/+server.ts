@@ -1,8 +1,9 @@
 import { json } from '@sveltejs/kit';
 import { z } from 'zod';
 import { withdrawReasonField } from '$lib/claims/withdrawal';
-import { apiEndpoint, readJson } from '$lib/server/api';
-import { withdrawClaim } from '$lib/server/services/claim-withdraw';
+import { apiEndpoint } from '$lib/server/http/api';
+import { readJson } from '$lib/server/http/read-body';
+import { withdrawClaim } from '$lib/server/claims/claim-withdraw';
 
 const body = z.object({ reason: withdrawReasonField });
 

@@ -1,7 +1,7 @@
 import { json } from '@sveltejs/kit';
-import { apiEndpoint } from '$lib/server/api';
-import { app } from '$lib/server/app';
-import { releaseReport } from '$lib/server/services/reports';
+import { apiEndpoint } from '$lib/server/http/api';
+import { app } from '$lib/server/app/app';
+import { releaseReport } from '$lib/server/review/reports';
 import type { RequestHandler } from './$types';
 
 /** The editor releases a filed report to the claim's authors. */

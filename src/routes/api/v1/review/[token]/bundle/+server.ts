@@ -1,5 +1,5 @@
-import { reviewEndpoint } from '$lib/server/review-api';
-import { refereeBundle } from '$lib/server/services/referee';
+import { reviewEndpoint } from '$lib/server/http/review-api';
+import { refereeBundle } from '$lib/server/review/referee';
 import type { RequestHandler } from './$types';
 
 /** The current certificate's evidence bundle. */

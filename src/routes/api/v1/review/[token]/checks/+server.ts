@@ -1,7 +1,7 @@
 import { json } from '@sveltejs/kit';
-import { readJson } from '$lib/server/api';
-import { reviewEndpoint } from '$lib/server/review-api';
-import { refereeCheckJsonSchema, startRefereeCheck } from '$lib/server/services/referee';
+import { readJson } from '$lib/server/http/read-body';
+import { reviewEndpoint } from '$lib/server/http/review-api';
+import { refereeCheckJsonSchema, startRefereeCheck } from '$lib/server/review/referee';
 import type { RequestHandler } from './$types';
 
 /** Re-runs the certified check: `{}` for the recorded seed, `{ seed }` for a fresh one. */

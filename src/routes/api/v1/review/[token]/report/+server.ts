@@ -1,8 +1,8 @@
 import { json } from '@sveltejs/kit';
-import { readJson } from '$lib/server/api';
-import { app } from '$lib/server/app';
-import { reviewEndpoint } from '$lib/server/review-api';
-import { ownReport, reportJsonSchema, saveReport } from '$lib/server/services/reports';
+import { readJson } from '$lib/server/http/read-body';
+import { app } from '$lib/server/app/app';
+import { reviewEndpoint } from '$lib/server/http/review-api';
+import { ownReport, reportJsonSchema, saveReport } from '$lib/server/review/reports';
 import type { RequestHandler } from './$types';
 
 export const GET: RequestHandler = reviewEndpoint(async ({ database, actor }) =>

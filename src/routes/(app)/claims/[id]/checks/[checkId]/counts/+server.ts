@@ -1,7 +1,7 @@
-import { attachment } from '$lib/server/attachment';
-import { app } from '$lib/server/app';
-import { pageProblem } from '$lib/server/problems';
-import { checkCountsFile } from '$lib/server/services/check-exports';
+import { attachment } from '$lib/server/http/attachment';
+import { app } from '$lib/server/app/app';
+import { pageProblem } from '$lib/server/http/problems';
+import { checkCountsFile } from '$lib/server/checks/check-exports';
 import type { RequestHandler } from './$types';
 
 /** The counts file the check ran on, exactly as stored; its SHA-256 rides along in a header. */

@@ -1,7 +1,7 @@
 import { json } from '@sveltejs/kit';
-import { app } from '$lib/server/app';
-import { pageProblem } from '$lib/server/problems';
-import { checkResult } from '$lib/server/services/check-exports';
+import { app } from '$lib/server/app/app';
+import { pageProblem } from '$lib/server/http/problems';
+import { checkResult } from '$lib/server/checks/check-exports';
 import type { RequestHandler } from './$types';
 
 /** The finished check's result as JSON, the same numbers `certify --json` prints. */

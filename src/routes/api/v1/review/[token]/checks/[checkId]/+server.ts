@@ -1,6 +1,6 @@
 import { json } from '@sveltejs/kit';
-import { reviewEndpoint } from '$lib/server/review-api';
-import { cancelRefereeCheck, refereeCheck } from '$lib/server/services/referee';
+import { reviewEndpoint } from '$lib/server/http/review-api';
+import { cancelRefereeCheck, refereeCheck } from '$lib/server/review/referee';
 import type { RequestHandler } from './$types';
 
 /** A re-run started through this link: the shape of any check, plus how it compares. */
