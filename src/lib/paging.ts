@@ -4,13 +4,10 @@
  * as 1e20 would reach SQL as `OFFSET 5e+21`, which SQLite refuses.
  */
 import { z } from 'zod';
-import { wholeNumber } from '$lib/schema-numbers';
+import { blankToUndefined, wholeNumber } from '$lib/schema-numbers';
 
 /** The highest page any list answers. */
 export const MAX_PAGE = 1_000_000;
-
-const blankToUndefined = (value: unknown) =>
-	typeof value === 'string' && value.trim() === '' ? undefined : value;
 
 /** `page` from a query string: blank or missing means the first. */
 export const pageField = () =>

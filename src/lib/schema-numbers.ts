@@ -5,6 +5,10 @@
  */
 import { z } from 'zod';
 
+/** A blank form field reads as "not given" (undefined), for z.preprocess. */
+export const blankToUndefined = (value: unknown) =>
+	typeof value === 'string' && value.trim() === '' ? undefined : value;
+
 /** Where the values come from: a submitted form (text) or a JSON body (typed). */
 export type ValueSource = 'form' | 'json';
 

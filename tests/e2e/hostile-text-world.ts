@@ -38,7 +38,6 @@ export interface HostileTextWorld {
 }
 
 // The notices go to the outbox; no service here sends anything itself.
-const NO_MAILER = { origin: 'http://127.0.0.1' } as Mailer;
 
 export async function seedHostileText(): Promise<HostileTextWorld> {
 	const dataDir = mkdtempSync(path.join(tmpdir(), 'rankseal-hostile-text-'));
@@ -74,15 +73,15 @@ export async function seedHostileText(): Promise<HostileTextWorld> {
 		const checkId = await doneCheck(db, claim.id, dataset.id, author.id);
 		const certificate = await issueCertificate(db, author.actor, claim.id, checkId);
 		const share = { email: 'editor@example.test', journal: hostile('journal') };
-		await shareClaim(db, NO_MAILER, author.actor, claim.id, {
+		await shareClaim(db, author.actor, claim.id, {
 			...share,
 			manuscript: hostile('share')
 		});
 		const link = await createReviewLink(db, editor.actor, claim.id, { label: hostile('label') });
 		const referee: RefereeActor = { kind: 'referee', claimId: claim.id, linkId: link.id };
 		const filed = { recommendation: 'sound', comments: hostile('report'), submit: true };
-		const report = await saveReport(db, NO_MAILER, referee, filed);
-		await releaseReport(db, NO_MAILER, editor.actor, report.id);
+		const report = await saveReport(db, referee, filed);
+		await releaseReport(db, editor.actor, report.id);
 		await createToken(db, author.actor, { name: hostile('token').slice(0, 80) });
 		const withdrawn = await createClaim(db, author.actor, { ...fields, title: hostile('gone') });
 		await withdrawClaim(db, author.actor, withdrawn.id, hostile('reason'));

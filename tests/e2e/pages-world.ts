@@ -38,7 +38,7 @@ export async function seedPagesWorld(): Promise<PagesWorld> {
 			from,
 			origin: 'http://127.0.0.1'
 		});
-		await seedDemo(database, mailer).finally(async () => {
+		await seedDemo(database).finally(async () => {
 			mailer.close();
 			await catcher.close();
 		});

@@ -46,9 +46,9 @@ async function written(work: () => Promise<unknown>) {
 describe('sign-up and reset, known and unknown addresses', () => {
 	it('answers a sign-up alike and writes one audit row and one letter on both paths', async () => {
 		const person = { email: 'ada.voss@lakeside.test', name: 'Ada Voss', password: PASSWORD };
-		const fresh = await written(() => signUp(world.database, world.mailer, person));
+		const fresh = await written(() => signUp(world.database, person));
 		const again = { ...person, name: 'Someone Else', password: 'a-different-passphrase' };
-		const taken = await written(() => signUp(world.database, world.mailer, again));
+		const taken = await written(() => signUp(world.database, again));
 		expect(fresh).toEqual({ users: 1, emailTokens: 1, audit: 1, outbox: 1 });
 		expect(taken).toEqual({ users: 0, emailTokens: 0, audit: 1, outbox: 1 });
 		const [confirm, notice] = await mailTo(world, person.email);
@@ -61,7 +61,6 @@ describe('sign-up and reset, known and unknown addresses', () => {
 	it('keeps the ordinary answer for a token that is no invitation', async () => {
 		const taken = signUp(
 			world.database,
-			world.mailer,
 			{ email: 'ada.voss@lakeside.test', name: 'Ada', password: PASSWORD },
 			{ invitationToken: 'not-an-invitation' }
 		);
@@ -71,10 +70,10 @@ describe('sign-up and reset, known and unknown addresses', () => {
 
 	it('writes one audit row and one letter for a reset, with or without an account', async () => {
 		const known = await written(() =>
-			requestPasswordReset(world.database, world.mailer, 'Ada.Voss@lakeside.test')
+			requestPasswordReset(world.database, 'Ada.Voss@lakeside.test')
 		);
 		const unknown = await written(() =>
-			requestPasswordReset(world.database, world.mailer, 'nobody@lakeside.test')
+			requestPasswordReset(world.database, 'nobody@lakeside.test')
 		);
 		expect(known).toMatchObject({ users: 0, audit: 1, outbox: 1, emailTokens: 1 });
 		expect(unknown).toMatchObject({ users: 0, audit: 1, outbox: 1, emailTokens: 0 });
@@ -178,8 +177,8 @@ describe('the per-recipient mail cap', () => {
 	it('holds letters past the cap, keeps them listed, and sends one an admin releases', async () => {
 		process.env.RANKSEAL_RATE_LIMITS = JSON.stringify({ mailPerRecipient: { points: 2 } });
 		const target = 'flooded@lakeside.test';
-		for (let i = 0; i < 4; i++) await requestPasswordReset(world.database, world.mailer, target);
-		await requestPasswordReset(world.database, world.mailer, 'other@lakeside.test');
+		for (let i = 0; i < 4; i++) await requestPasswordReset(world.database, target);
+		await requestPasswordReset(world.database, 'other@lakeside.test');
 		expect(await mailTo(world, target)).toHaveLength(2);
 		expect(await mailTo(world, 'other@lakeside.test')).toHaveLength(1);
 

@@ -31,7 +31,7 @@ describe('accounts', () => {
 
 	it('signs up, mails a confirmation link, and the link works once only', async () => {
 		const before = Date.now();
-		const { userId } = await signUp(world.database, world.mailer, {
+		const { userId } = await signUp(world.database, {
 			email: '  Liv.Aasen@Fjordlight.TEST ',
 			name: 'Liv Aasen',
 			password: PASSWORD
@@ -65,7 +65,7 @@ describe('accounts', () => {
 
 	it('makes no second account for a taken address (in any case), and refuses a short password', async () => {
 		const owner = await user('liv.aasen@fjordlight.test');
-		await signUp(world.database, world.mailer, {
+		await signUp(world.database, {
 			email: 'LIV.AASEN@fjordlight.test',
 			name: 'Other',
 			password: 'another-passphrase-here'
@@ -75,7 +75,7 @@ describe('accounts', () => {
 		expect((await user(owner.email)).passwordHash).toBe(owner.passwordHash);
 		const [, notice] = await mailTo(world, owner.email);
 		expect(notice.subject).toBe('Someone tried to open a Rankseal account with your address');
-		const short = signUp(world.database, world.mailer, {
+		const short = signUp(world.database, {
 			email: 'short@fjordlight.test',
 			name: 'Short',
 			password: '123456789'
@@ -88,7 +88,7 @@ describe('accounts', () => {
 	});
 
 	it('rejects an expired confirmation link, and a re-sent link replaces the old one', async () => {
-		const { userId } = await signUp(world.database, world.mailer, {
+		const { userId } = await signUp(world.database, {
 			email: 'tor@fjordlight.test',
 			name: 'Tor Lunde',
 			password: PASSWORD
@@ -101,15 +101,15 @@ describe('accounts', () => {
 		expect(await verifyEmail(world.database, first)).toEqual({ ok: false, reason: 'expired' });
 		expect((await user('tor@fjordlight.test')).emailVerifiedAt).toBeNull();
 
-		expect(await resendVerification(world.database, world.mailer, asUser(userId))).toBe(true);
+		expect(await resendVerification(world.database, asUser(userId))).toBe(true);
 		const second = await linkToken(world, 'tor@fjordlight.test', '/verify/');
 		expect(second).not.toBe(first);
 		expect(await verifyEmail(world.database, second)).toEqual({ ok: true, userId });
-		expect(await resendVerification(world.database, world.mailer, asUser(userId))).toBe(false);
+		expect(await resendVerification(world.database, asUser(userId))).toBe(false);
 	});
 
 	it('signs in with the right password only; an unknown address looks the same', async () => {
-		const { userId } = await signUp(world.database, world.mailer, {
+		const { userId } = await signUp(world.database, {
 			email: 'ines@fjordlight.test',
 			name: 'Ines Brekke',
 			password: PASSWORD
@@ -126,7 +126,7 @@ describe('accounts', () => {
 	}
 
 	it('resets a password by a one-hour, single-use link and ends every session and token', async () => {
-		const { userId } = await signUp(world.database, world.mailer, {
+		const { userId } = await signUp(world.database, {
 			email: 'eirik@fjordlight.test',
 			name: 'Eirik Moen',
 			password: PASSWORD
@@ -137,7 +137,7 @@ describe('accounts', () => {
 		expect(await authenticate(world.database, script)).toMatchObject({ kind: 'token', userId });
 
 		const asked = Date.now();
-		await requestPasswordReset(world.database, world.mailer, ' EIRIK@fjordlight.test');
+		await requestPasswordReset(world.database, ' EIRIK@fjordlight.test');
 		const answered = Date.now();
 		const token = await linkToken(world, 'eirik@fjordlight.test', '/reset/');
 		const row = await world.database.models.EmailToken.findOne({
@@ -148,12 +148,13 @@ describe('accounts', () => {
 		expect(expires).toBeGreaterThanOrEqual(asked + 3600e3);
 		expect(expires).toBeLessThanOrEqual(answered + 3600e3);
 
-		const tooShort = resetPassword(world.database, world.lucia, world.mailer, token, 'short');
+		const tooShort = resetPassword(world.database, world.lucia, token, 'short');
 		await expect(tooShort).rejects.toMatchObject({ field: 'password' });
 		const newPassword = 'harbour-willow-signal';
-		expect(
-			await resetPassword(world.database, world.lucia, world.mailer, token, newPassword)
-		).toEqual({ ok: true, userId });
+		expect(await resetPassword(world.database, world.lucia, token, newPassword)).toEqual({
+			ok: true,
+			userId
+		});
 		expect((await world.lucia.validateSession(laptop.id)).session).toBeNull();
 		expect((await world.lucia.validateSession(phone.id)).session).toBeNull();
 		// The mail says every session ended: a script's token is one of them.
@@ -161,7 +162,7 @@ describe('accounts', () => {
 		expect(await signIn(world.database, 'eirik@fjordlight.test', PASSWORD)).toBeNull();
 		expect(await signIn(world.database, 'eirik@fjordlight.test', newPassword)).toEqual({ userId });
 		expect(
-			await resetPassword(world.database, world.lucia, world.mailer, token, 'another-long-password')
+			await resetPassword(world.database, world.lucia, token, 'another-long-password')
 		).toEqual({ ok: false, reason: 'used' });
 		const changed = (await mailTo(world, 'eirik@fjordlight.test')).at(-1)!;
 		expect(changed.subject).toBe('Your Rankseal password was changed');
@@ -176,24 +177,24 @@ describe('accounts', () => {
 	});
 
 	it('rejects an expired reset link, and writes an unknown address that it has no account', async () => {
-		await signUp(world.database, world.mailer, {
+		await signUp(world.database, {
 			email: 'sol@fjordlight.test',
 			name: 'Sol Haug',
 			password: PASSWORD
 		});
-		await requestPasswordReset(world.database, world.mailer, 'sol@fjordlight.test');
+		await requestPasswordReset(world.database, 'sol@fjordlight.test');
 		const token = await linkToken(world, 'sol@fjordlight.test', '/reset/');
 		await world.database.models.EmailToken.update(
 			{ expiresAt: new Date(Date.now() - 1) },
 			{ where: { tokenHash: hashSecret(token) } }
 		);
 		expect(
-			await resetPassword(world.database, world.lucia, world.mailer, token, 'harbour-willow-signal')
+			await resetPassword(world.database, world.lucia, token, 'harbour-willow-signal')
 		).toEqual({ ok: false, reason: 'expired' });
 
 		const tokens = await world.database.models.EmailToken.count();
 		await expect(
-			requestPasswordReset(world.database, world.mailer, 'ghost@fjordlight.test')
+			requestPasswordReset(world.database, 'ghost@fjordlight.test')
 		).resolves.toBeUndefined();
 		const [letter] = await mailTo(world, 'ghost@fjordlight.test');
 		expect(letter.subject).toBe('A Rankseal password was requested for this address');
@@ -202,7 +203,7 @@ describe('accounts', () => {
 	});
 
 	it('signs out everywhere, API tokens included', async () => {
-		const { userId } = await signUp(world.database, world.mailer, {
+		const { userId } = await signUp(world.database, {
 			email: 'kai@fjordlight.test',
 			name: 'Kai Rud',
 			password: PASSWORD

@@ -49,7 +49,7 @@ afterAll(async () => {
 
 describe('demo scenario', () => {
 	it('seeds people with the documented passwords, the claims with counts and checks, and a token', async () => {
-		expect(await seedDemo(ctx.database, ctx.mailer)).toBe('seeded');
+		expect(await seedDemo(ctx.database)).toBe('seeded');
 		for (const person of DEMO_PEOPLE)
 			expect(await signIn(ctx.database, person.email, person.password)).not.toBeNull();
 		const author = (await signIn(ctx.database, DEMO_PEOPLE[1].email, DEMO_PEOPLE[1].password))!
@@ -113,11 +113,11 @@ describe('demo scenario', () => {
 	it('changes nothing when run again, and writes a fresh token when the file is gone', async () => {
 		const count = await ctx.database.models.Claim.count();
 		const certificates = await ctx.database.models.Certificate.count();
-		expect(await seedDemo(ctx.database, ctx.mailer)).toBe('present');
+		expect(await seedDemo(ctx.database)).toBe('present');
 		expect(await ctx.database.models.Claim.count()).toBe(count);
 		expect(await ctx.database.models.Certificate.count()).toBe(certificates);
 		rmSync(demoTokenFile());
-		expect(await seedDemo(ctx.database, ctx.mailer)).toBe('present');
+		expect(await seedDemo(ctx.database)).toBe('present');
 		expect(existsSync(demoTokenFile())).toBe(true);
 		expect(
 			await authenticate(ctx.database, readFileSync(demoTokenFile(), 'utf8').trim())

@@ -52,7 +52,7 @@ beforeAll(async () => {
 		...{ resamples: 1000, confidence: 0.95, seed: 1, error: 'fixture' }
 	});
 	const invite = { email: 'new@lake.test', role: 'author' as const };
-	({ invitationId } = await inviteMember(database, world.mailer, lead, groupId, invite));
+	({ invitationId } = await inviteMember(database, lead, groupId, invite));
 	tokenId = (await createToken(database, lead, { name: 'lab' })).id;
 	const ridgeClaim = await createClaim(database, asUser(cyd), claimFields);
 	const token: TokenActor = {
@@ -85,7 +85,7 @@ const calls: Record<string, (actor: Actor) => Promise<unknown>> = {
 	changeMemberRole: (a) => changeMemberRole(world.database, a, groupId, authorId, 'lead'),
 	removeMember: (a) => removeMember(world.database, a, groupId, authorId),
 	inviteMember: (a) =>
-		inviteMember(world.database, world.mailer, a, groupId, { email: 'x@y.test', role: 'lead' }),
+		inviteMember(world.database, a, groupId, { email: 'x@y.test', role: 'lead' }),
 	listInvitations: (a) => listInvitations(world.database, a, groupId),
 	revokeInvitation: (a) => revokeInvitation(world.database, a, groupId, invitationId)
 };

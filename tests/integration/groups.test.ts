@@ -35,7 +35,7 @@ describe('groups, invitations and roles', () => {
 
 	/** Signs up and confirms through the mailed link, as a person would. */
 	async function verifiedUser(email: string, name: string): Promise<string> {
-		const { userId } = await signUp(world.database, world.mailer, {
+		const { userId } = await signUp(world.database, {
 			email,
 			name,
 			password: PASSWORD
@@ -45,7 +45,7 @@ describe('groups, invitations and roles', () => {
 	}
 
 	async function invite(email: string, role: 'lead' | 'author') {
-		await inviteMember(world.database, world.mailer, asUser(leadId), groupId, { email, role });
+		await inviteMember(world.database, asUser(leadId), groupId, { email, role });
 		return linkToken(world, email.toLowerCase(), '/invite/');
 	}
 
@@ -56,7 +56,7 @@ describe('groups, invitations and roles', () => {
 		expect(await groupsOf(world.database, asUser(leadId))).toEqual([
 			{ id: groupId, name: 'Fjordlight Qudit Lab', role: 'lead' }
 		]);
-		const { userId } = await signUp(world.database, world.mailer, {
+		const { userId } = await signUp(world.database, {
 			email: 'new@fjordlight.test',
 			name: 'New',
 			password: PASSWORD
@@ -94,7 +94,7 @@ describe('groups, invitations and roles', () => {
 		).toEqual(['bo.strand@fjordlight.test']);
 
 		// The invitee opens an account with the invited address but has not confirmed it yet.
-		const { userId: boId } = await signUp(world.database, world.mailer, {
+		const { userId: boId } = await signUp(world.database, {
 			email: 'bo.strand@fjordlight.test',
 			name: 'Bo Strand',
 			password: PASSWORD
@@ -159,7 +159,7 @@ describe('groups, invitations and roles', () => {
 		const boId = (await world.database.models.User.findOne({
 			where: { email: 'bo.strand@fjordlight.test' }
 		}))!.get('id') as string;
-		const invitation = inviteMember(world.database, world.mailer, asUser(boId), groupId, {
+		const invitation = inviteMember(world.database, asUser(boId), groupId, {
 			email: 'x@fjordlight.test',
 			role: 'author'
 		});
@@ -184,7 +184,7 @@ describe('groups, invitations and roles', () => {
 		await expect(getGroup(world.database, asUser(outsiderId), groupId)).rejects.toBeInstanceOf(
 			NotFoundError
 		);
-		const invitation = inviteMember(world.database, world.mailer, asUser(outsiderId), groupId, {
+		const invitation = inviteMember(world.database, asUser(outsiderId), groupId, {
 			email: 'y@fjordlight.test',
 			role: 'lead'
 		});

@@ -29,7 +29,7 @@ beforeAll(async () => {
 afterAll(async () => world?.close());
 
 async function invite(email: string): Promise<string> {
-	await inviteMember(world.database, world.mailer, asUser(leadId), groupId, {
+	await inviteMember(world.database, asUser(leadId), groupId, {
 		email,
 		role: 'author'
 	});
@@ -47,7 +47,6 @@ describe('signing up through an invitation', () => {
 		expect(invitationTokenIn(next)).toBe(token);
 		const { userId } = await signUp(
 			world.database,
-			world.mailer,
 			{ email, name: 'Tor Vik', password: PASSWORD },
 			{ invitationToken: invitationTokenIn(next) }
 		);
@@ -69,7 +68,6 @@ describe('signing up through an invitation', () => {
 		]) {
 			const { userId } = await signUp(
 				world.database,
-				world.mailer,
 				{ email, name: 'Someone', password: PASSWORD },
 				{ invitationToken: proof }
 			);
@@ -95,7 +93,6 @@ describe('an invitation opened by someone else', () => {
 		expect(await Invitation.count({ where: { email, acceptedAt: null } })).toBe(1);
 		const { userId } = await signUp(
 			world.database,
-			world.mailer,
 			{ email, name: 'Xenia Quell', password: PASSWORD },
 			{ invitationToken: token }
 		);

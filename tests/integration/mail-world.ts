@@ -12,6 +12,8 @@ import { temporaryDatabase } from './db';
 export const TEST_ORIGIN = 'http://rankseal.test';
 
 export async function mailWorld() {
+	// Links in mail take the app's one origin (config's ORIGIN), as in the running app.
+	process.env.ORIGIN = TEST_ORIGIN;
 	const temporary = await temporaryDatabase();
 	const catcher = await startMailCatcher(temporary.database, 0);
 	const mailer = createMailer({

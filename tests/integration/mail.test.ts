@@ -87,7 +87,7 @@ describe('mail: nodemailer to the local SMTP catcher', () => {
 			passwordHash: 'x',
 			accountRole: 'researcher'
 		});
-		await requestPasswordReset(world.database, world.mailer, 'r@lab.test');
+		await requestPasswordReset(world.database, 'r@lab.test');
 		const queued = await listOutbox(world.database, asUser(admin));
 		expect(queued.items[0]).toMatchObject({ to: 'r@lab.test', status: 'queued', attempts: 0 });
 		await mailTo(world, 'r@lab.test');

@@ -128,18 +128,18 @@ async function review(editor: ReturnType<typeof asUser>, claimId: string, t: Tex
 	const made = 'value' in link ? link.value : await createReviewLink(db, editor, claimId, {});
 	const referee = { kind: 'referee' as const, claimId, linkId: made.id };
 	const input = { recommendation: 'sound', comments: t.comments, submit: true };
-	const report = await step(() => saveReport(db, mailer, referee, input));
-	if ('value' in report) await releaseReport(db, mailer, editor, report.value.id);
+	const report = await step(() => saveReport(db, referee, input));
+	if ('value' in report) await releaseReport(db, editor, report.value.id);
 }
 
 async function flow(t: Texts): Promise<void> {
 	const { database: db, mailer } = world;
 	run++;
 	const password = 'odd text passphrase';
-	await step(() => signUp(db, mailer, { email: `p${run}@odd.test`, name: t.name, password }));
+	await step(() => signUp(db, { email: `p${run}@odd.test`, name: t.name, password }));
 	const group = await step(() => createGroup(db, lead, t.group));
 	const groupId = valueOr(group, null)?.id ?? (await createGroup(db, lead, `Group ${run}`)).id;
-	await inviteMember(db, mailer, lead, groupId, { email: `i${run}@odd.test`, role: 'author' });
+	await inviteMember(db, lead, groupId, { email: `i${run}@odd.test`, role: 'author' });
 	const fields = { groupId, dimension: 5, method: 'mub-correlation' as const, bases: [0, 1, 2] };
 	const claimInput = { ...fields, claimedSchmidtNumber: 3, title: t.title };
 	const made = await step(() =>
@@ -164,7 +164,7 @@ async function flow(t: Texts): Promise<void> {
 	const editorEmail = `editor${run}@odd.test`;
 	const editor = await editorNamed(editorEmail);
 	const share = { email: editorEmail, journal: t.journal, manuscript: t.shareManuscript };
-	const shared = await step(() => shareClaim(db, mailer, lead, claim.id, share));
+	const shared = await step(() => shareClaim(db, lead, claim.id, share));
 	if ('value' in shared) await review(editor, claim.id, t);
 	await step(() => createToken(db, lead, { name: t.token }));
 	await step(() => withdrawClaim(db, lead, claim.id, t.reason));

@@ -22,7 +22,11 @@ const ORIGIN = 'http://rankseal.test';
 const FROM = 'Rankseal test <no-reply@rankseal.invalid>';
 let ctx: Awaited<ReturnType<typeof temporaryDatabase>>;
 
-beforeAll(async () => (ctx = await temporaryDatabase()));
+beforeAll(async () => {
+	// Links in mail take the app's one origin (config's ORIGIN).
+	process.env.ORIGIN = ORIGIN;
+	ctx = await temporaryDatabase();
+});
 afterAll(async () => ctx?.close());
 
 const mailerOn = (port: number): Mailer =>
@@ -46,11 +50,11 @@ describe('the outbox while the mail server is down, then back', () => {
 		const port = first.port;
 		await first.close();
 		const down = mailerOn(port);
-		await signUp(ctx.database, down, person(1));
-		await signUp(ctx.database, down, person(2));
-		const { userId: third } = await signUp(ctx.database, down, person(3));
-		await requestPasswordReset(ctx.database, down, person(1).email);
-		await resendVerification(ctx.database, down, asUser(third));
+		await signUp(ctx.database, person(1));
+		await signUp(ctx.database, person(2));
+		const { userId: third } = await signUp(ctx.database, person(3));
+		await requestPasswordReset(ctx.database, person(1).email);
+		await resendVerification(ctx.database, asUser(third));
 		expect((await outbox()).map((m) => m.status)).toEqual(Array(5).fill('queued'));
 
 		const t0 = new Date('2030-01-01T00:00:00Z');
@@ -144,11 +148,11 @@ describe('a mail server that accepts and stalls', () => {
 
 	it('does not hold a sign-up: the request returns while the server still holds the mail', async () => {
 		const mailer = createMailer({ transport: catcherTransport(port), from: FROM, origin: ORIGIN });
-		await signUp(ctx.database, mailer, person(10));
+		await signUp(ctx.database, person(10));
 		const pass = deliverDue(ctx.database, mailer);
 		await holding;
 		// The sender is inside the SMTP conversation and the server has not answered.
-		const result = await signUp(ctx.database, mailer, person(11));
+		const result = await signUp(ctx.database, person(11));
 		expect(result.userId).toBeTruthy();
 		expect(accepted).toBe(0);
 		const rows = (await outbox()).filter((m) => m.to.startsWith('down.1'));
@@ -170,7 +174,7 @@ describe('bodies', () => {
 
 	it('escapes a chosen name in the HTML body and keeps it from becoming a link in either body', async () => {
 		const mailer = mailerOn(9);
-		await signUp(ctx.database, mailer, { ...person(20), name: hostile });
+		await signUp(ctx.database, { ...person(20), name: hostile });
 		const [row] = (await outbox()).filter((m) => m.to === person(20).email);
 		// HTML escaping of &, <, >, " (OWASP XSS prevention rule 1: common practice).
 		expect(row.html).not.toContain('<img');
@@ -183,7 +187,7 @@ describe('bodies', () => {
 
 	it('carries no secret but the one link: the token appears once in each body', async () => {
 		const mailer = mailerOn(9);
-		await signUp(ctx.database, mailer, person(21));
+		await signUp(ctx.database, person(21));
 		const [row] = (await outbox()).filter((m) => m.to === person(21).email);
 		const token = /\/verify\/([A-Za-z0-9_-]+)/.exec(row.text)![1];
 		expect(row.text.split(token)).toHaveLength(2);

@@ -28,8 +28,8 @@ let reRunId: string;
 
 beforeAll(async () => {
 	w = await reviewWorld();
-	const { database, mailer } = w.mail;
-	await shareClaim(database, mailer, asUser(w.author), w.claimId, {
+	const { database } = w.mail;
+	await shareClaim(database, asUser(w.author), w.claimId, {
 		email: w.editorEmail,
 		journal: 'Journal of Invented Optics',
 		manuscript: 'JIO-2026-015'

@@ -46,7 +46,7 @@ beforeAll(async () => {
 	w = await reviewWorld();
 	author = asUser(w.author);
 	editor = asUser(w.editor, 'editor');
-	await shareClaim(w.mail.database, w.mail.mailer, author, w.claimId, {
+	await shareClaim(w.mail.database, author, w.claimId, {
 		email: w.editorEmail,
 		journal: 'Journal of Invented Optics',
 		manuscript: 'JIO-2026-001'
@@ -100,16 +100,14 @@ describe('sharing with an editor', () => {
 	});
 
 	it('refuses a claim without a certificate, and callers outside the group', async () => {
-		const { database, mailer } = w.mail;
+		const { database } = w.mail;
 		const input = { email: 'x@example.test', journal: 'J', manuscript: 'M' };
-		await expect(
-			shareClaim(database, mailer, asUser(w.outsider), w.claimId, input)
-		).rejects.toThrow(NotFoundError);
-		await expect(shareClaim(database, mailer, editor, w.claimId, input)).rejects.toThrow(
-			ForbiddenError
+		await expect(shareClaim(database, asUser(w.outsider), w.claimId, input)).rejects.toThrow(
+			NotFoundError
 		);
+		await expect(shareClaim(database, editor, w.claimId, input)).rejects.toThrow(ForbiddenError);
 		await expect(
-			shareClaim(database, mailer, author, w.claimId, { ...input, email: 'nope' })
+			shareClaim(database, author, w.claimId, { ...input, email: 'nope' })
 		).rejects.toThrow(ZodError);
 		const group = (await database.models.Claim.findByPk(w.claimId))!.get('groupId') as string;
 		const draft = await database.models.Claim.create({
@@ -117,14 +115,14 @@ describe('sharing with an editor', () => {
 			...{ sourceDescription: 's', dimension: 5, method: 'mub-correlation', bases: [0, 1] },
 			claimedSchmidtNumber: 3
 		});
-		await expect(
-			shareClaim(database, mailer, author, draft.get('id') as string, input)
-		).rejects.toThrow(ConflictError);
+		await expect(shareClaim(database, author, draft.get('id') as string, input)).rejects.toThrow(
+			ConflictError
+		);
 	});
 
 	it('keeps user words from becoming links in the notice (journal named like an address)', async () => {
-		const { database, mailer } = w.mail;
-		await shareClaim(database, mailer, author, w.claimId, {
+		const { database } = w.mail;
+		await shareClaim(database, author, w.claimId, {
 			email: 'words@example.test',
 			journal: 'evil.example/<b>x</b>',
 			manuscript: 'http://evil.example'
@@ -217,7 +215,7 @@ describe('a referee with a valid link', () => {
 	});
 
 	it('reaches no other claim, and writes nothing beyond its own check and report', async () => {
-		const { database, mailer } = w.mail;
+		const { database } = w.mail;
 		const count = async () => {
 			const { Claim, Dataset, Certificate, Share, ReviewLink, Membership, ApiToken } =
 				database.models;
@@ -244,7 +242,7 @@ describe('a referee with a valid link', () => {
 		const upload = { bytes: bytesOf(countsCsv(5, [0, 1], 1000, 3)), originalName: 'x.csv' };
 		await expect(addDataset(database, referee, w.claimId, upload)).rejects.toThrow(ForbiddenError);
 		const input = { email: 'x@example.test', journal: 'J', manuscript: 'M' };
-		await expect(shareClaim(database, mailer, referee, w.claimId, input)).rejects.toThrow();
+		await expect(shareClaim(database, referee, w.claimId, input)).rejects.toThrow();
 		await expect(createReviewLink(database, referee, w.claimId)).rejects.toThrow();
 		await expect(revokeReviewLink(database, referee, link.id)).rejects.toThrow();
 		await expect(editorHome(database, referee)).rejects.toThrow();
@@ -282,34 +280,34 @@ describe('a referee with a valid link', () => {
 	});
 
 	it('files one report, editable until submitted; the editor is told and releases it', async () => {
-		const { database, mailer } = w.mail;
+		const { database } = w.mail;
 		await expect(
-			saveReport(database, mailer, referee, { recommendation: 'great', comments: '' })
+			saveReport(database, referee, { recommendation: 'great', comments: '' })
 		).rejects.toThrow(ZodError);
-		const draft = await saveReport(database, mailer, referee, {
+		const draft = await saveReport(database, referee, {
 			recommendation: 'sound',
 			comments: 'first',
 			submit: false
 		});
 		expect(draft.state).toBe('draft');
 		expect(await releasedReports(database, author, w.claimId)).toEqual([]);
-		await expect(releaseReport(database, mailer, editor, draft.id)).rejects.toThrow(ConflictError);
-		const filed = await saveReport(database, mailer, referee, {
+		await expect(releaseReport(database, editor, draft.id)).rejects.toThrow(ConflictError);
+		const filed = await saveReport(database, referee, {
 			recommendation: 'needs-revision',
 			comments: 'second'
 		});
 		expect(filed).toMatchObject({ id: draft.id, state: 'submitted', comments: 'second' });
 		await expect(
-			saveReport(database, mailer, referee, { recommendation: 'sound', comments: 'third' })
+			saveReport(database, referee, { recommendation: 'sound', comments: 'third' })
 		).rejects.toThrow(ConflictError);
 		const toEditor = await mailTo(w.mail, w.editorEmail);
 		expect(toEditor.at(-1)!.subject).toMatch(/filed a report/);
 		expect(await releasedReports(database, author, w.claimId)).toEqual([]);
 		await expect(
-			releaseReport(database, mailer, asUser(w.otherEditor, 'editor'), draft.id)
+			releaseReport(database, asUser(w.otherEditor, 'editor'), draft.id)
 		).rejects.toThrow(NotFoundError);
-		await expect(releaseReport(database, mailer, author, draft.id)).rejects.toThrow();
-		await releaseReport(database, mailer, editor, draft.id);
+		await expect(releaseReport(database, author, draft.id)).rejects.toThrow();
+		await releaseReport(database, editor, draft.id);
 		const released = await releasedReports(database, author, w.claimId);
 		expect(released.map((r) => r.comments)).toEqual(['second']);
 		expect(JSON.stringify(released)).not.toContain('Dr Hidden');

@@ -21,8 +21,8 @@ const use = { method: 'GET', path: '/api/v1/review/test' };
 
 beforeAll(async () => {
 	w = await reviewWorld();
-	const { database, mailer } = w.mail;
-	await shareClaim(database, mailer, asUser(w.author), w.claimId, {
+	const { database } = w.mail;
+	await shareClaim(database, asUser(w.author), w.claimId, {
 		email: w.editorEmail,
 		journal: 'Journal of Invented Optics',
 		manuscript: 'JIO-2026-010'

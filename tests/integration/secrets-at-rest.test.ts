@@ -47,12 +47,12 @@ describe('sessions', () => {
 describe('the outbox once a letter is delivered', () => {
 	it('keeps no working reset, confirmation or invitation link, and the admin still reads it', async () => {
 		const email = 'rosa.reset@lake.test';
-		await signUp(world.database, world.mailer, {
+		await signUp(world.database, {
 			email,
 			name: 'Rosa',
 			password: 'long pass phrase 1'
 		});
-		await requestPasswordReset(world.database, world.mailer, email);
+		await requestPasswordReset(world.database, email);
 		const lead = await addUser(world.database, 'Lena Lead');
 		const groupId = await addGroup(world.database, 'Halvorsen Lake Photonics');
 		await world.database.models.Membership.create({
@@ -61,7 +61,7 @@ describe('the outbox once a letter is delivered', () => {
 			userId: lead,
 			role: 'lead'
 		});
-		await inviteMember(world.database, world.mailer, asUser(lead), groupId, {
+		await inviteMember(world.database, asUser(lead), groupId, {
 			email: 'ivo.invited@lake.test',
 			role: 'author'
 		});
@@ -89,7 +89,7 @@ describe('the outbox once a letter is delivered', () => {
 			from: 'x <x@x.invalid>',
 			origin: TEST_ORIGIN
 		});
-		await requestPasswordReset(world.database, down, 'rosa.reset@lake.test');
+		await requestPasswordReset(world.database, 'rosa.reset@lake.test');
 		const row = await world.database.models.OutboxMail.findOne({
 			where: { kind: 'reset-password', status: 'queued' }
 		});

@@ -21,7 +21,7 @@ describe('opened', () => {
 	it('is false for an editor with an account until they open the link, then true', async () => {
 		const author = asUser(w.author);
 		const editor = asUser(w.editor, 'editor');
-		await shareClaim(w.mail.database, w.mail.mailer, author, w.claimId, {
+		await shareClaim(w.mail.database, author, w.claimId, {
 			email: w.editorEmail,
 			journal: 'Journal of Invented Optics',
 			manuscript: 'JIO-2026-002'

@@ -23,7 +23,7 @@ const HOME = { address: '192.0.2.50' };
 let world: MailWorld;
 beforeAll(async () => {
 	world = await mailWorld();
-	await signUp(world.database, world.mailer, {
+	await signUp(world.database, {
 		email: OWNER,
 		name: 'Owner Lund',
 		password: PASSWORD
@@ -107,16 +107,10 @@ describe('the pause per account and address', () => {
 		await rotatingGuesses(3, 100);
 		expect(await attempt(PASSWORD, HOME)).toMatchObject({ answer: 429 });
 		expect(await attempt(PASSWORD, { address: '198.51.100.1' })).toMatchObject({ answer: 429 });
-		await requestPasswordReset(world.database, world.mailer, OWNER);
+		await requestPasswordReset(world.database, OWNER);
 		const token = await linkToken(world, OWNER, '/reset/');
 		const newPassword = 'kestrel-granite-willow';
-		const reset = await resetPassword(
-			world.database,
-			world.lucia,
-			world.mailer,
-			token,
-			newPassword
-		);
+		const reset = await resetPassword(world.database, world.lucia, token, newPassword);
 		expect(reset.ok).toBe(true);
 		expect(await attempt(newPassword, HOME)).toEqual({ answer: 'in', pause: null });
 		expect(await attempt(newPassword, { address: '198.51.100.1' })).toEqual({

@@ -245,8 +245,8 @@ describe('a referee re-runs a trials claim from a review link', () => {
 	let referee: RefereeActor;
 
 	beforeAll(async () => {
-		const { database, mailer } = world;
-		await shareClaim(database, mailer, asUser(author), claimId, {
+		const { database } = world;
+		await shareClaim(database, asUser(author), claimId, {
 			email: editorEmail,
 			journal: 'Journal of Invented Optics',
 			manuscript: 'JIO-2026-020'

@@ -1,9 +1,8 @@
 /** The group archive's filters, as they appear in the address, the API query and the export. */
 import { z } from 'zod';
-import { CLAIM_METHODS, CLAIM_STATES } from '$lib/claims/schema';
-
-const blankToUndefined = (value: unknown) =>
-	typeof value === 'string' && value.trim() === '' ? undefined : value;
+import { blankToUndefined } from '$lib/schema-numbers';
+import { MAX_DIMENSION, MIN_DIMENSION } from '$lib/claims/claim-limits';
+import { claimFilterFields } from '$lib/claims/filter';
 
 const day = (label: string) =>
 	z.preprocess(
@@ -18,24 +17,14 @@ const day = (label: string) =>
 export const archiveFilterSchema = z
 	.object({
 		group: z.preprocess(blankToUndefined, z.string().max(100).optional()),
-		q: z.preprocess(blankToUndefined, z.string().trim().max(200).optional()),
-		state: z.preprocess(
-			blankToUndefined,
-			z.enum(CLAIM_STATES, { error: `State must be one of ${CLAIM_STATES.join(', ')}.` }).optional()
-		),
-		method: z.preprocess(
-			blankToUndefined,
-			z
-				.enum(CLAIM_METHODS, { error: `Method must be one of ${CLAIM_METHODS.join(', ')}.` })
-				.optional()
-		),
+		...claimFilterFields,
 		dimension: z.preprocess(
 			blankToUndefined,
 			z.coerce
 				.number({ error: 'Dimension must be a number.' })
 				.int('Dimension must be a whole number.')
-				.min(2, 'Dimension must be at least 2.')
-				.max(1024, 'Dimension must be at most 1024.')
+				.min(MIN_DIMENSION, `Dimension must be at least ${MIN_DIMENSION}.`)
+				.max(MAX_DIMENSION, `Dimension must be at most ${MAX_DIMENSION}.`)
 				.optional()
 		),
 		from: day('From'),

@@ -18,11 +18,22 @@ import {
 	type FourierConvention,
 	type MethodId
 } from '$lib/certify';
-import { basisProblem, MAX_DIMENSION } from '$lib/certify/bases';
+import { basisProblem } from '$lib/certify/bases';
 import { MAX_SEED } from '$lib/certify/poisson';
-import { pageField, pageSizeField } from '$lib/paging';
-import { booleanFrom, numberFrom, wholeNumber, type ValueSource } from '$lib/schema-numbers';
-import { CLAIM_STATES } from './states';
+import {
+	blankToUndefined,
+	booleanFrom,
+	numberFrom,
+	wholeNumber,
+	type ValueSource
+} from '$lib/schema-numbers';
+import {
+	MANUSCRIPT_REFERENCE_MAX_LENGTH,
+	MAX_DIMENSION,
+	MIN_DIMENSION,
+	SOURCE_DESCRIPTION_MAX_LENGTH,
+	TITLE_MAX_LENGTH
+} from './claim-limits';
 import {
 	normalisedTarget,
 	TARGET_METHOD,
@@ -44,9 +55,6 @@ export const CLAIM_SORTS = [
 	'state',
 	'updatedAt'
 ] as const;
-
-const blankToUndefined = (value: unknown) =>
-	typeof value === 'string' && value.trim() === '' ? undefined : value;
 
 /** A whole number a claim needs: blank or missing reads as "not given", not as 0 (too small). */
 const requiredWholeNumber = (
@@ -157,20 +165,26 @@ const titleField = z
 	.string({ error: 'Give the claim a title.' })
 	.trim()
 	.min(1, 'Give the claim a title.')
-	.max(200, 'Keep the title under 200 characters.')
+	.max(TITLE_MAX_LENGTH, `Keep the title under ${TITLE_MAX_LENGTH} characters.`)
 	.superRefine(textRule('The title', 'line'));
 
 const sourceDescriptionField = z
 	.string({ error: 'Describe the source.' })
 	.trim()
 	.min(1, 'Describe the source.')
-	.max(5000, 'Keep the source description under 5000 characters.')
+	.max(
+		SOURCE_DESCRIPTION_MAX_LENGTH,
+		`Keep the source description under ${SOURCE_DESCRIPTION_MAX_LENGTH} characters.`
+	)
 	.superRefine(textRule('The source description', 'lines'));
 
 const manuscriptReferenceField = z
 	.string()
 	.trim()
-	.max(300, 'Keep the manuscript reference under 300 characters.')
+	.max(
+		MANUSCRIPT_REFERENCE_MAX_LENGTH,
+		`Keep the manuscript reference under ${MANUSCRIPT_REFERENCE_MAX_LENGTH} characters.`
+	)
 	.superRefine(textRule('The manuscript reference', 'line'))
 	.nullish()
 	.transform((value) => value || null);
@@ -197,7 +211,7 @@ const claimFields = (source: ValueSource) => ({
 	dimension: requiredWholeNumber(
 		'The dimension',
 		'Give the local dimension d.',
-		2,
+		MIN_DIMENSION,
 		MAX_DIMENSION,
 		source
 	),
@@ -300,31 +314,7 @@ export type ClaimInput = z.output<typeof claimInputSchema>;
 /** What a form or an API body may send before validation. */
 export type ClaimInputValues = z.input<typeof claimInputSchema>;
 
-export const claimQuerySchema = z.object({
-	q: z.preprocess(blankToUndefined, z.string().trim().max(200).optional()),
-	state: z.preprocess(
-		blankToUndefined,
-		z.enum(CLAIM_STATES, { error: `State must be one of ${CLAIM_STATES.join(', ')}.` }).optional()
-	),
-	method: z.preprocess(
-		blankToUndefined,
-		z
-			.enum(CLAIM_METHODS, { error: `Method must be one of ${CLAIM_METHODS.join(', ')}.` })
-			.optional()
-	),
-	sort: z.preprocess(
-		blankToUndefined,
-		z.enum(CLAIM_SORTS, { error: `Sort must be one of ${CLAIM_SORTS.join(', ')}.` }).optional()
-	),
-	order: z.preprocess(
-		blankToUndefined,
-		z.enum(['asc', 'desc'], { error: 'Order must be asc or desc.' }).optional()
-	),
-	page: pageField(),
-	pageSize: pageSizeField(100)
-});
-
-export type ClaimQuery = z.output<typeof claimQuerySchema>;
+export type { ClaimQuery } from './filter';
 
 const confidenceRange = `Confidence must lie strictly between ${CONFIDENCE.above} and ${CONFIDENCE.below}.`;
 

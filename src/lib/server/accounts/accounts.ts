@@ -9,6 +9,7 @@ import { hashPassword, verifyPassword, type AppLucia } from './auth';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
 import { mailLink, type Mailer } from '../mail/mail';
+import { takeOrRefuse } from '../core/rate-limits';
 import { queueVerification } from './account-requests';
 import { checkPassword, normaliseEmail } from './account-rules';
 import { audit } from '../core/audit';
@@ -24,18 +25,17 @@ export { requestPasswordReset, signUp, type SignUpOutcome } from './account-requ
 export type LinkResult =
 	{ ok: true; userId: string } | { ok: false; reason: Exclude<TokenState, 'valid'> };
 
-/** Sends a fresh confirmation link (the old one stops working); false when already confirmed. */
-export async function resendVerification(
-	database: Database,
-	mailer: Mailer,
-	actor: Actor
-): Promise<boolean> {
+const RESEND_WORDS = 'You have asked for several links in a short time.';
+
+/** Sends a fresh confirmation link (the old one stops working); false when already confirmed. Rate-limited per account. */
+export async function resendVerification(database: Database, actor: Actor): Promise<boolean> {
 	const { userId } = await requireService(database, actor, 'own-account');
+	await takeOrRefuse('resendVerification', userId, RESEND_WORDS);
 	const user = await database.models.User.findByPk(userId);
 	if (!user || user.get('emailVerifiedAt')) return false;
 	const { email, name } = user.get({ plain: true });
 	await writeTransaction(database, (transaction) =>
-		queueVerification(database, mailer, { id: userId, email, name }, transaction)
+		queueVerification(database, { id: userId, email, name }, transaction)
 	);
 	return true;
 }
@@ -88,7 +88,6 @@ export const resetLinkState = (database: Database, token: string) =>
 export async function resetPassword(
 	database: Database,
 	lucia: AppLucia,
-	mailer: Mailer,
 	token: string,
 	newPassword: string
 ): Promise<LinkResult> {
@@ -109,7 +108,7 @@ export async function resetPassword(
 		};
 		await audit(database, entry, transaction);
 		const user = (await User.findByPk(used.userId, { transaction }))!.get({ plain: true });
-		const values = { name: user.name, email: user.email, link: mailLink(mailer, '/reset') };
+		const values = { name: user.name, email: user.email, link: mailLink('/reset') };
 		await queueMail(database, transaction, user.email, 'password-changed', values);
 		return used;
 	});

@@ -9,6 +9,7 @@ import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
 import type { GroupRole } from '../db/models/Membership';
 import { mailLink, type Mailer } from '../mail/mail';
+import { takeOrRefuse } from '../core/rate-limits';
 import { normaliseEmail } from './accounts';
 import { audit } from '../core/audit';
 import { NotFoundError } from '../core/errors';
@@ -30,11 +31,13 @@ export interface InvitationView {
 
 export async function inviteMember(
 	database: Database,
-	mailer: Mailer,
 	actor: Actor,
 	groupId: string,
 	input: { email: string; role: GroupRole }
 ): Promise<{ invitationId: string }> {
+	// Counted per inviting account before anything else, as every path into here must be.
+	const what = 'You have sent many invitations in a short time.';
+	await takeOrRefuse('invitations', String(accountIdOf(actor)), what);
 	const email = normaliseEmail(input.email);
 	if (!GROUP_ROLES.includes(input.role)) throw new FieldError('role', 'Choose lead or author.');
 	const { Group, Invitation, Membership, User } = database.models;
@@ -75,7 +78,7 @@ export async function inviteMember(
 		);
 		const group = (await Group.findByPk(groupId, { transaction }))!.get('name') as string;
 		const inviter = (await User.findByPk(actorId, { transaction }))!.get('name') as string;
-		const link = mailLink(mailer, `/invite/${token}`);
+		const link = mailLink(`/invite/${token}`);
 		const values = { inviter, group, email, role: input.role, link };
 		await queueMail(database, transaction, email, 'invitation', values);
 		return id;

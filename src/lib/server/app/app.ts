@@ -19,6 +19,8 @@ import { stopOnSignals } from './signals';
 import { startDoiRunner, type DoiRunner } from '../certificates/doi-runner';
 import { queueMissingDois } from '../certificates/doi-backfill';
 import { startOrcid, type OrcidService } from '../accounts/orcid-settings';
+import { sweepOrphanFiles } from '../storage/certificate-store';
+import { sweepUploadFiles } from '../storage/counts-sweep';
 
 export interface AppServices {
 	database: Database;
@@ -65,7 +67,7 @@ export function app(): Promise<AppServices> {
 		const orcid = await startOrcid(config().origin);
 		// Checks left queued or running by an earlier process resume now.
 		await startCheckRunner(database);
-		if (config().demo) console.log(`Demo scenario: ${await seedDemo(database, mail.mailer)}`);
+		if (config().demo) console.log(`Demo scenario: ${await seedDemo(database)}`);
 		stopOnSignals(stopApp);
 		return { database, lucia, ...mail, doiRunner, orcid };
 	})();

@@ -5,11 +5,9 @@
  */
 import type { Transaction } from 'sequelize';
 import type { Database } from '../db';
+import type { CertificateAuthor } from '$lib/views/certificates';
 
-export interface CertificateAuthor {
-	name: string;
-	orcid: string | null;
-}
+export type { CertificateAuthor } from '$lib/views/certificates';
 
 /** The one author list: the PDF, the pages and the DOI's creators all read it. */
 export async function claimAuthors(

@@ -11,19 +11,18 @@ import type { CertificateAttributes } from '../db/models/Certificate';
 import { publishedKeys } from '../evidence/keys';
 import { engineTasks } from '../checks/registry';
 import { absolute } from '../storage/certificate-store';
-import {
-	certificateView,
-	publicCertificate,
-	type CertificateView,
-	type PublicCertificate
-} from './certificate-views';
-import { certificateAuthors, type CertificateAuthor } from '../certificates/certificate-authors';
+import { certificateView, publicCertificate, type CertificateView } from './certificate-views';
+import { certificateAuthors } from '../certificates/certificate-authors';
 import type { Actor } from '../core/actor';
 import { decideClaim, requireClaim, type ClaimAction } from '../access/permissions';
 import { NotFoundError } from '../core/errors';
+import { takeOrRefuse } from '../core/rate-limits';
+import type { CertificateAuthor, Lookup } from '$lib/views/certificates';
 import { withdrawalOf } from '../ledger/ledger';
 import { checkAgainst, type CheckpointCheck } from '../ledger/ledger-checkpoint';
 import { doiOf, doisOf } from '../certificates/doi-view';
+
+export type { Lookup } from '$lib/views/certificates';
 
 /** The row when the caller may do `action` to its claim; a hidden claim hides the certificate. */
 async function visibleCertificate(
@@ -100,16 +99,6 @@ export async function certificateFile(
 		: { bytes, filename: `rankseal-evidence-${id}.zip`, contentType: 'application/zip' };
 }
 
-/** A withdrawn certificate also says why and when, as its ledger entry records. */
-export type Lookup =
-	| { status: 'unknown' }
-	| (PublicCertificate & {
-			status: PublicCertificate['status'];
-			withdrawal: { reason: string; at: string } | null;
-			/** The authors with their ORCID iDs (sign in with ORCID). */
-			authors: CertificateAuthor[];
-	  });
-
 /** Public: a certificate by id or by fingerprint. */
 export async function lookupCertificate(
 	database: Database,
@@ -132,19 +121,37 @@ export async function lookupCertificate(
 	};
 }
 
+/** The public /seal pages ask no account, so their limits are per client address. */
+const SEAL_WORDS = {
+	sealBundle: 'Too many bundle checks from your network address.',
+	sealLookup: 'Too many certificate look-ups from your network address.'
+} as const;
+
+/** Public, from the /seal pages: a look-up counted per client address (RATE_LIMITS.sealLookup). */
+export async function lookupFrom(
+	database: Database,
+	idOrFingerprint: string,
+	from: string
+): Promise<Lookup> {
+	await takeOrRefuse('sealLookup', from, SEAL_WORDS.sealLookup);
+	return lookupCertificate(database, idOrFingerprint);
+}
+
 /**
  * Public: checks an uploaded bundle against the service's keys on the work pool (inflating and
  * re-running it would block every other request), then says what is on record. `from` is the
- * client address: bundles queue fairly by it.
+ * client address: bundles queue fairly by it, and each costs a worker thread, so it is counted
+ * (RATE_LIMITS.sealBundle); callers that name no address (tests, scripts) are not counted.
  */
 export async function checkBundle(
 	database: Database,
 	zip: Buffer,
-	from = 'unknown'
+	from?: string
 ): Promise<{ report: VerificationReport; record: Lookup; ledger: CheckpointCheck | null }> {
+	if (from !== undefined) await takeOrRefuse('sealBundle', from, SEAL_WORDS.sealBundle);
 	const trustedKeyIds = publishedKeys().map((k) => k.id);
 	const tasks = await engineTasks(database);
-	const report = await tasks.verifyBundle({ zip, trustedKeyIds }, `seal:${from}`);
+	const report = await tasks.verifyBundle({ zip, trustedKeyIds }, `seal:${from ?? 'unknown'}`);
 	const record = report.fingerprint
 		? await lookupCertificate(database, report.fingerprint)
 		: { status: 'unknown' as const };

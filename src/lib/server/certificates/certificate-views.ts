@@ -1,74 +1,24 @@
 /** What callers see of a certificate, and where its files and public page are. */
-import { isExploratory, type AnalysisEntry } from '../../evidence/analyses';
-import type { EvidenceClaim, EvidenceManifest } from '../../evidence/manifest';
-import {
-	certificateKind,
-	isTrialsManifest,
-	trialsVerdict,
-	TRIALS_KIND
-} from '../../evidence/trials-evidence';
-import type { CertificateAttributes, CertificateStatus } from '../db/models/Certificate';
-import type { CertificateDoi } from '../certificates/doi-view';
+import { isExploratory } from '../../evidence/analyses';
+import type { EvidenceManifest } from '../../evidence/manifest';
+import { certificateKind, isTrialsManifest, trialsVerdict } from '../../evidence/trials-evidence';
+import type { CertificateAttributes } from '../db/models/Certificate';
+import type {
+	CertificateAnalyses,
+	CertificateDoi,
+	CertificateKind,
+	CertificateUrls,
+	CertificateView,
+	PublicCertificate
+} from '$lib/views/certificates';
 
-export interface CertificateUrls {
-	pdf: string;
-	bundle: string;
-	/** The public verification page (the QR code's target). */
-	verify: string;
-}
-
-/** The analyses of the certificate's counts up to it; null for certificates made before issue 15. */
-export interface CertificateAnalyses {
-	total: number;
-	declared: boolean;
-	/** Not the declared analysis alone: stated at the corrected level. */
-	exploratory: boolean;
-	nominalConfidence: number;
-	statedConfidence: number;
-	list: AnalysisEntry[];
-}
-
-export interface CertificateView extends CertificateKind {
-	id: string;
-	claimId: string;
-	checkId: string;
-	fingerprint: string;
-	status: CertificateStatus;
-	supersedes: string | null;
-	supersededBy: string | null;
-	keyId: string;
-	issuedAt: string;
-	certifiedSchmidtNumber: number;
-	verdict: 'supported' | 'not supported' | null;
-	analyses: CertificateAnalyses | null;
-	urls: CertificateUrls;
-	/** Its DOI (issue 21); null for a certificate not yet given one. */
-	doi: CertificateDoi | null;
-}
-
-/** Counts (i.i.d.) or time-ordered trials (issue 20), with the latter's assumption in words. */
-export interface CertificateKind {
-	kind: 'counts' | typeof TRIALS_KIND;
-	assumption: string | null;
-}
-
-/** What the public verification page may show: only what the certificate itself shows. */
-export interface PublicCertificate extends CertificateKind {
-	id: string;
-	fingerprint: string;
-	status: CertificateStatus;
-	issuedAt: string;
-	supersedes: string | null;
-	supersededBy: string | null;
-	keyId: string;
-	claim: EvidenceClaim;
-	certifiedSchmidtNumber: number;
-	verdict: 'supported' | 'not supported' | null;
-	backgroundSubtracted: boolean;
-	engineVersion: string;
-	analyses: CertificateAnalyses | null;
-	doi: CertificateDoi | null;
-}
+export type {
+	CertificateAnalyses,
+	CertificateKind,
+	CertificateUrls,
+	CertificateView,
+	PublicCertificate
+} from '$lib/views/certificates';
 
 export const PUBLIC_VERIFY_PATH = '/seal';
 export const PUBLIC_KEYS_PATH = '/api/v1/signing-keys';

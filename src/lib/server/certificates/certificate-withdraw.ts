@@ -1,4 +1,5 @@
 /** Withdrawing a certificate: its status changes and the ledger records why; nothing else does. */
+import { WITHDRAW_REASON, WITHDRAW_REASON_WORDS } from '$lib/claims/withdrawal';
 import { checkedText } from '$lib/text-rules';
 import type { Transaction } from 'sequelize';
 import type { SigningKey } from '../../evidence/signing';
@@ -17,16 +18,13 @@ import { publishCheckpoint } from '../ledger/ledger-checkpoint';
 import { requeueDoi } from '../certificates/doi-outbox';
 import { doiOf } from '../certificates/doi-view';
 
-export const WITHDRAW_REASON = { min: 3, max: 500 };
+export { WITHDRAW_REASON } from '$lib/claims/withdrawal';
 
 /** The reason, trimmed; FieldError naming the field when it is too short or too long. */
 export function withdrawalReason(reason: string): string {
 	const { text: why, problem } = checkedText(reason, 'The reason', 'lines');
 	if (why.length < WITHDRAW_REASON.min || why.length > WITHDRAW_REASON.max)
-		throw new FieldError(
-			'reason',
-			`Say why in ${WITHDRAW_REASON.min} to ${WITHDRAW_REASON.max} characters.`
-		);
+		throw new FieldError('reason', WITHDRAW_REASON_WORDS);
 	if (problem) throw new FieldError('reason', problem);
 	return why;
 }

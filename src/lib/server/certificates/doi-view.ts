@@ -4,13 +4,9 @@ import type { Database } from '../db';
 import type { CertificateDoiAttributes } from '../db/models/CertificateDoi';
 import type { DoiRegistration } from '$lib/doi-registration';
 import { doiLink } from './doi-name';
+import type { CertificateDoi } from '$lib/views/certificates';
 
-export interface CertificateDoi {
-	doi: string;
-	/** https://doi.org/{doi} with a real registry; the local fake's resolver otherwise. */
-	url: string;
-	registration: DoiRegistration;
-}
+export type { CertificateDoi } from '$lib/views/certificates';
 
 export function doiView(row: CertificateDoiAttributes): CertificateDoi {
 	const registration: DoiRegistration =

@@ -20,18 +20,9 @@ import type { CheckAttributes } from '../db/models/Check';
 import type { ClaimAttributes } from '../db/models/Claim';
 import type { DatasetAttributes } from '../db/models/Dataset';
 import { datasetFilePath } from '../storage/counts-store';
+import type { AnalysisRun } from '$lib/views/datasets';
 
-/** One check on the counts, as the record keeps it. */
-export interface AnalysisRun {
-	checkId: string;
-	claimId: string;
-	settings: AnalysisSettings;
-	seed: number;
-	seedChoice: number | 'derived';
-	/** The account that started it (null: a removed account). */
-	ranBy: string | null;
-	ranAt: string;
-}
+export type { AnalysisRun } from '$lib/views/datasets';
 
 type ClaimSettings = Pick<ClaimAttributes, 'method' | 'bases' | 'fourier'>;
 type CheckSettings = Pick<CheckAttributes, 'confidence' | 'resamples' | 'subtractAccidentals'>;

@@ -11,39 +11,18 @@ import { checkBucket } from '../checks/queue';
 import { hasCheckRunner, startCheckRunner } from '../checks/registry';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
-import { ACTIVE_CHECK_STATUSES, type CheckAttributes, type CheckStatus } from '../db/models/Check';
+import { ACTIVE_CHECK_STATUSES, type CheckAttributes } from '../db/models/Check';
 import type { DatasetAttributes } from '../db/models/Dataset';
 import { seedFor } from './analyses';
 import { audit } from '../core/audit';
 import { refuseOverCheckLimits } from './check-limits';
 import { ConflictError, FieldError, NotFoundError } from '../core/errors';
 import { newId } from '../core/ids';
+import type { CheckView } from '$lib/views/checks';
+
+export type { CheckView } from '$lib/views/checks';
 
 export type { CheckRequest } from '$lib/claims/schema';
-
-export interface CheckView {
-	id: string;
-	claimId: string;
-	datasetId: string;
-	status: CheckStatus;
-	/** 0..1 */
-	progress: number;
-	resamples: number;
-	confidence: number;
-	seed: number;
-	/** Accidentals subtracted before normalising: the result is labelled background-subtracted. */
-	subtractAccidentals: boolean;
-	createdAt: string;
-	startedAt: string | null;
-	finishedAt: string | null;
-	error: string | null;
-	result: CertificationResult | null;
-	cancelledAt: string | null;
-	/** Who cancelled it: an account's name, or "the referee" for a review link. */
-	cancelledBy: string | null;
-	/** A referee's re-run from a review link: the referee's, never listed as the authors', never certified. */
-	byReferee: boolean;
-}
 
 const isoOrNull = (value: Date | string | null | undefined) =>
 	value ? new Date(value).toISOString() : null;

@@ -3,13 +3,14 @@
  * dimension, date and free text. A version is one certificate (a later one supersedes the
  * earlier); a dataset or check newer than the last certificate makes an uncertified next version.
  */
-import { Op, col, fn, where as sqlWhere, type WhereOptions } from 'sequelize';
+import { Op, col, type WhereOptions } from 'sequelize';
 import type { ArchiveFilter } from '$lib/archive/schema';
 import type { Database } from '../db';
 import type { ClaimAttributes } from '../db/models/Claim';
 import type { AccountActor, Actor } from '../core/actor';
 import { requireGroup, requireService } from '../access/permissions';
 import { NotFoundError } from '../core/errors';
+import { claimTextWhere } from '../claims/claim-search';
 
 export interface ArchiveVersion {
 	version: number;
@@ -56,14 +57,7 @@ function claimWhere(groupId: string, filter: ArchiveFilter): WhereOptions {
 	if (filter.from) created[Op.gte] = new Date(`${filter.from}T00:00:00Z`);
 	if (filter.to) created[Op.lt] = new Date(Date.parse(`${filter.to}T00:00:00Z`) + 86_400_000);
 	if (filter.from || filter.to) where.createdAt = created;
-	if (filter.q) {
-		// instr() rather than LIKE, so that % and _ in the search are plain characters.
-		const needle = filter.q.toLowerCase();
-		const contains = (column: string) =>
-			sqlWhere(fn('instr', fn('lower', col(column)), needle), Op.gt, 0);
-		where[Op.or] = ['title', 'source_description', 'manuscript_reference', 'id'].map(contains);
-	}
-	return where;
+	return filter.q ? { [Op.and]: [where, claimTextWhere(filter.q)] } : where;
 }
 
 type Row = { get(key: string): unknown };

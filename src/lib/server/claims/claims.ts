@@ -3,10 +3,8 @@
  * caller see them.
  */
 import { MAX_PAGE } from '$lib/paging';
-import { col, fn, Op, where as sqlWhere, type Order, type WhereOptions } from 'sequelize';
+import { col, fn, Op, type Order, type WhereOptions } from 'sequelize';
 import { claimInputSchema, type ClaimInputValues, type ClaimQuery } from '$lib/claims/schema';
-import type { FourierConvention } from '$lib/certify';
-import type { ClaimMethod } from '$lib/claims/target';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
 import type { ClaimAttributes, ClaimState } from '../db/models/Claim';
@@ -16,48 +14,12 @@ import { requireClaim, requireGroup, visibleClaimsWhere } from '../access/permis
 import { audit } from '../core/audit';
 import { ForbiddenError } from '../core/errors';
 import { newId } from '../core/ids';
+import { claimTextWhere } from '../claims/claim-search';
+import { DEFAULT_SORT, firstOrder } from '$lib/claims/filter';
+import type { ClaimPage, ClaimView, LatestCheck } from '$lib/views/claims';
 
 export type { ClaimInput, ClaimQuery } from '$lib/claims/schema';
-
-export interface LatestCheck {
-	id: string;
-	status: CheckStatus;
-	certifiedSchmidtNumber: number | null;
-	verdict: 'supported' | 'not supported' | null;
-}
-
-export interface ClaimView {
-	id: string;
-	groupId: string;
-	groupName: string;
-	title: string;
-	sourceDescription: string;
-	dimension: number;
-	method: ClaimMethod;
-	bases: number[];
-	fourier: FourierConvention;
-	claimedSchmidtNumber: number;
-	manuscriptReference: string | null;
-	state: ClaimState;
-	/** Why and when the claim was withdrawn; null while it stands. */
-	withdrawal: { reason: string; at: string } | null;
-	/** A claim on time-ordered trials (issue 20): its mode and declared probabilities (null: uniform). */
-	trials: { mode: 'trials' | 'blocks'; probabilities: number[] | null } | null;
-	/** fidelity-target: the declared λ (Σλ² = 1) and, when the service scaled it, λ as declared. */
-	target: { coefficients: number[]; declared: number[] | null } | null;
-	/** orcid: the ORCID iD linked to the author's account, or null (sign in with ORCID). */
-	createdBy: { id: string; name: string; orcid: string | null };
-	createdAt: string;
-	updatedAt: string;
-	latestCheck: LatestCheck | null;
-}
-
-export interface ClaimPage {
-	items: ClaimView[];
-	total: number;
-	page: number;
-	pageSize: number;
-}
+export type { ClaimPage, ClaimView, LatestCheck } from '$lib/views/claims';
 
 export const DEFAULT_PAGE_SIZE = 20;
 
@@ -200,17 +162,10 @@ export async function listClaims(
 	const where: WhereOptions = { [Op.and]: [await visibleClaimsWhere(database, actor)] };
 	if (query.state) Object.assign(where, { state: query.state });
 	if (query.method) Object.assign(where, { method: query.method });
-	if (query.q) {
-		// instr() rather than LIKE, so that % and _ in the search are plain characters.
-		const needle = query.q.toLowerCase();
-		const contains = (column: string) =>
-			sqlWhere(fn('instr', fn('lower', col(column)), needle), Op.gt, 0);
-		Object.assign(where, {
-			[Op.or]: ['title', 'source_description', 'manuscript_reference'].map(contains)
-		});
-	}
-	const direction = query.order === 'asc' ? 'ASC' : 'DESC';
-	const sort = query.sort ?? 'createdAt';
+	if (query.q) Object.assign(where, claimTextWhere(query.q));
+	const sort = query.sort ?? DEFAULT_SORT;
+	// The same first direction as the page: text columns A→Z, the rest newest or largest first.
+	const direction = (query.order ?? firstOrder(sort)) === 'asc' ? 'ASC' : 'DESC';
 	const order: Order = [
 		sort === 'title' ? [fn('lower', col('title')), direction] : [sort, direction],
 		[col('rowid'), direction]

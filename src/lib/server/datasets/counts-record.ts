@@ -13,14 +13,9 @@ import { requireClaim } from '../access/permissions';
 import type { Actor } from '../core/actor';
 import type { Database } from '../db';
 import { NotFoundError } from '../core/errors';
+import type { CountsRecord } from '$lib/views/datasets';
 
-export interface CountsRecord {
-	countsSha256: string;
-	/** Distinct analyses so far (what the next certificate from these counts would count). */
-	distinct: number;
-	/** Every check, oldest first, with the name of who ran it and the claim it belongs to. */
-	runs: (AnalysisRun & { ranByName: string; claimTitle: string })[];
-}
+export type { CountsRecord } from '$lib/views/datasets';
 
 export async function countsRecord(
 	database: Database,

@@ -15,6 +15,8 @@ import { trialsPart } from '../checks/trials-task';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
 import type { DatasetAttributes, DatasetSummary, PreviewTable } from '../db/models/Dataset';
+import { config } from '../core/config';
+import type { DatasetTables, DatasetView } from '$lib/views/datasets';
 import { audit } from '../core/audit';
 import { checkCalibrationUpload } from './dataset-calibration';
 import { ConflictError, NotFoundError } from '../core/errors';
@@ -22,26 +24,7 @@ import { refuseOverQuota } from '../accounts/group-storage';
 import { newId } from '../core/ids';
 import { datasetFilePath, removeCounts, storeCounts } from '../storage/counts-store';
 
-export type { DatasetSummary, PreviewTable } from '../db/models/Dataset';
-
-export interface DatasetView {
-	id: string;
-	claimId: string;
-	sha256: string;
-	byteSize: number;
-	format: 'csv' | 'json';
-	originalName: string;
-	createdAt: string;
-	summary: DatasetSummary;
-	/** SHA-256 of the calibration file uploaded beside the counts (witnesses.md §4.4), or null. */
-	calibrationSha256: string | null;
-}
-
-export interface DatasetTables {
-	dimension: number;
-	/** One d×d table per basis: counts[a][b]. */
-	tables: PreviewTable[];
-}
+export type { DatasetSummary, DatasetTables, DatasetView, PreviewTable } from '$lib/views/datasets';
 
 function formatOf(bytes: Uint8Array): 'csv' | 'json' {
 	const head = new TextDecoder()

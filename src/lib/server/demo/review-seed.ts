@@ -44,7 +44,6 @@ async function finishedCheckId(database: Database, claimId: string): Promise<str
 
 export async function seedReview(
 	database: Database,
-	mailer: Mailer,
 	people: { author: string; editor: string },
 	claimId: string
 ): Promise<void> {
@@ -55,13 +54,13 @@ export async function seedReview(
 	// certify-demo.ts certifies supported claims; issue here only if it has not.
 	const valid = await database.models.Certificate.count({ where: { claimId, status: 'valid' } });
 	if (!valid) await issueCertificate(database, author, claimId, checkId);
-	await shareClaim(database, mailer, author, claimId, { email: editorEmail, ...DEMO_SHARE });
+	await shareClaim(database, author, claimId, { email: editorEmail, ...DEMO_SHARE });
 	const open = await createReviewLink(database, editor, claimId, { label: 'Referee A (demo)' });
 	writeSecret(demoReviewLinkFile(), open.url);
 	const filed = await createReviewLink(database, editor, claimId, { label: 'Referee B (demo)' });
 	const token = new URL(filed.url).pathname.split('/').at(-1)!;
 	const referee = await resolveReviewToken(database, token, { method: 'SEED', path: '/demo' });
-	await saveReport(database, mailer, referee!, {
+	await saveReport(database, referee!, {
 		recommendation: 'needs-revision',
 		comments:
 			'The certified bound holds when re-run with the recorded seed. Please state the dead time of the detectors and how the time bins were aligned (demo report).',

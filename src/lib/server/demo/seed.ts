@@ -82,7 +82,7 @@ async function writeDemoToken(database: Database, userId: string): Promise<void>
 	writeFileSync(demoTokenFile(), token + '\n', { mode: 0o600 });
 }
 
-export async function seedDemo(database: Database, mailer: Mailer): Promise<'seeded' | 'present'> {
+export async function seedDemo(database: Database): Promise<'seeded' | 'present'> {
 	const lead = DEMO_PEOPLE.find((p) => p.key === 'lead')!;
 	const existing = await database.models.User.findOne({ where: { email: lead.email } });
 	if (existing) {
@@ -98,6 +98,6 @@ export async function seedDemo(database: Database, mailer: Mailer): Promise<'see
 	await writeDemoToken(database, ids.get('author1')!);
 	await certifyDemoClaims(database);
 	const people = { author: ids.get(DEMO_CLAIMS[0].author)!, editor: ids.get('editor')! };
-	await seedReview(database, mailer, people, claimIds[0]);
+	await seedReview(database, people, claimIds[0]);
 	return 'seeded';
 }

@@ -60,15 +60,3 @@ export function echoValues(form: FormData, keys: string[]): Record<string, strin
 	}
 	return values;
 }
-
-/** formFailure for a form action, with Retry-After when the problem is a rate limit (429). */
-export function formRefusal(
-	event: Pick<RequestEvent, 'setHeaders'>,
-	action: string,
-	problem: unknown,
-	values: Record<string, string> = {}
-): ActionFailure<FormProblem> {
-	if (problem instanceof RateLimitedError && problem.retryAfterSeconds !== null)
-		event.setHeaders({ 'retry-after': String(problem.retryAfterSeconds) });
-	return formFailure(action, problem, values);
-}

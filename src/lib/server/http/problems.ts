@@ -6,6 +6,7 @@
 import { error, fail, json, type ActionFailure } from '@sveltejs/kit';
 import { ZodError } from 'zod';
 import { InputError } from '$lib/certify';
+import type { FieldErrors, FormProblem } from '$lib/views/forms';
 import {
 	ConflictError,
 	FieldError,
@@ -27,6 +28,8 @@ export const PROBLEM_CODES = [
 	'rate_limited',
 	'unavailable'
 ] as const;
+
+export type { FieldErrors, FormProblem } from '$lib/views/forms';
 
 export type ProblemCode = (typeof PROBLEM_CODES)[number];
 
@@ -83,7 +86,8 @@ export function problemOf(e: unknown): Problem | null {
 			status: 429,
 			code: 'rate_limited',
 			message: e.message,
-			retryAfterSeconds: e.retryAfterSeconds ?? undefined
+			// Every 429 says when to try again (RFC 6585 §4): a second when the service named no wait.
+			retryAfterSeconds: e.retryAfterSeconds ?? 1
 		};
 	return null;
 }
@@ -94,11 +98,16 @@ const known = (e: unknown): Problem => {
 	return problem;
 };
 
+/** The Retry-After header a problem's answer carries (a 429's), or none. */
+export function retryHeaders(problem: Problem | null): Record<string, string> {
+	const seconds = problem?.retryAfterSeconds;
+	return seconds === undefined ? {} : { 'retry-after': String(seconds) };
+}
+
 /** The API's JSON answer for a problem. */
 export function problemResponse(problem: Problem): Response {
-	const { status, code, message, field, line, column, retryAfterSeconds } = problem;
-	const headers: Record<string, string> = {};
-	if (retryAfterSeconds !== undefined) headers['retry-after'] = String(retryAfterSeconds);
+	const { status, code, message, field, line, column } = problem;
+	const headers = retryHeaders(problem);
 	return json({ error: { code, message, field, line, column } }, { status, headers });
 }
 
@@ -109,17 +118,6 @@ export const apiProblem = (e: unknown): Response => problemResponse(known(e));
 export function pageProblem(e: unknown): never {
 	const { status, code, message } = known(e);
 	error(status, { message, code });
-}
-
-export type FieldErrors = Record<string, string>;
-
-/** What every form action answers on failure: which form, the message per field, what was sent. */
-export interface FormProblem {
-	action: string;
-	errors: FieldErrors;
-	values: Record<string, string>;
-	/** The place in an uploaded counts file, when the problem is there. */
-	place: { line: number | null; column: number | null } | null;
 }
 
 /** The first message per field of a failed zod parse ('' for errors about the whole form). */

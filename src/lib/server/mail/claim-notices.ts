@@ -40,7 +40,7 @@ async function context(database: Database, claimId: string, transaction: Transac
 		plain: true
 	});
 	const group = (await database.models.Group.findByPk(claim.groupId, { transaction }))!;
-	const link = mailLink(config().origin, `/claims/${claim.id}`);
+	const link = mailLink(`/claims/${claim.id}`);
 	return { claim, group: group.get('name') as string, link };
 }
 
@@ -83,7 +83,7 @@ export async function queueWithdrawalNotice(
 	transaction: Transaction
 ): Promise<void> {
 	const { claim, group } = await context(database, claimId, transaction);
-	const link = mailLink(config().origin, `/archive?q=${encodeURIComponent(claim.id)}`);
+	const link = mailLink(`/archive?q=${encodeURIComponent(claim.id)}`);
 	const checkpoint = await noticeCheckpoint(database, transaction);
 	for (const to of await recipients(database, claim, transaction)) {
 		const values = { name: to.name, title: claim.title, group, by, reason, link };

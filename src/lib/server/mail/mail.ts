@@ -6,6 +6,7 @@
  */
 import nodemailer from 'nodemailer';
 import type SMTPTransport from 'nodemailer/lib/smtp-transport';
+import { config } from '../core/config';
 
 export interface OutgoingMail {
 	to: string;
@@ -17,7 +18,7 @@ export interface OutgoingMail {
 }
 
 export interface Mailer {
-	/** Public base URL of the app, for links in messages. */
+	/** The app's origin, for Message-IDs only; links in messages use mailLink (config's ORIGIN). */
 	origin: string;
 	/** Resolves once the SMTP server has accepted the message. */
 	send(mail: OutgoingMail): Promise<void>;
@@ -58,6 +59,5 @@ export function createMailer({ transport, from, origin }: MailerOptions): Mailer
 	};
 }
 
-/** An absolute link into the app for an e-mail body. */
-export const mailLink = (origin: string | { origin: string }, path: string): string =>
-	new URL(path, typeof origin === 'string' ? origin : origin.origin).href;
+/** An absolute link into the app for an e-mail body; the one origin is the app's (ORIGIN). */
+export const mailLink = (path: string): string => new URL(path, config().origin).href;

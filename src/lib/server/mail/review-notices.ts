@@ -39,7 +39,7 @@ export async function queueReviewNotices(
 			{
 				template: 'notice-certificate-under-review',
 				to: editor.get('email') as string,
-				link: mailLink(config().origin, `/editor#claim-${claimId}`),
+				link: mailLink(`/editor#claim-${claimId}`),
 				words
 			}
 		);

@@ -11,20 +11,9 @@ import { reportView, type ReportView } from './reports';
 import { reviewLinkView, type ReviewLinkView } from './review-links';
 import { shareView, type ShareView } from './shares';
 import { doisOf } from '../certificates/doi-view';
+import type { SharedClaim } from '$lib/views/review';
 
-export interface SharedClaim {
-	share: ShareView;
-	claim: {
-		id: string;
-		title: string;
-		dimension: number;
-		method: string;
-		claimedSchmidtNumber: number;
-		state: string;
-	};
-	certificates: CertificateView[];
-	links: (ReviewLinkView & { report: ReportView | null })[];
-}
+export type { SharedClaim } from '$lib/views/review';
 
 async function linksOf(database: Database, shareId: string) {
 	const { ReviewLink, Report } = database.models;

@@ -30,24 +30,15 @@ import { NotFoundError } from '../core/errors';
 import { ownReport, type ReportView } from './reports';
 import { reviewedCertificates } from './review-certificate';
 import { doiOf } from '../certificates/doi-view';
+import type { Comparison, RefereeCheck } from '$lib/views/checks';
+
+export type { Comparison, RefereeCheck } from '$lib/views/checks';
 
 /** A referee chooses only the seed; everything else is the certified check's. */
 export const refereeCheckSchema = checkRequestSchema.pick({ seed: true }).strict();
 /** The API's body: the seed as a JSON number. */
 export const refereeCheckJsonSchema = checkRequestJsonSchema.pick({ seed: true }).strict();
 export type RefereeCheckInput = { seed?: number | string | null };
-
-/** How a re-run compares with the certified check. */
-export interface Comparison {
-	sameSeed: boolean;
-	/** Every number equal (the promise for the recorded seed); null until the re-run is done. */
-	identical: boolean | null;
-	/** |lower bound difference| ≤ the certificate's standard error; null until done. */
-	withinError: boolean | null;
-	firstDifference: string | null;
-}
-
-export type RefereeCheck = CheckView & { comparison: Comparison };
 
 export interface RefereeView {
 	claim: {

@@ -17,6 +17,9 @@ import { audit } from '../core/audit';
 import { ConflictError, NotFoundError } from '../core/errors';
 import { newId } from '../core/ids';
 import { sendNotice } from '../mail/notices';
+import type { ReportView } from '$lib/views/review';
+
+export type { ReportState, ReportView } from '$lib/views/review';
 
 const reportInput = (source: ValueSource) =>
 	z.object({
@@ -36,18 +39,6 @@ export const reportInputSchema = reportInput('form');
 /** The API's body: submit as JSON's true or false only. */
 export const reportJsonSchema = reportInput('json');
 export type ReportInput = z.input<typeof reportInputSchema>;
-
-export type ReportState = 'draft' | 'submitted' | 'released';
-
-export interface ReportView {
-	id: string;
-	claimId: string;
-	recommendation: ReportAttributes['recommendation'];
-	comments: string;
-	state: ReportState;
-	submittedAt: string | null;
-	releasedAt: string | null;
-}
 
 const iso = (d: Date | null) => (d ? new Date(d).toISOString() : null);
 
@@ -71,7 +62,6 @@ export async function ownReport(database: Database, actor: Actor): Promise<Repor
 /** Saves the referee's report (a draft, or filed); ConflictError once it has been filed. */
 export async function saveReport(
 	database: Database,
-	mailer: Mailer,
 	actor: Actor,
 	input: ReportInput | Record<string, unknown>
 ): Promise<ReportView> {
@@ -107,13 +97,12 @@ export async function saveReport(
 		);
 		return id;
 	});
-	if (submit) await noticeFiled(database, mailer, actor.linkId, claim.title, recommendation);
+	if (submit) await noticeFiled(database, actor.linkId, claim.title, recommendation);
 	return reportView((await Report.findByPk(id))!.get({ plain: true }));
 }
 
 async function noticeFiled(
 	database: Database,
-	mailer: Mailer,
 	linkId: string,
 	claimTitle: string,
 	recommendation: string
@@ -124,11 +113,11 @@ async function noticeFiled(
 	const editor = await User.findByPk(link.createdBy);
 	if (!editor) return;
 	await sendNotice(
-		{ database, mailer },
+		{ database },
 		{
 			template: 'notice-report-filed',
 			to: editor.get('email') as string,
-			link: mailLink(mailer, `/editor#claim-${share.claimId}`),
+			link: mailLink(`/editor#claim-${share.claimId}`),
 			words: { claim: claimTitle, manuscript: share.manuscript, recommendation }
 		}
 	);
@@ -137,7 +126,6 @@ async function noticeFiled(
 /** The editor releases a filed report to the authors; each author with an account is told. */
 export async function releaseReport(
 	database: Database,
-	mailer: Mailer,
 	actor: Actor,
 	reportId: string
 ): Promise<ReportView> {
@@ -161,14 +149,13 @@ export async function releaseReport(
 				transaction
 			);
 		});
-		await noticeReleased(database, mailer, claim, share, report.recommendation);
+		await noticeReleased(database, claim, share, report.recommendation);
 	}
 	return reportView((await Report.findByPk(reportId))!.get({ plain: true }));
 }
 
 async function noticeReleased(
 	database: Database,
-	mailer: Mailer,
 	claim: { id: string; title: string; createdBy: string },
 	share: { journal: string; manuscript: string },
 	recommendation: string
@@ -176,11 +163,11 @@ async function noticeReleased(
 	const author = await database.models.User.findByPk(claim.createdBy);
 	if (!author) return;
 	await sendNotice(
-		{ database, mailer },
+		{ database },
 		{
 			template: 'notice-report-released',
 			to: author.get('email') as string,
-			link: mailLink(mailer, `/claims/${claim.id}/sharing`),
+			link: mailLink(`/claims/${claim.id}/sharing`),
 			words: {
 				claim: claim.title,
 				journal: share.journal,

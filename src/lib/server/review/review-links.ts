@@ -15,6 +15,9 @@ import { audit } from '../core/audit';
 import { currentCertificateRow } from './review-certificate';
 import { NotFoundError } from '../core/errors';
 import { hashSecret, newId, newSecret } from '../core/ids';
+import type { ReviewLinkState, ReviewLinkView } from '$lib/views/review';
+
+export type { ReviewLinkState, ReviewLinkView } from '$lib/views/review';
 
 export const REVIEW_LINK_DEFAULT_DAYS = 30;
 export const REVIEW_LINK_MAX_DAYS = 180;
@@ -44,17 +47,6 @@ export const reviewLinkInputSchema = reviewLinkInput('form');
 /** The API's body: the days as a JSON number, never as text. */
 export const reviewLinkJsonSchema = reviewLinkInput('json');
 export type ReviewLinkInput = z.input<typeof reviewLinkInputSchema>;
-
-export type ReviewLinkState = 'active' | 'expired' | 'revoked';
-
-export interface ReviewLinkView {
-	id: string;
-	claimId: string;
-	label: string | null;
-	state: ReviewLinkState;
-	expiresAt: string;
-	createdAt: string;
-}
 
 const TOKEN_SHAPE = /^rvw_[\w-]{43}$/;
 

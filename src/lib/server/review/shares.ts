@@ -15,6 +15,7 @@ import { audit } from '../core/audit';
 import { ConflictError, NotFoundError } from '../core/errors';
 import { hashSecret, newId, newSecret } from '../core/ids';
 import { sendNotice } from '../mail/notices';
+import type { ShareView } from '$lib/views/review';
 
 export const shareInputSchema = z.object({
 	email: z
@@ -37,18 +38,7 @@ export const shareInputSchema = z.object({
 		.superRefine(textRule('The manuscript reference', 'line'))
 });
 export type ShareInput = z.input<typeof shareInputSchema>;
-
-export interface ShareView {
-	id: string;
-	claimId: string;
-	editorEmail: string;
-	journal: string;
-	manuscript: string;
-	/** Whether the editor has opened the notice's link (not merely has an account). */
-	opened: boolean;
-	createdAt: string;
-	withdrawnAt: string | null;
-}
+export type { ShareView } from '$lib/views/review';
 
 export const shareView = (s: ShareAttributes): ShareView => ({
 	id: s.id,
@@ -72,7 +62,6 @@ async function requireCertified(database: Database, claimId: string) {
 /** Shares the claim and sends the editor a notice; ConflictError for a claim not certified. */
 export async function shareClaim(
 	database: Database,
-	mailer: Mailer,
 	actor: Actor,
 	claimId: string,
 	input: ShareInput
@@ -104,11 +93,11 @@ export async function shareClaim(
 	});
 	const sharer = (await User.findByPk(sharedBy))!.get('name') as string;
 	await sendNotice(
-		{ database, mailer },
+		{ database },
 		{
 			template: 'notice-claim-shared',
 			to: email,
-			link: mailLink(mailer, sharePath(token)),
+			link: mailLink(sharePath(token)),
 			words: { sharer, email, journal, manuscript, claim: claim.title }
 		}
 	);

@@ -1,8 +1,9 @@
 import { redirect } from '@sveltejs/kit';
 import { orcidForAccount, unlinkOrcid } from '$lib/server/accounts/orcid-links';
 import { app } from '$lib/server/app/app';
-import { clearSessionCookie, formRefusal, requireSignedIn } from '$lib/server/http/auth-web';
+import { clearSessionCookie, requireSignedIn } from '$lib/server/http/auth-web';
 import { takeOrRefuse } from '$lib/server/core/rate-limits';
+import { runFormAction } from '$lib/server/http/form-action';
 import { resendVerification, signOut, signOutEverywhere } from '$lib/server/accounts/accounts';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -16,15 +17,11 @@ export const load: PageServerLoad = async ({ url, locals }) => {
 export const actions: Actions = {
 	resend: async (event) => {
 		const actor = requireSignedIn(event.locals, event.url);
-		const { database, mailer } = await app();
-		try {
-			const what = 'You have asked for several links in a short time.';
-			await takeOrRefuse('resendVerification', actor.userId, what);
-			await resendVerification(database, mailer, actor);
-		} catch (problem) {
-			return formRefusal(event, 'resend', problem);
-		}
-		redirect(303, '/account?sent=1');
+		return runFormAction(event, 'resend', {}, async () => {
+			const { database } = await app();
+			await resendVerification(database, actor);
+			redirect(303, '/account?sent=1');
+		});
 	},
 	unlinkOrcid: async (event) => {
 		const actor = requireSignedIn(event.locals, event.url);

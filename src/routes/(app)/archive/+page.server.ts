@@ -4,6 +4,8 @@ import { archiveFilterSchema } from '$lib/archive/schema';
 import { app } from '$lib/server/app/app';
 import { echoValues, requireSignedIn } from '$lib/server/http/auth-web';
 import { fieldErrors, formFailure, pageProblem } from '$lib/server/http/problems';
+import { withdrawReasonField } from '$lib/claims/withdrawal';
+import { runFormAction } from '$lib/server/http/form-action';
 import { groupArchive } from '$lib/server/claims/archive';
 import { withdrawClaim } from '$lib/server/claims/claim-withdraw';
 import { groupsOf } from '$lib/server/accounts/groups';
@@ -26,22 +28,18 @@ export const load: PageServerLoad = async ({ locals, url }) => {
 
 const withdrawForm = z.object({
 	claimId: z.string().min(1).max(100),
-	reason: z.string().max(2000)
+	reason: withdrawReasonField
 });
 
 export const actions: Actions = {
-	withdraw: async ({ locals, request, url }) => {
-		const actor = requireSignedIn(locals, url);
-		const form = await request.formData();
-		const values = echoValues(form, ['claimId', 'reason']);
-		const parsed = withdrawForm.safeParse(values);
-		if (!parsed.success) return formFailure('withdraw', parsed.error, values);
-		const { database } = await app();
-		try {
-			await withdrawClaim(database, actor, parsed.data.claimId, parsed.data.reason);
-		} catch (problem) {
-			return formFailure('withdraw', problem, values);
-		}
-		redirect(303, `/archive${url.search}`);
+	withdraw: async (event) => {
+		const actor = requireSignedIn(event.locals, event.url);
+		const values = echoValues(await event.request.formData(), ['claimId', 'reason']);
+		return runFormAction(event, 'withdraw', values, async () => {
+			const { claimId, reason } = withdrawForm.parse(values);
+			const { database } = await app();
+			await withdrawClaim(database, actor, claimId, reason);
+			redirect(303, `/archive${event.url.search}`);
+		});
 	}
 };

@@ -1,10 +1,10 @@
-import { claimQuerySchema } from '$lib/claims/schema';
+import { claimQuerySchema, DEFAULT_SORT, firstOrder } from '$lib/claims/filter';
 import { pagingSchema } from '$lib/paging';
 import { app } from '$lib/server/app/app';
 import { requireSignedIn } from '$lib/server/http/auth-web';
 import { pageProblem } from '$lib/server/http/problems';
 import { listClaims } from '$lib/server/claims/claims';
-import { firstOrder, DEFAULT_SORT, type ListQuery } from './query';
+import type { ListQuery } from './query';
 import type { PageServerLoad } from './$types';
 
 /** The first page as the server sees it, so the list shows without JavaScript too. */

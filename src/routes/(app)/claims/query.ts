@@ -1,14 +1,10 @@
 /** The claims list's search, filters, sort and page, as they appear in the address and API query. */
-import type { ClaimQuery } from '$lib/claims/schema';
+import { DEFAULT_SORT, firstOrder, type ClaimQuery, type ClaimSort } from '$lib/claims/filter';
+
+export { DEFAULT_SORT, firstOrder };
 
 export type ListQuery = Required<Pick<ClaimQuery, 'page'>> & Omit<ClaimQuery, 'page'>;
-export type SortKey = NonNullable<ClaimQuery['sort']>;
-
-export const DEFAULT_SORT: SortKey = 'createdAt';
-
-/** Newest first by default; text columns read best A→Z first. */
-export const firstOrder = (sort: SortKey): 'asc' | 'desc' =>
-	sort === 'title' || sort === 'state' ? 'asc' : 'desc';
+export type SortKey = ClaimSort;
 
 /** Only what differs from the defaults, so addresses stay short; `explicit` spells out sort and order. */
 export function searchOf(query: ListQuery, explicit = false): string {

@@ -1,6 +1,7 @@
 import { app } from '$lib/server/app/app';
 import { requireSignedIn } from '$lib/server/http/auth-web';
 import { formFailure, pageProblem } from '$lib/server/http/problems';
+import { runFormAction } from '$lib/server/http/form-action';
 import { editorHome } from '$lib/server/review/editor-home';
 import { releaseReport } from '$lib/server/review/reports';
 import { createReviewLink, revokeReviewLink } from '$lib/server/review/review-links';
@@ -16,44 +17,38 @@ const field = (form: FormData, key: string) => String(form.get(key) ?? '');
 
 export const actions: Actions = {
 	/** The new link's URL is shown once, here; only its hash is kept. */
-	createLink: async ({ locals, request, url }) => {
-		const actor = requireSignedIn(locals, url);
-		const form = await request.formData();
+	createLink: async (event) => {
+		const actor = requireSignedIn(event.locals, event.url);
+		const form = await event.request.formData();
 		const claimId = field(form, 'claimId');
 		const values = {
 			claimId,
 			label: field(form, 'label'),
 			expiresInDays: field(form, 'expiresInDays')
 		};
-		const { database } = await app();
-		try {
+		return runFormAction(event, 'createLink', values, async () => {
+			const { database } = await app();
 			const { label, expiresInDays } = values;
 			const link = await createReviewLink(database, actor, claimId, { label, expiresInDays });
 			return { action: 'createLink', claimId, created: link };
-		} catch (problem) {
-			return formFailure('createLink', problem, values);
-		}
+		});
 	},
-	revokeLink: async ({ locals, request, url }) => {
-		const actor = requireSignedIn(locals, url);
-		const linkId = field(await request.formData(), 'linkId');
-		const { database } = await app();
-		try {
+	revokeLink: async (event) => {
+		const actor = requireSignedIn(event.locals, event.url);
+		const linkId = field(await event.request.formData(), 'linkId');
+		return runFormAction(event, 'revokeLink', { linkId }, async () => {
+			const { database } = await app();
 			await revokeReviewLink(database, actor, linkId);
-		} catch (problem) {
-			return formFailure('revokeLink', problem, { linkId });
-		}
-		return { action: 'revokeLink' };
+			return { action: 'revokeLink' };
+		});
 	},
-	release: async ({ locals, request, url }) => {
-		const actor = requireSignedIn(locals, url);
-		const reportId = field(await request.formData(), 'reportId');
-		const { database, mailer } = await app();
-		try {
-			await releaseReport(database, mailer, actor, reportId);
-		} catch (problem) {
-			return formFailure('release', problem, { reportId });
-		}
-		return { action: 'release' };
+	release: async (event) => {
+		const actor = requireSignedIn(event.locals, event.url);
+		const reportId = field(await event.request.formData(), 'reportId');
+		return runFormAction(event, 'release', { reportId }, async () => {
+			const { database } = await app();
+			await releaseReport(database, actor, reportId);
+			return { action: 'release' };
+		});
 	}
 };

@@ -1,7 +1,8 @@
 import { redirect } from '@sveltejs/kit';
 import { signInForm, formFields } from '$lib/server/accounts/account-forms';
 import { app } from '$lib/server/app/app';
-import { echoValues, formRefusal, safeNext, startSession } from '$lib/server/http/auth-web';
+import { echoValues, safeNext, startSession } from '$lib/server/http/auth-web';
+import { runFormAction } from '$lib/server/http/form-action';
 import { retryWords } from '$lib/server/core/rate-limits';
 import { FieldError } from '$lib/server/core/errors';
 import { signInFrom } from '$lib/server/accounts/sign-in';
@@ -24,24 +25,19 @@ const MISMATCH = 'That address and password do not match an account.';
 
 export const actions: Actions = {
 	login: async (event) => {
-		const { request, cookies } = event;
-		const form = await request.formData();
+		const form = await event.request.formData();
 		const values = echoValues(form, ['email']);
-		const parsed = signInForm.safeParse(formFields(form));
-		if (!parsed.success) return formRefusal(event, 'login', parsed.error, values);
-		const { database, lucia } = await app();
-		let outcome;
-		try {
-			outcome = await signInFrom(database, parsed.data, { address: event.getClientAddress() });
-		} catch (problem) {
-			return formRefusal(event, 'login', problem, values);
-		}
-		if (!outcome.userId) {
-			const wait = outcome.pauseSeconds;
-			const words = wait === null ? MISMATCH : `${MISMATCH} Try again ${retryWords(wait)}.`;
-			return formRefusal(event, 'login', new FieldError('', words), values);
-		}
-		await startSession(lucia, cookies, outcome.userId);
-		redirect(303, safeNext(form.get('next') as string | null));
+		return runFormAction(event, 'login', values, async () => {
+			const input = signInForm.parse(formFields(form));
+			const { database, lucia } = await app();
+			const address = event.getClientAddress();
+			const { userId, pauseSeconds: wait } = await signInFrom(database, input, { address });
+			if (!userId) {
+				const words = wait === null ? MISMATCH : `${MISMATCH} Try again ${retryWords(wait)}.`;
+				throw new FieldError('', words);
+			}
+			await startSession(lucia, event.cookies, userId);
+			redirect(303, safeNext(form.get('next') as string | null));
+		});
 	}
 };

@@ -1,8 +1,9 @@
 import { redirect } from '@sveltejs/kit';
 import { formFields, resetRequestForm } from '$lib/server/accounts/account-forms';
 import { app } from '$lib/server/app/app';
-import { echoValues, formRefusal } from '$lib/server/http/auth-web';
+import { echoValues } from '$lib/server/http/auth-web';
 import { takeOrRefuse } from '$lib/server/core/rate-limits';
+import { runFormAction } from '$lib/server/http/form-action';
 import { requestPasswordReset } from '$lib/server/accounts/accounts';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -12,17 +13,12 @@ export const actions: Actions = {
 	request: async (event) => {
 		const form = await event.request.formData();
 		const values = echoValues(form, ['email']);
-		const parsed = resetRequestForm.safeParse(formFields(form));
-		if (!parsed.success) return formRefusal(event, 'request', parsed.error, values);
-		const { database, mailer } = await app();
-		try {
-			const what = 'Too many new-password requests from your network address.';
-			await takeOrRefuse('resetRequest', event.getClientAddress(), what);
-			await requestPasswordReset(database, mailer, parsed.data.email);
-		} catch (problem) {
-			return formRefusal(event, 'request', problem, values);
-		}
-		// The same answer whether or not the address has an account.
-		redirect(303, '/reset?sent=1');
+		return runFormAction(event, 'request', values, async () => {
+			const { email } = resetRequestForm.parse(formFields(form));
+			const { database } = await app();
+			await requestPasswordReset(database, email, { address: event.getClientAddress() });
+			// The same answer whether or not the address has an account.
+			redirect(303, '/reset?sent=1');
+		});
 	}
 };

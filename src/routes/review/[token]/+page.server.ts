@@ -1,7 +1,8 @@
 import { error, redirect } from '@sveltejs/kit';
 import { app } from '$lib/server/app/app';
-import { formRefusal } from '$lib/server/http/auth-web';
+import {  } from '$lib/server/http/auth-web';
 import { formFailure, pageProblem } from '$lib/server/http/problems';
+import { runFormAction } from '$lib/server/http/form-action';
 import { INVALID_REVIEW_LINK } from '$lib/server/http/review-api';
 import {
 	cancellableReRuns,
@@ -32,44 +33,37 @@ export const load: PageServerLoad = async ({ locals, params }) => {
 const text = (form: FormData, key: string) => String(form.get(key) ?? '');
 
 export const actions: Actions = {
-	rerun: async ({ locals, request, url, setHeaders }) => {
-		const actor = referee(locals);
-		const form = await request.formData();
-		const seed = text(form, 'seed').trim();
-		const { database } = await app();
-		try {
+	rerun: async (event) => {
+		const actor = referee(event.locals);
+		const seed = text(await event.request.formData(), 'seed').trim();
+		return runFormAction(event, 'rerun', { seed }, async () => {
+			const { database } = await app();
 			await startRefereeCheck(database, actor, { seed: seed || undefined });
-		} catch (problem) {
-			return formRefusal({ setHeaders }, 'rerun', problem, { seed });
-		}
-		redirect(303, `${url.pathname}#reruns`);
+			redirect(303, `${event.url.pathname}#reruns`);
+		});
 	},
 	/** Cancels one of this link's queued or running re-runs; 409 beside it once it has ended. */
-	cancel: async ({ locals, request, url }) => {
-		const actor = referee(locals);
-		const checkId = text(await request.formData(), 'checkId');
-		const { database } = await app();
-		try {
+	cancel: async (event) => {
+		const actor = referee(event.locals);
+		const checkId = text(await event.request.formData(), 'checkId');
+		return runFormAction(event, 'cancel', { checkId }, async () => {
+			const { database } = await app();
 			await cancelRefereeCheck(database, actor, checkId);
-		} catch (problem) {
-			return formFailure('cancel', problem, { checkId });
-		}
-		redirect(303, `${url.pathname}#reruns`);
+			redirect(303, `${event.url.pathname}#reruns`);
+		});
 	},
-	report: async ({ locals, request, url }) => {
-		const actor = referee(locals);
-		const form = await request.formData();
+	report: async (event) => {
+		const actor = referee(event.locals);
+		const form = await event.request.formData();
 		const values = {
 			recommendation: text(form, 'recommendation'),
 			comments: text(form, 'comments')
 		};
 		const submit = form.get('intent') === 'file';
-		const { database, mailer } = await app();
-		try {
-			await saveReport(database, mailer, actor, { ...values, submit });
-		} catch (problem) {
-			return formFailure('report', problem, values);
-		}
-		redirect(303, `${url.pathname}#report`);
+		return runFormAction(event, 'report', values, async () => {
+			const { database } = await app();
+			await saveReport(database, actor, { ...values, submit });
+			redirect(303, `${event.url.pathname}#report`);
+		});
 	}
 };

@@ -1,6 +1,8 @@
 import { DataTypes, type Model, type ModelStatic, type Sequelize } from 'sequelize';
 
-export type CertificateStatus = 'valid' | 'superseded' | 'withdrawn';
+import type { CertificateStatus } from '$lib/views/certificates';
+
+export type { CertificateStatus };
 
 /**
  * A signed certificate. Never changed after issue except `status` and `supersededBy`; every

@@ -1,8 +1,9 @@
 import { DataTypes, type Model, type ModelStatic, type Sequelize } from 'sequelize';
 import type { CertificationResult } from '$lib/certify';
 
-export const CHECK_STATUSES = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;
-export type CheckStatus = (typeof CHECK_STATUSES)[number];
+import { CHECK_STATUSES, type CheckStatus } from '$lib/views/checks';
+
+export { CHECK_STATUSES, type CheckStatus };
 /** Statuses that hold a worker slot or a place in the queue. */
 export const ACTIVE_CHECK_STATUSES: CheckStatus[] = ['queued', 'running'];
 

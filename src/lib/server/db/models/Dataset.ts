@@ -1,26 +1,7 @@
 import { DataTypes, type Model, type ModelStatic, type Sequelize } from 'sequelize';
+import type { DatasetSummary, PreviewTable } from '$lib/views/datasets';
 
-/** What the upload held, for previews and the claim page (the bytes themselves are on disk). */
-export interface DatasetSummary {
-	dimension: number;
-	bases: number[];
-	totals: Record<string, number>;
-	hasAccidentals: boolean;
-	hasDurations: boolean;
-	/** Methods whose table requirements the file meets. */
-	allows: string[];
-	/** How a detected layout was read ("read as 3 grids of 5 × 5, tab-separated"); grid files only. */
-	readAs?: string;
-}
-
-/** One basis of a dataset as the heat map shows it: counts[a][b]. */
-export interface PreviewTable {
-	basis: number;
-	total: number;
-	counts: number[][];
-	/** Outcomes per shown cell along each side (sums of block × block cells); absent: 1. */
-	block?: number;
-}
+export type { DatasetSummary, PreviewTable };
 
 export interface DatasetAttributes {
 	id: string;

@@ -3,6 +3,7 @@ import { accountRoleForm, formFields } from '$lib/server/accounts/account-forms'
 import { app } from '$lib/server/app/app';
 import { echoValues, requireSignedIn } from '$lib/server/http/auth-web';
 import { formFailure, pageProblem } from '$lib/server/http/problems';
+import { runFormAction } from '$lib/server/http/form-action';
 import { listUsers, setAccountRole } from '$lib/server/accounts/account-roles';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -13,18 +14,15 @@ export const load: PageServerLoad = async ({ locals, url }) => {
 };
 
 export const actions: Actions = {
-	role: async ({ locals, request, url }) => {
-		const actor = requireSignedIn(locals, url);
-		const form = await request.formData();
+	role: async (event) => {
+		const actor = requireSignedIn(event.locals, event.url);
+		const form = await event.request.formData();
 		const values = echoValues(form, ['userId', 'role']);
-		const parsed = accountRoleForm.safeParse(formFields(form));
-		if (!parsed.success) return formFailure('role', parsed.error, values);
-		const { database } = await app();
-		try {
-			await setAccountRole(database, actor, parsed.data.userId, parsed.data.role);
-		} catch (problem) {
-			return formFailure('role', problem, values);
-		}
-		redirect(303, '/admin/users');
+		return runFormAction(event, 'role', values, async () => {
+			const { userId, role } = accountRoleForm.parse(formFields(form));
+			const { database } = await app();
+			await setAccountRole(database, actor, userId, role);
+			redirect(303, '/admin/users');
+		});
 	}
 };

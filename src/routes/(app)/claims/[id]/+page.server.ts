@@ -2,7 +2,7 @@ import { redirect } from '@sveltejs/kit';
 import { checkRequestSchema } from '$lib/claims/schema';
 import { claimOffers } from '$lib/server/access/permissions';
 import { app } from '$lib/server/app/app';
-import { echoValues, formRefusal, requireSignedIn } from '$lib/server/http/auth-web';
+import { echoValues, requireSignedIn } from '$lib/server/http/auth-web';
 import { formFailure, pageProblem } from '$lib/server/http/problems';
 import { listCertificates } from '$lib/server/certificates/certificate-reads';
 import { startCheck, listChecks } from '$lib/server/checks/checks';
@@ -10,11 +10,14 @@ import { getClaim } from '$lib/server/claims/claims';
 import { datasetTables, listDatasets } from '$lib/server/datasets/datasets';
 import { addCountsFiles } from '$lib/server/datasets/counts-files';
 import { countsFilesOfForm } from '$lib/server/http/counts-form';
+import { runFormAction } from '$lib/server/http/form-action';
+import { addDataset } from '$lib/server/datasets/datasets';
 import { withUploadSlot } from '$lib/server/datasets/upload-slots';
 import { removeDataset } from '$lib/server/datasets/dataset-removal';
 import { countsRecord } from '$lib/server/datasets/counts-record';
 import { withdrawClaim } from '$lib/server/claims/claim-withdraw';
 import { ForbiddenError } from '$lib/server/core/errors';
+import { uploadFrom } from './upload-form';
 import { withdrawConfirmSchema } from './withdraw-schema';
 
 const membersOnly = (problem: unknown) => {
@@ -71,78 +74,56 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 
 export const actions: Actions = {
 	upload: async (event) => {
-		const { request, locals, params, url } = event;
-		const actor = requireSignedIn(locals, url);
-		const { database } = await app();
-		let datasetId: string | null = null;
-		let values: Record<string, string> = {};
-		try {
+		const actor = requireSignedIn(event.locals, event.url);
+		const { params } = event;
+		// Filled in once the body is read: the page says which file was refused.
+		const values: Record<string, string> = {};
+		return runFormAction(event, 'upload', values, async () => {
+			const { database } = await app();
 			// The slot is taken before the body is read: a refused upload costs no memory.
-			datasetId = await withUploadSlot(database, actor, params.id, async () => {
-				const form = await request.formData();
-				const calibrationFile = form.get('calibration');
-				// The files' names are the one value worth echoing: the page says which were refused.
-				const names = form
-					.getAll('counts')
-					.flatMap((f) => (f instanceof File && f.name ? [f.name] : []));
-				values = names.length ? { counts: names.join(', ') } : {};
-				const files = await countsFilesOfForm(form);
-				const calibration =
-					calibrationFile instanceof File && calibrationFile.size > 0
-						? new Uint8Array(await calibrationFile.arrayBuffer())
-						: null;
-				return (await addCountsFiles(database, actor, params.id, { files, calibration })).id;
+			const datasetId = await withUploadSlot(database, actor, params.id, async () => {
+				const upload = await uploadFrom(await event.request.formData(), values);
+				return (await addCountsFiles(database, actor, params.id, upload)).id;
 			});
-		} catch (problem) {
-			return formRefusal(event, 'upload', problem, values);
-		}
-		redirect(303, `/claims/${params.id}?dataset=${datasetId}#preview`);
+			redirect(303, `/claims/${params.id}?dataset=${datasetId}#preview`);
+		});
 	},
 
-	removeDataset: async ({ request, locals, params, url }) => {
-		const actor = requireSignedIn(locals, url);
-		const values = echoValues(await request.formData(), ['datasetId']);
-		const { database } = await app();
-		try {
-			await removeDataset(database, actor, params.id, values.datasetId ?? '');
-		} catch (problem) {
-			return formFailure('removeDataset', problem, values);
-		}
-		redirect(303, `/claims/${params.id}`);
+	removeDataset: async (event) => {
+		const actor = requireSignedIn(event.locals, event.url);
+		const values = echoValues(await event.request.formData(), ['datasetId']);
+		return runFormAction(event, 'removeDataset', values, async () => {
+			const { database } = await app();
+			await removeDataset(database, actor, event.params.id, values.datasetId ?? '');
+			redirect(303, `/claims/${event.params.id}`);
+		});
 	},
 
-	check: async ({ request, locals, params, url, setHeaders }) => {
-		const actor = requireSignedIn(locals, url);
-		const values = echoValues(await request.formData(), [
+	check: async (event) => {
+		const actor = requireSignedIn(event.locals, event.url);
+		const values = echoValues(await event.request.formData(), [
 			'datasetId',
 			'resamples',
 			'confidence',
 			'seed',
 			'subtractAccidentals'
 		]);
-		const parsed = checkRequestSchema.safeParse(values);
-		if (!parsed.success) return formFailure('check', parsed.error, values);
-		const { database } = await app();
-		let checkId: string;
-		try {
-			checkId = (await startCheck(database, actor, params.id, parsed.data)).id;
-		} catch (problem) {
-			return formRefusal({ setHeaders }, 'check', problem, values);
-		}
-		redirect(303, `/claims/${params.id}/checks/${checkId}`);
+		return runFormAction(event, 'check', values, async () => {
+			const input = checkRequestSchema.parse(values);
+			const { database } = await app();
+			const { id } = await startCheck(database, actor, event.params.id, input);
+			redirect(303, `/claims/${event.params.id}/checks/${id}`);
+		});
 	},
 
-	withdraw: async ({ request, locals, params, url }) => {
-		const actor = requireSignedIn(locals, url);
-		const values = echoValues(await request.formData(), ['reason', 'confirm']);
-		const parsed = withdrawConfirmSchema.safeParse(values);
-		if (!parsed.success) return formFailure('withdraw', parsed.error, values);
-		const { database } = await app();
-		try {
-			await withdrawClaim(database, actor, params.id, parsed.data.reason);
-		} catch (problem) {
-			return formFailure('withdraw', problem, values);
-		}
-		redirect(303, `/claims/${params.id}`);
+	withdraw: async (event) => {
+		const actor = requireSignedIn(event.locals, event.url);
+		const values = echoValues(await event.request.formData(), ['reason', 'confirm']);
+		return runFormAction(event, 'withdraw', values, async () => {
+			const { reason } = withdrawConfirmSchema.parse(values);
+			const { database } = await app();
+			await withdrawClaim(database, actor, event.params.id, reason);
+			redirect(303, `/claims/${event.params.id}`);
+		});
 	}
 };

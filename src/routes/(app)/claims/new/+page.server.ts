@@ -3,6 +3,7 @@ import { CLAIM_FIELDS, claimInputSchema } from '$lib/claims/schema';
 import { app } from '$lib/server/app/app';
 import { echoValues, requireSignedIn } from '$lib/server/http/auth-web';
 import { formFailure } from '$lib/server/http/problems';
+import { runFormAction } from '$lib/server/http/form-action';
 import { createClaim } from '$lib/server/claims/claims';
 import { ForbiddenError } from '$lib/server/core/errors';
 import type { Actions } from './$types';
@@ -10,22 +11,16 @@ import type { Actions } from './$types';
 const FIELDS = ['groupId', ...CLAIM_FIELDS, 'trialsMode', 'trialsProbabilities', 'target'];
 
 export const actions: Actions = {
-	create: async ({ request, locals, url }) => {
-		const actor = requireSignedIn(locals, url);
-		const values = echoValues(await request.formData(), FIELDS);
-		if (!actor.emailVerified) {
-			const unconfirmed = new ForbiddenError('Confirm your e-mail address before creating claims.');
-			return formFailure('create', unconfirmed, values);
-		}
-		const parsed = claimInputSchema.safeParse(values);
-		if (!parsed.success) return formFailure('create', parsed.error, values);
-		const { database } = await app();
-		let claimId: string;
-		try {
-			claimId = (await createClaim(database, actor, parsed.data)).id;
-		} catch (problem) {
-			return formFailure('create', problem, values);
-		}
-		redirect(303, `/claims/${claimId}`);
+	create: async (event) => {
+		const actor = requireSignedIn(event.locals, event.url);
+		const values = echoValues(await event.request.formData(), FIELDS);
+		return runFormAction(event, 'create', values, async () => {
+			if (!actor.emailVerified)
+				throw new ForbiddenError('Confirm your e-mail address before creating claims.');
+			const input = claimInputSchema.parse(values);
+			const { database } = await app();
+			const { id } = await createClaim(database, actor, input);
+			redirect(303, `/claims/${id}`);
+		});
 	}
 };

@@ -14,6 +14,7 @@ import { formFailure, pageProblem } from '$lib/server/http/problems';
 import { byteWords, groupStorage } from '$lib/server/accounts/group-storage';
 import { changeMemberRole, getGroup, removeMember } from '$lib/server/accounts/groups';
 import { takeOrRefuse } from '$lib/server/core/rate-limits';
+import { runFormAction } from '$lib/server/http/form-action';
 import { inviteMember, listInvitations, revokeInvitation } from '$lib/server/accounts/invitations';
 import type { Actions, PageServerLoad, RequestEvent } from './$types';
 
@@ -54,24 +55,17 @@ async function act<S extends z.ZodType<Record<string, string>>>(
 	const actor = requireSignedIn(event.locals, event.url);
 	const form = await event.request.formData();
 	const values = echoValues(form, ['email', 'role', 'userId']);
-	const parsed = schema.safeParse(formFields(form));
-	if (!parsed.success) return formFailure(action, parsed.error, values);
-	let next: string | void;
-	try {
-		next = await run(actor, parsed.data);
-	} catch (problem) {
-		return formFailure(action, problem, values);
-	}
-	redirect(303, next ?? `/group/${event.params.id}`);
+	return runFormAction(event, action, values, async () => {
+		const next = await run(actor, schema.parse(formFields(form)));
+		redirect(303, next ?? `/group/${event.params.id}`);
+	});
 }
 
 export const actions: Actions = {
 	invite: (event) =>
 		act(event, 'invite', inviteForm, async (actor, input) => {
-			const { database, mailer } = await app();
-			const what = 'You have sent many invitations in a short time.';
-			await takeOrRefuse('invitations', String(accountIdOf(actor)), what);
-			await inviteMember(database, mailer, actor, event.params.id, input);
+			const { database } = await app();
+			await inviteMember(database, actor, event.params.id, input);
 			return `/group/${event.params.id}?invited=${encodeURIComponent(input.email)}`;
 		}),
 	revoke: (event) =>

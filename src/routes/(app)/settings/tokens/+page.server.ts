@@ -2,6 +2,7 @@ import { redirect } from '@sveltejs/kit';
 import { app } from '$lib/server/app/app';
 import { echoValues, requireSignedIn } from '$lib/server/http/auth-web';
 import { formFailure } from '$lib/server/http/problems';
+import { runFormAction } from '$lib/server/http/form-action';
 import {
 	createToken,
 	listTokens,
@@ -24,30 +25,24 @@ export const load: PageServerLoad = async ({ locals, url }) => {
 };
 
 export const actions: Actions = {
-	create: async ({ request, locals, url }) => {
-		const actor = requireSignedIn(locals, url);
-		const form = await request.formData();
-		const values = echoValues(form, ['name', 'expiresInDays']);
-		const parsed = tokenInputSchema.safeParse(values);
-		if (!parsed.success) return formFailure('create', parsed.error, values);
-		const { database } = await app();
-		try {
-			const created = await createToken(database, actor, parsed.data);
+	create: async (event) => {
+		const actor = requireSignedIn(event.locals, event.url);
+		const values = echoValues(await event.request.formData(), ['name', 'expiresInDays']);
+		return runFormAction(event, 'create', values, async () => {
+			const input = tokenInputSchema.parse(values);
+			const { database } = await app();
+			const created = await createToken(database, actor, input);
 			// The secret is in this one answer only; the list shows its prefix from now on.
 			return { created: { id: created.id, name: created.name, token: created.token } };
-		} catch (problem) {
-			return formFailure('create', problem, values);
-		}
+		});
 	},
-	revoke: async ({ request, locals, url }) => {
-		const actor = requireSignedIn(locals, url);
-		const tokenId = String((await request.formData()).get('tokenId') ?? '');
-		const { database } = await app();
-		try {
+	revoke: async (event) => {
+		const actor = requireSignedIn(event.locals, event.url);
+		const tokenId = String((await event.request.formData()).get('tokenId') ?? '');
+		return runFormAction(event, 'revoke', {}, async () => {
+			const { database } = await app();
 			await revokeToken(database, actor, tokenId);
-		} catch (problem) {
-			return formFailure('revoke', problem);
-		}
-		redirect(303, '/settings/tokens');
+			redirect(303, '/settings/tokens');
+		});
 	}
 };

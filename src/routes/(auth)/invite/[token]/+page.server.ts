@@ -3,6 +3,7 @@ import { invitedAddressFor, isInvitee } from '$lib/server/access/permissions';
 import { app } from '$lib/server/app/app';
 import { clearSessionCookie, requireSignedIn } from '$lib/server/http/auth-web';
 import { formFailure } from '$lib/server/http/problems';
+import { runFormAction } from '$lib/server/http/form-action';
 import { signOut } from '$lib/server/accounts/accounts';
 import { acceptInvitation, findInvitation } from '$lib/server/accounts/invitation-links';
 import type { Actions, PageServerLoad } from './$types';
@@ -25,16 +26,13 @@ export const load: PageServerLoad = async ({ params, locals }) => {
 };
 
 export const actions: Actions = {
-	accept: async ({ params, locals, url }) => {
-		const actor = requireSignedIn(locals, url);
-		const { database } = await app();
-		let groupId: string;
-		try {
-			({ groupId } = await acceptInvitation(database, actor, params.token));
-		} catch (problem) {
-			return formFailure('accept', problem);
-		}
-		redirect(303, `/group/${groupId}`);
+	accept: async (event) => {
+		const actor = requireSignedIn(event.locals, event.url);
+		return runFormAction(event, 'accept', {}, async () => {
+			const { database } = await app();
+			const { groupId } = await acceptInvitation(database, actor, event.params.token);
+			redirect(303, `/group/${groupId}`);
+		});
 	},
 	/** Signed in with another address: sign out, then sign in as the invited one. */
 	switch: async ({ params, locals, cookies }) => {

@@ -8,7 +8,8 @@ import {
 } from '$lib/server/accounts/orcid-cookies';
 import { linkPendingByPassword } from '$lib/server/accounts/orcid-sign-in';
 import { app } from '$lib/server/app/app';
-import { echoValues, formRefusal, startSession } from '$lib/server/http/auth-web';
+import {echoValues, startSession } from '$lib/server/http/auth-web';
+import { formRefused } from '$lib/server/http/form-action';
 import { retryWords } from '$lib/server/core/rate-limits';
 import { FieldError } from '$lib/server/core/errors';
 import type { Actions, PageServerLoad } from './$types';
@@ -27,7 +28,7 @@ export const actions: Actions = {
 		const form = await event.request.formData();
 		const values = echoValues(form, ['email']);
 		const parsed = signInForm.safeParse(formFields(form));
-		if (!parsed.success) return formRefusal(event, 'link', parsed.error, values);
+		if (!parsed.success) return formRefused(event, 'link', parsed.error, values);
 		const { database, lucia } = await app();
 		const handle = event.cookies.get(PENDING_COOKIE);
 		let outcome;
@@ -36,12 +37,12 @@ export const actions: Actions = {
 				address: event.getClientAddress()
 			});
 		} catch (problem) {
-			return formRefusal(event, 'link', problem, values);
+			return formRefused(event, 'link', problem, values);
 		}
 		if (!outcome.userId) {
 			const wait = outcome.pauseSeconds;
 			const words = wait === null ? MISMATCH : `${MISMATCH} Try again ${retryWords(wait)}.`;
-			return formRefusal(event, 'link', new FieldError('', words), values);
+			return formRefused(event, 'link', new FieldError('', words), values);
 		}
 		dropOrcidCookie(event.cookies, PENDING_COOKIE);
 		dropOrcidCookie(event.cookies, ATTEMPT_COOKIE);

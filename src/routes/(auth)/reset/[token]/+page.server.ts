@@ -4,6 +4,7 @@ import { app } from '$lib/server/app/app';
 import { clearSessionCookie } from '$lib/server/http/auth-web';
 import { formFailure } from '$lib/server/http/problems';
 import { resetLinkState, resetPassword, type LinkResult } from '$lib/server/accounts/accounts';
+import { runFormAction } from '$lib/server/http/form-action';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ params }) => {
@@ -13,20 +14,17 @@ export const load: PageServerLoad = async ({ params }) => {
 };
 
 export const actions: Actions = {
-	reset: async ({ params, request, cookies, url }) => {
-		const parsed = newPasswordForm.safeParse(formFields(await request.formData()));
-		if (!parsed.success) return formFailure('reset', parsed.error);
-		const { database, lucia, mailer } = await app();
-		let result: LinkResult;
-		try {
-			result = await resetPassword(database, lucia, mailer, params.token, parsed.data.password);
-		} catch (problem) {
-			return formFailure('reset', problem);
-		}
-		// A used or expired link: the page, loaded again, says which.
-		if (!result.ok) redirect(303, url.pathname);
-		// Every session of the account has ended, this browser's included.
-		clearSessionCookie(lucia, cookies);
-		redirect(303, '/login?reset=1');
+	reset: async (event) => {
+		const form = await event.request.formData();
+		return runFormAction(event, 'reset', {}, async () => {
+			const { password } = newPasswordForm.parse(formFields(form));
+			const { database, lucia, mailer } = await app();
+			const result = await resetPassword(database, lucia, event.params.token, password);
+			// A used or expired link: the page, loaded again, says which.
+			if (!result.ok) redirect(303, event.url.pathname);
+			// Every session of the account has ended, this browser's included.
+			clearSessionCookie(lucia, event.cookies);
+			redirect(303, '/login?reset=1');
+		});
 	}
 };

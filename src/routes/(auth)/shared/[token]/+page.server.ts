@@ -2,6 +2,7 @@ import { error, redirect } from '@sveltejs/kit';
 import { app } from '$lib/server/app/app';
 import { echoValues, startSession } from '$lib/server/http/auth-web';
 import { formFailure } from '$lib/server/http/problems';
+import { runFormAction } from '$lib/server/http/form-action';
 import { findShareInvite, openShare, signUpEditor } from '$lib/server/review/share-open';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -22,20 +23,17 @@ export const load: PageServerLoad = async ({ params, locals }) => {
 };
 
 export const actions: Actions = {
-	signup: async ({ params, request, cookies }) => {
-		const form = await request.formData();
+	signup: async (event) => {
+		const form = await event.request.formData();
 		const values = echoValues(form, ['name']);
-		const { database, lucia } = await app();
-		let userId: string, claimId: string;
-		try {
-			({ userId, claimId } = await signUpEditor(database, params.token, {
+		return runFormAction(event, 'signup', values, async () => {
+			const { database, lucia } = await app();
+			const { userId, claimId } = await signUpEditor(database, event.params.token, {
 				name: String(form.get('name') ?? ''),
 				password: String(form.get('password') ?? '')
-			}));
-		} catch (problem) {
-			return formFailure('signup', problem, values);
-		}
-		await startSession(lucia, cookies, userId);
-		redirect(303, `/editor#claim-${claimId}`);
+			});
+			await startSession(lucia, event.cookies, userId);
+			redirect(303, `/editor#claim-${claimId}`);
+		});
 	}
 };

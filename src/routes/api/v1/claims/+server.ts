@@ -1,5 +1,6 @@
 import { json } from '@sveltejs/kit';
-import { claimJsonSchema, claimQuerySchema } from '$lib/claims/schema';
+import { claimQuerySchema } from '$lib/claims/filter';
+import { claimJsonSchema } from '$lib/claims/schema';
 import { apiEndpoint } from '$lib/server/http/api';
 import { readJson } from '$lib/server/http/read-body';
 import { createClaim, listClaims } from '$lib/server/claims/claims';

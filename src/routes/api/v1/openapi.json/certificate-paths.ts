@@ -103,16 +103,9 @@ export const certificatePaths = {
 			parameters: [idParameter('certificate')],
 			requestBody: {
 				required: true,
-				content: {
-					'application/json': {
-						schema: {
-							type: 'object',
-							required: ['reason'],
-							properties: { reason: { type: 'string', minLength: 3, maxLength: 500 } }
-						}
-					}
-				}
+				content: { 'application/json': { schema: ref('WithdrawInput') } }
 			},
+
 			responses: {
 				'200': reply('The certificate, now withdrawn.', 'Certificate'),
 				'400': failure('The reason is missing, too short or too long (code bad_input).'),

@@ -1,6 +1,7 @@
 /** The OpenAPI 3.1 description of /api/v1: exactly the endpoints under src/routes/api/v1. */
 import { MAX_COUNTS_FILE_BYTES, METHOD_IDS } from '$lib/certify';
 import { CLAIM_METHODS, CLAIM_SORTS, CLAIM_STATES } from '$lib/claims/schema';
+import { WITHDRAW_REASON } from '$lib/claims/withdrawal';
 import { certificatePaths } from './certificate-paths';
 import { citationPaths } from './citation-paths';
 import { planPaths, planSchemas } from './plan-paths';
@@ -64,7 +65,11 @@ export const openApiDocument = {
 					query('state', { type: 'string', enum: CLAIM_STATES }, 'Only claims in this state.'),
 					query('method', { type: 'string', enum: CLAIM_METHODS }, 'Only claims of this method.'),
 					query('sort', { type: 'string', enum: CLAIM_SORTS, default: 'createdAt' }, 'Sort key.'),
-					query('order', { type: 'string', enum: ['asc', 'desc'], default: 'desc' }, 'Sort order.'),
+					query(
+						'order',
+						{ type: 'string', enum: ['asc', 'desc'] },
+						'Sort order; by default asc for title and state, desc for the other keys (as on the page).'
+					),
 					query('page', { type: 'integer', minimum: 1, default: 1 }, 'Page number, from 1.'),
 					query(
 						'pageSize',

@@ -2,6 +2,7 @@ import { redirect } from '@sveltejs/kit';
 import { app } from '$lib/server/app/app';
 import { requireSignedIn } from '$lib/server/http/auth-web';
 import { formFailure, pageProblem } from '$lib/server/http/problems';
+import { runFormAction } from '$lib/server/http/form-action';
 import { getOutboxMessage, requeueOutboxMessage } from '$lib/server/mail/mail-outbox';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -15,15 +16,13 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 };
 
 export const actions: Actions = {
-	requeue: async ({ locals, params, url }) => {
-		const actor = requireSignedIn(locals, url);
-		const { database, mailRunner } = await app();
-		try {
-			await requeueOutboxMessage(database, actor, params.id);
-		} catch (problem) {
-			return formFailure('requeue', problem);
-		}
-		mailRunner.wake();
-		redirect(303, `/admin/outbox/${params.id}`);
+	requeue: async (event) => {
+		const actor = requireSignedIn(event.locals, event.url);
+		return runFormAction(event, 'requeue', {}, async () => {
+			const { database, mailRunner } = await app();
+			await requeueOutboxMessage(database, actor, event.params.id);
+			mailRunner.wake();
+			redirect(303, `/admin/outbox/${event.params.id}`);
+		});
 	}
 };

@@ -3,6 +3,7 @@ import { CLAIM_FIELDS } from '$lib/claims/schema';
 import { app } from '$lib/server/app/app';
 import { echoValues, requireSignedIn } from '$lib/server/http/auth-web';
 import { formFailure, pageProblem } from '$lib/server/http/problems';
+import { runFormAction } from '$lib/server/http/form-action';
 import { claimForEditing, updateClaim } from '$lib/server/claims/claim-edit';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -26,16 +27,14 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 };
 
 export const actions: Actions = {
-	save: async ({ request, locals, params, url }) => {
-		const actor = requireSignedIn(locals, url);
-		const values = echoValues(await request.formData(), FIELDS);
-		const { database } = await app();
-		try {
+	save: async (event) => {
+		const actor = requireSignedIn(event.locals, event.url);
+		const values = echoValues(await event.request.formData(), FIELDS);
+		return runFormAction(event, 'save', values, async () => {
+			const { database } = await app();
 			// updateClaim validates, with the declared target and trials settings kept as made.
-			await updateClaim(database, actor, params.id, values);
-		} catch (problem) {
-			return formFailure('save', problem, values);
-		}
-		redirect(303, `/claims/${params.id}`);
+			await updateClaim(database, actor, event.params.id, values);
+			redirect(303, `/claims/${event.params.id}`);
+		});
 	}
 };

@@ -2,6 +2,7 @@ import { redirect } from '@sveltejs/kit';
 import { app } from '$lib/server/app/app';
 import { requireSignedIn } from '$lib/server/http/auth-web';
 import { formFailure, pageProblem } from '$lib/server/http/problems';
+import { runFormAction } from '$lib/server/http/form-action';
 import { getClaim } from '$lib/server/claims/claims';
 import { releasedReports } from '$lib/server/review/reports';
 import { listShares, shareClaim, withdrawShare } from '$lib/server/review/shares';
@@ -23,31 +24,27 @@ export const load: PageServerLoad = async ({ locals, url, params }) => {
 const field = (form: FormData, key: string) => String(form.get(key) ?? '');
 
 export const actions: Actions = {
-	share: async ({ locals, request, url, params }) => {
-		const actor = requireSignedIn(locals, url);
-		const form = await request.formData();
+	share: async (event) => {
+		const actor = requireSignedIn(event.locals, event.url);
+		const form = await event.request.formData();
 		const values = {
 			email: field(form, 'email'),
 			journal: field(form, 'journal'),
 			manuscript: field(form, 'manuscript')
 		};
-		const { database, mailer } = await app();
-		try {
-			await shareClaim(database, mailer, actor, params.id, values);
-		} catch (problem) {
-			return formFailure('share', problem, values);
-		}
-		redirect(303, `/claims/${params.id}/sharing`);
+		return runFormAction(event, 'share', values, async () => {
+			const { database } = await app();
+			await shareClaim(database, actor, event.params.id, values);
+			redirect(303, `/claims/${event.params.id}/sharing`);
+		});
 	},
-	withdraw: async ({ locals, request, url, params }) => {
-		const actor = requireSignedIn(locals, url);
-		const shareId = field(await request.formData(), 'shareId');
-		const { database } = await app();
-		try {
+	withdraw: async (event) => {
+		const actor = requireSignedIn(event.locals, event.url);
+		const shareId = field(await event.request.formData(), 'shareId');
+		return runFormAction(event, 'withdraw', { shareId }, async () => {
+			const { database } = await app();
 			await withdrawShare(database, actor, shareId);
-		} catch (problem) {
-			return formFailure('withdraw', problem, { shareId });
-		}
-		redirect(303, `/claims/${params.id}/sharing`);
+			redirect(303, `/claims/${event.params.id}/sharing`);
+		});
 	}
 };

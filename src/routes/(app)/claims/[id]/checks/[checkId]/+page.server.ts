@@ -6,6 +6,7 @@ import { targetCommand } from '$lib/evidence/target-command';
 import { app } from '$lib/server/app/app';
 import { requireSignedIn } from '$lib/server/http/auth-web';
 import { formFailure, pageProblem } from '$lib/server/http/problems';
+import { runFormAction } from '$lib/server/http/form-action';
 import { listCertificates, mayIssueCertificate } from '$lib/server/certificates/certificate-reads';
 import { issueCertificate } from '$lib/server/certificates/certificates';
 import { cancelCheck, getCheck, mayCancelCheck } from '$lib/server/checks/checks';
@@ -49,29 +50,26 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 
 export const actions: Actions = {
 	/** Issues a signed certificate for this finished check, then shows it. */
-	issue: async ({ locals, params, url }) => {
-		const actor = requireSignedIn(locals, url);
-		const { database } = await app();
-		let certificateId: string;
-		try {
-			certificateId = (await issueCertificate(database, actor, params.id, params.checkId)).id;
-		} catch (problem) {
-			return formFailure('issue', problem);
-		}
-		redirect(303, `/claims/${params.id}/certificates/${certificateId}`);
+	issue: async (event) => {
+		const actor = requireSignedIn(event.locals, event.url);
+		const { id, checkId } = event.params;
+		return runFormAction(event, 'issue', {}, async () => {
+			const { database } = await app();
+			const certificate = await issueCertificate(database, actor, id, checkId);
+			redirect(303, `/claims/${id}/certificates/${certificate.id}`);
+		});
 	},
 
 	/** Cancels this check while it is queued or running; 409 beside the button once it has ended. */
-	cancel: async ({ locals, params, url }) => {
-		const actor = requireSignedIn(locals, url);
-		const { database } = await app();
-		try {
-			const check = await getCheck(database, actor, params.checkId);
-			if (check.claimId !== params.id) error(404, { message: 'No such check.', code: 'not_found' });
+	cancel: async (event) => {
+		const actor = requireSignedIn(event.locals, event.url);
+		const { id, checkId } = event.params;
+		return runFormAction(event, 'cancel', {}, async () => {
+			const { database } = await app();
+			const check = await getCheck(database, actor, checkId);
+			if (check.claimId !== id) error(404, { message: 'No such check.', code: 'not_found' });
 			await cancelCheck(database, actor, check.id);
-		} catch (problem) {
-			return formFailure('cancel', problem);
-		}
-		redirect(303, `/claims/${params.id}/checks/${params.checkId}`);
+			redirect(303, `/claims/${id}/checks/${checkId}`);
+		});
 	}
 };

@@ -13,5 +13,5 @@ export const GET: RequestHandler = apiEndpoint(async ({ event, database, actor }
 export const POST: RequestHandler = apiEndpoint(async ({ event, database, actor }) => {
 	const input = await readJson(event.request, shareInputSchema);
 	const { mailer } = await app();
-	return json(await shareClaim(database, mailer, actor, event.params.id!, input), { status: 201 });
+	return json(await shareClaim(database, actor, event.params.id!, input), { status: 201 });
 });

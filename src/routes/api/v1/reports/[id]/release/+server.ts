@@ -6,5 +6,5 @@ import type { RequestHandler } from './$types';
 
 /** The editor releases a filed report to the claim's authors. */
 export const POST: RequestHandler = apiEndpoint(async ({ event, database, actor }) =>
-	json(await releaseReport(database, (await app()).mailer, actor, event.params.id!))
+	json(await releaseReport(database, actor, event.params.id!))
 );

@@ -12,6 +12,6 @@ export const GET: RequestHandler = reviewEndpoint(async ({ database, actor }) =>
 /** Saves the report; `submit: false` keeps a draft, anything else files it (then it is fixed). */
 export const POST: RequestHandler = reviewEndpoint(async ({ event, database, actor }) => {
 	const input = await readJson(event.request, reportJsonSchema);
-	const report = await saveReport(database, (await app()).mailer, actor, input);
+	const report = await saveReport(database, actor, input);
 	return json(report, { status: report.state === 'draft' ? 200 : 201 });
 });
