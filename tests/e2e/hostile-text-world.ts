@@ -10,7 +10,6 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import type { RefereeActor, UserActor } from '../../src/lib/server/core/actor';
 import { openDatabase } from '../../src/lib/server/db';
-import type { Mailer } from '../../src/lib/server/mail/mail';
 import { issueCertificate } from '../../src/lib/server/certificates/certificates';
 import { withdrawClaim } from '../../src/lib/server/claims/claim-withdraw';
 import { createClaim } from '../../src/lib/server/claims/claims';

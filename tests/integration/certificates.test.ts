@@ -5,7 +5,6 @@ import {
 	mkdirSync,
 	mkdtempSync,
 	readdirSync,
-	readFileSync,
 	rmSync,
 	statSync,
 	writeFileSync

@@ -123,7 +123,7 @@ async function editorNamed(email: string) {
 
 /** The editor's review link (its label), the referee's report (its comments), its release. */
 async function review(editor: ReturnType<typeof asUser>, claimId: string, t: Texts) {
-	const { database: db, mailer } = world;
+	const { database: db } = world;
 	const link = await step(() => createReviewLink(db, editor, claimId, { label: t.label }));
 	const made = 'value' in link ? link.value : await createReviewLink(db, editor, claimId, {});
 	const referee = { kind: 'referee' as const, claimId, linkId: made.id };

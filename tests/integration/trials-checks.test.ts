@@ -25,7 +25,6 @@ import { issueCertificate } from '../../src/lib/server/certificates/certificates
 import { createClaim, getClaim } from '../../src/lib/server/claims/claims';
 import { updateClaim } from '../../src/lib/server/claims/claim-edit';
 import { addDataset } from '../../src/lib/server/datasets/datasets';
-import { ConflictError } from '../../src/lib/server/core/errors';
 import { addGroup, addUser, bytesOf, claimFields } from './backend-fixtures';
 import { asUser } from './actors';
 import { temporaryDatabase } from './db';

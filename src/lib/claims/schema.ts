@@ -15,8 +15,7 @@ import {
 	RESAMPLES,
 	resamplesCeiling,
 	witnessFamilies,
-	type FourierConvention,
-	type MethodId
+	type FourierConvention
 } from '$lib/certify';
 import { basisProblem } from '$lib/certify/bases';
 import { MAX_SEED } from '$lib/certify/poisson';

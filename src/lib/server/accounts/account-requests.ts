@@ -9,7 +9,7 @@ import { UniqueConstraintError, type Transaction } from 'sequelize';
 import { hashPassword } from './auth';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
-import { mailLink, type Mailer } from '../mail/mail';
+import { mailLink } from '../mail/mail';
 import { takeOrRefuse } from '../core/rate-limits';
 import { EMAIL_TAKEN, checkPassword, normaliseEmail } from './account-rules';
 import { audit } from '../core/audit';

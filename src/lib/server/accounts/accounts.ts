@@ -8,7 +8,7 @@ import { requireService } from '../access/permissions';
 import { hashPassword, verifyPassword, type AppLucia } from './auth';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
-import { mailLink, type Mailer } from '../mail/mail';
+import { mailLink } from '../mail/mail';
 import { takeOrRefuse } from '../core/rate-limits';
 import { queueVerification } from './account-requests';
 import { checkPassword, normaliseEmail } from './account-rules';

@@ -8,7 +8,7 @@ import { requireGroup } from '../access/permissions';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
 import type { GroupRole } from '../db/models/Membership';
-import { mailLink, type Mailer } from '../mail/mail';
+import { mailLink } from '../mail/mail';
 import { takeOrRefuse } from '../core/rate-limits';
 import { normaliseEmail } from './accounts';
 import { audit } from '../core/audit';

@@ -19,8 +19,6 @@ import { stopOnSignals } from './signals';
 import { startDoiRunner, type DoiRunner } from '../certificates/doi-runner';
 import { queueMissingDois } from '../certificates/doi-backfill';
 import { startOrcid, type OrcidService } from '../accounts/orcid-settings';
-import { sweepOrphanFiles } from '../storage/certificate-store';
-import { sweepUploadFiles } from '../storage/counts-sweep';
 
 export interface AppServices {
 	database: Database;

@@ -6,7 +6,6 @@ import type { CertificateAttributes } from '../db/models/Certificate';
 import type {
 	CertificateAnalyses,
 	CertificateDoi,
-	CertificateKind,
 	CertificateUrls,
 	CertificateView,
 	PublicCertificate

@@ -4,7 +4,7 @@
  */
 import { col, type Transaction } from 'sequelize';
 import { checkRequestSchemaFor, type CheckRequest } from '$lib/claims/schema';
-import { DEFAULTS, type CertificationResult } from '$lib/certify';
+import { DEFAULTS } from '$lib/certify';
 import { accountIdOf, type Actor } from '../core/actor';
 import { requireCheckCancel, requireClaim } from '../access/permissions';
 import { checkBucket } from '../checks/queue';

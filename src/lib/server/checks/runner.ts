@@ -9,8 +9,6 @@ import { literal } from 'sequelize';
 import type { CertificationResult } from '$lib/certify';
 import type { Database } from '../db';
 import { ACTIVE_CHECK_STATUSES, type CheckModel } from '../db/models/Check';
-import { type CheckAttributes } from '../db/models/Check';
-import { datasetFilePath } from '../storage/counts-store';
 import { FairScheduler } from './fair-scheduler';
 import { recordOutcome } from './outcome';
 import { sweepLeftChecks } from './left-behind';

@@ -3,12 +3,7 @@
  * same counts in any of the group's claims, with its settings, seed, who ran it and when.
  * Members only ('read-analyses'): it names the group's other claims.
  */
-import {
-	distinctAnalyses,
-	analysisRuns,
-	countsSha256Of,
-	type AnalysisRun
-} from '../checks/analyses';
+import { distinctAnalyses, analysisRuns, countsSha256Of } from '../checks/analyses';
 import { requireClaim } from '../access/permissions';
 import type { Actor } from '../core/actor';
 import type { Database } from '../db';

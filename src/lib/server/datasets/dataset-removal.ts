@@ -3,14 +3,12 @@
  * part of a result and stays). The row goes, with an audit event; the bytes go once no row of
  * any claim names them.
  */
-import { rm } from 'node:fs/promises';
 import { accountIdOf, type Actor } from '../core/actor';
 import { requireClaim } from '../access/permissions';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
 import { audit } from '../core/audit';
 import { removeCounts } from '../storage/counts-store';
-import { datasetFilePath } from '../storage/counts-store';
 import { ConflictError, NotFoundError } from '../core/errors';
 
 export async function removeDataset(

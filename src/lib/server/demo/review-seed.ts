@@ -9,7 +9,6 @@ import { userActor } from '../core/actor';
 import { startCheckRunner } from '../checks/registry';
 import { config } from '../core/config';
 import type { Database } from '../db';
-import type { Mailer } from '../mail/mail';
 import { issueCertificate } from '../certificates/certificates';
 import { saveReport } from '../review/reports';
 import { createReviewLink, resolveReviewToken } from '../review/review-links';

@@ -10,7 +10,6 @@ import path from 'node:path';
 import { hashPassword } from '../accounts/auth';
 import { config } from '../core/config';
 import type { Database } from '../db';
-import type { Mailer } from '../mail/mail';
 import { userActor } from '../core/actor';
 import { writeTransaction } from '../db/transactions';
 import { startCheck } from '../checks/checks';

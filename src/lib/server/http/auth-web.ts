@@ -1,9 +1,7 @@
 /** Small helpers shared by the pages: the signed-in caller, session cookies, safe ?next= paths. */
-import { redirect, type ActionFailure, type Cookies, type RequestEvent } from '@sveltejs/kit';
+import { redirect, type Cookies } from '@sveltejs/kit';
 import type { UserActor } from '../core/actor';
 import type { AppLucia } from '../accounts/auth';
-import { formFailure, type FormProblem } from './problems';
-import { RateLimitedError } from '../core/errors';
 
 const HOME = 'http://rankseal.invalid';
 

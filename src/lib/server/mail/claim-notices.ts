@@ -3,7 +3,6 @@
  * the claim's author and the group's leads, queued in the transaction of the event itself.
  */
 import type { Transaction } from 'sequelize';
-import { config } from '../core/config';
 import type { Database } from '../db';
 import type { EvidenceManifest } from '$lib/evidence/manifest';
 import { isTrialsManifest } from '$lib/evidence/trials-evidence';

@@ -3,7 +3,6 @@
  * who made one, in the issue's own transaction (the notice exists exactly when the certificate does).
  */
 import { Op, type Transaction } from 'sequelize';
-import { config } from '../core/config';
 import type { Database } from '../db';
 import { mailLink } from './mail';
 import { sendNotice } from './notices';

@@ -6,10 +6,10 @@ import { Op } from 'sequelize';
 import type { Actor } from '../core/actor';
 import { requireService } from '../access/permissions';
 import type { Database } from '../db';
-import { certificateView, type CertificateView } from '../certificates/certificate-views';
-import { reportView, type ReportView } from './reports';
-import { reviewLinkView, type ReviewLinkView } from './review-links';
-import { shareView, type ShareView } from './shares';
+import { certificateView } from '../certificates/certificate-views';
+import { reportView } from './reports';
+import { reviewLinkView } from './review-links';
+import { shareView } from './shares';
 import { doisOf } from '../certificates/doi-view';
 import type { SharedClaim } from '$lib/views/review';
 

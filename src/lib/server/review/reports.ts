@@ -12,7 +12,7 @@ import { requireClaim } from '../access/permissions';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
 import { RECOMMENDATIONS, type ReportAttributes } from '../db/models/Report';
-import { mailLink, type Mailer } from '../mail/mail';
+import { mailLink } from '../mail/mail';
 import { audit } from '../core/audit';
 import { ConflictError, NotFoundError } from '../core/errors';
 import { newId } from '../core/ids';

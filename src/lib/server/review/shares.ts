@@ -10,7 +10,7 @@ import { requireClaim } from '../access/permissions';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
 import type { ShareAttributes } from '../db/models/Share';
-import { mailLink, type Mailer } from '../mail/mail';
+import { mailLink } from '../mail/mail';
 import { audit } from '../core/audit';
 import { ConflictError, NotFoundError } from '../core/errors';
 import { hashSecret, newId, newSecret } from '../core/ids';

@@ -2,7 +2,6 @@ import { redirect } from '@sveltejs/kit';
 import { orcidForAccount, unlinkOrcid } from '$lib/server/accounts/orcid-links';
 import { app } from '$lib/server/app/app';
 import { clearSessionCookie, requireSignedIn } from '$lib/server/http/auth-web';
-import { takeOrRefuse } from '$lib/server/core/rate-limits';
 import { runFormAction } from '$lib/server/http/form-action';
 import { resendVerification, signOut, signOutEverywhere } from '$lib/server/accounts/accounts';
 import type { Actions, PageServerLoad } from './$types';

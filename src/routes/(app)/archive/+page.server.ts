@@ -3,7 +3,7 @@ import { z } from 'zod';
 import { archiveFilterSchema } from '$lib/archive/schema';
 import { app } from '$lib/server/app/app';
 import { echoValues, requireSignedIn } from '$lib/server/http/auth-web';
-import { fieldErrors, formFailure, pageProblem } from '$lib/server/http/problems';
+import { fieldErrors, pageProblem } from '$lib/server/http/problems';
 import { withdrawReasonField } from '$lib/claims/withdrawal';
 import { runFormAction } from '$lib/server/http/form-action';
 import { groupArchive } from '$lib/server/claims/archive';

@@ -1,6 +1,6 @@
 import { app } from '$lib/server/app/app';
 import { requireSignedIn } from '$lib/server/http/auth-web';
-import { formFailure, pageProblem } from '$lib/server/http/problems';
+import { pageProblem } from '$lib/server/http/problems';
 import { runFormAction } from '$lib/server/http/form-action';
 import { editorHome } from '$lib/server/review/editor-home';
 import { releaseReport } from '$lib/server/review/reports';

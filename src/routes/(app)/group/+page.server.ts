@@ -2,7 +2,6 @@ import { redirect } from '@sveltejs/kit';
 import { formFields, groupNameForm } from '$lib/server/accounts/account-forms';
 import { app } from '$lib/server/app/app';
 import { echoValues, requireSignedIn } from '$lib/server/http/auth-web';
-import { formFailure } from '$lib/server/http/problems';
 import { runFormAction } from '$lib/server/http/form-action';
 import { createGroup } from '$lib/server/accounts/groups';
 import type { Actions, PageServerLoad } from './$types';

@@ -2,7 +2,6 @@ import { redirect } from '@sveltejs/kit';
 import { formFields, resetRequestForm } from '$lib/server/accounts/account-forms';
 import { app } from '$lib/server/app/app';
 import { echoValues } from '$lib/server/http/auth-web';
-import { takeOrRefuse } from '$lib/server/core/rate-limits';
 import { runFormAction } from '$lib/server/http/form-action';
 import { requestPasswordReset } from '$lib/server/accounts/accounts';
 import type { Actions, PageServerLoad } from './$types';

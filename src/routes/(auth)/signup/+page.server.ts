@@ -2,7 +2,6 @@ import { redirect } from '@sveltejs/kit';
 import { formFields, signUpForm } from '$lib/server/accounts/account-forms';
 import { app } from '$lib/server/app/app';
 import { echoValues, safeNext, startSession } from '$lib/server/http/auth-web';
-import { takeOrRefuse } from '$lib/server/core/rate-limits';
 import { runFormAction } from '$lib/server/http/form-action';
 import { signUp } from '$lib/server/accounts/accounts';
 import { invitationTokenIn } from '$lib/server/accounts/invitation-links';
@@ -20,7 +19,7 @@ export const actions: Actions = {
 		const values = echoValues(form, ['name', 'email']);
 		return runFormAction(event, 'signup', values, async () => {
 			const input = signUpForm.parse(formFields(form));
-			const { database, lucia, mailer } = await app();
+			const { database, lucia } = await app();
 			const next = safeNext(form.get('next') as string | null, '/group');
 			const invitationToken = invitationTokenIn(next);
 			const address = event.getClientAddress();

@@ -1,7 +1,7 @@
 import { error, redirect } from '@sveltejs/kit';
 import { app } from '$lib/server/app/app';
-import {  } from '$lib/server/http/auth-web';
-import { formFailure, pageProblem } from '$lib/server/http/problems';
+import {} from '$lib/server/http/auth-web';
+import { pageProblem } from '$lib/server/http/problems';
 import { runFormAction } from '$lib/server/http/form-action';
 import { INVALID_REVIEW_LINK } from '$lib/server/http/review-api';
 import {

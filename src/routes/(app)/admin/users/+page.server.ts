@@ -2,7 +2,7 @@ import { redirect } from '@sveltejs/kit';
 import { accountRoleForm, formFields } from '$lib/server/accounts/account-forms';
 import { app } from '$lib/server/app/app';
 import { echoValues, requireSignedIn } from '$lib/server/http/auth-web';
-import { formFailure, pageProblem } from '$lib/server/http/problems';
+import { pageProblem } from '$lib/server/http/problems';
 import { runFormAction } from '$lib/server/http/form-action';
 import { listUsers, setAccountRole } from '$lib/server/accounts/account-roles';
 import type { Actions, PageServerLoad } from './$types';

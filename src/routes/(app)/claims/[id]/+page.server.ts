@@ -3,15 +3,13 @@ import { checkRequestSchema } from '$lib/claims/schema';
 import { claimOffers } from '$lib/server/access/permissions';
 import { app } from '$lib/server/app/app';
 import { echoValues, requireSignedIn } from '$lib/server/http/auth-web';
-import { formFailure, pageProblem } from '$lib/server/http/problems';
+import { pageProblem } from '$lib/server/http/problems';
 import { listCertificates } from '$lib/server/certificates/certificate-reads';
 import { startCheck, listChecks } from '$lib/server/checks/checks';
 import { getClaim } from '$lib/server/claims/claims';
 import { datasetTables, listDatasets } from '$lib/server/datasets/datasets';
 import { addCountsFiles } from '$lib/server/datasets/counts-files';
-import { countsFilesOfForm } from '$lib/server/http/counts-form';
 import { runFormAction } from '$lib/server/http/form-action';
-import { addDataset } from '$lib/server/datasets/datasets';
 import { withUploadSlot } from '$lib/server/datasets/upload-slots';
 import { removeDataset } from '$lib/server/datasets/dataset-removal';
 import { countsRecord } from '$lib/server/datasets/counts-record';
@@ -19,12 +17,12 @@ import { withdrawClaim } from '$lib/server/claims/claim-withdraw';
 import { ForbiddenError } from '$lib/server/core/errors';
 import { uploadFrom } from './upload-form';
 import { withdrawConfirmSchema } from './withdraw-schema';
+import type { Actions, PageServerLoad } from './$types';
 
 const membersOnly = (problem: unknown) => {
 	if (problem instanceof ForbiddenError) return null;
 	throw problem;
 };
-import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ locals, params, url }) => {
 	const actor = requireSignedIn(locals, url);

@@ -2,7 +2,6 @@ import { redirect } from '@sveltejs/kit';
 import { CLAIM_FIELDS, claimInputSchema } from '$lib/claims/schema';
 import { app } from '$lib/server/app/app';
 import { echoValues, requireSignedIn } from '$lib/server/http/auth-web';
-import { formFailure } from '$lib/server/http/problems';
 import { runFormAction } from '$lib/server/http/form-action';
 import { createClaim } from '$lib/server/claims/claims';
 import { ForbiddenError } from '$lib/server/core/errors';

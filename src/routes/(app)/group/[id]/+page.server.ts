@@ -8,12 +8,11 @@ import {
 	memberRoleForm
 } from '$lib/server/accounts/account-forms';
 import { app } from '$lib/server/app/app';
-import { accountIdOf, type Actor } from '$lib/server/core/actor';
+import { type Actor } from '$lib/server/core/actor';
 import { echoValues, requireSignedIn } from '$lib/server/http/auth-web';
-import { formFailure, pageProblem } from '$lib/server/http/problems';
+import { pageProblem } from '$lib/server/http/problems';
 import { byteWords, groupStorage } from '$lib/server/accounts/group-storage';
 import { changeMemberRole, getGroup, removeMember } from '$lib/server/accounts/groups';
-import { takeOrRefuse } from '$lib/server/core/rate-limits';
 import { runFormAction } from '$lib/server/http/form-action';
 import { inviteMember, listInvitations, revokeInvitation } from '$lib/server/accounts/invitations';
 import type { Actions, PageServerLoad, RequestEvent } from './$types';

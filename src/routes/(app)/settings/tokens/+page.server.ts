@@ -1,7 +1,6 @@
 import { redirect } from '@sveltejs/kit';
 import { app } from '$lib/server/app/app';
 import { echoValues, requireSignedIn } from '$lib/server/http/auth-web';
-import { formFailure } from '$lib/server/http/problems';
 import { runFormAction } from '$lib/server/http/form-action';
 import {
 	createToken,

@@ -2,7 +2,6 @@ import { error, redirect } from '@sveltejs/kit';
 import { invitedAddressFor, isInvitee } from '$lib/server/access/permissions';
 import { app } from '$lib/server/app/app';
 import { clearSessionCookie, requireSignedIn } from '$lib/server/http/auth-web';
-import { formFailure } from '$lib/server/http/problems';
 import { runFormAction } from '$lib/server/http/form-action';
 import { signOut } from '$lib/server/accounts/accounts';
 import { acceptInvitation, findInvitation } from '$lib/server/accounts/invitation-links';

@@ -2,8 +2,7 @@ import { redirect } from '@sveltejs/kit';
 import { formFields, newPasswordForm } from '$lib/server/accounts/account-forms';
 import { app } from '$lib/server/app/app';
 import { clearSessionCookie } from '$lib/server/http/auth-web';
-import { formFailure } from '$lib/server/http/problems';
-import { resetLinkState, resetPassword, type LinkResult } from '$lib/server/accounts/accounts';
+import { resetLinkState, resetPassword } from '$lib/server/accounts/accounts';
 import { runFormAction } from '$lib/server/http/form-action';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -18,7 +17,7 @@ export const actions: Actions = {
 		const form = await event.request.formData();
 		return runFormAction(event, 'reset', {}, async () => {
 			const { password } = newPasswordForm.parse(formFields(form));
-			const { database, lucia, mailer } = await app();
+			const { database, lucia } = await app();
 			const result = await resetPassword(database, lucia, event.params.token, password);
 			// A used or expired link: the page, loaded again, says which.
 			if (!result.ok) redirect(303, event.url.pathname);

@@ -1,7 +1,6 @@
 import { error, redirect } from '@sveltejs/kit';
 import { app } from '$lib/server/app/app';
 import { echoValues, startSession } from '$lib/server/http/auth-web';
-import { formFailure } from '$lib/server/http/problems';
 import { runFormAction } from '$lib/server/http/form-action';
 import { findShareInvite, openShare, signUpEditor } from '$lib/server/review/share-open';
 import type { Actions, PageServerLoad } from './$types';

@@ -1,7 +1,6 @@
 /** The OpenAPI 3.1 description of /api/v1: exactly the endpoints under src/routes/api/v1. */
-import { MAX_COUNTS_FILE_BYTES, METHOD_IDS } from '$lib/certify';
+import { MAX_COUNTS_FILE_BYTES } from '$lib/certify';
 import { CLAIM_METHODS, CLAIM_SORTS, CLAIM_STATES } from '$lib/claims/schema';
-import { WITHDRAW_REASON } from '$lib/claims/withdrawal';
 import { certificatePaths } from './certificate-paths';
 import { citationPaths } from './citation-paths';
 import { planPaths, planSchemas } from './plan-paths';

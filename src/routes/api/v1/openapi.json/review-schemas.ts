@@ -1,6 +1,5 @@
 /** JSON Schemas of sharing, review links and reports (issue 9), beside review-paths.ts. */
 import { RECOMMENDATIONS } from '$lib/server/db/models/Report';
-import { REVIEW_LINK_DEFAULT_DAYS, REVIEW_LINK_MAX_DAYS } from '$lib/server/review/review-links';
 
 const ref = (name: string) => ({ $ref: `#/components/schemas/${name}` });
 const text = { type: 'string' };

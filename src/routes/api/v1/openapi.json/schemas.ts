@@ -1,18 +1,8 @@
 /** JSON Schemas (OpenAPI 3.1 components) of the API's bodies, kept beside the document. */
-import {
-	CELL_RESAMPLES_BUDGET,
-	CONFIDENCE,
-	DEFAULT_FOURIER,
-	DEFAULTS,
-	FOURIER_CONVENTIONS,
-	MAX_DIMENSION,
-	METHOD_IDS,
-	RESAMPLES
-} from '$lib/certify';
+import { FOURIER_CONVENTIONS, METHOD_IDS } from '$lib/certify';
 import { CLAIM_METHODS, CLAIM_STATES } from '$lib/claims/schema';
 import { CHECK_STATUSES } from '$lib/server/db/models/Check';
 import { PROBLEM_CODES } from '$lib/server/http/problems';
-import { TOKEN_DEFAULT_DAYS, TOKEN_MAX_DAYS } from '$lib/server/accounts/tokens';
 
 const ref = (name: string) => ({ $ref: `#/components/schemas/${name}` });
 const text = { type: 'string' };

@@ -1,7 +1,7 @@
 import { redirect } from '@sveltejs/kit';
 import { app } from '$lib/server/app/app';
 import { requireSignedIn } from '$lib/server/http/auth-web';
-import { formFailure, pageProblem } from '$lib/server/http/problems';
+import { pageProblem } from '$lib/server/http/problems';
 import { runFormAction } from '$lib/server/http/form-action';
 import { getOutboxMessage, requeueOutboxMessage } from '$lib/server/mail/mail-outbox';
 import type { Actions, PageServerLoad } from './$types';

@@ -2,7 +2,7 @@ import { redirect } from '@sveltejs/kit';
 import { CLAIM_FIELDS } from '$lib/claims/schema';
 import { app } from '$lib/server/app/app';
 import { echoValues, requireSignedIn } from '$lib/server/http/auth-web';
-import { formFailure, pageProblem } from '$lib/server/http/problems';
+import { pageProblem } from '$lib/server/http/problems';
 import { runFormAction } from '$lib/server/http/form-action';
 import { claimForEditing, updateClaim } from '$lib/server/claims/claim-edit';
 import type { Actions, PageServerLoad } from './$types';

@@ -1,7 +1,7 @@
 import { redirect } from '@sveltejs/kit';
 import { app } from '$lib/server/app/app';
 import { requireSignedIn } from '$lib/server/http/auth-web';
-import { formFailure, pageProblem } from '$lib/server/http/problems';
+import { pageProblem } from '$lib/server/http/problems';
 import { runFormAction } from '$lib/server/http/form-action';
 import { getClaim } from '$lib/server/claims/claims';
 import { releasedReports } from '$lib/server/review/reports';

@@ -5,7 +5,7 @@ import { isTargetResult } from '$lib/certify/fidelity-target';
 import { targetCommand } from '$lib/evidence/target-command';
 import { app } from '$lib/server/app/app';
 import { requireSignedIn } from '$lib/server/http/auth-web';
-import { formFailure, pageProblem } from '$lib/server/http/problems';
+import { pageProblem } from '$lib/server/http/problems';
 import { runFormAction } from '$lib/server/http/form-action';
 import { listCertificates, mayIssueCertificate } from '$lib/server/certificates/certificate-reads';
 import { issueCertificate } from '$lib/server/certificates/certificates';

@@ -1,6 +1,5 @@
 import { json } from '@sveltejs/kit';
 import { issueJsonSchema } from '$lib/claims/api-bodies';
-import { z } from 'zod';
 import { apiEndpoint } from '$lib/server/http/api';
 import { readJson } from '$lib/server/http/read-body';
 import { listCertificates } from '$lib/server/certificates/certificate-reads';

@@ -3,7 +3,6 @@ import { apiEndpoint } from '$lib/server/http/api';
 import { readCountsUpload } from '$lib/server/http/multipart';
 import { addCountsFiles } from '$lib/server/datasets/counts-files';
 import { listDatasets } from '$lib/server/datasets/datasets';
-import { addDataset } from '$lib/server/datasets/datasets';
 import { withUploadSlot } from '$lib/server/datasets/upload-slots';
 
 export const GET = apiEndpoint(async ({ event, actor, database }) => {

@@ -1,7 +1,6 @@
 import { json } from '@sveltejs/kit';
 import { apiEndpoint } from '$lib/server/http/api';
 import { readJson } from '$lib/server/http/read-body';
-import { app } from '$lib/server/app/app';
 import { listShares, shareClaim, shareInputSchema } from '$lib/server/review/shares';
 import type { RequestHandler } from './$types';
 
@@ -12,6 +11,5 @@ export const GET: RequestHandler = apiEndpoint(async ({ event, database, actor }
 /** Shares a certified claim with an editor: `{ email, journal, manuscript }` → 201. */
 export const POST: RequestHandler = apiEndpoint(async ({ event, database, actor }) => {
 	const input = await readJson(event.request, shareInputSchema);
-	const { mailer } = await app();
 	return json(await shareClaim(database, actor, event.params.id!, input), { status: 201 });
 });

@@ -1,6 +1,5 @@
 import { json } from '@sveltejs/kit';
 import { apiEndpoint } from '$lib/server/http/api';
-import { app } from '$lib/server/app/app';
 import { releaseReport } from '$lib/server/review/reports';
 import type { RequestHandler } from './$types';
 

@@ -1,6 +1,5 @@
 import { json } from '@sveltejs/kit';
 import { readJson } from '$lib/server/http/read-body';
-import { app } from '$lib/server/app/app';
 import { reviewEndpoint } from '$lib/server/http/review-api';
 import { ownReport, reportJsonSchema, saveReport } from '$lib/server/review/reports';
 import type { RequestHandler } from './$types';
