@@ -25,6 +25,7 @@ import {
 } from '../lib/certify';
 import { parseCalibration } from '../lib/certify/calibration';
 import { certifyTarget } from '../lib/certify/fidelity-target';
+import { adviceInWords, countsAdvice } from '../lib/certify/planner/check-counts';
 import { threadedBlocks } from './blocks';
 import { runTrials } from './certify-trials';
 import { readableReport } from './report';
@@ -208,9 +209,13 @@ async function run(argv: string[]): Promise<number> {
 	};
 	const threads = wholeNumber('threads', values.threads);
 	const result = await certifyInBlocks(dataset, options, threadedBlocks(threads));
-	process.stdout.write(
-		(values.json ? JSON.stringify(result) : readableReport(result, values.counts!)) + '\n'
-	);
+	if (values.json) process.stdout.write(JSON.stringify(result) + '\n');
+	else {
+		// Simulated after the check, as the service does; --json gives the result alone.
+		const advice = countsAdvice(dataset, options, result);
+		const words = advice ? [`  counts needed: ${adviceInWords(advice, result.totalCounts)}`] : [];
+		process.stdout.write([readableReport(result, values.counts!), ...words].join('\n') + '\n');
+	}
 	return 0;
 }
 

@@ -32,7 +32,8 @@ describe('database', () => {
 			'0015-share-opened',
 			'0016-dataset-calibration',
 			'0018-trials-claims',
-			'0020-target-claims'
+			'0020-target-claims',
+			'0024-counts-advice'
 		]);
 	});
 

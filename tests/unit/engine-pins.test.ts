@@ -37,7 +37,7 @@ interface Pin {
 	certified: number;
 }
 
-const PINNED_ENGINE = '3.0.0';
+const PINNED_ENGINE = '3.1.0';
 const PINS: Pin[] = [
 	{
 		name: 'correlation sum, sufficient totals',

@@ -7,7 +7,6 @@ import type { CountsDataset } from './counts';
 import { claimVerdict, ladderPosition, marginsInStandardErrors, type ClaimVerdict } from './ladder';
 import type { EntropicSum } from './physical';
 import { planCertification, type CertificationPlan, type CertifyOptions } from './plan';
-import { countsForCheck } from './planner/check-counts';
 import { correlationSumBound, fidelityBound, type StatisticBound } from './statistic-bound';
 import { warningsFor } from './warnings';
 import {
@@ -24,7 +23,7 @@ export { DEFAULTS, planCertification, type CertificationPlan, type CertifyOption
 /** Draws all blocks of replicates of a spec (in any threads) and returns them in order. */
 export type BlockRunner = (spec: DrawSpec, resamples: number, seed: number) => Promise<Replicates>;
 
-export const ENGINE_VERSION = '3.0.0';
+export const ENGINE_VERSION = '3.1.0';
 
 export interface BoundRung {
 	upToSchmidtNumber: number;
@@ -141,9 +140,7 @@ export function finishCertification(
 						standardError,
 						bounds,
 						criticalVisibilities,
-						effectiveVisibility,
-						totalCounts,
-						countsForPower: () => countsForCheck(plan, certify)
+						effectiveVisibility
 					}),
 		effectiveVisibility,
 		steeringRobustness: extras

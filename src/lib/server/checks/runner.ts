@@ -7,6 +7,7 @@
 import { MessageChannel, type MessagePort } from 'node:worker_threads';
 import { literal } from 'sequelize';
 import type { CertificationResult } from '$lib/certify';
+import type { CountsAdvice } from '$lib/certify/planner/check-counts';
 import type { EvidenceFiles } from '$lib/evidence/layout';
 import type { VerificationReport } from '$lib/evidence/verify';
 import type { Database } from '../db';
@@ -18,6 +19,7 @@ import { sweepLeftChecks } from './left-behind';
 import { CheckCancelled, type CheckQueue, type QueuedCheck } from './queue';
 import type { SummaryOutcome, SummaryTask } from './summary';
 import type { CheckMessage, CheckTask } from './task';
+import type { AdvisedResult } from './worker';
 import type { BundleTask } from './evidence-tasks';
 import { WorkPool } from './work-pool';
 import { targetPart } from './target-task';
@@ -194,12 +196,17 @@ export class CheckRunner implements CheckQueue {
 			}
 		});
 		let result: CertificationResult | null = null;
+		let countsAdvice: CountsAdvice | null = null;
 		let failure: string | null = null;
 		try {
 			const task = await this.task(check, channel.port2);
 			const options = { transferList: [channel.port2], signal: abort.signal };
 			// A trials result (kind 'time-ordered-trials') is kept in the same column; see isTrialsResult.
-			result = (await this.work.runCheck(task, options)) as CertificationResult;
+			const { countsAdvice: advice, ...answer } = (await this.work.runCheck(
+				task,
+				options
+			)) as AdvisedResult;
+			[result, countsAdvice] = [answer, advice ?? null];
 			if (result.inputSha256 !== task.sha256)
 				throw new Error('the result does not name the dataset’s SHA-256');
 		} catch (error) {
@@ -215,6 +222,7 @@ export class CheckRunner implements CheckQueue {
 		await recordOutcome(this.database, check, {
 			startedAt: startedAt ?? new Date(),
 			result,
+			countsAdvice,
 			failure
 		});
 	}

@@ -3,6 +3,7 @@
  * it for the worker threads (checks/runner.ts); reading one shows its progress and result.
  */
 import { col } from 'sequelize';
+import type { CountsAdvice } from '$lib/certify/planner/check-counts';
 import { checkRequestSchemaFor, type CheckRequest } from '$lib/claims/schema';
 import { DEFAULTS, type CertificationResult } from '$lib/certify';
 import { accountIdOf, type Actor } from '../access/actor';
@@ -38,6 +39,8 @@ export interface CheckView {
 	finishedAt: string | null;
 	error: string | null;
 	result: CertificationResult | null;
+	/** For an unsupported claim more counts would help: the counts needed, simulated after the check. */
+	countsAdvice: CountsAdvice | null;
 	cancelledAt: string | null;
 	/** Who cancelled it: an account's name, or "the referee" for a review link. */
 	cancelledBy: string | null;
@@ -63,6 +66,7 @@ const view = (c: CheckAttributes, cancelledBy: string | null = null): CheckView 
 	finishedAt: isoOrNull(c.finishedAt),
 	error: c.error,
 	result: c.result,
+	countsAdvice: c.countsAdvice ?? null,
 	cancelledAt: isoOrNull(c.cancelledAt),
 	cancelledBy,
 	byReferee: !!c.reviewLinkId

@@ -16,6 +16,7 @@ import * as shareOpened from './0015-share-opened';
 import * as datasetCalibration from './0016-dataset-calibration';
 import * as trialsClaims from './0018-trials-claims';
 import * as targetClaims from './0020-target-claims';
+import * as countsAdvice from './0024-counts-advice';
 
 export const migrations = [
 	{ name: '0001-initial', ...initial },
@@ -34,5 +35,6 @@ export const migrations = [
 	{ name: '0015-share-opened', ...shareOpened },
 	{ name: '0016-dataset-calibration', ...datasetCalibration },
 	{ name: '0018-trials-claims', ...trialsClaims },
-	{ name: '0020-target-claims', ...targetClaims }
+	{ name: '0020-target-claims', ...targetClaims },
+	{ name: '0024-counts-advice', ...countsAdvice }
 ];
