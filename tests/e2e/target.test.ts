@@ -2,7 +2,7 @@
  * fidelity-target through the built app (witnesses.md §4.3′): a claim declaring λ over the JSON
  * API, the counts (basis 0 computational, basis 1 tilted) uploaded, the check on the worker pool,
  * the check and claim pages as a signed-in browser receives them, the method page, the planner's
- * refusal and the certificate's 409. Expected numbers: the engine called directly.
+ * refusal and the certificate (it carries λ). Expected numbers: the engine called directly.
  */
 import { rmSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -91,14 +91,14 @@ describe('fidelity-target in the app', () => {
 		expect(html).toContain(direct.statistic.lower.toFixed(5));
 		expect(html).toContain('not fitted on these counts');
 		expect(html).toContain('--method fidelity-target --target');
-		expect(html).not.toContain('data-testid="issue-certificate"');
+		expect(html).toContain('data-testid="issue-certificate"');
 		expect(await page(`/claims/${claim.id}`)).toContain('data-testid="claim-target"');
 		const issued = await call(
 			`/api/v1/claims/${claim.id}/certificates`,
 			json({ checkId: check.id })
 		);
-		expect(issued.status).toBe(409);
-		expect(await issued.text()).toMatch(/declared target λ/);
+		expect(issued.status).toBe(201);
+		expect(await issued.json()).toMatchObject({ certifiedSchmidtNumber: 2, status: 'valid' });
 	});
 
 	it('lists the method on /methods, explains it on its page, and the planner refuses it by name', async () => {

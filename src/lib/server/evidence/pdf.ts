@@ -6,13 +6,19 @@
 import PDFDocument from 'pdfkit';
 import { visibility } from '../../components/rounding';
 import { dateTimeInWords } from '../../dates';
-import type { EvidenceManifest } from '../../evidence/manifest';
+import type { CertificationResult } from '../../certify';
+import {
+	isTargetManifest,
+	type EvidenceManifest,
+	type WitnessManifest
+} from '../../evidence/manifest';
 import { drawAnalyses } from './pdf-analyses';
 import { calibrationLine } from './pdf-calibration';
 import { boundsTable, cautionsBlock, methodBlock, statisticBlock } from './pdf-evidence';
 import { registerFaces, write } from './pdf-fonts';
 import { num } from './pdf-ladder';
 import { ACCENT, drawQr, field, heading, INK, MUTED, numberPages, paragraph } from './pdf-parts';
+import { targetEvidence, targetLines } from './pdf-target';
 
 type Doc = PDFKit.PDFDocument;
 
@@ -81,8 +87,11 @@ function resultBlock(doc: Doc, m: EvidenceManifest, context: CertificateContext)
 	const r = m.result;
 	doc.fontSize(13).fillColor(ACCENT);
 	write(doc, `Certified Schmidt number: ${r.certifiedSchmidtNumber}`, 'bold');
-	const bases = calibrationLine(r);
-	if (bases) paragraph(doc, bases, 9.5);
+	if (isTargetManifest(m)) targetLines(doc, m);
+	else {
+		const bases = calibrationLine(m.result as CertificationResult);
+		if (bases) paragraph(doc, bases, 9.5);
+	}
 	const claim = r.claim;
 	doc.fontSize(10.5).fillColor(INK);
 	write(
@@ -92,7 +101,7 @@ function resultBlock(doc: Doc, m: EvidenceManifest, context: CertificateContext)
 			: 'No claim was judged',
 		'bold'
 	);
-	if (claim?.shortfall) paragraph(doc, claim.shortfall, 9);
+	if (claim && 'shortfall' in claim && claim.shortfall) paragraph(doc, claim.shortfall, 9);
 	doc.moveDown(0.3);
 	field(
 		doc,
@@ -135,10 +144,12 @@ function evidencePage(doc: Doc, m: EvidenceManifest) {
 	doc.addPage();
 	doc.fontSize(13).fillColor(INK);
 	write(doc, 'The evidence behind the result', 'bold');
-	methodBlock(doc, m);
-	statisticBlock(doc, m);
-	boundsTable(doc, m);
-	cautionsBlock(doc, m);
+	if (isTargetManifest(m)) return targetEvidence(doc, m);
+	const w = m as WitnessManifest;
+	methodBlock(doc, w);
+	statisticBlock(doc, w);
+	boundsTable(doc, w);
+	cautionsBlock(doc, w);
 }
 
 /** Renders the certificate and resolves with the PDF bytes. */

@@ -111,7 +111,7 @@ export function publicCertificate(row: CertificateAttributes): PublicCertificate
 		claim: m.claim,
 		certifiedSchmidtNumber: m.result.certifiedSchmidtNumber,
 		verdict: m.result.claim?.verdict ?? null,
-		backgroundSubtracted: m.result.backgroundSubtracted,
+		backgroundSubtracted: 'backgroundSubtracted' in m.result && m.result.backgroundSubtracted,
 		engineVersion: m.engineVersion,
 		analyses: certificateAnalyses(m)
 	};

@@ -30,8 +30,6 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 	]).catch(pageProblem);
 	// Certificates from time-ordered trials are not built yet (issue 20, slice 2).
 	const trials = isTrialsResult(check.result);
-	// Nor from a declared target: the certificate does not carry λ (the issue action says 409).
-	const target = isTargetResult(check.result);
 	return {
 		claim,
 		check,
@@ -42,7 +40,7 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 				? reproduceCommand(check.result, dataset.originalName)
 				: null,
 		certificates: certificates.filter((c) => c.checkId === check.id),
-		mayIssue: mayIssue && check.status === 'done' && !check.byReferee && !trials && !target,
+		mayIssue: mayIssue && check.status === 'done' && !check.byReferee && !trials,
 		mayCancel
 	};
 };
