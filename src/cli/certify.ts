@@ -26,6 +26,7 @@ import {
 import { parseCalibration } from '../lib/certify/calibration';
 import { certifyTarget } from '../lib/certify/fidelity-target';
 import { adviceInWords, countsAdvice } from '../lib/certify/planner/check-counts';
+import { fitCaution, fitFromRun } from './target-from-run';
 import { threadedBlocks } from './blocks';
 import { runTrials } from './certify-trials';
 import { readableReport } from './report';
@@ -35,6 +36,8 @@ const USAGE = `usage: npm run --silent certify -- --counts FILE --dimension D --
        [--seed ${DEFAULTS.seed}] [--claim K] [--json] [--subtract-accidentals] [--threads N] [--calibration FILE]
   --method fidelity-target --target l0,l1,…  fidelity with the declared target Σ λ_m |mm⟩ (witnesses.md §4.3′):
              basis 0 the computational table, basis 1 the table in the tilted vectors, same integration time
+  --target-from RUN  instead of --target: λ fitted on a separate calibration run's computational table
+             (λ_m² its share of the matching pairs) and frozen; refused when RUN holds the certified counts
   --calibration  the basis vectors as measured (JSON, witnesses.md §4.4; mub-correlation only): the ladder then
              uses their overlaps instead of assuming exactly unbiased bases
    or: npm run --silent certify -- --trials FILE --dimension D --method mub-correlation|steering-2mub
@@ -97,17 +100,29 @@ function readCounts(file: string): Uint8Array {
 
 /** `--method fidelity-target`: exact bounds, no resampling (src/lib/certify/fidelity-target). */
 function runTarget(values: Record<string, string | boolean | undefined>): number {
-	if (typeof values.target !== 'string')
-		throw new InputError('--target l0,l1,… is required with --method fidelity-target');
-	const target = values.target.split(',').map((x) => decimal('target', x)!);
+	const from = values['target-from'];
+	if ((typeof values.target === 'string') === (typeof from === 'string'))
+		throw new InputError(
+			'--method fidelity-target needs exactly one of --target l0,l1,… and --target-from RUN'
+		);
 	const dimension = wholeNumber('dimension', values.dimension as string)!;
 	const bytes = readCounts(values.counts as string);
-	const result = certifyTarget(parseCounts(bytes, dimension), {
+	const dataset = parseCounts(bytes, dimension);
+	const inputSha256 = createHash('sha256').update(bytes).digest('hex');
+	const fit =
+		typeof from === 'string' ? fitFromRun(from, dimension, dataset, inputSha256) : undefined;
+	const target = fit
+		? fit.coefficients
+		: (values.target as string).split(',').map((x) => decimal('target', x)!);
+	const checked = certifyTarget(dataset, {
 		target,
 		confidence: decimal('confidence', values.confidence as string | undefined),
 		claim: wholeNumber('claim', values.claim as string | undefined),
-		inputSha256: createHash('sha256').update(bytes).digest('hex')
+		inputSha256
 	});
+	const result = fit
+		? { ...checked, warnings: [fitCaution(fit), ...checked.warnings], targetFit: fit }
+		: checked;
 	const s = result.statistic;
 	const readable = [
 		`Rankseal check of ${values.counts}: fidelity-target, d = ${dimension}`,
@@ -160,6 +175,7 @@ async function run(argv: string[]): Promise<number> {
 			threads: { type: 'string' },
 			calibration: { type: 'string' },
 			target: { type: 'string' },
+			'target-from': { type: 'string' },
 			json: { type: 'boolean', default: false },
 			'subtract-accidentals': { type: 'boolean', default: false },
 			help: { type: 'boolean', default: false }

@@ -4,3 +4,4 @@ export { targetLowerBound, targetPointValue, targetUpperBound, type TargetData }
 export { certifyTarget, type TargetOptions, type TargetResult } from './certify-target';
 export { isTargetResult } from './result';
 export { certifyDeclaredTarget, TARGET_CAUTION, type DeclaredTarget } from './declared';
+export { fitTarget, requireSeparateRun, type TargetFit } from './fit';
