@@ -101,7 +101,7 @@ describe('fidelity-target in the app', () => {
 		expect(await issued.json()).toMatchObject({ certifiedSchmidtNumber: 2, status: 'valid' });
 	});
 
-	it('lists the method on /methods, explains it on its page, and the planner refuses it by name', async () => {
+	it('lists the method on /methods, explains it on its page, and the planner API plans it with λ', async () => {
 		expect(await page('/methods')).toContain('href="/methods/fidelity-target"');
 		const method = await fetch(`${app.origin}/methods/fidelity-target?d=3`);
 		expect(method.status).toBe(200);
@@ -110,7 +110,12 @@ describe('fidelity-target in the app', () => {
 			'/api/v1/plan?method=fidelity-target&dimension=3&schmidtNumber=2&visibility=0.9'
 		);
 		expect(plan.status).toBe(400);
-		expect(await plan.text()).toMatch(/planner does not cover fidelity-target/);
+		expect(await plan.text()).toMatch(/declared target λ/);
+		const planned = await call(
+			'/api/v1/plan?method=fidelity-target&target=0.863,0.485,0.143&schmidtNumber=2&visibility=0.9'
+		);
+		expect(planned.status).toBe(200);
+		expect((await planned.json()).pairsNeeded).toBeGreaterThan(0);
 	});
 
 	it('makes a fidelity-target claim from the new-claim form and saves its edit form', async () => {

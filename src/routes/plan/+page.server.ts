@@ -1,6 +1,6 @@
 import { ZodError } from 'zod';
 import { fieldErrors, problemOf } from '$lib/server/problems';
-import { planFor } from '$lib/server/services/plans';
+import { planWitnessFor } from '$lib/server/services/plans';
 import type { PageServerLoad } from './$types';
 
 const FIELDS = ['method', 'dimension', 'schmidtNumber', 'visibility', 'bases', 'simulate'] as const;
@@ -10,7 +10,7 @@ export const load: PageServerLoad = async ({ url, getClientAddress }) => {
 	const values = Object.fromEntries(FIELDS.map((f) => [f, url.searchParams.get(f) ?? undefined]));
 	if (!url.searchParams.has('method')) return { values, plan: null, errors: {} };
 	try {
-		return { values, plan: await planFor(values, getClientAddress()), errors: {} };
+		return { values, plan: await planWitnessFor(values, getClientAddress()), errors: {} };
 	} catch (error) {
 		if (error instanceof ZodError) return { values, plan: null, errors: fieldErrors(error) };
 		const problem = problemOf(error);

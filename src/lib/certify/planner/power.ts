@@ -18,11 +18,16 @@ export const POWER_SIMULATION = {
 	target: 0.9
 } as const;
 
-export type Engine = (dataset: CountsDataset, options: CertifyOptions) => CertificationResult;
+/** A check as the simulation runs it: only the certified number is read. */
+export type Engine = (
+	dataset: CountsDataset,
+	options: CertifyOptions
+) => Pick<CertificationResult, 'certifiedSchmidtNumber'>;
 
 /** A measurement design and a model of the state: what is simulated. */
 export interface PowerDesign {
-	method: MethodId;
+	/** A witness family, or fidelity-target (its engine then carries λ). */
+	method: MethodId | 'fidelity-target';
 	dimension: number;
 	bases: number[];
 	confidence: number;
