@@ -12,6 +12,8 @@ import { countsAdvice } from '../../src/lib/certify/planner/check-counts';
 import { bundleCheckWorker } from '../../src/lib/server/checks/locate';
 import { startCheckRunner, stopCheckRunner } from '../../src/lib/server/checks/registry';
 import { getCheck, startCheck } from '../../src/lib/server/services/checks';
+import { planFromCheck } from '../../src/lib/server/checks/check-plan';
+import { NotFoundError } from '../../src/lib/server/services/errors';
 import { createClaim } from '../../src/lib/server/services/claims';
 import { addDataset } from '../../src/lib/server/services/datasets';
 import { addGroup, addUser, bytesOf, claimFields } from './backend-fixtures';
@@ -21,6 +23,8 @@ import { temporaryDatabase } from './db';
 let ctx: Awaited<ReturnType<typeof temporaryDatabase>>;
 let workerFolder: string;
 let ada: string;
+let cyd: string;
+let checkId: string;
 
 // Isotropic η = 0.9 in d = 5, two bases: S = 2(η + (1 − η)/5) = 1.84 clears B_4 = 1 + 4/5 (§4.1,
 // §7) at the point value, but 200 pairs per basis leave the 3σ lower bound below it.
@@ -36,6 +40,8 @@ beforeAll(async () => {
 	);
 	const lake = await addGroup(ctx.database, 'Halvorsen Lake Photonics');
 	ada = await addUser(ctx.database, 'Ada Lind', [[lake, 'author']]);
+	const ridge = await addGroup(ctx.database, 'Ridge qudits');
+	cyd = await addUser(ctx.database, 'Cyd Marsh', [[ridge, 'lead']]);
 });
 afterAll(async () => {
 	await stopCheckRunner(ctx.database);
@@ -56,6 +62,7 @@ describe('counts needed for an unsupported claim', () => {
 		});
 		const queued = await startCheck(ctx.database, asUser(ada), claim.id, { resamples: 2000 });
 		await (await startCheckRunner(ctx.database)).idle();
+		checkId = queued.id;
 		const check = await getCheck(ctx.database, asUser(ada), queued.id);
 		expect(check.status).toBe('done');
 		const result = check.result!;
@@ -78,5 +85,21 @@ describe('counts needed for an unsupported claim', () => {
 		expect(check.countsAdvice).toEqual(advice);
 		expect(advice.totalCounts).toBeGreaterThan(result.totalCounts);
 		expect(advice.power).toBeGreaterThanOrEqual(0.9);
+	});
+
+	it('are what the planner answers with that check as its model, for those who may read it', async () => {
+		const check = await getCheck(ctx.database, asUser(ada), checkId);
+		const plan = await planFromCheck(ctx.database, asUser(ada), checkId, undefined, '192.0.2.1');
+		expect(plan).toMatchObject({ model: 'check', method: 'mub-correlation', schmidtNumber: 5 });
+		expect(plan.counts).toEqual(check.countsAdvice);
+		expect(plan.visibility).toBe(check.result!.effectiveVisibility);
+		// §7: η*_r = (B_r/m − 1/d)/(1 − 1/d) with B_4 = 1 + 4/5, m = 2, d = 5.
+		expect(plan.criticalVisibility).toBeCloseTo((1.8 / 2 - 0.2) / 0.8, 12);
+		const lower = await planFromCheck(ctx.database, asUser(ada), checkId, 2, '192.0.2.1');
+		expect(lower.counts).toBeNull();
+		expect(lower.note).toMatch(/already certifies Schmidt number 2/);
+		await expect(
+			planFromCheck(ctx.database, asUser(cyd), checkId, undefined, '192.0.2.2')
+		).rejects.toBeInstanceOf(NotFoundError);
 	});
 });

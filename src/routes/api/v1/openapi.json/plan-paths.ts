@@ -27,6 +27,12 @@ export const planPaths = {
 					'The witness family, or fidelity-target (then `target` is required and `dimension` is its length).'
 				),
 				query(
+					'checkId',
+					false,
+					{ type: 'string' },
+					'A finished check as the model (its own tables, proportions, bases and visibility); needs a caller who may read it (401 without one, 404 for a check out of sight). Then only `schmidtNumber` is read (default: the claim’s).'
+				),
+				query(
 					'target',
 					false,
 					{ type: 'string', pattern: '^[0-9.eE+-]+(,[0-9.eE+-]+)+$' },
@@ -73,7 +79,9 @@ export const planPaths = {
 				'200': {
 					description: 'The plan.',
 					content: {
-						'application/json': { schema: { oneOf: [ref('Plan'), ref('TargetPlan')] } }
+						'application/json': {
+							schema: { oneOf: [ref('Plan'), ref('TargetPlan'), ref('CheckPlan')] }
+						}
 					}
 				},
 				'400': {
@@ -116,6 +124,33 @@ const design = {
 
 export const planSchemas = {
 	PlanDesign: design,
+	CheckPlan: {
+		type: 'object',
+		description:
+			'A finished check as the model: its rungs, its effective visibility, and the counts for 90 % power at Schmidt number k simulated from its own tables (the advice stored after the check for the claim’s own k).',
+		required: [
+			'model',
+			'checkId',
+			'schmidtNumber',
+			'rungs',
+			'criticalVisibility',
+			'counts',
+			'note'
+		],
+		properties: {
+			model: { type: 'string', enum: ['check'] },
+			checkId: { type: 'string' },
+			method: { type: 'string' },
+			dimension: { type: 'integer' },
+			bases: { type: 'array', items: { type: 'integer' } },
+			schmidtNumber: { type: 'integer' },
+			visibility: { type: 'number' },
+			criticalVisibility: { type: 'number' },
+			rungs: { type: 'array', items: { type: 'object' } },
+			counts: { type: ['object', 'null'] },
+			note: { type: ['string', 'null'] }
+		}
+	},
 	TargetPlan: {
 		type: 'object',
 		description:
