@@ -47,7 +47,7 @@ afterAll(async () => {
 });
 
 describe('fidelity-target in the app', () => {
-	it('takes λ over the API, checks on the pool, shows F̃, bound, ladder and caution; refuses the certificate', async () => {
+	it('takes λ over the API, checks on the pool, shows F̃, bound, ladder and caution; issues its certificate', async () => {
 		const created = await call(
 			'/api/v1/claims',
 			json({
