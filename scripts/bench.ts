@@ -20,6 +20,7 @@ import { ENGINE_VERSION, sampledCounts, states, toCountsCsv } from '../src/lib/c
 import { issueTimes } from './bench-issue';
 import { LARGE_DIMENSIONS, largeRows } from './bench-large';
 import { TRIALS_BENCH, trialsBenchArgs, trialsTargetCells } from './bench-trials';
+import { adviceRows } from './bench-advice';
 
 const RESAMPLES = 10_000;
 /** Runs per median: ours, and numpy by dimension (its d = 127 runs take about 30 s each). */
@@ -71,6 +72,37 @@ function medianOf(runs: number, run: () => Timing): Timing {
 	};
 }
 
+function printTable(rows: string[][]) {
+	const head = [
+		'd',
+		'what',
+		'ours s',
+		'ours CPU s',
+		'numpy s',
+		'numpy CPU s',
+		'ratio',
+		'CPU ratio'
+	];
+	head.push('target', 'met');
+	const widths = head.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
+	const line = (r: string[]) => r.map((c, i) => c.padEnd(widths[i])).join('  ');
+	console.log(line(head));
+	console.log(widths.map((w) => '-'.repeat(w)).join('  '));
+	for (const r of rows) console.log(line(r));
+}
+
+const blank = (n: number) => new Array<string>(n).fill('');
+const f = (x: number | null, digits = 2) => (x === null ? '–' : x.toFixed(digits));
+const only = process.argv.indexOf('--only');
+if (only >= 0) {
+	if (process.argv[only + 1] !== 'advice') throw new Error('--only takes: advice');
+	console.log(
+		`Rankseal bench, engine ${ENGINE_VERSION}, node ${process.version}: counts-needed rows only`
+	);
+	printTable(adviceRows());
+	process.exit(0);
+}
+
 const numpy = spawnSync('python3', ['-c', 'import numpy; print(numpy.__version__)'], {
 	encoding: 'utf8'
 });
@@ -91,8 +123,6 @@ const ours = (d: number, method: string) =>
 	]);
 ours(31, 'steering-2mub'); // builds the bundle if it is missing or stale; not timed
 
-const blank = (n: number) => new Array<string>(n).fill('');
-const f = (x: number | null, digits = 2) => (x === null ? '–' : x.toFixed(digits));
 const rows: string[][] = [];
 for (const d of DIMENSIONS) {
 	for (const method of METHODS) {
@@ -157,12 +187,9 @@ rows.push([
 	trialsTarget.target,
 	trialsTarget.met
 ]);
+rows.push(...adviceRows());
 rmSync(folder, { recursive: true, force: true });
 
-const head = ['d', 'what', 'ours s', 'ours CPU s', 'numpy s', 'numpy CPU s', 'ratio', 'CPU ratio'];
-head.push('target', 'met');
-const widths = head.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
-const line = (r: string[]) => r.map((c, i) => c.padEnd(widths[i])).join('  ');
 console.log(
 	`Rankseal bench, engine ${ENGINE_VERSION}: ${RESAMPLES} resamples, node ${process.version}, ` +
 		(numpyVersion
@@ -172,6 +199,4 @@ console.log(
 					.join(', ')} (numpy) runs`
 			: 'numpy skipped: python3 with numpy not found')
 );
-console.log(line(head));
-console.log(widths.map((w) => '-'.repeat(w)).join('  '));
-for (const r of rows) console.log(line(r));
+printTable(rows);

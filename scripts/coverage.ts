@@ -5,11 +5,13 @@
  * value), the false-certification rate (certified above the true Schmidt number), each with its
  * binomial standard error at the nominal rate, and the mean certified Schmidt number.
  * Not a test: it prints a Markdown table. `--scale 0.1` runs a tenth of the experiments;
- * `--cases 7-9` only those cases.
+ * `--cases 7-9` only those cases; `--target 0-4` only those fidelity-target rows (scripts/
+ * coverage-target.ts; `--target none` skips them), so that new rows run without the whole table.
  */
 import { parseArgs } from 'node:util';
 import { states, type MethodId } from '../src/lib/certify';
 import {
+	crossTalk,
 	localHiddenStateAtBeta1,
 	separableFourierCorrelated,
 	simulatedState,
@@ -17,9 +19,14 @@ import {
 } from '../src/lib/certify/simulate-tables';
 import { calibratedCases } from './coverage-calibrated';
 import { missAllowance, runCoverage, type CoverageCase } from './coverage-run';
+import { targetRows } from './coverage-target-rows';
 
 const { values } = parseArgs({
-	options: { scale: { type: 'string', default: '1' }, cases: { type: 'string' } }
+	options: {
+		scale: { type: 'string', default: '1' },
+		cases: { type: 'string' },
+		target: { type: 'string' }
+	}
 });
 const scale = Number(values.scale);
 // `--cases 7-9` runs only those rows of coverageCases (0-based), e.g. to split a run over processes.
@@ -53,7 +60,11 @@ export const coverageCases: CoverageCase[] = [
 	at('fidelity-two-basis', mixture(8, 4, 0.9)),
 	// Engine 3.0.0: a boundary state in every basis (P_0 = 1, the others 3/7; Poisson totals).
 	at('mub-correlation', phi(7, 3), [0, 1, 2, 3, 4, 5, 6, 7]),
-	...calibratedCases()
+	...calibratedCases(),
+	// Engine 3.1.0: the fidelity split (floor 7α/8, cell limits α/8) where the cell limits win
+	// (docs/statistics.md §14): F = v exactly; at v = 6/7 in d = 7 the state sits on the r = 6 rung.
+	at('fidelity-two-basis', crossTalk(7, 6 / 7)),
+	at('fidelity-two-basis', crossTalk(4, 0.85))
 ];
 
 const settings = [
@@ -93,6 +104,7 @@ for (const c of coverageCases.slice(firstCase, lastCase + 1)) {
 		}
 	}
 }
+flagged += targetRows(values.target ?? '0-99', scale, settings, countLevels);
 console.log(
 	`\n${flagged} settings above nominal + 3 SE + 1; ${((Date.now() - started) / 1000).toFixed(0)} s`
 );

@@ -25,6 +25,8 @@ import {
 } from '../lib/certify';
 import { parseCalibration } from '../lib/certify/calibration';
 import { certifyTarget } from '../lib/certify/fidelity-target';
+import { adviceInWords, countsAdvice } from '../lib/certify/planner/check-counts';
+import { fitCaution, fitFromRun } from './target-from-run';
 import { threadedBlocks } from './blocks';
 import { runTrials } from './certify-trials';
 import { readCountsFiles } from './counts-files';
@@ -37,6 +39,8 @@ const USAGE = `usage: npm run --silent certify -- --counts FILE --dimension D --
              basis 0 the computational table, basis 1 the table in the tilted vectors, same integration time
   --counts   given several times: the files are read as one dataset (one d × d grid per basis, or full files);
              --file-basis 0,1,… gives the basis of each file holding one bare grid, in order (blank: in the file)
+  --target-from RUN  instead of --target: λ fitted on a separate calibration run's computational table
+             (λ_m² its share of the matching pairs) and frozen; refused when RUN holds the certified counts
   --calibration  the basis vectors as measured (JSON, witnesses.md §4.4; mub-correlation only): the ladder then
              uses their overlaps instead of assuming exactly unbiased bases
    or: npm run --silent certify -- --trials FILE --dimension D --method mub-correlation|steering-2mub
@@ -92,16 +96,28 @@ function runTarget(
 	values: Record<string, string | boolean | undefined>,
 	{ bytes, label }: { bytes: Uint8Array; label: string }
 ): number {
-	if (typeof values.target !== 'string')
-		throw new InputError('--target l0,l1,… is required with --method fidelity-target');
-	const target = values.target.split(',').map((x) => decimal('target', x)!);
+	const from = values['target-from'];
+	if ((typeof values.target === 'string') === (typeof from === 'string'))
+		throw new InputError(
+			'--method fidelity-target needs exactly one of --target l0,l1,… and --target-from RUN'
+		);
 	const dimension = wholeNumber('dimension', values.dimension as string)!;
-	const result = certifyTarget(parseCounts(bytes, dimension), {
+	const dataset = parseCounts(bytes, dimension);
+	const inputSha256 = createHash('sha256').update(bytes).digest('hex');
+	const fit =
+		typeof from === 'string' ? fitFromRun(from, dimension, dataset, inputSha256) : undefined;
+	const target = fit
+		? fit.coefficients
+		: (values.target as string).split(',').map((x) => decimal('target', x)!);
+	const checked = certifyTarget(dataset, {
 		target,
 		confidence: decimal('confidence', values.confidence as string | undefined),
 		claim: wholeNumber('claim', values.claim as string | undefined),
-		inputSha256: createHash('sha256').update(bytes).digest('hex')
+		inputSha256
 	});
+	const result = fit
+		? { ...checked, warnings: [fitCaution(fit), ...checked.warnings], targetFit: fit }
+		: checked;
 	const s = result.statistic;
 	const readable = [
 		`Rankseal check of ${label}: fidelity-target, d = ${dimension}`,
@@ -155,6 +171,7 @@ async function run(argv: string[]): Promise<number> {
 			threads: { type: 'string' },
 			calibration: { type: 'string' },
 			target: { type: 'string' },
+			'target-from': { type: 'string' },
 			json: { type: 'boolean', default: false },
 			'subtract-accidentals': { type: 'boolean', default: false },
 			help: { type: 'boolean', default: false }
@@ -199,9 +216,13 @@ async function run(argv: string[]): Promise<number> {
 	};
 	const threads = wholeNumber('threads', values.threads);
 	const result = await certifyInBlocks(dataset, options, threadedBlocks(threads));
-	process.stdout.write(
-		(values.json ? JSON.stringify(result) : readableReport(result, label)) + '\n'
-	);
+	if (values.json) process.stdout.write(JSON.stringify(result) + '\n');
+	else {
+		// Simulated after the check, as the service does; --json gives the result alone.
+		const advice = countsAdvice(dataset, options, result);
+		const words = advice ? [`  counts needed: ${adviceInWords(advice, result.totalCounts)}`] : [];
+		process.stdout.write([readableReport(result, label), ...words].join('\n') + '\n');
+	}
 	return 0;
 }
 

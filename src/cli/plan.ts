@@ -15,9 +15,14 @@ import {
 	type ExperimentPlan
 } from '../lib/certify/planner/plan-experiment';
 import { parsePlanQuery } from '../lib/certify/planner/query';
+import { planTarget } from '../lib/certify/planner/plan-target';
+import { parseTargetPlanQuery } from '../lib/certify/planner/target-query';
+import { readableTargetPlan } from './plan-target';
 
 const USAGE = `usage: npm run --silent plan -- --method ${METHOD_IDS.join('|')} --dimension D --schmidt-number K
-       --visibility ETA [--bases 0,1|all] [--confidence 0.99865] [--simulate all|requested|none] [--json]`;
+       --visibility ETA [--bases 0,1|all] [--confidence 0.99865] [--simulate all|requested|none] [--json]
+   or: npm run --silent plan -- --method fidelity-target --target l0,l1,… --schmidt-number K --visibility ETA
+       [--confidence 0.99865] [--json]`;
 
 const fixed = (x: number | null, digits = 4) => (x === null ? '–' : x.toFixed(digits));
 
@@ -56,6 +61,7 @@ function run(argv: string[]): number {
 			'schmidt-number': { type: 'string' },
 			visibility: { type: 'string' },
 			bases: { type: 'string' },
+			target: { type: 'string' },
 			confidence: { type: 'string' },
 			simulate: { type: 'string', default: 'all' },
 			json: { type: 'boolean', default: false },
@@ -66,6 +72,21 @@ function run(argv: string[]): number {
 	});
 	if (values.help) {
 		process.stdout.write(USAGE + '\n');
+		return 0;
+	}
+	if (values.method === 'fidelity-target') {
+		const { target, confidence, visibility } = values;
+		const plan = planTarget(
+			parseTargetPlanQuery({
+				method: values.method,
+				target,
+				confidence,
+				visibility,
+				dimension: values.dimension,
+				schmidtNumber: values['schmidt-number']
+			})
+		);
+		process.stdout.write((values.json ? JSON.stringify(plan) : readableTargetPlan(plan)) + '\n');
 		return 0;
 	}
 	const request = parsePlanQuery({

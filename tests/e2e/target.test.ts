@@ -2,7 +2,7 @@
  * fidelity-target through the built app (witnesses.md §4.3′): a claim declaring λ over the JSON
  * API, the counts (basis 0 computational, basis 1 tilted) uploaded, the check on the worker pool,
  * the check and claim pages as a signed-in browser receives them, the method page, the planner's
- * refusal and the certificate's 409. Expected numbers: the engine called directly.
+ * refusal and the certificate (it carries λ). Expected numbers: the engine called directly.
  */
 import { rmSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -47,7 +47,7 @@ afterAll(async () => {
 });
 
 describe('fidelity-target in the app', () => {
-	it('takes λ over the API, checks on the pool, shows F̃, bound, ladder and caution; refuses the certificate', async () => {
+	it('takes λ over the API, checks on the pool, shows F̃, bound, ladder and caution; issues its certificate', async () => {
 		const created = await call(
 			'/api/v1/claims',
 			json({
@@ -91,17 +91,17 @@ describe('fidelity-target in the app', () => {
 		expect(html).toContain(direct.statistic.lower.toFixed(5));
 		expect(html).toContain('not fitted on these counts');
 		expect(html).toContain('--method fidelity-target --target');
-		expect(html).not.toContain('data-testid="issue-certificate"');
+		expect(html).toContain('data-testid="issue-certificate"');
 		expect(await page(`/claims/${claim.id}`)).toContain('data-testid="claim-target"');
 		const issued = await call(
 			`/api/v1/claims/${claim.id}/certificates`,
 			json({ checkId: check.id })
 		);
-		expect(issued.status).toBe(409);
-		expect(await issued.text()).toMatch(/declared target λ/);
+		expect(issued.status).toBe(201);
+		expect(await issued.json()).toMatchObject({ certifiedSchmidtNumber: 2, status: 'valid' });
 	});
 
-	it('lists the method on /methods, explains it on its page, and the planner refuses it by name', async () => {
+	it('lists the method on /methods, explains it on its page, and the planner API plans it with λ', async () => {
 		expect(await page('/methods')).toContain('href="/methods/fidelity-target"');
 		const method = await fetch(`${app.origin}/methods/fidelity-target?d=3`);
 		expect(method.status).toBe(200);
@@ -110,7 +110,12 @@ describe('fidelity-target in the app', () => {
 			'/api/v1/plan?method=fidelity-target&dimension=3&schmidtNumber=2&visibility=0.9'
 		);
 		expect(plan.status).toBe(400);
-		expect(await plan.text()).toMatch(/planner does not cover fidelity-target/);
+		expect(await plan.text()).toMatch(/declared target λ/);
+		const planned = await call(
+			'/api/v1/plan?method=fidelity-target&target=0.863,0.485,0.143&schmidtNumber=2&visibility=0.9'
+		);
+		expect(planned.status).toBe(200);
+		expect((await planned.json()).pairsNeeded).toBeGreaterThan(0);
 	});
 
 	it('makes a fidelity-target claim from the new-claim form and saves its edit form', async () => {

@@ -14,7 +14,7 @@ const run = promisify(execFile);
 const lambdaRaw = [0.863, 0.485, 0.143];
 const norm = Math.hypot(...lambdaRaw);
 const lambda = lambdaRaw.map((x) => x / norm);
-const [d, v, pairs] = [3, 0.9, 1e7];
+const [d, v] = [3, 0.9];
 
 /** ⟨x ⊗ y*|Φ_λ⟩ = Σ_m λ_m conj(x_m)·y_m for the tilted vectors ṽ_a (side A), ṽ_b* (side B). */
 function tiltedProbability(a: number, b: number): number {
@@ -29,7 +29,7 @@ function tiltedProbability(a: number, b: number): number {
 	return v * (re * re + im * im) + (1 - v) / (d * d);
 }
 
-function countsFile(): string {
+function countsFile(pairs = 1e7): string {
 	const rows = ['basis,outcome_a,outcome_b,counts'];
 	for (let a = 0; a < d; a++)
 		for (let b = 0; b < d; b++) {
@@ -79,9 +79,31 @@ describe('npm run certify -- --method fidelity-target', () => {
 	});
 
 	it('refuses a missing or increasing target with exit 2', async () => {
-		expect((await cli(base)).stderr).toMatch(/--target l0,l1,… is required/);
+		expect((await cli(base)).stderr).toMatch(
+			/exactly one of --target l0,l1,… and --target-from RUN/
+		);
 		const bad = await cli([...base, '--target', '0.1,0.5,0.2']);
 		expect(bad.code).toBe(2);
 		expect(bad.stderr).toMatch(/target\[1\]: the coefficients must not increase/);
+	});
+
+	it('--target-from fits λ on a separate run (p₀(m, m) ∝ λ_m², §4.3′) and refuses the certified counts', async () => {
+		const run = countsFile(1e6);
+		const { code, stdout } = await cli([...base, '--target-from', run, '--claim', '2', '--json']);
+		expect(code).toBe(0);
+		const out = JSON.parse(stdout);
+		// White noise flattens the diagonal: λ_m² ∝ v·λ_m² + (1 − v)/d² (rounded counts).
+		const share = lambda.map((x) => v * x * x + (1 - v) / (d * d));
+		const sum = share.reduce((a, b) => a + b, 0);
+		out.targetFit.coefficients.forEach((x: number, m: number) =>
+			expect(x).toBeCloseTo(Math.sqrt(share[m] / sum), 5)
+		);
+		expect(out.targetFit.runSha256).toMatch(/^[0-9a-f]{64}$/);
+		expect(out.warnings[0]).toMatch(/fitted on a separate calibration run/);
+		const same = await cli([...base, '--target-from', file]);
+		expect(same.code).toBe(2);
+		expect(same.stderr).toMatch(/very counts being certified/);
+		const both = await cli([...base, '--target', lambdaRaw.join(','), '--target-from', run]);
+		expect(both.code).toBe(2);
 	});
 });

@@ -50,4 +50,20 @@ describe('npm run plan', () => {
 		expect(code).toBe(2);
 		expect(stderr.trim()).toBe('rankseal: --schmidt-number: must not exceed the dimension');
 	});
+
+	it('plans fidelity-target with the declared λ (η* from §4.3′: F̃(v) = v + (1 − v)·w), refusing it without λ', async () => {
+		const args = ['--method', 'fidelity-target', '--schmidt-number', '2', '--visibility', '0.9'];
+		const out = await plan([...args, '--target', '0.863,0.485,0.143', '--json']);
+		expect(out.code).toBe(0);
+		const p = JSON.parse(out.stdout);
+		// w from §4.3′'s check value F̃(0.9) = 0.8893355; η*_1 = (λ₀² − w)/(1 − w).
+		const w = (0.8893355 - 0.9) / 0.1;
+		const b1 = 0.863 ** 2 / (0.863 ** 2 + 0.485 ** 2 + 0.143 ** 2);
+		expect(p.criticalVisibility).toBeCloseTo((b1 - w) / (1 - w), 6);
+		expect(p.pairsNeeded).toBeGreaterThan(0);
+		expect(p.power).toBeGreaterThanOrEqual(0.9);
+		const refused = await plan(args);
+		expect(refused.code).toBe(2);
+		expect(refused.stderr).toMatch(/--target: give the declared target λ/);
+	});
 });

@@ -34,7 +34,8 @@ describe('database', () => {
 			'0018-trials-claims',
 			'0020-target-claims',
 			'0021-certificate-dois',
-			'0022-orcid-ids'
+			'0022-orcid-ids',
+			'0024-counts-advice'
 		]);
 	});
 

@@ -11,7 +11,7 @@ import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { canonicalJson } from '../../src/lib/evidence/canonical';
 import { BUNDLE_FILES, contentsText, type EvidenceFiles } from '../../src/lib/evidence/layout';
-import type { EvidenceManifest } from '../../src/lib/evidence/manifest';
+import type { EvidenceManifest, WitnessManifest } from '../../src/lib/evidence/manifest';
 import { newSigningKey, signText } from '../../src/lib/evidence/signing';
 import { verifyEvidence } from '../../src/lib/evidence/verify';
 import { makeEvidence } from '../../src/lib/server/evidence/artifacts';
@@ -209,7 +209,7 @@ describe('tampering', () => {
 	});
 
 	it('refuses a correctly signed manifest whose recorded result differs from the re-run', async () => {
-		const manifest = JSON.parse(decode(files[BUNDLE_FILES.manifest])) as EvidenceManifest;
+		const manifest = JSON.parse(decode(files[BUNDLE_FILES.manifest])) as WitnessManifest;
 		const { result } = manifest;
 		const shifted = {
 			...result,

@@ -17,6 +17,7 @@ import {
 	contentsText,
 	type EvidenceFiles
 } from '../../src/lib/evidence/layout';
+import type { WitnessManifest } from '../../src/lib/evidence/manifest';
 import { signText } from '../../src/lib/evidence/signing';
 import { verifyEvidence } from '../../src/lib/evidence/verify';
 import { makeEvidence, type Evidence } from '../../src/lib/server/evidence/artifacts';
@@ -30,6 +31,8 @@ const counts = readFileSync('tests/fixtures/calibrated-d3-product.csv');
 const calibrationBytes = readFileSync('tests/fixtures/calibrated-d3-bases.json');
 let evidence: Evidence;
 let plain: Evidence;
+/** The plain certificate's result: a witness family's (the manifest also types fidelity-target). */
+const plainResult = () => (plain.manifest as WitnessManifest).result;
 
 /** The PDF's text as poppler's pdftotext reads it. */
 function pdfText(pdf: Uint8Array): string {
@@ -138,19 +141,19 @@ describe('evidence of a calibrated check', () => {
 			/Calibrated bases: the ladder uses the measured overlaps \(mu\+ = 1\.02361/
 		);
 		const text = pdfText(plain.pdf).replace(/\s+/g, ' ');
-		expect(plain.manifest.result.certifiedSchmidtNumber).toBe(2);
-		const tolerance = plain.manifest.result.calibrationTolerance!.value!;
+		expect(plainResult().certifiedSchmidtNumber).toBe(2);
+		const tolerance = plainResult().calibrationTolerance!.value!;
 		expect(text).toContain(`Holds for bases unbiased to within ${(100 * tolerance).toFixed(2)} %`);
 		expect(verifyEvidence(plain.files).valid).toBe(true);
 	});
 
 	it('a result recorded before these fields existed (same engine version) still verifies', async () => {
-		const { calibration: _c, calibrationTolerance: _t, ...older } = plain.manifest.result;
+		const { calibration: _c, calibrationTolerance: _t, ...older } = plainResult();
 		const evidenceOfOlder = await makeEvidence(
 			{
 				...plain.manifest,
 				certificateId: 'cert-older',
-				result: older as typeof plain.manifest.result,
+				result: older as ReturnType<typeof plainResult>,
 				uploaded: counts,
 				uploadedFormat: 'csv'
 			},
@@ -163,13 +166,13 @@ describe('evidence of a calibrated check', () => {
 	});
 
 	it('a referee re-run of such an older result is still identical; a real difference still shows', () => {
-		const { calibration: _c, calibrationTolerance: _t, ...older } = plain.manifest.result;
+		const { calibration: _c, calibrationTolerance: _t, ...older } = plainResult();
 		const view = (result: object) => ({ seed: 3, result }) as unknown as CheckView;
-		expect(compareRuns(view(older), view(plain.manifest.result))).toMatchObject({
+		expect(compareRuns(view(older), view(plainResult()))).toMatchObject({
 			identical: true,
 			firstDifference: null
 		});
-		const shifted = { ...plain.manifest.result, certifiedSchmidtNumber: 3 };
+		const shifted = { ...plainResult(), certifiedSchmidtNumber: 3 };
 		expect(compareRuns(view(older), view(shifted)).firstDifference).toBe('certifiedSchmidtNumber');
 	});
 });

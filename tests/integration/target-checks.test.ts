@@ -3,7 +3,8 @@
  * λ), the counts read and the check run on the bundled check worker. Expected numbers: the engine
  * called directly (tests/unit/fidelity-target.test.ts ties it to §4.3′'s isotropic example).
  */
-import { mkdtempSync, rmSync } from 'node:fs';
+import { execFileSync, spawnSync } from 'node:child_process';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -19,6 +20,13 @@ import { updateClaim } from '../../src/lib/server/claims/claim-edit';
 import { addDataset } from '../../src/lib/server/datasets/datasets';
 import { ConflictError } from '../../src/lib/server/core/errors';
 import { TARGET_EXAMPLE, targetCountsCsv } from '../target-counts';
+import { BUNDLE_FILES } from '../../src/lib/evidence/layout';
+import { verifyEvidence } from '../../src/lib/evidence/verify';
+import { makeEvidence } from '../../src/lib/server/evidence/artifacts';
+import { publishedKeys, serviceKey } from '../../src/lib/server/evidence/keys';
+import { bundleVerifier } from '../../src/lib/server/evidence/verifier-file';
+import { readZip } from '../../src/lib/server/evidence/zip-read';
+import { certificateFile } from '../../src/lib/server/certificates/certificate-reads';
 import { addGroup, addUser, bytesOf, claimFields } from './backend-fixtures';
 import { asUser } from './actors';
 import { temporaryDatabase } from './db';
@@ -40,6 +48,12 @@ const targetClaim = (target: unknown) =>
 		target
 	} as Parameters<typeof createClaim>[2]);
 
+function pdfText(pdf: Uint8Array): string {
+	const file = path.join(workerFolder, 'certificate.pdf');
+	writeFileSync(file, pdf);
+	return execFileSync('pdftotext', ['-enc', 'UTF-8', file, '-'], { encoding: 'utf8' });
+}
+
 async function finished(id: string) {
 	await (await startCheckRunner(ctx.database)).idle();
 	return (await getCheck(ctx.database, asUser(ada), id))!;
@@ -50,9 +64,11 @@ beforeAll(async () => {
 	workerFolder = mkdtempSync(path.join(tmpdir(), 'rankseal-worker-test-'));
 	process.env.RANKSEAL_DATA_DIR = ctx.folder;
 	process.env.RANKSEAL_CHECK_WORKERS = '1';
+	process.env.ORIGIN = 'https://rankseal.test';
 	process.env.RANKSEAL_CHECK_WORKER = await bundleCheckWorker(
 		path.join(workerFolder, 'check-worker.mjs')
 	);
+	process.env.RANKSEAL_VERIFIER = await bundleVerifier(path.join(workerFolder, 'verify.mjs'));
 	const lake = await addGroup(ctx.database, 'Halvorsen Lake Photonics');
 	ada = await addUser(ctx.database, 'Ada Lind', [[lake, 'author']]);
 });
@@ -126,10 +142,53 @@ describe('fidelity-target claims on the service', () => {
 			status: 'done',
 			certifiedSchmidtNumber: 2
 		});
-		// The certificate does not carry λ yet: issuing is refused, naming why.
-		const issuing = issueCertificate(ctx.database, asUser(ada), claim.id, check.id);
-		await expect(issuing).rejects.toBeInstanceOf(ConflictError);
-		await expect(issuing).rejects.toThrow(/declared target λ/);
+	});
+
+	it('issues a certificate that carries λ, states its assumption, and re-runs offline', async () => {
+		const claim = await targetClaim(raw);
+		await addDataset(ctx.database, asUser(ada), claim.id, {
+			bytes: bytesOf(csv),
+			originalName: 'pixels-target.csv'
+		});
+		const check = await finished((await startCheck(ctx.database, asUser(ada), claim.id, {})).id);
+		// Issuing runs verify.mjs's checks on the pool first: it succeeds only if the re-run agrees.
+		const cert = await issueCertificate(ctx.database, asUser(ada), claim.id, check.id);
+		const files = readZip(
+			(await certificateFile(ctx.database, asUser(ada), cert.id, 'bundle')).bytes
+		);
+		const manifest = JSON.parse(new TextDecoder().decode(files[BUNDLE_FILES.manifest]));
+		expect(manifest.claim.method).toBe('fidelity-target');
+		const near = unit.map((x) => expect.closeTo(x, 12));
+		expect(manifest.target).toEqual({ coefficients: near, declared: raw, source: 'declared' });
+		expect(manifest.result.target).toEqual(near);
+		expect(manifest.result.certifiedSchmidtNumber).toBe(2);
+		expect(verifyEvidence(files)).toMatchObject({ valid: true, failedItem: null });
+		// The bundle's own verify.mjs, run by a stranger's Node in the unzipped folder.
+		const folder = mkdtempSync(path.join(workerFolder, 'bundle-'));
+		for (const [name, bytes] of Object.entries(files))
+			writeFileSync(path.join(folder, name), bytes);
+		const offline = spawnSync(process.execPath, ['verify.mjs'], { cwd: folder, encoding: 'utf8' });
+		// Exit 3: every check passed, the key not anchored to a list given on the command line.
+		expect(offline.stdout + offline.stderr).not.toMatch(/FAIL/);
+		expect(offline.status).toBe(3);
+		const text = pdfText(files[BUNDLE_FILES.pdf]);
+		expect(text).toMatch(/declared with the claim before the data were seen/);
+		expect(text).toMatch(/0\.863/);
+		// Another λ, signed by the service's own key, does not re-run to the recorded result.
+		const other = {
+			...manifest.target,
+			coefficients: [0.8, 0.5, 0.33].map((x, _, a) => x / Math.hypot(...a))
+		};
+		const forged = await makeEvidence(
+			{ ...manifest, target: other, uploaded: files['counts-uploaded.csv'], uploadedFormat: 'csv' },
+			serviceKey(),
+			{ verify: 'https://rankseal.test/seal/x', keys: 'https://rankseal.test/api/v1/signing-keys' },
+			{ keys: publishedKeys() }
+		);
+		expect(verifyEvidence(forged.files)).toMatchObject({
+			valid: false,
+			failedItem: expect.stringMatching(/^re-run/)
+		});
 	});
 
 	it('fails the check plainly when the tilted table (basis 1) is missing', async () => {

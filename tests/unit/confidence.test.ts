@@ -144,7 +144,7 @@ describe('the fidelity floor and the cell limits (docs/statistics.md)', () => {
 			expect(s.interval95[0]).toBeLessThanOrEqual(x);
 			expect(s.interval95[1]).toBeGreaterThanOrEqual(x);
 		}
-		expect(r.engine.version).toBe('3.0.0');
+		expect(r.engine.version).toBe('3.1.0');
 	});
 });
 

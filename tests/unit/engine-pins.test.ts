@@ -6,6 +6,7 @@
  * pin against silent drift (a faster loop that draws in another order), not a check
  * of correctness, which the witness, coverage and reference-library tests make. A change that
  * moves them needs a new ENGINE_VERSION and a re-run of the coverage table (docs/statistics.md).
+ * Engine 3.1.0 left them as they were (it moved "counts needed" out of the result).
  */
 import { describe, expect, it } from 'vitest';
 import {
@@ -37,7 +38,7 @@ interface Pin {
 	certified: number;
 }
 
-const PINNED_ENGINE = '3.0.0';
+const PINNED_ENGINE = '3.1.0';
 const PINS: Pin[] = [
 	{
 		name: 'correlation sum, sufficient totals',

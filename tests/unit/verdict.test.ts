@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { certify, expectedCounts, states } from '../../src/lib/certify';
+import { countsAdvice } from '../../src/lib/certify/planner/check-counts';
 
 describe('verdict on a claim (witnesses.md §5)', () => {
 	it('supports a claim at or below the certified Schmidt number', () => {
@@ -42,33 +43,41 @@ describe('verdict on a claim (witnesses.md §5)', () => {
 		return { dimension: d, tables };
 	}
 
-	it('when only statistics fall short, the counts it names are enough (checked by re-running)', () => {
-		// W = 2 × 0.9191 = 1.8382 clears β_4 = 1.83729 in d = 7 at the point value by 9.1e-4.
-		const few = certify(matchingFraction(7, 0.9191, 200_000), {
-			method: 'steering-2mub',
-			claim: 5,
-			resamples: 4000
-		});
+	it('when only statistics fall short, the advice after the check names counts that are enough (checked by re-running)', () => {
+		// W = 2 × 0.9191 = 1.8382 clears β_4 = 1.83729 in d = 7 at the point value by 9.1e-4, so the
+		// counts needed are many times the data's (×30 or more): a cap on that factor hides the figure.
+		const data = matchingFraction(7, 0.9191, 200_000);
+		const options = { method: 'steering-2mub', claim: 5, resamples: 4000 };
+		const few = certify(data, options);
 		expect(few.pointSchmidtNumber).toBe(5);
 		expect(few.claim!.verdict).toBe('not supported');
-		const needed = few.claim!.countsNeeded!;
+		expect(few.claim!.moreCountsHelp).toBe(true);
+		const advice = countsAdvice(data, options, few)!;
+		const needed = advice.totalCounts!;
 		expect(needed).toBeGreaterThan(few.totalCounts);
+		expect(advice.factor).toBeCloseTo(needed / few.totalCounts, 12);
 		const perBasis = (factor: number) => Math.round((factor * needed) / 2 / 10_000) * 10_000;
-		const enough = certify(matchingFraction(7, 0.9191, perBasis(1.3)), {
-			method: 'steering-2mub',
-			claim: 5,
-			resamples: 4000
-		});
+		const enough = certify(matchingFraction(7, 0.9191, perBasis(1.3)), options);
 		expect(enough.claim!.verdict).toBe('supported');
 		// The figure is for 90 % power, about twice what the point value alone needs (z_α + z_0.9 against
 		// z_α): at 0.4× even the expected tables fall short.
-		expect(few.claim!.powerAtCountsNeeded).toBeGreaterThanOrEqual(0.9);
-		const short = certify(matchingFraction(7, 0.9191, perBasis(0.4)), {
-			method: 'steering-2mub',
-			claim: 5,
-			resamples: 4000
-		});
+		expect(advice.power).toBeGreaterThanOrEqual(0.9);
+		const short = certify(matchingFraction(7, 0.9191, perBasis(0.4)), options);
 		expect(short.claim!.verdict).toBe('not supported');
+	});
+
+	it('the verdict itself simulates nothing: issuing and the verifiers re-run certify without the advice', () => {
+		const data = matchingFraction(7, 0.9191, 200_000);
+		const r = certify(data, { method: 'steering-2mub', claim: 5, resamples: 4000 });
+		expect(r.claim!.verdict).toBe('not supported');
+		expect(r.claim!.moreCountsHelp).toBe(true);
+		expect(Object.keys(r.claim!)).not.toContain('countsNeeded');
+		expect(Object.keys(r.claim!)).not.toContain('powerAtCountsNeeded');
+		expect(r.claim!.shortfall).toMatch(/simulated once the check is done/);
+		// A supported claim, or one more counts cannot help, has no advice to simulate.
+		const supported = certify(data, { method: 'steering-2mub', claim: 4, resamples: 4000 });
+		expect(supported.claim!.verdict).toBe('supported');
+		expect(countsAdvice(data, { method: 'steering-2mub', claim: 4 }, supported)).toBeNull();
 	});
 
 	it('when the point value is below the bound, it names the visibility needed and no counts', () => {
@@ -78,7 +87,7 @@ describe('verdict on a claim (witnesses.md §5)', () => {
 			resamples: 1000
 		});
 		expect(r.claim!.verdict).toBe('not supported');
-		expect(r.claim!.countsNeeded).toBeUndefined();
+		expect(r.claim!.moreCountsHelp).toBe(false);
 		expect(r.claim!.visibilityNeeded).toBe(r.bounds[3].criticalVisibility);
 		// §7: η*_r = (B_r/m − 1/d)/(1 − 1/d) with B_4 = 1 + 2·4/5, m = 3.
 		expect(r.claim!.visibilityNeeded).toBeCloseTo(
@@ -132,7 +141,7 @@ describe('words on the result (issue 6, §6)', () => {
 		expect(r.statistic.plugInValue).toBeCloseTo(0.88, 12);
 		expect(r.statistic.floorValue).toBeCloseTo(0.8, 12);
 		expect(r.claim!.verdict).toBe('not supported');
-		expect(r.claim!.countsNeeded).toBeUndefined();
+		expect(r.claim!.moreCountsHelp).toBe(false);
 		expect(r.claim!.shortfall).toMatch(/cannot be shown to help/);
 		expect(r.claim!.shortfall).toMatch(/white-noise threshold visibility/);
 	});

@@ -7,7 +7,6 @@ import type { CountsDataset } from './counts';
 import { claimVerdict, ladderPosition, marginsInStandardErrors, type ClaimVerdict } from './ladder';
 import type { EntropicSum } from './physical';
 import { planCertification, type CertificationPlan, type CertifyOptions } from './plan';
-import { countsForCheck } from './planner/check-counts';
 import { correlationSumBound, fidelityBound, type StatisticBound } from './statistic-bound';
 import { warningsFor } from './warnings';
 import {
@@ -24,7 +23,7 @@ export { DEFAULTS, planCertification, type CertificationPlan, type CertifyOption
 /** Draws all blocks of replicates of a spec (in any threads) and returns them in order. */
 export type BlockRunner = (spec: DrawSpec, resamples: number, seed: number) => Promise<Replicates>;
 
-export const ENGINE_VERSION = '3.0.0';
+export const ENGINE_VERSION = '3.1.0';
 
 export interface BoundRung {
 	upToSchmidtNumber: number;
@@ -180,9 +179,7 @@ function verdictOf(plan: CertificationPlan, statistic: StatisticBound, ladder: L
 		standardError,
 		bounds: ladder.bounds,
 		criticalVisibilities: ladder.criticalVisibilities,
-		effectiveVisibility: ladder.effectiveVisibility,
-		totalCounts: ladder.totalCounts,
-		countsForPower: () => countsForCheck(plan, certify)
+		effectiveVisibility: ladder.effectiveVisibility
 	});
 }
 

@@ -22,13 +22,11 @@ export interface ClaimVerdict {
 	/** The witness's white-noise threshold visibility for that rung (at the point value). */
 	visibilityNeeded?: number;
 	/**
-	 * Total counts in the same proportions for a 90 % chance of certifying the claim, found by
-	 * simulating the engine on the data's own tables (planner/power.ts); offered only when the
-	 * point value of the quantity the bound is built on (S, or the floor P_0 + P_1 − 1) clears it.
+	 * For an unsupported claim: whether the point value of the quantity the bound is built on (S,
+	 * or the floor P_0 + P_1 − 1) clears the rung, so that more counts would certify it. How many is
+	 * simulated after the check (planner/check-counts.ts), never inside what issuing re-runs.
 	 */
-	countsNeeded?: number;
-	/** The simulated probability of certifying at countsNeeded. */
-	powerAtCountsNeeded?: number;
+	moreCountsHelp?: boolean;
 	/** One sentence on what it would take. */
 	shortfall?: string;
 }
@@ -46,15 +44,6 @@ export interface VerdictInputs {
 	bounds: number[];
 	criticalVisibilities: number[];
 	effectiveVisibility: number;
-	totalCounts: number;
-	/** Simulates the engine for the total counts giving 90 % power; null when too big to simulate here. */
-	countsForPower?: () => SimulatedCounts | null;
-}
-
-export interface SimulatedCounts {
-	totalCounts: number;
-	power: number;
-	experiments: number;
 }
 
 export function claimVerdict(v: VerdictInputs): ClaimVerdict {
@@ -69,18 +58,12 @@ export function claimVerdict(v: VerdictInputs): ClaimVerdict {
 		visibilityNeeded
 	};
 	const basis = v.boundBasisValue;
-	if (basis > bound && v.standardError > 0) {
-		const simulated = v.countsForPower?.() ?? null;
-		const clears = `At the data, ${v.boundBasisName} clears the bound for Schmidt number ${k} but its lower confidence bound does not`;
-		if (simulated) {
-			const factor = simulated.totalCounts / v.totalCounts;
-			verdict.countsNeeded = simulated.totalCounts;
-			verdict.powerAtCountsNeeded = simulated.power;
-			verdict.shortfall =
-				`${clears}: about ${simulated.totalCounts.toExponential(2)} counts in all (×${factor.toFixed(2)}), in the same proportions, ` +
-				`certify it in ${(100 * simulated.power).toFixed(1)} % of ${simulated.experiments} simulated checks.`;
-		} else
-			verdict.shortfall = `${clears}. The counts needed are too costly to simulate within one check; the planner (/plan, npm run plan) gives them.`;
+	verdict.moreCountsHelp = basis > bound && v.standardError > 0;
+	if (verdict.moreCountsHelp) {
+		verdict.shortfall =
+			`At the data, ${v.boundBasisName} clears the bound for Schmidt number ${k} but its lower confidence bound does not: ` +
+			`more counts in the same proportions would certify it. How many is simulated once the check is done (the check page, ` +
+			`npm run certify) and by the planner (/plan, npm run plan).`;
 	} else {
 		const what =
 			v.value > bound

@@ -16,6 +16,8 @@ export interface AnalysisSettings {
 	confidence: number;
 	resamples: number;
 	subtractAccidentals: boolean;
+	/** fidelity-target: the target λ (Σλ² = 1); another λ on the same counts is another analysis (§9). */
+	target?: number[];
 }
 
 /** One distinct analysis as a certificate lists it: `seed` is 'derived' or the chosen number. */
@@ -42,7 +44,9 @@ const settingsOf = (s: AnalysisSettings): AnalysisSettings => ({
 	fourier: s.fourier,
 	confidence: s.confidence,
 	resamples: s.resamples,
-	subtractAccidentals: s.subtractAccidentals
+	subtractAccidentals: s.subtractAccidentals,
+	// Present only for fidelity-target, so that every other analysis keeps its key and derived seed.
+	...(s.target ? { target: [...s.target] } : {})
 });
 
 /** Seeds run 1..2³²−1 (the engine's range). */

@@ -12,6 +12,12 @@ import {
 } from '../certify';
 import type { EvidenceAnalyses } from './analyses';
 import type { TrialsMode } from '../certify/trials';
+import type { TargetResult } from '../certify/fidelity-target';
+import type { DeclaredTarget } from '../certify/fidelity-target/declared';
+import type { ClaimMethod } from '../claims/target';
+
+/** What a certificate certifies: a witness family's result, or a declared-target fidelity (§4.3′). */
+export type CertifiedResult = CertificationResult | TargetResult;
 import { parseCalibration } from '../certify/calibration';
 import { canonicalJson, jsonRoundTrip } from './canonical';
 import { sha256Hex } from './hash';
@@ -31,7 +37,7 @@ export interface EvidenceTrials {
 export interface EvidenceClaim {
 	title: string;
 	dimension: number;
-	method: MethodId;
+	method: ClaimMethod;
 	bases: number[];
 	/** Which Fourier basis basis 1 denotes: the cyclic one unless the claim says otherwise. */
 	fourier: FourierConvention;
@@ -62,6 +68,15 @@ export interface EvidenceCountsLongForm {
 	bytes: number;
 }
 
+/**
+ * fidelity-target (witnesses.md §4.3′): the target the certified number holds for, and where it
+ * came from; the verifier re-runs the check with exactly these coefficients.
+ */
+export interface EvidenceTarget extends DeclaredTarget {
+	/** 'declared': with the claim, before the data (the claim's own record). */
+	source: 'declared';
+}
+
 /** The calibration file the check used (witnesses.md §4.4); absent when it used none. */
 export interface EvidenceCalibration {
 	uploadedSha256: string;
@@ -83,7 +98,9 @@ export interface EvidenceManifest {
 	/** The long-form CSV of the counts (issue 18); absent in certificates made before it. */
 	countsLongForm?: EvidenceCountsLongForm;
 	calibration?: EvidenceCalibration;
-	result: CertificationResult;
+	/** fidelity-target certificates only. */
+	target?: EvidenceTarget;
+	result: CertifiedResult;
 	/**
 	 * Every distinct analysis of these counts up to this certificate (issue 15); absent in
 	 * certificates made before it. `parameters.confidence` is then the corrected level.
@@ -98,7 +115,7 @@ export interface EvidenceManifest {
 
 export type ManifestInput = Omit<EvidenceManifest, 'format' | 'result' | 'claim'> & {
 	claim: Omit<EvidenceClaim, 'fourier'> & { fourier?: FourierConvention | null };
-	result: CertificationResult;
+	result: CertifiedResult;
 };
 
 /** The manifest in the form it will be read back (JSON), with the Fourier convention defaulted. */
@@ -165,3 +182,11 @@ export function canonicalCountsText(dataset: CountsDataset): string {
 		}))
 	});
 }
+
+/** A manifest of a witness family's result (every certificate before fidelity-target). */
+export type WitnessManifest = EvidenceManifest & { result: CertificationResult };
+/** A fidelity-target certificate's manifest: its result and the target it holds for. */
+export type TargetManifest = EvidenceManifest & { result: TargetResult; target: EvidenceTarget };
+
+export const isTargetManifest = (m: EvidenceManifest): m is TargetManifest =>
+	m.claim.method === 'fidelity-target';

@@ -24,9 +24,13 @@ import {
 	canonicalCountsText,
 	certifyOptionsOf,
 	fingerprintOf,
+	isTargetManifest,
 	MANIFEST_FORMAT,
-	type EvidenceManifest
+	type EvidenceManifest,
+	type TargetManifest
 } from './manifest';
+import { certifyDeclaredTarget } from '../certify/fidelity-target/declared';
+import type { CountsDataset } from '../certify/counts';
 import { keyIdOf, readHexLine, verifyText } from './signing';
 import { statementProblem } from './statement';
 import { isTrialsManifest } from './trials-evidence';
@@ -243,7 +247,7 @@ function checkAnalyses(s: State) {
 function checkCalibration(s: State) {
 	const m = s.manifest!;
 	const name = CALIBRATION_FILE;
-	const recorded = m.result.calibration?.sha256 ?? null;
+	const recorded = 'calibration' in m.result ? (m.result.calibration?.sha256 ?? null) : null;
 	if (!m.calibration) {
 		if (s.files[name] || recorded)
 			throw new Failure(name, 'a calibration is present but the manifest names none');
@@ -257,6 +261,17 @@ function checkCalibration(s: State) {
 	)
 		throw new Failure(name, 'its SHA-256 differs from the manifest');
 	s.passed.push(`${name} (manifest hash)`);
+}
+
+/** fidelity-target: the check again with the target the manifest names (witnesses.md §4.3′). */
+function rerunTarget(m: TargetManifest, dataset: CountsDataset) {
+	if (!m.target)
+		throw new Failure('manifest.json', 'a fidelity-target certificate names no target');
+	return certifyDeclaredTarget(dataset, m.target, {
+		confidence: m.parameters.confidence,
+		claim: m.claim.claimedSchmidtNumber,
+		inputSha256: m.counts.uploadedSha256
+	});
 }
 
 function checkRerun(s: State) {
@@ -277,8 +292,13 @@ function checkRerun(s: State) {
 	);
 	let rerun: unknown;
 	try {
-		rerun = jsonRoundTrip(certify(dataset, certifyOptionsOf(m, s.files[CALIBRATION_FILE])));
+		rerun = jsonRoundTrip(
+			isTargetManifest(m)
+				? rerunTarget(m, dataset)
+				: certify(dataset, certifyOptionsOf(m, s.files[CALIBRATION_FILE]))
+		);
 	} catch (error) {
+		if (error instanceof Failure) throw error;
 		throw new Failure(
 			're-run',
 			`the engine refused the recorded settings: ${(error as Error).message}`

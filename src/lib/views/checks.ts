@@ -1,5 +1,6 @@
 /** What callers see of a check (one run of the engine on a dataset) and of a referee's re-run. */
 import type { CertificationResult } from '$lib/certify';
+import type { CountsAdvice } from '$lib/certify/planner/check-counts';
 
 export const CHECK_STATUSES = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;
 export type CheckStatus = (typeof CHECK_STATUSES)[number];
@@ -21,6 +22,8 @@ export interface CheckView {
 	finishedAt: string | null;
 	error: string | null;
 	result: CertificationResult | null;
+	/** For an unsupported claim more counts would help: the counts needed, simulated after the check. */
+	countsAdvice: CountsAdvice | null;
 	cancelledAt: string | null;
 	/** Who cancelled it: an account's name, or "the referee" for a review link. */
 	cancelledBy: string | null;

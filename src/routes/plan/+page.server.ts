@@ -1,6 +1,7 @@
 import { ZodError } from 'zod';
 import { fieldErrors, problemOf } from '$lib/server/http/problems';
 import { planFor } from '$lib/server/checks/plans';
+import { planWitnessFor } from '$lib/server/checks/plans';
 import type { PageServerLoad } from './$types';
 
 const FIELDS = ['method', 'dimension', 'schmidtNumber', 'visibility', 'bases', 'simulate'] as const;
@@ -10,7 +11,7 @@ export const load: PageServerLoad = async ({ url, getClientAddress }) => {
 	const values = Object.fromEntries(FIELDS.map((f) => [f, url.searchParams.get(f) ?? undefined]));
 	if (!url.searchParams.has('method')) return { values, plan: null, errors: {} };
 	try {
-		return { values, plan: await planFor(values, getClientAddress()), errors: {} };
+		return { values, plan: await planWitnessFor(values, getClientAddress()), errors: {} };
 	} catch (error) {
 		if (error instanceof ZodError) return { values, plan: null, errors: fieldErrors(error) };
 		const problem = problemOf(error);

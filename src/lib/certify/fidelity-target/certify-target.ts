@@ -7,6 +7,7 @@
 import { InputError, requireCompleteTables, type CountsDataset } from '../counts';
 import { ladderPosition } from '../ladder';
 import { CONFIDENCE } from '../limits';
+import { ENGINE_VERSION } from '../certify';
 import { targetLowerBound, targetPointValue, targetUpperBound } from './bound';
 import { targetBounds, targetCoefficients, whiteNoiseValue } from './statistic';
 
@@ -21,6 +22,8 @@ export interface TargetOptions {
 export interface TargetResult {
 	method: 'fidelity-target';
 	dimension: number;
+	/** Basis 0 the computational table, 1 the tilted-vector table (what a certificate lists). */
+	bases: [0, 1];
 	/** λ scaled to Σλ² = 1. */
 	target: number[];
 	statistic: {
@@ -36,8 +39,12 @@ export interface TargetResult {
 	confidence: number;
 	claim: { schmidtNumber: number; verdict: 'supported' | 'not supported' } | null;
 	effectiveVisibility: number;
+	/** Pairs in both tables (the computational total normalises the tilted matches). */
+	totalCounts: number;
 	inputSha256: string | null;
 	warnings: string[];
+	/** The version that re-runs it bit for bit (exact limits: no seed, no resamples). */
+	engine: { version: string };
 }
 
 function targetData(dataset: CountsDataset) {
@@ -49,6 +56,10 @@ function targetData(dataset: CountsDataset) {
 			'fidelity-target needs raw counts at equal integration time (no duration_s or accidentals column)'
 		);
 	return {
+		totalCounts: [computational, tilted].reduce(
+			(s, t) => s + t.counts.reduce((a, c) => a + c, 0),
+			0
+		),
 		computational: computational.counts,
 		tilted: Array.from({ length: d }, (_, j) => tilted.counts[j * d + j])
 	};
@@ -64,7 +75,7 @@ export function certifyTarget(dataset: CountsDataset, o: TargetOptions): TargetR
 		);
 	if (o.claim !== undefined && !(Number.isInteger(o.claim) && o.claim >= 1 && o.claim <= d))
 		throw new InputError(`claim must be a Schmidt number from 1 to the dimension ${d}`);
-	const data = targetData(dataset);
+	const { totalCounts, ...data } = targetData(dataset);
 	const value = targetPointValue(data, lambda);
 	const lower = targetLowerBound(data, lambda, 1 - confidence);
 	const bounds = targetBounds(lambda);
@@ -74,6 +85,7 @@ export function certifyTarget(dataset: CountsDataset, o: TargetOptions): TargetR
 	return {
 		method: 'fidelity-target',
 		dimension: d,
+		bases: [0, 1],
 		target: Array.from(lambda),
 		statistic: {
 			value,
@@ -96,9 +108,11 @@ export function certifyTarget(dataset: CountsDataset, o: TargetOptions): TargetR
 				? null
 				: { schmidtNumber: o.claim, verdict: certified >= o.claim ? 'supported' : 'not supported' },
 		effectiveVisibility: visibility(value),
+		totalCounts,
 		inputSha256: o.inputSha256 ?? null,
 		warnings: [
 			'The tilted matches are normalised by the computational pair total: both tables must have the same integration time and detection efficiency (witnesses.md §4.3′).'
-		]
+		],
+		engine: { version: ENGINE_VERSION }
 	};
 }

@@ -3,3 +3,5 @@ export { targetBounds, targetCoefficients, targetFidelity, whiteNoiseValue } fro
 export { targetLowerBound, targetPointValue, targetUpperBound, type TargetData } from './bound';
 export { certifyTarget, type TargetOptions, type TargetResult } from './certify-target';
 export { isTargetResult } from './result';
+export { certifyDeclaredTarget, TARGET_CAUTION, type DeclaredTarget } from './declared';
+export { fitTarget, requireSeparateRun, type TargetFit } from './fit';

@@ -32,7 +32,7 @@ export function observedModel(tables: CountTable[]): { model: Float64Array[]; we
 
 /** The design's statistic at the model, the bound to clear and the plug-in SE at one count per weight. */
 export function designMargin(design: PowerDesign): { value: number; bound: number; se1: number } {
-	const family = witnessFamilies[design.method];
+	const family = witnessFamilies[design.method as MethodId];
 	const { dimension: d, bases } = design;
 	const bound = family.bounds(d, bases)[design.schmidtNumber - 2];
 	const probe = 1e6;

@@ -26,7 +26,8 @@ export type Engine = (
 
 /** A measurement design and a model of the state: what is simulated. */
 export interface PowerDesign {
-	method: MethodId;
+	/** A witness family, or fidelity-target (its engine then carries λ). */
+	method: MethodId | 'fidelity-target';
 	dimension: number;
 	bases: number[];
 	confidence: number;

@@ -10,9 +10,9 @@ import type { PlanRequest } from './plan-experiment';
 
 export const SIMULATE_CHOICES = ['requested', 'all', 'none'] as const;
 
-/** fidelity-target is left out on purpose: its power needs the noise's tilted-vector table. */
+/** fidelity-target needs its declared λ: the API (`target=`) and `npm run plan -- --target` take it. */
 export const PLANNER_TARGET_REFUSAL =
-	'the planner does not cover fidelity-target: its power depends on the declared λ and on the table of the noise in the tilted vectors, which the planner does not simulate; the exact bound is in docs/statistics.md §10';
+	'the planner page does not cover fidelity-target: its power depends on the declared λ, which this form does not take; GET /api/v1/plan?method=fidelity-target&target=… and npm run plan -- --method fidelity-target --target … plan it';
 
 const plannerMethod = z
 	.string()

@@ -4,6 +4,10 @@
  * the Bonferroni-corrected level, with the check's own seed and resamples.
  */
 import { certify, parseCounts, type CertificationResult } from '$lib/certify';
+import { isTargetResult } from '$lib/certify/fidelity-target';
+import { certifyDeclaredTarget } from '$lib/certify/fidelity-target/declared';
+import type { CertifiedResult } from '$lib/evidence/manifest';
+import { targetPart } from '../checks/target-task';
 import { correctedConfidence, isExploratory, type EvidenceAnalyses } from '$lib/evidence/analyses';
 import { jsonRoundTrip } from '$lib/evidence/canonical';
 import { firstDifference } from '$lib/evidence/compare';
@@ -18,27 +22,35 @@ export interface StatedResult {
 	analyses: EvidenceAnalyses;
 	/** The level the certificate states: the check's, or the corrected one. */
 	confidence: number;
-	result: CertificationResult;
+	result: CertifiedResult;
 }
 
 /** The check's result re-computed at another confidence (same seed, resamples and subtraction). */
 export function resultAtLevel(
 	uploaded: Uint8Array,
-	claim: Pick<ClaimAttributes, 'dimension' | 'claimedSchmidtNumber'>,
+	claim: Pick<ClaimAttributes, 'dimension' | 'claimedSchmidtNumber' | 'target' | 'targetDeclared'>,
 	check: CheckAttributes,
 	confidence: number,
 	inputSha256: string
-): CertificationResult {
-	const recorded = check.result!;
+): CertifiedResult {
+	const recorded = check.result! as CertifiedResult;
+	const target = targetPart(claim);
+	if (isTargetResult(recorded) && target)
+		return certifyDeclaredTarget(parseCounts(uploaded, claim.dimension), target, {
+			confidence,
+			claim: recorded.claim?.schmidtNumber ?? claim.claimedSchmidtNumber,
+			inputSha256
+		});
+	const witness = recorded as CertificationResult;
 	return certify(parseCounts(uploaded, claim.dimension), {
-		method: recorded.method,
-		bases: recorded.bases,
-		fourier: recorded.fourier,
+		method: witness.method,
+		bases: witness.bases,
+		fourier: witness.fourier,
 		resamples: check.resamples,
 		confidence,
 		seed: Number(check.seed),
-		subtractAccidentals: recorded.backgroundSubtracted,
-		claim: recorded.claim?.schmidtNumber ?? claim.claimedSchmidtNumber,
+		subtractAccidentals: witness.backgroundSubtracted,
+		claim: witness.claim?.schmidtNumber ?? claim.claimedSchmidtNumber,
 		inputSha256
 	});
 }
@@ -54,7 +66,7 @@ export async function statedResult(
 	if (!isExploratory(analyses)) return { analyses, confidence, result: check.result! };
 	const atLevel = (level: number) =>
 		jsonRoundTrip(resultAtLevel(uploaded, claim, check, level, dataset.sha256));
-	let result: CertificationResult;
+	let result: CertifiedResult;
 	try {
 		// The check's own record must still re-run, as the bundle's verifier demands of a declared one.
 		const differs = firstDifference(check.result, atLevel(check.confidence));

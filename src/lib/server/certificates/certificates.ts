@@ -4,6 +4,8 @@
  */
 import { isTrialsResult } from '$lib/certify/trials';
 import { isTargetResult } from '$lib/certify/fidelity-target';
+import type { CertifiedResult } from '$lib/evidence/manifest';
+import { targetPart } from '../checks/target-task';
 import { readFile } from 'node:fs/promises';
 import type { Transaction } from 'sequelize';
 import { sha256Hex } from '../../evidence/hash';
@@ -57,11 +59,6 @@ async function finishedCheck(database: Database, claimId: string, checkId: strin
 		);
 	if (check.status !== 'done' || !check.result)
 		throw new ConflictError('Only a finished check can be certified.');
-	// The manifest, bundle and verify.mjs do not carry a declared target yet: refuse plainly.
-	if (isTargetResult(check.result))
-		throw new ConflictError(
-			'A fidelity-target check cannot be certified yet: the certificate and its verifier do not carry the declared target λ. Its result page and JSON stand on their own.'
-		);
 	const dataset = (await database.models.Dataset.findByPk(check.datasetId))!.get({ plain: true });
 	const uploaded = await readFile(datasetFilePath(dataset.sha256));
 	if (sha256Hex(uploaded) !== dataset.sha256)
@@ -79,6 +76,14 @@ async function currentCertificate(database: Database, claimId: string, transacti
 }
 
 type CheckSource = Awaited<ReturnType<typeof finishedCheck>>;
+
+/** fidelity-target: the target the check ran with, as the claim declared it (the verifier re-runs it). */
+function targetRecord(claim: ClaimAttributes, result: CertifiedResult) {
+	const target = targetPart(claim);
+	if (!isTargetResult(result)) return {};
+	if (!target) throw new ConflictError('This fidelity-target claim has no declared target λ.');
+	return { target: { ...target, source: 'declared' as const } };
+}
 
 /** What the manifest records: the claim as it stands, the check's settings and its result. */
 function evidenceInput(
@@ -100,7 +105,7 @@ function evidenceInput(
 			dimension: result.dimension,
 			method: result.method,
 			bases: result.bases,
-			fourier: result.fourier,
+			fourier: 'fourier' in result ? result.fourier : null,
 			claimedSchmidtNumber: result.claim?.schmidtNumber ?? claim.claimedSchmidtNumber,
 			manuscriptReference: claim.manuscriptReference ?? null
 		},
@@ -108,8 +113,9 @@ function evidenceInput(
 			resamples: check.resamples,
 			confidence,
 			seed: Number(check.seed),
-			subtractAccidentals: result.backgroundSubtracted
+			subtractAccidentals: 'backgroundSubtracted' in result && result.backgroundSubtracted
 		},
+		...targetRecord(claim, result),
 		result,
 		analyses,
 		uploaded,

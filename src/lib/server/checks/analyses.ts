@@ -24,7 +24,8 @@ import type { AnalysisRun } from '$lib/views/datasets';
 
 export type { AnalysisRun } from '$lib/views/datasets';
 
-type ClaimSettings = Pick<ClaimAttributes, 'method' | 'bases' | 'fourier'>;
+type ClaimSettings = Pick<ClaimAttributes, 'method' | 'bases' | 'fourier'> &
+	Partial<Pick<ClaimAttributes, 'target'>>;
 type CheckSettings = Pick<CheckAttributes, 'confidence' | 'resamples' | 'subtractAccidentals'>;
 
 export const settingsOf = (claim: ClaimSettings, check: CheckSettings): AnalysisSettings => ({
@@ -33,7 +34,8 @@ export const settingsOf = (claim: ClaimSettings, check: CheckSettings): Analysis
 	fourier: claim.fourier,
 	confidence: check.confidence,
 	resamples: check.resamples,
-	subtractAccidentals: !!check.subtractAccidentals
+	subtractAccidentals: !!check.subtractAccidentals,
+	...(claim.target ? { target: claim.target } : {})
 });
 
 /** The counts' canonical SHA-256; rows from before migration 0011 are read once and kept. */

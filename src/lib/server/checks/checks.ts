@@ -3,6 +3,7 @@
  * it for the worker threads (checks/runner.ts); reading one shows its progress and result.
  */
 import { col, type Transaction } from 'sequelize';
+import type { CountsAdvice } from '$lib/certify/planner/check-counts';
 import { checkRequestSchemaFor, type CheckRequest } from '$lib/claims/schema';
 import { DEFAULTS } from '$lib/certify';
 import { accountIdOf, type Actor } from '../core/actor';
@@ -42,6 +43,7 @@ const view = (c: CheckAttributes, cancelledBy: string | null = null): CheckView 
 	finishedAt: isoOrNull(c.finishedAt),
 	error: c.error,
 	result: c.result,
+	countsAdvice: c.countsAdvice ?? null,
 	cancelledAt: isoOrNull(c.cancelledAt),
 	cancelledBy,
 	byReferee: !!c.reviewLinkId

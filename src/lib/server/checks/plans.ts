@@ -9,12 +9,48 @@ import { planExperiment, type ExperimentPlan } from '$lib/certify/planner/plan-e
 import { parsePlanQuery } from '$lib/certify/planner/query';
 import { takeOrRefuse } from '../core/rate-limits';
 import { FieldError } from '../core/field-error';
+import { planTarget, type TargetPlan } from '$lib/certify/planner/plan-target';
+import { parseTargetPlanQuery } from '$lib/certify/planner/target-query';
 
 /** Answers kept (oldest dropped first): a plan is a pure function of its question. */
 const KEPT = 200;
 const kept = new Map<string, ExperimentPlan>();
+const keptTarget = new Map<string, TargetPlan>();
 
+/** fidelity-target with its declared λ (planner/plan-target.ts): exact limits, cheap to simulate. */
+async function targetPlanFor(values: Record<string, string | undefined>, address: string) {
+	const request = parseTargetPlanQuery(values);
+	const key = JSON.stringify(request);
+	const known = keptTarget.get(key);
+	if (known) return known;
+	await takeOrRefuse(
+		'planSimulations',
+		address,
+		'Too many plans with simulated counts from this address.'
+	);
+	let plan: TargetPlan;
+	try {
+		plan = planTarget(request);
+	} catch (error) {
+		if (error instanceof InputError) throw new FieldError('target', error.message);
+		throw error;
+	}
+	keptTarget.set(key, plan);
+	if (keptTarget.size > KEPT) keptTarget.delete(keptTarget.keys().next().value!);
+	return plan;
+}
+
+/** The API's planner: fidelity-target (with `target`) or a witness family. */
 export async function planFor(
+	values: Record<string, string | undefined>,
+	address: string
+): Promise<ExperimentPlan | TargetPlan> {
+	if (values.method === 'fidelity-target') return targetPlanFor(values, address);
+	return planWitnessFor(values, address);
+}
+
+/** The witness families' planner (the /plan page; it has no λ field). */
+export async function planWitnessFor(
 	values: Record<string, string | undefined>,
 	address: string
 ): Promise<ExperimentPlan> {

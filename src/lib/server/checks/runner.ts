@@ -7,6 +7,9 @@
 import { MessageChannel } from 'node:worker_threads';
 import { literal } from 'sequelize';
 import type { CertificationResult } from '$lib/certify';
+import type { CountsAdvice } from '$lib/certify/planner/check-counts';
+import type { EvidenceFiles } from '$lib/evidence/layout';
+import type { VerificationReport } from '$lib/evidence/verify';
 import type { Database } from '../db';
 import { ACTIVE_CHECK_STATUSES, type CheckModel } from '../db/models/Check';
 import { FairScheduler } from './fair-scheduler';
@@ -16,6 +19,10 @@ import { CheckCancelled, type CheckQueue, type QueuedCheck } from './queue';
 import { checkTaskOf } from './check-input';
 import { engineTasksOn, type EngineTasks } from './engine-tasks';
 import type { CheckMessage } from './task';
+import type { SummaryOutcome, SummaryTask } from './summary';
+import type { CheckTask } from './task';
+import type { AdvisedResult } from './worker';
+import type { BundleTask } from './evidence-tasks';
 import { WorkPool } from './work-pool';
 
 export type { CheckQueue, QueuedCheck } from './queue';
@@ -152,12 +159,17 @@ export class CheckRunner implements CheckQueue {
 			}
 		});
 		let result: CertificationResult | null = null;
+		let countsAdvice: CountsAdvice | null = null;
 		let failure: string | null = null;
 		try {
 			const task = await checkTaskOf(this.database, check, channel.port2);
 			const options = { transferList: [channel.port2], signal: abort.signal };
 			// A trials result (kind 'time-ordered-trials') is kept in the same column; see isTrialsResult.
-			result = (await this.work.runCheck(task, options)) as CertificationResult;
+			const { countsAdvice: advice, ...answer } = (await this.work.runCheck(
+				task,
+				options
+			)) as AdvisedResult;
+			[result, countsAdvice] = [answer, advice ?? null];
 			if (result.inputSha256 !== task.sha256)
 				throw new Error('the result does not name the dataset’s SHA-256');
 		} catch (error) {
@@ -173,6 +185,7 @@ export class CheckRunner implements CheckQueue {
 		await recordOutcome(this.database, check, {
 			startedAt: startedAt ?? new Date(),
 			result,
+			countsAdvice,
 			failure
 		});
 	}

@@ -3,6 +3,7 @@ import type { MessagePort } from 'node:worker_threads';
 import type { FourierConvention } from '../../certify';
 import type { ClaimMethod } from '../../claims/target';
 import type { TrialsMode } from '../../certify/trials';
+import type { DeclaredTarget } from '../../certify/fidelity-target/declared';
 
 /** What a trials claim adds to a task: its mode and declared probabilities (null: uniform). */
 export interface TrialsTaskPart {
@@ -11,10 +12,7 @@ export interface TrialsTaskPart {
 }
 
 /** What a declared-target claim adds to a task: λ as stored (Σλ² = 1) and as declared if scaled. */
-export interface TargetTaskPart {
-	coefficients: number[];
-	declared: number[] | null;
-}
+export type TargetTaskPart = DeclaredTarget;
 
 export interface CheckTask {
 	/** The stored counts file; or `bytes` when the caller holds them already. */

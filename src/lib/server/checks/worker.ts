@@ -14,6 +14,10 @@ import { lowerThisThread } from './thread-priority';
 import { runTrialsCheck } from './trials-task';
 import { runTargetCheck } from './target-task';
 import type { TargetResult } from '../../certify/fidelity-target';
+import { countsAdvice, type CountsAdvice } from '../../certify/planner/check-counts';
+
+/** A correlation-sum or fidelity result with the counts advice the runner stores beside it. */
+export type AdvisedResult = CertificationResult & { countsAdvice: CountsAdvice | null };
 
 // Once per thread, as the module loads: the request thread keeps the processor first.
 lowerThisThread();
@@ -35,7 +39,7 @@ async function readStored(file: string): Promise<Uint8Array> {
 
 export default async function runCheck(
 	task: CheckTask
-): Promise<CertificationResult | TrialsResult | TargetResult> {
+): Promise<AdvisedResult | TrialsResult | TargetResult> {
 	// The runner closes its end of the port once the result is in.
 	const post = (message: CheckMessage) => task.port?.postMessage(message);
 	post({ type: 'started' });
@@ -55,7 +59,7 @@ export default async function runCheck(
 				calibrationSha256: sha256Hex(task.calibration)
 			}
 		: {};
-	return certify(dataset, {
+	const options = {
 		...calibration,
 		method: task.method,
 		bases: task.bases,
@@ -65,7 +69,12 @@ export default async function runCheck(
 		seed: task.seed,
 		subtractAccidentals: task.subtractAccidentals,
 		claim: task.claim,
-		inputSha256,
+		inputSha256
+	};
+	const result = certify(dataset, {
+		...options,
 		onProgress: (fraction) => post({ type: 'progress', fraction })
 	});
+	// After the result and outside it: issuing and the verifiers re-run `certify`, never this.
+	return { ...result, countsAdvice: countsAdvice(dataset, options, result) };
 }

@@ -100,8 +100,8 @@ function countsParts(input: EvidenceInput) {
 	// Coincidences in each basis the claim uses, for the certificate's page one.
 	const given = input.context?.coincidencesPerBasis;
 	const perBasis =
-		given?.filter((b) => input.result.bases.includes(b.basis)) ??
-		input.result.bases.map((basis) => {
+		given?.filter((b) => input.claim.bases.includes(b.basis)) ??
+		input.claim.bases.map((basis) => {
 			const table = dataset.tables.find((t) => t.basis === basis);
 			return { basis, total: table ? table.counts.reduce((sum, c) => sum + c, 0) : 0 };
 		});

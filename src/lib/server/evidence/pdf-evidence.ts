@@ -6,7 +6,7 @@
 import { witnessFamilies } from '../../certify';
 import { margin, onScale, visibility } from '../../components/rounding';
 import { assumptionsOf } from '../../evidence/cautions';
-import type { EvidenceManifest } from '../../evidence/manifest';
+import type { WitnessManifest as EvidenceManifest } from '../../evidence/manifest';
 import { write } from './pdf-fonts';
 import { drawLadder, num, shownRungs } from './pdf-ladder';
 import { field, heading, INK, paragraph } from './pdf-parts';
@@ -15,7 +15,7 @@ type Doc = PDFKit.PDFDocument;
 
 export function methodBlock(doc: Doc, m: EvidenceManifest): void {
 	heading(doc, 'Method and what it assumes');
-	const family = witnessFamilies[m.claim.method];
+	const family = witnessFamilies[m.result.method];
 	field(doc, 'Method', `${family.title} (${m.claim.method}); ${m.result.trust}`);
 	field(doc, 'Bases', `${m.claim.bases.join(', ')}; Fourier convention: ${m.claim.fourier}`);
 	field(

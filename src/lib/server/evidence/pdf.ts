@@ -8,6 +8,8 @@ import { visibility } from '../../components/rounding';
 import { dateTimeInWords } from '../../dates';
 import { orcidUrl } from '../../orcid-id';
 import type { EvidenceManifest } from '../../evidence/manifest';
+import type { CertificationResult } from '../../certify';
+import { isTargetManifest, type WitnessManifest } from '../../evidence/manifest';
 import { drawAnalyses } from './pdf-analyses';
 import { attachEvidence, PDFA_OPTIONS } from './pdf-attachments';
 import { calibrationLine } from './pdf-calibration';
@@ -17,6 +19,7 @@ import { num } from './pdf-ladder';
 import { isTrialsManifest } from '../../evidence/trials-evidence';
 import { trialsEvidencePage, trialsKindLine, trialsResultBlock } from './pdf-trials';
 import { ACCENT, drawQr, field, heading, INK, MUTED, numberPages, paragraph } from './pdf-parts';
+import { targetEvidence, targetLines } from './pdf-target';
 
 type Doc = PDFKit.PDFDocument;
 
@@ -96,8 +99,11 @@ function resultBlock(doc: Doc, m: EvidenceManifest, context: CertificateContext)
 	const r = m.result;
 	doc.fontSize(13).fillColor(ACCENT);
 	write(doc, `Certified Schmidt number: ${r.certifiedSchmidtNumber}`, 'bold');
-	const bases = calibrationLine(r);
-	if (bases) paragraph(doc, bases, 9.5);
+	if (isTargetManifest(m)) targetLines(doc, m);
+	else {
+		const bases = calibrationLine(m.result as CertificationResult);
+		if (bases) paragraph(doc, bases, 9.5);
+	}
 	const claim = r.claim;
 	doc.fontSize(10.5).fillColor(INK);
 	write(
@@ -107,7 +113,7 @@ function resultBlock(doc: Doc, m: EvidenceManifest, context: CertificateContext)
 			: 'No claim was judged',
 		'bold'
 	);
-	if (claim?.shortfall) paragraph(doc, claim.shortfall, 9);
+	if (claim && 'shortfall' in claim && claim.shortfall) paragraph(doc, claim.shortfall, 9);
 	doc.moveDown(0.3);
 	field(
 		doc,
@@ -151,10 +157,12 @@ function evidencePage(doc: Doc, m: EvidenceManifest) {
 	doc.addPage();
 	doc.fontSize(13).fillColor(INK);
 	write(doc, 'The evidence behind the result', 'bold');
-	methodBlock(doc, m);
-	statisticBlock(doc, m);
-	boundsTable(doc, m);
-	cautionsBlock(doc, m);
+	if (isTargetManifest(m)) return targetEvidence(doc, m);
+	const w = m as WitnessManifest;
+	methodBlock(doc, w);
+	statisticBlock(doc, w);
+	boundsTable(doc, w);
+	cautionsBlock(doc, w);
 }
 
 /** Renders the certificate and resolves with the PDF bytes. */

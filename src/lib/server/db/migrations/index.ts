@@ -18,6 +18,7 @@ import * as trialsClaims from './0018-trials-claims';
 import * as targetClaims from './0020-target-claims';
 import * as certificateDois from './0021-certificate-dois';
 import * as orcidIds from './0022-orcid-ids';
+import * as countsAdvice from './0024-counts-advice';
 
 export const migrations = [
 	{ name: '0001-initial', ...initial },
@@ -38,5 +39,6 @@ export const migrations = [
 	{ name: '0018-trials-claims', ...trialsClaims },
 	{ name: '0020-target-claims', ...targetClaims },
 	{ name: '0021-certificate-dois', ...certificateDois },
-	{ name: '0022-orcid-ids', ...orcidIds }
+	{ name: '0022-orcid-ids', ...orcidIds },
+	{ name: '0024-counts-advice', ...countsAdvice }
 ];

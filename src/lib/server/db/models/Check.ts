@@ -1,5 +1,6 @@
 import { DataTypes, type Model, type ModelStatic, type Sequelize } from 'sequelize';
 import type { CertificationResult } from '$lib/certify';
+import type { CountsAdvice } from '$lib/certify/planner/check-counts';
 
 import { CHECK_STATUSES, type CheckStatus } from '$lib/views/checks';
 
@@ -28,6 +29,8 @@ export interface CheckAttributes {
 	/** Times the runner started it (migration 0010); a clean stop gives its start back. */
 	attempts?: number;
 	result: CertificationResult | null;
+	/** Counts needed for an unsupported claim (migration 0024), simulated after the check. */
+	countsAdvice?: CountsAdvice | null;
 	error: string | null;
 	startedAt: Date | null;
 	finishedAt: Date | null;
@@ -59,6 +62,7 @@ export function defineCheck(sequelize: Sequelize): CheckModel {
 			cancelledBy: { type: DataTypes.STRING, allowNull: true },
 			attempts: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
 			result: { type: DataTypes.JSON, allowNull: true },
+			countsAdvice: { type: DataTypes.JSON, allowNull: true },
 			error: { type: DataTypes.TEXT, allowNull: true },
 			startedAt: { type: DataTypes.DATE, allowNull: true },
 			finishedAt: { type: DataTypes.DATE, allowNull: true }

@@ -20,10 +20,27 @@ export const planPaths = {
 				'What it takes to certify Schmidt number k: critical visibilities and counts per basis for 90 % power, simulated with the engine (public, no sign-in)',
 			security: [],
 			parameters: [
-				query('method', true, { type: 'string', enum: METHOD_IDS }, 'The witness family.'),
+				query(
+					'method',
+					true,
+					{ type: 'string', enum: [...METHOD_IDS, 'fidelity-target'] },
+					'The witness family, or fidelity-target (then `target` is required and `dimension` is its length).'
+				),
+				query(
+					'checkId',
+					false,
+					{ type: 'string' },
+					'A finished check as the model (its own tables, proportions, bases and visibility); needs a caller who may read it (401 without one, 404 for a check out of sight). Then only `schmidtNumber` is read (default: the claim’s).'
+				),
+				query(
+					'target',
+					false,
+					{ type: 'string', pattern: '^[0-9.eE+-]+(,[0-9.eE+-]+)+$' },
+					'fidelity-target only: the declared Schmidt coefficients λ, not increasing (scaled to Σλ² = 1).'
+				),
 				query(
 					'dimension',
-					true,
+					false,
 					{ type: 'integer', minimum: MIN_DIMENSION, maximum: MAX_DIMENSION },
 					'Local dimension d.'
 				),
@@ -61,7 +78,11 @@ export const planPaths = {
 			responses: {
 				'200': {
 					description: 'The plan.',
-					content: { 'application/json': { schema: ref('Plan') } }
+					content: {
+						'application/json': {
+							schema: { oneOf: [ref('Plan'), ref('TargetPlan'), ref('CheckPlan')] }
+						}
+					}
 				},
 				'400': {
 					description: 'A missing or bad parameter, named in `field` (code bad_input).',
@@ -103,6 +124,56 @@ const design = {
 
 export const planSchemas = {
 	PlanDesign: design,
+	CheckPlan: {
+		type: 'object',
+		description:
+			'A finished check as the model: its rungs, its effective visibility, and the counts for 90 % power at Schmidt number k simulated from its own tables (the advice stored after the check for the claim’s own k).',
+		required: [
+			'model',
+			'checkId',
+			'schmidtNumber',
+			'rungs',
+			'criticalVisibility',
+			'counts',
+			'note'
+		],
+		properties: {
+			model: { type: 'string', enum: ['check'] },
+			checkId: { type: 'string' },
+			method: { type: 'string' },
+			dimension: { type: 'integer' },
+			bases: { type: 'array', items: { type: 'integer' } },
+			schmidtNumber: { type: 'integer' },
+			visibility: { type: 'number' },
+			criticalVisibility: { type: 'number' },
+			rungs: { type: 'array', items: { type: 'object' } },
+			counts: { type: ['object', 'null'] },
+			note: { type: ['string', 'null'] }
+		}
+	},
+	TargetPlan: {
+		type: 'object',
+		description:
+			'fidelity-target: the rungs Σ_{i≤r} λ_i² with their critical visibilities, and the computational pairs (tilted table at the same integration time) for 90 % power, simulated with the exact-limit check.',
+		required: [
+			'request',
+			'rungs',
+			'criticalVisibility',
+			'pairsNeeded',
+			'power',
+			'note',
+			'simulation'
+		],
+		properties: {
+			request: { type: 'object' },
+			rungs: { type: 'array', items: { type: 'object' } },
+			criticalVisibility: { type: 'number' },
+			pairsNeeded: { type: ['integer', 'null'] },
+			power: { type: ['number', 'null'] },
+			note: { type: ['string', 'null'] },
+			simulation: { type: 'object' }
+		}
+	},
 	Plan: {
 		type: 'object',
 		required: ['request', 'rungs', 'design', 'alternatives', 'curve', 'simulation'],

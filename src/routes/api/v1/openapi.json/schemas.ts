@@ -240,6 +240,20 @@ export const schemas = {
 			finishedAt: nullable(timestamp),
 			error: nullable(text),
 			result: nullable(ref('CertificationResult')),
+			countsAdvice: nullable({
+				type: 'object',
+				description:
+					'For an unsupported claim that more counts would certify: the total counts, in the data’s proportions, for a 90 % chance, simulated once after the check (not part of the signed result).',
+				properties: {
+					schmidtNumber: whole,
+					totalCounts: nullable(whole),
+					factor: nullable(number),
+					power: nullable(number),
+					experiments: whole,
+					resamples: whole,
+					reason: nullable(text)
+				}
+			}),
 			cancelledAt: nullable(timestamp),
 			cancelledBy: {
 				...nullable(text),
@@ -307,8 +321,11 @@ export const schemas = {
 					verdict: { type: 'string', enum: ['supported', 'not supported'] },
 					boundToBeat: number,
 					visibilityNeeded: number,
-					countsNeeded: whole,
-					powerAtCountsNeeded: number,
+					moreCountsHelp: {
+						type: 'boolean',
+						description:
+							'Unsupported, but the point value clears the rung: more counts would certify it (the check’s countsAdvice says how many).'
+					},
 					shortfall: text
 				}
 			}),

@@ -31,8 +31,6 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 	]).catch(pageProblem);
 	// Time-ordered trials have no reproduce command of the counts kind (their certificate does).
 	const trials = isTrialsResult(check.result);
-	// Nor from a declared target: the certificate does not carry λ (the issue action says 409).
-	const target = isTargetResult(check.result);
 	return {
 		claim,
 		check,
@@ -43,7 +41,7 @@ export const load: PageServerLoad = async ({ locals, params, url }) => {
 				? reproduceCommand(check.result, dataset.originalName)
 				: null,
 		certificates: certificates.filter((c) => c.checkId === check.id),
-		mayIssue: mayIssue && check.status === 'done' && !check.byReferee && !target,
+		mayIssue: mayIssue && check.status === 'done' && !check.byReferee,
 		mayCancel
 	};
 };
