@@ -313,7 +313,6 @@ export type ClaimInput = z.output<typeof claimInputSchema>;
 /** What a form or an API body may send before validation. */
 export type ClaimInputValues = z.input<typeof claimInputSchema>;
 
-export type { ClaimQuery } from './filter';
 
 const confidenceRange = `Confidence must lie strictly between ${CONFIDENCE.above} and ${CONFIDENCE.below}.`;
 
