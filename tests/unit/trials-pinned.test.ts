@@ -8,7 +8,7 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { ENGINE_VERSION } from '../../src/lib/certify';
-import { certifyTrials, TrialsParser } from '../../src/lib/certify/trials';
+import { certifyTrials, parseTrials, TrialsParser } from '../../src/lib/certify/trials';
 import { pinnedCases, type PinnedCase } from '../trials-pinned-cases';
 
 const expected = JSON.parse(
@@ -37,5 +37,38 @@ describe('the time-ordered check, pinned to the engine before the speed-up', () 
 		const c = pinnedCases().find((p) => p.name === 'd7-short-run')!;
 		const pinned = { ...expected[c.name], engine: { version: ENGINE_VERSION } };
 		for (const chunk of [1, 2, 3, 5, 11]) expect(resultOf(c, chunk)).toEqual(pinned);
+	});
+});
+
+describe('bad rows among plain ones: the same error as before the fast path', () => {
+	// Messages as the parser gave them before the speed-up (main at e9a6a5b); d = 3.
+	const head = 'basis,outcome_a,outcome_b\n0,1,1\n1,2,2\n';
+	const cases: [string, string][] = [
+		[head + '0,3,1\n0,1,1\n', 'line 4, column 2: outcome_a must be 0..2, got 3'],
+		[head + '0,1,x\n', "line 4, column 3: outcome_b must be a whole number, got 'x'"],
+		[head + '0,1\n', 'line 4, column 3: expected 3 fields, got 2'],
+		[head + '0,1,2,2\n', 'line 4, column 4: expected 3 fields, got 4'],
+		[head + '0,1,,\n', 'line 4, column 4: expected 3 fields, got 4'],
+		[
+			head + '0,00000000000001,1\n',
+			"line 4, column 2: outcome_a must be a whole number, got '00000000000001'"
+		],
+		[
+			'outcome_b,basis,outcome_a\n0,1,1\n1,2,2\n2,9,0\n',
+			'line 4, column 2: basis: basis 9 does not exist in dimension 3 (0 and 1 exist in every dimension; 2..3 only when 3 is a prime power)'
+		]
+	];
+	for (const [text, message] of cases)
+		it(message, () => {
+			expect(() => parseTrials(new TextEncoder().encode(text), 3, 'trials')).toThrow(message);
+		});
+
+	it('a 13-digit field is still a number; a basis first seen mid-file is still checked', () => {
+		const data = parseTrials(
+			new TextEncoder().encode(head + '1,0000000000001,1\n2,0,0\n'),
+			3,
+			'trials'
+		);
+		expect(Array.from(data.codes)).toEqual([1, 3, 3, 5]);
 	});
 });
