@@ -80,11 +80,13 @@ export interface SettingsCheck {
  */
 export function checkSettings(settings: Uint16Array, bases: number[], pi: number[]): SettingsCheck {
 	const n = settings.length;
-	const index = new Map(bases.map((b, k) => [b, k]));
+	// Slot of each basis by its number: a typed lookup per setting, not a Map's.
+	const index = new Int32Array(Math.max(...bases) + 1);
+	bases.forEach((b, k) => (index[b] = k));
 	const counts = new Float64Array(bases.length);
 	let changes = 0;
 	for (let i = 0; i < n; i++) {
-		counts[index.get(settings[i])!]++;
+		counts[index[settings[i]]]++;
 		if (i > 0 && settings[i] !== settings[i - 1]) changes++;
 	}
 	let chiSquare = 0;
