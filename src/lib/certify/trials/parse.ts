@@ -36,7 +36,7 @@ export class TrialsParser {
 	private readonly tableOf: (Float64Array | undefined)[] = [];
 	/** Header of exactly basis, outcome_a, outcome_b in mode trials: plain rows take the fast path. */
 	private plain = false;
-	private readonly row = new Float64Array(3);
+	private readonly row = new Int32Array(3);
 	private trials = 0;
 	private lastTime = -Infinity;
 	private lastBlock = -1;
@@ -135,21 +135,27 @@ export class TrialsParser {
 	private plainRows(bytes: Uint8Array, start: number): number {
 		const { row, tableOf, dimension: d } = this;
 		const { basis: at0, outcome_a: at1, outcome_b: at2 } = this.at;
+		// A plain row takes at least 6 bytes ("0,0,0\n"): room for every row left in `bytes`.
+		const codes = this.codes.reserve(Math.ceil((bytes.length - start) / 6));
+		const first = this.codes.length;
+		const room = MAX_TRIALS - this.trials;
 		let p = start;
-		while (this.trials < MAX_TRIALS) {
+		let n = 0;
+		while (n < room) {
 			const q = plainFields(bytes, p, row);
-			if (q < 0) return p;
+			if (q < 0) break;
 			const basis = row[at0];
 			const a = row[at1];
 			const b = row[at2];
 			const table = tableOf[basis];
-			if (table === undefined || a >= d || b >= d) return p;
+			if (table === undefined || a >= d || b >= d) break;
 			table[a * d + b]++;
-			this.line++;
-			this.trials++;
-			this.codes.push(basis * 2 + (a === b ? 1 : 0));
+			codes[first + n++] = basis * 2 + (a === b ? 1 : 0);
 			p = q;
 		}
+		this.line += n;
+		this.trials += n;
+		this.codes.length += n;
 		return p;
 	}
 

@@ -7,7 +7,7 @@ const NEWLINE = 0x0a;
  * Three fields of one to nine digits, comma-separated, ending in LF, from `p`: their values into
  * `row`, and the next line's start; −1 for any other line or one cut off by the end of `bytes`.
  */
-export function plainFields(bytes: Uint8Array, p: number, row: Float64Array): number {
+export function plainFields(bytes: Uint8Array, p: number, row: Int32Array): number {
 	let field = 0;
 	let value = 0;
 	let digits = 0;
