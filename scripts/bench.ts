@@ -13,13 +13,13 @@
  */
 import { spawnSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
-import { availableParallelism, loadavg, tmpdir } from 'node:os';
+import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { performance } from 'node:perf_hooks';
 import { ENGINE_VERSION, sampledCounts, states, toCountsCsv } from '../src/lib/certify';
 import { issueTimes } from './bench-issue';
 import { LARGE_DIMENSIONS, largeRows } from './bench-large';
-import { TRIALS_BENCH, trialsBenchArgs, trialsTargetCells } from './bench-trials';
+import { trialsRow } from './bench-trials';
 import { adviceRows } from './bench-advice';
 
 const RESAMPLES = 10_000;
@@ -91,15 +91,24 @@ function printTable(rows: string[][]) {
 	for (const r of rows) console.log(line(r));
 }
 
+/** The trials row's time: the median of 3 whole-process runs (each takes seconds). */
+const trialsTimes = (args: string[]) => medianOf(3, () => timed(process.execPath, args));
 const blank = (n: number) => new Array<string>(n).fill('');
 const f = (x: number | null, digits = 2) => (x === null ? '–' : x.toFixed(digits));
 const only = process.argv.indexOf('--only');
 if (only >= 0) {
-	if (process.argv[only + 1] !== 'advice') throw new Error('--only takes: advice');
+	const what = process.argv[only + 1];
+	if (what !== 'advice' && what !== 'trials') throw new Error('--only takes: advice, trials');
+	const name = what === 'advice' ? 'counts-needed' : 'time-ordered trials';
 	console.log(
-		`Rankseal bench, engine ${ENGINE_VERSION}, node ${process.version}: counts-needed rows only`
+		`Rankseal bench, engine ${ENGINE_VERSION}, node ${process.version}: ${name} rows only`
 	);
-	printTable(adviceRows());
+	if (what === 'advice') printTable(adviceRows());
+	else {
+		const scratch = mkdtempSync(path.join(tmpdir(), 'rankseal-bench-'));
+		printTable([trialsRow(scratch, trialsTimes)]);
+		rmSync(scratch, { recursive: true, force: true });
+	}
 	process.exit(0);
 }
 
@@ -172,21 +181,7 @@ for (const t of await issueTimes([...DIMENSIONS, ...LARGE_DIMENSIONS], RESAMPLES
 	const name = `issue a certificate (${t.method}, ${t.resamples} resamples): check ${f(t.check)} s + issue ${f(t.issue)} s${versus}`;
 	rows.push([String(t.d), name, f(t.check + t.issue), ...blank(7)]);
 }
-const trialsArgs = trialsBenchArgs(folder);
-const trials = medianOf(3, () => timed(process.execPath, trialsArgs));
-// Parse, supermartingale, ladder and the i.i.d. comparison, measured in this run against 10 s.
-const trialsTarget = trialsTargetCells(trials.wall);
-rows.push([
-	String(TRIALS_BENCH.d),
-	`time-ordered check, ${TRIALS_BENCH.trials.toExponential(0)} trials (whole process; load average ${loadavg()[0].toFixed(1)} on ${availableParallelism()} cores)`,
-	f(trials.wall),
-	f(trials.cpu),
-	...blank(2),
-	trialsTarget.ratio,
-	'',
-	trialsTarget.target,
-	trialsTarget.met
-]);
+rows.push(trialsRow(folder, trialsTimes));
 rows.push(...adviceRows());
 rmSync(folder, { recursive: true, force: true });
 

@@ -3,13 +3,10 @@
  * §10), with the approximate growth-rate-adaptive (aGRAPA) bets of Waudby-Smith & Ramdas,
  * J. R. Stat. Soc. B 86, 1 (2024): λ_i from the trials before i only, capped at BET_CAP/μ.
  */
+import { BLOCK, betBlock, Moments, Wealth } from './bet-blocks';
 
 /** λ ≤ c/μ keeps every factor ≥ 1 − c > 0 (X ≥ 0), so one unlucky trial never zeroes M. */
 export const BET_CAP = 0.5;
-/** M is kept as mantissa × 10^scale: rescaled by 10^±STEP, never overflowing over 10⁸ trials. */
-const STEP = 100;
-const UP = 1e100;
-const DOWN = 1e-100;
 
 export interface BetPath {
 	/** log₁₀ max_{n≥0} M_n (≥ 0, since M_0 = 1): the p-value is 10^−this. */
@@ -21,38 +18,11 @@ export interface BetPath {
 	traceStep: number;
 }
 
-/** Running state of one rung's M, kept as mantissa × 10^scale. */
-class Wealth {
-	m = 1;
-	scale = 0;
-	peak = 1;
-	peakScale = 0;
-	threshold = 1;
-	constructor(
-		readonly mu: number,
-		readonly cap: number,
-		readonly trace: Float64Array
-	) {}
-	rescale(): void {
-		const up = this.m > UP;
-		this.m *= up ? DOWN : UP;
-		this.scale += up ? STEP : -STEP;
-		this.threshold = this.peak * 10 ** (this.peakScale - this.scale);
-	}
-	path(traceStep: number): BetPath {
-		return {
-			log10Peak: Math.log10(this.peak) + this.peakScale,
-			log10Final: Math.log10(this.m) + this.scale,
-			trace: this.trace,
-			traceStep
-		};
-	}
-}
-
 /**
  * Bets on X_i = values[codes[i]] ≥ 0 (at most xMax) against each mean in `mus`, in one pass: the
  * running mean and variance are shared, only μ differs. The priors (mean xMax/2, variance
- * xMax²/4, weight one trial) are those of the paper's bounded-[0, 1] setting, rescaled.
+ * xMax²/4, weight one trial) are those of the paper's bounded-[0, 1] setting, rescaled. The pass
+ * goes block by block (bet-blocks.ts), a block ending at every trace point.
  */
 export function betAgainstEach(
 	codes: Uint16Array | Uint32Array,
@@ -64,35 +34,25 @@ export function betAgainstEach(
 	const n = codes.length;
 	const traceStep = tracePoints > 0 ? Math.max(1, Math.ceil(n / tracePoints)) : 0;
 	const traceLength = traceStep ? Math.ceil(n / traceStep) : 0;
-	const rungs = mus.map((mu) => new Wealth(mu, BET_CAP / mu, new Float64Array(traceLength)));
-	let sum = xMax / 2;
-	let squares = (xMax * xMax) / 4;
-	let untilTrace = traceStep;
-	for (let i = 0; i < n; i++) {
-		const mean = sum / (i + 1);
-		const variance = squares / (i + 1);
-		const x = values[codes[i]];
-		for (const w of rungs) {
-			const gap = mean - w.mu;
-			if (gap > 0) {
-				const lambda = Math.min(gap / (variance + gap * gap), w.cap);
-				w.m *= 1 + lambda * (x - w.mu);
-				if (w.m > UP || w.m < DOWN) w.rescale();
-				if (w.m > w.threshold) {
-					w.peak = w.threshold = w.m;
-					w.peakScale = w.scale;
-				}
-			}
-		}
-		sum += x;
-		squares += (x - mean) * (x - mean);
-		if (traceStep && (--untilTrace === 0 || i === n - 1)) {
-			untilTrace = traceStep;
-			const at = Math.ceil((i + 1) / traceStep) - 1;
-			for (const w of rungs) w.trace[at] = Math.log10(w.m) + w.scale;
-		}
+	const rungs = mus.map(
+		(mu) => new Wealth(mu, BET_CAP / mu, values, new Float64Array(traceLength))
+	);
+	const moments = new Moments(xMax);
+	for (let from = 0; from < n;) {
+		const nextTrace = traceStep ? (Math.floor(from / traceStep) + 1) * traceStep : n;
+		const to = Math.min(from + BLOCK, n, nextTrace);
+		moments.fill(codes, values, from, to);
+		for (const w of rungs) betBlock(w, moments);
+		if (traceStep && (to % traceStep === 0 || to === n))
+			for (const w of rungs) w.trace[Math.ceil(to / traceStep) - 1] = Math.log10(w.m) + w.scale;
+		from = to;
 	}
-	return rungs.map((w) => w.path(traceStep));
+	return rungs.map((w) => ({
+		log10Peak: Math.log10(w.peak) + w.peakScale,
+		log10Final: Math.log10(w.m) + w.scale,
+		trace: w.trace,
+		traceStep
+	}));
 }
 
 /** One rung's path (the tests' entry). */

@@ -20,6 +20,17 @@ export class GrowingArray<T extends Uint16Array | Uint32Array> {
 	view(): T {
 		return this.data.subarray(0, this.length) as T;
 	}
+	/** The backing array with room for `more` values past `length`; fill it, then set `length`. */
+	reserve(more: number): T {
+		let size = this.data.length;
+		while (size < this.length + more) size *= 2;
+		if (size > this.data.length) {
+			const next = new (this.data.constructor as new (n: number) => T)(size);
+			next.set(this.data);
+			this.data = next;
+		}
+		return this.data;
+	}
 }
 
 /** Per-block sums as rows arrive: a block opens with its basis, then counts rows and matches. */
