@@ -72,6 +72,8 @@ export type EvidenceInput = Omit<
 	uploadedFormat: 'csv' | 'json';
 	/** The calibration file the check used, as uploaded. */
 	calibrationBytes?: Uint8Array | null;
+	/** fidelity-target: the calibration run λ was fitted on (manifest `target.run` names it). */
+	targetRunBytes?: Uint8Array | null;
 	/** The canonical counts text when the caller has it (the service reads it on the work pool). */
 	canonical?: string;
 	context?: EvidenceContext;
@@ -157,6 +159,7 @@ export async function makeEvidence(
 		uploaded,
 		uploadedFormat,
 		calibrationBytes: calibration,
+		targetRunBytes,
 		canonical: _,
 		context,
 		...rest
@@ -195,6 +198,9 @@ export async function makeEvidence(
 		[BUNDLE_FILES.canonicalCounts]: utf8(canonical),
 		...(longForm ? { [BUNDLE_FILES.canonicalCountsCsv]: longForm.bytes } : {}),
 		...(calibration ? { [CALIBRATION_FILE]: calibration } : {}),
+		...(manifest.target?.run && targetRunBytes
+			? { [manifest.target.run.file]: targetRunBytes }
+			: {}),
 		[BUNDLE_FILES.manifest]: utf8(text),
 		[BUNDLE_FILES.signature]: utf8(signature + '\n'),
 		[BUNDLE_FILES.publicKey]: utf8(key.publicKey + '\n'),
