@@ -6,7 +6,7 @@
  * Expected numbers: the engine called directly (tests/unit/target-fit.test.ts ties the fit to
  * §4.3′'s p₀(m, m) = λ_m² and its coverage).
  */
-import { spawnSync } from 'node:child_process';
+import { execFileSync, spawnSync } from 'node:child_process';
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
@@ -238,6 +238,19 @@ describe('a fidelity-target claim with λ from a calibration run', () => {
 		});
 		expect(offline.stdout + offline.stderr).not.toMatch(/FAIL/);
 		expect(offline.status).toBe(3);
+		// The certificate says where λ came from (read back with poppler's pdftotext).
+		writeFileSync(path.join(folder, 'certificate.pdf'), files[BUNDLE_FILES.pdf]);
+		const pdf = execFileSync(
+			'pdftotext',
+			['-enc', 'UTF-8', path.join(folder, 'certificate.pdf'), '-'],
+			{
+				encoding: 'utf8'
+			}
+		).replace(/\s+/g, ' ');
+		expect(pdf).toMatch(
+			/fitted on a separate calibration run \(calibration-run\.csv in the bundle/
+		);
+		expect(pdf).not.toMatch(/declared with the claim before the data/);
 
 		// A tampered run, signed anew by the service's own key: it no longer fits the certified λ.
 		const tampered = run.replace(/^0,1,1,(\d+)$/m, (_, n) => `0,1,1,${Number(n) - 500}`);
