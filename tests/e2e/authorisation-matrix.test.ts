@@ -101,6 +101,8 @@ POST /claims/[id]/edit?/save                    L    404  303  303  404  404  L 
 PUT /api/v1/claims/[id]                         401  404  200  200  404  404  401  401  401  200  401  401  404
 POST /claims/[id]?/upload                       L    404  303  303  404  403  L    L    L    L    L    L    404
 POST /api/v1/claims/[id]/datasets               401  404  201  201  404  403  401  401  401  201  401  401  404
+POST /claims/[id]?/targetRun                    L    404  400  400  404  403  L    L    L    L    L    L    404
+POST /api/v1/claims/[id]/target-run             401  404  400  400  404  403  401  401  401  400  401  401  404
 POST /claims/[id]?/check                        L    404  303  303  404  403  L    L    L    L    L    L    404
 POST /api/v1/claims/[id]/checks                 401  404  202  202  404  403  401  401  401  202  401  401  404
 POST /claims/[id]/checks/[checkId]?/issue       L    404  303  303  404  403  L    L    L    L    L    L    404

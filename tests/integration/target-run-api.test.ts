@@ -126,8 +126,8 @@ describe('the calibration run on the API', () => {
 describe('the calibration run on the claim page', () => {
 	it('fits λ from the form and redirects to the claim', async () => {
 		const claim = await runClaim();
-		const outcome = await claimPage.actions
-			.targetRun(event(claim.id, form(run), 'page'))
+		const outcome = await Promise.resolve()
+			.then(() => claimPage.actions.targetRun(event(claim.id, form(run), 'page')))
 			.catch((thrown: unknown) => thrown);
 		expect(isRedirect(outcome)).toBe(true);
 		expect((outcome as { location: string }).location).toBe(`/claims/${claim.id}`);
