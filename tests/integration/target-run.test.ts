@@ -24,6 +24,7 @@ import { issueCertificate } from '../../src/lib/server/certificates/certificates
 import { certificateFile } from '../../src/lib/server/certificates/certificate-reads';
 import { createClaim, getClaim } from '../../src/lib/server/claims/claims';
 import { addTargetRun } from '../../src/lib/server/claims/target-run';
+import { updateClaim } from '../../src/lib/server/claims/claim-edit';
 import { addDataset } from '../../src/lib/server/datasets/datasets';
 import { problemOf } from '../../src/lib/server/http/problems';
 import { makeEvidence } from '../../src/lib/server/evidence/artifacts';
@@ -140,6 +141,21 @@ describe('a fidelity-target claim with λ from a calibration run', () => {
 			status: 409,
 			message: expect.stringMatching(/λ is frozen/)
 		});
+		// The edit form (text fields only) keeps where λ came from and λ itself; d is held to λ.
+		const edit = { ...claimFields, dimension: '3', method: 'fidelity-target', bases: '0,1' };
+		const edited = await updateClaim(ctx.database, asUser(ada), claim.id, {
+			...edit,
+			title: 'Pixel pairs, renamed',
+			fourier: 'cyclic',
+			claimedSchmidtNumber: '2',
+			manuscriptReference: ''
+		} as never);
+		expect(edited).toMatchObject({ title: 'Pixel pairs, renamed', targetFrom: 'calibration-run' });
+		expect(edited.target).toEqual(view.target);
+		const wider = { ...edit, dimension: '4', claimedSchmidtNumber: '2', fourier: 'cyclic' };
+		expect(
+			await refusal(() => updateClaim(ctx.database, asUser(ada), claim.id, wider as never))
+		).toMatchObject({ field: 'dimension', message: expect.stringMatching(/d = 3/) });
 	});
 
 	it('refuses a run that is the certified counts, and counts that are the run, naming them', async () => {
@@ -225,6 +241,10 @@ describe('a fidelity-target claim with λ from a calibration run', () => {
 			fit: { method: 'diagonal-share', diagonal: fit.diagonal }
 		});
 		expect(new TextDecoder().decode(files['calibration-run.csv'])).toBe(run);
+		// The RO-Crate names the run as an input of the check.
+		const crate = JSON.parse(new TextDecoder().decode(files[BUNDLE_FILES.crate]));
+		const action = crate['@graph'].find((e: { '@type': string }) => e['@type'] === 'CreateAction');
+		expect(action.object).toContainEqual({ '@id': 'calibration-run.csv' });
 		const report = verifyEvidence(files);
 		expect(report).toMatchObject({ valid: true, failedItem: null });
 		expect(report.passed).toContain('calibration-run.csv (λ re-fitted)');
