@@ -241,6 +241,9 @@ describe('a fidelity-target claim with λ from a calibration run', () => {
 			fit: { method: 'diagonal-share', diagonal: fit.diagonal }
 		});
 		expect(new TextDecoder().decode(files['calibration-run.csv'])).toBe(run);
+		expect(new TextDecoder().decode(files[BUNDLE_FILES.readme])).toMatch(
+			/calibration-run\.csv: the separate calibration run the target λ was fitted on/
+		);
 		// The RO-Crate names the run as an input of the check.
 		const crate = JSON.parse(new TextDecoder().decode(files[BUNDLE_FILES.crate]));
 		const action = crate['@graph'].find((e: { '@type': string }) => e['@type'] === 'CreateAction');

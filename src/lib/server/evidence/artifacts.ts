@@ -29,6 +29,7 @@ import { fillPlaceholders } from '../mail/templates';
 import { addBundleMetadata } from './bundle-metadata';
 import { certificatePdf, type CertificateContext } from './pdf';
 import { trialsCountsParts } from './trials-parts';
+import { targetRunNote } from './target-readme';
 import { trialsReadmeNote } from './trials-readme';
 import { verifierBytes } from './verifier-file';
 import { zipFiles } from './zip-write';
@@ -129,7 +130,7 @@ function readmeText(manifest: EvidenceManifest, fingerprint: string, urls: Evide
 		verifyUrl: urls.verify,
 		uploadedName: uploadedName(manifest).padEnd(22)
 	});
-	return filled + trialsReadmeNote(manifest);
+	return filled + trialsReadmeNote(manifest) + targetRunNote(manifest);
 }
 
 /** Adds the signed list of every file's SHA-256 (contents.json, contents.sig). */
