@@ -28,6 +28,4 @@ export function fitFromRun(
 	return fitTarget(run, sha256);
 }
 
-/** The caution a fitted target adds to the result, in place of "declared with the claim". */
-export const fitCaution = (fit: TargetFit) =>
-	`The target λ (${fit.coefficients.map((x) => x.toFixed(6)).join(', ')}) was fitted on a separate calibration run (SHA-256 ${fit.runSha256}: each λ_m² its share of the matching pairs) and frozen before these counts were certified; the tilted vectors of basis 1 must have been set from this λ; the certified number holds for that target only.`;
+export { fitCaution } from '../lib/certify/fidelity-target/fitted';

@@ -101,6 +101,8 @@ POST /claims/[id]/edit?/save                    L    404  303  303  404  404  L 
 PUT /api/v1/claims/[id]                         401  404  200  200  404  404  401  401  401  200  401  401  404
 POST /claims/[id]?/upload                       L    404  303  303  404  403  L    L    L    L    L    L    404
 POST /api/v1/claims/[id]/datasets               401  404  201  201  404  403  401  401  401  201  401  401  404
+POST /claims/[id]?/targetRun                    L    404  400  400  404  403  L    L    L    L    L    L    404
+POST /api/v1/claims/[id]/target-run             401  404  400  400  404  403  401  401  401  400  401  401  404
 POST /claims/[id]?/check                        L    404  303  303  404  403  L    L    L    L    L    L    404
 POST /api/v1/claims/[id]/checks                 401  404  202  202  404  403  401  401  401  202  401  401  404
 POST /claims/[id]/checks/[checkId]?/issue       L    404  303  303  404  403  L    L    L    L    L    L    404
@@ -248,9 +250,15 @@ describe('the authorisation matrix', () => {
 		expect(document.problems.join('\n')).toBe('');
 		const unanswered = document.operations().filter((id) => !document.answered.has(id));
 		expect(unanswered, 'documented operations no row asked').toEqual([]);
-		// Asked here only where the state refuses them (409): cancelling finished checks, withdrawing
-		// a certificate after its claim's withdrawal. Their 200s are the integration tests'.
-		const onlyRefused = new Set(['cancelCheck', 'cancelReRun', 'withdrawCertificate']);
+		// Asked here only where the state refuses them: cancelling finished checks (409), withdrawing
+		// a certificate after its claim's withdrawal (409), a target run for a claim that declares its
+		// λ (400). Their successes are the integration tests' (target-run-api.test.ts for the run).
+		const onlyRefused = new Set([
+			'cancelCheck',
+			'cancelReRun',
+			'withdrawCertificate',
+			'addTargetRun'
+		]);
 		const noSuccess = [...document.answered]
 			.filter(([, statuses]) => ![...statuses].some((status) => status < 300))
 			.map(([id]) => id)

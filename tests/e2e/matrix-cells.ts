@@ -93,6 +93,8 @@ function body(route: string, caller: Caller, kit: Kit): Body | undefined {
 			json: { datasetId: kit.datasetId, resamples: 100 }
 		}),
 		'POST /api/v1/claims/[id]/datasets': () => ({ text: csv(`api ${who}`), type: 'text/csv' }),
+		// The matrix's claim declares no calibration run: members are refused by name (400).
+		'POST /api/v1/claims/[id]/target-run': () => ({ text: csv(`run ${who}`), type: 'text/csv' }),
 		'POST /api/v1/claims/[id]/review-links': () => ({ json: { label: 'second referee' } }),
 		'POST /api/v1/claims/[id]/shares': () => ({ json: share }),
 		'POST /api/v1/certificates/[id]/withdraw': () => ({ json: { reason: 'Matrix withdrawal.' } }),
@@ -111,6 +113,9 @@ function body(route: string, caller: Caller, kit: Kit): Body | undefined {
 		'POST /claims/[id]?/removeDataset': () => ({ form: { datasetId: kit.spareDatasets[0] } }),
 		'POST /claims/[id]?/upload': () => ({
 			multipart: { counts: new File([csv(`page ${who}`)], 'upload.csv', { type: 'text/csv' }) }
+		}),
+		'POST /claims/[id]?/targetRun': () => ({
+			multipart: { targetRun: new File([csv(`run ${who}`)], 'run.csv', { type: 'text/csv' }) }
 		}),
 		'POST /claims/new?/create': () => ({ form: { ...claimFields, bases: '0,1,2' } as never }),
 		'POST /editor?/createLink': () => ({ form: { claimId: kit.claimId, label: 'third' } }),

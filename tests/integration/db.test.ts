@@ -35,7 +35,8 @@ describe('database', () => {
 			'0020-target-claims',
 			'0021-certificate-dois',
 			'0022-orcid-ids',
-			'0024-counts-advice'
+			'0024-counts-advice',
+			'0025-target-runs'
 		]);
 	});
 

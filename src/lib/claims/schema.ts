@@ -37,6 +37,7 @@ import {
 	normalisedTarget,
 	TARGET_METHOD,
 	targetField,
+	targetFromField,
 	declaredOf,
 	targetProblem,
 	type ClaimMethod
@@ -228,7 +229,8 @@ const claimFields = (source: ValueSource) => ({
 	trialsMode: trialsModeField,
 	trialsProbabilities: probabilitiesField,
 	target: targetField,
-	targetDeclared: targetField
+	targetDeclared: targetField,
+	targetFrom: targetFromField
 });
 
 type ClaimFields = z.output<z.ZodObject<ReturnType<typeof claimFields>>>;
@@ -294,7 +296,8 @@ const claimInput = (source: ValueSource) =>
 			fourier: claim.fourier ?? DEFAULT_FOURIER,
 			trialsMode: claim.trialsMode ?? null,
 			trialsProbabilities: claim.trialsMode ? (claim.trialsProbabilities ?? null) : null,
-			...targetColumns(claim.target, claim.targetDeclared)
+			...targetColumns(claim.target, claim.targetDeclared),
+			targetSource: claim.method === TARGET_METHOD ? (claim.targetFrom ?? 'declared') : null
 		}));
 
 /** The stored target: λ with Σλ² = 1, and the declared λ when we scaled it (null otherwise). */

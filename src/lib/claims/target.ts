@@ -8,6 +8,20 @@ import type { MethodId } from '$lib/certify';
 export const TARGET_METHOD = 'fidelity-target' as const;
 /** What a claim's method may be: a bootstrap witness family or the declared-target check. */
 export type ClaimMethod = MethodId | typeof TARGET_METHOD;
+/** Where λ comes from: declared with the claim, or fitted on a separate calibration run (§9). */
+export const TARGET_SOURCES = ['declared', 'calibration-run'] as const;
+export type TargetSource = (typeof TARGET_SOURCES)[number];
+/** The claim page's and the API's name for the calibration run file (the field refusals name). */
+export const TARGET_RUN_FIELD = 'targetRun';
+
+/** Forms and JSON: "declared" (the default) or "calibration-run". Empty → undefined. */
+export const targetFromField = z.preprocess(
+	(value) => (value === '' || value === null ? undefined : value),
+	z
+		.enum(TARGET_SOURCES, { error: 'Where λ comes from must be declared or calibration-run.' })
+		.optional()
+);
+
 /** How far Σλ² may stray from 1 before the service scales λ itself (and the result says so). */
 export const TARGET_NORM_TOLERANCE = 1e-6;
 
@@ -48,15 +62,30 @@ export function declaredOf(target: number[], declared: number[] | undefined): nu
 	return same ? declared : null;
 }
 
-/** The target is required by, and only by, `fidelity-target`: d coefficients, not increasing. */
+/**
+ * The target is required by, and only by, `fidelity-target`: d coefficients, not increasing; or,
+ * with `targetFrom: 'calibration-run'`, none (the run, uploaded before the first check, fits it).
+ */
 export function targetProblem(
-	claim: { method: string; dimension: number; target?: number[] | null },
+	claim: { method: string; dimension: number; target?: number[] | null; targetFrom?: TargetSource },
 	ctx: z.RefinementCtx
 ): void {
 	const issue = (message: string) => ctx.addIssue({ code: 'custom', path: ['target'], message });
 	const lambda = claim.target;
+	const fromRun = claim.targetFrom === 'calibration-run';
 	if (claim.method !== TARGET_METHOD) {
 		if (lambda) issue('Only the fidelity-target method takes a target.');
+		if (fromRun)
+			ctx.addIssue({
+				code: 'custom',
+				path: ['targetFrom'],
+				message: 'Only the fidelity-target method takes λ from a calibration run.'
+			});
+		return;
+	}
+	if (fromRun) {
+		if (lambda)
+			issue('Give λ or take it from a calibration run, not both: leave the target empty.');
 		return;
 	}
 	if (!lambda) return issue('Declare the target’s Schmidt coefficients λ (d numbers).');

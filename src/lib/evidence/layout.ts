@@ -27,6 +27,18 @@ export const BUNDLE_FILES = {
 /** The measured basis vectors as uploaded (witnesses.md §4.4): only when the check used them. */
 export const CALIBRATION_FILE = 'calibration.json';
 
+/** A counts file's format as stored: JSON when it opens with a brace, CSV otherwise. */
+export function countsFormatOf(bytes: Uint8Array): 'csv' | 'json' {
+	const head = new TextDecoder()
+		.decode(bytes.subarray(0, 64))
+		.replace(/^\uFEFF/, '')
+		.trimStart();
+	return head.startsWith('{') ? 'json' : 'csv';
+}
+
+/** fidelity-target: the calibration run λ was fitted on, as uploaded (witnesses.md §4.3′). */
+export const targetRunName = (format: 'csv' | 'json') => `calibration-run.${format}`;
+
 export const uploadedCountsName = (format: 'csv' | 'json') => `counts-uploaded.${format}`;
 
 export const CONTENTS_FORMAT = 'rankseal-contents/1';

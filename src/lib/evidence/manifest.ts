@@ -73,8 +73,21 @@ export interface EvidenceCountsLongForm {
  * came from; the verifier re-runs the check with exactly these coefficients.
  */
 export interface EvidenceTarget extends DeclaredTarget {
-	/** 'declared': with the claim, before the data (the claim's own record). */
-	source: 'declared';
+	/**
+	 * 'declared': with the claim, before the data (the claim's own record); 'calibration-run':
+	 * fitted on a separate run and frozen before the first check (§9), the run in the bundle.
+	 */
+	source: 'declared' | 'calibration-run';
+	/** calibration-run only: the run's file in the bundle, as uploaded, with its SHA-256 and size. */
+	run?: EvidenceTargetRun;
+	/** calibration-run only: how λ was fitted, and the run's matching counts N_mm it used. */
+	fit?: { method: 'diagonal-share'; diagonal: number[] };
+}
+
+export interface EvidenceTargetRun {
+	file: string;
+	sha256: string;
+	bytes: number;
 }
 
 /** The calibration file the check used (witnesses.md §4.4); absent when it used none. */

@@ -29,7 +29,8 @@ import {
 	type EvidenceManifest,
 	type TargetManifest
 } from './manifest';
-import { certifyDeclaredTarget } from '../certify/fidelity-target/declared';
+import { certifyClaimTarget } from '../certify/fidelity-target/fitted';
+import { checkTargetRun, TargetFailure, targetOf } from './verify-target';
 import type { CountsDataset } from '../certify/counts';
 import { keyIdOf, readHexLine, verifyText } from './signing';
 import { statementProblem } from './statement';
@@ -202,8 +203,10 @@ function checkCounts(s: State) {
 	if (sha256Hex(canonical) !== m.counts.canonicalSha256)
 		throw new Failure(BUNDLE_FILES.canonicalCounts, 'its SHA-256 differs from the manifest');
 	let expected: string;
+	let dataset: CountsDataset;
 	try {
-		expected = canonicalCountsText(parseCounts(uploaded, m.claim.dimension));
+		dataset = parseCounts(uploaded, m.claim.dimension);
+		expected = canonicalCountsText(dataset);
 	} catch (error) {
 		throw new Failure(name, `the counts cannot be read: ${(error as Error).message}`);
 	}
@@ -212,6 +215,7 @@ function checkCounts(s: State) {
 	s.passed.push(BUNDLE_FILES.canonicalCounts);
 	checkCountsLongForm(s, uploaded);
 	checkCalibration(s);
+	s.passed.push(...checkTargetRun(s.files, m, dataset));
 	if (text(s.files, BUNDLE_FILES.result) !== canonicalJson(m.result))
 		throw new Failure(BUNDLE_FILES.result, 'it differs from the result in the manifest');
 	s.passed.push(BUNDLE_FILES.result);
@@ -264,10 +268,10 @@ function checkCalibration(s: State) {
 }
 
 /** fidelity-target: the check again with the target the manifest names (witnesses.md §4.3′). */
-function rerunTarget(m: TargetManifest, dataset: CountsDataset) {
+function rerunTarget(m: TargetManifest, dataset: CountsDataset, files: EvidenceFiles) {
 	if (!m.target)
 		throw new Failure('manifest.json', 'a fidelity-target certificate names no target');
-	return certifyDeclaredTarget(dataset, m.target, {
+	return certifyClaimTarget(dataset, targetOf(files, m), {
 		confidence: m.parameters.confidence,
 		claim: m.claim.claimedSchmidtNumber,
 		inputSha256: m.counts.uploadedSha256
@@ -294,7 +298,7 @@ function checkRerun(s: State) {
 	try {
 		rerun = jsonRoundTrip(
 			isTargetManifest(m)
-				? rerunTarget(m, dataset)
+				? rerunTarget(m, dataset, s.files)
 				: certify(dataset, certifyOptionsOf(m, s.files[CALIBRATION_FILE]))
 		);
 	} catch (error) {
@@ -336,7 +340,11 @@ export function verifyEvidence(
 		checkRerun(s);
 		checkStatement(s);
 	} catch (error) {
-		if (error instanceof Failure || error instanceof TrialsFailure)
+		if (
+			error instanceof Failure ||
+			error instanceof TrialsFailure ||
+			error instanceof TargetFailure
+		)
 			return report(error.item, error.message);
 		return report('bundle', `cannot be checked: ${(error as Error).message}`);
 	}

@@ -24,7 +24,7 @@ export function describeTarget(d: number): MethodPage {
 		reference: f.reference,
 		assumes: [
 			...assumptionsOf(f.trust, false).slice(0, 2),
-			'The target λ is declared with the claim, before the data; it is never fitted on the counts being certified.',
+			'The target λ is declared with the claim, before the data, or fitted on a separate calibration run and frozen before the first check; it is never fitted on the counts being certified.',
 			'Basis 1 is measured in the tilted vectors ṽ_j of that λ (side B: ṽ_j*) for the same integration time as the computational basis: its matches are divided by the computational pair total, never by their own total (that over-certifies).',
 			`The ladder below is for the example target λ = (${shown}); a claim's ladder is Σ_{i≤r} λ_i² of its own λ.`
 		],

@@ -1,7 +1,7 @@
 /** What callers see of a claim, one by one and as a page of the list. */
 import type { FourierConvention } from '$lib/certify';
 import type { ClaimState } from '$lib/claims/states';
-import type { ClaimMethod } from '$lib/claims/target';
+import type { ClaimMethod, TargetSource } from '$lib/claims/target';
 import type { CheckStatus } from './checks';
 
 export interface LatestCheck {
@@ -30,6 +30,10 @@ export interface ClaimView {
 	trials: { mode: 'trials' | 'blocks'; probabilities: number[] | null } | null;
 	/** fidelity-target: the declared λ (Σλ² = 1) and, when the service scaled it, λ as declared. */
 	target: { coefficients: number[]; declared: number[] | null } | null;
+	/** fidelity-target: where λ comes from; null for other methods. */
+	targetFrom: TargetSource | null;
+	/** The calibration run that froze λ (SHA-256, file name, its matching counts); null until given. */
+	targetRun: { sha256: string; name: string; diagonal: number[] } | null;
 	/** orcid: the ORCID iD linked to the author's account, or null (sign in with ORCID). */
 	createdBy: { id: string; name: string; orcid: string | null };
 	createdAt: string;

@@ -10,6 +10,7 @@ import { CONFIDENCE } from '../limits';
 import { ENGINE_VERSION } from '../certify';
 import { targetLowerBound, targetPointValue, targetUpperBound } from './bound';
 import { targetBounds, targetCoefficients, whiteNoiseValue } from './statistic';
+import type { TargetFit } from './fit';
 
 export interface TargetOptions {
 	/** The target's Schmidt coefficients λ, declared before the data (any scale, not increasing). */
@@ -45,6 +46,8 @@ export interface TargetResult {
 	warnings: string[];
 	/** The version that re-runs it bit for bit (exact limits: no seed, no resamples). */
 	engine: { version: string };
+	/** Set when λ was fitted on a separate calibration run (fitted.ts): the run's hash and fit. */
+	targetFit?: TargetFit;
 }
 
 function targetData(dataset: CountsDataset) {

@@ -5,3 +5,5 @@ export { certifyTarget, type TargetOptions, type TargetResult } from './certify-
 export { isTargetResult } from './result';
 export { certifyDeclaredTarget, TARGET_CAUTION, type DeclaredTarget } from './declared';
 export { fitTarget, requireSeparateRun, type TargetFit } from './fit';
+export { certifyClaimTarget, certifyFittedTarget, fitCaution, fitSeparateRun } from './fitted';
+export type { ClaimTarget } from './fitted';

@@ -5,7 +5,7 @@
  */
 import { certify, parseCounts, type CertificationResult } from '$lib/certify';
 import { isTargetResult } from '$lib/certify/fidelity-target';
-import { certifyDeclaredTarget } from '$lib/certify/fidelity-target/declared';
+import { certifyClaimTarget } from '$lib/certify/fidelity-target/fitted';
 import type { CertifiedResult } from '$lib/evidence/manifest';
 import { targetPart } from '../checks/target-task';
 import { correctedConfidence, isExploratory, type EvidenceAnalyses } from '$lib/evidence/analyses';
@@ -28,7 +28,15 @@ export interface StatedResult {
 /** The check's result re-computed at another confidence (same seed, resamples and subtraction). */
 export function resultAtLevel(
 	uploaded: Uint8Array,
-	claim: Pick<ClaimAttributes, 'dimension' | 'claimedSchmidtNumber' | 'target' | 'targetDeclared'>,
+	claim: Pick<
+		ClaimAttributes,
+		| 'dimension'
+		| 'claimedSchmidtNumber'
+		| 'target'
+		| 'targetDeclared'
+		| 'targetRun'
+		| 'targetRunSha256'
+	>,
 	check: CheckAttributes,
 	confidence: number,
 	inputSha256: string
@@ -36,7 +44,7 @@ export function resultAtLevel(
 	const recorded = check.result! as CertifiedResult;
 	const target = targetPart(claim);
 	if (isTargetResult(recorded) && target)
-		return certifyDeclaredTarget(parseCounts(uploaded, claim.dimension), target, {
+		return certifyClaimTarget(parseCounts(uploaded, claim.dimension), target, {
 			confidence,
 			claim: recorded.claim?.schmidtNumber ?? claim.claimedSchmidtNumber,
 			inputSha256

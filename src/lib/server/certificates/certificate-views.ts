@@ -89,7 +89,8 @@ export function publicCertificate(
 		certifiedSchmidtNumber: m.result.certifiedSchmidtNumber,
 		verdict: verdictOf(m),
 		// Trials are never background-subtracted (the result has no such field).
-		backgroundSubtracted: 'backgroundSubtracted' in m.result && m.result.backgroundSubtracted === true,
+		backgroundSubtracted:
+			'backgroundSubtracted' in m.result && m.result.backgroundSubtracted === true,
 		engineVersion: m.engineVersion,
 		analyses: certificateAnalyses(m),
 		doi,

@@ -6,6 +6,7 @@ import { isTrialsResult } from '$lib/certify/trials';
 import { isTargetResult } from '$lib/certify/fidelity-target';
 import type { CertifiedResult } from '$lib/evidence/manifest';
 import { targetPart } from '../checks/target-task';
+import { countsFormatOf, targetRunName } from '$lib/evidence/layout';
 import { readFile } from 'node:fs/promises';
 import type { Transaction } from 'sequelize';
 import { sha256Hex } from '../../evidence/hash';
@@ -77,12 +78,26 @@ async function currentCertificate(database: Database, claimId: string, transacti
 
 type CheckSource = Awaited<ReturnType<typeof finishedCheck>>;
 
-/** fidelity-target: the target the check ran with, as the claim declared it (the verifier re-runs it). */
+/**
+ * fidelity-target: the target the check ran with, declared or fitted on a calibration run (then
+ * the run's file, hash and fit, and its bytes for the bundle); the verifier re-runs it.
+ */
 function targetRecord(claim: ClaimAttributes, result: CertifiedResult) {
 	const target = targetPart(claim);
 	if (!isTargetResult(result)) return {};
-	if (!target) throw new ConflictError('This fidelity-target claim has no declared target λ.');
-	return { target: { ...target, source: 'declared' as const } };
+	if (!target) throw new ConflictError('This fidelity-target claim has no target λ.');
+	const { run, ...declared } = target;
+	if (!run || !claim.targetFit) return { target: { ...declared, source: 'declared' as const } };
+	const file = targetRunName(countsFormatOf(run.bytes));
+	return {
+		target: {
+			...declared,
+			source: 'calibration-run' as const,
+			run: { file, sha256: run.sha256, bytes: run.bytes.byteLength },
+			fit: claim.targetFit
+		},
+		targetRunBytes: run.bytes
+	};
 }
 
 /** What the manifest records: the claim as it stands, the check's settings and its result. */

@@ -84,6 +84,11 @@ export async function startCheck(
 	request: CheckRequest = {}
 ): Promise<CheckView> {
 	const claim = await requireClaim(database, actor, claimId, 'start-check');
+	if (claim.method === 'fidelity-target' && !claim.target)
+		throw new FieldError(
+			'targetRun',
+			'Upload the calibration run first (targetRun): λ is fitted on it and frozen before the first check.'
+		);
 	const options = checkRequestSchemaFor(claim).parse(request);
 	const dataset = await chosenDataset(database, claimId, options.datasetId);
 	const subtractAccidentals = options.subtractAccidentals ?? false;

@@ -7,6 +7,7 @@ import type { EvidenceFiles } from '../../evidence/layout';
 import type { VerificationReport } from '../../evidence/verify';
 import type { BundleTask } from './evidence-tasks';
 import type { SummaryOutcome, SummaryTask } from './summary';
+import type { TargetRunOutcome, TargetRunTask } from './target-task';
 import type { TrialsEvidenceParts, TrialsEvidenceTask } from './trials-evidence-task';
 import type { WorkPool } from './work-pool';
 
@@ -21,6 +22,8 @@ export interface EngineTasks {
 	trialsEvidence(task: TrialsEvidenceTask, bucket: string): Promise<TrialsEvidenceParts>;
 	/** Checks a certificate's evidence before it is issued, off the request thread. */
 	selfCheck(files: EvidenceFiles, bucket: string): Promise<VerificationReport>;
+	/** Fits λ on a fidelity-target claim's calibration run, refusing its counts files (§9). */
+	fitTargetRun(task: TargetRunTask, bucket: string): Promise<TargetRunOutcome>;
 }
 
 export const engineTasksOn = (work: WorkPool): EngineTasks => ({
@@ -31,5 +34,6 @@ export const engineTasksOn = (work: WorkPool): EngineTasks => ({
 	verifyBundle: (task, bucket) => work.runShort('verifyBundle', task, bucket),
 	canonicalCounts: (task, bucket) => work.runShort('canonicalCounts', task, bucket),
 	trialsEvidence: (task, bucket) => work.runShort('trialsEvidence', task, bucket),
-	selfCheck: (files, bucket) => work.runShort('selfCheck', { files }, bucket)
+	selfCheck: (files, bucket) => work.runShort('selfCheck', { files }, bucket),
+	fitTargetRun: (task, bucket) => work.runShort('fitTargetRun', task, bucket)
 });

@@ -40,7 +40,7 @@ async function targetPlanFor(values: Record<string, string | undefined>, address
 	return plan;
 }
 
-/** The API's planner: fidelity-target (with `target`) or a witness family. */
+/** The planner of the API and the /plan page: fidelity-target (with `target`) or a witness family. */
 export async function planFor(
 	values: Record<string, string | undefined>,
 	address: string
@@ -49,7 +49,7 @@ export async function planFor(
 	return planWitnessFor(values, address);
 }
 
-/** The witness families' planner (the /plan page; it has no λ field). */
+/** The witness families' planner. */
 export async function planWitnessFor(
 	values: Record<string, string | undefined>,
 	address: string

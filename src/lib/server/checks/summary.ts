@@ -15,6 +15,7 @@ import {
 } from '../../certify';
 import { InputError, requireCompleteTables } from '../../certify/counts';
 import { isCountsSet } from '../../certify/counts-set';
+import { requireSeparateRun } from '../../certify/fidelity-target/fit';
 import { fileDimension } from '../../certify/file-dimension';
 import type { ClaimMethod } from '../../claims/target';
 import { sha256Hex } from '../../evidence/hash';
@@ -30,6 +31,8 @@ export interface SummaryTask {
 	fourier: FourierConvention;
 	/** Set for a claim on time-ordered trials: read by summariseTrials instead. */
 	trials?: { mode: 'trials' | 'blocks'; probabilities: number[] | null } | null;
+	/** fidelity-target: the calibration run λ was fitted on; the counts may not be it (§9). */
+	separateFrom?: { bytes: Uint8Array; sha256: string } | null;
 }
 
 export type SummaryOutcome =
@@ -123,6 +126,14 @@ export function summariseCounts(task: SummaryTask): SummaryOutcome {
 			const parsed = parseCounts(task.bytes, task.dimension);
 			checkDeclaredFourier(parsed, task.fourier, 'the claim');
 			requireCompleteTables(parsed, task.bases, task.method);
+			const run = task.separateFrom;
+			if (run)
+				requireSeparateRun(
+					parseCounts(run.bytes, task.dimension),
+					run.sha256,
+					parsed,
+					sha256Hex(task.bytes)
+				);
 			return {
 				ok: true,
 				summary: summarise(parsed, task.fourier),

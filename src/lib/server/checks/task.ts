@@ -3,7 +3,7 @@ import type { MessagePort } from 'node:worker_threads';
 import type { FourierConvention } from '../../certify';
 import type { ClaimMethod } from '../../claims/target';
 import type { TrialsMode } from '../../certify/trials';
-import type { DeclaredTarget } from '../../certify/fidelity-target/declared';
+import type { ClaimTarget } from '../../certify/fidelity-target/fitted';
 
 /** What a trials claim adds to a task: its mode and declared probabilities (null: uniform). */
 export interface TrialsTaskPart {
@@ -11,8 +11,11 @@ export interface TrialsTaskPart {
 	probabilities: number[] | null;
 }
 
-/** What a declared-target claim adds to a task: λ as stored (Σλ² = 1) and as declared if scaled. */
-export type TargetTaskPart = DeclaredTarget;
+/**
+ * What a fidelity-target claim adds to a task: λ as stored (Σλ² = 1) and as declared if scaled;
+ * and when λ was fitted on a calibration run, the run (re-fitted and compared at check time).
+ */
+export type TargetTaskPart = ClaimTarget;
 
 export interface CheckTask {
 	/** The stored counts file; or `bytes` when the caller holds them already. */

@@ -18,7 +18,8 @@ export type ShortTaskName =
 	| 'verifyBundle'
 	| 'selfCheck'
 	| 'canonicalCounts'
-	| 'trialsEvidence';
+	| 'trialsEvidence'
+	| 'fitTargetRun';
 
 type RunOptions = Parameters<Piscina['run']>[1];
 

@@ -27,6 +27,7 @@ export { summariseCounts } from './summary';
 export { canonicalCounts, selfCheck, verifyBundle } from './evidence-tasks';
 export { summariseTrials } from './trials-task';
 export { trialsEvidence } from './trials-evidence-task';
+export { fitTargetRun } from './target-task';
 
 async function readStored(file: string): Promise<Uint8Array> {
 	try {
@@ -51,7 +52,9 @@ export default async function runCheck(
 	if (task.trials) return runTrialsCheck(bytes, { ...task, trials: task.trials }, inputSha256);
 	if (task.target) return runTargetCheck(bytes, { ...task, target: task.target }, inputSha256);
 	if (task.method === 'fidelity-target')
-		throw new InputError('a fidelity-target claim needs its declared target λ');
+		throw new InputError(
+			'a fidelity-target claim needs its target λ: declared, or fitted on its calibration run'
+		);
 	const dataset = parseCounts(bytes, task.dimension);
 	const calibration = task.calibration
 		? {

@@ -62,14 +62,22 @@ export async function updateClaim(
 	// The trials mode and probabilities stay as made; the edit is checked against them.
 	const { trialsMode, trialsProbabilities } = stored;
 	// So does a declared target (as declared, so a scaled one is scaled and reported again).
-	const target = stored.targetDeclared ?? stored.target;
+	// A target from a calibration run stays so; λ fitted from it is checked against d below.
+	const fromRun = stored.targetSource === 'calibration-run';
+	const target = fromRun ? undefined : (stored.targetDeclared ?? stored.target);
 	const values = claimInputSchema.parse({
 		...input,
 		groupId: undefined,
 		trialsMode,
 		trialsProbabilities,
-		target
+		target,
+		targetFrom: stored.targetSource ?? undefined
 	});
+	if (fromRun && stored.target && stored.target.length !== values.dimension)
+		throw new FieldError(
+			'dimension',
+			`λ was fitted on a calibration run in d = ${stored.target.length}; d cannot change now.`
+		);
 	const { Check, Claim, Dataset } = database.models;
 	await writeTransaction(database, async (transaction) => {
 		// Re-read inside the write: the role or the claim may have changed since the first look.

@@ -79,6 +79,11 @@ async function claimViews(database: Database, claims: ClaimAttributes[]): Promis
 			? { mode: c.trialsMode, probabilities: c.trialsProbabilities ?? null }
 			: null,
 		target: c.target ? { coefficients: c.target, declared: c.targetDeclared ?? null } : null,
+		targetFrom: c.method === 'fidelity-target' ? (c.targetSource ?? 'declared') : null,
+		targetRun:
+			c.targetRunSha256 && c.targetFit
+				? { sha256: c.targetRunSha256, name: c.targetRunName ?? '', diagonal: c.targetFit.diagonal }
+				: null,
 		createdBy: {
 			id: c.createdBy,
 			name: userName.get(c.createdBy) ?? '',
@@ -132,6 +137,7 @@ export async function createClaim(
 				trialsProbabilities: claim.trialsProbabilities,
 				target: claim.target,
 				targetDeclared: claim.targetDeclared,
+				targetSource: claim.targetSource,
 				state: 'draft'
 			},
 			{ transaction }

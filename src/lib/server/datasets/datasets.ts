@@ -8,10 +8,12 @@ import { col, type Transaction } from 'sequelize';
 import { InputError } from '$lib/certify';
 import { dateTimeInWords } from '$lib/dates';
 import { sha256Hex } from '$lib/evidence/hash';
+import { countsFormatOf } from '$lib/evidence/layout';
 import { accountIdOf, type Actor } from '../core/actor';
 import { requireClaim } from '../access/permissions';
 import { engineTasks } from '../checks/registry';
 import { trialsPart } from '../checks/trials-task';
+import { targetPart } from '../checks/target-task';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
 import type { DatasetAttributes } from '../db/models/Dataset';
@@ -24,14 +26,6 @@ import { newId } from '../core/ids';
 import { datasetFilePath, removeCounts, storeCounts } from '../storage/counts-store';
 
 export type { DatasetSummary, DatasetTables, DatasetView, PreviewTable } from '$lib/views/datasets';
-
-function formatOf(bytes: Uint8Array): 'csv' | 'json' {
-	const head = new TextDecoder()
-		.decode(bytes.subarray(0, 64))
-		.replace(/^\uFEFF/, '')
-		.trimStart();
-	return head.startsWith('{') ? 'json' : 'csv';
-}
 
 const view = (row: DatasetAttributes): DatasetView => ({
 	id: row.id,
@@ -81,7 +75,7 @@ export async function addDataset(
 	const { bytes } = upload;
 	const runner = await engineTasks(database);
 	const read = await runner.summarise(
-		{ bytes, ...claim, trials: trialsPart(claim) },
+		{ bytes, ...claim, trials: trialsPart(claim), separateFrom: targetPart(claim)?.run ?? null },
 		`upload:${userId}`
 	);
 	if (!read.ok)
@@ -102,7 +96,7 @@ export async function addDataset(
 					createdBy: userId,
 					sha256,
 					byteSize: bytes.byteLength,
-					format: formatOf(bytes),
+					format: countsFormatOf(bytes),
 					originalName,
 					summary: read.summary,
 					preview: read.preview,

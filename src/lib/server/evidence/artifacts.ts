@@ -29,6 +29,7 @@ import { fillPlaceholders } from '../mail/templates';
 import { addBundleMetadata } from './bundle-metadata';
 import { certificatePdf, type CertificateContext } from './pdf';
 import { trialsCountsParts } from './trials-parts';
+import { targetRunNote } from './target-readme';
 import { trialsReadmeNote } from './trials-readme';
 import { verifierBytes } from './verifier-file';
 import { zipFiles } from './zip-write';
@@ -72,6 +73,8 @@ export type EvidenceInput = Omit<
 	uploadedFormat: 'csv' | 'json';
 	/** The calibration file the check used, as uploaded. */
 	calibrationBytes?: Uint8Array | null;
+	/** fidelity-target: the calibration run λ was fitted on (manifest `target.run` names it). */
+	targetRunBytes?: Uint8Array | null;
 	/** The canonical counts text when the caller has it (the service reads it on the work pool). */
 	canonical?: string;
 	context?: EvidenceContext;
@@ -127,7 +130,7 @@ function readmeText(manifest: EvidenceManifest, fingerprint: string, urls: Evide
 		verifyUrl: urls.verify,
 		uploadedName: uploadedName(manifest).padEnd(22)
 	});
-	return filled + trialsReadmeNote(manifest);
+	return filled + trialsReadmeNote(manifest) + targetRunNote(manifest);
 }
 
 /** Adds the signed list of every file's SHA-256 (contents.json, contents.sig). */
@@ -157,6 +160,7 @@ export async function makeEvidence(
 		uploaded,
 		uploadedFormat,
 		calibrationBytes: calibration,
+		targetRunBytes,
 		canonical: _,
 		context,
 		...rest
@@ -195,6 +199,9 @@ export async function makeEvidence(
 		[BUNDLE_FILES.canonicalCounts]: utf8(canonical),
 		...(longForm ? { [BUNDLE_FILES.canonicalCountsCsv]: longForm.bytes } : {}),
 		...(calibration ? { [CALIBRATION_FILE]: calibration } : {}),
+		...(manifest.target?.run && targetRunBytes
+			? { [manifest.target.run.file]: targetRunBytes }
+			: {}),
 		[BUNDLE_FILES.manifest]: utf8(text),
 		[BUNDLE_FILES.signature]: utf8(signature + '\n'),
 		[BUNDLE_FILES.publicKey]: utf8(key.publicKey + '\n'),

@@ -15,11 +15,22 @@ const coefficients = (xs: number[]) => `(${xs.map((x) => x.toFixed(6)).join(', '
 
 /** Where λ came from, in the words the certificate states as its assumption. */
 export function targetAssumption(m: TargetManifest): string {
+	const lambda = `The target λ = ${coefficients(m.target.coefficients)}`;
+	const run = m.target.source === 'calibration-run' ? m.target.run : undefined;
+	const where = run
+		? `${lambda} was fitted on a separate calibration run (${run.file} in the bundle, SHA-256 ${run.sha256}) and frozen before the first check; `
+		: `${lambda} was declared with the claim before the data were seen; `;
 	return (
-		`The target λ = ${coefficients(m.target.coefficients)} was declared with the claim before the data were seen; ` +
+		where +
 		'the certified number holds for this target only, and only if it was not chosen by looking at these counts.'
 	);
 }
+
+/** The short answer the evidence page gives. */
+const targetSourceWords = (m: TargetManifest) =>
+	m.target.source === 'calibration-run'
+		? 'fitted on a separate calibration run (each λ_m² its share of the run’s matching pairs), frozen before the first check; the verifier re-fits it'
+		: 'declared with the claim, before the data';
 
 /** Page one: the target and its assumption, under the certified number. */
 export function targetLines(doc: Doc, m: TargetManifest): void {
@@ -43,7 +54,7 @@ export function targetEvidence(doc: Doc, m: TargetManifest): void {
 	);
 	field(doc, 'Target λ (Σλ² = 1)', coefficients(m.target.coefficients));
 	if (m.target.declared) field(doc, 'Target as declared', coefficients(m.target.declared));
-	field(doc, 'Where λ came from', 'declared with the claim, before the data');
+	field(doc, 'Where λ came from', targetSourceWords(m));
 	field(doc, 'Bound', `exact limits, no resampling; confidence ${m.parameters.confidence}`);
 	field(doc, 'Engine', m.engineVersion);
 	field(doc, 'Reference', 'Bavaresco et al., Nat. Phys. 14, 1032 (2018); witnesses.md §4.3′');

@@ -1,11 +1,15 @@
 /** What each bundle file is, in words and as a media type, for the RO-Crate's File entities. */
-import { BUNDLE_FILES, CALIBRATION_FILE } from '../../evidence/layout';
+import { BUNDLE_FILES, CALIBRATION_FILE, targetRunName } from '../../evidence/layout';
 
 const WORDS: Record<string, string> = {
 	'counts-uploaded.csv': 'The coincidence counts exactly as uploaded (CSV).',
 	'counts-uploaded.json': 'The coincidence counts exactly as uploaded (JSON).',
 	[BUNDLE_FILES.canonicalCounts]: 'The counts as parsed, in canonical JSON (RFC 8785).',
 	[CALIBRATION_FILE]: 'The measured basis vectors the check used, as uploaded.',
+	[targetRunName('csv')]:
+		'The separate calibration run the target λ was fitted on, as uploaded (CSV).',
+	[targetRunName('json')]:
+		'The separate calibration run the target λ was fitted on, as uploaded (JSON).',
 	[BUNDLE_FILES.manifest]:
 		'The signed manifest (canonical JSON, RFC 8785): counts hashes, claim, settings, result, engine version.',
 	[BUNDLE_FILES.signature]: 'Ed25519 signature of manifest.json, hex.',

@@ -37,7 +37,9 @@ function fileEntity(name: string, bytes: Uint8Array | null): Entity {
 }
 
 function checkAction(m: EvidenceManifest, names: string[]): Entity {
-	const inputs = names.filter((n) => n.startsWith('counts-') || n === 'calibration.json');
+	const inputs = names.filter(
+		(n) => n.startsWith('counts-') || n === 'calibration.json' || n.startsWith('calibration-run.')
+	);
 	return {
 		'@id': `#check-${m.checkId}`,
 		'@type': 'CreateAction',

@@ -19,6 +19,7 @@ import * as targetClaims from './0020-target-claims';
 import * as certificateDois from './0021-certificate-dois';
 import * as orcidIds from './0022-orcid-ids';
 import * as countsAdvice from './0024-counts-advice';
+import * as targetRuns from './0025-target-runs';
 
 export const migrations = [
 	{ name: '0001-initial', ...initial },
@@ -40,5 +41,6 @@ export const migrations = [
 	{ name: '0020-target-claims', ...targetClaims },
 	{ name: '0021-certificate-dois', ...certificateDois },
 	{ name: '0022-orcid-ids', ...orcidIds },
-	{ name: '0024-counts-advice', ...countsAdvice }
+	{ name: '0024-counts-advice', ...countsAdvice },
+	{ name: '0025-target-runs', ...targetRuns }
 ];

@@ -1,7 +1,7 @@
 import { DataTypes, type Model, type ModelStatic, type Sequelize } from 'sequelize';
 import type { FourierConvention } from '$lib/certify';
 import type { ClaimState } from '$lib/claims/states';
-import type { ClaimMethod } from '$lib/claims/target';
+import type { ClaimMethod, TargetSource } from '$lib/claims/target';
 
 export type { ClaimState };
 
@@ -31,6 +31,14 @@ export interface ClaimAttributes {
 	target?: number[] | null;
 	/** λ as declared when the service scaled it to Σλ² = 1; null when it was declared normalised. */
 	targetDeclared?: number[] | null;
+	/** Where λ comes from (migration 0025): null or 'declared' with the claim, or a calibration run. */
+	targetSource?: TargetSource | null;
+	/** The calibration run as uploaded, its SHA-256 and file name; null until it is given. */
+	targetRun?: Uint8Array | null;
+	targetRunSha256?: string | null;
+	targetRunName?: string | null;
+	/** The fit that froze λ: the run's matching counts N_mm (JSON text). */
+	targetFit?: { method: 'diagonal-share'; diagonal: number[] } | null;
 	createdAt?: Date;
 	updatedAt?: Date;
 }
@@ -82,15 +90,20 @@ export function defineClaim(sequelize: Sequelize): ClaimModel {
 					this.setDataValue('trialsProbabilities', text as unknown as number[] | null);
 				}
 			},
-			target: jsonNumbers('target'),
-			targetDeclared: jsonNumbers('targetDeclared')
+			target: jsonText('target'),
+			targetDeclared: jsonText('targetDeclared'),
+			targetSource: { type: DataTypes.STRING, allowNull: true },
+			targetRun: { type: DataTypes.BLOB, allowNull: true },
+			targetRunSha256: { type: DataTypes.STRING(64), allowNull: true },
+			targetRunName: { type: DataTypes.STRING, allowNull: true },
+			targetFit: jsonText('targetFit')
 		},
 		{ tableName: 'claims', underscored: true }
 	);
 }
 
-/** A list of numbers kept as JSON text. */
-function jsonNumbers(key: 'target' | 'targetDeclared') {
+/** A list of numbers (or the fit) kept as JSON text. */
+function jsonText(key: 'target' | 'targetDeclared' | 'targetFit') {
 	return {
 		type: DataTypes.TEXT,
 		allowNull: true,
@@ -98,8 +111,8 @@ function jsonNumbers(key: 'target' | 'targetDeclared') {
 			const text = this.getDataValue(key) as unknown as string | null;
 			return text ? JSON.parse(text) : null;
 		},
-		set(this: Model<ClaimAttributes>, value: number[] | null) {
-			this.setDataValue(key, (value ? JSON.stringify(value) : null) as unknown as number[] | null);
+		set(this: Model<ClaimAttributes>, value: unknown) {
+			this.setDataValue(key, (value ? JSON.stringify(value) : null) as never);
 		}
 	};
 }

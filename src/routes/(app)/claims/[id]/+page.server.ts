@@ -16,6 +16,8 @@ import { countsRecord } from '$lib/server/datasets/counts-record';
 import { withdrawClaim } from '$lib/server/claims/claim-withdraw';
 import { ForbiddenError } from '$lib/server/core/errors';
 import { uploadFrom } from './upload-form';
+import { addTargetRun } from '$lib/server/claims/target-run';
+import { targetRunOfForm } from '$lib/server/http/target-run-upload';
 import { withdrawConfirmSchema } from './withdraw-schema';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -84,6 +86,24 @@ export const actions: Actions = {
 				return (await addCountsFiles(database, actor, params.id, upload)).id;
 			});
 			redirect(303, `/claims/${params.id}?dataset=${datasetId}#preview`);
+		});
+	},
+
+	targetRun: async (event) => {
+		const actor = requireSignedIn(event.locals, event.url);
+		const { params } = event;
+		return runFormAction(event, 'targetRun', {}, async () => {
+			const { database } = await app();
+			// The slot is taken before the body is read, as for counts.
+			await withUploadSlot(database, actor, params.id, async () =>
+				addTargetRun(
+					database,
+					actor,
+					params.id,
+					await targetRunOfForm(await event.request.formData())
+				)
+			);
+			redirect(303, `/claims/${params.id}`);
 		});
 	},
 

@@ -7,7 +7,14 @@ import { createClaim } from '$lib/server/claims/claims';
 import { ForbiddenError } from '$lib/server/core/errors';
 import type { Actions } from './$types';
 
-const FIELDS = ['groupId', ...CLAIM_FIELDS, 'trialsMode', 'trialsProbabilities', 'target'];
+const FIELDS = [
+	'groupId',
+	...CLAIM_FIELDS,
+	'trialsMode',
+	'trialsProbabilities',
+	'target',
+	'targetFrom'
+];
 
 export const actions: Actions = {
 	create: async (event) => {

@@ -4,6 +4,7 @@ import { CLAIM_METHODS, CLAIM_SORTS, CLAIM_STATES } from '$lib/claims/schema';
 import { certificatePaths } from './certificate-paths';
 import { citationPaths } from './citation-paths';
 import { planPaths, planSchemas } from './plan-paths';
+import { targetRunPaths } from './target-run-paths';
 import { archiveSchemas } from './archive-schemas';
 import { certificateSchemas } from './certificate-schemas';
 import { reviewPaths } from './review-paths';
@@ -295,6 +296,7 @@ export const openApiDocument = {
 		...certificatePaths,
 		...citationPaths,
 		...planPaths,
+		...targetRunPaths,
 		'/api/v1/archive': {
 			get: {
 				operationId: 'groupArchive',

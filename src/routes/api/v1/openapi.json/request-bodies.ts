@@ -62,9 +62,13 @@ const claimNotes = {
 	trialsProbabilities: {
 		description: 'Setting probabilities, one per basis, summing to 1. Default: uniform.'
 	},
+	targetFrom: {
+		description:
+			'fidelity-target only: "declared" (default; give target) or "calibration-run" (give no target; upload the run with POST /api/v1/claims/{id}/target-run before the first check, which fits λ on it and freezes it).'
+	},
 	target: {
 		description:
-			'fidelity-target only, and required there: the target’s Schmidt coefficients λ, d positive numbers, not increasing, declared before the data (never fitted on the counts). Σλ² = 1 within 1e-6 is kept as sent; any other scale is scaled to Σλ² = 1 and the claim keeps the declared values (target.declared).'
+			'fidelity-target only, and required there unless targetFrom is calibration-run: the target’s Schmidt coefficients λ, d positive numbers, not increasing, declared before the data (never fitted on the counts). Σλ² = 1 within 1e-6 is kept as sent; any other scale is scaled to Σλ² = 1 and the claim keeps the declared values (target.declared).'
 	}
 };
 

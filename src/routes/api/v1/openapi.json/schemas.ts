@@ -123,6 +123,21 @@ export const schemas = {
 					declared: nullable({ type: 'array', items: { type: 'number' } })
 				}
 			}),
+			targetFrom: nullable({
+				type: 'string',
+				enum: ['declared', 'calibration-run'],
+				description: 'fidelity-target: where λ comes from (null for other methods).'
+			}),
+			targetRun: nullable({
+				type: 'object',
+				description:
+					'The calibration run λ was fitted on and frozen by: its SHA-256, file name and matching counts N_mm (null until uploaded).',
+				properties: {
+					sha256: { type: 'string' },
+					name: { type: 'string' },
+					diagonal: { type: 'array', items: { type: 'number' } }
+				}
+			}),
 			withdrawal: nullable({
 				type: 'object',
 				description:
