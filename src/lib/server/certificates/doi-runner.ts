@@ -4,6 +4,7 @@
  * time; stop() lets the request in flight finish, briefly, then returns.
  */
 import path from 'node:path';
+import { startBackgroundLoop } from '../core/background-loop';
 import { config } from '../core/config';
 import type { Database } from '../db';
 import { dataciteClient } from './datacite-client';
@@ -35,40 +36,17 @@ export async function startDoiRunner(database: Database): Promise<DoiRunner> {
 	await resumeInterruptedDois(database);
 	const { account, fake } = await registry();
 	const client = dataciteClient(account);
-	let stopping = false;
-	let again = false;
-	let current: Promise<void> | null = null;
-	const pass = async () => {
-		do {
-			again = false;
-			await registerDue(database, client, new Date(), () => !stopping).catch((error) =>
-				console.error('DOI sender:', error)
-			);
-		} while (again && !stopping);
-	};
-	const wake = () => {
-		if (stopping) return;
-		if (current) {
-			again = true;
-			return;
-		}
-		current = pass().finally(() => (current = null));
-	};
-	const timer = setInterval(wake, POLL_MS);
-	timer.unref();
-	const unsubscribe = onDoiQueued(() => setImmediate(wake));
-	wake();
+	const loop = startBackgroundLoop({
+		pass: (keepGoing) => registerDue(database, client, new Date(), keepGoing),
+		subscribe: onDoiQueued,
+		pollMs: POLL_MS,
+		label: 'DOI sender'
+	});
 	return {
 		fakeRegistry: fake,
-		wake,
+		wake: loop.wake,
 		async stop(graceMs = 2000) {
-			stopping = true;
-			clearInterval(timer);
-			unsubscribe();
-			let timeout: NodeJS.Timeout | undefined;
-			const grace = new Promise<void>((done) => (timeout = setTimeout(done, graceMs).unref()));
-			if (current) await Promise.race([current, grace]);
-			clearTimeout(timeout);
+			await loop.stop(graceMs);
 			setDoiResolver(null);
 			await fake?.close();
 		}
