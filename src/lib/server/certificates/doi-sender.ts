@@ -3,7 +3,7 @@
  * claimed (queued/retrying → sending) by a conditional update, so one pass sends it once; a change
  * made meanwhile (a withdrawal) raises the revision and is sent by the next pass.
  */
-import { Op } from 'sequelize';
+import { dueRowsQuery } from '../core/outbox-due';
 import type { Database } from '../db';
 import type { CertificateDoiAttributes } from '../db/models/CertificateDoi';
 import { retryDelayMs } from '../mail/mail-sender';
@@ -85,11 +85,7 @@ export async function registerDue(
 	keepGoing: () => boolean = () => true
 ): Promise<RegistrationReport> {
 	const report: RegistrationReport = { registered: [], failed: [] };
-	const due = await database.models.CertificateDoi.findAll({
-		where: { status: { [Op.in]: ['queued', 'retrying'] }, nextAttemptAt: { [Op.lte]: now } },
-		order: [['createdAt', 'ASC']],
-		limit: 100
-	});
+	const due = await database.models.CertificateDoi.findAll(dueRowsQuery(now));
 	for (const found of due) {
 		if (!keepGoing()) break;
 		const row = found.get({ plain: true });

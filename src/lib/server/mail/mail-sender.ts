@@ -6,7 +6,7 @@
  * the next start sends it again with the same Message-ID (the one duplicate possible). Once sent
  * or given up, the stored copy keeps no working secret link (mail-redact.ts).
  */
-import { Op } from 'sequelize';
+import { dueRowsQuery } from '../core/outbox-due';
 import type { Database } from '../db';
 import type { OutboxMailAttributes } from '../db/models/OutboxMail';
 import type { Mailer } from './mail';
@@ -77,11 +77,7 @@ export async function deliverDue(
 	keepGoing: () => boolean = () => true
 ): Promise<DeliveryReport> {
 	const report: DeliveryReport = { sent: [], failed: [] };
-	const due = await database.models.OutboxMail.findAll({
-		where: { status: { [Op.in]: ['queued', 'retrying'] }, nextAttemptAt: { [Op.lte]: now } },
-		order: [['createdAt', 'ASC']],
-		limit: 100
-	});
+	const due = await database.models.OutboxMail.findAll(dueRowsQuery(now));
 	for (const found of due) {
 		if (!keepGoing()) break;
 		const row = found.get({ plain: true });
