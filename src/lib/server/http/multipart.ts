@@ -7,6 +7,16 @@ import { basisField, countsFilesOfForm } from './counts-form';
 
 const MULTIPART_OVERHEAD = 64 * 1024;
 
+/** A multipart body of at most `limit` bytes of files (plus room for the parts' headers). */
+export async function readMultipart(request: Request, limit: number): Promise<FormData> {
+	const body = await readBody(request, limit + MULTIPART_OVERHEAD);
+	return new Response(body, { headers: { 'content-type': request.headers.get('content-type')! } })
+		.formData()
+		.catch(() => {
+			throw new ApiError(400, 'bad_input', 'The multipart body cannot be read.');
+		});
+}
+
 /**
  * Counts files sent as multipart parts `counts` (several at once, each with an optional `basis`
  * part in the same order: http/counts-form.ts), or one file as a raw text/csv or application/json
@@ -24,14 +34,7 @@ export async function readCountsUpload(
 		`The counts (all files together) are larger than the limit of ${MAX_COUNTS_FILE_BYTES} bytes.`
 	);
 	if (type === 'multipart/form-data') {
-		const body = await readBody(request, MAX_COUNTS_FILE_BYTES + MULTIPART_OVERHEAD);
-		const form = await new Response(body, {
-			headers: { 'content-type': request.headers.get('content-type')! }
-		})
-			.formData()
-			.catch(() => {
-				throw new ApiError(400, 'bad_input', 'The multipart body cannot be read.');
-			});
+		const form = await readMultipart(request, MAX_COUNTS_FILE_BYTES);
 		if (!form.getAll('counts').some((part) => part instanceof File))
 			throw new ApiError(
 				400,

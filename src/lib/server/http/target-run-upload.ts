@@ -6,14 +6,13 @@
 import { MAX_COUNTS_FILE_BYTES } from '$lib/certify';
 import { TARGET_RUN_FIELD } from '$lib/claims/target';
 import { ApiError } from './problems';
+import { readMultipart } from './multipart';
 import { readBody } from './read-body';
 
 export interface TargetRunUpload {
 	bytes: Uint8Array;
 	originalName: string;
 }
-
-const MULTIPART_OVERHEAD = 64 * 1024;
 
 /** The run from a form's part (the claim page's form, or an API multipart body). */
 export async function targetRunOfForm(form: FormData): Promise<TargetRunUpload> {
@@ -25,14 +24,7 @@ export async function targetRunOfForm(form: FormData): Promise<TargetRunUpload> 
 export async function readTargetRunUpload(request: Request, url: URL): Promise<TargetRunUpload> {
 	const type = (request.headers.get('content-type') ?? '').split(';')[0].trim().toLowerCase();
 	if (type === 'multipart/form-data') {
-		const body = await readBody(request, MAX_COUNTS_FILE_BYTES + MULTIPART_OVERHEAD);
-		const form = await new Response(body, {
-			headers: { 'content-type': request.headers.get('content-type')! }
-		})
-			.formData()
-			.catch(() => {
-				throw new ApiError(400, 'bad_input', 'The multipart body cannot be read.');
-			});
+		const form = await readMultipart(request, MAX_COUNTS_FILE_BYTES);
 		return targetRunOfForm(form);
 	}
 	if (type === 'text/csv' || type === 'application/json') {
