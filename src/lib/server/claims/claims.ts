@@ -4,7 +4,7 @@
  */
 import { MAX_PAGE } from '$lib/paging';
 import { col, fn, Op, type Order, type WhereOptions } from 'sequelize';
-import { claimInputSchema, type ClaimInputValues, type ClaimQuery } from '$lib/claims/schema';
+import { claimInputSchema, type ClaimInputValues } from '$lib/claims/schema';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
 import type { ClaimAttributes } from '../db/models/Claim';
@@ -14,10 +14,11 @@ import { audit } from '../core/audit';
 import { ForbiddenError } from '../core/errors';
 import { newId } from '../core/ids';
 import { claimTextWhere } from '../claims/claim-search';
-import { DEFAULT_SORT, firstOrder } from '$lib/claims/filter';
+import { DEFAULT_SORT, firstOrder, type ClaimQuery } from '$lib/claims/filter';
 import type { ClaimPage, ClaimView, LatestCheck } from '$lib/views/claims';
 
-export type { ClaimInput, ClaimQuery } from '$lib/claims/schema';
+export type { ClaimInput } from '$lib/claims/schema';
+export type { ClaimQuery } from '$lib/claims/filter';
 export type { ClaimPage, ClaimView, LatestCheck } from '$lib/views/claims';
 
 export const DEFAULT_PAGE_SIZE = 20;
