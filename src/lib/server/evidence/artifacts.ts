@@ -4,11 +4,8 @@
  * verifier a stranger runs, on the work pool (services/certificates.ts), so that no certificate
  * is issued that would not verify.
  */
-import { parseCounts, type CountsDataset } from '../../certify';
 import { canonicalJson } from '../../evidence/canonical';
-import { longFormCountsText } from '../../evidence/counts-long-form';
 import type { LedgerCheckpoint } from '../../evidence/checkpoint';
-import { sha256Hex } from '../../evidence/hash';
 import {
 	BUNDLE_FILES,
 	CALIBRATION_FILE,
@@ -16,20 +13,12 @@ import {
 	uploadedCountsName,
 	type EvidenceFiles
 } from '../../evidence/layout';
-import {
-	buildManifest,
-	canonicalCountsText,
-	fingerprintOf,
-	manifestText,
-	type EvidenceManifest,
-	type ManifestInput
-} from '../../evidence/manifest';
+import { fingerprintOf, manifestText, type EvidenceManifest } from '../../evidence/manifest';
 import { signText, type SigningKey } from '../../evidence/signing';
 import { fillPlaceholders } from '../mail/templates';
 import { addBundleMetadata } from './bundle-metadata';
 import { manifestOf, utf8, type EvidenceContext, type EvidenceInput } from './evidence-input';
-import { certificatePdf, type CertificateContext } from './pdf';
-import { trialsCountsParts } from './trials-parts';
+import { certificatePdf } from './pdf';
 import { trialsReadmeNote } from './trials-readme';
 import { verifierBytes } from './verifier-file';
 import { zipFiles } from './zip-write';
@@ -160,7 +149,8 @@ export async function makeEvidence(
 	const files = await bundleFiles(input, signed, longForm, canonical, key, urls, published);
 	if (checkpoint)
 		files[BUNDLE_FILES.checkpoint] = utf8(JSON.stringify(checkpoint, null, '\t') + '\n');
-	addBundleMetadata(files, manifest, key, { ...shown, fingerprint, verifyUrl: urls.verify });
+	const about = { ...shown, fingerprint, verifyUrl: urls.verify, doi: urls.doi };
+	addBundleMetadata(files, manifest, key, about);
 	signContents(files, fingerprint, manifest.certificateId, key);
 	const folder = `rankseal-${manifest.certificateId}`;
 	const zip = await zipFiles(files, new Date(manifest.issuedAt), folder);

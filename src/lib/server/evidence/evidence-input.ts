@@ -13,7 +13,10 @@ import { trialsCountsParts } from './trials-parts';
 
 /** Who and what the counts came from, for the PDF only (not signed: the manifest is). */
 export type EvidenceContext = Omit<CertificateContext, 'coincidencesPerBasis'> &
-	Partial<Pick<CertificateContext, 'coincidencesPerBasis'>>;
+	Partial<Pick<CertificateContext, 'coincidencesPerBasis'>> & {
+		/** Each author's ORCID iD or null, in the order of `authors` (for the RO-Crate's @ids). */
+		authorOrcids?: (string | null)[];
+	};
 
 export type EvidenceInput = Omit<
 	ManifestInput,
