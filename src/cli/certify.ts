@@ -151,8 +151,9 @@ function trialsRun(values: Record<string, string | boolean | string[] | undefine
 	});
 }
 
-async function run(argv: string[]): Promise<number> {
-	const { values } = parseArgs({
+/** The command line's options, read strictly (an unknown option is bad input). */
+function readArgs(argv: string[]) {
+	return parseArgs({
 		args: argv,
 		options: {
 			counts: { type: 'string', multiple: true },
@@ -178,7 +179,11 @@ async function run(argv: string[]): Promise<number> {
 		},
 		strict: true,
 		allowPositionals: false
-	});
+	}).values;
+}
+
+async function run(argv: string[]): Promise<number> {
+	const values = readArgs(argv);
 	if (values.help) {
 		process.stdout.write(USAGE + '\n');
 		return 0;

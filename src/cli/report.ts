@@ -3,9 +3,10 @@ import type { CertificationResult } from '../lib/certify';
 
 const fmt = (x: number, digits = 5) => (Number.isFinite(x) ? x.toFixed(digits) : String(x));
 
-export function readableReport(r: CertificationResult, file: string): string {
+/** The statistic, its bound and interval. */
+function statisticLines(r: CertificationResult, file: string): string[] {
 	const s = r.statistic;
-	const lines = [
+	return [
 		`Rankseal check of ${file}`,
 		`  method            ${r.method} (${r.trust}); bases ${r.bases.join(', ')}; dimension ${r.dimension}`,
 		`  Fourier basis     ${r.fourier === 'field' ? `field (GF(${r.dimension}) additive group)` : `cyclic (Z_${r.dimension} transform)`}`,
@@ -25,9 +26,14 @@ export function readableReport(r: CertificationResult, file: string): string {
 		'',
 		'  rung  bound      margin (SE)  white-noise threshold visibility of the witness'
 	];
+}
+
+/** One line a rung of the ladder, then the Schmidt numbers reached. */
+function ladderLines(r: CertificationResult): string[] {
+	const lines: string[] = [];
 	for (const b of r.bounds) {
 		const margin = b.marginInStandardErrors === null ? 'n/a' : b.marginInStandardErrors.toFixed(1);
-		const mark = s.lower > b.bound ? 'cleared' : '';
+		const mark = r.statistic.lower > b.bound ? 'cleared' : '';
 		lines.push(
 			`  r=${String(b.upToSchmidtNumber).padEnd(3)} ${fmt(b.bound).padEnd(10)} ${margin.padStart(11)}  ${fmt(b.criticalVisibility, 4)}  ${mark}`
 		);
@@ -36,6 +42,12 @@ export function readableReport(r: CertificationResult, file: string): string {
 	lines.push(
 		`  certified Schmidt number           ≥ ${r.certifiedSchmidtNumber}  (${r.resamples} resamples, seed ${r.seed})`
 	);
+	return lines;
+}
+
+/** Calibration, steering, entropic sums, the claim's verdict, the input and the warnings. */
+function detailLines(r: CertificationResult): string[] {
+	const lines: string[] = [];
 	if (r.calibration)
 		lines.push(
 			`  calibrated bases  μ ≤ ${fmt(r.calibration.muUpper, 6)}, μ⁺ = ${fmt(r.calibration.muPlus, 6)} with ε = ${r.calibration.tolerance} (largest bias ${fmt(r.calibration.largestBias, 4)}); calibration SHA-256 ${r.calibration.sha256}`
@@ -57,6 +69,11 @@ export function readableReport(r: CertificationResult, file: string): string {
 	}
 	lines.push(`  input SHA-256 ${r.inputSha256}`);
 	for (const w of r.warnings) lines.push(`  note: ${w}`);
+	return lines;
+}
+
+export function readableReport(r: CertificationResult, file: string): string {
+	const lines = [...statisticLines(r, file), ...ladderLines(r), ...detailLines(r)];
 	const trusted =
 		r.trust === 'device-dependent'
 			? 'calibrated measurements in the declared bases'

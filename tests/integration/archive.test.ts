@@ -17,7 +17,8 @@ import { withdrawClaim } from '../../src/lib/server/claims/claim-withdraw';
 import { startCheck } from '../../src/lib/server/checks/checks';
 import { removeDataset } from '../../src/lib/server/datasets/dataset-removal';
 import { addDataset } from '../../src/lib/server/datasets/datasets';
-import { createClaim } from '../../src/lib/server/claims/claims';
+import { createClaim, listClaims } from '../../src/lib/server/claims/claims';
+import { REACHABLE_CLAIM_STATES } from '../../src/lib/claims/states';
 import { ConflictError, ForbiddenError, NotFoundError } from '../../src/lib/server/core/errors';
 import { FieldError } from '../../src/lib/server/core/field-error';
 import { verifyLedger } from '../../src/lib/server/ledger/ledger-verify';
@@ -245,6 +246,10 @@ describe('withdrawing a claim', () => {
 		expect(await verifyLedger(world.database)).toMatchObject({ valid: true });
 		const archive = await groupArchive(world.database, world.lead, filter({ state: 'withdrawn' }));
 		expect(archive.claims.map((c) => [c.id, c.withdrawnReason])).toEqual([[world.claimId, reason]]);
+		// The claim list finds it by state, and its filter offers that state.
+		const listed = await listClaims(world.database, world.author, { state: 'withdrawn' });
+		expect(listed.items.map((c) => [c.id, c.state])).toEqual([[world.claimId, 'withdrawn']]);
+		expect(REACHABLE_CLAIM_STATES).toContain(listed.items[0].state);
 		// The author and the lead each get one notice, written with the withdrawal.
 		const notices = await world.database.models.OutboxMail.findAll({
 			where: { kind: 'claim-withdrawn' }

@@ -27,7 +27,9 @@ vi.setConfig({ testTimeout: 600_000, hookTimeout: 600_000 });
 let world: EvidenceWorld;
 let scratch: string;
 let files: EvidenceFiles;
+let doi: string | null;
 
+const EXAMPLE_ORCID = '0000-0002-1825-0097';
 const sha256 = (bytes: Uint8Array) => createHash('sha256').update(bytes).digest('hex');
 const text = (bytes: Uint8Array) => Buffer.from(bytes).toString('utf8');
 
@@ -62,7 +64,13 @@ beforeAll(async () => {
 	scratch = mkdtempSync(path.join(tmpdir(), 'rankseal-journal-'));
 	process.env.RANKSEAL_VERIFIER = await bundleVerifier(path.join(scratch, 'verify.mjs'));
 	const check = await finishedCheck(world, 31);
+	// ORCID's own example iD (support article "Structure of the ORCID Identifier").
+	await world.database.models.User.update(
+		{ orcid: EXAMPLE_ORCID },
+		{ where: { id: world.author.userId } }
+	);
 	const cert = await issueCertificate(world.database, world.author, world.claimId, check.id);
+	doi = cert.doi?.doi ?? null;
 	files = readZip((await certificateFile(world.database, world.author, cert.id, 'bundle')).bytes);
 });
 afterAll(async () => {
@@ -90,6 +98,23 @@ describe('RO-Crate metadata', () => {
 			expect.arrayContaining([{ '@id': BUNDLE_FILES.manifest }, { '@id': BUNDLE_FILES.pdf }])
 		);
 		expect(action.object).toEqual(expect.arrayContaining([{ '@id': 'counts-uploaded.csv' }]));
+	});
+
+	it('names an author with an ORCID iD by the iD’s URL and the dataset by its DOI’s URL', () => {
+		const crate = JSON.parse(text(files[BUNDLE_FILES.crate]));
+		const graph = crate['@graph'] as Record<string, unknown>[];
+		const byId = new Map(graph.map((e) => [e['@id'], e]));
+		// RO-Crate 1.1 §"People": a Person's @id SHOULD be their ORCID as an https://orcid.org/ URL.
+		const orcidId = `https://orcid.org/${EXAMPLE_ORCID}`;
+		expect(byId.get(orcidId)).toMatchObject({ '@type': 'Person', name: 'Bo Strand' });
+		const root = byId.get('./')!;
+		expect(root.author).toEqual(expect.arrayContaining([{ '@id': orcidId }]));
+		// Authors without an iD keep a local id; none is named by another's iD.
+		const people = graph.filter((e) => e['@type'] === 'Person');
+		expect(people.filter((p) => p['@id'] === orcidId)).toHaveLength(1);
+		// DOI Handbook / DOI display guidance: a DOI shown as a link is https://doi.org/ + the name.
+		expect(doi).toMatch(/^10\.\d{4,}\/\S+$/);
+		expect(root.identifier).toBe(`https://doi.org/${doi}`);
 	});
 });
 

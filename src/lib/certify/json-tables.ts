@@ -83,99 +83,125 @@ function finishTable(ctx: Context, table: TableState): void {
 	ctx.tables.set(basis, { basis, counts, accidentals, durations, present });
 }
 
-/** Reads every table of the first "tables" array into ctx.tables, or fails at the first problem. */
-export function readTables(ctx: Context, budget: TableBudget): void {
-	const { text, d, fail } = ctx;
-	let depth = 0;
-	let rootKey: string | null = null;
-	let inTables = false;
-	let tablesSeen = false;
-	let index = -1;
-	let table: TableState | null = null;
-	let key: string | null = null;
-	let matrix: MatrixReader | null = null;
-	const startMatrix = (offset: number) => {
-		const path = `${table!.path}.${key}`;
-		if (!budget.take(d * d)) fail(offset, path, budget.refusal);
-		matrix = new MatrixReader(text, d, path, MATRICES[key!], offset);
-		table!.matrices.set(key!, matrix);
-	};
+/** The reader's place in the text while jsonc-parser walks it. */
+class TablesWalk {
+	depth = 0;
+	rootKey: string | null = null;
+	inTables = false;
+	tablesSeen = false;
+	index = -1;
+	table: TableState | null = null;
+	key: string | null = null;
+	matrix: MatrixReader | null = null;
+	constructor(
+		readonly ctx: Context,
+		readonly budget: TableBudget
+	) {}
+
 	/** A value begins at `depth` (1: a root field, 2: a table, 3: its field, 4: a row, 5: an entry); true to read its children. */
-	const begin = (kind: Spot['kind'], offset: number, length: number, v: unknown): boolean => {
-		if (depth === 1) {
-			const first = rootKey === 'tables' && !tablesSeen;
-			rootKey = null;
-			if (!first) return false;
-			tablesSeen = true;
-			inTables = kind === 'array';
-			return inTables;
-		}
-		if (!inTables) return false;
-		if (depth === 2) {
-			index++;
-			const path = `$.tables[${index}]`;
-			if (kind !== 'object') fail(offset, path, 'expected an object with "basis" and "counts"');
-			table = new TableState(path, offset);
-			return true;
-		}
-		if (depth === 3) {
-			const k = key;
-			key = null;
-			if (k === 'basis' && !table!.basis) table!.basis = { kind, offset, length, value: v };
-			else if (k !== null && k in MATRICES && !table!.matrices.has(k)) {
-				key = k;
-				if (kind === 'array') {
-					startMatrix(offset);
-					return true;
-				}
-				table!.matrices.set(k, MatrixReader.notAMatrix(offset, `${table!.path}.${k}`, d));
-			}
-			return false;
-		}
+	begin(kind: Spot['kind'], offset: number, length: number, v: unknown): boolean {
+		if (this.depth === 1) return this.beginRootValue(kind);
+		if (!this.inTables) return false;
+		if (this.depth === 2) return this.beginTable(kind, offset);
+		if (this.depth === 3) return this.beginField(kind, offset, length, v);
+		const matrix = this.matrix;
 		if (!matrix) return false;
-		if (depth === 4) {
+		if (this.depth === 4) {
 			if (kind === 'array') matrix.rowBegin(offset);
 			else matrix.notARow(offset);
 			return kind === 'array';
 		}
-		if (depth === 5) matrix.entry(v, offset, length, kind === 'literal');
+		if (this.depth === 5) matrix.entry(v, offset, length, kind === 'literal');
 		return false;
-	};
+	}
+
+	private beginRootValue(kind: Spot['kind']): boolean {
+		const first = this.rootKey === 'tables' && !this.tablesSeen;
+		this.rootKey = null;
+		if (!first) return false;
+		this.tablesSeen = true;
+		this.inTables = kind === 'array';
+		return this.inTables;
+	}
+
+	private beginTable(kind: Spot['kind'], offset: number): boolean {
+		this.index++;
+		const path = `$.tables[${this.index}]`;
+		if (kind !== 'object')
+			this.ctx.fail(offset, path, 'expected an object with "basis" and "counts"');
+		this.table = new TableState(path, offset);
+		return true;
+	}
+
+	private beginField(kind: Spot['kind'], offset: number, length: number, v: unknown): boolean {
+		const table = this.table!;
+		const k = this.key;
+		this.key = null;
+		if (k === 'basis' && !table.basis) table.basis = { kind, offset, length, value: v };
+		else if (k !== null && k in MATRICES && !table.matrices.has(k)) {
+			this.key = k;
+			if (kind === 'array') {
+				this.startMatrix(table, k, offset);
+				return true;
+			}
+			table.matrices.set(k, MatrixReader.notAMatrix(offset, `${table.path}.${k}`, this.ctx.d));
+		}
+		return false;
+	}
+
+	private startMatrix(table: TableState, key: string, offset: number): void {
+		const { text, d, fail } = this.ctx;
+		const path = `${table.path}.${key}`;
+		if (!this.budget.take(d * d)) fail(offset, path, this.budget.refusal);
+		this.matrix = new MatrixReader(text, d, path, MATRICES[key], offset);
+		table.matrices.set(key, this.matrix);
+	}
+
+	objectEnd(): void {
+		if (--this.depth === 2 && this.table) {
+			finishTable(this.ctx, this.table);
+			this.table = null;
+		}
+	}
+
+	arrayEnd(): void {
+		this.depth--;
+		if (this.depth === 4) this.matrix?.rowEnd();
+		else if (this.depth === 3) this.matrix = null;
+		else if (this.depth === 1) this.inTables = false;
+	}
+
+	property(property: string, offset: number): void {
+		if (this.depth === 1) this.rootKey = property;
+		else if (this.depth === 3 && this.table) {
+			this.key = property;
+			if (!TABLE_KEYS.has(property)) this.table.unknown ??= { key: property, offset };
+		}
+	}
+}
+
+/** Reads every table of the first "tables" array into ctx.tables, or fails at the first problem. */
+export function readTables(ctx: Context, budget: TableBudget): void {
+	const walk = new TablesWalk(ctx, budget);
 	visit(
-		text,
+		ctx.text,
 		{
 			// A skipped value's end is still reported: depth counts every container begun.
 			onObjectBegin: (offset, length) => {
-				const open = depth === 0 || begin('object', offset, length, undefined);
-				depth++;
+				const open = walk.depth === 0 || walk.begin('object', offset, length, undefined);
+				walk.depth++;
 				return open;
 			},
 			onArrayBegin: (offset, length) => {
-				const open = depth > 0 && begin('array', offset, length, undefined);
-				depth++;
+				const open = walk.depth > 0 && walk.begin('array', offset, length, undefined);
+				walk.depth++;
 				return open;
 			},
-			onObjectEnd: () => {
-				if (--depth === 2 && table) {
-					finishTable(ctx, table);
-					table = null;
-				}
-			},
-			onArrayEnd: () => {
-				depth--;
-				if (depth === 4) matrix?.rowEnd();
-				else if (depth === 3) matrix = null;
-				else if (depth === 1) inTables = false;
-			},
+			onObjectEnd: () => walk.objectEnd(),
+			onArrayEnd: () => walk.arrayEnd(),
 			onLiteralValue: (v, offset, length) =>
-				void (depth > 0 && begin('literal', offset, length, v)),
-			onObjectProperty: (property, offset) => {
-				if (depth === 1) rootKey = property;
-				else if (depth === 3 && table) {
-					key = property;
-					if (!TABLE_KEYS.has(property)) table.unknown ??= { key: property, offset };
-				}
-			}
+				void (walk.depth > 0 && walk.begin('literal', offset, length, v)),
+			onObjectProperty: (property, offset) => walk.property(property, offset)
 		},
 		JSON_OPTIONS
 	);

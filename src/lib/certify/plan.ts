@@ -109,6 +109,33 @@ function checkOptions(options: CertifyOptions, d: number) {
 	return { method: options.method, confidence, resamples, seed, claim };
 }
 
+/** The bases the check reads (given, else the family's default), each with a complete table. */
+function chosenBases(
+	dataset: CountsDataset,
+	options: CertifyOptions,
+	family: WitnessFamily,
+	fourier: FourierConvention
+): number[] {
+	const d = dataset.dimension;
+	const present = dataset.tables.map((t) => t.basis);
+	const bases = options.bases ?? family.defaultBases(present, d);
+	try {
+		family.checkBases(bases, d, fourier);
+	} catch (error) {
+		throw new InputError(`bases: ${(error as Error).message}`);
+	}
+	requireCompleteTables(dataset, bases, options.method as MethodId);
+	return bases;
+}
+
+/** Whether accidentals are subtracted and whether counts are read as rates (unequal durations). */
+function cellModel(tables: CountTable[], options: CertifyOptions) {
+	const subtract = !!options.subtractAccidentals && tables.some((t) => t.accidentals !== null);
+	if (options.subtractAccidentals && !subtract)
+		throw new InputError('subtracting accidentals needs an accidentals column');
+	return { subtract, rates: hasUnequalDurations(tables) };
+}
+
 export function planCertification(
 	dataset: CountsDataset,
 	options: CertifyOptions
@@ -117,14 +144,7 @@ export function planCertification(
 	const { method, confidence, resamples, seed, claim } = checkOptions(options, d);
 	const family = witnessFamilies[method];
 	const fourier = fourierOf(dataset, options.fourier);
-	const present = dataset.tables.map((t) => t.basis);
-	const bases = options.bases ?? family.defaultBases(present, d);
-	try {
-		family.checkBases(bases, d, fourier);
-	} catch (error) {
-		throw new InputError(`bases: ${(error as Error).message}`);
-	}
-	requireCompleteTables(dataset, bases, method);
+	const bases = chosenBases(dataset, options, family, fourier);
 	const calibration = options.calibration
 		? calibrationSummary(options.calibration, {
 				method,
@@ -134,19 +154,11 @@ export function planCertification(
 			})
 		: null;
 	const tables = bases.map((t) => dataset.tables.find((x) => x.basis === t)!);
-	const subtract = !!options.subtractAccidentals && tables.some((t) => t.accidentals !== null);
-	if (options.subtractAccidentals && !subtract)
-		throw new InputError('subtracting accidentals needs an accidentals column');
-	const rates = hasUnequalDurations(tables);
+	const { subtract, rates } = cellModel(tables, options);
+	const perCell = subtract || rates;
 	const fidelity = method === 'fidelity-two-basis';
-	const replicated = usesReplicates({ perCell: subtract || rates });
-	checkResamples(resamples, confidence, {
-		d,
-		bases: bases.length,
-		perCell: subtract || rates,
-		fidelity,
-		replicated
-	});
+	const replicated = usesReplicates({ perCell });
+	checkResamples(resamples, confidence, { d, bases: bases.length, perCell, fidelity, replicated });
 	const entropicSums = rates
 		? []
 		: checkQuantumMarginals(
@@ -155,40 +167,16 @@ export function planCertification(
 				family.trust === 'device-dependent' ? ['A', 'B'] : ['B'],
 				options.calibration ? calibratedLimit(options.calibration, bases) : undefined
 			);
+	const { onProgress } = options;
 	const inputs: BoundInputs = {
-		family,
-		tables,
-		d,
-		bases,
-		fourier,
-		confidence,
-		resamples,
-		seed,
-		onProgress: options.onProgress,
-		perCell: subtract || rates,
-		subtractAccidentals: subtract
+		...{ family, tables, d, bases, fourier, confidence, resamples, seed, onProgress },
+		...{ perCell, subtractAccidentals: subtract }
 	};
 	const draws = boundDrawSpec(inputs, fidelity);
 	const inputSha256 = options.inputSha256 ?? null;
 	return {
-		method,
-		family,
-		d,
-		bases,
-		fourier,
-		tables,
-		confidence,
-		resamples,
-		seed,
-		claim,
-		subtract,
-		rates,
-		entropicSums,
-		inputs,
-		draws,
-		replicated,
-		inputSha256,
-		calibration
+		...{ method, family, d, bases, fourier, tables, confidence, resamples, seed, claim },
+		...{ subtract, rates, entropicSums, inputs, draws, replicated, inputSha256, calibration }
 	};
 }
 

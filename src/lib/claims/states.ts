@@ -10,12 +10,17 @@ export const CLAIM_STATES = [
 
 export type ClaimState = (typeof CLAIM_STATES)[number];
 
-/** The states some action can put a claim in today: new, checked, certified, shared with an editor. */
+/**
+ * The states some action can put a claim in today (the claim list's filter offers these): new,
+ * checked, certified, shared with an editor, withdrawn (claim-withdraw.ts). No action makes a
+ * claim superseded; certificates are superseded, not claims.
+ */
 export const REACHABLE_CLAIM_STATES: readonly ClaimState[] = [
 	'draft',
 	'checked',
 	'certified',
-	'shared'
+	'shared',
+	'withdrawn'
 ];
 
 /** A state in a reader's words, for lists and filters. */

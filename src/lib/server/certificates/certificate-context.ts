@@ -20,6 +20,7 @@ export async function certificateContext(
 	return {
 		group: (group?.get('name') as string | undefined) ?? 'no group',
 		authors: people.map((p) => p.name),
+		authorOrcids: people.map((p) => p.orcid ?? null),
 		orcids: people.flatMap((p) => (p.orcid ? [{ name: p.name, orcid: p.orcid }] : [])),
 		sourceDescription: claim.sourceDescription,
 		countsFileName: dataset.originalName,

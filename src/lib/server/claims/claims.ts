@@ -5,7 +5,6 @@
 import { MAX_PAGE } from '$lib/paging';
 import { col, fn, Op, type Order, type WhereOptions } from 'sequelize';
 import { claimInputSchema, type ClaimInputValues } from '$lib/claims/schema';
-import type { ClaimQuery } from '$lib/claims/filter';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
 import type { ClaimAttributes } from '../db/models/Claim';
@@ -15,7 +14,7 @@ import { audit } from '../core/audit';
 import { ForbiddenError } from '../core/errors';
 import { newId } from '../core/ids';
 import { claimTextWhere } from '../claims/claim-search';
-import { DEFAULT_SORT, firstOrder } from '$lib/claims/filter';
+import { DEFAULT_SORT, firstOrder, type ClaimQuery } from '$lib/claims/filter';
 import type { ClaimPage, ClaimView, LatestCheck } from '$lib/views/claims';
 
 export type { ClaimInput } from '$lib/claims/schema';
@@ -26,30 +25,15 @@ export const DEFAULT_PAGE_SIZE = 20;
 
 const iso = (value: Date | string | undefined): string => new Date(value ?? 0).toISOString();
 
-/** Views of claim rows, with group and author names and each claim's newest check. */
-async function claimViews(database: Database, claims: ClaimAttributes[]): Promise<ClaimView[]> {
-	const { Group, User, Check } = database.models;
-	const ids = claims.map((c) => c.id);
-	const [groups, users, checks] = await Promise.all([
-		Group.findAll({ where: { id: [...new Set(claims.map((c) => c.groupId))] } }),
-		User.findAll({
-			where: { id: [...new Set(claims.map((c) => c.createdBy))] },
-			attributes: ['id', 'name', 'orcid']
-		}),
-		// Referee re-runs are the referee's: never shown as the authors' newest check.
-		Check.findAll({
-			where: { claimId: ids, reviewLinkId: null },
-			order: [
-				['createdAt', 'DESC'],
-				[col('rowid'), 'DESC']
-			]
-		})
-	]);
-	const groupName = new Map(groups.map((g) => [g.get('id') as string, g.get('name') as string]));
-	const userName = new Map(users.map((u) => [u.get('id') as string, u.get('name') as string]));
-	const userOrcid = new Map(
-		users.map((u) => [u.get('id') as string, (u.get('orcid') as string | null) ?? null])
-	);
+/** Each claim's newest check by the authors (referee re-runs are the referee's: never shown). */
+async function latestChecks(database: Database, ids: string[]): Promise<Map<string, LatestCheck>> {
+	const checks = await database.models.Check.findAll({
+		where: { claimId: ids, reviewLinkId: null },
+		order: [
+			['createdAt', 'DESC'],
+			[col('rowid'), 'DESC']
+		]
+	});
 	const latest = new Map<string, LatestCheck>();
 	for (const row of checks) {
 		const check = row.get({ plain: true });
@@ -61,6 +45,26 @@ async function claimViews(database: Database, claims: ClaimAttributes[]): Promis
 			verdict: check.result?.claim?.verdict ?? null
 		});
 	}
+	return latest;
+}
+
+/** Views of claim rows, with group and author names and each claim's newest check. */
+async function claimViews(database: Database, claims: ClaimAttributes[]): Promise<ClaimView[]> {
+	const { Group, User } = database.models;
+	const ids = claims.map((c) => c.id);
+	const [groups, users, latest] = await Promise.all([
+		Group.findAll({ where: { id: [...new Set(claims.map((c) => c.groupId))] } }),
+		User.findAll({
+			where: { id: [...new Set(claims.map((c) => c.createdBy))] },
+			attributes: ['id', 'name', 'orcid']
+		}),
+		latestChecks(database, ids)
+	]);
+	const groupName = new Map(groups.map((g) => [g.get('id') as string, g.get('name') as string]));
+	const userName = new Map(users.map((u) => [u.get('id') as string, u.get('name') as string]));
+	const userOrcid = new Map(
+		users.map((u) => [u.get('id') as string, (u.get('orcid') as string | null) ?? null])
+	);
 	return claims.map((c) => ({
 		id: c.id,
 		groupId: c.groupId,

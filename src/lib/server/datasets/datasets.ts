@@ -12,6 +12,7 @@ import { countsFormatOf } from '$lib/evidence/layout';
 import { accountIdOf, type Actor } from '../core/actor';
 import { requireClaim } from '../access/permissions';
 import { engineTasks } from '../checks/registry';
+import type { EngineTasks } from '../checks/engine-tasks';
 import { trialsPart } from '../checks/trials-task';
 import { targetPart } from '../checks/target-task';
 import type { Database } from '../db';
@@ -58,6 +59,77 @@ async function refuseRepeatedUpload(
 	);
 }
 
+type Claim = Awaited<ReturnType<typeof requireClaim>>;
+type Summarised = Extract<Awaited<ReturnType<EngineTasks['summarise']>>, { ok: true }>;
+
+/** The file read by the engine against the claim, or InputError naming its line. */
+async function summariseUpload(
+	database: Database,
+	claim: Claim,
+	bytes: Uint8Array,
+	userId: string
+): Promise<Summarised> {
+	const runner = await engineTasks(database);
+	const read = await runner.summarise(
+		{ bytes, ...claim, trials: trialsPart(claim), separateFrom: targetPart(claim)?.run ?? null },
+		`upload:${userId}`
+	);
+	if (!read.ok)
+		throw new InputError(read.message, read.line ?? undefined, read.column ?? undefined);
+	return read;
+}
+
+interface NewDataset {
+	id: string;
+	claim: Claim;
+	userId: string;
+	bytes: Uint8Array;
+	sha256: string;
+	originalName: string;
+	read: Summarised;
+	calibrated: ReturnType<typeof checkCalibrationUpload>;
+}
+
+/** The row and its audit event, inside the upload's transaction. */
+async function recordDataset(
+	database: Database,
+	d: NewDataset,
+	transaction: Transaction
+): Promise<void> {
+	const { id, claim, userId, bytes, sha256, originalName, read, calibrated } = d;
+	await refuseRepeatedUpload(database, claim.id, sha256, transaction);
+	await refuseOverQuota(
+		database,
+		claim.groupId,
+		{ sha256, byteSize: bytes.byteLength },
+		transaction
+	);
+	await database.models.Dataset.create(
+		{
+			id,
+			claimId: claim.id,
+			createdBy: userId,
+			sha256,
+			byteSize: bytes.byteLength,
+			format: countsFormatOf(bytes),
+			originalName,
+			summary: read.summary,
+			preview: read.preview,
+			countsSha256: read.countsSha256,
+			...calibrated
+		},
+		{ transaction }
+	);
+	const details = {
+		sha256,
+		byteSize: bytes.byteLength,
+		originalName,
+		...(calibrated ? { calibrationSha256: calibrated.calibrationSha256 } : {})
+	};
+	const event = { actorId: userId, groupId: claim.groupId, action: 'dataset.added' } as const;
+	await audit(database, { ...event, subjectType: 'dataset', subjectId: id, details }, transaction);
+}
+
 /**
  * Validates a counts file against the claim (dimension, and the tables its method and bases
  * need), then stores it. Throws InputError naming the line for a bad file and NotFoundError
@@ -73,57 +145,16 @@ export async function addDataset(
 	const calibrated = checkCalibrationUpload(upload.calibration, claim);
 	const userId = accountIdOf(actor)!;
 	const { bytes } = upload;
-	const runner = await engineTasks(database);
-	const read = await runner.summarise(
-		{ bytes, ...claim, trials: trialsPart(claim), separateFrom: targetPart(claim)?.run ?? null },
-		`upload:${userId}`
-	);
-	if (!read.ok)
-		throw new InputError(read.message, read.line ?? undefined, read.column ?? undefined);
+	const read = await summariseUpload(database, claim, bytes, userId);
 	const sha256 = sha256Hex(bytes);
 	const originalName = tidyFileName(upload.originalName, 'counts');
 	const id = newId();
+	const dataset = { id, claim, userId, bytes, sha256, originalName, read, calibrated };
 	let wrote = false;
 	try {
 		await writeTransaction(database, async (transaction) => {
-			await refuseRepeatedUpload(database, claimId, sha256, transaction);
-			const upload = { sha256, byteSize: bytes.byteLength };
-			await refuseOverQuota(database, claim.groupId, upload, transaction);
-			await database.models.Dataset.create(
-				{
-					id,
-					claimId,
-					createdBy: userId,
-					sha256,
-					byteSize: bytes.byteLength,
-					format: countsFormatOf(bytes),
-					originalName,
-					summary: read.summary,
-					preview: read.preview,
-					countsSha256: read.countsSha256,
-					...calibrated
-				},
-				{ transaction }
-			);
+			await recordDataset(database, dataset, transaction);
 			wrote = (await storeCounts(sha256, bytes)) || wrote;
-			const details = {
-				sha256,
-				byteSize: bytes.byteLength,
-				originalName,
-				...(calibrated ? { calibrationSha256: calibrated.calibrationSha256 } : {})
-			};
-			await audit(
-				database,
-				{
-					actorId: userId,
-					groupId: claim.groupId,
-					action: 'dataset.added',
-					subjectType: 'dataset',
-					subjectId: id,
-					details
-				},
-				transaction
-			);
 		});
 	} catch (error) {
 		// Another upload may have stored the same bytes meanwhile; remove them only when unused.

@@ -12,6 +12,8 @@ import { crateText } from './ro-crate';
 export interface MetadataContext {
 	fingerprint: string;
 	authors: string[];
+	authorOrcids?: (string | null)[];
+	doi?: string;
 	group: string;
 	verifyUrl: string;
 }

@@ -7,6 +7,7 @@
 import { BUNDLE_FILES, type EvidenceFiles } from '../../evidence/layout';
 import type { EvidenceManifest } from '../../evidence/manifest';
 import { sha256Hex } from '../../evidence/hash';
+import { orcidUrl } from '../../orcid-id';
 import { fileWords, mediaTypeOf } from './ro-crate-files';
 
 export const CRATE_CONTEXT = 'https://w3id.org/ro/crate/1.1/context';
@@ -18,6 +19,10 @@ export interface CrateInput {
 	/** The files to describe with their hashes (every file but contents.json, contents.sig and this). */
 	files: EvidenceFiles;
 	authors: string[];
+	/** Each author's ORCID iD or null, in the order of `authors`; absent when not known. */
+	authorOrcids?: (string | null)[];
+	/** The certificate's DOI name (10.x/y), when it has one. */
+	doi?: string;
 	group: string;
 	verifyUrl: string;
 }
@@ -62,7 +67,8 @@ function rootDataset(input: CrateInput, names: string[], people: Entity[]): Enti
 		name: `Rankseal certificate ${m.certificateId}: ${m.claim.title}`,
 		description: `Evidence for the claim of Schmidt number ${m.claim.claimedSchmidtNumber} in local dimension ${m.claim.dimension}: the counts, the signed manifest (fingerprint ${input.fingerprint}), the result, the certificate PDF and an offline verifier.`,
 		datePublished: m.issuedAt,
-		identifier: m.certificateId,
+		// RO-Crate 1.1 asks for a persistent identifier, as a URL, where there is one.
+		identifier: input.doi ? `https://doi.org/${input.doi}` : m.certificateId,
 		url: input.verifyUrl,
 		publisher: ref('#rankseal'),
 		...(people.length ? { author: people.map((p) => ref(p['@id'])) } : {}),
@@ -78,11 +84,11 @@ export function crateText(input: CrateInput): string {
 	const described = Object.keys(input.files).sort();
 	const unhashed = [BUNDLE_FILES.contents, BUNDLE_FILES.contentsSignature];
 	const names = [...described, ...unhashed];
-	const people: Entity[] = input.authors.map((name, i) => ({
-		'@id': `#author-${i + 1}`,
-		'@type': 'Person',
-		name
-	}));
+	// RO-Crate 1.1 recommends a person's ORCID URL as their @id; a local id otherwise.
+	const people: Entity[] = input.authors.map((name, i) => {
+		const orcid = input.authorOrcids?.[i];
+		return { '@id': orcid ? orcidUrl(orcid) : `#author-${i + 1}`, '@type': 'Person', name };
+	});
 	const graph: Entity[] = [
 		{
 			'@id': BUNDLE_FILES.crate,
