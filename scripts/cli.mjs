@@ -1,8 +1,10 @@
 // Launcher of the command line: `node scripts/cli.mjs certify -- …` runs build/cli/certify.cjs,
 // building the bundles first (esbuild, a second or two) when missing or older than the sources.
-// The engine's bundles run through a V8 code cache (NAME.cjs.cache, written on the first run and
-// whenever V8 rejects it), which spares compiling them on every start.
-import { readFileSync, renameSync, writeFileSync } from 'node:fs';
+// The engine's bundles run through a V8 code cache (NAME.cjs.HASH.cache, written on the first run
+// and whenever V8 rejects it), which spares compiling them on every start. HASH is the bundle's own:
+// V8 checks only the source's length, so a rebuilt bundle of the same length must not meet old code.
+import { createHash } from 'node:crypto';
+import { readdirSync, readFileSync, renameSync, rmSync, writeFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import path from 'node:path';
 import { pathToFileURL } from 'node:url';
@@ -25,14 +27,16 @@ if (CACHED.includes(name)) runCached(bundle);
 else await import(pathToFileURL(bundle).href);
 
 function runCached(file) {
-	const cacheFile = `${file}.cache`;
+	const code = readFileSync(file, 'utf8');
+	const hash = createHash('sha256').update(code).digest('hex').slice(0, 16);
+	const cacheFile = `${file}.${hash}.cache`;
 	let cachedData;
 	try {
 		cachedData = readFileSync(cacheFile);
 	} catch {
 		cachedData = undefined;
 	}
-	const source = `(function (exports, require, module, __filename, __dirname) {${readFileSync(file, 'utf8')}\n})`;
+	const source = `(function (exports, require, module, __filename, __dirname) {${code}\n})`;
 	const script = new Script(source, { filename: file, cachedData });
 	if (!cachedData || script.cachedDataRejected) {
 		// After the run, so that the functions it compiled are in the cache too.
@@ -40,9 +44,19 @@ function runCached(file) {
 			const part = `${cacheFile}.${process.pid}.part`;
 			writeFileSync(part, script.createCachedData());
 			renameSync(part, cacheFile);
+			dropOtherCaches(file, cacheFile);
 		});
 	}
 	const module = { exports: {} };
 	const run = script.runInThisContext();
 	run.call(module.exports, module.exports, createRequire(file), module, file, path.dirname(file));
+}
+
+/** Caches of earlier builds of this bundle go once the current one is written. */
+function dropOtherCaches(file, kept) {
+	const folder = path.dirname(file);
+	const prefix = `${path.basename(file)}.`;
+	for (const entry of readdirSync(folder))
+		if (entry.startsWith(prefix) && entry.endsWith('.cache') && path.join(folder, entry) !== kept)
+			rmSync(path.join(folder, entry), { force: true });
 }
