@@ -1,10 +1,8 @@
 /** The check runner end to end: real worker threads (piscina) running the bundled engine. */
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { rmSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { certify, parseCounts } from '../../src/lib/certify';
-import { bundleCheckWorker } from '../../src/lib/server/checks/locate';
 import { startCheckRunner, stopCheckRunner } from '../../src/lib/server/checks/registry';
 import {
 	getCheck,
@@ -19,10 +17,9 @@ import { ConflictError, NotFoundError } from '../../src/lib/server/core/errors';
 import { newId } from '../../src/lib/server/core/ids';
 import { addGroup, addUser, bytesOf, claimFields, countsCsv } from './backend-fixtures';
 import { asUser } from './actors';
-import { temporaryDatabase } from './db';
+import { workerDatabase, type WorkerDatabase } from './worker-database';
 
-let ctx: Awaited<ReturnType<typeof temporaryDatabase>>;
-let workerFolder: string;
+let ctx: WorkerDatabase;
 let ada: string, cyd: string, claimId: string, datasetId: string;
 /** Unequal integration times make the engine resample every cell: slow enough to watch. */
 const slowCsv = countsCsv(7, [0, 1], 100_000, 5)
@@ -56,14 +53,8 @@ function observeCheckWrites() {
 }
 
 beforeAll(async () => {
-	ctx = await temporaryDatabase();
+	ctx = await workerDatabase(2);
 	observeCheckWrites();
-	workerFolder = mkdtempSync(path.join(tmpdir(), 'rankseal-worker-test-'));
-	process.env.RANKSEAL_DATA_DIR = ctx.folder;
-	process.env.RANKSEAL_CHECK_WORKERS = '2';
-	process.env.RANKSEAL_CHECK_WORKER = await bundleCheckWorker(
-		path.join(workerFolder, 'check-worker.mjs')
-	);
 	const lake = await addGroup(ctx.database, 'Lake optics');
 	const ridge = await addGroup(ctx.database, 'Ridge qudits');
 	ada = await addUser(ctx.database, 'Ada Lind', [[lake, 'author']]);
@@ -83,9 +74,7 @@ beforeAll(async () => {
 	).id;
 });
 afterAll(async () => {
-	await stopCheckRunner(ctx.database);
 	await ctx.close();
-	rmSync(workerFolder, { recursive: true, force: true });
 });
 
 describe('check runner', () => {
@@ -202,7 +191,7 @@ describe('check runner', () => {
 	it('fails the check, rather than waiting forever, when the worker cannot start', async () => {
 		await stopCheckRunner(ctx.database);
 		const good = process.env.RANKSEAL_CHECK_WORKER;
-		const broken = path.join(workerFolder, 'broken.mjs');
+		const broken = path.join(ctx.workerFolder, 'broken.mjs');
 		writeFileSync(broken, "throw new Error('no engine here');\nexport default () => null;\n");
 		process.env.RANKSEAL_CHECK_WORKER = broken;
 		try {

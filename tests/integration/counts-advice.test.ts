@@ -3,14 +3,10 @@
  * the check and the runner stores it beside the result (migration 0024); the signed result, which
  * issuing and the offline verifiers re-run, carries no simulated figure.
  */
-import { mkdtempSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { certify, parseCounts, sampledCounts, states, toCountsCsv } from '../../src/lib/certify';
 import { countsAdvice } from '../../src/lib/certify/planner/check-counts';
-import { bundleCheckWorker } from '../../src/lib/server/checks/locate';
-import { startCheckRunner, stopCheckRunner } from '../../src/lib/server/checks/registry';
+import { startCheckRunner } from '../../src/lib/server/checks/registry';
 import { getCheck, startCheck } from '../../src/lib/server/checks/checks';
 import { planFromCheck } from '../../src/lib/server/checks/check-plan';
 import { NotFoundError } from '../../src/lib/server/core/errors';
@@ -18,10 +14,9 @@ import { createClaim } from '../../src/lib/server/claims/claims';
 import { addDataset } from '../../src/lib/server/datasets/datasets';
 import { addGroup, addUser, bytesOf, claimFields } from './backend-fixtures';
 import { asUser } from './actors';
-import { temporaryDatabase } from './db';
+import { workerDatabase, type WorkerDatabase } from './worker-database';
 
-let ctx: Awaited<ReturnType<typeof temporaryDatabase>>;
-let workerFolder: string;
+let ctx: WorkerDatabase;
 let ada: string;
 let cyd: string;
 let checkId: string;
@@ -31,22 +26,14 @@ let checkId: string;
 const csv = toCountsCsv(sampledCounts(states.isotropic(5, 0.9), [0, 1], 200, 11));
 
 beforeAll(async () => {
-	ctx = await temporaryDatabase();
-	workerFolder = mkdtempSync(path.join(tmpdir(), 'rankseal-worker-test-'));
-	process.env.RANKSEAL_DATA_DIR = ctx.folder;
-	process.env.RANKSEAL_CHECK_WORKERS = '1';
-	process.env.RANKSEAL_CHECK_WORKER = await bundleCheckWorker(
-		path.join(workerFolder, 'check-worker.mjs')
-	);
+	ctx = await workerDatabase();
 	const lake = await addGroup(ctx.database, 'Halvorsen Lake Photonics');
 	ada = await addUser(ctx.database, 'Ada Lind', [[lake, 'author']]);
 	const ridge = await addGroup(ctx.database, 'Ridge qudits');
 	cyd = await addUser(ctx.database, 'Cyd Marsh', [[ridge, 'lead']]);
 });
 afterAll(async () => {
-	await stopCheckRunner(ctx.database);
 	await ctx.close();
-	rmSync(workerFolder, { recursive: true, force: true });
 });
 
 describe('counts needed for an unsupported claim', () => {

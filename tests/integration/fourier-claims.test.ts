@@ -2,9 +2,6 @@
  * A claim's Fourier convention (issue 6 §5) through the services: stored and returned, checked
  * against the upload's own declaration, and used by the check the runner performs.
  */
-import { mkdtempSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ZodError } from 'zod';
 import {
@@ -15,17 +12,15 @@ import {
 	states,
 	toCountsCsv
 } from '../../src/lib/certify';
-import { bundleCheckWorker } from '../../src/lib/server/checks/locate';
-import { startCheckRunner, stopCheckRunner } from '../../src/lib/server/checks/registry';
+import { startCheckRunner } from '../../src/lib/server/checks/registry';
 import { getCheck, startCheck } from '../../src/lib/server/checks/checks';
 import { createClaim, getClaim } from '../../src/lib/server/claims/claims';
 import { addDataset, listDatasets } from '../../src/lib/server/datasets/datasets';
 import { addGroup, addUser, bytesOf, claimFields } from './backend-fixtures';
 import { asUser } from './actors';
-import { temporaryDatabase } from './db';
+import { workerDatabase, type WorkerDatabase } from './worker-database';
 
-let ctx: Awaited<ReturnType<typeof temporaryDatabase>>;
-let workerFolder: string;
+let ctx: WorkerDatabase;
 let ada: string;
 
 /**
@@ -47,20 +42,12 @@ function fieldJson(declared: 'cyclic' | 'field' | null): string {
 }
 
 beforeAll(async () => {
-	ctx = await temporaryDatabase();
-	workerFolder = mkdtempSync(path.join(tmpdir(), 'rankseal-worker-test-'));
-	process.env.RANKSEAL_DATA_DIR = ctx.folder;
-	process.env.RANKSEAL_CHECK_WORKERS = '1';
-	process.env.RANKSEAL_CHECK_WORKER = await bundleCheckWorker(
-		path.join(workerFolder, 'check-worker.mjs')
-	);
+	ctx = await workerDatabase();
 	const lake = await addGroup(ctx.database, 'Lake optics');
 	ada = await addUser(ctx.database, 'Ada Lind', [[lake, 'author']]);
 });
 afterAll(async () => {
-	await stopCheckRunner(ctx.database);
 	await ctx.close();
-	rmSync(workerFolder, { recursive: true, force: true });
 });
 
 describe('the Fourier convention of a claim', () => {

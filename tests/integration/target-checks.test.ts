@@ -4,21 +4,18 @@
  * called directly (tests/unit/fidelity-target.test.ts ties it to §4.3′'s isotropic example).
  */
 import { execFileSync, spawnSync } from 'node:child_process';
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { mkdtempSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { parseCounts } from '../../src/lib/certify';
 import { certifyTarget, type TargetResult } from '../../src/lib/certify/fidelity-target';
-import { bundleCheckWorker } from '../../src/lib/server/checks/locate';
-import { startCheckRunner, stopCheckRunner } from '../../src/lib/server/checks/registry';
+import { startCheckRunner } from '../../src/lib/server/checks/registry';
 import { TARGET_CAUTION } from '../../src/lib/server/checks/target-task';
 import { getCheck, startCheck } from '../../src/lib/server/checks/checks';
 import { issueCertificate } from '../../src/lib/server/certificates/certificates';
 import { createClaim, getClaim } from '../../src/lib/server/claims/claims';
 import { updateClaim } from '../../src/lib/server/claims/claim-edit';
 import { addDataset } from '../../src/lib/server/datasets/datasets';
-import { ConflictError } from '../../src/lib/server/core/errors';
 import { TARGET_EXAMPLE, targetCountsCsv } from '../target-counts';
 import { BUNDLE_FILES } from '../../src/lib/evidence/layout';
 import { verifyEvidence } from '../../src/lib/evidence/verify';
@@ -29,9 +26,9 @@ import { readZip } from '../../src/lib/server/evidence/zip-read';
 import { certificateFile } from '../../src/lib/server/certificates/certificate-reads';
 import { addGroup, addUser, bytesOf, claimFields } from './backend-fixtures';
 import { asUser } from './actors';
-import { temporaryDatabase } from './db';
+import { workerDatabase, type WorkerDatabase } from './worker-database';
 
-let ctx: Awaited<ReturnType<typeof temporaryDatabase>>;
+let ctx: WorkerDatabase;
 let workerFolder: string;
 let ada: string;
 
@@ -60,22 +57,15 @@ async function finished(id: string) {
 }
 
 beforeAll(async () => {
-	ctx = await temporaryDatabase();
-	workerFolder = mkdtempSync(path.join(tmpdir(), 'rankseal-worker-test-'));
-	process.env.RANKSEAL_DATA_DIR = ctx.folder;
-	process.env.RANKSEAL_CHECK_WORKERS = '1';
+	ctx = await workerDatabase();
 	process.env.ORIGIN = 'https://rankseal.test';
-	process.env.RANKSEAL_CHECK_WORKER = await bundleCheckWorker(
-		path.join(workerFolder, 'check-worker.mjs')
-	);
+	workerFolder = ctx.workerFolder;
 	process.env.RANKSEAL_VERIFIER = await bundleVerifier(path.join(workerFolder, 'verify.mjs'));
 	const lake = await addGroup(ctx.database, 'Halvorsen Lake Photonics');
 	ada = await addUser(ctx.database, 'Ada Lind', [[lake, 'author']]);
 });
 afterAll(async () => {
-	await stopCheckRunner(ctx.database);
 	await ctx.close();
-	rmSync(workerFolder, { recursive: true, force: true });
 });
 
 describe('fidelity-target claims on the service', () => {

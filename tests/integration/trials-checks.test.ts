@@ -3,9 +3,6 @@
  * folder, the upload read on the bundled worker, the check run on the same pool as every check.
  * Expected numbers come from the engine called directly (its own tests tie it to witnesses.md §10).
  */
-import { mkdtempSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import path from 'node:path';
 import { gzipSync } from 'node:zlib';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import {
@@ -18,8 +15,7 @@ import {
 	type TrialsResult
 } from '../../src/lib/certify/trials';
 import { claimInputSchema } from '../../src/lib/claims/schema';
-import { bundleCheckWorker } from '../../src/lib/server/checks/locate';
-import { startCheckRunner, stopCheckRunner } from '../../src/lib/server/checks/registry';
+import { startCheckRunner } from '../../src/lib/server/checks/registry';
 import { getCheck, startCheck } from '../../src/lib/server/checks/checks';
 import { issueCertificate } from '../../src/lib/server/certificates/certificates';
 import { createClaim, getClaim } from '../../src/lib/server/claims/claims';
@@ -27,10 +23,9 @@ import { updateClaim } from '../../src/lib/server/claims/claim-edit';
 import { addDataset } from '../../src/lib/server/datasets/datasets';
 import { addGroup, addUser, bytesOf, claimFields } from './backend-fixtures';
 import { asUser } from './actors';
-import { temporaryDatabase } from './db';
+import { workerDatabase, type WorkerDatabase } from './worker-database';
 
-let ctx: Awaited<ReturnType<typeof temporaryDatabase>>;
-let workerFolder: string;
+let ctx: WorkerDatabase;
 let ada: string;
 
 const D = 5;
@@ -47,20 +42,12 @@ async function finished(id: string) {
 }
 
 beforeAll(async () => {
-	ctx = await temporaryDatabase();
-	workerFolder = mkdtempSync(path.join(tmpdir(), 'rankseal-worker-test-'));
-	process.env.RANKSEAL_DATA_DIR = ctx.folder;
-	process.env.RANKSEAL_CHECK_WORKERS = '1';
-	process.env.RANKSEAL_CHECK_WORKER = await bundleCheckWorker(
-		path.join(workerFolder, 'check-worker.mjs')
-	);
+	ctx = await workerDatabase();
 	const lake = await addGroup(ctx.database, 'Halvorsen Lake Photonics');
 	ada = await addUser(ctx.database, 'Ada Lind', [[lake, 'author']]);
 });
 afterAll(async () => {
-	await stopCheckRunner(ctx.database);
 	await ctx.close();
-	rmSync(workerFolder, { recursive: true, force: true });
 });
 
 describe('claims on time-ordered trials', () => {
