@@ -7,20 +7,19 @@ import {
 	type CertificationResult,
 	type CertifyOptions,
 	type CountsDataset,
-	type FourierConvention,
-	type MethodId
+	type FourierConvention
 } from '../certify';
 import type { EvidenceAnalyses } from './analyses';
 import type { TrialsMode } from '../certify/trials';
 import type { TargetResult } from '../certify/fidelity-target';
 import type { DeclaredTarget } from '../certify/fidelity-target/declared';
 import type { ClaimMethod } from '../claims/target';
-
-/** What a certificate certifies: a witness family's result, or a declared-target fidelity (§4.3′). */
-export type CertifiedResult = CertificationResult | TargetResult;
 import { parseCalibration } from '../certify/calibration';
 import { canonicalJson, jsonRoundTrip } from './canonical';
 import { sha256Hex } from './hash';
+
+/** What a certificate certifies: a witness family's result, or a declared-target fidelity (§4.3′). */
+export type CertifiedResult = CertificationResult | TargetResult;
 
 export const MANIFEST_FORMAT = 'rankseal-evidence/1';
 

@@ -3,7 +3,6 @@
  * it for the worker threads (checks/runner.ts); reading one shows its progress and result.
  */
 import { col, type Transaction } from 'sequelize';
-import type { CountsAdvice } from '$lib/certify/planner/check-counts';
 import { checkRequestSchemaFor, type CheckRequest } from '$lib/claims/schema';
 import { DEFAULTS } from '$lib/certify';
 import { accountIdOf, type Actor } from '../core/actor';
