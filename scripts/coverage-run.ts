@@ -34,6 +34,12 @@ export interface CoverageOutcome {
 	refused: number;
 	meanCertified: number;
 	truth: number;
+	/**
+	 * Fidelity only: `mub-correlation` on bases 0 and 1 run on the same data at the same
+	 * confidence (issue 19): how often the fidelity method certified fewer or more rungs, and the
+	 * sum's mean certified Schmidt number.
+	 */
+	paired: { fewer: number; more: number; meanCertified: number } | null;
 }
 
 export function trueWitnessValue(c: CoverageCase): number {
@@ -46,6 +52,7 @@ export function runCoverage(c: CoverageCase, s: CoverageSettings): CoverageOutco
 	const truth = trueWitnessValue(c);
 	const fidelity = c.method === 'fidelity-two-basis' ? c.state.fidelity : null;
 	const out = { misses: 0, missesOfFidelity: 0, falseCertificates: 0, refused: 0, certified: 0 };
+	const paired = { fewer: 0, more: 0, certified: 0 };
 	for (let e = 0; e < s.experiments; e++) {
 		const data = sampleTables(c.state, c.bases, s.countsPerBasis, s.firstSeed + e);
 		try {
@@ -61,6 +68,19 @@ export function runCoverage(c: CoverageCase, s: CoverageSettings): CoverageOutco
 			if (fidelity !== null && r.statistic.lower > fidelity) out.missesOfFidelity++;
 			if (r.certifiedSchmidtNumber > c.state.schmidtNumber) out.falseCertificates++;
 			out.certified += r.certifiedSchmidtNumber;
+			if (fidelity !== null) {
+				const sum = certify(data, {
+					method: 'mub-correlation',
+					bases: [0, 1],
+					confidence: s.confidence,
+					resamples: s.resamples,
+					seed: s.firstSeed + e + 1_000_000,
+					calibration: c.calibration
+				}).certifiedSchmidtNumber;
+				paired.certified += sum;
+				if (r.certifiedSchmidtNumber < sum) paired.fewer++;
+				if (r.certifiedSchmidtNumber > sum) paired.more++;
+			}
 		} catch (error) {
 			if (!(error instanceof InputError)) throw error;
 			out.refused++;
@@ -74,7 +94,11 @@ export function runCoverage(c: CoverageCase, s: CoverageSettings): CoverageOutco
 		falseCertificates: out.falseCertificates,
 		refused: out.refused,
 		meanCertified: judged > 0 ? out.certified / judged : NaN,
-		truth
+		truth,
+		paired:
+			fidelity === null
+				? null
+				: { fewer: paired.fewer, more: paired.more, meanCertified: paired.certified / judged }
 	};
 }
 

@@ -3,7 +3,8 @@
  * For each boundary state, isotropic state and mixture, at 20, 100, 1000 and 20 000 counts per
  * basis and at confidence 0.9 and 0.99865: the miss rate (lower bound above the witness's true
  * value), the false-certification rate (certified above the true Schmidt number), each with its
- * binomial standard error at the nominal rate, and the mean certified Schmidt number.
+ * binomial standard error at the nominal rate, and the mean certified Schmidt number. For the
+ * fidelity method a second table compares it with `mub-correlation` on the same data sets.
  * Not a test: it prints a Markdown table. `--scale 0.1` runs a tenth of the experiments;
  * `--cases 7-9` only those cases; `--target 0-4` only those fidelity-target rows (scripts/
  * coverage-target.ts; `--target none` skips them), so that new rows run without the whole table.
@@ -61,7 +62,7 @@ export const coverageCases: CoverageCase[] = [
 	// Engine 3.0.0: a boundary state in every basis (P_0 = 1, the others 3/7; Poisson totals).
 	at('mub-correlation', phi(7, 3), [0, 1, 2, 3, 4, 5, 6, 7]),
 	...calibratedCases(),
-	// Engine 3.1.0: the fidelity split (floor 7α/8, cell limits α/8) where the cell limits win
+	// Engine 3.1.0: the fidelity split (floor and cell limits share α) where the cell limits win
 	// (docs/statistics.md §14): F = v exactly; at v = 6/7 in d = 7 the state sits on the r = 6 rung.
 	at('fidelity-two-basis', crossTalk(7, 6 / 7)),
 	at('fidelity-two-basis', crossTalk(4, 0.85))
@@ -83,6 +84,7 @@ console.log(
 );
 console.log('|---|---|---|---|---|---|---|---|---|---|---|');
 let flagged = 0;
+const pairedRows: string[] = [];
 for (const c of coverageCases.slice(firstCase, lastCase + 1)) {
 	for (const n of countLevels) {
 		for (const s of settings) {
@@ -101,10 +103,23 @@ for (const c of coverageCases.slice(firstCase, lastCase + 1)) {
 					`${pct(o.misses / judged)} ± ${pct(se)} | ${o.missesOfFidelity === null ? '–' : pct(o.missesOfFidelity / judged)} | ` +
 					`${pct(o.falseCertificates / judged)} | ${o.meanCertified.toFixed(3)} | ${over ? 'OVER' : ''} |`
 			);
+			if (o.paired)
+				pairedRows.push(
+					`| ${c.state.label} | ${n} | ${s.confidence} | ${judged} | ${o.meanCertified.toFixed(3)} | ` +
+						`${o.paired.meanCertified.toFixed(3)} | ${o.paired.fewer} | ${o.paired.more} |`
+				);
 		}
 	}
 }
 flagged += targetRows(values.target ?? '0-99', scale, settings, countLevels);
+if (pairedRows.length > 0) {
+	// Issue 19: the fidelity method against the two-basis sum on the very same data sets.
+	console.log(
+		'\n| state | counts/basis | confidence | N | fidelity mean certified | mub-correlation (0,1) mean certified | fidelity fewer | fidelity more |'
+	);
+	console.log('|---|---|---|---|---|---|---|---|');
+	for (const row of pairedRows) console.log(row);
+}
 console.log(
 	`\n${flagged} settings above nominal + 3 SE + 1; ${((Date.now() - started) / 1000).toFixed(0)} s`
 );

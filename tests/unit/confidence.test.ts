@@ -80,6 +80,17 @@ describe('exact limits (Clopper & Pearson, Biometrika 26, 404 (1934))', () => {
 		expect(clopperPearsonLower(20, 20, 0.00135)).toBeCloseTo(0.00135 ** (1 / 20), 12);
 		expect(clopperPearsonLower(20, 20, 0.00135)).toBeCloseTo(0.719, 3);
 		expect(clopperPearsonUpper(0, 20, 0.00135)).toBeCloseTo(1 - 0.00135 ** (1 / 20), 12);
+		// The cell limits' errors reach 10⁻¹⁵ (2⁻¹⁶ of α over 3·d(d − 1) cells): there 1 − α is
+		// off by a percent in floating point, so the upper limit must not be read at 1 − α. The
+		// zero-count limit has the closed form 1 − α^{1/n}, with α^{1/n} = exp(ln α / n) exact here.
+		for (const [n, a] of [
+			[1000, 7e-15],
+			[1e8, 7e-15],
+			[20, 4e-8]
+		]) {
+			const exact = -Math.expm1(Math.log(a) / n);
+			expect(Math.abs(clopperPearsonUpper(0, n, a) / exact - 1)).toBeLessThan(1e-9);
+		}
 	});
 
 	it('one basis alone: the α-quantile of the lower draws is the Clopper–Pearson limit', () => {
@@ -144,7 +155,7 @@ describe('the fidelity floor and the cell limits (docs/statistics.md)', () => {
 			expect(s.interval95[0]).toBeLessThanOrEqual(x);
 			expect(s.interval95[1]).toBeGreaterThanOrEqual(x);
 		}
-		expect(r.engine.version).toBe('3.1.0');
+		expect(r.engine.version).toBe('3.2.0');
 	});
 });
 

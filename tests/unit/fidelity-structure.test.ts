@@ -1,12 +1,15 @@
 /**
- * The fidelity bound profits from structured noise (issue 19, part 2) and never certifies less than
- * the two-basis correlation sum on the same data at the error its floor spends (7/8 of α, engine
- * 3.0.0: the cell limits take the other eighth; docs/statistics.md §2). The state: Φ_d mixed with cross-talk in which one
+ * The fidelity bound profits from structured noise (issue 19, part 2) and gives up nothing against
+ * the two-basis correlation sum where its cell limits cannot certify (engine 3.2.0: the floor then
+ * takes the whole error), and elsewhere at most the band between the sum's bounds at α and at
+ * (1 − 2⁻¹⁶)·α (docs/statistics.md §2, §14). The state: Φ_d mixed with cross-talk in which one
  * mode leaks into its neighbour (simulate-tables.ts `crossTalk`): F̃ = F = v (witnesses.md §4.3,
  * Bavaresco et al., Nat. Phys. 14, 1032 (2018)), while the floor P₀ + P₁ − 1 is 2v − 1 + (1 − v)/d.
  */
 import { describe, expect, it } from 'vitest';
-import { certify, states, type CountsDataset } from '../../src/lib/certify';
+import { certify, states, witnessFamilies, type CountsDataset } from '../../src/lib/certify';
+import { fidelityCellCeiling, fidelityCellLimits } from '../../src/lib/certify/fidelity-limits';
+import { CELL_SHARE, cellShare } from '../../src/lib/certify/statistic-bound';
 import {
 	crossTalk,
 	sampleTables,
@@ -46,21 +49,100 @@ describe('cross-talk near the diagonal, d = 4, v = 0.85', () => {
 	}
 });
 
-/** The correlation sum at the error the fidelity floor spends: 7/8 of α (statistic-bound.ts). */
-const floorLevel = (confidence: number) => 1 - ((1 - confidence) * 7) / 8;
+const fidelityFamily = witnessFamilies['fidelity-two-basis'];
+const shareAt = (data: CountsDataset, confidence: number) =>
+	cellShare(
+		{
+			family: fidelityFamily,
+			tables: data.tables,
+			d: data.dimension,
+			bases: [0, 1],
+			fourier: 'cyclic',
+			confidence,
+			perCell: false,
+			subtractAccidentals: false
+		},
+		(p) => fidelityFamily.statistic(p, data.dimension, [0, 1], 'cyclic')
+	);
 
-describe('never less than the correlation sum on the same two bases at the floor’s error', () => {
-	const table: TableState[] = [
-		separableFourierCorrelated(13),
-		simulatedState('Φ3 d=7', states.rankLimited(7, 3)),
-		simulatedState('iso d=11', states.isotropic(11, 0.8)),
-		simulatedState('0.9·Φ4 + white d=8', states.rankLimited(8, 4, 0.9)),
-		crossTalk(7, 0.9, 3)
-	];
-	it('on every data set, at 20 to 10⁴ counts, at both confidences', () => {
+const whiteNoiseTable: TableState[] = [
+	separableFourierCorrelated(13),
+	simulatedState('Φ3 d=7', states.rankLimited(7, 3)),
+	simulatedState('iso d=11', states.isotropic(11, 0.8)),
+	simulatedState('0.9·Φ4 + white d=8', states.rankLimited(8, 4, 0.9)),
+	crossTalk(7, 0.9, 3)
+];
+
+describe('where the cell limits cannot certify, the very bound of the correlation sum', () => {
+	it('at 20 and 100 counts per basis in d = 7 to 13: the same lower bound and the same rung', () => {
 		let compared = 0;
-		for (const state of table)
-			for (const counts of [20, 100, 1000, 10_000])
+		for (const state of whiteNoiseTable)
+			for (const counts of [20, 100])
+				for (const confidence of [0.9, 0.99865])
+					for (let i = 0; i < 6; i++) {
+						const data = sampleTables(state, [0, 1], counts, 700 + i);
+						expect(shareAt(data, confidence)).toBe(0);
+						const [fidelity, sum] = (['fidelity-two-basis', 'mub-correlation'] as const).map(
+							(method) => certify(data, { method, bases: [0, 1], confidence, seed: i + 1 })
+						);
+						// F̃ ≥ P₀ + P₁ − 1 (Cauchy–Schwarz, docs/statistics.md §2): the floor is S − 1.
+						expect(fidelity.statistic.lower + 1).toBeCloseTo(sum.statistic.lower, 12);
+						expect(fidelity.statistic.boundMethod).toBe('fidelity-floor');
+						expect(fidelity.certifiedSchmidtNumber, `${state.label}, ${counts}`).toBe(
+							sum.certifiedSchmidtNumber
+						);
+						compared++;
+					}
+		expect(compared).toBe(120);
+	});
+});
+
+describe('the cell limits’ ceiling (statistic-bound.ts cellShare)', () => {
+	// The lemma the share rests on: at fixed totals no table gives the cell limits more than the
+	// table with every count matching. Checked against tables built to favour the cells: all the
+	// mismatches in one cell (the least Γ for their total), and sampled cross-talk.
+	const d = 7;
+	const stat = (p: Float64Array[]) => fidelityFamily.statistic(p, d, [0, 1], 'cyclic');
+	const table = (counts: Float64Array) => ({ counts }) as CountsDataset['tables'][number];
+	it('is never exceeded by a table with the same totals', () => {
+		for (const total of [30, 600, 5000])
+			for (const mismatches of [0, 1, 3, Math.floor(total / 10), Math.floor(total / 2)]) {
+				const c0 = new Float64Array(d * d);
+				const c1 = new Float64Array(d * d);
+				c0[0] = total - mismatches;
+				c0[1] = mismatches;
+				c1[0] = total;
+				const tables = [table(c0), table(c1)];
+				const ceiling = fidelityCellCeiling(tables, d, 1e-4, stat);
+				expect(fidelityCellLimits(tables, d, 1e-4, stat)).toBeLessThanOrEqual(ceiling);
+				if (mismatches > 0)
+					expect(fidelityCellLimits(tables, d, 1e-4, stat)).toBeLessThan(ceiling);
+			}
+		for (let i = 0; i < 20; i++) {
+			const data = sampleTables(crossTalk(d, 0.9), [0, 1], 2000, 300 + i);
+			const ceiling = fidelityCellCeiling(data.tables, d, 1e-4, stat);
+			expect(fidelityCellLimits(data.tables, d, 1e-4, stat)).toBeLessThan(ceiling);
+		}
+	});
+	it('switches the cells on only where they could clear the first rung 1/d', () => {
+		// 20 counts in d = 7: Γ of the zero-count limits alone, 7·6²·u_min with u_min ≈ 0.67, sinks
+		// the ceiling far below 1/7; at 10⁴ counts the ceiling is near 1.
+		const low = sampleTables(crossTalk(d, 0.9), [0, 1], 20, 1);
+		const high = sampleTables(crossTalk(d, 0.9), [0, 1], 10_000, 1);
+		expect(shareAt(low, 0.99865)).toBe(0);
+		expect(shareAt(high, 0.99865)).toBe(CELL_SHARE);
+		expect(fidelityCellCeiling(low.tables, d, 0.00135 * CELL_SHARE, stat)).toBeLessThan(1 / d);
+	});
+});
+
+/** The correlation sum at the error the fidelity floor spends when the cells take their share. */
+const floorLevel = (confidence: number) => 1 - (1 - confidence) * (1 - CELL_SHARE);
+
+describe('where the cells take their share, never less than the sum at the floor’s error', () => {
+	it('on every data set, at 10³ and 10⁴ counts, at both confidences', () => {
+		let compared = 0;
+		for (const state of whiteNoiseTable)
+			for (const counts of [1000, 10_000])
 				for (const [confidence, resamples] of [
 					[0.9, 400],
 					[0.99865, 1500]
@@ -74,7 +156,7 @@ describe('never less than the correlation sum on the same two bases at the floor
 						);
 						compared++;
 					}
-		expect(compared).toBe(160);
+		expect(compared).toBe(80);
 	});
 });
 
@@ -95,6 +177,33 @@ describe('soundness on the cross-talk state at its boundary (F̃ = F = 6/7)', ()
 				expect(o.misses).toBeLessThanOrEqual(limit);
 				expect(o.missesOfFidelity).toBeLessThanOrEqual(limit);
 			}
+		});
+	}
+});
+
+describe('soundness where the totals switch the cell limits on and off', () => {
+	// Poisson totals around the switch (d = 7: 776 counts per basis at 0.9, 961 at 0.99865, from
+	// cellShare): the share follows the totals alone, so each experiment is judged at its own split.
+	const state = crossTalk(7, 6 / 7);
+	for (const [confidence, countsPerBasis, experiments, resamples] of [
+		[0.9, 776, 200, 400],
+		[0.99865, 961, 300, 1500]
+	]) {
+		it(`${countsPerBasis} per basis at ${confidence}: both splits occur, misses within nominal`, () => {
+			let switchedOn = 0;
+			for (let e = 0; e < experiments; e++)
+				if (shareAt(sampleTables(state, [0, 1], countsPerBasis, 21 + e), confidence) > 0)
+					switchedOn++;
+			expect(switchedOn).toBeGreaterThan(experiments / 5);
+			expect(switchedOn).toBeLessThan((experiments * 4) / 5);
+			const o = runCoverage(
+				{ method: 'fidelity-two-basis', bases: [0, 1], state },
+				{ countsPerBasis, confidence, experiments, resamples, firstSeed: 21 }
+			);
+			const limit = missAllowance(1 - confidence, experiments - o.refused);
+			expect(o.misses).toBeLessThanOrEqual(limit);
+			expect(o.missesOfFidelity).toBeLessThanOrEqual(limit);
+			expect(o.paired?.fewer).toBe(0);
 		});
 	}
 });

@@ -23,7 +23,7 @@ export { DEFAULTS, planCertification, type CertificationPlan, type CertifyOption
 /** Draws all blocks of replicates of a spec (in any threads) and returns them in order. */
 export type BlockRunner = (spec: DrawSpec, resamples: number, seed: number) => Promise<Replicates>;
 
-export const ENGINE_VERSION = '3.1.0';
+export const ENGINE_VERSION = '3.2.0';
 
 export interface BoundRung {
 	upToSchmidtNumber: number;

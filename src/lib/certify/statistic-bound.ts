@@ -18,7 +18,7 @@ import {
 	type Replicates
 } from './confidence';
 import type { CountTable } from './counts';
-import { fidelityCellLimits } from './fidelity-limits';
+import { fidelityCellCeiling, fidelityCellLimits } from './fidelity-limits';
 import { deltaMethodStandardError, type PoissonModel } from './model';
 import { exactSumBound, sumTerms } from './sum-bound';
 import { sumLowerQuantile, sumStandardDeviation, sumUpperQuantile } from './sum-quantile';
@@ -141,24 +141,52 @@ function floorQuantiles(o: BoundInputs) {
 }
 
 /**
- * The cell limits' share of the error when they can be used (raw counts); the floor, the two-basis
- * sum's own bound, takes the rest, so it gives up little against mub-correlation on the same bases
- * while the cells can profit from structured noise (docs/statistics.md §2).
+ * The cell limits' share of the error where they can be used (raw counts); the floor, the two-basis
+ * sum's own bound, takes the rest (docs/statistics.md §2, §14). The floor certifies a rung that the
+ * sum at the full α certifies only if the sum's bound misses it by the sliver between its error-α
+ * and error-(1 − s)α quantiles; exact limits widen only with the logarithm of their error, so a
+ * share this small still lets the cells win where Γ is far below its ceiling (cross-talk, d = 4,
+ * confidence 0.99865: from about 7·10³ counts per basis, against 4·10³ at a share of 1/8).
  */
-const CELL_SHARE = 1 / 8;
+export const CELL_SHARE = 2 ** -16;
+
+/**
+ * The share at these totals, fixed before any count is read. Given the totals the counts are
+ * multinomial, so the totals say nothing about the cell probabilities: a share that depends on them
+ * alone keeps the union bound's level, given the totals and therefore overall. Where even the cell
+ * limits' ceiling at these totals (every count matching) does not clear the first rung 1/d, the
+ * cells can never certify anything; the floor then takes the whole error and the method certifies
+ * exactly what `mub-correlation` certifies on bases 0 and 1.
+ */
+export function cellShare(o: BoundInputs, statistic: (p: Float64Array[]) => number): number {
+	if (o.perCell) return 0;
+	const cellError = (1 - o.confidence) * CELL_SHARE;
+	return fidelityCellCeiling(o.tables, o.d, cellError, statistic) > 1 / o.d ? CELL_SHARE : 0;
+}
+
+function fidelityBoundNote(perCell: boolean, share: number, byCells: boolean): string {
+	const cellsShare = `1/${(1 / CELL_SHARE).toLocaleString('en')}`;
+	if (byCells)
+		return `Lower bound from exact per-cell limits: Clopper–Pearson limits on both matching fractions and on every off-diagonal computational cell, combined by the union bound at ${cellsShare} of the error (the floor took the rest).`;
+	const floor = 'Lower bound from the floor P₀ + P₁ − 1 ≤ F̃ (Cauchy–Schwarz): the two-basis matching sum’s bound';
+	if (perCell)
+		return `${floor} at the full error; the cell limits need raw counts, so only the floor is used here.`;
+	if (share === 0)
+		return `${floor} at the full error, the same bound as mub-correlation on bases 0 and 1: at these totals the cell limits could not clear the first rung even with every count matching, so they were not used.`;
+	return `${floor} at all but ${cellsShare} of the error; the cell limits (${cellsShare} of the error) gave less.`;
+}
 
 export function fidelityBound(o: BoundInputs): StatisticBound {
 	const { d } = o;
 	const alpha = 1 - o.confidence;
-	const model = pointModel(o, (p) => o.family.statistic(p, d, o.bases, o.fourier));
+	const fidelity = (p: Float64Array[]) => o.family.statistic(p, d, o.bases, o.fourier);
+	const model = pointModel(o, fidelity);
 	const floor = floorQuantiles(o);
+	const share = cellShare(o, fidelity);
 	const cells = (error: number) =>
-		o.perCell || !(error > 0)
-			? -Infinity
-			: fidelityCellLimits(o.tables, d, error, (p) => o.family.statistic(p, d, o.bases, o.fourier));
+		share === 0 || !(error > 0) ? -Infinity : fidelityCellLimits(o.tables, d, error, fidelity);
 	// At error q: the floor at q·(1 − share), the cell limits at q·share (the union bound totals q);
-	// without raw counts there are no cell limits and the floor takes all of q.
-	const share = o.perCell ? 0 : CELL_SHARE;
+	// without raw counts, or where the cells cannot certify, the floor takes all of q.
 	const at = (q: number) => ({ floor: floor.floorAt(q * (1 - share)), cells: cells(q * share) });
 	const bound = at(alpha);
 	const byCells = bound.cells > bound.floor;
@@ -177,9 +205,7 @@ export function fidelityBound(o: BoundInputs): StatisticBound {
 		interval95: [Math.max(low95.floor, low95.cells), (floor.upper975 - 1) / d],
 		deltaMethodStandardError: deltaMethodStandardError(model),
 		boundMethod: byCells ? 'fidelity-cell-limits' : 'fidelity-floor',
-		boundNote: byCells
-			? 'Lower bound from exact per-cell limits: Clopper–Pearson limits on both matching fractions and on every off-diagonal computational cell, combined by the union bound at one eighth of the error (the floor took the rest).'
-			: `Lower bound from the floor P₀ + P₁ − 1 ≤ F̃ (Cauchy–Schwarz): the two-basis matching sum’s bound at ${o.perCell ? 'the full error' : 'seven eighths of the error'}${o.perCell ? '; the cell limits need raw counts, so only the floor is used here' : '; the cell limits (one eighth of the error) gave less'}.`,
+		boundNote: fidelityBoundNote(o.perCell, share, byCells),
 		floorValue: floorModel.statistic(floorModel.means)
 	};
 }
