@@ -115,8 +115,7 @@ describe('the cell limits’ ceiling (statistic-bound.ts cellShare)', () => {
 				const tables = [table(c0), table(c1)];
 				const ceiling = fidelityCellCeiling(tables, d, 1e-4, stat);
 				expect(fidelityCellLimits(tables, d, 1e-4, stat)).toBeLessThanOrEqual(ceiling);
-				if (mismatches > 0)
-					expect(fidelityCellLimits(tables, d, 1e-4, stat)).toBeLessThan(ceiling);
+				if (mismatches > 0) expect(fidelityCellLimits(tables, d, 1e-4, stat)).toBeLessThan(ceiling);
 			}
 		for (let i = 0; i < 20; i++) {
 			const data = sampleTables(crossTalk(d, 0.9), [0, 1], 2000, 300 + i);

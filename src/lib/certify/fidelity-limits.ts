@@ -29,12 +29,7 @@ interface CellCounts {
 	offDiagonal: (c: number) => number;
 }
 
-function cellLimits(
-	n: CellCounts,
-	d: number,
-	alpha: number,
-	statistic: FidelityStatistic
-): number {
+function cellLimits(n: CellCounts, d: number, alpha: number, statistic: FidelityStatistic): number {
 	const cellAlpha = alpha / (3 * d * (d - 1));
 	const upper = new Map<number, number>();
 	const p0 = new Float64Array(d * d);

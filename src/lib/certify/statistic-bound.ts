@@ -168,7 +168,8 @@ function fidelityBoundNote(perCell: boolean, share: number, byCells: boolean): s
 	const cellsShare = `1/${(1 / CELL_SHARE).toLocaleString('en')}`;
 	if (byCells)
 		return `Lower bound from exact per-cell limits: Clopper–Pearson limits on both matching fractions and on every off-diagonal computational cell, combined by the union bound at ${cellsShare} of the error (the floor took the rest).`;
-	const floor = 'Lower bound from the floor P₀ + P₁ − 1 ≤ F̃ (Cauchy–Schwarz): the two-basis matching sum’s bound';
+	const floor =
+		'Lower bound from the floor P₀ + P₁ − 1 ≤ F̃ (Cauchy–Schwarz): the two-basis matching sum’s bound';
 	if (perCell)
 		return `${floor} at the full error; the cell limits need raw counts, so only the floor is used here.`;
 	if (share === 0)
