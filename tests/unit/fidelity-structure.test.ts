@@ -51,18 +51,8 @@ describe('cross-talk near the diagonal, d = 4, v = 0.85', () => {
 
 const fidelityFamily = witnessFamilies['fidelity-two-basis'];
 const shareAt = (data: CountsDataset, confidence: number) =>
-	cellShare(
-		{
-			family: fidelityFamily,
-			tables: data.tables,
-			d: data.dimension,
-			bases: [0, 1],
-			fourier: 'cyclic',
-			confidence,
-			perCell: false,
-			subtractAccidentals: false
-		},
-		(p) => fidelityFamily.statistic(p, data.dimension, [0, 1], 'cyclic')
+	cellShare({ tables: data.tables, d: data.dimension, confidence, perCell: false }, (p) =>
+		fidelityFamily.statistic(p, data.dimension, [0, 1], 'cyclic')
 	);
 
 const whiteNoiseTable: TableState[] = [

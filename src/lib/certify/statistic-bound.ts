@@ -158,7 +158,10 @@ export const CELL_SHARE = 2 ** -16;
  * cells can never certify anything; the floor then takes the whole error and the method certifies
  * exactly what `mub-correlation` certifies on bases 0 and 1.
  */
-export function cellShare(o: BoundInputs, statistic: (p: Float64Array[]) => number): number {
+export function cellShare(
+	o: Pick<BoundInputs, 'perCell' | 'confidence' | 'tables' | 'd'>,
+	statistic: (p: Float64Array[]) => number
+): number {
 	if (o.perCell) return 0;
 	const cellError = (1 - o.confidence) * CELL_SHARE;
 	return fidelityCellCeiling(o.tables, o.d, cellError, statistic) > 1 / o.d ? CELL_SHARE : 0;
