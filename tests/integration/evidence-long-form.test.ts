@@ -132,6 +132,11 @@ describe('the long-form CSV in the evidence bundle', () => {
 		// The counts' identity is still the canonical JSON's hash.
 		const json = evidence.files[BUNDLE_FILES.canonicalCounts];
 		expect(evidence.manifest.counts.canonicalSha256).toBe(sha256Hex(json));
+		// The README's file list names it, and the upload as a counts file.
+		const readme = new TextDecoder().decode(evidence.files[BUNDLE_FILES.readme]);
+		expect(readme).toMatch(/^ {2}counts-canonical\.csv {3}the same counts as long-form CSV/m);
+		expect(readme).toMatch(/the counts file exactly as it was uploaded/);
+		expect(readme).not.toContain('\u0000');
 	});
 
 	it('passes the offline verifier, which names it among the items checked', async () => {

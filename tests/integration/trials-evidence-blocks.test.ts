@@ -97,6 +97,11 @@ describe('evidence of a blocks-mode trials certificate from a plain file', () =>
 		expect(readme).toContain('A certificate from time-ordered trials (a test supermartingale)');
 		expect(readme).toContain('trials-uploaded.csv is the trials file exactly as uploaded');
 		expect(readme).toMatch(/during a block/);
+		// The file list names only what the folder holds: no counts file, no long-form CSV.
+		expect(readme).toContain('trials-uploaded.csv the trials file exactly as it was uploaded');
+		expect(readme).not.toContain('the counts file exactly as it was uploaded');
+		expect(readme).not.toContain('counts-canonical.csv');
+		expect(Object.keys(evidence.files)).not.toContain('counts-canonical.csv');
 		expect(verifyEvidence(evidence.files)).toMatchObject({ valid: true, failedItem: null });
 	});
 

@@ -64,6 +64,25 @@ const UNKNOWN_CONTEXT: EvidenceContext = {
 const uploadedName = (m: Pick<EvidenceManifest, 'trials' | 'counts'>) =>
 	m.trials?.uploadedName ?? uploadedCountsName(m.counts.uploadedFormat);
 
+/** Marks a file-list line the bundle does not have; readmeText drops the line. */
+const NO_LINE = '\u0000';
+
+/** The README's lines for the uploaded file and the long-form CSV, as this bundle has them. */
+function fileLines(manifest: EvidenceManifest) {
+	const name = uploadedName(manifest).padEnd(22);
+	return {
+		uploadedFile: manifest.trials
+			? `  ${name} the trials file exactly as it was uploaded, one row per coincidence in\n` +
+				'                         time order (see below)'
+			: `  ${name} the counts file exactly as it was uploaded (several files uploaded\n` +
+				'                         together: a counts set, each file kept byte for byte after its line)',
+		longFormFile: manifest.countsLongForm
+			? '  counts-canonical.csv   the same counts as long-form CSV (basis,outcome_a,outcome_b,counts),\n' +
+				'                         one row per cell; the verifier reads it back and compares every cell'
+			: NO_LINE
+	};
+}
+
 function readmeText(manifest: EvidenceManifest, fingerprint: string, urls: EvidenceUrls) {
 	const filled = fillPlaceholders(readmeSource, {
 		certificateId: manifest.certificateId,
@@ -71,8 +90,8 @@ function readmeText(manifest: EvidenceManifest, fingerprint: string, urls: Evide
 		keyId: manifest.signingKeyId,
 		keysUrl: urls.keys,
 		verifyUrl: urls.verify,
-		uploadedName: uploadedName(manifest).padEnd(22)
-	});
+		...fileLines(manifest)
+	}).replaceAll(`${NO_LINE}\n`, '');
 	return filled + trialsReadmeNote(manifest) + targetRunNote(manifest);
 }
 
