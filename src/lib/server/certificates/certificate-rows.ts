@@ -2,6 +2,8 @@
 import { sha256Hex } from '../../evidence/hash';
 import type { CertificateAttributes } from '../db/models/Certificate';
 import type { Evidence } from '../evidence/artifacts';
+import { issuerDigest, newIssuerSalt } from '../ledger/issuer-digest';
+import type { LedgerRole } from '../ledger/ledger-roles';
 import { certificatePaths } from '../storage/certificate-store';
 
 export function certificateRow(
@@ -29,10 +31,17 @@ export function certificateRow(
 	};
 }
 
-/** Every column the manifest does not bind, so that ledger:verify can check them. */
-export function issueDetails(row: CertificateAttributes): Record<string, string | null> {
+/**
+ * Every column the manifest does not bind, so that ledger:verify can check them. The issuer is
+ * named by role and bound by a salted digest of the account id, never by the id (ledger-roles.ts).
+ */
+export function issueDetails(
+	row: CertificateAttributes,
+	issuerRole: LedgerRole
+): Record<string, string | null> {
 	const { fingerprint, claimId, checkId, supersedes, pdfPath, pdfSha256 } = row;
 	const { bundlePath, bundleSha256, issuedBy } = row;
+	const issuerSalt = newIssuerSalt();
 	return {
 		fingerprint,
 		claimId,
@@ -42,6 +51,8 @@ export function issueDetails(row: CertificateAttributes): Record<string, string 
 		pdfSha256,
 		bundlePath,
 		bundleSha256,
-		issuedBy
+		issuerRole,
+		issuerSalt,
+		issuerDigest: issuerDigest(issuerSalt, issuedBy)
 	};
 }

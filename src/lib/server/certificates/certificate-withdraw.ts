@@ -13,7 +13,7 @@ import { audit } from '../core/audit';
 import { certificateView, type CertificateView } from './certificate-views';
 import { ConflictError, FieldError, NotFoundError } from '../core/errors';
 import { appendLedger } from '../ledger/ledger';
-import { withdrawerRole } from '../ledger/ledger-roles';
+import { ledgerRole } from '../ledger/ledger-roles';
 import { publishCheckpoint } from '../ledger/ledger-checkpoint';
 import { requeueDoi } from '../certificates/doi-outbox';
 import { doiOf } from '../certificates/doi-view';
@@ -43,7 +43,7 @@ export async function withdrawInTransaction(
 		{ where: { id: certificateId }, transaction }
 	);
 	// The public ledger names a role; the account stays in the private audit trail.
-	const byRole = userId ? await withdrawerRole(database, userId, groupId, transaction) : null;
+	const byRole = userId ? await ledgerRole(database, userId, groupId, transaction) : null;
 	const details = { reason, byRole };
 	await appendLedger(database, { event: 'withdraw', certificateId, details }, key, transaction);
 	const entry = { actorId: userId, groupId, subjectType: 'certificate', subjectId: certificateId };

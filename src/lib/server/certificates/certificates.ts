@@ -32,6 +32,7 @@ import { ConflictError, NotFoundError } from '../core/errors';
 import { newId } from '../core/ids';
 import { queueReviewNotices } from '../mail/review-notices';
 import { appendLedger } from '../ledger/ledger';
+import { ledgerRole } from '../ledger/ledger-roles';
 import { publishCheckpoint } from '../ledger/ledger-checkpoint';
 import { authorsOf } from '../certificates/doi-creators';
 import { doiFor } from '../certificates/doi-name';
@@ -186,7 +187,7 @@ async function store(
 	const row = certificateRow(evidence, key.id, userId);
 	const { id, supersedes, fingerprint } = row;
 	await database.models.Certificate.create(row, { transaction });
-	const details = issueDetails(row);
+	const details = issueDetails(row, await ledgerRole(database, userId, groupId, transaction));
 	await appendLedger(database, { event: 'issue', certificateId: id, details }, key, transaction);
 	await queueDoi(database, transaction, id, creators);
 	if (supersedes) {

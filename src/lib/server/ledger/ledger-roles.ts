@@ -1,24 +1,26 @@
 /**
- * Who withdrew a certificate, as the public ledger names them: by role ("group lead", "author",
- * "admin"), never by account. New withdraw entries record `byRole`; entries written before that
- * recorded the account's id as `by`, and the public page shows them with the role in its place,
- * saying so in `redacted` (their hash and signature are of the stored payload, which the
- * operator's `npm run ledger:verify` still checks; the chain of hashes stays checkable by anyone).
+ * Who issued or withdrew a certificate, as the public ledger names them: by role ("group lead",
+ * "author", "admin"), never by account. New entries record the role (`byRole`, `issuerRole`) and,
+ * for issuing, a salted digest that binds the issuer for `ledger:verify` (issuer-digest.ts).
+ * Entries written before that recorded the account's id (`by`, `issuedBy`); the public page shows
+ * them with the role in its place, saying so in `redacted` (their hash and signature are of the
+ * stored payload, which the operator's `npm run ledger:verify` still checks; the chain of hashes
+ * stays checkable by anyone).
  */
 import type { Transaction } from 'sequelize';
 import { canonicalJson } from '../../evidence/canonical';
 import type { Database } from '../db';
 import { listLedger, type LedgerEntryView, type LedgerPayload } from './ledger';
 
-export type WithdrawerRole = 'group lead' | 'author' | 'admin' | 'former member';
+export type LedgerRole = 'group lead' | 'author' | 'admin' | 'former member';
 
 /** The role the account has (or had) in the certificate's group. */
-export async function withdrawerRole(
+export async function ledgerRole(
 	database: Database,
 	userId: string,
 	groupId: string,
 	transaction?: Transaction
-): Promise<WithdrawerRole> {
+): Promise<LedgerRole> {
 	const { Membership, User } = database.models;
 	const membership = await Membership.findOne({ where: { groupId, userId }, transaction });
 	if (membership) return membership.get('role') === 'lead' ? 'group lead' : 'author';
@@ -38,15 +40,20 @@ async function groupOfCertificate(database: Database, certificateId: string) {
 	return (claim?.get('groupId') as string | undefined) ?? '';
 }
 
+/** Old entries' account-id fields and the role field shown in their place. */
+const ACCOUNT_FIELDS = { withdraw: ['by', 'byRole'], issue: ['issuedBy', 'issuerRole'] } as const;
+
 async function publicEntry(database: Database, entry: LedgerEntryView): Promise<PublicLedgerEntry> {
-	if (entry.event !== 'withdraw' || entry.certificateId === null) return { ...entry, redacted: [] };
+	const fields = ACCOUNT_FIELDS[entry.event as keyof typeof ACCOUNT_FIELDS];
+	if (!fields || entry.certificateId === null) return { ...entry, redacted: [] };
+	const [accountField, roleField] = fields;
 	const payload = JSON.parse(entry.payload) as LedgerPayload;
-	const { by, ...details } = payload.details;
-	if (typeof by !== 'string') return { ...entry, redacted: [] };
+	const { [accountField]: account, ...details } = payload.details;
+	if (typeof account !== 'string') return { ...entry, redacted: [] };
 	const groupId = await groupOfCertificate(database, entry.certificateId);
-	const byRole = await withdrawerRole(database, by, groupId);
-	const shown = canonicalJson({ ...payload, details: { ...details, byRole } });
-	return { ...entry, payload: shown, redacted: ['details.by'] };
+	const role = await ledgerRole(database, account, groupId);
+	const shown = canonicalJson({ ...payload, details: { ...details, [roleField]: role } });
+	return { ...entry, payload: shown, redacted: [`details.${accountField}`] };
 }
 
 /** One page of the ledger as the public sees it. */

@@ -12,6 +12,7 @@ import type { CertificateAttributes } from '../db/models/Certificate';
 import type { LedgerEntryAttributes } from '../db/models/LedgerEntry';
 import { publishedKeys } from '../evidence/keys';
 import { GENESIS_HASH, LEDGER_FORMAT, type LedgerPayload } from './ledger';
+import { issuerDigest } from './issuer-digest';
 import { KeyChain } from './ledger-keys';
 
 export interface LedgerReport {
@@ -100,6 +101,17 @@ function expectedStatus(events: LedgerPayload[]) {
 	return { status, supersededBy: superseded?.details.supersededBy ?? null };
 }
 
+/**
+ * The issuer as the entry binds it: an account id in entries before issuer digests, else the
+ * salted digest recomputed from the row (issuer-digest.ts).
+ */
+function issuerBinding(c: CertificateAttributes, d: LedgerPayload['details']): [unknown, unknown] {
+	if ('issuedBy' in d) return [c.issuedBy, d.issuedBy];
+	const salt = d.issuerSalt;
+	if (typeof salt !== 'string') return [c.issuedBy, undefined];
+	return [issuerDigest(salt, c.issuedBy), d.issuerDigest];
+}
+
 function checkCertificate(
 	c: CertificateAttributes,
 	events: LedgerPayload[],
@@ -126,7 +138,7 @@ function checkCertificate(
 		[c.pdfSha256, d.pdfSha256],
 		[c.bundlePath, d.bundlePath],
 		[c.bundleSha256, d.bundleSha256],
-		[c.issuedBy, d.issuedBy]
+		issuerBinding(c, d)
 	];
 	if (bound.some(([a, b]) => a !== b))
 		throw fail('a column differs from its signed manifest or ledger entry');

@@ -133,7 +133,7 @@ export const certificateSchemas = {
 					type: 'array',
 					items: { type: 'string' },
 					description:
-						'Payload fields shown otherwise than signed: an old withdraw entry names its withdrawer by role (details.byRole) in place of an account id (details.by). Usually empty.'
+						'Payload fields shown otherwise than signed: an old entry names its withdrawer or issuer by role (details.byRole, details.issuerRole) in place of an account id (details.by, details.issuedBy). Newer issue entries bind the issuer by details.issuerDigest, SHA-256 of "rankseal-issuer:<issuerSalt>:<account id>". Usually empty.'
 				}
 			})
 		},
