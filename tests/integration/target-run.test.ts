@@ -22,7 +22,9 @@ import { startCheckRunner, stopCheckRunner } from '../../src/lib/server/checks/r
 import { getCheck, startCheck } from '../../src/lib/server/checks/checks';
 import { issueCertificate } from '../../src/lib/server/certificates/certificates';
 import { certificateFile } from '../../src/lib/server/certificates/certificate-reads';
-import { createClaim, getClaim } from '../../src/lib/server/claims/claims';
+import { archiveFilterSchema } from '../../src/lib/archive/schema';
+import { groupArchive } from '../../src/lib/server/claims/archive';
+import { createClaim, getClaim, listClaims } from '../../src/lib/server/claims/claims';
 import { addTargetRun } from '../../src/lib/server/claims/target-run';
 import { updateClaim } from '../../src/lib/server/claims/claim-edit';
 import { addDataset } from '../../src/lib/server/datasets/datasets';
@@ -319,3 +321,29 @@ async function forge(
 	);
 	return evidence.files;
 }
+
+describe('lists of claims with calibration runs', () => {
+	it('never read the runs’ bytes: the claim list and the archive', async () => {
+		for (let i = 0; i < 2; i++) await upload((await runClaim()).id, runCsv(2e5 + i));
+		// Every Claim row any query returns, as Sequelize built it: the lists must leave the blob out.
+		const withRun: string[] = [];
+		const seen = (rows: unknown) => {
+			for (const row of [rows].flat() as { dataValues?: Record<string, unknown> }[])
+				if (row?.dataValues && 'targetRun' in row.dataValues)
+					withRun.push(String(row.dataValues.id));
+		};
+		ctx.database.models.Claim.addHook('afterFind', 'watch-runs', seen);
+		try {
+			const page = await listClaims(ctx.database, asUser(ada), { pageSize: 100 });
+			expect(page.items.filter((c) => c.targetRun !== null).length).toBeGreaterThanOrEqual(2);
+			const archive = await groupArchive(ctx.database, asUser(ada), archiveFilterSchema.parse({}));
+			expect(archive.claims.length).toBeGreaterThanOrEqual(2);
+			expect(withRun).toEqual([]);
+			// The control: one claim read whole, as a check reads it, does carry the run.
+			await ctx.database.models.Claim.findByPk(page.items[0].id);
+			expect(withRun).toHaveLength(1);
+		} finally {
+			ctx.database.models.Claim.removeHook('afterFind', 'watch-runs');
+		}
+	});
+});

@@ -17,7 +17,7 @@ import {
 import { engineTasks } from '../checks/registry';
 import type { Database } from '../db';
 import type { CheckAttributes } from '../db/models/Check';
-import type { ClaimAttributes } from '../db/models/Claim';
+import { CLAIM_WITHOUT_RUN, type ClaimAttributes } from '../db/models/Claim';
 import type { DatasetAttributes } from '../db/models/Dataset';
 import { datasetFilePath } from '../storage/counts-store';
 import type { AnalysisRun } from '$lib/views/datasets';
@@ -102,7 +102,11 @@ export async function analysisRuns(
 		transaction
 	});
 	const claimIds = [...new Set(checks.map((c) => c.get('claimId') as string))];
-	const claims = await Claim.findAll({ where: { id: claimIds }, transaction });
+	const claims = await Claim.findAll({
+		attributes: CLAIM_WITHOUT_RUN,
+		where: { id: claimIds },
+		transaction
+	});
 	const byId = new Map(claims.map((c) => [c.get('id') as string, c.get({ plain: true })]));
 	return checks.map((row) => {
 		const check = row.get({ plain: true });

@@ -6,7 +6,7 @@
 import { Op, col, type WhereOptions } from 'sequelize';
 import type { ArchiveFilter } from '$lib/archive/schema';
 import type { Database } from '../db';
-import type { ClaimAttributes } from '../db/models/Claim';
+import { CLAIM_WITHOUT_RUN, type ClaimAttributes } from '../db/models/Claim';
 import type { AccountActor, Actor } from '../core/actor';
 import { requireGroup, requireService } from '../access/permissions';
 import { NotFoundError } from '../core/errors';
@@ -150,6 +150,7 @@ export async function groupArchive(
 	await requireGroup(database, actor, groupId, 'read');
 	const group = (await database.models.Group.findByPk(groupId))!;
 	const rows = await database.models.Claim.findAll({
+		attributes: CLAIM_WITHOUT_RUN,
 		where: claimWhere(groupId, filter),
 		order: [
 			['createdAt', 'DESC'],

@@ -7,7 +7,7 @@ import { col, fn, Op, type Order, type WhereOptions } from 'sequelize';
 import { claimInputSchema, type ClaimInputValues } from '$lib/claims/schema';
 import type { Database } from '../db';
 import { writeTransaction } from '../db/transactions';
-import type { ClaimAttributes } from '../db/models/Claim';
+import { CLAIM_WITHOUT_RUN, type ClaimAttributes } from '../db/models/Claim';
 import { accountIdOf, type Actor } from '../core/actor';
 import { requireClaim, requireGroup, visibleClaimsWhere } from '../access/permissions';
 import { audit } from '../core/audit';
@@ -182,6 +182,7 @@ export async function listClaims(
 		[col('rowid'), direction]
 	];
 	const { rows, count } = await database.models.Claim.findAndCountAll({
+		attributes: CLAIM_WITHOUT_RUN,
 		where,
 		order,
 		limit: pageSize,

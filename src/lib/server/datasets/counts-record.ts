@@ -25,7 +25,10 @@ export async function countsRecord(
 	const runs = await analysisRuns(database, claim.groupId, countsSha256);
 	const { Claim, User } = database.models;
 	const people = await User.findAll({ where: { id: runs.flatMap((r) => r.ranBy ?? []) } });
-	const claims = await Claim.findAll({ where: { id: runs.map((r) => r.claimId) } });
+	const claims = await Claim.findAll({
+		where: { id: runs.map((r) => r.claimId) },
+		attributes: ['id', 'title']
+	});
 	const name = new Map(people.map((u) => [u.get('id') as string, u.get('name') as string]));
 	const title = new Map(claims.map((c) => [c.get('id') as string, c.get('title') as string]));
 	return {

@@ -6,6 +6,7 @@ import { Op } from 'sequelize';
 import type { Actor } from '../core/actor';
 import { requireService } from '../access/permissions';
 import type { Database } from '../db';
+import { CLAIM_WITHOUT_RUN } from '../db/models/Claim';
 import { certificateView } from '../certificates/certificate-views';
 import { reportView } from './reports';
 import { reviewLinkView } from './review-links';
@@ -47,7 +48,9 @@ export async function editorHome(database: Database, actor: Actor): Promise<Shar
 	const home: SharedClaim[] = [];
 	for (const row of shares) {
 		const share = row.get({ plain: true });
-		const c = (await Claim.findByPk(share.claimId))!.get({ plain: true });
+		const c = (await Claim.findByPk(share.claimId, { attributes: CLAIM_WITHOUT_RUN }))!.get({
+			plain: true
+		});
 		const certificates = await Certificate.findAll({
 			where: { claimId: c.id },
 			order: [['issuedAt', 'DESC']]

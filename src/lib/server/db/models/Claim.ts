@@ -43,6 +43,13 @@ export interface ClaimAttributes {
 	updatedAt?: Date;
 }
 
+/**
+ * Every column but the calibration run's bytes (up to the counts-file limit each): for queries that
+ * read many claims and never the run (lists, the archive, analyses), so that a page of claims does
+ * not pull their runs into memory.
+ */
+export const CLAIM_WITHOUT_RUN = { exclude: ['targetRun'] };
+
 export type ClaimModel = ModelStatic<
 	Model<
 		ClaimAttributes,
