@@ -1,6 +1,7 @@
 /**
- * The verifiers' shared output and options: what was checked, then PASS, NOT ANCHORED or FAIL,
- * and the exit status for each.
+ * The verifiers' shared output and options: what was checked, then PASS, NOT ANCHORED, NOT RE-RUN
+ * (a bundle of another engine version: everything checked but the re-run) or FAIL, and the exit
+ * status for each.
  */
 import { readFileSync } from 'node:fs';
 import { describeCheckpoint } from '../lib/evidence/checkpoint';
@@ -8,7 +9,7 @@ import { BUNDLE_FILES, keyIdsOfList, type EvidenceFiles } from '../lib/evidence/
 import type { VerificationReport } from '../lib/evidence/verify';
 
 /** Exit statuses of `verify` and `verify.mjs` (README, "Certificates and verification"). */
-export const EXIT = { pass: 0, fail: 1, usage: 2, unanchored: 3 } as const;
+export const EXIT = { pass: 0, fail: 1, usage: 2, unanchored: 3, notRerun: 4 } as const;
 
 /** A mistake in how the verifier was called (exit 2), as opposed to a bundle that fails. */
 export class UsageError extends Error {}
@@ -17,7 +18,8 @@ export const USAGE_OPTIONS = '[--keys keys.json | --key-fingerprint HEX]';
 
 export function exitStatus(report: VerificationReport): number {
 	if (!report.valid) return EXIT.fail;
-	return report.anchored ? EXIT.pass : EXIT.unanchored;
+	if (!report.anchored) return EXIT.unanchored;
+	return report.otherEngine ? EXIT.notRerun : EXIT.pass;
 }
 
 /** Where the bundle's README says the service publishes its keys, if it says so. */
@@ -39,6 +41,8 @@ export function reportLines(report: VerificationReport, keysUrl: string | null =
 	if (report.checkpoint) lines.push(`checkpoint   ${describeCheckpoint(report.checkpoint)}`);
 	const checked = `${report.passed.length} items checked`;
 	if (!report.valid) lines.push(`FAIL at ${report.failedItem}: ${report.message}.`);
+	else if (report.anchored && report.otherEngine)
+		lines.push(`NOT RE-RUN: signature valid; ${report.message} (${checked}).`);
 	else if (report.anchored) lines.push(`PASS: ${report.message} (${checked}).`);
 	else
 		lines.push(

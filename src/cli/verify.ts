@@ -33,9 +33,9 @@ function verifyZip(
 	}
 }
 
-/** A failure outweighs a missing anchor, which outweighs a pass. */
-const worse = (a: number, b: number) =>
-	a === EXIT.fail || b === EXIT.fail ? EXIT.fail : Math.max(a, b);
+/** A failure outweighs a missing anchor, which outweighs a re-run left undone, then a pass. */
+const SEVERITY: number[] = [EXIT.pass, EXIT.notRerun, EXIT.unanchored, EXIT.fail];
+const worse = (a: number, b: number) => (SEVERITY.indexOf(a) >= SEVERITY.indexOf(b) ? a : b);
 
 function main(): number {
 	const { values, positionals } = parseArgs({

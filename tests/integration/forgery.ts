@@ -14,19 +14,23 @@ import { signStatement } from '../../src/lib/evidence/statement';
 
 const utf8 = (text: string) => new TextEncoder().encode(text);
 
+/** The forger's default change: the reference is not re-computed, so the bundle re-runs cleanly. */
+const newReference = (m: EvidenceManifest): EvidenceManifest => ({
+	...m,
+	claim: { ...m.claim, manuscriptReference: 'Nature 999, 1 (2027)' }
+});
+
+/** `change` edits the manifest (result.json follows its result); `forger` signs everything. */
 export function forgeBundle(
 	files: EvidenceFiles,
-	forger: SigningKey = newSigningKey()
+	forger: SigningKey = newSigningKey(),
+	change: (m: EvidenceManifest) => EvidenceManifest = newReference
 ): { files: EvidenceFiles; forger: SigningKey } {
 	const manifest = JSON.parse(
 		new TextDecoder().decode(files[BUNDLE_FILES.manifest])
 	) as EvidenceManifest;
-	// The reference is not re-computed by the re-run, so the forged bundle re-runs cleanly.
-	const forged = canonicalJson({
-		...manifest,
-		claim: { ...manifest.claim, manuscriptReference: 'Nature 999, 1 (2027)' },
-		signingKeyId: forger.id
-	});
+	const changed = change(manifest);
+	const forged = canonicalJson({ ...changed, signingKeyId: forger.id });
 	const keys = { keys: [{ id: forger.id, algorithm: 'Ed25519', publicKey: forger.publicKey }] };
 	const {
 		[BUNDLE_FILES.contents]: _contents,
@@ -36,6 +40,7 @@ export function forgeBundle(
 	const listed: EvidenceFiles = {
 		...rest,
 		[BUNDLE_FILES.manifest]: utf8(forged),
+		[BUNDLE_FILES.result]: utf8(canonicalJson(changed.result)),
 		[BUNDLE_FILES.signature]: utf8(signText(forged, forger.secretKey) + '\n'),
 		[BUNDLE_FILES.publicKey]: utf8(forger.publicKey + '\n'),
 		[BUNDLE_FILES.signingKeys]: utf8(JSON.stringify(keys, null, '\t') + '\n')

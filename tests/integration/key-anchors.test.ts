@@ -3,14 +3,17 @@
  * PASS. A forger who re-signs a bundle with their own key, listed in the bundle's own
  * signing-keys.json, gets NOT ANCHORED (exit 3) from both verify.mjs and `npm run verify`; PASS
  * (exit 0) needs --keys FILE or --key-fingerprint HEX naming the key, and the service's own list
- * (/seal) refuses the forger outright.
+ * (/seal) refuses the forger outright. A genuine bundle of an older engine version is intact but
+ * not re-run by this engine: NOT RE-RUN (exit 4), and /seal says why.
  */
 import { spawnSync } from 'node:child_process';
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
+import { ENGINE_VERSION } from '../../src/lib/certify';
 import type { EvidenceFiles } from '../../src/lib/evidence/layout';
+import type { EvidenceManifest } from '../../src/lib/evidence/manifest';
 import { verifyEvidence } from '../../src/lib/evidence/verify';
 import { publishedKeys, serviceKey } from '../../src/lib/server/evidence/keys';
 import { bundleVerifier } from '../../src/lib/server/evidence/verifier-file';
@@ -135,5 +138,63 @@ describe('the genuine bundle', () => {
 			expect(bundled(genuine, args).status, args.join(' ')).toBe(2);
 			expect((await cli(genuine, args)).status, args.join(' ')).toBe(2);
 		}
+	});
+});
+
+describe('a genuine bundle made by another engine version', () => {
+	// What a bundle issued before an engine change looks like: the service's own key over a manifest
+	// and result that name the older engine (the numbers are the ones that engine signed).
+	const older = (m: EvidenceManifest): EvidenceManifest => ({
+		...m,
+		engineVersion: '3.1.0',
+		result: {
+			...m.result,
+			engine: { ...m.result.engine, version: '3.1.0' }
+		} as EvidenceManifest['result']
+	});
+	let made: EvidenceFiles;
+	beforeAll(() => {
+		expect(ENGINE_VERSION).not.toBe('3.1.0');
+		made = forgeBundle(genuine, serviceKey(), older).files;
+	});
+
+	it('is intact but not re-run: NOT RE-RUN (exit 4) from npm run verify, with the reason', async () => {
+		const report = verifyEvidence(made, { trustedKeyIds: [serviceKey().id] });
+		expect(report).toMatchObject({ valid: true, anchored: true, otherEngine: '3.1.0' });
+		expect(report.passed).not.toContain('re-run');
+		expect(report.message).toContain(
+			`made by engine 3.1.0 and this verifier has engine ${ENGINE_VERSION}`
+		);
+		const run = await cli(made, ['--keys', keysFile]);
+		expect(run.status, run.out).toBe(4);
+		expect(run.out).toMatch(/^NOT RE-RUN: signature valid; every hash and both signatures agree/m);
+		// With several bundles the worst status wins: a missing anchor outweighs a re-run left undone.
+		const zips = [made, forged].map((files, i) => {
+			const zip = path.join(mkdtempSync(path.join(scratch, `two-${i}-`)), 'bundle.zip');
+			return { zip, files };
+		});
+		for (const { zip, files } of zips) writeFileSync(zip, await zipFiles(files, new Date(0), 'b'));
+		const both = spawnSync(
+			process.execPath,
+			['scripts/cli.mjs', 'verify', ...zips.map((z) => z.zip)],
+			{
+				encoding: 'utf8'
+			}
+		);
+		expect(both.status, both.stdout).toBe(3);
+	});
+
+	it('is intact on /seal, which says it was not re-run there and why', async () => {
+		const { report } = await checkBundle(world.database, await zipFiles(made, new Date(0), 'b'));
+		expect(report).toMatchObject({ valid: true, otherEngine: '3.1.0' });
+		expect(report.message).toMatch(/the bundle's own verify\.mjs, which has engine 3\.1\.0/);
+	});
+
+	it('fails when its result names another engine than its manifest', () => {
+		const split = forgeBundle(genuine, serviceKey(), (m) => ({ ...m, engineVersion: '3.1.0' }));
+		expect(verifyEvidence(split.files, { trustedKeyIds: [serviceKey().id] })).toMatchObject({
+			valid: false,
+			failedItem: 'engine version'
+		});
 	});
 });

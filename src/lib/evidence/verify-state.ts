@@ -55,4 +55,6 @@ export interface State {
 	manifest?: EvidenceManifest;
 	fingerprint?: string;
 	checkpoint?: LedgerCheckpoint;
+	/** The engine the bundle was made with, when it is not this verifier's (no re-run here). */
+	otherEngine?: string;
 }

@@ -5,6 +5,7 @@
  * and the server. The checks live one part a file (verify-signatures, verify-counts, verify-rerun,
  * verify-trials); this file runs them in order and writes the report.
  */
+import { ENGINE_VERSION } from '../certify';
 import type { LedgerCheckpoint } from './checkpoint';
 import type { EvidenceFiles } from './layout';
 import { checkAnalyses, checkCounts } from './verify-counts';
@@ -34,6 +35,11 @@ export interface VerificationReport {
 	checkpoint: LedgerCheckpoint | null;
 	/** The items that passed, in the order checked. */
 	passed: string[];
+	/**
+	 * The engine version the bundle was made with when this verifier has another: everything but
+	 * the re-run was checked, and the bundle's own verify.mjs (that engine) can re-run it.
+	 */
+	otherEngine: string | null;
 }
 
 export function verifyEvidence(
@@ -50,7 +56,8 @@ export function verifyEvidence(
 		keyId: s.keyId ?? null,
 		anchored: options.trustedKeyIds !== undefined,
 		checkpoint: s.checkpoint ?? null,
-		passed: s.passed
+		passed: s.passed,
+		otherEngine: s.otherEngine ?? null
 	});
 	try {
 		checkContents(s);
@@ -69,5 +76,10 @@ export function verifyEvidence(
 			return report(error.item, error.message);
 		return report('bundle', `cannot be checked: ${(error as Error).message}`);
 	}
+	if (s.otherEngine)
+		return report(
+			null,
+			`every hash and both signatures agree, but the computation was not re-run: the bundle was made by engine ${s.otherEngine} and this verifier has engine ${ENGINE_VERSION}; the bundle's own verify.mjs, which has engine ${s.otherEngine}, re-runs it`
+		);
 	return report(null, 'every hash, both signatures and the re-run agree');
 }

@@ -25,7 +25,8 @@ const unreadable = (message: string): VerificationReport => ({
 	keyId: null,
 	anchored: false,
 	checkpoint: null,
-	passed: []
+	passed: [],
+	otherEngine: null
 });
 
 /** Named task `verifyBundle`: inflates the zip as streams, then runs the whole verifier. */
