@@ -14,6 +14,7 @@ import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { ENGINE_VERSION } from '../../src/lib/certify';
 import type { EvidenceFiles } from '../../src/lib/evidence/layout';
 import type { EvidenceManifest } from '../../src/lib/evidence/manifest';
+import type { CheckAttributes } from '../../src/lib/server/db/models/Check';
 import { verifyEvidence } from '../../src/lib/evidence/verify';
 import { publishedKeys, serviceKey } from '../../src/lib/server/evidence/keys';
 import { bundleVerifier } from '../../src/lib/server/evidence/verifier-file';
@@ -196,5 +197,20 @@ describe('a genuine bundle made by another engine version', () => {
 			valid: false,
 			failedItem: 'engine version'
 		});
+	});
+});
+
+describe('a check run by another engine version', () => {
+	it('is not certified: its bundle could not re-run under its own verify.mjs', async () => {
+		const check = await finishedCheck(world, 47);
+		const { Check } = world.database.models;
+		const row = (await Check.findByPk(check.id))!;
+		const result = row.get('result') as NonNullable<CheckAttributes['result']>;
+		await row.update({ result: { ...result, engine: { ...result.engine, version: '3.1.0' } } });
+		await expect(
+			issueCertificate(world.database, world.author, world.claimId, check.id)
+		).rejects.toThrow(
+			`This check was run by engine 3.1.0, and this service has engine ${ENGINE_VERSION}; run the check again to certify it`
+		);
 	});
 });

@@ -2,6 +2,7 @@
  * Certificates: issued from a finished check in one transaction (row, files and ledger entries
  * together or not at all); a later issue for the same claim supersedes the earlier one.
  */
+import { ENGINE_VERSION } from '$lib/certify';
 import { isTrialsResult } from '$lib/certify/trials';
 import { isTargetResult } from '$lib/certify/fidelity-target';
 import type { CertifiedResult } from '$lib/evidence/manifest';
@@ -140,6 +141,14 @@ function evidenceInput(
 	};
 }
 
+/** A bundle must re-run under its own verify.mjs, which has this service's engine. */
+function requireThisEngine(version: string | undefined) {
+	if (version !== ENGINE_VERSION)
+		throw new ConflictError(
+			`This check was run by engine ${version ?? 'unknown'}, and this service has engine ${ENGINE_VERSION}; run the check again to certify it`
+		);
+}
+
 async function prepare(
 	database: Database,
 	caller: Actor,
@@ -149,6 +158,7 @@ async function prepare(
 ) {
 	const claim = await requireClaim(database, caller, claimId, 'issue-certificate');
 	const source = await finishedCheck(database, claimId, checkId);
+	requireThisEngine((source.check.result as { engine?: { version?: string } }).engine?.version);
 	const id = newId();
 	const supersedes = await currentCertificate(database, claimId);
 	const tasks = await engineTasks(database);
@@ -172,6 +182,7 @@ async function prepare(
 		throw new ConflictError(
 			`This check cannot be certified (${verdict.failedItem}: ${verdict.message}); run the check again`
 		);
+	requireThisEngine(verdict.otherEngine ?? ENGINE_VERSION);
 	return { claim, evidence, supersedes, creators };
 }
 
