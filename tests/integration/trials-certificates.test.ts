@@ -275,7 +275,14 @@ describe('a referee re-runs a trials claim from a review link', () => {
 		expect(view.tables.map((t) => t.basis)).toEqual([0, 1]);
 		// The review page's list of re-runs, rendered as the server renders it (no bound to move).
 		const { body } = render(ReRuns, {
-			props: { recordedSeed: 1, certifiedLower: null, checks: [rerun], cancellable: [], form: null }
+			props: {
+				recordedSeed: 1,
+				certifiedLower: null,
+				seedless: true,
+				checks: [rerun],
+				cancellable: [],
+				form: null
+			}
 		});
 		expect(body).toContain('Identical to the certificate, number for number.');
 		expect(body).toMatch(/data-testid="rerun-schmidt">\d+</);
