@@ -41,6 +41,7 @@ import { createReviewLink } from '../../src/lib/server/review/review-links';
 import { refereeFor } from '../../src/lib/server/review/review-use';
 import { shareClaim } from '../../src/lib/server/review/shares';
 import ReRuns from '../../src/routes/review/[token]/ReRuns.svelte';
+import ReviewPage from '../../src/routes/review/[token]/+page.svelte';
 import { TARGET_EXAMPLE, targetCountsCsv } from '../target-counts';
 import { asUser } from './actors';
 import { addGroup, addUser, bytesOf, claimFields } from './backend-fixtures';
@@ -130,6 +131,14 @@ async function rendered(c: Certified, rerun: RefereeCheck): Promise<string> {
 	return body.replace(/<!--[^]*?-->/g, '').replace(/\s+/g, ' ');
 }
 
+/** The whole review page as the server renders it from its load's data (a crash is a 500). */
+async function reviewPage(c: Certified): Promise<string> {
+	const view = await refereeView(world.database, c.referee);
+	const data = { ...view, cancellable: [], token: 'rvw_test' };
+	const { body } = render(ReviewPage, { props: { data, form: null } as never });
+	return body.replace(/<!--[^]*?-->/g, '').replace(/\s+/g, ' ');
+}
+
 beforeAll(async () => {
 	world = await mailWorld();
 	tools = mkdtempSync(path.join(tmpdir(), 'rankseal-target-referee-'));
@@ -212,6 +221,18 @@ describe.each(['declared', 'calibration-run'] as const)(
 			expect(body).toContain('Identical to the certificate, number for number.');
 			expect(body).toMatch(/exact limits/);
 			expect(body).not.toMatch(/\(fresh\)|moved it|resampling noise|stated error/);
+		});
+
+		it('renders the whole review page: the certified bound, the frozen λ and the re-runs', async () => {
+			const page = await reviewPage(c);
+			expect(page).toContain(`data-testid="target-lower">${certified.statistic.lower.toFixed(5)}<`);
+			expect(page).toContain(
+				`data-testid="target-lambda">${certified.target.map((x) => x.toPrecision(6)).join(', ')}<`
+			);
+			expect(page).toMatch(kind === 'declared' ? /declared with the claim/ : /calibration run/);
+			expect(page).toContain('no resampling (exact: the seed plays no part)');
+			expect(page).toContain('data-testid="rerun-list"');
+			expect(page).not.toMatch(/resampling noise|moved it/);
 		});
 
 		it('may change only the seed: another confidence is refused before anything runs', async () => {
