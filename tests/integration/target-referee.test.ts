@@ -230,6 +230,13 @@ describe.each(['declared', 'calibration-run'] as const)(
 				`data-testid="target-lambda">${certified.target.map((x) => x.toPrecision(6)).join(', ')}<`
 			);
 			expect(page).toMatch(kind === 'declared' ? /declared with the claim/ : /calibration run/);
+			// The note under the cautions says where λ came from (it said "declared" for a fitted λ).
+			expect(page).toMatch(
+				kind === 'declared'
+					? /carries the declared λ.*declared before the data/
+					: /carries λ and the calibration run; its verifier re-fits λ/
+			);
+			if (kind === 'calibration-run') expect(page).not.toMatch(/carries the declared λ/);
 			expect(page).toContain('no resampling (exact: the seed plays no part)');
 			expect(page).toContain('data-testid="rerun-list"');
 			expect(page).not.toMatch(/resampling noise|moved it/);
