@@ -2,19 +2,26 @@
  * fidelity-target through the built app (witnesses.md §4.3′): a claim declaring λ over the JSON
  * API, the counts (basis 0 computational, basis 1 tilted) uploaded, the check on the worker pool,
  * the check and claim pages as a signed-in browser receives them, the method page, the planner's
- * refusal and the certificate (it carries λ). Expected numbers: the engine called directly.
+ * refusal, the certificate (it carries λ) and a referee's re-run from a review link (exact limits: a
+ * fresh seed gives the same numbers). Expected numbers: the engine called directly.
  */
 import { rmSync } from 'node:fs';
+import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { parseCounts } from '../../src/lib/certify';
 import { certifyTarget } from '../../src/lib/certify/fidelity-target';
 import { sha256Hex } from '../../src/lib/evidence/hash';
+import { newId, newSecret } from '../../src/lib/server/core/ids';
+import { openDatabase } from '../../src/lib/server/db';
 import { TARGET_EXAMPLE, targetCountsCsv } from '../target-counts';
 import { seedApiWorld, type ApiWorld } from './api-world';
 import { startApp, type AppServer } from './server';
 
 let app: AppServer;
 let world: ApiWorld;
+let editorToken: string;
+let certifiedClaimId: string;
+const EDITOR_EMAIL = 'harriet.vell@journal.example';
 const csv = targetCountsCsv(TARGET_EXAMPLE.raw, TARGET_EXAMPLE.v, 1e6);
 const bytes = new TextEncoder().encode(csv);
 
@@ -33,8 +40,34 @@ const page = async (route: string) =>
 		await fetch(app.origin + route, { headers: { cookie: `rankseal_session=${world.session}` } })
 	).text();
 
+/** An editor with an API token, written into the data folder before the app starts. */
+async function seedEditor(dataDir: string): Promise<string> {
+	const database = await openDatabase(path.join(dataDir, 'rankseal.sqlite'));
+	const userId = newId();
+	await database.models.User.create({
+		id: userId,
+		email: EDITOR_EMAIL,
+		name: 'Harriet Vell',
+		passwordHash: 'unused',
+		accountRole: 'editor',
+		emailVerifiedAt: new Date()
+	});
+	const { token, hash } = newSecret('rks_');
+	const prefix = token.slice(0, 12);
+	await database.models.ApiToken.create({
+		id: newId(),
+		userId,
+		name: 'e2e',
+		prefix,
+		tokenHash: hash
+	});
+	await database.sequelize.close();
+	return token;
+}
+
 beforeAll(async () => {
 	world = await seedApiWorld();
+	editorToken = await seedEditor(world.dataDir);
 	app = await startApp({
 		RANKSEAL_DATA_DIR: world.dataDir,
 		RANKSEAL_DEMO: '0',
@@ -99,6 +132,41 @@ describe('fidelity-target in the app', () => {
 		);
 		expect(issued.status).toBe(201);
 		expect(await issued.json()).toMatchObject({ certifiedSchmidtNumber: 2, status: 'valid' });
+		certifiedClaimId = claim.id;
+	});
+
+	it('a referee re-runs it from a review link with a fresh seed: identical, and the page says the seed plays no part', async () => {
+		const shared = await call(
+			`/api/v1/claims/${certifiedClaimId}/shares`,
+			json({ email: EDITOR_EMAIL, journal: 'Journal of Invented Optics', manuscript: 'JIO-7' })
+		);
+		expect(shared.status, await shared.clone().text()).toBe(201);
+		const link = await fetch(`${app.origin}/api/v1/claims/${certifiedClaimId}/review-links`, {
+			...json({}),
+			headers: { 'content-type': 'application/json', authorization: `Bearer ${editorToken}` }
+		});
+		expect(link.status, await link.clone().text()).toBe(201);
+		const reviewPath = new URL((await link.json()).url).pathname;
+		const api = `${app.origin}/api/v1${reviewPath}`;
+		const started = await fetch(`${api}/checks`, json({ seed: 4242 }));
+		expect(started.status, await started.clone().text()).toBe(202);
+		let rerun = await started.json();
+		// Polled as a script would; only the runner's timeout bounds the wait.
+		while (rerun.status !== 'done' && rerun.status !== 'failed') {
+			await new Promise((wait) => setTimeout(wait, 100));
+			rerun = await (await fetch(`${api}/checks/${rerun.id}`)).json();
+		}
+		expect(rerun.comparison).toEqual({
+			sameSeed: false,
+			identical: true,
+			withinError: true,
+			firstDifference: null
+		});
+		// The review page as a referee's browser (no cookies) receives it.
+		const html = (await (await fetch(app.origin + reviewPath)).text()).replace(/<!--[^]*?-->/g, '');
+		expect(html).toMatch(/Seed 4242\s+\(plays no part in this check\)/);
+		expect(html).toContain('Identical to the certificate, number for number.');
+		expect(html).not.toContain('data-testid="rerun-difference"');
 	});
 
 	it('lists the method on /methods, explains it on its page, and the planner API plans it with λ', async () => {

@@ -41,6 +41,7 @@ import { shareClaim } from '../../src/lib/server/review/shares';
 import { asUser } from './actors';
 import { addGroup, addUser, bytesOf, claimFields } from './backend-fixtures';
 import ReRuns from '../../src/routes/review/[token]/ReRuns.svelte';
+import ReviewPage from '../../src/routes/review/[token]/+page.svelte';
 import SealRecord from '../../src/routes/seal/SealRecord.svelte';
 import { forgeBundle } from './forgery';
 import { mailTo, mailWorld, type MailWorld } from './mail-world';
@@ -275,10 +276,21 @@ describe('a referee re-runs a trials claim from a review link', () => {
 		expect(view.tables.map((t) => t.basis)).toEqual([0, 1]);
 		// The review page's list of re-runs, rendered as the server renders it (no bound to move).
 		const { body } = render(ReRuns, {
-			props: { recordedSeed: 1, certifiedLower: null, checks: [rerun], cancellable: [], form: null }
+			props: {
+				recordedSeed: 1,
+				certifiedLower: null,
+				seedless: true,
+				checks: [rerun],
+				cancellable: [],
+				form: null
+			}
 		});
 		expect(body).toContain('Identical to the certificate, number for number.');
 		expect(body).toMatch(/data-testid="rerun-schmidt">\d+</);
+		// The whole review page renders (ResultSummary knows no trials result: it threw, a 500).
+		const data = { ...view, cancellable: [], token: 'rvw_test' };
+		const page = render(ReviewPage, { props: { data, form: null } as never }).body;
+		expect(page).toContain('data-testid="rerun-list"');
 		const listed = (await listChecks(database, asUser(author), claimId)).map((c) => c.id);
 		expect(listed).not.toContain(started.id);
 		await expect(

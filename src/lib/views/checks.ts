@@ -36,7 +36,7 @@ export interface Comparison {
 	sameSeed: boolean;
 	/** Every number equal (the promise for the recorded seed); null until the re-run is done. */
 	identical: boolean | null;
-	/** |lower bound difference| ≤ the certificate's standard error; null until done. */
+	/** |lower bound difference| ≤ the certificate's SE (no SE: `identical`, see seedless.ts); null until done. */
 	withinError: boolean | null;
 	firstDifference: string | null;
 }

@@ -4,7 +4,7 @@
  */
 import { readFile } from 'node:fs/promises';
 import type { CertificationResult } from '$lib/certify';
-import { isTrialsResult } from '$lib/certify/trials';
+import { seedless } from '$lib/certify/seedless';
 import { checkRequestJsonSchema, checkRequestSchema } from '$lib/claims/schema';
 import { alignedRerun, firstDifference } from '$lib/evidence/compare';
 import type { Actor, RefereeActor } from '../core/actor';
@@ -88,8 +88,8 @@ export function compareRuns(certified: CheckView, rerun: CheckView): Comparison 
 	const b = rerun.result;
 	if (!b) return { sameSeed, identical: null, withinError: null, firstDifference: null };
 	const difference = firstDifference(a, alignedRerun(a, b));
-	// Time-ordered trials draw no random numbers: a re-run agrees to the bit or not at all.
-	if (isTrialsResult(a))
+	// Trials and exact limits draw no random numbers (and have no standard error): bit or nothing.
+	if (seedless(a))
 		return {
 			sameSeed,
 			identical: !difference,
