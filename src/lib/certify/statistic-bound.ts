@@ -168,7 +168,8 @@ export function cellShare(
 }
 
 function fidelityBoundNote(perCell: boolean, share: number, byCells: boolean): string {
-	const cellsShare = `1/${(1 / CELL_SHARE).toLocaleString('en')}`;
+	// No locale formatting: the note is part of the result that every verifier compares bit for bit.
+	const cellsShare = `1/${1 / CELL_SHARE}`;
 	if (byCells)
 		return `Lower bound from exact per-cell limits: Clopper–Pearson limits on both matching fractions and on every off-diagonal computational cell, combined by the union bound at ${cellsShare} of the error (the floor took the rest).`;
 	const floor =
