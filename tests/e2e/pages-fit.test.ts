@@ -62,6 +62,7 @@ describe('every page fits a laptop and a phone', () => {
 		['lead', 'account', () => '/account'],
 		['admin', 'users', () => '/admin/users'],
 		['admin', 'outbox', () => '/admin/outbox'],
+		['admin', 'dois', () => '/admin/dois'],
 		['editor', 'editor-claims', () => '/claims'],
 		['loner', 'loner-claims', () => '/claims'],
 		['lead', 'not-found', () => '/claims/no-such-claim']
