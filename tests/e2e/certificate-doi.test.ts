@@ -126,7 +126,13 @@ describe('a certificate page with its DOI and citation', () => {
 		await browser.context.addCookies([
 			{ name: 'rankseal_session', value: adminSession, url: app.origin }
 		]);
-		await page.goto(`${app.origin}/admin/dois`);
+		// Reached as an admin reaches it: from the header, and from the admin's home.
+		await page.goto(`${app.origin}/claims`);
+		await expect(
+			page.getByTestId('admin-home').locator('a[href="/admin/dois"]').count()
+		).resolves.toBe(1);
+		await page.getByRole('link', { name: 'DOIs', exact: true }).click();
+		await page.waitForURL(`${app.origin}/admin/dois`);
 		const entry = page.locator(`[data-testid=dois] li[data-certificate="${certificateId}"]`);
 		await expect(entry.locator('a').first().textContent()).resolves.toBe(
 			`10.99999/rankseal.${certificateId}`
