@@ -65,6 +65,7 @@ GET /settings/tokens                            L    200  200  200  200  200  L 
 GET /admin/users                                L    403  403  403  403  403  L    L    L    L    L    L    200
 GET /admin/outbox                               L    403  403  403  403  403  L    L    L    L    L    L    200
 GET /admin/outbox/[id]                          L    403  403  403  403  403  L    L    L    L    L    L    200
+GET /admin/dois                                 L    403  403  403  403  403  L    L    L    L    L    L    200
 # review links
 GET /review/[token]                             404  404  404  404  404  404  200  404  404  404  404  404  404
 GET /api/v1/review/[token]                      404  404  404  404  404  404  200  404  404  404  404  404  404
@@ -121,6 +122,8 @@ POST /api/v1/reports/[id]/release               401  404  403  403  404  200  40
 POST /settings/tokens?/create                   L    200  200  200  200  200  L    L    L    L    L    L    200
 POST /api/v1/tokens                             401  201  201  201  201  201  401  401  401  403  401  401  201
 POST /admin/outbox/[id]?/requeue                L    403  403  403  403  403  L    L    L    L    L    L    303
+# the seeded certificate's DOI is waiting, being sent or registered: the admin reaches the state rule
+POST /admin/dois?/retry                         L    403  403  403  403  403  L    L    L    L    L    L    409
 POST /shared/[token]?/signup                    303  303  303  303  303  303  303  303  303  303  303  303  303
 # the invitation goes to another address than any caller's: 403, the address masked
 POST /invite/[token]?/accept                    L    403  403  403  403  403  L    L    L    L    L    L    403

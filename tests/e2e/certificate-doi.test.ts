@@ -2,16 +2,20 @@
  * A certificate's DOI and citation in a real browser (issue 21): issued from the check page, its
  * page shows the DOI at once with its registration state, the citation and the data-availability
  * sentence; once the app's sender has registered it with the local fake registry, the DOI link
- * resolves to /seal/{id}; the citation endpoint answers each format with its media type.
+ * resolves to /seal/{id}; the citation endpoint answers each format with its media type; an admin
+ * sees the registration on /admin/dois and, once it has been given up, sends it again from there.
  */
 import { rmSync } from 'node:fs';
+import sqlite3 from 'sqlite3';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DOI_REGISTRATION_WORDS, type DoiRegistration } from '../../src/lib/doi-registration';
 import { seedApiWorld, type ApiWorld } from './api-world';
 import { launchBrowser, type TestBrowser } from './browser';
 import { addFinishedClaims, type FinishedClaim } from './certificate-world';
-import { readRows, whenChanged } from './fault-world';
+import { sessionKey } from '../../src/lib/server/accounts/auth';
+import { newId } from '../../src/lib/server/core/ids';
+import { databaseFile, readRows, whenChanged, withDatabase } from './fault-world';
 import { startApp, type AppServer } from './server';
 
 let app: AppServer;
@@ -20,10 +24,25 @@ let claim: FinishedClaim;
 let browser: TestBrowser;
 let page: Page;
 let certificateId = '';
+const adminSession = newId().replaceAll('-', '');
+
+/** An admin in no group, with a browser session, written before the app starts. */
+async function seedAdmin(dataDir: string) {
+	await withDatabase(dataDir, async ({ models: { User, Session } }) => {
+		const id = newId();
+		await User.create({
+			...{ id, email: 'eli@example.test', name: 'Eli Moss', passwordHash: 'unused' },
+			...{ accountRole: 'admin', emailVerifiedAt: new Date() }
+		});
+		const expiresAt = new Date(Date.now() + 86_400_000);
+		await Session.create({ id: sessionKey(adminSession), userId: id, expiresAt });
+	});
+}
 
 beforeAll(async () => {
 	world = await seedApiWorld();
 	[claim] = await addFinishedClaims(world.dataDir, 1);
+	await seedAdmin(world.dataDir);
 	// The app starts its own fake registry (no DATACITE_URL), here on any free port.
 	app = await startApp({
 		RANKSEAL_DATA_DIR: world.dataDir,
@@ -101,4 +120,60 @@ describe('a certificate page with its DOI and citation', () => {
 		expect(refused.status()).toBe(400);
 		expect(await refused.json()).toMatchObject({ error: { field: 'format' } });
 	});
+
+	it('shows an admin the registration on /admin/dois, and sends a given-up one again', async () => {
+		await browser.context.clearCookies();
+		await browser.context.addCookies([
+			{ name: 'rankseal_session', value: adminSession, url: app.origin }
+		]);
+		// Reached as an admin reaches it: from the header, and from the admin's home.
+		await page.goto(`${app.origin}/claims`);
+		await expect(
+			page.getByTestId('admin-home').locator('a[href="/admin/dois"]').count()
+		).resolves.toBe(1);
+		await page.getByRole('link', { name: 'DOIs', exact: true }).click();
+		await page.waitForURL(`${app.origin}/admin/dois`);
+		const entry = page.locator(`[data-testid=dois] li[data-certificate="${certificateId}"]`);
+		await expect(entry.locator('a').first().textContent()).resolves.toBe(
+			`10.99999/rankseal.${certificateId}`
+		);
+		await expect(entry.locator('[data-status]').textContent()).resolves.toBe('registered');
+		await expect(entry.locator(`a[href="/seal/${certificateId}"]`).count()).resolves.toBe(1);
+		await expect(entry.getByRole('button', { name: 'Try again now' }).count()).resolves.toBe(0);
+
+		// As the sender leaves a registration the registry refused outright (a 401, final).
+		await writeSql(
+			`update certificate_dois set status = 'failed', attempts = 1, next_attempt_at = null,
+			 last_error = 'the registry answered 401: bad credentials'
+			 where certificate_id = '${certificateId}'`
+		);
+		await page.getByRole('link', { name: 'given up' }).click();
+		await page.waitForURL(/status=failed/);
+		await expect(entry.locator('[data-status]').textContent()).resolves.toBe('given up');
+		await expect(entry.getByTestId('doi-error').textContent()).resolves.toContain('401');
+		await entry.getByRole('button', { name: 'Try again now' }).click();
+		await whenChanged(world.dataDir, async () => (await doiStatus()) === 'done');
+		await page.goto(`${app.origin}/admin/dois`);
+		await expect(entry.locator('[data-status]').textContent()).resolves.toBe('registered');
+		await expect(entry.getByTestId('doi-error').count()).resolves.toBe(0);
+	});
 });
+
+const doiStatus = async () =>
+	(
+		await readRows<{ status: string }>(
+			world.dataDir,
+			`select status from certificate_dois where certificate_id = '${certificateId}'`
+		)
+	)[0]?.status;
+
+/** One write to the app's SQLite file on a connection of its own (the app is idle meanwhile). */
+function writeSql(sql: string): Promise<void> {
+	return new Promise((done, fail) => {
+		const connection = new sqlite3.Database(databaseFile(world.dataDir), (e) => {
+			if (e) return fail(e);
+			connection.configure('busyTimeout', 10_000);
+			connection.run(sql, (error) => connection.close(() => (error ? fail(error) : done())));
+		});
+	});
+}

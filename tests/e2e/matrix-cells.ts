@@ -85,6 +85,7 @@ function body(route: string, caller: Caller, kit: Kit): Body | undefined {
 	const who = `${caller}.${kit.tag}`.toLowerCase();
 	const share = { email: `ed2.${who}@example.test`, journal: 'J. M.', manuscript: 'M-2' };
 	const bodies: Record<string, () => Body> = {
+		'POST /admin/dois?/retry': () => ({ form: { certificateId: kit.certificateId } }),
 		'POST /admin/users?/role': () => ({ form: { userId: kit.spare.id, role: 'editor' } }),
 		'POST /api/v1/claims': () => ({ json: { ...claimFields, bases: [0, 1, 2] } }),
 		'PUT /api/v1/claims/[id]': () => ({ json: { ...claimFields, bases: [0, 1, 2] } }),

@@ -1,9 +1,10 @@
 /**
  * Every page a new user meets, in Chromium at a laptop's 1366 px and a phone's 390 px (issue 7
- * §5): nothing overflows sideways, the verdict, certified, Remove and Set controls stay on
- * screen, and chart labels stay at least 11 px on a phone.
+ * §5): each answers itself (not an error page), nothing overflows sideways, the verdict,
+ * certified, Remove and Set controls and the DOI states stay on screen, and chart labels stay at
+ * least 11 px on a phone.
  */
-import type { Page } from 'playwright-core';
+import type { Page, Response } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { openPages, type PagesSession } from './pages-session';
 
@@ -62,6 +63,7 @@ describe('every page fits a laptop and a phone', () => {
 		['lead', 'account', () => '/account'],
 		['admin', 'users', () => '/admin/users'],
 		['admin', 'outbox', () => '/admin/outbox'],
+		['admin', 'dois', () => '/admin/dois'],
 		['editor', 'editor-claims', () => '/claims'],
 		['loner', 'loner-claims', () => '/claims'],
 		['lead', 'not-found', () => '/claims/no-such-claim']
@@ -69,14 +71,16 @@ describe('every page fits a laptop and a phone', () => {
 	for (const width of WIDTHS) {
 		it.each(pages)(`as %s, %s at ${width} px`, async (who, name, url) => {
 			await session.signedInAs(who);
-			await session.visit(url(), name, width);
+			const response = (await session.visit(url(), name, width)) as Response;
+			// The page itself, not an error page that happens to fit.
+			expect(response.status()).toBe(name === 'not-found' ? 404 : 200);
 			const { scrollWidth, width: shown, out } = await overflow();
 			expect(out).toEqual([]);
 			expect(scrollWidth).toBeLessThanOrEqual(shown);
 		});
 	}
 
-	it('keeps the claims list’s certified and verdict columns, the check list’s verdicts, Remove and Set on a phone', async () => {
+	it('keeps the claims list’s certified and verdict columns, the check list’s verdicts, Remove, Set and DOI states on a phone', async () => {
 		await session.signedInAs('lead');
 		await session.visit('/claims', 'claims', 390);
 		expect(await page.locator('[data-testid=claims-table] [data-verdict]').count()).toBe(
@@ -95,6 +99,9 @@ describe('every page fits a laptop and a phone', () => {
 		await session.visit('/admin/users', 'users', 390);
 		expect(await page.locator('[data-testid=users] button').count()).toBeGreaterThan(2);
 		expect(await allOnScreen('[data-testid=users] button, [data-testid=users] select')).toEqual([]);
+		await session.visit('/admin/dois', 'dois', 390);
+		expect(await page.locator('[data-testid=dois] [data-status]').count()).toBeGreaterThan(0);
+		expect(await allOnScreen('[data-testid=dois] [data-status]')).toEqual([]);
 	});
 
 	it('draws chart labels at 11 px or more on a phone', async () => {

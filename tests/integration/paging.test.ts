@@ -19,6 +19,7 @@ process.env.MAIL_CATCHER_PORT = '0';
 const { app } = await import('../../src/lib/server/app/app');
 const { closeDb } = await import('../../src/lib/server/db');
 const outboxPage = await import('../../src/routes/(app)/admin/outbox/+page.server');
+const doiPage = await import('../../src/routes/(app)/admin/dois/+page.server');
 const claimList = await import('../../src/routes/(app)/claims/+page.server');
 const ledgerApi = await import('../../src/routes/api/v1/ledger/+server');
 const claimsApi = await import('../../src/routes/api/v1/claims/+server');
@@ -69,6 +70,11 @@ describe('page numbers', () => {
 		expect(answer.message).toMatch(/^page: The page must be/);
 	});
 
+	it.each(BAD)('the admin DOI page answers ?page=%s with a 400 naming the page', async (bad) => {
+		const answer = await pageAnswer(doiPage.load as never, `http://x.test/admin/dois?page=${bad}`);
+		expect(answer).toMatchObject({ status: 400, message: expect.stringMatching(/^page: /) });
+	});
+
 	it.each(BAD)('the claims page answers ?page=%s with a 400 naming the page', async (bad) => {
 		const answer = await pageAnswer(claimList.load as never, `http://x.test/claims?page=${bad}`);
 		expect(answer).toMatchObject({ status: 400, message: expect.stringMatching(/^page: /) });
@@ -111,5 +117,7 @@ describe('page numbers', () => {
 			status: 200,
 			message: ''
 		});
+		const lastDois = 'http://x.test/admin/dois?page=1000000&status=failed';
+		expect(await pageAnswer(doiPage.load as never, lastDois)).toEqual({ status: 200, message: '' });
 	});
 });

@@ -197,18 +197,20 @@ describe('accounts, tokens, the outbox and the archive', () => {
 		'manage-accounts',
 		'read-outbox',
 		'read-archive',
-		'read-service-health'
+		'read-service-health',
+		'read-doi-outbox',
+		'retry-doi'
 	];
 	// read-archive: a group's archive, so only for someone in a group (a token as its owner).
 	const table: Record<string, Decision[]> = {
-		anonymous: [D, D, D, D, D, D, D, D, D],
-		lead: [A, A, A, A, A, D, D, A, D],
-		author: [A, A, A, A, A, D, D, A, D],
-		leadToken: [D, D, D, D, D, D, D, A, D],
-		editor: [A, A, A, A, A, D, D, D, D],
-		admin: [A, A, A, D, A, A, A, D, A],
-		loner: [A, A, A, D, A, D, D, D, D],
-		referee: [D, D, D, D, D, D, D, D, D]
+		anonymous: [D, D, D, D, D, D, D, D, D, D, D],
+		lead: [A, A, A, A, A, D, D, A, D, D, D],
+		author: [A, A, A, A, A, D, D, A, D, D, D],
+		leadToken: [D, D, D, D, D, D, D, A, D, D, D],
+		editor: [A, A, A, A, A, D, D, D, D, D, D],
+		admin: [A, A, A, D, A, A, A, D, A, A, A],
+		loner: [A, A, A, D, A, D, D, D, D, D, D],
+		referee: [D, D, D, D, D, D, D, D, D, D, D]
 	};
 	for (const [who, expected] of Object.entries(table)) {
 		it(`${who}: ${expected.join(' ')}`, async () => {

@@ -18,6 +18,8 @@ export type ServiceAction =
 	| 'manage-tokens'
 	| 'manage-accounts'
 	| 'read-outbox'
+	| 'read-doi-outbox'
+	| 'retry-doi'
 	| 'read-service-health'
 	| 'read-archive';
 
@@ -29,6 +31,8 @@ const SERVICE_DENIALS: Record<ServiceAction, string> = {
 	'manage-tokens': 'Sign in to see or revoke your API tokens.',
 	'manage-accounts': 'Only admins may do this.',
 	'read-outbox': 'Only admins may do this.',
+	'read-doi-outbox': 'Only admins may see the DOI registrations.',
+	'retry-doi': 'Only admins may send a DOI registration again.',
 	'read-service-health': 'Only admins may do this.',
 	'read-archive':
 		'You belong to no group, so there is no group archive to list. Start a group or accept an invitation to one first.'
@@ -46,7 +50,13 @@ export async function decideService(
 			: 'denied';
 	// Tokens act on claims only; accounts, groups and tokens need a person signed in.
 	if (actor.kind !== 'user') return 'denied';
-	const adminOnly: ServiceAction[] = ['manage-accounts', 'read-outbox', 'read-service-health'];
+	const adminOnly: ServiceAction[] = [
+		'manage-accounts',
+		'read-outbox',
+		'read-service-health',
+		'read-doi-outbox',
+		'retry-doi'
+	];
 	if (adminOnly.includes(action)) {
 		// Re-read: an admin demoted a moment ago must not keep admin powers for the session.
 		const user = await database.models.User.findByPk(actor.userId);

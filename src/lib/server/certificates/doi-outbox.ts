@@ -6,7 +6,7 @@
  */
 import type { Transaction } from 'sequelize';
 import type { Database } from '../db';
-import type { DoiCreator } from '../db/models/CertificateDoi';
+import type { DoiCreator, DoiStatus } from '../db/models/CertificateDoi';
 import { doiFor } from './doi-name';
 
 type Listener = () => void;
@@ -40,6 +40,14 @@ export async function queueDoi(
 	return doi;
 }
 
+/** A fresh start for the sender: due now, no attempts counted, no error kept. */
+const freshAttempt = () => ({
+	status: 'queued' as const,
+	attempts: 0,
+	nextAttemptAt: new Date(),
+	lastError: null
+});
+
 /** The certificate changed (superseded, withdrawn): its DOI metadata is sent again. */
 export async function requeueDoi(
 	database: Database,
@@ -48,12 +56,25 @@ export async function requeueDoi(
 ): Promise<void> {
 	const row = await database.models.CertificateDoi.findByPk(certificateId, { transaction });
 	if (!row) return; // issued before DOIs existed and not yet given one (queueMissingDois)
-	const fresh = {
-		status: 'queued' as const,
-		attempts: 0,
-		nextAttemptAt: new Date(),
-		lastError: null
-	};
-	await row.update({ ...fresh, revision: (row.get('revision') as number) + 1 }, { transaction });
+	const revision = (row.get('revision') as number) + 1;
+	await row.update({ ...freshAttempt(), revision }, { transaction });
 	transaction.afterCommit(notify);
+}
+
+/**
+ * A registration given up or waiting for its next try is sent again now, the same revision; any
+ * other state is left alone. Returns the state the row had (null: no such row).
+ */
+export async function retryDoi(
+	database: Database,
+	transaction: Transaction,
+	certificateId: string
+): Promise<DoiStatus | null> {
+	const { CertificateDoi } = database.models;
+	const row = await CertificateDoi.findByPk(certificateId, { transaction });
+	const status = (row?.get('status') as DoiStatus | undefined) ?? null;
+	if (status !== 'failed' && status !== 'retrying') return status;
+	await row!.update(freshAttempt(), { transaction });
+	transaction.afterCommit(notify);
+	return status;
 }
