@@ -1,6 +1,7 @@
 import { redirect } from '@sveltejs/kit';
 import { z } from 'zod';
 import { pageField } from '$lib/paging';
+import { requireService } from '$lib/server/access/permissions';
 import { app } from '$lib/server/app/app';
 import { listDoiRegistrations, retryDoiNow } from '$lib/server/certificates/doi-admin';
 import { config } from '$lib/server/core/config';
@@ -45,8 +46,10 @@ export const actions: Actions = {
 		const form = await event.request.formData();
 		const values = echoValues(form, ['certificateId']);
 		return runFormAction(event, 'retry', values, async () => {
-			const { certificateId } = retryForm.parse(Object.fromEntries(form));
 			const { database } = await app();
+			// Who asks comes before what they sent: a non-admin hears 403 whatever the form holds.
+			await requireService(database, actor, 'retry-doi');
+			const { certificateId } = retryForm.parse(Object.fromEntries(form));
 			// The sender is woken when the change commits (onDoiQueued).
 			await retryDoiNow(database, actor, certificateId);
 			redirect(303, '/admin/dois');

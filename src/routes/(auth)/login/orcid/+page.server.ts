@@ -8,7 +8,7 @@ import {
 } from '$lib/server/accounts/orcid-cookies';
 import { linkPendingByPassword } from '$lib/server/accounts/orcid-sign-in';
 import { app } from '$lib/server/app/app';
-import {echoValues, startSession } from '$lib/server/http/auth-web';
+import { echoValues, startSession } from '$lib/server/http/auth-web';
 import { formRefused } from '$lib/server/http/form-action';
 import { retryWords } from '$lib/server/core/rate-limits';
 import { FieldError } from '$lib/server/core/errors';
