@@ -58,7 +58,8 @@ async function retry(userId: string, role: AccountRole, fields: Record<string, s
 describe('the retry form action', () => {
 	it('refuses someone not an admin beside the form, whatever they name', async () => {
 		// With a certificate named or none at all: who asks is checked before what they sent.
-		for (const fields of [{ certificateId: 'c-1' }, {}]) {
+		const cases: Record<string, string>[] = [{ certificateId: 'c-1' }, {}];
+		for (const fields of cases) {
 			const answer = await retry(researcher, 'researcher', fields);
 			expect(isActionFailure(answer)).toBe(true);
 			expect(answer).toMatchObject({
