@@ -8,7 +8,8 @@ import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { beforeAll, describe, expect, it, vi } from 'vitest';
-import { certify, parseCounts } from '../../src/lib/certify';
+import { render } from 'svelte/server';
+import { certify, ENGINE_VERSION, parseCounts } from '../../src/lib/certify';
 import { parseCalibration } from '../../src/lib/certify/calibration';
 import { sha256Hex } from '../../src/lib/evidence/hash';
 import {
@@ -24,6 +25,8 @@ import { makeEvidence, type Evidence } from '../../src/lib/server/evidence/artif
 import { publishedKeys, serviceKey } from '../../src/lib/server/evidence/keys';
 import { compareRuns } from '../../src/lib/server/review/referee';
 import type { CheckView } from '../../src/lib/server/checks/checks';
+import type { RefereeCheck } from '../../src/lib/views/checks';
+import ReRuns from '../../src/routes/review/[token]/ReRuns.svelte';
 
 vi.setConfig({ testTimeout: 300_000, hookTimeout: 300_000 });
 
@@ -174,5 +177,28 @@ describe('evidence of a calibrated check', () => {
 		});
 		const shifted = { ...plainResult(), certifiedSchmidtNumber: 3 };
 		expect(compareRuns(view(older), view(shifted)).firstDifference).toBe('certifiedSchmidtNumber');
+	});
+
+	it('a re-run by a newer engine than the certificate’s is said so, not "should not happen"', () => {
+		const view = (result: object) => ({ seed: 3, result }) as unknown as CheckView;
+		const now = plainResult();
+		const before = { ...now, engine: { ...now.engine, version: '3.1.0' } };
+		const comparison = compareRuns(view(before), view(now));
+		expect(comparison).toMatchObject({
+			identical: false,
+			firstDifference: 'engine.version',
+			engines: { certified: '3.1.0', rerun: ENGINE_VERSION }
+		});
+		expect(compareRuns(view(now), view(now)).engines).toBeNull();
+		const rerun = { ...view(now), id: 'r1', status: 'done', comparison } as unknown as RefereeCheck;
+		const props = { recordedSeed: 3, certifiedLower: now.statistic.lower, seedless: false };
+		const { body } = render(ReRuns, {
+			props: { ...props, checks: [rerun], cancellable: [], form: null }
+		});
+		const words = body.replace(/<!--[^]*?-->/g, '').replace(/\s+/g, ' ');
+		expect(words).toContain(
+			`The certificate was computed by engine 3.1.0 and this re-run by engine ${ENGINE_VERSION}`
+		);
+		expect(words).not.toContain('this should not happen');
 	});
 });

@@ -199,7 +199,8 @@ describe.each(['declared', 'calibration-run'] as const)(
 				sameSeed: true,
 				identical: true,
 				withinError: true,
-				firstDifference: null
+				firstDifference: null,
+				engines: null
 			});
 			const body = await rendered(c, rerun);
 			expect(body).toContain('Identical to the certificate, number for number.');
@@ -215,7 +216,8 @@ describe.each(['declared', 'calibration-run'] as const)(
 				sameSeed: false,
 				identical: true,
 				withinError: true,
-				firstDifference: null
+				firstDifference: null,
+				engines: null
 			});
 			const body = await rendered(c, rerun);
 			expect(body).toContain('Identical to the certificate, number for number.');

@@ -39,6 +39,11 @@ export interface Comparison {
 	/** |lower bound difference| ≤ the certificate's SE (no SE: `identical`, see seedless.ts); null until done. */
 	withinError: boolean | null;
 	firstDifference: string | null;
+	/**
+	 * The certificate's and the re-run's engine versions when they differ (null when the same):
+	 * engines change their numbers by design, so the bundle's own verify.mjs is the check then.
+	 */
+	engines: { certified: string; rerun: string } | null;
 }
 
 export type RefereeCheck = CheckView & { comparison: Comparison };

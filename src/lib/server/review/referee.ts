@@ -82,22 +82,37 @@ async function ownCheckIds(database: Database, actor: RefereeActor): Promise<str
 		.map((r) => r.get('subjectId') as string);
 }
 
+/** The two engine versions when they differ: numbers of different engines differ by design. */
+function enginesOf(a: CertificationResult, b: CertificationResult): Comparison['engines'] {
+	const [certified, rerun] = [a.engine?.version ?? 'unknown', b.engine?.version ?? 'unknown'];
+	return certified === rerun ? null : { certified, rerun };
+}
+
 export function compareRuns(certified: CheckView, rerun: CheckView): Comparison {
 	const sameSeed = certified.seed === rerun.seed;
 	const a = certified.result as CertificationResult;
 	const b = rerun.result;
-	if (!b) return { sameSeed, identical: null, withinError: null, firstDifference: null };
+	if (!b)
+		return { sameSeed, identical: null, withinError: null, firstDifference: null, engines: null };
 	const difference = firstDifference(a, alignedRerun(a, b));
+	const engines = enginesOf(a, b);
 	// Trials and exact limits draw no random numbers (and have no standard error): bit or nothing.
 	if (seedless(a))
 		return {
 			sameSeed,
 			identical: !difference,
 			withinError: !difference,
-			firstDifference: difference
+			firstDifference: difference,
+			engines
 		};
 	const withinError = Math.abs(a.statistic.lower - b.statistic.lower) <= a.statistic.standardError;
-	return { sameSeed, identical: difference === null, withinError, firstDifference: difference };
+	return {
+		sameSeed,
+		identical: difference === null,
+		withinError,
+		firstDifference: difference,
+		engines
+	};
 }
 
 /** Everything the review page shows. */

@@ -47,7 +47,14 @@ export const reviewSchemas = {
 							sameSeed: { type: 'boolean' },
 							identical: nullable({ type: 'boolean' }),
 							withinError: nullable({ type: 'boolean' }),
-							firstDifference: nullable(text)
+							firstDifference: nullable(text),
+							engines: nullable({
+								type: 'object',
+								required: ['certified', 'rerun'],
+								properties: { certified: text, rerun: text },
+								description:
+									'The certificate’s and the re-run’s engine versions when they differ; null when the same.'
+							})
 						}
 					}
 				}
