@@ -15,3 +15,6 @@ export const DOI_REGISTRATION_WORDS: Record<DoiRegistration, string> = {
 	failed:
 		'DOI registration has not succeeded (the registry refused it or stayed unreachable); the DOI may not resolve yet.'
 };
+
+/** Outbox states in which an admin's "try again now" applies (the others: sent, being sent, done). */
+export const RETRYABLE_DOI_STATES: readonly string[] = ['failed', 'retrying'];

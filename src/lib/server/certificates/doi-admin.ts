@@ -2,6 +2,7 @@
  * The DOI outbox for admins: every certificate's registration at the registry, how it stands, and
  * "try again now" for one that was given up or waits for its next try.
  */
+import { RETRYABLE_DOI_STATES } from '$lib/doi-registration';
 import { MAX_PAGE } from '$lib/paging';
 import type { Actor } from '../core/actor';
 import { ConflictError, NotFoundError } from '../core/errors';
@@ -37,9 +38,6 @@ export interface DoiRegistrationPage {
 }
 
 export const DOI_OUTBOX_PAGE_SIZE = 50;
-
-/** States in which "try again now" applies (the others are sent, being sent, or done). */
-export const RETRYABLE_DOI_STATES: readonly DoiStatus[] = ['failed', 'retrying'];
 
 const iso = (date: Date | null | undefined) => (date ? new Date(date).toISOString() : null);
 

@@ -7,6 +7,7 @@
 import type { Transaction } from 'sequelize';
 import type { Database } from '../db';
 import type { DoiCreator, DoiStatus } from '../db/models/CertificateDoi';
+import { RETRYABLE_DOI_STATES } from '$lib/doi-registration';
 import { doiFor } from './doi-name';
 
 type Listener = () => void;
@@ -73,7 +74,7 @@ export async function retryDoi(
 	const { CertificateDoi } = database.models;
 	const row = await CertificateDoi.findByPk(certificateId, { transaction });
 	const status = (row?.get('status') as DoiStatus | undefined) ?? null;
-	if (status !== 'failed' && status !== 'retrying') return status;
+	if (status === null || !RETRYABLE_DOI_STATES.includes(status)) return status;
 	await row!.update(freshAttempt(), { transaction });
 	transaction.afterCommit(notify);
 	return status;
