@@ -160,7 +160,8 @@ describe('fidelity-target in the app', () => {
 			sameSeed: false,
 			identical: true,
 			withinError: true,
-			firstDifference: null
+			firstDifference: null,
+			engines: null
 		});
 		// The review page as a referee's browser (no cookies) receives it.
 		const html = (await (await fetch(app.origin + reviewPath)).text()).replace(/<!--[^]*?-->/g, '');

@@ -268,7 +268,8 @@ describe('a referee re-runs a trials claim from a review link', () => {
 			sameSeed: true,
 			identical: true,
 			withinError: true,
-			firstDifference: null
+			firstDifference: null,
+			engines: null
 		});
 		// The review page's data: the certificate's kind, and the trials summed into two tables.
 		const view = await refereeView(database, referee);
