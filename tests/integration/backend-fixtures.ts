@@ -11,24 +11,36 @@ export async function addGroup(database: Database, name: string): Promise<string
 }
 
 /** A verified researcher, member of the given groups; no real password hash is needed here. */
+const emailFor = (name: string, id: string) =>
+	`${name.toLowerCase().replace(/\W+/g, '.')}.${id.slice(0, 6)}@example.test`;
+
 export async function addUser(
 	database: Database,
 	name: string,
-	groups: [string, GroupRole][] = []
+	groups: [string, GroupRole][] = [],
+	accountRole: 'researcher' | 'editor' = 'researcher'
 ): Promise<string> {
 	const id = newId();
-	const email = `${name.toLowerCase().replace(/\W+/g, '.')}.${id.slice(0, 6)}@example.test`;
 	await database.models.User.create({
 		id,
-		email,
+		email: emailFor(name, id),
 		name,
 		passwordHash: 'x',
-		accountRole: 'researcher',
+		accountRole,
 		emailVerifiedAt: new Date()
 	});
 	for (const [groupId, role] of groups)
 		await database.models.Membership.create({ id: newId(), groupId, userId: id, role });
 	return id;
+}
+
+/** A journal editor's account (no group), with the address a claim is shared to. */
+export async function addEditor(
+	database: Database,
+	name: string
+): Promise<{ id: string; email: string }> {
+	const id = await addUser(database, name, [], 'editor');
+	return { id, email: emailFor(name, id) };
 }
 
 /** Long-form CSV of Poisson counts from an isotropic state with visibility 0.9. */

@@ -44,7 +44,7 @@ import ReRuns from '../../src/routes/review/[token]/ReRuns.svelte';
 import ReviewPage from '../../src/routes/review/[token]/+page.svelte';
 import { TARGET_EXAMPLE, targetCountsCsv } from '../target-counts';
 import { asUser } from './actors';
-import { addGroup, addUser, bytesOf, claimFields } from './backend-fixtures';
+import { addEditor, addGroup, addUser, bytesOf, claimFields } from './backend-fixtures';
 import { mailWorld, type MailWorld } from './mail-world';
 
 // Safety limits for bundling and checks on a busy machine, not speed checks.
@@ -148,9 +148,7 @@ beforeAll(async () => {
 	process.env.RANKSEAL_VERIFIER = await bundleVerifier(path.join(tools, 'verify.mjs'));
 	const lake = await addGroup(world.database, 'Halvorsen Lake Photonics');
 	author = await addUser(world.database, 'Ada Lind', [[lake, 'author']]);
-	editor = await addUser(world.database, 'Eda Kern');
-	await world.database.models.User.update({ accountRole: 'editor' }, { where: { id: editor } });
-	editorEmail = (await world.database.models.User.findByPk(editor))!.get('email') as string;
+	({ id: editor, email: editorEmail } = await addEditor(world.database, 'Eda Kern'));
 });
 afterAll(async () => {
 	await stopCheckRunner(world.database);

@@ -24,8 +24,7 @@ const DAY_MS = 24 * 60 * 60 * 1000;
 beforeAll(async () => {
 	const { database } = await app();
 	const lake = await addGroup(database, 'Lake optics');
-	const eda = await addUser(database, 'Eda Kern', []);
-	await database.models.User.update({ accountRole: 'editor' }, { where: { id: eda } });
+	const eda = await addUser(database, 'Eda Kern', [], 'editor');
 	editor = asUser(eda, 'editor');
 	outsider = asUser(await addUser(database, 'Ada Lind', [[lake, 'lead']]));
 });

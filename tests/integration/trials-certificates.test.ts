@@ -39,7 +39,7 @@ import { createReviewLink } from '../../src/lib/server/review/review-links';
 import { refereeFor } from '../../src/lib/server/review/review-use';
 import { shareClaim } from '../../src/lib/server/review/shares';
 import { asUser } from './actors';
-import { addGroup, addUser, bytesOf, claimFields } from './backend-fixtures';
+import { addEditor, addGroup, addUser, bytesOf, claimFields } from './backend-fixtures';
 import ReRuns from '../../src/routes/review/[token]/ReRuns.svelte';
 import ReviewPage from '../../src/routes/review/[token]/+page.svelte';
 import SealRecord from '../../src/routes/seal/SealRecord.svelte';
@@ -86,9 +86,7 @@ beforeAll(async () => {
 	process.env.RANKSEAL_VERIFIER = await bundleVerifier(path.join(tools, 'verify.mjs'));
 	const lake = await addGroup(world.database, 'Halvorsen Lake Photonics');
 	author = await addUser(world.database, 'Ada Lind', [[lake, 'author']]);
-	editor = await addUser(world.database, 'Eda Kern');
-	await world.database.models.User.update({ accountRole: 'editor' }, { where: { id: editor } });
-	editorEmail = (await world.database.models.User.findByPk(editor))!.get('email') as string;
+	({ id: editor, email: editorEmail } = await addEditor(world.database, 'Eda Kern'));
 	const fields = { ...claimFields, dimension: D, claimedSchmidtNumber: 3 };
 	const claim = await createClaim(world.database, asUser(author), {
 		...fields,
